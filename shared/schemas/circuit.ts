@@ -1,0 +1,136 @@
+/**
+ * Linger's circuit format: species with initial counts, external signals set by
+ * an input program, and reactions with stoichiometry and a rate law.
+ *
+ * Units: time in minutes, amounts in molecules (counts). Documented with a
+ * worked example per rate law in docs/circuit-format.md.
+ *
+ * The structure maps onto SBML Level 3 (species, parameters, reactions with
+ * reactants/products/modifiers and a kinetic law), so an exporter can be added
+ * without changing stored circuits.
+ */
+import { z } from "zod";
+
+/** Limits that keep one circuit small enough for the per-circuit inner loop. */
+export const CIRCUIT_LIMITS = {
+  maxSpecies: 50,
+  maxSignals: 8,
+  maxReactions: 200,
+  maxRegulatorsPerReaction: 6,
+  maxNameLength: 40,
+} as const;
+
+/** Names are identifiers so they can appear in parameter references and CSV headers. */
+export const NameSchema = z
+  .string()
+  .min(1, "must not be empty")
+  .max(CIRCUIT_LIMITS.maxNameLength, `at most ${CIRCUIT_LIMITS.maxNameLength} characters`)
+  .regex(/^[A-Za-z][A-Za-z0-9_]*$/, "letters, digits and _ only, starting with a letter");
+
+const nonNegative = (what: string) =>
+  z.number({ error: `${what} must be a number` }).finite(`${what} must be finite`).min(0, `${what} must not be negative`);
+const positive = (what: string) =>
+  z.number({ error: `${what} must be a number` }).finite(`${what} must be finite`).gt(0, `${what} must be positive`);
+
+export const SpeciesSchema = z.object({
+  name: NameSchema,
+  initialCount: z.number().int("initial count must be a whole number").min(0, "initial count must not be negative").max(1e9),
+  description: z.string().max(200).optional(),
+});
+export type Species = z.infer<typeof SpeciesSchema>;
+
+/** An external, piecewise-constant input (for example an inducer), set by the input program. */
+export const SignalSchema = z.object({
+  name: NameSchema,
+  /** Level while the program is off. */
+  offLevel: nonNegative("off level").default(0),
+  /** Level while a pulse is on (a program pulse may override it). */
+  onLevel: nonNegative("on level").default(1),
+  description: z.string().max(200).optional(),
+});
+export type Signal = z.infer<typeof SignalSchema>;
+
+export const StoichEntrySchema = z.object({
+  species: NameSchema,
+  count: z.number().int().min(1).max(2).default(1),
+});
+export type StoichEntry = z.infer<typeof StoichEntrySchema>;
+
+/** One regulator of a regulated-production rate: a Hill term of a species or signal. */
+export const RegulatorSchema = z.object({
+  /** A species or signal name. */
+  source: NameSchema,
+  effect: z.enum(["activates", "represses"]),
+  /** Half-maximal level K, in molecules (or signal units). */
+  halfMax: positive("half-max K"),
+  /** Hill coefficient n. */
+  hill: positive("Hill coefficient n").max(10, "Hill coefficient n must be at most 10"),
+});
+export type Regulator = z.infer<typeof RegulatorSchema>;
+
+export const RateLawSchema = z.discriminatedUnion("kind", [
+  /**
+   * Mass action. Propensity k * (combinations of reactants): k for no reactant,
+   * k*A for A ->, k*A*B for A + B ->, k*A*(A-1)/2 for 2A ->. The mean-field rate
+   * of 2A -> is k*A^2/2, matching the stochastic constant.
+   */
+  z.object({ kind: z.literal("massAction"), ratePerMinute: nonNegative("rate constant") }),
+  /** Constant production, independent of any amount: 0 -> P at a fixed rate. */
+  z.object({ kind: z.literal("constant"), ratePerMinute: nonNegative("rate") }),
+  /**
+   * Regulated production: maxRate * (leak + (1 - leak) * f), where f combines the
+   * regulators' Hill terms h_i: AND = product of h_i; OR = 1 - product(1 - h_i)
+   * (at least one independent site active). Activation h = x^n/(K^n+x^n),
+   * repression h = K^n/(K^n+x^n).
+   */
+  z.object({
+    kind: z.literal("regulated"),
+    maxRatePerMinute: nonNegative("maximal rate"),
+    logic: z.enum(["and", "or"]).default("and"),
+    leakFraction: z.number().min(0, "leak must be between 0 and 1").max(1, "leak must be between 0 and 1").default(0),
+    regulators: z.array(RegulatorSchema).min(1, "needs at least one regulator").max(CIRCUIT_LIMITS.maxRegulatorsPerReaction),
+  }),
+]);
+export type RateLaw = z.infer<typeof RateLawSchema>;
+
+export const ReactionSchema = z.object({
+  name: NameSchema,
+  /** Consumed by the reaction (and, for mass action, setting its order). */
+  reactants: z.array(StoichEntrySchema).max(2).default([]),
+  /** Made by the reaction. */
+  products: z.array(StoichEntrySchema).max(4).default([]),
+  /** Species that act only through the rate (regulators are modifiers implicitly). */
+  modifiers: z.array(NameSchema).max(8).default([]),
+  rate: RateLawSchema,
+  /** Optional signal that multiplies the whole rate (for example production only while induced). */
+  scaledBy: NameSchema.optional(),
+  description: z.string().max(200).optional(),
+});
+export type Reaction = z.infer<typeof ReactionSchema>;
+
+export const CircuitSchema = z.object({
+  name: z.string().min(1, "name must not be empty").max(120),
+  description: z.string().max(2000).default(""),
+  species: z.array(SpeciesSchema).min(1, "needs at least one species").max(CIRCUIT_LIMITS.maxSpecies),
+  signals: z.array(SignalSchema).max(CIRCUIT_LIMITS.maxSignals).default([]),
+  reactions: z.array(ReactionSchema).min(1, "needs at least one reaction").max(CIRCUIT_LIMITS.maxReactions),
+  /** The species the filter figures are about (the reporter). */
+  outputSpecies: NameSchema,
+});
+export type Circuit = z.infer<typeof CircuitSchema>;
+/** What a client sends (defaults not yet applied). */
+export type CircuitInput = z.input<typeof CircuitSchema>;
+
+/**
+ * A parameter reference used by sweeps and cell-to-cell variation:
+ *   rate(R)     mass-action / constant rate or maximal rate of reaction R
+ *   leak(R)     leak fraction of regulated reaction R
+ *   K(R,S)      half-max of regulator S in reaction R
+ *   n(R,S)      Hill coefficient of regulator S in reaction R
+ *   init(X)     initial count of species X
+ */
+export const ParameterRefSchema = z
+  .string()
+  .regex(/^(rate|leak)\([A-Za-z][A-Za-z0-9_]*\)$|^(K|n)\([A-Za-z][A-Za-z0-9_]*,[A-Za-z][A-Za-z0-9_]*\)$|^init\([A-Za-z][A-Za-z0-9_]*\)$/,
+    "parameter must look like rate(R), leak(R), K(R,S), n(R,S) or init(X)");
+export type ParameterRef = z.infer<typeof ParameterRefSchema>;
