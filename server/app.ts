@@ -1,0 +1,49 @@
+/**
+ * createApp: the Express application, middleware in order on one screen.
+ * Testable without a port (supertest) and without a web build.
+ */
+import express, { Router } from "express";
+import compression from "compression";
+import { existsSync } from "node:fs";
+import { resolve, join } from "node:path";
+import type { AppContext } from "./context";
+import { apiNotFound, errorHandler } from "./middleware/error-handler";
+import { csrfGuard } from "./middleware/csrf";
+import { installAuth } from "./middleware/session";
+import { mountRoutes } from "./routes/route-table";
+import { allRoutes } from "./routes";
+
+export function createApp(ctx: AppContext) {
+  const app = express();
+  app.disable("x-powered-by");
+  app.set("trust proxy", "loopback");
+  app.use(compression());
+
+  // ---- API
+  const api = Router();
+  api.use(express.json({ limit: "2mb" }));
+  api.use((_req, res, next) => {
+    res.setHeader("Cache-Control", "no-store");
+    next();
+  });
+  api.use(csrfGuard);
+  installAuth(api, ctx);
+  mountRoutes(api, ctx, allRoutes);
+  api.use(apiNotFound);
+  app.use("/api", api);
+
+  // ---- Web build (client-side routing: every other path gets the app's HTML)
+  const dist = resolve(ctx.env.LINGER_WEB_DIST);
+  const indexHtml = join(dist, "index.html");
+  app.use(express.static(dist, { index: false, maxAge: "1h" }));
+  app.get("/{*splat}", (_req, res) => {
+    if (existsSync(indexHtml)) {
+      res.setHeader("Cache-Control", "no-cache");
+      res.sendFile(indexHtml);
+    } else {
+      res.status(200).type("html").send("<!doctype html><title>Linger</title><p>Linger: the web build is missing. Run <code>npm run build:web</code>.</p>");
+    }
+  });
+  app.use(errorHandler);
+  return app;
+}

@@ -1,0 +1,43 @@
+/**
+ * Configuration from the environment, parsed once at boot. A bad value stops
+ * the server with a message naming the variable.
+ */
+import { z } from "zod";
+import { availableParallelism } from "node:os";
+
+const bool = (fallback: boolean) =>
+  z.enum(["0", "1", "true", "false", "yes", "no"]).optional().transform((v) => (v === undefined ? fallback : ["1", "true", "yes"].includes(v)));
+
+export const EnvSchema = z.object({
+  PORT: z.coerce.number().int().min(0).max(65535).default(8080),
+  HOST: z.string().default("0.0.0.0"),
+  DATABASE_URL: z.string().min(1).default("./data/linger.db"),
+  LINGER_BASE_URL: z.string().url().optional(),
+  LINGER_SESSION_SECRET: z.string().min(16, "must be at least 16 characters").optional(),
+  LINGER_DEMO_PASSWORD: z.string().min(8, "must be at least 8 characters").default("linger-demo-2026"),
+  LINGER_SEED_DEMO: bool(true),
+  LINGER_SECURE_COOKIES: bool(false),
+  LINGER_POOL_SIZE: z.coerce.number().int().min(1).max(64).optional(),
+  /** SMTP URL of a real mail server; without it a local fake SMTP server keeps mail in the outbox. */
+  LINGER_SMTP_URL: z.string().optional(),
+  LINGER_MAIL_FROM: z.string().default("Linger <linger@example.org>"),
+  /** Serve the exported web build from this folder. */
+  LINGER_WEB_DIST: z.string().default("dist"),
+  /** Wall-time cap per chunk of replicates, in seconds. */
+  LINGER_CHUNK_WALL_SECONDS: z.coerce.number().gt(0).default(600),
+  LINGER_LOG_REQUESTS: bool(false),
+});
+
+export type Env = z.infer<typeof EnvSchema> & { poolSize: number; baseUrl: string };
+
+export function parseEnv(source: NodeJS.ProcessEnv = process.env): Env {
+  const parsed = EnvSchema.safeParse(source);
+  if (!parsed.success) {
+    const lines = parsed.error.issues.map((i) => `  ${i.path.join(".")}: ${i.message}`);
+    throw new Error(`Invalid configuration:\n${lines.join("\n")}`);
+  }
+  const env = parsed.data;
+  const poolSize = env.LINGER_POOL_SIZE ?? Math.max(1, availableParallelism() - 1);
+  const baseUrl = (env.LINGER_BASE_URL ?? `http://localhost:${env.PORT}`).replace(/\/$/, "");
+  return { ...env, poolSize, baseUrl };
+}

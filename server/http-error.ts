@@ -1,0 +1,19 @@
+/** An error with an HTTP status and a stable code; the error handler turns it into JSON. */
+export class HttpError extends Error {
+  constructor(
+    readonly status: number,
+    readonly code: string,
+    message: string,
+    readonly fields?: { path: string; message: string }[],
+  ) {
+    super(message);
+  }
+}
+
+export const badRequest = (message: string, fields?: { path: string; message: string }[], code = "bad_request") =>
+  new HttpError(400, code, message, fields);
+export const unauthorized = (message = "Sign in first.") => new HttpError(401, "unauthorized", message);
+export const forbidden = (message = "Your role does not allow this.") => new HttpError(403, "forbidden", message);
+export const notFound = (what = "That item") => new HttpError(404, "not_found", `${what} was not found.`);
+export const conflict = (message: string, code = "conflict") => new HttpError(409, code, message);
+export const tooMany = (message: string) => new HttpError(429, "too_many_requests", message);

@@ -1,0 +1,49 @@
+/** Who may see what: lab membership and the lab that owns an object. */
+import { and, eq, isNull } from "drizzle-orm";
+import type { AppContext } from "../context";
+import { schema } from "../../db/client";
+import type { LabRole } from "../routes/route-table";
+
+export type ResourceKind = "run" | "circuit" | "program" | "sweep" | "traceSet" | "match" | "lab";
+
+export function labRoleOf(ctx: AppContext, userId: string, labId: string): LabRole | null {
+  if (!labId) return null;
+  const row = ctx.db
+    .select({ role: schema.memberships.role })
+    .from(schema.memberships)
+    .where(and(eq(schema.memberships.userId, userId), eq(schema.memberships.labId, labId)))
+    .get();
+  return (row?.role as LabRole | undefined) ?? null;
+}
+
+/** The lab that owns an object, or null when there is no such object. */
+export function resourceLab(ctx: AppContext, kind: ResourceKind, id: string): string | null {
+  if (!id) return null;
+  const s = schema;
+  let row: { labId: string } | undefined;
+  switch (kind) {
+    case "run":
+      // Soft-deleted runs stay reachable for restore (undo) until purged.
+      row = ctx.db.select({ labId: s.runs.labId }).from(s.runs).where(eq(s.runs.id, id)).get();
+      break;
+    case "circuit":
+      row = ctx.db.select({ labId: s.circuits.labId }).from(s.circuits).where(eq(s.circuits.id, id)).get();
+      break;
+    case "program":
+      row = ctx.db.select({ labId: s.inputPrograms.labId }).from(s.inputPrograms).where(eq(s.inputPrograms.id, id)).get();
+      break;
+    case "sweep":
+      row = ctx.db.select({ labId: s.sweeps.labId }).from(s.sweeps).where(eq(s.sweeps.id, id)).get();
+      break;
+    case "traceSet":
+      row = ctx.db.select({ labId: s.traceSets.labId }).from(s.traceSets).where(and(eq(s.traceSets.id, id), isNull(s.traceSets.deletedAt))).get();
+      break;
+    case "match":
+      row = ctx.db.select({ labId: s.matches.labId }).from(s.matches).where(eq(s.matches.id, id)).get();
+      break;
+    case "lab":
+      row = ctx.db.select({ labId: s.labs.id }).from(s.labs).where(eq(s.labs.id, id)).get();
+      break;
+  }
+  return row?.labId ?? null;
+}
