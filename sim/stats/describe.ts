@@ -1,0 +1,71 @@
+/**
+ * Descriptive summary of a sample: count, mean, sample standard deviation
+ * (n - 1 denominator), coefficient of variation, extremes and the 10/25/50/75/90%
+ * quantiles (Hyndman & Fan definition 7). Mean by the two-pass algorithm for
+ * accuracy (Chan, Golub & LeVeque 1983, Am Stat 37:242). Fields are null when
+ * undefined (empty sample; sd and cv need n >= 2 and a non-zero mean).
+ *
+ * @example describe([1, 2, 3]).mean // 2
+ */
+import { quantileSorted } from "./quantile";
+import { sortedCopy } from "./sorted-copy";
+
+export interface Description {
+  n: number;
+  mean: number | null;
+  sd: number | null;
+  cv: number | null;
+  min: number | null;
+  q10: number | null;
+  q25: number | null;
+  median: number | null;
+  q75: number | null;
+  q90: number | null;
+  max: number | null;
+}
+
+export function mean(values: readonly number[]): number {
+  if (values.length === 0) return NaN;
+  let s = 0;
+  for (const v of values) s += v;
+  return s / values.length;
+}
+
+/** Sample variance with the n - 1 denominator (two-pass). NaN when n < 2. */
+export function sampleVariance(values: readonly number[]): number {
+  const n = values.length;
+  if (n < 2) return NaN;
+  const m = mean(values);
+  let ss = 0;
+  let comp = 0;
+  for (const v of values) {
+    ss += (v - m) * (v - m);
+    comp += v - m;
+  }
+  return (ss - (comp * comp) / n) / (n - 1);
+}
+
+const orNull = (x: number): number | null => (Number.isFinite(x) ? x : null);
+
+export function describe(values: readonly number[]): Description {
+  const sorted = sortedCopy(values);
+  const n = sorted.length;
+  if (n === 0) {
+    return { n: 0, mean: null, sd: null, cv: null, min: null, q10: null, q25: null, median: null, q75: null, q90: null, max: null };
+  }
+  const m = mean(sorted);
+  const sd = n >= 2 ? Math.sqrt(Math.max(0, sampleVariance(sorted))) : NaN;
+  return {
+    n,
+    mean: orNull(m),
+    sd: orNull(sd),
+    cv: m !== 0 ? orNull(sd / m) : null,
+    min: sorted[0],
+    q10: quantileSorted(sorted, 0.1),
+    q25: quantileSorted(sorted, 0.25),
+    median: quantileSorted(sorted, 0.5),
+    q75: quantileSorted(sorted, 0.75),
+    q90: quantileSorted(sorted, 0.9),
+    max: sorted[n - 1],
+  };
+}

@@ -1,0 +1,117 @@
+/**
+ * Kaplan-Meier product-limit estimate of a survival curve under right
+ * censoring (Kaplan & Meier 1958, J Am Stat Assoc 53:457), with Greenwood's
+ * variance (Greenwood 1926) and quantiles with confidence intervals by the
+ * test-inversion method of Brookmeyer & Crowley 1982 (Biometrics 38:29) on the
+ * log-transformed Greenwood band.
+ *
+ * Here "survival" S(t) is the probability that a pulse has not yet responded
+ * by t minutes after its start; an event is a response (an up-crossing) and a
+ * censored observation is a pulse whose window closed without one.
+ *
+ * Conventions (the common ones):
+ * - at a time with both events and censorings, the censored are still at risk;
+ * - the p-quantile is the first event time with S(t) <= 1 - p; when S equals
+ *   1 - p exactly on a step, the midpoint to the next event time is used (so
+ *   with no censoring the median equals the ordinary sample median);
+ * - the quantile's confidence interval is the set of times whose pointwise
+ *   band contains 1 - p: lower end where the lower band first reaches 1 - p,
+ *   upper end where the upper band first drops below it; null = not reached.
+ *
+ * @example kaplanMeier([{ time: 1, event: true }, { time: 2, event: false }]).steps[0].survival // 0.5
+ */
+import { Z_95 } from "./normal-distribution";
+
+export interface SurvivalObservation {
+  /** Time of the event or of censoring (minutes). */
+  time: number;
+  /** true = event observed (responded); false = right-censored. */
+  event: boolean;
+}
+
+export interface SurvivalStep {
+  time: number;
+  atRisk: number;
+  events: number;
+  censored: number;
+  /** S(t) just after this time. */
+  survival: number;
+  /** Greenwood standard error of S(t). */
+  standardError: number;
+  /** Pointwise 95% band from the log transform: S exp(+-z se(log S)). */
+  lower: number;
+  upper: number;
+}
+
+export interface KaplanMeierResult {
+  n: number;
+  events: number;
+  censored: number;
+  /** One step per distinct time with an event or a censoring, ascending. */
+  steps: SurvivalStep[];
+}
+
+const EXACT = 1e-12;
+
+export function kaplanMeier(observations: readonly SurvivalObservation[], z: number = Z_95): KaplanMeierResult {
+  for (const o of observations) {
+    if (!Number.isFinite(o.time)) throw new RangeError("kaplanMeier: times must be finite");
+  }
+  const sorted = [...observations].sort((a, b) => a.time - b.time);
+  const steps: SurvivalStep[] = [];
+  let atRisk = sorted.length;
+  let s = 1;
+  let greenwoodSum = 0;
+  let totalEvents = 0;
+  let i = 0;
+  while (i < sorted.length) {
+    const t = sorted[i].time;
+    let events = 0;
+    let censored = 0;
+    while (i < sorted.length && sorted[i].time === t) {
+      if (sorted[i].event) events++;
+      else censored++;
+      i++;
+    }
+    if (events > 0) {
+      s *= (atRisk - events) / atRisk;
+      greenwoodSum += atRisk === events ? Infinity : events / (atRisk * (atRisk - events));
+    }
+    totalEvents += events;
+    const seLog = Math.sqrt(greenwoodSum);
+    const standardError = s === 0 ? 0 : s * seLog;
+    const lower = s === 0 ? 0 : s * Math.exp(-z * seLog);
+    const upper = s === 0 ? 0 : Math.min(1, s * Math.exp(z * seLog));
+    steps.push({ time: t, atRisk, events, censored, survival: s, standardError, lower, upper });
+    atRisk -= events + censored;
+  }
+  return { n: sorted.length, events: totalEvents, censored: sorted.length - totalEvents, steps };
+}
+
+/** First event time at which `curve` (S, lower or upper) is <= level (midpoint rule on exact ties); null if never. */
+function firstTimeAtOrBelow(km: KaplanMeierResult, pick: (s: SurvivalStep) => number, level: number, strict: boolean): number | null {
+  const eventSteps = km.steps.filter((st) => st.events > 0);
+  for (let k = 0; k < eventSteps.length; k++) {
+    const v = pick(eventSteps[k]);
+    if (Math.abs(v - level) <= EXACT) {
+      if (strict) continue;
+      const next = eventSteps[k + 1];
+      return next ? (eventSteps[k].time + next.time) / 2 : eventSteps[k].time;
+    }
+    if (v < level) return eventSteps[k].time;
+  }
+  return null;
+}
+
+/** The p-quantile of the time to event (p = 0.5: median); null when S never reaches 1 - p. */
+export function kmQuantile(km: KaplanMeierResult, p: number): number | null {
+  return firstTimeAtOrBelow(km, (st) => st.survival, 1 - p, false);
+}
+
+/** Brookmeyer-Crowley style 95% interval of the p-quantile; either end null when not reached. */
+export function kmQuantileInterval(km: KaplanMeierResult, p: number): [number | null, number | null] {
+  const level = 1 - p;
+  const lo = firstTimeAtOrBelow(km, (st) => st.lower, level, false);
+  const hi = firstTimeAtOrBelow(km, (st) => st.upper, level, true);
+  return [lo, hi];
+}
