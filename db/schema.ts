@@ -77,6 +77,12 @@ export const auditEvents = sqliteTable("audit_events", {
   at: integer("at", { mode: "timestamp_ms" }).notNull(),
 }, (t) => [index("audit_lab_idx").on(t.labId, t.at)]);
 
+/** Small instance-wide settings (key/value), e.g. the generated session secret. */
+export const appSettings = sqliteTable("app_settings", {
+  key: text("key").primaryKey(),
+  value: text("value").notNull(),
+});
+
 // ---------------------------------------------------------------- models
 export const circuits = sqliteTable("circuits", {
   id: text("id").primaryKey(),

@@ -1,3 +1,8 @@
+CREATE TABLE `app_settings` (
+	`key` text PRIMARY KEY NOT NULL,
+	`value` text NOT NULL
+);
+--> statement-breakpoint
 CREATE TABLE `audit_events` (
 	`id` integer PRIMARY KEY AUTOINCREMENT NOT NULL,
 	`lab_id` text,
