@@ -1,0 +1,67 @@
+import React from "react";
+import { ActivityIndicator, Pressable, StyleSheet, View, type StyleProp, type ViewStyle } from "react-native";
+import { useTheme } from "../theme/use-theme";
+import { MIN_TOUCH } from "../theme/tokens";
+import { Text } from "./text";
+import { Icon, type IconName } from "./icon";
+
+export type ButtonProps = {
+  label: string;
+  onPress?: () => void;
+  variant?: "primary" | "secondary" | "ghost" | "danger";
+  icon?: IconName;
+  disabled?: boolean;
+  busy?: boolean;
+  /** Defaults to the label. */
+  accessibilityLabel?: string;
+  testID?: string;
+  style?: StyleProp<ViewStyle>;
+  compact?: boolean;
+};
+
+/** A button with at least a 44 px touch target and an accessible label. */
+export function Button({ label, onPress, variant = "primary", icon, disabled, busy, accessibilityLabel, testID, style, compact }: ButtonProps) {
+  const t = useTheme();
+  const bg =
+    variant === "primary" ? t.colors.primary
+    : variant === "danger" ? t.colors.danger
+    : variant === "secondary" ? t.colors.surface
+    : "transparent";
+  const fg = variant === "primary" || variant === "danger" ? t.colors.onPrimary : t.colors.primary;
+  const border = variant === "secondary" ? t.colors.border : "transparent";
+  const inactive = disabled || busy;
+  return (
+    <Pressable
+      role="button"
+      accessibilityRole="button"
+      accessibilityLabel={accessibilityLabel ?? label}
+      accessibilityState={{ disabled: !!inactive, busy: !!busy }}
+      aria-disabled={!!inactive}
+      disabled={inactive}
+      onPress={onPress}
+      testID={testID}
+      style={({ pressed, hovered, focused }: { pressed: boolean; hovered?: boolean; focused?: boolean }) => [
+        styles.base,
+        {
+          backgroundColor: bg,
+          borderColor: focused ? t.colors.focus : border,
+          borderRadius: t.radii.md,
+          paddingHorizontal: compact ? t.spacing.md : t.spacing.lg,
+          opacity: inactive ? 0.55 : pressed ? 0.85 : 1,
+        },
+        hovered && variant === "ghost" ? { backgroundColor: t.colors.surfaceAlt } : null,
+        style,
+      ]}
+    >
+      <View style={styles.row}>
+        {busy ? <ActivityIndicator size="small" color={fg} /> : icon ? <Icon name={icon} size={18} color={fg} /> : null}
+        <Text variant="label" style={{ color: fg, fontFamily: t.fonts.semibold }}>{label}</Text>
+      </View>
+    </Pressable>
+  );
+}
+
+const styles = StyleSheet.create({
+  base: { minHeight: MIN_TOUCH, minWidth: MIN_TOUCH, justifyContent: "center", alignItems: "center", borderWidth: 1.5 },
+  row: { flexDirection: "row", alignItems: "center", gap: 8 },
+});
