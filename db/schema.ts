@@ -142,6 +142,9 @@ export const runs = sqliteTable("runs", {
   sweepPoint: integer("sweep_point"),
   /** The run this one is the matched simple-regulation control of. */
   controlOf: text("control_of"),
+  /** Reproduction: the run (or "bundle") this run re-computes, and the stats hash it must match. */
+  reproduceOf: text("reproduce_of"),
+  expectedStatsHash: text("expected_stats_hash"),
   replicatesDone: integer("replicates_done").notNull().default(0),
   eventsTotal: integer("events_total").notNull().default(0),
   cappedReplicates: integer("capped_replicates").notNull().default(0),

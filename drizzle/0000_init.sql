@@ -181,6 +181,8 @@ CREATE TABLE `runs` (
 	`sweep_id` text,
 	`sweep_point` integer,
 	`control_of` text,
+	`reproduce_of` text,
+	`expected_stats_hash` text,
 	`replicates_done` integer DEFAULT 0 NOT NULL,
 	`events_total` integer DEFAULT 0 NOT NULL,
 	`capped_replicates` integer DEFAULT 0 NOT NULL,
