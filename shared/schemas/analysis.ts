@@ -1,0 +1,277 @@
+/**
+ * Noise-filter analysis results (definitions in docs/metrics.md). A RunSummary
+ * is computed once per finished run by sim/analysis/summarize-run.ts and is
+ * also what the CLI writes as analysis.json; a Comparison sets two to four
+ * runs side by side (sim/analysis/compare-runs.ts). Times in minutes, amounts
+ * in molecules, probabilities in [0, 1]; null where a figure is not defined.
+ */
+import { z } from "zod";
+
+const num = z.number();
+const nnum = z.number().nullable();
+const count = z.number().int().min(0);
+const interval = z.tuple([num, num]);
+/** An interval whose ends may be "not reached" (null), e.g. a Kaplan-Meier median's. */
+const openInterval = z.tuple([nnum, nnum]);
+
+export const DescriptionSchema = z.object({
+  n: count,
+  mean: nnum,
+  sd: nnum,
+  cv: nnum,
+  min: nnum,
+  q10: nnum,
+  q25: nnum,
+  median: nnum,
+  q75: nnum,
+  q90: nnum,
+  max: nnum,
+});
+export type DescriptionSummary = z.infer<typeof DescriptionSchema>;
+
+export const HistogramSchema = z.object({
+  /** Bin edges, ascending; bin k is [edges[k], edges[k+1]), the last bin closed. */
+  edges: z.array(num),
+  counts: z.array(count),
+  below: count,
+  above: count,
+});
+
+export const ThresholdUsedSchema = z.object({
+  /** Up-crossing level theta, molecules. */
+  theta: num,
+  /** Down-crossing level theta*(1-h), molecules. */
+  downTheta: num,
+  hysteresis: num,
+  windowMinutes: num,
+  outputLifetimeMinutes: nnum,
+});
+export type ThresholdUsed = z.infer<typeof ThresholdUsedSchema>;
+
+export const ByDurationEntrySchema = z.object({
+  /** Input pulse duration (the pulse records' durationBin), minutes. */
+  duration: num,
+  /** Evaluable (replicate, input pulse) pairs of this duration (excluded pulses not counted). */
+  pulses: count,
+  passed: count,
+  /** passed / pulses; null when pulses = 0. */
+  passProbability: nnum,
+  /** Wilson score 95% interval without continuity correction; null when pulses = 0. */
+  ci: interval.nullable(),
+  /** Kaplan-Meier median response delay (censoring respected); null when fewer than half responded. */
+  medianDelay: nnum,
+  medianDelayCi: openInterval,
+  /** Evaluable pulses with no response in their window. */
+  censored: count,
+  /** Pulses that started with the output already above threshold. */
+  excluded: count,
+  /** Median output pulse width over the widths starting in these pulses' windows. */
+  medianWidth: nnum,
+  /** Median peak output in the window. */
+  medianPeak: nnum,
+  /** Median OFF delay among pulses with a down-crossing after off in the window. */
+  medianOffDelay: nnum,
+});
+export type ByDurationEntry = z.infer<typeof ByDurationEntrySchema>;
+
+export const SurvivalPointSchema = z.object({
+  time: num,
+  /** Fraction not yet responded. */
+  survival: num,
+  lower: num,
+  upper: num,
+  atRisk: count,
+});
+
+export const DelaySummarySchema = z.object({
+  evaluable: count,
+  responded: count,
+  censored: count,
+  /** Kaplan-Meier median with a Brookmeyer-Crowley 95% interval; null = not reached. */
+  median: nnum,
+  medianCi: openInterval,
+  /** Kaplan-Meier quantiles of the delay; null = not reached. */
+  quantiles: z.object({ q10: nnum, q25: nnum, q50: nnum, q75: nnum, q90: nnum }),
+  /** Plain description of the observed (uncensored) delays only. */
+  observed: DescriptionSchema,
+  /** Histogram of the observed delays; censored pulses are counted in `censored`. */
+  histogram: HistogramSchema,
+  /** Kaplan-Meier curve at event times, thinned to steps of at least 0.005 in survival. */
+  survival: z.array(SurvivalPointSchema),
+});
+export type DelaySummary = z.infer<typeof DelaySummarySchema>;
+
+export const LogisticSummarySchema = z.object({
+  intercept: nnum,
+  slopePerLogMinute: nnum,
+  slopeAtD50PerMinute: nnum,
+  d50Ci: interval.nullable(),
+  converged: z.boolean(),
+  fitted: z.array(z.object({ duration: num, passProbability: num })),
+});
+
+export const FalsePassSchema = z.object({
+  noiseDurationMinutes: num,
+  /** Durations that counted as noise (shorter than noiseDurationMinutes). */
+  durations: z.array(num),
+  pulses: count,
+  passed: count,
+  rate: num,
+  ci: interval,
+});
+
+export const DelayCostSchema = z.object({
+  /** Pulses at least this long count as long (default 3 x the noise duration; the longest duration when none is). */
+  minDurationMinutes: num,
+  durations: z.array(num),
+  pulses: count,
+  responded: count,
+  medianDelay: nnum,
+  medianDelayCi: openInterval,
+  meanObservedDelay: nnum,
+});
+export type DelayCost = z.infer<typeof DelayCostSchema>;
+
+export const PulseGenerationSummarySchema = z.object({
+  pulses: count,
+  peak: DescriptionSchema,
+  peakAboveBaseline: DescriptionSchema,
+  timeToPeak: DescriptionSchema,
+  fwhm: DescriptionSchema,
+  fwhmNotMeasurable: count,
+});
+export type PulseGenerationSummary = z.infer<typeof PulseGenerationSummarySchema>;
+
+export const NoiseSummarySchema = z.object({
+  replicates: count,
+  /** Mean output over replicates of each replicate's mean. */
+  meanOutput: nnum,
+  /** Total variance: mean of within-replicate variances + variance of replicate means. */
+  variance: nnum,
+  cv: nnum,
+  fano: nnum,
+  perReplicateMean: DescriptionSchema,
+  perReplicateFano: DescriptionSchema,
+});
+export type NoiseSummary = z.infer<typeof NoiseSummarySchema>;
+
+export const RunSummarySchema = z.object({
+  schemaVersion: z.literal(1),
+  threshold: ThresholdUsedSchema,
+  noiseDurationMinutes: num,
+  counts: z.object({
+    replicates: count,
+    cappedReplicates: count,
+    events: z.object({ total: num, meanPerReplicate: nnum }),
+    /** Pulse records (replicate x input pulse whose window opened). */
+    pulses: count,
+    evaluable: count,
+    excluded: count,
+    passed: count,
+  }),
+  /** One entry per distinct input pulse duration, ascending. */
+  byDuration: z.array(ByDurationEntrySchema),
+  /** Duration passed half the time, from the logistic fit; null with d50Note when not estimable. */
+  d50: nnum,
+  d50Note: z.string().nullable(),
+  logistic: LogisticSummarySchema,
+  /** Pass fraction of pulses shorter than the noise duration; null when there are none. */
+  falsePassRate: nnum,
+  falsePass: FalsePassSchema.nullable(),
+  delay: DelaySummarySchema,
+  offDelay: DelaySummarySchema,
+  delayCost: DelayCostSchema.nullable(),
+  widths: z.object({ summary: DescriptionSchema, histogram: HistogramSchema }),
+  pulseGeneration: PulseGenerationSummarySchema,
+  noise: NoiseSummarySchema,
+  /** Plain-words remarks (capped replicates, excluded pulses, ...). */
+  notes: z.array(z.string()),
+});
+export type RunSummary = z.infer<typeof RunSummarySchema>;
+
+// ---------- comparison ----------
+
+export const TwoSampleSchema = z.object({
+  nA: count,
+  nB: count,
+  medianA: nnum,
+  medianB: nnum,
+  ks: z.object({ d: num, pValue: num, pHolm: num, critical05: num }).nullable(),
+  mannWhitney: z
+    .object({ u: num, z: num, pValue: num, pHolm: num, rankBiserial: num, probabilityAGreater: num })
+    .nullable(),
+  /** Wasserstein-1 distance between the observed (finite) values, minutes. */
+  wasserstein1: nnum,
+  /** Both Holm-adjusted p-values >= 0.05: no difference beyond noise. null when not testable. */
+  withinNoise: z.boolean().nullable(),
+});
+export type TwoSample = z.infer<typeof TwoSampleSchema>;
+
+export const PassDifferenceSchema = z.object({
+  duration: num,
+  passProbabilityA: num,
+  passProbabilityB: num,
+  /** A minus B. */
+  difference: num,
+  /** Fisher's exact test, two-sided, and Holm-adjusted across every (pair, duration). */
+  pValue: num,
+  pHolm: num,
+  withinNoise: z.boolean(),
+});
+
+export const ComparisonPairSchema = z.object({
+  a: z.string(),
+  b: z.string(),
+  delays: TwoSampleSchema,
+  widths: TwoSampleSchema,
+  passDifferences: z.array(PassDifferenceSchema),
+  flags: z.array(z.string()),
+});
+export type ComparisonPair = z.infer<typeof ComparisonPairSchema>;
+
+export const ComparisonRunSchema = z.object({
+  id: z.string(),
+  name: z.string(),
+  headline: z.object({
+    evaluable: count,
+    passed: count,
+    d50: nnum,
+    d50Ci: interval.nullable(),
+    d50Note: z.string().nullable(),
+    falsePassRate: nnum,
+    medianDelay: nnum,
+    medianDelayCi: openInterval,
+    delayCostMedian: nnum,
+    medianWidth: nnum,
+    medianPeak: nnum,
+    medianTimeToPeak: nnum,
+    medianFwhm: nnum,
+    cv: nnum,
+    fano: nnum,
+  }),
+});
+
+export const ComparisonSchema = z.object({
+  runs: z.array(ComparisonRunSchema).min(2).max(4),
+  /** Union of the runs' durations, ascending. */
+  durations: z.array(num),
+  /** Filter curves side by side: for each duration, each run's entry (null when it has none). */
+  filterCurves: z.array(
+    z.object({
+      duration: num,
+      runs: z.array(
+        z.object({ pulses: count, passed: count, passProbability: nnum, ci: interval.nullable(), fitted: nnum }).nullable(),
+      ),
+    }),
+  ),
+  /** Overlaid histograms on shared bins; censored delays counted apart. */
+  distributions: z.object({
+    delays: z.object({ edges: z.array(num), runs: z.array(z.object({ counts: z.array(count), censored: count })) }),
+    widths: z.object({ edges: z.array(num), runs: z.array(z.object({ counts: z.array(count) })) }),
+  }),
+  pairs: z.array(ComparisonPairSchema),
+  flags: z.array(z.string()),
+  /** How the tests were done, in plain words. */
+  method: z.string(),
+});
+export type Comparison = z.infer<typeof ComparisonSchema>;

@@ -1,0 +1,44 @@
+/**
+ * Distribution of a delay under right censoring (docs/metrics.md): Kaplan-Meier
+ * median with its Brookmeyer-Crowley 95% interval and quantiles, a plain
+ * description and histogram of the observed delays, and the thinned
+ * survival curve.
+ */
+import type { DelaySummary } from "../../shared/schemas/analysis";
+import { describe } from "../stats/describe";
+import { histogram } from "../stats/histogram";
+import { kaplanMeier, kmQuantile, kmQuantileInterval, type SurvivalObservation } from "../stats/kaplan-meier";
+
+/** Smallest drop in survival between two kept points of the reported curve. */
+const CURVE_STEP = 0.005;
+
+export function summarizeDelays(observations: readonly SurvivalObservation[]): DelaySummary {
+  const km = kaplanMeier(observations);
+  const observed = observations.filter((o) => o.event).map((o) => o.time);
+  const survival: DelaySummary["survival"] = [];
+  const eventSteps = km.steps.filter((s) => s.events > 0);
+  let lastKept = 1;
+  eventSteps.forEach((s, i) => {
+    if (lastKept - s.survival >= CURVE_STEP || i === eventSteps.length - 1 || i === 0) {
+      survival.push({ time: s.time, survival: s.survival, lower: s.lower, upper: s.upper, atRisk: s.atRisk });
+      lastKept = s.survival;
+    }
+  });
+  return {
+    evaluable: km.n,
+    responded: km.events,
+    censored: km.censored,
+    median: kmQuantile(km, 0.5),
+    medianCi: kmQuantileInterval(km, 0.5),
+    quantiles: {
+      q10: kmQuantile(km, 0.1),
+      q25: kmQuantile(km, 0.25),
+      q50: kmQuantile(km, 0.5),
+      q75: kmQuantile(km, 0.75),
+      q90: kmQuantile(km, 0.9),
+    },
+    observed: describe(observed),
+    histogram: histogram(observed),
+    survival,
+  };
+}

@@ -1,0 +1,5 @@
+/** Noise-filter analysis of runs and comparisons (pure functions; docs/metrics.md). */
+export { summarizeRun, type SummarizeRunInput, type ReplicateTotals } from "./summarize-run";
+export { summarizeDelays } from "./delay-summary";
+export { evaluablePulses, delaysOf, widthsOf, windowEnds } from "./pulse-selection";
+export { ks2, wasserstein1, wilson } from "../stats";

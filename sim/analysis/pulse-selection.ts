@@ -1,0 +1,45 @@
+/**
+ * Which pulse records enter which figure (docs/metrics.md, "Edge rules"):
+ * excluded pulses (output already above threshold at on) never enter pass,
+ * delay, width or pulse-generation figures; they are only counted.
+ *
+ * Also the censoring time of a pulse's response delay: its response window
+ * closes at min(off + window, next pulse's on, end of the path), so a pulse
+ * with no response is right-censored at that time minus on.
+ */
+import type { PulseStat } from "../../shared/schemas/run-spec";
+
+export function evaluablePulses(pulses: readonly PulseStat[]): PulseStat[] {
+  return pulses.filter((p) => !p.excluded);
+}
+
+/** Response delays of the evaluable pulses, null = censored (no response in the window). */
+export function delaysOf(pulses: readonly PulseStat[]): (number | null)[] {
+  return evaluablePulses(pulses).map((p) => p.delay);
+}
+
+/** Output pulse widths starting in the windows of the evaluable pulses. */
+export function widthsOf(pulses: readonly PulseStat[]): number[] {
+  const out: number[] = [];
+  for (const p of evaluablePulses(pulses)) for (const w of p.widths) out.push(w);
+  return out;
+}
+
+/**
+ * For each pulse record, when its response window closes (absolute minutes):
+ * min(off + windowMinutes, on of the same replicate's next pulse, endTimeMinutes).
+ * The next pulse is taken from the records (pulseIndex + 1); when its record is
+ * missing (its window never opened) the path ended first, which endTimeMinutes covers.
+ */
+export function windowEnds(
+  pulses: readonly PulseStat[],
+  windowMinutes: number,
+  endTimeMinutes: number = Infinity,
+): number[] {
+  const nextOn = new Map<string, number>();
+  for (const p of pulses) nextOn.set(`${p.replicate}:${p.pulseIndex}`, p.on);
+  return pulses.map((p) => {
+    const next = nextOn.get(`${p.replicate}:${p.pulseIndex + 1}`);
+    return Math.min(p.off + windowMinutes, next ?? Infinity, endTimeMinutes);
+  });
+}

@@ -1,0 +1,244 @@
+/**
+ * The noise-filter figures of one run (docs/metrics.md): filter curve by input
+ * pulse duration with Wilson 95% intervals, d50 from a logistic fit, false-pass
+ * rate, delay distribution under censoring (Kaplan-Meier), delay cost for long
+ * pulses, output pulse widths, pulse-generation figures and output noise.
+ *
+ * Input: the per-pulse records of docs/metrics.md (for simulations detected
+ * online on the exact event path by sim/metrics/pulse-tracker.ts; for uploaded
+ * traces from the same tracker on the sampled trace) and per-replicate totals.
+ * Deterministic: the same input in the same order gives the same output.
+ *
+ * @example summarizeRun({ pulses, replicates, threshold, noiseDurationMinutes: 10 }).byDuration
+ */
+import type { PulseStat } from "../../shared/schemas/run-spec";
+import type { ByDurationEntry, RunSummary, ThresholdUsed } from "../../shared/schemas/analysis";
+import { describe, mean } from "../stats/describe";
+import { histogram } from "../stats/histogram";
+import { kaplanMeier, kmQuantile, kmQuantileInterval, type SurvivalObservation } from "../stats/kaplan-meier";
+import { fitLogisticPass } from "../stats/logistic-fit";
+import { wilson } from "../stats/wilson-interval";
+import { summarizeDelays } from "./delay-summary";
+import { windowEnds } from "./pulse-selection";
+
+export interface ReplicateTotals {
+  replicate: number;
+  /** Reaction firings in this replicate. */
+  events: number;
+  /** Stopped at the event cap. */
+  capped: boolean;
+  /** Time-averaged output at steady state (see the engine docs), molecules; NaN when unknown. */
+  outputMean: number;
+  /** Time-averaged variance of the output about outputMean; NaN when unknown. */
+  outputVar: number;
+}
+
+export interface SummarizeRunInput {
+  pulses: readonly PulseStat[];
+  replicates: readonly ReplicateTotals[];
+  threshold: {
+    theta: number;
+    downTheta: number;
+    hysteresis: number;
+    windowMinutes: number;
+    outputLifetimeMinutes?: number | null;
+  };
+  /** Pulses shorter than this count as noise for the false-pass rate (minutes). */
+  noiseDurationMinutes: number;
+  /** Pulses at least this long count as long for the delay cost; default 3 x noiseDurationMinutes. */
+  longPulseMinutes?: number;
+  /** End of the simulated (or recorded) path; windows close there at the latest. */
+  endTimeMinutes?: number;
+}
+
+const finite = (x: number | null | undefined): number | null => (x !== null && x !== undefined && Number.isFinite(x) ? x : null);
+const medianOf = (xs: number[]): number | null => describe(xs).median;
+
+export function summarizeRun(input: SummarizeRunInput): RunSummary {
+  const { pulses, replicates, noiseDurationMinutes } = input;
+  const th = input.threshold;
+  const threshold: ThresholdUsed = {
+    theta: th.theta,
+    downTheta: th.downTheta,
+    hysteresis: th.hysteresis,
+    windowMinutes: th.windowMinutes,
+    outputLifetimeMinutes: finite(th.outputLifetimeMinutes),
+  };
+  const ends = windowEnds(pulses, th.windowMinutes, input.endTimeMinutes ?? Infinity);
+  const notes: string[] = [];
+
+  // ---- per pulse: survival observations for the response delay and the OFF delay
+  type Row = { p: PulseStat; delayObs: SurvivalObservation; offObs: SurvivalObservation | null };
+  const rows: Row[] = [];
+  let excludedTotal = 0;
+  pulses.forEach((p, i) => {
+    if (p.excluded) {
+      excludedTotal++;
+      return;
+    }
+    const delayObs: SurvivalObservation =
+      p.delay !== null ? { time: p.delay, event: true } : { time: Math.max(0, ends[i] - p.on), event: false };
+    const offObs: SurvivalObservation | null = !p.passed
+      ? null
+      : p.offDelay !== null
+        ? { time: p.offDelay, event: true }
+        : { time: Math.max(0, ends[i] - p.off), event: false };
+    rows.push({ p, delayObs, offObs });
+  });
+
+  // ---- by duration
+  const groups = new Map<number, { rows: Row[]; excluded: number }>();
+  for (const p of pulses) {
+    if (!groups.has(p.durationBin)) groups.set(p.durationBin, { rows: [], excluded: 0 });
+    if (p.excluded) groups.get(p.durationBin)!.excluded++;
+  }
+  for (const r of rows) groups.get(r.p.durationBin)!.rows.push(r);
+  const durations = [...groups.keys()].sort((a, b) => a - b);
+  const byDuration: ByDurationEntry[] = durations.map((duration) => {
+    const g = groups.get(duration)!;
+    const n = g.rows.length;
+    const passed = g.rows.filter((r) => r.p.passed).length;
+    const km = kaplanMeier(g.rows.map((r) => r.delayObs));
+    const offDelays = g.rows.filter((r) => r.p.passed && r.p.offDelay !== null).map((r) => r.p.offDelay as number);
+    return {
+      duration,
+      pulses: n,
+      passed,
+      passProbability: n > 0 ? passed / n : null,
+      ci: n > 0 ? wilson(passed, n) : null,
+      medianDelay: n > 0 ? kmQuantile(km, 0.5) : null,
+      medianDelayCi: n > 0 ? kmQuantileInterval(km, 0.5) : [null, null],
+      censored: km.censored,
+      excluded: g.excluded,
+      medianWidth: medianOf(g.rows.flatMap((r) => r.p.widths)),
+      medianPeak: medianOf(g.rows.map((r) => r.p.peak)),
+      medianOffDelay: medianOf(offDelays),
+    };
+  });
+
+  // ---- logistic fit and d50
+  const fit = fitLogisticPass(
+    byDuration.filter((e) => e.duration > 0).map((e) => ({ duration: e.duration, trials: e.pulses, passed: e.passed })),
+  );
+
+  // ---- false-pass rate
+  const noise = byDuration.filter((e) => e.duration < noiseDurationMinutes && e.pulses > 0);
+  const noisePulses = noise.reduce((s, e) => s + e.pulses, 0);
+  const noisePassed = noise.reduce((s, e) => s + e.passed, 0);
+  const falsePass =
+    noisePulses > 0
+      ? {
+          noiseDurationMinutes,
+          durations: noise.map((e) => e.duration),
+          pulses: noisePulses,
+          passed: noisePassed,
+          rate: noisePassed / noisePulses,
+          ci: wilson(noisePassed, noisePulses),
+        }
+      : null;
+
+  // ---- delay cost for long pulses
+  const withPulses = byDuration.filter((e) => e.pulses > 0);
+  let longMin = input.longPulseMinutes ?? 3 * noiseDurationMinutes;
+  if (withPulses.length > 0 && !withPulses.some((e) => e.duration >= longMin)) {
+    longMin = withPulses[withPulses.length - 1].duration;
+    notes.push(`No pulse was at least ${fmt(input.longPulseMinutes ?? 3 * noiseDurationMinutes)} min long; the delay cost uses the longest duration, ${fmt(longMin)} min.`);
+  }
+  const longRows = rows.filter((r) => r.p.durationBin >= longMin);
+  let delayCost: RunSummary["delayCost"] = null;
+  if (longRows.length > 0) {
+    const km = kaplanMeier(longRows.map((r) => r.delayObs));
+    const observed = longRows.filter((r) => r.p.delay !== null).map((r) => r.p.delay as number);
+    delayCost = {
+      minDurationMinutes: longMin,
+      durations: withPulses.filter((e) => e.duration >= longMin).map((e) => e.duration),
+      pulses: longRows.length,
+      responded: observed.length,
+      medianDelay: kmQuantile(km, 0.5),
+      medianDelayCi: kmQuantileInterval(km, 0.5),
+      meanObservedDelay: observed.length ? mean(observed) : null,
+    };
+  }
+
+  // ---- widths and pulse generation (evaluable pulses)
+  const widths = rows.flatMap((r) => r.p.widths);
+  const fwhms = rows.map((r) => r.p.fwhm).filter((x): x is number => x !== null);
+  const pulseGeneration = {
+    pulses: rows.length,
+    peak: describe(rows.map((r) => r.p.peak)),
+    peakAboveBaseline: describe(rows.map((r) => r.p.peak - r.p.baseline)),
+    timeToPeak: describe(rows.map((r) => r.p.timeToPeak)),
+    fwhm: describe(fwhms),
+    fwhmNotMeasurable: rows.length - fwhms.length,
+  };
+
+  // ---- output noise from per-replicate moments (law of total variance)
+  const moments = replicates.filter((r) => Number.isFinite(r.outputMean) && Number.isFinite(r.outputVar));
+  let noiseSummary: RunSummary["noise"];
+  {
+    const means = moments.map((r) => r.outputMean);
+    const m = means.length ? mean(means) : NaN;
+    const within = moments.length ? mean(moments.map((r) => r.outputVar)) : NaN;
+    const between = means.length ? mean(means.map((x) => (x - m) * (x - m))) : NaN;
+    const variance = within + between;
+    noiseSummary = {
+      replicates: moments.length,
+      meanOutput: finite(m),
+      variance: finite(variance),
+      cv: m > 0 ? finite(Math.sqrt(variance) / m) : null,
+      fano: m > 0 ? finite(variance / m) : null,
+      perReplicateMean: describe(means),
+      perReplicateFano: describe(moments.filter((r) => r.outputMean > 0).map((r) => r.outputVar / r.outputMean)),
+    };
+  }
+
+  // ---- counts and notes
+  const capped = replicates.filter((r) => r.capped).length;
+  const events = replicates.reduce((s, r) => s + r.events, 0);
+  if (capped > 0) notes.push(`${capped} of ${replicates.length} replicates stopped at the event cap; their figures end at the cap.`);
+  if (excludedTotal > 0) {
+    notes.push(`${excludedTotal} of ${pulses.length} pulses started with the output already above threshold and are left out of pass and delay figures.`);
+  }
+  if (replicates.length > moments.length) {
+    notes.push(`${replicates.length - moments.length} replicates had no steady-state output moments and are left out of the noise figures.`);
+  }
+
+  return {
+    schemaVersion: 1,
+    threshold,
+    noiseDurationMinutes,
+    counts: {
+      replicates: replicates.length,
+      cappedReplicates: capped,
+      events: { total: events, meanPerReplicate: replicates.length ? events / replicates.length : null },
+      pulses: pulses.length,
+      evaluable: rows.length,
+      excluded: excludedTotal,
+      passed: rows.filter((r) => r.p.passed).length,
+    },
+    byDuration,
+    d50: fit.d50,
+    d50Note: fit.d50Note,
+    logistic: {
+      intercept: fit.intercept,
+      slopePerLogMinute: fit.slopePerLogMinute,
+      slopeAtD50PerMinute: fit.slopeAtD50PerMinute,
+      d50Ci: fit.d50Ci,
+      converged: fit.converged,
+      fitted: fit.fitted,
+    },
+    falsePassRate: falsePass ? falsePass.rate : null,
+    falsePass,
+    delay: summarizeDelays(rows.map((r) => r.delayObs)),
+    offDelay: summarizeDelays(rows.filter((r) => r.offObs !== null).map((r) => r.offObs as SurvivalObservation)),
+    delayCost,
+    widths: { summary: describe(widths), histogram: histogram(widths) },
+    pulseGeneration,
+    noise: noiseSummary,
+    notes,
+  };
+}
+
+function fmt(x: number): string {
+  return Number.isInteger(x) ? String(x) : String(Number(x.toPrecision(4)));
+}
