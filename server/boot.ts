@@ -6,7 +6,7 @@ import { openDatabase } from "../db/client";
 import type { AppContext } from "./context";
 import { parseEnv, type Env } from "./env";
 import { APP_VERSION } from "./version";
-import { nullMailer } from "./services/mail.service";
+import { createMailer } from "./services/mail.service";
 import { createIdleQueue } from "./services/run-queue";
 import { seedDemo } from "./services/demo-seed";
 
@@ -17,7 +17,7 @@ export interface Booted {
 
 export async function boot(env: Env = parseEnv()): Promise<Booted> {
   const handle = openDatabase(env.DATABASE_URL);
-  const mailer = nullMailer;
+  const mailer = await createMailer(env, { db: handle.db });
   const queue = createIdleQueue();
   const ctx: AppContext = { db: handle.db, sqlite: handle.sqlite, env, version: APP_VERSION, mailer, queue, poolSize: env.poolSize };
   if (env.LINGER_SEED_DEMO) await seedDemo(ctx);

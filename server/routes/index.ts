@@ -1,5 +1,8 @@
 /** The route table: every API route of the app (the authorization test walks it). */
 import type { RouteDef } from "./route-table";
 import { healthRoutes } from "./health.routes";
+import { authRoutes } from "./auth.routes";
+import { labsRoutes } from "./labs.routes";
+import { adminRoutes } from "./admin.routes";
 
-export const allRoutes: RouteDef[] = [...healthRoutes];
+export const allRoutes: RouteDef[] = [...healthRoutes, ...authRoutes, ...labsRoutes, ...adminRoutes];

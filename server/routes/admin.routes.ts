@@ -1,0 +1,86 @@
+/** Site-admin routes: the fake SMTP outbox, database backup, the user list. */
+import { z } from "zod";
+import { mkdirSync, statSync } from "node:fs";
+import { dirname, join, resolve } from "node:path";
+import { count, desc, eq } from "drizzle-orm";
+import { defineRoutes } from "./route-table";
+import { schema } from "../../db/client";
+import { recordAudit } from "../services/audit.service";
+import type { AppContext } from "../context";
+
+export const OutboxQuerySchema = z.object({
+  limit: z.coerce.number().int().min(1).max(500).default(100),
+  to: z.string().max(254).optional(),
+});
+
+/** Folder for backups: `backups/` beside the database file (data/backups by default). */
+export function backupDir(ctx: AppContext): string {
+  const dbFile = ctx.sqlite.name;
+  const base = dbFile && dbFile !== ":memory:" ? dirname(resolve(dbFile)) : resolve("data");
+  return join(base, "backups");
+}
+
+/** A consistent copy of the live database through SQLite's online backup API. */
+export async function backupDatabase(ctx: AppContext): Promise<{ file: string; path: string; bytes: number }> {
+  const dir = backupDir(ctx);
+  mkdirSync(dir, { recursive: true });
+  const stamp = new Date().toISOString().replace(/[:.]/g, "-");
+  const file = `linger-${stamp}.db`;
+  const path = join(dir, file);
+  await ctx.sqlite.backup(path);
+  return { file, path, bytes: statSync(path).size };
+}
+
+export const adminRoutes = defineRoutes([
+  {
+    method: "get",
+    path: "/admin/outbox",
+    access: { kind: "siteAdmin" },
+    query: OutboxQuerySchema,
+    summary: "Mail kept by the local fake SMTP server, newest first (empty when a real SMTP server is configured).",
+    handler: ({ ctx, query }) => {
+      const o = schema.outbox;
+      const rows = ctx.db
+        .select()
+        .from(o)
+        .where(query.to ? eq(o.to, query.to.trim().toLowerCase()) : undefined)
+        .orderBy(desc(o.id))
+        .limit(query.limit)
+        .all();
+      return {
+        mailer: ctx.mailer.kind ?? "smtp",
+        messages: rows.map((r) => ({ ...r, receivedAt: r.receivedAt.toISOString() })),
+      };
+    },
+  },
+  {
+    method: "post",
+    path: "/admin/backup",
+    access: { kind: "siteAdmin" },
+    summary: "Write a consistent backup of the database (SQLite online backup) to data/backups; returns the file name.",
+    handler: async ({ ctx, res, user }) => {
+      const b = await backupDatabase(ctx);
+      recordAudit(ctx, { labId: null, userId: user!.id, action: "admin.backup", targetType: "file", targetId: b.file, detail: { bytes: b.bytes } });
+      res.status(201);
+      return { file: b.file, bytes: b.bytes };
+    },
+  },
+  {
+    method: "get",
+    path: "/admin/users",
+    access: { kind: "siteAdmin" },
+    summary: "Every account on the instance with its number of labs.",
+    handler: ({ ctx }) => {
+      const u = schema.users;
+      const m = schema.memberships;
+      const rows = ctx.db
+        .select({ id: u.id, email: u.email, displayName: u.displayName, isSiteAdmin: u.isSiteAdmin, createdAt: u.createdAt, labCount: count(m.labId) })
+        .from(u)
+        .leftJoin(m, eq(m.userId, u.id))
+        .groupBy(u.id)
+        .orderBy(u.email)
+        .all();
+      return { users: rows.map((r) => ({ ...r, createdAt: r.createdAt.toISOString() })) };
+    },
+  },
+]);

@@ -1,0 +1,229 @@
+/**
+ * Accounts and the session: sign-in/out, sign-up, password reset and change,
+ * the current user, and invitation links. Signed-out routes are public; the
+ * rest need a session.
+ */
+import type { Request, Response } from "express";
+import { z } from "zod";
+import { defineRoutes, type SessionUser } from "./route-table";
+import { unauthorized } from "../http-error";
+import { authenticatorOf, destroyUserSessions, SESSION_COOKIE } from "../middleware/session";
+import {
+  changePassword,
+  confirmPasswordReset,
+  createAccount,
+  findUserByEmail,
+  meUser,
+  normalizeEmail,
+  PASSWORD_MAX_LENGTH,
+  PASSWORD_MIN_LENGTH,
+  requestPasswordReset,
+  updateProfile,
+} from "../services/auth.service";
+import { describeInvitation, invitationEmail, joinWithInvitation, labsOf } from "../services/labs.service";
+import { assertNotLimited, authLimitersOf } from "../services/rate-limit";
+import { badRequest, conflict } from "../http-error";
+import type { AppContext } from "../context";
+
+const Email = z.string().trim().max(254).pipe(z.email("must be an e-mail address"));
+const Password = z
+  .string()
+  .min(PASSWORD_MIN_LENGTH, `must be at least ${PASSWORD_MIN_LENGTH} characters`)
+  .max(PASSWORD_MAX_LENGTH, `must be at most ${PASSWORD_MAX_LENGTH} characters`);
+const DisplayName = z.string().trim().min(1, "must not be empty").max(80, "must be at most 80 characters");
+
+export const SignInBodySchema = z.object({ email: z.string().max(254), password: z.string().max(PASSWORD_MAX_LENGTH) });
+export const SignUpBodySchema = z.object({ email: Email, password: Password, displayName: DisplayName, invitationToken: z.string().max(200).optional() });
+export const ResetRequestBodySchema = z.object({ email: z.string().trim().max(254) });
+export const ResetConfirmBodySchema = z.object({ token: z.string().min(1).max(200), password: Password });
+export const ChangePasswordBodySchema = z.object({ currentPassword: z.string().max(PASSWORD_MAX_LENGTH), newPassword: Password });
+export const MePatchBodySchema = z.object({ displayName: DisplayName.optional(), notifyOnRunEnd: z.boolean().optional() });
+export const AcceptInvitationBodySchema = z.object({ token: z.string().min(1).max(200), password: Password.optional(), displayName: DisplayName.optional() });
+
+function authenticateLocal(req: Request, res: Response): Promise<SessionUser | null> {
+  return new Promise((resolve, reject) => {
+    authenticatorOf(req).authenticate("local", (err: unknown, user: SessionUser | false) => (err ? reject(err) : resolve(user || null)))(req, res, (e?: unknown) =>
+      e ? reject(e) : resolve(null),
+    );
+  });
+}
+
+function logIn(req: Request, user: SessionUser): Promise<void> {
+  return new Promise((resolve, reject) => req.logIn(user, (e) => (e ? reject(e) : resolve())));
+}
+
+function clientKey(req: Request): string {
+  return req.ip ?? req.socket.remoteAddress ?? "unknown";
+}
+
+function me(ctx: AppContext, userId: string) {
+  const user = meUser(ctx, userId);
+  if (!user) throw unauthorized();
+  return { user, labs: labsOf(ctx, userId).map(({ id, name, role }) => ({ id, name, role })) };
+}
+
+export const authRoutes = defineRoutes([
+  {
+    method: "post",
+    path: "/auth/sign-in",
+    access: { kind: "public" },
+    body: SignInBodySchema,
+    summary: "Sign in with e-mail and password; 200 {user}, 401 when either is wrong (without saying which).",
+    handler: async ({ req, res, ctx, body }) => {
+      const l = authLimitersOf(ctx);
+      const email = normalizeEmail(body.email);
+      const keys: [typeof l.signInPerEmail, string][] = [
+        [l.signInPerEmail, email],
+        [l.signInPerIp, clientKey(req)],
+      ];
+      assertNotLimited(keys, "sign-in");
+      const user = await authenticateLocal(req, res);
+      if (!user) {
+        for (const [lim, k] of keys) lim.hit(k);
+        throw unauthorized("The e-mail address or the password is not right.");
+      }
+      l.signInPerEmail.clear(email);
+      await logIn(req, user);
+      return { user: meUser(ctx, user.id) };
+    },
+  },
+  {
+    method: "post",
+    path: "/auth/sign-out",
+    access: { kind: "signedIn" },
+    summary: "End the session.",
+    handler: async ({ req, res }) => {
+      await new Promise<void>((resolve, reject) => req.logout((e) => (e ? reject(e) : resolve())));
+      await new Promise<void>((resolve) => req.session.destroy(() => resolve()));
+      res.clearCookie(SESSION_COOKIE, { path: "/" });
+      return undefined;
+    },
+  },
+  {
+    method: "post",
+    path: "/auth/sign-up",
+    access: { kind: "public" },
+    body: SignUpBodySchema,
+    summary: "Create an account (with an invitation: join its lab; otherwise get a lab of one's own) and sign in; 201 {user}.",
+    handler: async ({ req, res, ctx, body }) => {
+      if (body.invitationToken) {
+        const invited = invitationEmail(ctx, body.invitationToken);
+        if (invited !== normalizeEmail(body.email)) {
+          throw badRequest(`This invitation is for ${invited}.`, [{ path: "email", message: "Use the invited address." }], "email_mismatch");
+        }
+      }
+      const user = await createAccount(ctx, { email: body.email, password: body.password, displayName: body.displayName, ownLab: !body.invitationToken });
+      if (body.invitationToken) joinWithInvitation(ctx, body.invitationToken, user.id);
+      await logIn(req, user);
+      res.status(201);
+      return { user };
+    },
+  },
+  {
+    method: "post",
+    path: "/auth/reset-request",
+    access: { kind: "public" },
+    body: ResetRequestBodySchema,
+    summary: "Mail a password-reset link if the address has an account. Always 200.",
+    handler: async ({ req, ctx, body }) => {
+      const l = authLimitersOf(ctx);
+      const email = normalizeEmail(body.email);
+      const keys: [typeof l.resetPerEmail, string][] = [
+        [l.resetPerEmail, email],
+        [l.resetPerIp, clientKey(req)],
+      ];
+      assertNotLimited(keys, "password reset");
+      for (const [lim, k] of keys) lim.hit(k);
+      try {
+        await requestPasswordReset(ctx, email);
+      } catch (e) {
+        console.error("[auth] reset mail failed:", (e as Error).message);
+      }
+      return { ok: true, message: "If an account uses this address, a reset link is on its way." };
+    },
+  },
+  {
+    method: "post",
+    path: "/auth/reset-confirm",
+    access: { kind: "public" },
+    body: ResetConfirmBodySchema,
+    summary: "Set a new password with a reset (or set-up) link; ends the user's other sessions.",
+    handler: async ({ req, ctx, body }) => {
+      const l = authLimitersOf(ctx);
+      const keys: [typeof l.resetPerIp, string][] = [[l.resetPerIp, clientKey(req)]];
+      assertNotLimited(keys, "password reset");
+      let userId: string;
+      try {
+        userId = await confirmPasswordReset(ctx, body.token, body.password);
+      } catch (e) {
+        for (const [lim, k] of keys) lim.hit(k);
+        throw e;
+      }
+      destroyUserSessions(ctx, userId);
+      return { ok: true };
+    },
+  },
+  {
+    method: "post",
+    path: "/auth/change-password",
+    access: { kind: "signedIn" },
+    body: ChangePasswordBodySchema,
+    summary: "Change one's password (needs the current one); ends the user's other sessions.",
+    handler: async ({ req, ctx, user, body }) => {
+      await changePassword(ctx, user!.id, body.currentPassword, body.newPassword);
+      destroyUserSessions(ctx, user!.id, req.sessionID);
+      return { ok: true };
+    },
+  },
+  {
+    method: "get",
+    path: "/me",
+    access: { kind: "signedIn" },
+    summary: "The signed-in user and their labs with roles.",
+    handler: ({ ctx, user }) => me(ctx, user!.id),
+  },
+  {
+    method: "patch",
+    path: "/me",
+    access: { kind: "signedIn" },
+    body: MePatchBodySchema,
+    summary: "Change one's display name or the run-notification setting.",
+    handler: ({ ctx, user, body }) => {
+      updateProfile(ctx, user!.id, body);
+      return me(ctx, user!.id);
+    },
+  },
+  {
+    method: "get",
+    path: "/invitations/:token",
+    access: { kind: "public" },
+    summary: "What an invitation link offers: lab name, role, invited address.",
+    handler: ({ ctx, params }) => ({ invitation: describeInvitation(ctx, params.token) }),
+  },
+  {
+    method: "post",
+    path: "/invitations/accept",
+    access: { kind: "public" },
+    body: AcceptInvitationBodySchema,
+    summary: "Accept an invitation: adds the signed-in user, or creates the invited account (password, displayName) and signs in.",
+    handler: async ({ req, ctx, user, body }) => {
+      if (user) {
+        const joined = joinWithInvitation(ctx, body.token, user.id);
+        return { ...joined, ...me(ctx, user.id) };
+      }
+      const email = invitationEmail(ctx, body.token);
+      if (findUserByEmail(ctx, email)) throw conflict(`An account for ${email} exists: sign in first, then open the invitation again.`, "sign_in_required");
+      if (!body.password || !body.displayName) {
+        const fields = [
+          ...(!body.password ? [{ path: "password", message: "Required to create the account." }] : []),
+          ...(!body.displayName ? [{ path: "displayName", message: "Required to create the account." }] : []),
+        ];
+        throw badRequest("Choose a display name and a password for the new account.", fields, "invalid");
+      }
+      const created = await createAccount(ctx, { email, password: body.password, displayName: body.displayName, ownLab: false });
+      const joined = joinWithInvitation(ctx, body.token, created.id);
+      await logIn(req, created);
+      return { ...joined, ...me(ctx, created.id) };
+    },
+  },
+]);

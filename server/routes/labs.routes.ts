@@ -1,0 +1,115 @@
+/** Labs, members, invitations and the audit trail. */
+import { z } from "zod";
+import { defineRoutes } from "./route-table";
+import { listAudit } from "../services/audit.service";
+import { changeRole, createLab, deleteLab, inviteMember, labDetail, labsOf, pendingInvitations, removeMember, renameLab } from "../services/labs.service";
+
+const LabName = z.string().trim().min(1, "must not be empty").max(80, "must be at most 80 characters");
+const Role = z.enum(["owner", "editor", "viewer"]);
+
+export const LabCreateBodySchema = z.object({ name: LabName });
+export const LabPatchBodySchema = z.object({ name: LabName });
+export const InviteBodySchema = z.object({ email: z.string().trim().max(254).pipe(z.email("must be an e-mail address")), role: Role });
+export const RoleBodySchema = z.object({ role: Role });
+export const AuditQuerySchema = z.object({
+  limit: z.coerce.number().int().min(1).max(500).optional(),
+  before: z.coerce.number().int().min(1).optional(),
+});
+
+export const labsRoutes = defineRoutes([
+  {
+    method: "get",
+    path: "/labs",
+    access: { kind: "signedIn" },
+    summary: "The caller's labs with their role.",
+    handler: ({ ctx, user }) => ({ labs: labsOf(ctx, user!.id) }),
+  },
+  {
+    method: "post",
+    path: "/labs",
+    access: { kind: "signedIn" },
+    body: LabCreateBodySchema,
+    summary: "Create a lab; the creator becomes its owner.",
+    handler: ({ ctx, res, user, body }) => {
+      const lab = createLab(ctx, user!.id, body.name);
+      res.status(201);
+      return { lab };
+    },
+  },
+  {
+    method: "get",
+    path: "/labs/:labId",
+    access: { kind: "lab", role: "viewer" },
+    summary: "A lab: name and members.",
+    handler: ({ ctx, labId, role }) => ({ lab: labDetail(ctx, labId), role }),
+  },
+  {
+    method: "patch",
+    path: "/labs/:labId",
+    access: { kind: "lab", role: "owner" },
+    body: LabPatchBodySchema,
+    summary: "Rename a lab.",
+    handler: ({ ctx, user, labId, role, body }) => {
+      renameLab(ctx, user!.id, labId, body.name);
+      return { lab: labDetail(ctx, labId), role };
+    },
+  },
+  {
+    method: "delete",
+    path: "/labs/:labId",
+    access: { kind: "lab", role: "owner" },
+    summary: "Delete a lab and everything in it.",
+    handler: ({ ctx, user, labId }) => {
+      deleteLab(ctx, user!.id, labId);
+      return undefined;
+    },
+  },
+  {
+    method: "post",
+    path: "/labs/:labId/invitations",
+    access: { kind: "lab", role: "owner" },
+    body: InviteBodySchema,
+    summary: "Invite someone by e-mail with a role; the link expires in 7 days.",
+    handler: async ({ ctx, res, user, labId, body }) => {
+      const invitation = await inviteMember(ctx, user!, labId, body.email, body.role);
+      res.status(201);
+      return { invitation };
+    },
+  },
+  {
+    method: "get",
+    path: "/labs/:labId/invitations",
+    access: { kind: "lab", role: "owner" },
+    summary: "Pending (unused, unexpired) invitations.",
+    handler: ({ ctx, labId }) => ({ invitations: pendingInvitations(ctx, labId) }),
+  },
+  {
+    method: "patch",
+    path: "/labs/:labId/members/:userId",
+    access: { kind: "lab", role: "owner" },
+    body: RoleBodySchema,
+    summary: "Change a member's role; a lab always keeps an owner (409 otherwise).",
+    handler: ({ ctx, user, labId, params, body }) => {
+      changeRole(ctx, user!.id, labId, params.userId, body.role);
+      return { lab: labDetail(ctx, labId) };
+    },
+  },
+  {
+    method: "delete",
+    path: "/labs/:labId/members/:userId",
+    access: { kind: "lab", role: "viewer" },
+    summary: "Remove a member (owner), or leave the lab (any member, own id); the last owner cannot leave (409).",
+    handler: ({ ctx, user, labId, role, params }) => {
+      removeMember(ctx, { id: user!.id, role: role! }, labId, params.userId);
+      return undefined;
+    },
+  },
+  {
+    method: "get",
+    path: "/labs/:labId/audit",
+    access: { kind: "lab", role: "owner" },
+    query: AuditQuerySchema,
+    summary: "The lab's audit trail, newest first (?limit, ?before=<id> to page back).",
+    handler: ({ ctx, labId, query }) => ({ events: listAudit(ctx, labId, { limit: query.limit, beforeId: query.before }) }),
+  },
+]);

@@ -1,0 +1,88 @@
+/**
+ * The audit trail: who launched, cancelled, deleted, invited, changed roles.
+ * One row per event in `audit_events`; lab owners read their lab's trail.
+ */
+import { and, desc, eq, lt } from "drizzle-orm";
+import type { AppContext } from "../context";
+import { schema } from "../../db/client";
+
+/** Actions in use; others may be added (the column is free text). */
+export type AuditAction =
+  | "run.launched"
+  | "run.cancelled"
+  | "run.deleted"
+  | "run.restored"
+  | "sweep.launched"
+  | "sweep.cancelled"
+  | "sweep.deleted"
+  | "lab.created"
+  | "lab.renamed"
+  | "lab.deleted"
+  | "member.invited"
+  | "member.joined"
+  | "member.role_changed"
+  | "member.removed"
+  | "member.left"
+  | "admin.backup"
+  | (string & {});
+
+export interface AuditInput {
+  labId: string | null;
+  userId: string | null;
+  action: AuditAction;
+  targetType?: string | null;
+  targetId?: string | null;
+  detail?: Record<string, unknown> | null;
+}
+
+export interface AuditEvent {
+  id: number;
+  labId: string | null;
+  userId: string | null;
+  userName: string | null;
+  action: string;
+  targetType: string | null;
+  targetId: string | null;
+  detail: unknown;
+  at: string;
+}
+
+/** Records one event (synchronous; call it inside the same transaction as the change when there is one). */
+export function recordAudit(ctx: Pick<AppContext, "db">, e: AuditInput): void {
+  ctx.db
+    .insert(schema.auditEvents)
+    .values({
+      labId: e.labId ?? null,
+      userId: e.userId ?? null,
+      action: e.action,
+      targetType: e.targetType ?? null,
+      targetId: e.targetId ?? null,
+      detail: e.detail ?? null,
+      at: new Date(),
+    })
+    .run();
+}
+
+/** A lab's events, newest first; `beforeId` pages back. */
+export function listAudit(ctx: Pick<AppContext, "db">, labId: string, opts: { limit?: number; beforeId?: number } = {}): AuditEvent[] {
+  const a = schema.auditEvents;
+  const rows = ctx.db
+    .select({
+      id: a.id,
+      labId: a.labId,
+      userId: a.userId,
+      userName: schema.users.displayName,
+      action: a.action,
+      targetType: a.targetType,
+      targetId: a.targetId,
+      detail: a.detail,
+      at: a.at,
+    })
+    .from(a)
+    .leftJoin(schema.users, eq(schema.users.id, a.userId))
+    .where(opts.beforeId ? and(eq(a.labId, labId), lt(a.id, opts.beforeId)) : eq(a.labId, labId))
+    .orderBy(desc(a.id))
+    .limit(Math.min(Math.max(opts.limit ?? 100, 1), 500))
+    .all();
+  return rows.map((r) => ({ ...r, at: r.at.toISOString() }));
+}

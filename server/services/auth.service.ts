@@ -1,0 +1,146 @@
+/**
+ * Accounts: credentials, sign-up, password reset and change. Sessions and
+ * passport live in server/middleware/session.ts; routes in auth.routes.ts.
+ */
+import { count, eq } from "drizzle-orm";
+import type { AppContext } from "../context";
+import { schema } from "../../db/client";
+import { newId } from "../ids";
+import { badRequest, conflict } from "../http-error";
+import type { SessionUser } from "../routes/route-table";
+import { hashPassword, verifyPassword } from "./password";
+import { createToken, findValidToken, markTokenUsed } from "./tokens.service";
+
+export const PASSWORD_MIN_LENGTH = 8;
+export const PASSWORD_MAX_LENGTH = 200;
+
+export interface MeUser extends SessionUser {
+  notifyOnRunEnd: boolean;
+}
+
+export function normalizeEmail(email: string): string {
+  return email.trim().toLowerCase();
+}
+
+let dummyHash: Promise<string> | null = null;
+
+/** The user for these credentials, or null. Takes about as long whether or not the e-mail exists. */
+export async function checkCredentials(ctx: AppContext, email: string, password: string): Promise<SessionUser | null> {
+  const u = ctx.db.select().from(schema.users).where(eq(schema.users.email, normalizeEmail(email))).get();
+  if (!u || !u.passwordHash) {
+    dummyHash ??= hashPassword("not-a-real-password");
+    await verifyPassword(password, await dummyHash);
+    return null;
+  }
+  if (!(await verifyPassword(password, u.passwordHash))) return null;
+  return { id: u.id, email: u.email, displayName: u.displayName, isSiteAdmin: u.isSiteAdmin };
+}
+
+export function findUserByEmail(ctx: AppContext, email: string) {
+  return ctx.db.select().from(schema.users).where(eq(schema.users.email, normalizeEmail(email))).get() ?? null;
+}
+
+export function meUser(ctx: AppContext, userId: string): MeUser | null {
+  const u = ctx.db.select().from(schema.users).where(eq(schema.users.id, userId)).get();
+  if (!u) return null;
+  return { id: u.id, email: u.email, displayName: u.displayName, isSiteAdmin: u.isSiteAdmin, notifyOnRunEnd: u.notifyOnRunEnd };
+}
+
+export function userCount(ctx: AppContext): number {
+  return ctx.db.select({ n: count() }).from(schema.users).get()?.n ?? 0;
+}
+
+/**
+ * Creates an account. The first account of an instance without any users
+ * (no demo data) becomes the site admin. Without an invitation the new user
+ * gets a lab of their own, so there is somewhere to work.
+ */
+export async function createAccount(
+  ctx: AppContext,
+  input: { email: string; password: string | null; displayName: string; ownLab: boolean },
+): Promise<MeUser> {
+  const email = normalizeEmail(input.email);
+  const passwordHash = input.password === null ? null : await hashPassword(input.password);
+  const now = new Date();
+  const id = newId("usr_");
+  ctx.sqlite.transaction(() => {
+    if (findUserByEmail(ctx, email)) throw conflict("An account with this e-mail address already exists. Sign in, or reset the password.", "email_taken");
+    const first = userCount(ctx) === 0;
+    ctx.db.insert(schema.users).values({ id, email, displayName: input.displayName.trim(), passwordHash, isSiteAdmin: first, notifyOnRunEnd: true, createdAt: now }).run();
+    if (input.ownLab) {
+      const labId = newId("lab_");
+      ctx.db.insert(schema.labs).values({ id: labId, name: `${input.displayName.trim()}'s lab`, createdAt: now }).run();
+      ctx.db.insert(schema.memberships).values({ labId, userId: id, role: "owner", createdAt: now }).run();
+    }
+  })();
+  return meUser(ctx, id)!;
+}
+
+export async function setPassword(ctx: AppContext, userId: string, password: string): Promise<void> {
+  ctx.db.update(schema.users).set({ passwordHash: await hashPassword(password) }).where(eq(schema.users.id, userId)).run();
+}
+
+/** Sends a reset link when the address has an account; silent otherwise (the caller always answers 200). */
+export async function requestPasswordReset(ctx: AppContext, email: string): Promise<boolean> {
+  const u = findUserByEmail(ctx, email);
+  if (!u) return false;
+  const { token } = createToken(ctx, { purpose: "reset", userId: u.id, email: u.email });
+  const link = `${ctx.env.baseUrl}/reset?token=${encodeURIComponent(token)}`;
+  await ctx.mailer.send({
+    to: u.email,
+    subject: "Reset your Linger password",
+    text: [
+      `Hello ${u.displayName},`,
+      "",
+      "Someone asked to reset the password of your Linger account. To choose a new password, open this link within one hour:",
+      "",
+      link,
+      "",
+      "If it was not you, ignore this message; your password stays as it is.",
+    ].join("\n"),
+  });
+  return true;
+}
+
+/** Sets a new password with a reset or set-up token; returns the user id. */
+export async function confirmPasswordReset(ctx: AppContext, token: string, password: string): Promise<string> {
+  const row = findValidToken(ctx, token, ["reset", "setup"]);
+  if (!row || !row.userId) throw badRequest("This reset link is not valid or has expired. Ask for a new one.", undefined, "invalid_token");
+  if (!markTokenUsed(ctx, row.tokenHash)) throw badRequest("This reset link has already been used.", undefined, "invalid_token");
+  await setPassword(ctx, row.userId, password);
+  return row.userId;
+}
+
+export async function changePassword(ctx: AppContext, userId: string, currentPassword: string, newPassword: string): Promise<void> {
+  const u = ctx.db.select().from(schema.users).where(eq(schema.users.id, userId)).get();
+  if (!u || !(await verifyPassword(currentPassword, u.passwordHash))) {
+    throw badRequest("The current password is not right.", [{ path: "currentPassword", message: "Not right." }], "wrong_password");
+  }
+  await setPassword(ctx, userId, newPassword);
+}
+
+export function updateProfile(ctx: AppContext, userId: string, patch: { displayName?: string; notifyOnRunEnd?: boolean }): MeUser {
+  const set: Partial<typeof schema.users.$inferInsert> = {};
+  if (patch.displayName !== undefined) set.displayName = patch.displayName.trim();
+  if (patch.notifyOnRunEnd !== undefined) set.notifyOnRunEnd = patch.notifyOnRunEnd;
+  if (Object.keys(set).length) ctx.db.update(schema.users).set(set).where(eq(schema.users.id, userId)).run();
+  return meUser(ctx, userId)!;
+}
+
+/**
+ * Creates the user if needed, makes them site admin, and returns a one-time
+ * set-password link (for `npm run admin -- create <email>`).
+ */
+export async function createSiteAdmin(ctx: AppContext, email: string): Promise<{ userId: string; created: boolean; link: string }> {
+  let u = findUserByEmail(ctx, email);
+  let created = false;
+  if (!u) {
+    const local = normalizeEmail(email).split("@")[0] || "Admin";
+    await createAccount(ctx, { email, password: null, displayName: local, ownLab: false });
+    u = findUserByEmail(ctx, email)!;
+    created = true;
+  }
+  ctx.db.update(schema.users).set({ isSiteAdmin: true }).where(eq(schema.users.id, u.id)).run();
+  const { token } = createToken(ctx, { purpose: "setup", userId: u.id, email: u.email });
+  return { userId: u.id, created, link: `${ctx.env.baseUrl}/reset?token=${encodeURIComponent(token)}` };
+}
