@@ -3,3 +3,5 @@ export { summarizeRun, type SummarizeRunInput, type ReplicateTotals } from "./su
 export { summarizeDelays } from "./delay-summary";
 export { evaluablePulses, delaysOf, widthsOf, windowEnds } from "./pulse-selection";
 export { ks2, wasserstein1, wilson } from "../stats";
+export { compareRuns, type RunToCompare } from "./compare-runs";
+export { pulseStatsCsv, replicateStatsCsv, byDurationCsv, summaryCsv } from "./csv-export";
