@@ -1,0 +1,106 @@
+/**
+ * Semantic checks of a circuit beyond its zod schema: unknown names, duplicate
+ * names, reactions that could drive a count negative, the output species.
+ * Messages name the reaction and field, for example
+ *   reactions[2] "degZ": reactant "Q" is not a species
+ * Size limits are CIRCUIT_LIMITS in shared/schemas/circuit.ts (50 species,
+ * 8 signals, 200 reactions, 6 regulators per reaction), enforced by the schema.
+ */
+import { CircuitSchema, type Circuit } from "../../shared/schemas/circuit";
+
+export interface ValidationError {
+  path: string;
+  message: string;
+}
+export type ValidationResult = { ok: true } | { ok: false; errors: ValidationError[] };
+
+function zodPath(path: readonly PropertyKey[]): string {
+  let out = "";
+  for (const p of path) out += typeof p === "number" ? `[${p}]` : out === "" ? String(p) : `.${String(p)}`;
+  return out;
+}
+
+/** Validates a circuit (raw JSON or parsed): schema first, then the semantic checks. */
+export function validateCircuit(input: unknown): ValidationResult {
+  const parsed = CircuitSchema.safeParse(input);
+  if (!parsed.success) {
+    const errors = parsed.error.issues.map((i) => {
+      const path = zodPath(i.path);
+      const m = /^reactions\[(\d+)\]/.exec(path);
+      const raw = input as { reactions?: { name?: unknown }[] } | null;
+      const rname = m && raw && Array.isArray(raw.reactions) ? raw.reactions[Number(m[1])]?.name : undefined;
+      const prefix = m ? `reactions[${m[1]}]${typeof rname === "string" ? ` "${rname}"` : ""}: ` : path ? `${path}: ` : "";
+      return { path, message: `${prefix}${i.message}` };
+    });
+    return { ok: false, errors };
+  }
+  const errors = semanticErrors(parsed.data);
+  return errors.length === 0 ? { ok: true } : { ok: false, errors };
+}
+
+export function semanticErrors(c: Circuit): ValidationError[] {
+  const errors: ValidationError[] = [];
+  const species = new Set<string>();
+  const signals = new Set<string>();
+  c.species.forEach((s, i) => {
+    if (species.has(s.name)) errors.push({ path: `species[${i}].name`, message: `species[${i}]: duplicate species name "${s.name}"` });
+    species.add(s.name);
+  });
+  c.signals.forEach((s, i) => {
+    if (signals.has(s.name)) errors.push({ path: `signals[${i}].name`, message: `signals[${i}]: duplicate signal name "${s.name}"` });
+    if (species.has(s.name))
+      errors.push({ path: `signals[${i}].name`, message: `signals[${i}]: "${s.name}" is already a species name` });
+    signals.add(s.name);
+  });
+  if (!species.has(c.outputSpecies))
+    errors.push({ path: "outputSpecies", message: `output species "${c.outputSpecies}" is not a species` });
+  const reactionNames = new Set<string>();
+  c.reactions.forEach((r, i) => {
+    const at = `reactions[${i}]`;
+    const who = `${at} "${r.name}"`;
+    if (reactionNames.has(r.name)) errors.push({ path: `${at}.name`, message: `${who}: duplicate reaction name` });
+    reactionNames.add(r.name);
+    const seen = new Set<string>();
+    r.reactants.forEach((e, k) => {
+      if (!species.has(e.species))
+        errors.push({ path: `${at}.reactants[${k}].species`, message: `${who}: reactant "${e.species}" is not a species` });
+      if (seen.has(e.species))
+        errors.push({
+          path: `${at}.reactants[${k}].species`,
+          message: `${who}: reactant "${e.species}" is listed twice; list it once with count 2`,
+        });
+      seen.add(e.species);
+    });
+    const order = r.reactants.reduce((s, e) => s + e.count, 0);
+    if (order > 2) errors.push({ path: `${at}.reactants`, message: `${who}: reactants: at most order 2 (two molecules in total)` });
+    r.products.forEach((e, k) => {
+      if (!species.has(e.species))
+        errors.push({ path: `${at}.products[${k}].species`, message: `${who}: product "${e.species}" is not a species` });
+    });
+    r.modifiers.forEach((m, k) => {
+      if (!species.has(m) && !signals.has(m))
+        errors.push({ path: `${at}.modifiers[${k}]`, message: `${who}: modifier "${m}" is not a species or signal` });
+    });
+    if (r.scaledBy !== undefined && !signals.has(r.scaledBy))
+      errors.push({ path: `${at}.scaledBy`, message: `${who}: scaledBy "${r.scaledBy}" is not a signal` });
+    if (r.rate.kind !== "massAction" && r.reactants.length > 0)
+      errors.push({
+        path: `${at}.reactants`,
+        message: `${who}: reactants: a ${r.rate.kind} rate does not depend on its reactants, so it could drive a count negative; use mass action or move them to modifiers`,
+      });
+    if (r.rate.kind === "regulated") {
+      const regs = new Set<string>();
+      r.rate.regulators.forEach((g, k) => {
+        if (!species.has(g.source) && !signals.has(g.source))
+          errors.push({
+            path: `${at}.rate.regulators[${k}].source`,
+            message: `${who}: regulator "${g.source}" is not a species or signal`,
+          });
+        if (regs.has(g.source))
+          errors.push({ path: `${at}.rate.regulators[${k}].source`, message: `${who}: regulator "${g.source}" is listed twice` });
+        regs.add(g.source);
+      });
+    }
+  });
+  return errors;
+}

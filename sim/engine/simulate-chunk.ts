@@ -1,0 +1,270 @@
+/**
+ * Simulates replicates [replicateStart, replicateStart + count) of a run with
+ * the exact direct method (./generate-kernel.ts), or approximate tau-leaping
+ * when spec.method = "tauLeap" (./tau-leap.ts).
+ *
+ * Per replicate, in this order, from the replicate's own stream
+ * seedrandom.alea(`${seed}/${replicate}`):
+ *   1. the input program, when it is random and drawn per replicate;
+ *   2. the extrinsic factors, in spec.extrinsic order: a lognormal factor with
+ *      mean 1 and the given CV multiplying the parameter (leak capped at 1,
+ *      Hill n at 10, init rounded to a whole count);
+ *   3. the burn-in (start = offSteadyState: input off for burnInMinutes from the
+ *      given counts), then the run from t = 0 to the end time.
+ * Results therefore depend only on (spec, replicate index), never on chunking.
+ *
+ * Grid values: the state at each grid time (every species). Pulse figures:
+ * PulseTracker fed on the exact event path. outputMean / outputVar: mean and
+ * population variance of the output over the grid points at or after the first
+ * pulse's on time (all grid points when there is no pulse), for CV and Fano
+ * figures. A replicate stopped at the event cap has NaN grid values after the
+ * stop, is left out of the grid sums there (gridCount), and its open pulse
+ * windows are closed at the stop time.
+ */
+import type { RunSpec, PulseStat } from "../../shared/schemas/run-spec";
+import { runSetup, type RunSetup } from "./run-setup";
+import { generateKernel, KernelContext, KERNEL_ABORTED, KERNEL_CAPPED, type Kernel } from "./generate-kernel";
+import { EventRecorder } from "./event-recorder";
+import { AleaStream, replicateSeed } from "../random/alea-stream";
+import { sampleLognormalFactor } from "../random/distributions";
+import { compileProgram, type CompiledProgram } from "../inputs/compile-program";
+import { PulseTracker } from "../metrics/pulse-tracker";
+import { resolveThreshold } from "./resolve-threshold";
+import { deriveParams } from "../circuit/compile-model";
+import { ENGINE_VERSION } from "./version";
+import { tauLeapRun } from "./tau-leap";
+
+export interface SimulateChunkOptions {
+  /** Keep full grid trajectories for replicate indices below this (default 20). */
+  trajectoryReplicates?: number;
+  /** Keep every replicate's grid trajectory (the CLI's per-replicate CSV). */
+  keepAllGrid?: boolean;
+  /** Called every 65,536 events; return false to abort (the wall-time cap lives in the worker). */
+  checkpoint?: () => boolean;
+}
+
+export interface ReplicateSummary {
+  replicate: number;
+  /** Reaction firings, burn-in included. */
+  events: number;
+  /** Stopped at the event cap ("stopped at cap", not finished). */
+  capped: boolean;
+  /** Simulated time reached (the end time unless capped or aborted). */
+  endTime: number;
+  outputMean: number;
+  outputVar: number;
+  factors: Record<string, number>;
+}
+
+export interface RecordedEvents {
+  replicate: number;
+  /** State at t = 0 (after any burn-in). */
+  initial: Float64Array;
+  times: Float64Array;
+  reactions: Int32Array;
+  truncated: boolean;
+}
+
+export interface ChunkResult {
+  replicateStart: number;
+  count: number;
+  events: number;
+  engineVersion: string;
+  method: "direct" | "tauLeap";
+  replicates: ReplicateSummary[];
+  /** Replicate-major, pulse order. */
+  pulses: PulseStat[];
+  /** [species][grid] sums over the chunk's replicates (valid values only), in replicate order. */
+  gridSum: Float64Array;
+  gridSumSq: Float64Array;
+  /** Number of replicates with a valid value per grid point. */
+  gridCount: Float64Array;
+  trajectories: { replicate: number; values: Float64Array }[];
+  recordedEvents?: RecordedEvents[];
+  aborted?: boolean;
+}
+
+const kernels = new WeakMap<RunSetup, Kernel>();
+
+function kernelFor(setup: RunSetup): Kernel {
+  let k = kernels.get(setup);
+  if (!k) {
+    const variedSlots = new Set<number>(setup.varied.filter((v) => v.slot >= 0).map((v) => v.slot));
+    k = generateKernel(setup.model, { inputSignal: setup.inputSignal, variedSlots });
+    kernels.set(setup, k);
+  }
+  return k;
+}
+
+/** Compiles (and caches) everything a chunk needs; the worker calls it to warm its cache. */
+export function prepareRun(spec: RunSpec): RunSetup {
+  const setup = runSetup(spec);
+  if (setup.spec.method === "direct") kernelFor(setup);
+  resolveThreshold(spec);
+  return setup;
+}
+
+export function simulateChunk(
+  specInput: RunSpec,
+  replicateStart: number,
+  count: number,
+  options: SimulateChunkOptions = {},
+): ChunkResult {
+  const setup = prepareRun(specInput);
+  const { spec, model, grid } = setup;
+  const thr = resolveThreshold(specInput);
+  const direct = spec.method === "direct";
+  const kernel = direct ? kernelFor(setup) : null;
+  const nS = model.nSpecies;
+  const ng = grid.length;
+  const out = model.outputIndex;
+  const trajectoryBelow = options.trajectoryReplicates ?? 20;
+  const signal = spec.circuit.signals[setup.inputSignal];
+
+  const gridSum = new Float64Array(nS * ng);
+  const gridSumSq = new Float64Array(nS * ng);
+  const gridCount = new Float64Array(ng);
+  const gridBuf = new Float64Array(nS * ng);
+  const x = new Float64Array(nS);
+  const p = new Float64Array(model.nParams);
+  const sig = new Float64Array(model.nSignals);
+  const rs = new Float64Array(4);
+  const ctx = new KernelContext();
+  ctx.checkpoint = options.checkpoint ?? null;
+  const empty = new Float64Array(0);
+  const sharedTracker = setup.sharedProgram ? new PulseTracker(setup.sharedProgram.pulses, thr, "step") : null;
+
+  const replicates: ReplicateSummary[] = [];
+  const pulses: PulseStat[] = [];
+  const trajectories: { replicate: number; values: Float64Array }[] = [];
+  const recorded: RecordedEvents[] = [];
+  let totalEvents = 0;
+  let aborted = false;
+
+  for (let rep = replicateStart; rep < replicateStart + count; rep++) {
+    const stream = new AleaStream(replicateSeed(spec.seed, rep));
+    const u = () => stream.next();
+    let program: CompiledProgram;
+    let tracker: PulseTracker;
+    if (setup.sharedProgram && sharedTracker) {
+      program = setup.sharedProgram;
+      tracker = sharedTracker;
+    } else {
+      program = compileProgram(spec.program, spec.endTimeMinutes, u, signal);
+      tracker = new PulseTracker(program.pulses, thr, "step");
+    }
+    p.set(model.baseParams);
+    x.set(model.init);
+    const factors: Record<string, number> = {};
+    for (const v of setup.varied) {
+      const f = sampleLognormalFactor(u, v.cv);
+      factors[v.ref] = f;
+      if (v.kind === "init") x[v.species] = Math.round(x[v.species] * f);
+      else if (v.kind === "leak") p[v.slot] = Math.min(1, p[v.slot] * f);
+      else if (v.kind === "n") p[v.slot] = Math.min(10, p[v.slot] * f);
+      else p[v.slot] *= f;
+    }
+    deriveParams(model, p);
+    sig.set(model.signalOff);
+    stream.saveTo(rs);
+
+    ctx.events = 0;
+    ctx.eventCap = spec.eventCapPerReplicate;
+    ctx.status = 0;
+    let status = 0;
+    if (spec.start === "offSteadyState" && spec.burnInMinutes > 0) {
+      ctx.t = 0;
+      ctx.tEnd = spec.burnInMinutes;
+      ctx.switchTimes = empty;
+      ctx.switchLevels = empty;
+      ctx.switchIndex = 0;
+      ctx.gridTimes = empty;
+      ctx.gridIndex = 0;
+      ctx.gridBuf = null;
+      ctx.tracker = null;
+      ctx.recorder = null;
+      if (kernel) kernel(x, p, sig, rs, ctx);
+      else tauLeapRun(model, x, p, sig, rs, ctx, setup.inputSignal);
+      status = ctx.status;
+      sig.set(model.signalOff);
+    }
+    const recorder = rep < spec.recordEventsFor ? new EventRecorder() : null;
+    const initial = recorder ? x.slice() : null;
+    ctx.t = 0;
+    ctx.tEnd = spec.endTimeMinutes;
+    ctx.switchTimes = program.switchTimes;
+    ctx.switchLevels = program.levels;
+    ctx.switchIndex = 0;
+    ctx.gridTimes = grid;
+    ctx.gridIndex = 0;
+    ctx.gridBuf = gridBuf;
+    ctx.tracker = tracker;
+    ctx.recorder = recorder;
+    tracker.reset(rep, 0, x[out]);
+    if (status === 0) {
+      if (kernel) kernel(x, p, sig, rs, ctx);
+      else tauLeapRun(model, x, p, sig, rs, ctx, setup.inputSignal);
+      status = ctx.status;
+    }
+    const gEnd = status === 0 ? ng : ctx.gridIndex;
+    for (let i = 0; i < nS; i++) gridBuf.fill(NaN, i * ng + gEnd, (i + 1) * ng);
+    const stats = tracker.finish(ctx.t);
+    for (const s of stats) pulses.push(s);
+
+    // grid sums and output statistics
+    for (let i = 0; i < nS; i++) {
+      const o = i * ng;
+      for (let g = 0; g < gEnd; g++) {
+        const v = gridBuf[o + g];
+        gridSum[o + g] += v;
+        gridSumSq[o + g] += v * v;
+      }
+    }
+    for (let g = 0; g < gEnd; g++) gridCount[g] += 1;
+    const statsFrom = program.pulses.length > 0 ? program.pulses[0].on : 0;
+    let n = 0;
+    let sum = 0;
+    let sumSq = 0;
+    for (let g = 0; g < gEnd; g++) {
+      if (grid[g] < statsFrom) continue;
+      const v = gridBuf[out * ng + g];
+      n++;
+      sum += v;
+      sumSq += v * v;
+    }
+    const mean = n > 0 ? sum / n : NaN;
+    const variance = n > 0 ? Math.max(0, sumSq / n - mean * mean) : NaN;
+    if (options.keepAllGrid || rep < trajectoryBelow) trajectories.push({ replicate: rep, values: gridBuf.slice() });
+    if (recorder && initial) recorded.push({ replicate: rep, initial, ...recorder.snapshot() });
+    totalEvents += ctx.events;
+    replicates.push({
+      replicate: rep,
+      events: ctx.events,
+      capped: status === KERNEL_CAPPED,
+      endTime: ctx.t,
+      outputMean: mean,
+      outputVar: variance,
+      factors,
+    });
+    if (status === KERNEL_ABORTED) {
+      aborted = true;
+      break;
+    }
+  }
+  const result: ChunkResult = {
+    replicateStart,
+    count,
+    events: totalEvents,
+    engineVersion: ENGINE_VERSION,
+    method: spec.method,
+    replicates,
+    pulses,
+    gridSum,
+    gridSumSq,
+    gridCount,
+    trajectories,
+  };
+  if (recorded.length > 0) result.recordedEvents = recorded;
+  if (aborted) result.aborted = true;
+  return result;
+}

@@ -1,0 +1,28 @@
+/**
+ * Mean-field (deterministic) rate equations of a compiled circuit:
+ * dx_i/dt = sum_j v_ij * rate_j(x), with the mass-action rate of 2A -> ... equal
+ * to k*A^2/2 (the ODE limit of the propensity k*A*(A-1)/2) and the other laws
+ * as in the stochastic model. Optionally a last component accumulates the total
+ * rate sum_j rate_j (the expected number of firings, for cost estimates).
+ */
+import { reactionRate, type CompiledModel } from "../circuit/compile-model";
+import type { OdeRhs } from "./dormand-prince";
+
+export function meanFieldRhs(model: CompiledModel, p: Float64Array, sig: Float64Array, accumulateTotal = false): OdeRhs {
+  const nS = model.nSpecies;
+  const nR = model.nReactions;
+  const clamped = new Float64Array(nS);
+  return (_t, y, dy) => {
+    for (let i = 0; i < nS; i++) {
+      clamped[i] = y[i] > 0 ? y[i] : 0;
+      dy[i] = 0;
+    }
+    let total = 0;
+    for (let j = 0; j < nR; j++) {
+      const a = reactionRate(model, p, clamped, sig, j, true);
+      total += a;
+      for (const d of model.reactions[j].delta) dy[d.species] += d.change * a;
+    }
+    if (accumulateTotal) dy[nS] = total;
+  };
+}
