@@ -7,8 +7,11 @@ import type { AppContext } from "./context";
 import { parseEnv, type Env } from "./env";
 import { APP_VERSION } from "./version";
 import { createMailer } from "./services/mail.service";
-import { createIdleQueue } from "./services/run-queue";
+import { createRunQueue } from "./services/run-queue";
+import { createSimPool } from "./workers/pool";
+import { onRunEnded } from "./services/run-events";
 import { seedDemo } from "./services/demo-seed";
+import "./services/demo-circuits";
 
 export interface Booted {
   ctx: AppContext;
@@ -18,8 +21,17 @@ export interface Booted {
 export async function boot(env: Env = parseEnv()): Promise<Booted> {
   const handle = openDatabase(env.DATABASE_URL);
   const mailer = await createMailer(env, { db: handle.db });
-  const queue = createIdleQueue();
-  const ctx: AppContext = { db: handle.db, sqlite: handle.sqlite, env, version: APP_VERSION, mailer, queue, poolSize: env.poolSize };
+  const pool = createSimPool({ threads: env.poolSize });
+  const ctx = { db: handle.db, sqlite: handle.sqlite, env, version: APP_VERSION, mailer, poolSize: env.poolSize } as AppContext;
+  ctx.queue = createRunQueue({
+    db: handle.db,
+    sqlite: handle.sqlite,
+    pool,
+    chunkWallMs: env.LINGER_CHUNK_WALL_SECONDS * 1000,
+    onRunEnded: (runId, status) => onRunEnded(ctx, runId, status),
+    log: env.LINGER_TEST ? () => {} : undefined,
+  });
+  const queue = ctx.queue;
   if (env.LINGER_SEED_DEMO) await seedDemo(ctx);
   queue.kick();
   return {

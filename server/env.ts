@@ -26,6 +26,8 @@ export const EnvSchema = z.object({
   /** Wall-time cap per chunk of replicates, in seconds. */
   LINGER_CHUNK_WALL_SECONDS: z.coerce.number().gt(0).default(600),
   LINGER_LOG_REQUESTS: bool(false),
+  /** Set by the test runner: quieter logs. */
+  LINGER_TEST: bool(false),
 });
 
 export type Env = z.infer<typeof EnvSchema> & { poolSize: number; baseUrl: string };

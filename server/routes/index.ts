@@ -4,5 +4,9 @@ import { healthRoutes } from "./health.routes";
 import { authRoutes } from "./auth.routes";
 import { labsRoutes } from "./labs.routes";
 import { adminRoutes } from "./admin.routes";
+import { runRoutes } from "./runs.routes";
+import { sweepRoutes } from "./sweeps.routes";
+import { circuitRoutes } from "./circuits.routes";
+import { programRoutes } from "./programs.routes";
 
-export const allRoutes: RouteDef[] = [...healthRoutes, ...authRoutes, ...labsRoutes, ...adminRoutes];
+export const allRoutes: RouteDef[] = [...healthRoutes, ...authRoutes, ...labsRoutes, ...adminRoutes, ...runRoutes, ...sweepRoutes, ...circuitRoutes, ...programRoutes];

@@ -1,18 +1,392 @@
 /**
- * The run queue (placeholder until the runs work lands): nothing is computed.
+ * The run queue: runs are split into chunks of replicates (boundaries fixed by
+ * the spec, never by the pool), chunks are dispatched to the piscina pool
+ * round-robin across runs (a sweep counts as one participant, its points in
+ * order), results are written to SQLite one chunk per transaction, and a run is
+ * finalised (grid mean/SD reduced in chunk order, ODE overlay, summary, hash)
+ * when its last chunk lands. Runs found "running" at start resume from their
+ * stored chunks; the result equals an uninterrupted run with the same seed.
  */
+import { EventEmitter } from "node:events";
+import { and, eq, inArray, isNull } from "drizzle-orm";
+import type Database from "better-sqlite3";
+import type { Db } from "../../db/client";
+import { schema } from "../../db/client";
+import type { RunSpec } from "../../shared/schemas/run-spec";
+import { chunkLayout, gridTimes, reduceChunks, resolveThreshold, solveOde } from "../../sim";
+import { summarizeRun } from "../../sim/analysis";
+import type { SimPool } from "../workers/pool";
+import {
+  createChunkWriter, fromBlob, readChunks, readPulseRows, readReplicateRows, rowToPulseStat, speciesNames, statsHash, toBlob,
+} from "./run-store";
+
 export interface RunQueueStats {
   queuedRuns: number;
   runningRuns: number;
   busyThreads: number;
 }
+
+export interface RunProgress {
+  runId: string;
+  status: string;
+  replicatesDone: number;
+  replicates: number;
+  eventsPerSecond: number | null;
+  secondsLeft: number | null;
+}
+
 export interface RunQueue {
   stats(): RunQueueStats;
   /** Look for queued or interrupted runs in the database and start them. */
   kick(): void;
+  cancel(runId: string): boolean;
+  progress(runId: string): RunProgress | null;
+  /** Emits "progress" (RunProgress) and "ended" ({runId, status}). */
+  events: EventEmitter;
+  /** Resolves when nothing is queued or running (tests, benchmarks). */
+  idle(): Promise<void>;
   close(): Promise<void>;
 }
 
-export function createIdleQueue(): RunQueue {
-  return { stats: () => ({ queuedRuns: 0, runningRuns: 0, busyThreads: 0 }), kick: () => {}, close: async () => {} };
+interface ActiveRun {
+  id: string;
+  group: string;
+  order: number;
+  spec: RunSpec;
+  species: string[];
+  gridLength: number;
+  chunks: { index: number; replicateStart: number; count: number }[];
+  pending: number[];
+  inFlight: number;
+  done: number;
+  replicates: number;
+  replicatesDone: number;
+  sessionReplicates: number;
+  sessionEvents: number;
+  sessionStart: number;
+  stopped: boolean;
 }
+
+export interface RunQueueOptions {
+  db: Db;
+  sqlite: Database.Database;
+  pool: SimPool;
+  /** Wall-time cap per chunk, ms (enforced in the worker). */
+  chunkWallMs?: number;
+  /** Called after a run reaches an end state (finished, capped, failed). */
+  onRunEnded?: (runId: string, status: string) => void | Promise<void>;
+  log?: (msg: string) => void;
+}
+
+const END_STATES = new Set(["finished", "failed", "capped", "cancelled"]);
+
+export function createIdleQueue(): RunQueue {
+  return {
+    stats: () => ({ queuedRuns: 0, runningRuns: 0, busyThreads: 0 }),
+    kick: () => {},
+    cancel: () => false,
+    progress: () => null,
+    events: new EventEmitter(),
+    idle: async () => {},
+    close: async () => {},
+  };
+}
+
+export function createRunQueue(opts: RunQueueOptions): RunQueue {
+  const { db, sqlite, pool } = opts;
+  const log = opts.log ?? ((m: string) => console.log(`[queue] ${m}`));
+  const writer = createChunkWriter(sqlite);
+  const events = new EventEmitter();
+  events.setMaxListeners(0);
+  const active = new Map<string, ActiveRun>();
+  let inFlight = 0;
+  let closed = false;
+  let rrGroup = "";
+  let orderCounter = 0;
+  let idleWaiters: (() => void)[] = [];
+  const finalising = new Set<string>();
+
+  const capacity = () => Math.max(1, pool.threads);
+
+  function checkIdle() {
+    if (active.size === 0 && inFlight === 0 && finalising.size === 0) {
+      const w = idleWaiters;
+      idleWaiters = [];
+      w.forEach((f) => f());
+    }
+  }
+
+  function activate(row: typeof schema.runs.$inferSelect) {
+    if (active.has(row.id)) return;
+    const spec = row.spec as RunSpec;
+    let layout;
+    try {
+      layout = chunkLayout(spec);
+    } catch (e) {
+      markFailed(row.id, `The run cannot start: ${(e as Error).message}`);
+      return;
+    }
+    if (layout.chunkSize !== row.chunkSize) {
+      markFailed(row.id, `The stored chunk size (${row.chunkSize}) differs from this engine's (${layout.chunkSize}); the run cannot resume identically.`);
+      return;
+    }
+    const stored = new Set(readChunks(db, row.id).map((c) => c.chunkIndex));
+    const pending = layout.chunks.filter((c) => !stored.has(c.index)).map((c) => c.index);
+    const run: ActiveRun = {
+      id: row.id,
+      group: row.sweepId ?? row.id,
+      order: (row.sweepPoint ?? 0) + (orderCounter++) * 1e-9,
+      spec,
+      species: speciesNames(spec),
+      gridLength: gridTimes(spec).length,
+      chunks: layout.chunks,
+      pending,
+      inFlight: 0,
+      done: stored.size,
+      replicates: row.replicates,
+      replicatesDone: layout.chunks.filter((c) => stored.has(c.index)).reduce((s, c) => s + c.count, 0),
+      sessionReplicates: 0,
+      sessionEvents: 0,
+      sessionStart: Date.now(),
+      stopped: false,
+    };
+    active.set(row.id, run);
+    db.update(schema.runs)
+      .set({ status: "running", startedAt: row.startedAt ?? new Date(), statusReason: stored.size ? `resumed with ${stored.size} of ${layout.chunks.length} chunks stored` : null })
+      .where(eq(schema.runs.id, row.id))
+      .run();
+    if (pending.length === 0) void finalise(run);
+  }
+
+  function kick() {
+    if (closed) return;
+    const rows = db
+      .select()
+      .from(schema.runs)
+      .where(and(inArray(schema.runs.status, ["queued", "running"]), isNull(schema.runs.deletedAt)))
+      .orderBy(schema.runs.createdAt)
+      .all();
+    for (const row of rows) activate(row);
+    pump();
+    checkIdle();
+  }
+
+  /** The next chunk to run: round-robin over groups; inside a group, runs in order. */
+  function nextChunk(): { run: ActiveRun; chunkIndex: number } | null {
+    const groups = new Map<string, ActiveRun[]>();
+    for (const r of active.values()) {
+      if (r.stopped || r.pending.length === 0) continue;
+      const g = groups.get(r.group) ?? [];
+      g.push(r);
+      groups.set(r.group, g);
+    }
+    if (groups.size === 0) return null;
+    const keys = [...groups.keys()];
+    let start = keys.indexOf(rrGroup);
+    const key = keys[(start + 1) % keys.length];
+    rrGroup = key;
+    const runs = groups.get(key)!.sort((a, b) => a.order - b.order);
+    const run = runs[0];
+    return { run, chunkIndex: run.pending.shift()! };
+  }
+
+  function pump() {
+    while (!closed && inFlight < capacity()) {
+      const next = nextChunk();
+      if (!next) break;
+      dispatch(next.run, next.chunkIndex);
+    }
+  }
+
+  function dispatch(run: ActiveRun, chunkIndex: number) {
+    const chunk = run.chunks[chunkIndex];
+    inFlight++;
+    run.inFlight++;
+    const t0 = performance.now();
+    pool
+      .runChunk({ spec: run.spec, replicateStart: chunk.replicateStart, count: chunk.count, options: { trajectoryReplicates: 20 }, wallTimeLimitMs: opts.chunkWallMs })
+      .then(
+        (result: any) => {
+          inFlight--;
+          run.inFlight--;
+          pump();
+          if (run.stopped || closed) return;
+          if (result.aborted) {
+            fail(run, `A chunk of ${chunk.count} replicates ran past the wall-time cap of ${Math.round((opts.chunkWallMs ?? 0) / 1000)} s; lower the replicates or the end time, or raise LINGER_CHUNK_WALL_SECONDS.`);
+            return;
+          }
+          const seconds = (performance.now() - t0) / 1000;
+          try {
+            writer.write(run.id, run.species, run.gridLength, {
+              chunkIndex,
+              replicateStart: chunk.replicateStart,
+              count: chunk.count,
+              events: result.events,
+              seconds,
+              gridSum: result.gridSum,
+              gridSumSq: result.gridSumSq,
+              replicates: result.replicates,
+              pulses: result.pulses,
+              trajectories: result.trajectories ?? [],
+            });
+          } catch (e) {
+            fail(run, `Storing results failed: ${(e as Error).message}`);
+            return;
+          }
+          run.done++;
+          run.replicatesDone += chunk.count;
+          run.sessionReplicates += chunk.count;
+          run.sessionEvents += result.events;
+          events.emit("progress", progressOf(run));
+          if (run.done === run.chunks.length) void finalise(run);
+        },
+        (err: Error) => {
+          inFlight--;
+          run.inFlight--;
+          if (!run.stopped && !closed) fail(run, `The simulation failed: ${err?.message ?? String(err)}`);
+          pump();
+          checkIdle();
+        },
+      );
+  }
+
+  function markFailed(runId: string, reason: string) {
+    db.update(schema.runs).set({ status: "failed", statusReason: reason, finishedAt: new Date() }).where(eq(schema.runs.id, runId)).run();
+    events.emit("ended", { runId, status: "failed" });
+    void opts.onRunEnded?.(runId, "failed");
+  }
+
+  function fail(run: ActiveRun, reason: string) {
+    run.stopped = true;
+    active.delete(run.id);
+    log(`run ${run.id} failed: ${reason}`);
+    markFailed(run.id, reason);
+    checkIdle();
+  }
+
+  async function finalise(run: ActiveRun) {
+    if (finalising.has(run.id)) return;
+    finalising.add(run.id);
+    // Let the event loop answer requests between the chunk write and the heavier finalisation.
+    await new Promise((r) => setImmediate(r));
+    try {
+      const spec = run.spec;
+      const chunks = readChunks(db, run.id);
+      const { mean, sd } = reduceChunks(spec, chunks.map((c) => ({ gridSum: fromBlob(c.gridSum as Buffer), gridSumSq: fromBlob(c.gridSumSq as Buffer) })));
+      let ode: Float64Array | null = null;
+      try {
+        ode = solveOde(spec).values;
+      } catch (e) {
+        log(`run ${run.id}: no ODE overlay (${(e as Error).message})`);
+      }
+      const threshold = resolveThreshold(spec);
+      const replicates = readReplicateRows(db, run.id);
+      const summary = summarizeRun({
+        pulses: readPulseRows(db, run.id).map(rowToPulseStat),
+        replicates: replicates.map((r) => ({ replicate: r.replicate, events: r.events, capped: r.capped, outputMean: r.outputMean ?? NaN, outputVar: r.outputVar ?? NaN })),
+        threshold,
+        noiseDurationMinutes: spec.threshold?.noiseDurationMinutes ?? 10,
+      });
+      const capped = replicates.some((r) => r.capped);
+      const n = run.gridLength;
+      const status = capped ? "capped" : "finished";
+      sqlite.transaction(() => {
+        // Still ours? (cancelled or deleted while finalising)
+        const cur = db.select({ status: schema.runs.status }).from(schema.runs).where(eq(schema.runs.id, run.id)).get();
+        if (!cur || cur.status !== "running") return;
+        db.delete(schema.runSeries).where(eq(schema.runSeries.runId, run.id)).run();
+        run.species.forEach((name, s) => {
+          db.insert(schema.runSeries).values({ runId: run.id, species: name, kind: "mean", values: toBlob(mean.slice(s * n, (s + 1) * n)) }).run();
+          db.insert(schema.runSeries).values({ runId: run.id, species: name, kind: "sd", values: toBlob(sd.slice(s * n, (s + 1) * n)) }).run();
+          if (ode) db.insert(schema.runSeries).values({ runId: run.id, species: name, kind: "ode", values: toBlob(ode.slice(s * n, (s + 1) * n)) }).run();
+        });
+        const hash = statsHash(db, run.id);
+        db.update(schema.runs)
+          .set({
+            status,
+            statusReason: capped ? `Some replicates stopped at the event cap of ${spec.eventCapPerReplicate}; their figures end at the cap.` : null,
+            summary,
+            statsHash: hash,
+            finishedAt: new Date(),
+          })
+          .where(eq(schema.runs.id, run.id))
+          .run();
+        db.update(schema.runChunks).set({ gridSum: null, gridSumSq: null }).where(eq(schema.runChunks.runId, run.id)).run();
+      })();
+      active.delete(run.id);
+      events.emit("progress", { ...progressOf(run), status });
+      events.emit("ended", { runId: run.id, status });
+      try {
+        await opts.onRunEnded?.(run.id, status);
+      } catch (e) {
+        log(`run ${run.id}: end notification failed: ${(e as Error).message}`);
+      }
+    } catch (e) {
+      active.delete(run.id);
+      markFailed(run.id, `Summarising the run failed: ${(e as Error).message}`);
+    } finally {
+      finalising.delete(run.id);
+      pump();
+      checkIdle();
+    }
+  }
+
+  function progressOf(run: ActiveRun): RunProgress {
+    const elapsed = (Date.now() - run.sessionStart) / 1000;
+    const rate = run.sessionReplicates > 0 && elapsed > 0 ? run.sessionReplicates / elapsed : null;
+    return {
+      runId: run.id,
+      status: "running",
+      replicatesDone: run.replicatesDone,
+      replicates: run.replicates,
+      eventsPerSecond: run.sessionEvents > 0 && elapsed > 0 ? run.sessionEvents / elapsed : null,
+      secondsLeft: rate ? (run.replicates - run.replicatesDone) / rate : null,
+    };
+  }
+
+  return {
+    events,
+    stats() {
+      let queued = 0;
+      let running = 0;
+      for (const r of active.values()) (r.replicatesDone > 0 || r.inFlight > 0 ? running++ : queued++);
+      return { queuedRuns: queued, runningRuns: running, busyThreads: Math.min(inFlight, capacity()) };
+    },
+    kick,
+    cancel(runId) {
+      const run = active.get(runId);
+      if (run) {
+        run.stopped = true;
+        active.delete(runId);
+      }
+      const res = db
+        .update(schema.runs)
+        .set({ status: "cancelled", statusReason: "Cancelled.", finishedAt: new Date() })
+        .where(and(eq(schema.runs.id, runId), inArray(schema.runs.status, ["queued", "running"])))
+        .run();
+      if (res.changes > 0) events.emit("ended", { runId, status: "cancelled" });
+      pump();
+      checkIdle();
+      return res.changes > 0;
+    },
+    progress(runId) {
+      const run = active.get(runId);
+      return run ? progressOf(run) : null;
+    },
+    idle() {
+      return new Promise<void>((resolve) => {
+        idleWaiters.push(resolve);
+        checkIdle();
+      });
+    },
+    async close() {
+      closed = true;
+      for (const r of active.values()) r.stopped = true;
+      active.clear();
+      await pool.destroy();
+      checkIdle();
+    },
+  };
+}
+
+export { END_STATES };

@@ -1,0 +1,295 @@
+/** Runs: launch, list, detail, progress (polling or server-sent events), cancel, archive, delete with undo, data and exports. */
+import { z } from "zod";
+import Papa from "papaparse";
+import { eq } from "drizzle-orm";
+import { defineRoutes } from "./route-table";
+import { schema } from "../../db/client";
+import { LaunchRunSchema, PatchRunSchema, ReplicateQuerySchema, RunSettingsSchema, CompareRequestSchema } from "../../shared/schemas/api-runs";
+import { NameSchema, CircuitSchema } from "../../shared/schemas/circuit";
+import { InputProgramSchema } from "../../shared/schemas/input-program";
+import * as runs from "../services/runs.service";
+import * as bundles from "../services/bundles.service";
+import { compareLabRuns, createMatchedControl, aggregatesCsv } from "../services/analysis.service";
+import { readPulseRows, readReplicateRows } from "../services/run-store";
+import { conflict } from "../http-error";
+import { recordAudit } from "../services/audit.service";
+
+const EstimateBodySchema = z.object({
+  circuitId: z.string().optional(),
+  circuitVersion: z.number().int().min(1).optional(),
+  circuit: CircuitSchema.optional(),
+  programId: z.string().optional(),
+  program: InputProgramSchema.optional(),
+  inputSignal: NameSchema.optional(),
+  settings: RunSettingsSchema,
+});
+
+const csvName = (name: string) => name.replace(/[^A-Za-z0-9_.-]+/g, "-").replace(/^-+|-+$/g, "").slice(0, 60) || "run";
+
+function sendFile(res: any, type: string, fileName: string, text: string) {
+  res.setHeader("Content-Type", type);
+  res.setHeader("Content-Disposition", `attachment; filename="${fileName}"`);
+  res.send(text);
+}
+
+export const runRoutes = defineRoutes([
+  {
+    method: "get",
+    path: "/labs/:labId/runs",
+    access: { kind: "lab", role: "viewer" },
+    query: z.object({ archived: z.enum(["0", "1"]).optional(), status: z.string().optional(), sweepPoints: z.enum(["0", "1"]).optional(), limit: z.coerce.number().int().min(1).max(500).optional() }),
+    summary: "The lab's runs, running and queued first, then newest.",
+    handler: ({ ctx, labId, query }) => runs.listRuns(ctx, labId, { archived: query.archived === "1", status: query.status, includeSweepPoints: query.sweepPoints === "1", limit: query.limit }),
+  },
+  {
+    method: "post",
+    path: "/labs/:labId/runs",
+    access: { kind: "lab", role: "editor" },
+    body: LaunchRunSchema,
+    summary: "Launch a run (queued at once).",
+    handler: ({ ctx, labId, user, body, res }) => {
+      const id = runs.launchRun(ctx, labId, user!.id, body);
+      recordAudit(ctx, { labId, userId: user!.id, action: "run.launched", targetType: "run", targetId: id, detail: { name: body.name } });
+      res.status(201);
+      return runs.runDetail(ctx, id);
+    },
+  },
+  {
+    method: "post",
+    path: "/labs/:labId/runs/estimate",
+    access: { kind: "lab", role: "viewer" },
+    body: EstimateBodySchema,
+    summary: "Cost estimate before launch: events from the ODE path times replicates.",
+    handler: ({ ctx, labId, body }) => {
+      const spec = runs.buildSpec(runs.resolveInputs(ctx, labId, body), { ...body.settings, seed: body.settings.seed ?? "estimate" });
+      return runs.estimate(spec);
+    },
+  },
+  {
+    method: "post",
+    path: "/labs/:labId/compare",
+    access: { kind: "lab", role: "viewer" },
+    body: CompareRequestSchema,
+    summary: "Compare two to four finished runs of the lab.",
+    handler: ({ ctx, labId, body }) => compareLabRuns(ctx, labId, body.runIds),
+  },
+  {
+    method: "post",
+    path: "/labs/:labId/bundles/import",
+    access: { kind: "lab", role: "editor" },
+    body: z.object({ bundle: z.unknown(), name: z.string().trim().min(1).max(120).optional() }),
+    summary: "Import a run bundle and re-run it; the run reports whether it reproduced the bundle's statistics.",
+    handler: ({ ctx, labId, user, body, res }) => {
+      const id = bundles.importBundle(ctx, labId, user!.id, body.bundle, body.name);
+      recordAudit(ctx, { labId, userId: user!.id, action: "run.imported", targetType: "run", targetId: id });
+      res.status(201);
+      return runs.runDetail(ctx, id);
+    },
+  },
+  {
+    method: "get",
+    path: "/runs/:id",
+    access: { kind: "object", resource: "run", role: "viewer" },
+    summary: "Run detail: status, progress, settings, summary figures, reproduction check.",
+    handler: ({ ctx, params }) => ({ ...runs.runDetail(ctx, params.id), reproduction: bundles.reproductionStatus(ctx, params.id) }),
+  },
+  {
+    method: "get",
+    path: "/runs/:id/events",
+    access: { kind: "object", resource: "run", role: "viewer" },
+    summary: "Server-sent events: progress while the run computes, then one 'ended' event.",
+    handler: ({ ctx, params, req, res }) => {
+      res.writeHead(200, { "Content-Type": "text/event-stream", "Cache-Control": "no-store", Connection: "keep-alive", "X-Accel-Buffering": "no" });
+      const send = (event: string, data: unknown) => res.write(`event: ${event}\ndata: ${JSON.stringify(data)}\n\n`);
+      const row = runs.getRunRow(ctx, params.id);
+      send("status", { status: row.status, replicatesDone: row.replicatesDone, replicates: row.replicates });
+      if (!["queued", "running"].includes(row.status)) {
+        send("ended", { runId: row.id, status: row.status });
+        res.end();
+        return;
+      }
+      const onProgress = (p: any) => p.runId === params.id && send("progress", p);
+      const onEnded = (e: any) => {
+        if (e.runId !== params.id) return;
+        send("ended", e);
+        cleanup();
+        res.end();
+      };
+      const ping = setInterval(() => res.write(": ping\n\n"), 15_000);
+      const cleanup = () => {
+        clearInterval(ping);
+        ctx.queue.events.off("progress", onProgress);
+        ctx.queue.events.off("ended", onEnded);
+      };
+      ctx.queue.events.on("progress", onProgress);
+      ctx.queue.events.on("ended", onEnded);
+      req.on("close", cleanup);
+      return undefined;
+    },
+  },
+  {
+    method: "post",
+    path: "/runs/:id/cancel",
+    access: { kind: "object", resource: "run", role: "editor" },
+    summary: "Cancel a queued or running run (stored chunks are kept).",
+    handler: ({ ctx, params, user, labId }) => {
+      if (!ctx.queue.cancel(params.id)) throw conflict("Only a queued or running run can be cancelled.", "not_running");
+      recordAudit(ctx, { labId, userId: user!.id, action: "run.cancelled", targetType: "run", targetId: params.id });
+      return runs.runDetail(ctx, params.id);
+    },
+  },
+  {
+    method: "patch",
+    path: "/runs/:id",
+    access: { kind: "object", resource: "run", role: "editor" },
+    body: PatchRunSchema,
+    summary: "Rename a run or edit its notes.",
+    handler: ({ ctx, params, body }) => {
+      ctx.db.update(schema.runs).set(body).where(eq(schema.runs.id, params.id)).run();
+      return runs.runDetail(ctx, params.id);
+    },
+  },
+  {
+    method: "post",
+    path: "/runs/:id/archive",
+    access: { kind: "object", resource: "run", role: "editor" },
+    summary: "Archive a run (hidden from the default list).",
+    handler: ({ ctx, params }) => {
+      ctx.db.update(schema.runs).set({ archivedAt: new Date() }).where(eq(schema.runs.id, params.id)).run();
+      return runs.runDetail(ctx, params.id);
+    },
+  },
+  {
+    method: "post",
+    path: "/runs/:id/unarchive",
+    access: { kind: "object", resource: "run", role: "editor" },
+    summary: "Bring an archived run back.",
+    handler: ({ ctx, params }) => {
+      ctx.db.update(schema.runs).set({ archivedAt: null }).where(eq(schema.runs.id, params.id)).run();
+      return runs.runDetail(ctx, params.id);
+    },
+  },
+  {
+    method: "delete",
+    path: "/runs/:id",
+    access: { kind: "object", resource: "run", role: "editor" },
+    summary: "Delete a run; it can be restored for 7 days.",
+    handler: ({ ctx, params, user, labId }) => {
+      runs.softDelete(ctx, params.id);
+      recordAudit(ctx, { labId, userId: user!.id, action: "run.deleted", targetType: "run", targetId: params.id });
+      return { deleted: true, undo: `/api/runs/${params.id}/restore` };
+    },
+  },
+  {
+    method: "post",
+    path: "/runs/:id/restore",
+    access: { kind: "object", resource: "run", role: "editor" },
+    summary: "Undo a delete.",
+    handler: ({ ctx, params, user, labId }) => {
+      runs.restore(ctx, params.id);
+      recordAudit(ctx, { labId, userId: user!.id, action: "run.restored", targetType: "run", targetId: params.id });
+      return runs.runDetail(ctx, params.id);
+    },
+  },
+  {
+    method: "get",
+    path: "/runs/:id/series",
+    access: { kind: "object", resource: "run", role: "viewer" },
+    query: z.object({ trajectories: z.coerce.number().int().min(0).max(20).optional() }),
+    summary: "Grid series for charts: mean, SD, ODE overlay, sample trajectories, the input signal.",
+    handler: ({ ctx, params, query }) => runs.runSeries(ctx, params.id, { maxTrajectories: query.trajectories }),
+  },
+  {
+    method: "get",
+    path: "/runs/:id/replicates",
+    access: { kind: "object", resource: "run", role: "viewer" },
+    query: ReplicateQuerySchema,
+    summary: "Per-replicate, per-pulse statistics, sorted and paged.",
+    handler: ({ ctx, params, query }) => runs.replicatePage(ctx, params.id, query),
+  },
+  {
+    method: "get",
+    path: "/runs/:id/export/replicates.csv",
+    access: { kind: "object", resource: "run", role: "viewer" },
+    summary: "CSV of every (replicate, pulse) row.",
+    handler: ({ ctx, params, res }) => {
+      const row = runs.getRunRow(ctx, params.id);
+      const data = readPulseRows(ctx.db, params.id).map((p) => ({
+        replicate: p.replicate, pulse: p.pulseIndex, on_min: p.on, off_min: p.off, duration_bin_min: p.durationBin,
+        excluded: p.excluded ? 1 : 0, passed: p.passed ? 1 : 0, delay_min: p.delay ?? "", off_delay_min: p.offDelay ?? "",
+        widths_min: (p.widths ?? []).join(" "), peak: p.peak, time_to_peak_min: p.timeToPeak, fwhm_min: p.fwhm ?? "", baseline: p.baseline,
+      }));
+      sendFile(res, "text/csv; charset=utf-8", `${csvName(row.name)}-replicates.csv`, Papa.unparse(data.length ? data : [{ replicate: "" }]));
+      return undefined;
+    },
+  },
+  {
+    method: "get",
+    path: "/runs/:id/export/replicate-totals.csv",
+    access: { kind: "object", resource: "run", role: "viewer" },
+    summary: "CSV of per-replicate totals: events, cap, output mean and variance, cell-to-cell factors.",
+    handler: ({ ctx, params, res }) => {
+      const row = runs.getRunRow(ctx, params.id);
+      const data = readReplicateRows(ctx.db, params.id).map((r) => ({ replicate: r.replicate, events: r.events, capped: r.capped ? 1 : 0, output_mean: r.outputMean ?? "", output_var: r.outputVar ?? "", factors: JSON.stringify(r.factors ?? {}) }));
+      sendFile(res, "text/csv; charset=utf-8", `${csvName(row.name)}-replicate-totals.csv`, Papa.unparse(data.length ? data : [{ replicate: "" }]));
+      return undefined;
+    },
+  },
+  {
+    method: "get",
+    path: "/runs/:id/export/aggregates.csv",
+    access: { kind: "object", resource: "run", role: "viewer" },
+    summary: "CSV of the aggregates per input pulse duration.",
+    handler: ({ ctx, params, res }) => {
+      const row = runs.getRunRow(ctx, params.id);
+      sendFile(res, "text/csv; charset=utf-8", `${csvName(row.name)}-aggregates.csv`, aggregatesCsv(row.summary as any));
+      return undefined;
+    },
+  },
+  {
+    method: "get",
+    path: "/runs/:id/export/summary.json",
+    access: { kind: "object", resource: "run", role: "viewer" },
+    summary: "The JSON summary of the run.",
+    handler: ({ ctx, params, res }) => {
+      const d = runs.runDetail(ctx, params.id);
+      sendFile(res, "application/json", `${csvName(d.name)}-summary.json`, JSON.stringify({ id: d.id, name: d.name, status: d.status, seed: d.seed, engineVersion: d.engineVersion, threshold: d.threshold, summary: d.summary }, null, 2));
+      return undefined;
+    },
+  },
+  {
+    method: "get",
+    path: "/runs/:id/export/bundle.json",
+    access: { kind: "object", resource: "run", role: "viewer" },
+    summary: "The reproduction bundle: circuit, program, settings, seed, engine, Node and V8 versions, statistics hash.",
+    handler: ({ ctx, params, res }) => {
+      const b = bundles.makeBundle(ctx, params.id);
+      sendFile(res, "application/json", `${csvName(b.name)}-bundle.json`, JSON.stringify(b, null, 2));
+      return undefined;
+    },
+  },
+  {
+    method: "post",
+    path: "/runs/:id/reproduce",
+    access: { kind: "object", resource: "run", role: "editor" },
+    summary: "Re-run this run's bundle; the new run reports identical statistics or the first difference.",
+    handler: ({ ctx, params, user, labId, res }) => {
+      const id = bundles.reproduceRun(ctx, params.id, user!.id);
+      recordAudit(ctx, { labId, userId: user!.id, action: "run.reproduced", targetType: "run", targetId: id, detail: { of: params.id } });
+      res.status(201);
+      return runs.runDetail(ctx, id);
+    },
+  },
+  {
+    method: "post",
+    path: "/runs/:id/control",
+    access: { kind: "object", resource: "run", role: "editor" },
+    summary: "Create and launch the matched simple-regulation control (same steady state, program and seed scheme).",
+    handler: ({ ctx, params, user, labId, res }) => {
+      const id = createMatchedControl(ctx, params.id, user!.id);
+      recordAudit(ctx, { labId, userId: user!.id, action: "run.launched", targetType: "run", targetId: id, detail: { controlOf: params.id } });
+      res.status(201);
+      return runs.runDetail(ctx, id);
+    },
+  },
+]);

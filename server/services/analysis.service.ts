@@ -1,0 +1,73 @@
+/**
+ * Analysis actions over stored runs: comparisons of two to four runs, the
+ * matched simple-regulation control, and the aggregates CSV.
+ */
+import { and, eq, inArray } from "drizzle-orm";
+import Papa from "papaparse";
+import type { AppContext } from "../context";
+import { schema } from "../../db/client";
+import type { RunSpec } from "../../shared/schemas/run-spec";
+import type { RunSummary } from "../../shared/schemas/analysis";
+import { compareRuns, delaysOf, widthsOf, makeMatchedControl } from "../../sim/analysis";
+import { badRequest, conflict, notFound } from "../http-error";
+import { checkLimits, getRunRow, insertRun } from "./runs.service";
+import { readPulseRows, rowToPulseStat } from "./run-store";
+
+export function compareLabRuns(ctx: AppContext, labId: string, runIds: string[]) {
+  if (new Set(runIds).size !== runIds.length) throw badRequest("Choose different runs to compare.", [{ path: "runIds", message: "duplicates" }]);
+  const rows = ctx.db.select().from(schema.runs).where(and(eq(schema.runs.labId, labId), inArray(schema.runs.id, runIds))).all();
+  for (const id of runIds) if (!rows.some((r) => r.id === id)) throw notFound(`Run ${id}`);
+  const ordered = runIds.map((id) => rows.find((r) => r.id === id)!);
+  const unfinished = ordered.filter((r) => !r.summary);
+  if (unfinished.length) throw conflict(`These runs have no results yet: ${unfinished.map((r) => r.name).join(", ")}.`, "not_finished");
+  return compareRuns(
+    ordered.map((r) => {
+      const pulses = readPulseRows(ctx.db, r.id).map(rowToPulseStat);
+      return { id: r.id, name: r.name, summary: r.summary as RunSummary, delays: delaysOf(pulses), widths: widthsOf(pulses) };
+    }),
+  );
+}
+
+/** Creates and queues the matched simple-regulation control of a run. */
+export function createMatchedControl(ctx: AppContext, runId: string, userId: string): string {
+  const row = getRunRow(ctx, runId);
+  const spec = row.spec as RunSpec;
+  let control: RunSpec;
+  try {
+    control = makeMatchedControl(spec);
+  } catch (e) {
+    throw badRequest(`A matched control cannot be built for this circuit: ${(e as Error).message}`);
+  }
+  checkLimits(control);
+  const id = insertRun(ctx, {
+    labId: row.labId,
+    name: `${row.name}: simple-regulation control`,
+    notes: `Simple regulation with the same ON steady state as "${row.name}", the same input program and seed scheme.`,
+    spec: control,
+    userId,
+    controlOf: row.id,
+  });
+  ctx.queue.kick();
+  return id;
+}
+
+/** CSV of the per-duration aggregates (one row per input pulse duration). */
+export function aggregatesCsv(summary: RunSummary | null): string {
+  if (!summary) return "duration_min\n";
+  return Papa.unparse(
+    summary.byDuration.map((b) => ({
+      duration_min: b.duration,
+      pulses: b.pulses,
+      passed: b.passed,
+      pass_probability: b.passProbability ?? "",
+      ci_low: b.ci?.[0] ?? "",
+      ci_high: b.ci?.[1] ?? "",
+      median_delay_min: b.medianDelay ?? "",
+      censored: b.censored,
+      excluded: b.excluded,
+      median_width_min: b.medianWidth ?? "",
+      median_peak: b.medianPeak ?? "",
+      median_off_delay_min: b.medianOffDelay ?? "",
+    })),
+  );
+}

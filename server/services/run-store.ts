@@ -1,0 +1,157 @@
+/**
+ * Writing and reading a run's stored statistics. Chunk rows, replicate rows,
+ * pulse rows and trajectories of one chunk are written in one transaction, so
+ * a crash never leaves half a chunk; finalisation writes the series, summary
+ * and hash in one more.
+ */
+import { createHash } from "node:crypto";
+import { and, asc, eq } from "drizzle-orm";
+import type Database from "better-sqlite3";
+import type { Db } from "../../db/client";
+import { schema } from "../../db/client";
+import type { PulseStat, RunSpec } from "../../shared/schemas/run-spec";
+
+export const toBlob = (a: Float64Array) => Buffer.from(a.buffer, a.byteOffset, a.byteLength);
+export const fromBlob = (b: Buffer | Uint8Array | null | undefined): Float64Array => {
+  if (!b) return new Float64Array(0);
+  const copy = new Uint8Array(b.byteLength);
+  copy.set(b);
+  return new Float64Array(copy.buffer);
+};
+
+export interface StoredChunk {
+  chunkIndex: number;
+  replicateStart: number;
+  count: number;
+  events: number;
+  seconds: number;
+  gridSum: Float64Array;
+  gridSumSq: Float64Array;
+  replicates: { replicate: number; events: number; capped: boolean; outputMean: number | null; outputVar: number | null; factors: Record<string, number> }[];
+  pulses: PulseStat[];
+  trajectories: { replicate: number; values: Float64Array }[];
+}
+
+export function speciesNames(spec: RunSpec): string[] {
+  return spec.circuit.species.map((s) => s.name);
+}
+
+/** Prepared statements for the hot write path (one chunk at a time). */
+export function createChunkWriter(sqlite: Database.Database) {
+  const insChunk = sqlite.prepare(
+    `INSERT INTO run_chunks (run_id, chunk_index, replicate_start, count, events, grid_sum, grid_sum_sq, seconds) VALUES (?, ?, ?, ?, ?, ?, ?, ?)`,
+  );
+  const insRep = sqlite.prepare(`INSERT INTO replicate_stats (run_id, replicate, events, capped, output_mean, output_var, factors) VALUES (?, ?, ?, ?, ?, ?, ?)`);
+  const insPulse = sqlite.prepare(
+    `INSERT INTO pulse_stats (run_id, replicate, pulse_index, "on", off, duration_bin, excluded, passed, delay, off_delay, width, widths, peak, time_to_peak, fwhm, baseline) VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)`,
+  );
+  const insTraj = sqlite.prepare(`INSERT INTO run_trajectories (run_id, replicate, species, "values") VALUES (?, ?, ?, ?)`);
+  const updRun = sqlite.prepare(
+    `UPDATE runs SET replicates_done = replicates_done + ?, events_total = events_total + ?, capped_replicates = capped_replicates + ?, compute_seconds = compute_seconds + ? WHERE id = ?`,
+  );
+  const write = sqlite.transaction((runId: string, species: string[], gridLength: number, c: StoredChunk) => {
+    insChunk.run(runId, c.chunkIndex, c.replicateStart, c.count, c.events, toBlob(c.gridSum), toBlob(c.gridSumSq), c.seconds);
+    let capped = 0;
+    for (const r of c.replicates) {
+      if (r.capped) capped++;
+      insRep.run(runId, r.replicate, r.events, r.capped ? 1 : 0, finiteOrNull(r.outputMean), finiteOrNull(r.outputVar), JSON.stringify(r.factors ?? {}));
+    }
+    for (const p of c.pulses) {
+      insPulse.run(
+        runId, p.replicate, p.pulseIndex, p.on, p.off, p.durationBin, p.excluded ? 1 : 0, p.passed ? 1 : 0,
+        p.delay, p.offDelay, p.widths.length ? p.widths[0] : null, p.widths.length ? JSON.stringify(p.widths) : null,
+        p.peak, p.timeToPeak, p.fwhm, p.baseline,
+      );
+    }
+    for (const t of c.trajectories) {
+      species.forEach((name, s) => insTraj.run(runId, t.replicate, name, toBlob(t.values.slice(s * gridLength, (s + 1) * gridLength))));
+    }
+    updRun.run(c.count, c.events, capped, c.seconds, runId);
+  });
+  return { write };
+}
+
+const finiteOrNull = (x: number | null | undefined) => (x === null || x === undefined || !Number.isFinite(x) ? null : x);
+
+export interface PulseRow {
+  replicate: number;
+  pulseIndex: number;
+  on: number;
+  off: number;
+  durationBin: number;
+  excluded: boolean;
+  passed: boolean;
+  delay: number | null;
+  offDelay: number | null;
+  width: number | null;
+  widths: number[] | null;
+  peak: number;
+  timeToPeak: number;
+  fwhm: number | null;
+  baseline: number;
+}
+
+/** Pulse rows in (replicate, pulse) order. */
+export function readPulseRows(db: Db, runId: string): PulseRow[] {
+  return db
+    .select()
+    .from(schema.pulseStats)
+    .where(eq(schema.pulseStats.runId, runId))
+    .orderBy(asc(schema.pulseStats.replicate), asc(schema.pulseStats.pulseIndex))
+    .all() as unknown as PulseRow[];
+}
+
+export function rowToPulseStat(r: PulseRow): PulseStat {
+  return {
+    replicate: r.replicate, pulseIndex: r.pulseIndex, on: r.on, off: r.off, durationBin: r.durationBin,
+    excluded: r.excluded, passed: r.passed, delay: r.delay, offDelay: r.offDelay,
+    widths: (r.widths as number[] | null) ?? [], peak: r.peak, timeToPeak: r.timeToPeak, fwhm: r.fwhm, baseline: r.baseline,
+  };
+}
+
+export function readReplicateRows(db: Db, runId: string) {
+  return db.select().from(schema.replicateStats).where(eq(schema.replicateStats.runId, runId)).orderBy(asc(schema.replicateStats.replicate)).all();
+}
+
+export function readChunks(db: Db, runId: string) {
+  return db.select().from(schema.runChunks).where(eq(schema.runChunks.runId, runId)).orderBy(asc(schema.runChunks.chunkIndex)).all();
+}
+
+/**
+ * Content hash of the stored statistics: every replicate row and pulse row in
+ * index order, and the grid mean/SD series, as canonical text. Two runs with
+ * the same hash stored the same numbers.
+ */
+export function statsHash(db: Db, runId: string): string {
+  const h = createHash("sha256");
+  for (const r of readReplicateRows(db, runId)) h.update(canonicalReplicate(r) + "\n");
+  for (const p of readPulseRows(db, runId)) h.update(canonicalPulse(p) + "\n");
+  const series = db.select().from(schema.runSeries).where(and(eq(schema.runSeries.runId, runId))).orderBy(asc(schema.runSeries.species), asc(schema.runSeries.kind)).all();
+  for (const s of series) if (s.kind !== "ode") h.update(`${s.species}/${s.kind}:`).update(s.values as Buffer);
+  return h.digest("hex");
+}
+
+export const canonicalReplicate = (r: { replicate: number; events: number; capped: boolean; outputMean: number | null; outputVar: number | null }) =>
+  `r ${r.replicate} ${r.events} ${r.capped ? 1 : 0} ${r.outputMean} ${r.outputVar}`;
+export const canonicalPulse = (p: PulseRow) =>
+  `p ${p.replicate} ${p.pulseIndex} ${p.on} ${p.off} ${p.durationBin} ${p.excluded ? 1 : 0} ${p.passed ? 1 : 0} ${p.delay} ${p.offDelay} ${JSON.stringify(p.widths ?? [])} ${p.peak} ${p.timeToPeak} ${p.fwhm} ${p.baseline}`;
+
+/** The first difference between two runs' stored statistics, or null when identical. */
+export function firstDifference(db: Db, a: string, b: string): string | null {
+  const ra = readReplicateRows(db, a), rb = readReplicateRows(db, b);
+  if (ra.length !== rb.length) return `replicate count differs: ${ra.length} vs ${rb.length}`;
+  for (let i = 0; i < ra.length; i++) {
+    const x = canonicalReplicate(ra[i]), y = canonicalReplicate(rb[i]);
+    if (x !== y) return `replicate ${ra[i].replicate}: events/output differ (${x.slice(2)} vs ${y.slice(2)})`;
+  }
+  const pa = readPulseRows(db, a), pb = readPulseRows(db, b);
+  if (pa.length !== pb.length) return `pulse row count differs: ${pa.length} vs ${pb.length}`;
+  const fields: (keyof PulseRow)[] = ["on", "off", "durationBin", "excluded", "passed", "delay", "offDelay", "widths", "peak", "timeToPeak", "fwhm", "baseline"];
+  for (let i = 0; i < pa.length; i++) {
+    for (const f of fields) {
+      const x = JSON.stringify(pa[i][f]), y = JSON.stringify(pb[i][f]);
+      if (x !== y) return `replicate ${pa[i].replicate}, pulse ${pa[i].pulseIndex}: ${f} is ${x} vs ${y}`;
+    }
+  }
+  return null;
+}

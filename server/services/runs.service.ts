@@ -1,0 +1,344 @@
+/**
+ * Runs: building a RunSpec from stored circuit and program versions, launching
+ * (with limits), listing, detail, series, per-replicate pages, archive, delete
+ * with undo, and cancel. The queue computes; this module stores and reads.
+ */
+import { randomBytes } from "node:crypto";
+import { and, asc, count, desc, eq, inArray, isNotNull, isNull, lt, sql } from "drizzle-orm";
+import type { AppContext } from "../context";
+import { schema } from "../../db/client";
+import { RunSpecSchema, type RunSpec } from "../../shared/schemas/run-spec";
+import { API_LIMITS, type LaunchRun, type RunDetail, type RunListItem, type RunSeries, type RunSettings } from "../../shared/schemas/api-runs";
+import type { Circuit } from "../../shared/schemas/circuit";
+import type { InputProgram } from "../../shared/schemas/input-program";
+import { ENGINE_VERSION, chunkLayout, compileProgram, estimateEvents, gridTimes, resolveThreshold, validateCircuit } from "../../sim";
+import { badRequest, conflict, notFound, tooMany } from "../http-error";
+import { parseOr400 } from "../middleware/validate";
+import { newId } from "../ids";
+import { fromBlob } from "./run-store";
+
+export const randomSeed = () => randomBytes(6).toString("hex");
+
+type RunRow = typeof schema.runs.$inferSelect;
+
+export interface ResolvedInputs {
+  circuit: Circuit;
+  circuitId: string | null;
+  circuitVersion: number | null;
+  program: InputProgram;
+  programId: string | null;
+  inputSignal?: string;
+}
+
+/** Load the circuit (a given or the current version) and program of a lab. 404 for another lab's items. */
+export function resolveInputs(ctx: AppContext, labId: string, b: { circuitId?: string; circuitVersion?: number; circuit?: Circuit; programId?: string; program?: InputProgram; inputSignal?: string }): ResolvedInputs {
+  let circuit = b.circuit ?? null;
+  let circuitVersion: number | null = null;
+  if (b.circuitId) {
+    const c = ctx.db.select().from(schema.circuits).where(and(eq(schema.circuits.id, b.circuitId), eq(schema.circuits.labId, labId))).get();
+    if (!c) throw notFound("That circuit");
+    circuitVersion = b.circuitVersion ?? c.currentVersion;
+    const v = ctx.db.select().from(schema.circuitVersions).where(and(eq(schema.circuitVersions.circuitId, c.id), eq(schema.circuitVersions.version, circuitVersion))).get();
+    if (!v) throw notFound(`Version ${circuitVersion} of that circuit`);
+    circuit = v.body as Circuit;
+  }
+  let program = b.program ?? null;
+  if (b.programId) {
+    const p = ctx.db.select().from(schema.inputPrograms).where(and(eq(schema.inputPrograms.id, b.programId), eq(schema.inputPrograms.labId, labId))).get();
+    if (!p) throw notFound("That input program");
+    program = p.body as InputProgram;
+  }
+  return { circuit: circuit!, circuitId: b.circuitId ?? null, circuitVersion, program: program!, programId: b.programId ?? null, inputSignal: b.inputSignal };
+}
+
+/** A complete, validated RunSpec, or a 400 naming the field. */
+export function buildSpec(inputs: ResolvedInputs, settings: RunSettings): RunSpec {
+  const signal = inputs.inputSignal ?? inputs.circuit.signals?.[0]?.name;
+  if (!signal) throw badRequest("The circuit has no input signal for the program to drive; add a signal to the circuit.", [{ path: "inputSignal", message: "the circuit has no signal" }]);
+  if (!inputs.circuit.signals?.some((s) => s.name === signal)) {
+    throw badRequest(`The circuit has no signal "${signal}".`, [{ path: "inputSignal", message: `no signal "${signal}" in the circuit` }]);
+  }
+  const spec = parseOr400(RunSpecSchema, { ...settings, seed: settings.seed ?? randomSeed(), circuit: inputs.circuit, program: inputs.program, inputSignal: signal }, "run");
+  const v = validateCircuit(spec.circuit);
+  if (!v.ok) throw badRequest(`The circuit is not valid: ${v.errors.map((e) => `${e.path}: ${e.message}`).join("; ")}`, v.errors.map((e) => ({ path: `circuit.${e.path}`, message: e.message })), "invalid_circuit");
+  checkLimits(spec);
+  return spec;
+}
+
+export function checkLimits(spec: RunSpec) {
+  const gridPoints = Math.floor(spec.endTimeMinutes / spec.gridStepMinutes + 1e-9) + 1;
+  if (gridPoints > 20_001) {
+    throw badRequest(`The grid has ${gridPoints} points; at most 20,001 are stored. Use a larger grid step.`, [{ path: "settings.gridStepMinutes", message: "too many grid points" }], "limit");
+  }
+  let pulses = 0;
+  try {
+    pulses = compileProgram(spec.program, spec.endTimeMinutes).pulses.length;
+  } catch (e) {
+    throw badRequest(`The input program cannot be compiled: ${(e as Error).message}`, [{ path: "program", message: (e as Error).message }]);
+  }
+  const rows = pulses * spec.replicates;
+  if (rows > API_LIMITS.maxPulseRowsPerRun) {
+    throw badRequest(`${spec.replicates} replicates x ${pulses} pulses = ${rows} stored rows; the limit is ${API_LIMITS.maxPulseRowsPerRun}. Use fewer replicates or a shorter program.`, [{ path: "settings.replicates", message: "too many stored rows" }], "limit");
+  }
+  try {
+    resolveThreshold(spec);
+  } catch (e) {
+    throw badRequest(`The threshold cannot be set: ${(e as Error).message}`, [{ path: "settings.threshold", message: (e as Error).message }]);
+  }
+}
+
+export function estimate(spec: RunSpec) {
+  const pulses = compileProgram(spec.program, spec.endTimeMinutes).pulses.length;
+  const estimatedEvents = estimateEvents(spec);
+  return {
+    estimatedEvents,
+    // A conservative engine speed for the estimate (docs/benchmarks.md has measured figures).
+    estimatedSeconds: estimatedEvents / 10e6,
+    gridPoints: gridTimes(spec).length,
+    pulses,
+    storedPulseRows: pulses * spec.replicates,
+  };
+}
+
+export function activeRunCount(ctx: AppContext, labId: string): number {
+  return ctx.db
+    .select({ n: count() })
+    .from(schema.runs)
+    .where(and(eq(schema.runs.labId, labId), inArray(schema.runs.status, ["queued", "running"]), isNull(schema.runs.sweepId), isNull(schema.runs.deletedAt)))
+    .get()!.n;
+}
+
+export function insertRun(
+  ctx: AppContext,
+  v: { labId: string; name: string; notes?: string; spec: RunSpec; inputs?: Partial<ResolvedInputs>; userId: string | null; sweepId?: string; sweepPoint?: number; controlOf?: string; demoKey?: string },
+): string {
+  const id = newId("run_");
+  ctx.db.insert(schema.runs).values({
+    id,
+    labId: v.labId,
+    name: v.name,
+    notes: v.notes ?? "",
+    status: "queued",
+    spec: v.spec,
+    seed: v.spec.seed,
+    replicates: v.spec.replicates,
+    chunkSize: chunkLayout(v.spec).chunkSize,
+    engineVersion: ENGINE_VERSION,
+    circuitId: v.inputs?.circuitId ?? null,
+    circuitVersion: v.inputs?.circuitVersion ?? null,
+    programId: v.inputs?.programId ?? null,
+    sweepId: v.sweepId ?? null,
+    sweepPoint: v.sweepPoint ?? null,
+    controlOf: v.controlOf ?? null,
+    createdBy: v.userId,
+    createdAt: new Date(),
+    demoKey: v.demoKey ?? null,
+  }).run();
+  return id;
+}
+
+export function launchRun(ctx: AppContext, labId: string, userId: string, body: LaunchRun): string {
+  if (activeRunCount(ctx, labId) >= API_LIMITS.maxActiveRunsPerLab) {
+    throw tooMany(`This lab already has ${API_LIMITS.maxActiveRunsPerLab} runs queued or running; wait for some to finish or cancel one.`);
+  }
+  const inputs = resolveInputs(ctx, labId, body);
+  const spec = buildSpec(inputs, body.settings);
+  const id = insertRun(ctx, { labId, name: body.name, notes: body.notes, spec, inputs, userId });
+  ctx.queue.kick();
+  return id;
+}
+
+export function getRunRow(ctx: AppContext, id: string): RunRow {
+  const row = ctx.db.select().from(schema.runs).where(eq(schema.runs.id, id)).get();
+  if (!row) throw notFound("That run");
+  return row;
+}
+
+const iso = (d: Date | null | undefined) => (d ? d.toISOString() : null);
+
+function userNames(ctx: AppContext, ids: (string | null)[]): Map<string, string> {
+  const want = [...new Set(ids.filter((x): x is string => !!x))];
+  if (!want.length) return new Map();
+  return new Map(ctx.db.select({ id: schema.users.id, name: schema.users.displayName }).from(schema.users).where(inArray(schema.users.id, want)).all().map((u) => [u.id, u.name]));
+}
+
+function progressView(ctx: AppContext, row: RunRow) {
+  const live = ctx.queue.progress(row.id);
+  const done = live?.replicatesDone ?? row.replicatesDone;
+  return {
+    replicatesDone: done,
+    replicates: row.replicates,
+    fraction: row.replicates ? done / row.replicates : 0,
+    eventsPerSecond: live?.eventsPerSecond ?? (row.computeSeconds > 0 ? row.eventsTotal / row.computeSeconds : null),
+    secondsLeft: live?.secondsLeft ?? null,
+  };
+}
+
+export function toListItem(ctx: AppContext, row: RunRow, names: Map<string, string>): RunListItem {
+  const spec = row.spec as RunSpec;
+  const s = row.summary as any;
+  return {
+    id: row.id,
+    labId: row.labId,
+    name: row.name,
+    status: row.status,
+    statusReason: row.statusReason,
+    replicates: row.replicates,
+    seed: row.seed,
+    circuitName: spec.circuit.name,
+    programName: (spec.program as any).name ?? spec.program.kind,
+    sweepId: row.sweepId,
+    controlOf: row.controlOf,
+    progress: progressView(ctx, row),
+    createdAt: row.createdAt.toISOString(),
+    finishedAt: iso(row.finishedAt),
+    archived: !!row.archivedAt,
+    createdBy: row.createdBy ? names.get(row.createdBy) ?? null : null,
+    headline: s ? { d50: s.d50 ?? null, falsePassRate: s.falsePassRate ?? null, medianDelay: s.delay?.median ?? s.medianDelay ?? null } : null,
+  };
+}
+
+export function listRuns(ctx: AppContext, labId: string, q: { archived?: boolean; status?: string; includeSweepPoints?: boolean; limit?: number }): RunListItem[] {
+  const conds = [eq(schema.runs.labId, labId), isNull(schema.runs.deletedAt), q.archived ? isNotNull(schema.runs.archivedAt) : isNull(schema.runs.archivedAt)];
+  if (!q.includeSweepPoints) conds.push(isNull(schema.runs.sweepId));
+  if (q.status) conds.push(eq(schema.runs.status, q.status as any));
+  const rows = ctx.db
+    .select()
+    .from(schema.runs)
+    .where(and(...conds))
+    // running and queued first, then newest
+    .orderBy(sql`CASE ${schema.runs.status} WHEN 'running' THEN 0 WHEN 'queued' THEN 1 ELSE 2 END`, desc(schema.runs.createdAt))
+    .limit(Math.min(q.limit ?? 200, 500))
+    .all();
+  const names = userNames(ctx, rows.map((r) => r.createdBy));
+  return rows.map((r) => toListItem(ctx, r, names));
+}
+
+export function runDetail(ctx: AppContext, id: string): RunDetail {
+  const row = getRunRow(ctx, id);
+  const names = userNames(ctx, [row.createdBy]);
+  const spec = row.spec as RunSpec;
+  let threshold: RunDetail["threshold"] = null;
+  try {
+    const t = resolveThreshold(spec);
+    threshold = { theta: t.theta, downTheta: t.downTheta, hysteresis: t.hysteresis, windowMinutes: t.windowMinutes, outputLifetimeMinutes: t.outputLifetimeMinutes };
+  } catch {
+    threshold = null;
+  }
+  return {
+    ...toListItem(ctx, row, names),
+    notes: row.notes,
+    spec,
+    engineVersion: row.engineVersion,
+    eventsTotal: row.eventsTotal,
+    cappedReplicates: row.cappedReplicates,
+    computeSeconds: row.computeSeconds,
+    startedAt: iso(row.startedAt),
+    deletedAt: iso(row.deletedAt),
+    circuitId: row.circuitId,
+    circuitVersion: row.circuitVersion,
+    programId: row.programId,
+    statsHash: row.statsHash,
+    summary: row.summary ?? null,
+    threshold,
+  };
+}
+
+const arr = (a: Float64Array) => Array.from(a, (x) => (Number.isFinite(x) ? x : 0));
+
+export function runSeries(ctx: AppContext, id: string, opts: { maxTrajectories?: number } = {}): RunSeries {
+  const row = getRunRow(ctx, id);
+  const spec = row.spec as RunSpec;
+  const times = gridTimes(spec);
+  const series = ctx.db.select().from(schema.runSeries).where(eq(schema.runSeries.runId, id)).all();
+  const names = spec.circuit.species.map((s) => s.name);
+  const pick = (name: string, kind: string) => {
+    const s = series.find((x) => x.species === name && x.kind === kind);
+    return s ? arr(fromBlob(s.values as Buffer)) : null;
+  };
+  const trajRows = ctx.db
+    .select()
+    .from(schema.runTrajectories)
+    .where(and(eq(schema.runTrajectories.runId, id), lt(schema.runTrajectories.replicate, opts.maxTrajectories ?? 20)))
+    .orderBy(asc(schema.runTrajectories.replicate))
+    .all();
+  const byRep = new Map<number, Record<string, number[]>>();
+  for (const t of trajRows) {
+    const m = byRep.get(t.replicate) ?? {};
+    m[t.species] = arr(fromBlob(t.values as Buffer));
+    byRep.set(t.replicate, m);
+  }
+  let threshold: RunSeries["threshold"] = null;
+  try {
+    const t = resolveThreshold(spec);
+    threshold = { theta: t.theta, downTheta: t.downTheta };
+  } catch {
+    threshold = null;
+  }
+  const compiled = compileProgram(spec.program, spec.endTimeMinutes);
+  return {
+    times: Array.from(times),
+    input: { signal: spec.inputSignal, pulses: compiled.pulses.map((p: any) => ({ on: p.on, off: p.off, level: p.level })) },
+    outputSpecies: spec.circuit.outputSpecies,
+    species: names.map((name) => ({ name, mean: pick(name, "mean") ?? [], sd: pick(name, "sd") ?? [], ode: pick(name, "ode") })),
+    trajectories: [...byRep.entries()].map(([replicate, values]) => ({ replicate, values })),
+    threshold,
+  };
+}
+
+const SORT_COLUMNS = {
+  replicate: schema.pulseStats.replicate,
+  pulseIndex: schema.pulseStats.pulseIndex,
+  durationBin: schema.pulseStats.durationBin,
+  delay: schema.pulseStats.delay,
+  offDelay: schema.pulseStats.offDelay,
+  width: schema.pulseStats.width,
+  peak: schema.pulseStats.peak,
+  timeToPeak: schema.pulseStats.timeToPeak,
+  fwhm: schema.pulseStats.fwhm,
+} as const;
+
+export function replicatePage(ctx: AppContext, id: string, q: { sort: keyof typeof SORT_COLUMNS; dir: "asc" | "desc"; page: number; pageSize: number; durationBin?: number }) {
+  const conds = [eq(schema.pulseStats.runId, id)];
+  if (q.durationBin !== undefined) conds.push(eq(schema.pulseStats.durationBin, q.durationBin));
+  const where = and(...conds);
+  const total = ctx.db.select({ n: count() }).from(schema.pulseStats).where(where).get()!.n;
+  const col = SORT_COLUMNS[q.sort];
+  const rows = ctx.db
+    .select()
+    .from(schema.pulseStats)
+    .where(where)
+    // nulls (censored) last either way, then a stable tie-break
+    .orderBy(sql`${col} IS NULL`, q.dir === "asc" ? asc(col) : desc(col), asc(schema.pulseStats.replicate), asc(schema.pulseStats.pulseIndex))
+    .limit(q.pageSize)
+    .offset((q.page - 1) * q.pageSize)
+    .all();
+  return {
+    total,
+    page: q.page,
+    pageSize: q.pageSize,
+    rows: rows.map((r) => ({
+      replicate: r.replicate, pulseIndex: r.pulseIndex, on: r.on, off: r.off, durationBin: r.durationBin, excluded: r.excluded, passed: r.passed,
+      delay: r.delay, offDelay: r.offDelay, width: r.width, peak: r.peak, timeToPeak: r.timeToPeak, fwhm: r.fwhm,
+    })),
+  };
+}
+
+export function softDelete(ctx: AppContext, id: string) {
+  const row = getRunRow(ctx, id);
+  if (row.deletedAt) throw conflict("That run is already deleted.");
+  if (row.status === "queued" || row.status === "running") ctx.queue.cancel(id);
+  ctx.db.update(schema.runs).set({ deletedAt: new Date() }).where(eq(schema.runs.id, id)).run();
+}
+
+export function restore(ctx: AppContext, id: string) {
+  const row = getRunRow(ctx, id);
+  if (!row.deletedAt) throw conflict("That run is not deleted.");
+  ctx.db.update(schema.runs).set({ deletedAt: null }).where(eq(schema.runs.id, id)).run();
+}
+
+/** Remove runs deleted longer ago than the undo period. */
+export function purgeDeleted(ctx: AppContext, now = Date.now()) {
+  const cutoff = new Date(now - API_LIMITS.undoDays * 86400_000);
+  ctx.db.delete(schema.runs).where(and(isNotNull(schema.runs.deletedAt), lt(schema.runs.deletedAt, cutoff))).run();
+}

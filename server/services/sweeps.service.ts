@@ -1,0 +1,173 @@
+/**
+ * Parameter sweeps: one or two parameters over a list or a linear/log grid.
+ * Each point is a child run (its own derived seed) that the queue computes in
+ * order; the sweep's per-point aggregates are the child runs' stored summaries.
+ * A cancelled or interrupted sweep resumes from the points (and chunks) it has.
+ */
+import { and, asc, count, eq, inArray, isNull } from "drizzle-orm";
+import type { AppContext } from "../context";
+import { schema } from "../../db/client";
+import { API_LIMITS, type LaunchSweep } from "../../shared/schemas/api-runs";
+import type { RunSpec } from "../../shared/schemas/run-spec";
+import { listParameters, setParameter } from "../../sim";
+import { badRequest, conflict, notFound, tooMany } from "../http-error";
+import { newId } from "../ids";
+import { buildSpec, insertRun, resolveInputs } from "./runs.service";
+
+export function axisValues(axis: LaunchSweep["axes"][number]): number[] {
+  if (axis.values) return axis.values;
+  const g = axis.grid!;
+  const out: number[] = [];
+  for (let i = 0; i < g.count; i++) {
+    const f = i / (g.count - 1);
+    out.push(g.scale === "log" ? Math.exp(Math.log(g.from) + f * (Math.log(g.to) - Math.log(g.from))) : g.from + f * (g.to - g.from));
+  }
+  return out;
+}
+
+/** The seed of sweep point i: the base seed with the point index appended (documented in docs/engine.md). */
+export const pointSeed = (base: string, i: number) => `${base}.p${i}`;
+
+export function launchSweep(ctx: AppContext, labId: string, userId: string, body: LaunchSweep): string {
+  const active = ctx.db.select({ n: count() }).from(schema.sweeps).where(and(eq(schema.sweeps.labId, labId), inArray(schema.sweeps.status, ["queued", "running"]), isNull(schema.sweeps.deletedAt))).get()!.n;
+  if (active >= API_LIMITS.maxActiveSweepsPerLab) throw tooMany(`This lab already has ${API_LIMITS.maxActiveSweepsPerLab} sweeps running; wait for one to finish or cancel one.`);
+  const inputs = resolveInputs(ctx, labId, body.base);
+  const base = buildSpec(inputs, body.base.settings);
+  const known = new Set(listParameters(base.circuit).map((p: { ref: string }) => p.ref));
+  const axes = body.axes.map((a, i) => {
+    if (!known.has(a.parameter)) throw badRequest(`The circuit has no parameter ${a.parameter}.`, [{ path: `axes.${i}.parameter`, message: "unknown parameter" }]);
+    return { parameter: a.parameter, values: axisValues(a) };
+  });
+  if (axes.length === 2 && axes[0].parameter === axes[1].parameter) throw badRequest("Sweep two different parameters.", [{ path: "axes.1.parameter", message: "same as the first axis" }]);
+  const points: Record<string, number>[] = [];
+  for (const v0 of axes[0].values) {
+    if (axes.length === 1) points.push({ [axes[0].parameter]: v0 });
+    else for (const v1 of axes[1].values) points.push({ [axes[0].parameter]: v0, [axes[1].parameter]: v1 });
+  }
+  if (points.length > API_LIMITS.maxSweepPoints) throw badRequest(`The sweep has ${points.length} points; the limit is ${API_LIMITS.maxSweepPoints}.`, [{ path: "axes", message: "too many points" }], "limit");
+  if (points.length * base.replicates > API_LIMITS.maxSweepReplicates) {
+    throw badRequest(`${points.length} points x ${base.replicates} replicates exceeds ${API_LIMITS.maxSweepReplicates}; use fewer replicates per point.`, [{ path: "base.settings.replicates", message: "too many replicates in all" }], "limit");
+  }
+  // Build and check every point before storing anything.
+  const specs: RunSpec[] = points.map((p, i) => {
+    let circuit = base.circuit;
+    for (const [ref, value] of Object.entries(p)) {
+      try {
+        circuit = setParameter(circuit, ref, value);
+      } catch (e) {
+        throw badRequest(`Point ${i}: ${(e as Error).message}`, [{ path: "axes", message: (e as Error).message }]);
+      }
+    }
+    return buildSpec({ ...inputs, circuit, inputSignal: base.inputSignal }, { ...base, seed: pointSeed(base.seed, i) });
+  });
+  const id = newId("swp_");
+  ctx.sqlite.transaction(() => {
+    ctx.db.insert(schema.sweeps).values({
+      id, labId, name: body.name, baseSpec: base, axes, status: "queued", pointCount: points.length, createdBy: userId, createdAt: new Date(),
+    }).run();
+    specs.forEach((spec, i) => {
+      const label = Object.entries(points[i]).map(([k, v]) => `${k}=${formatNumber(v)}`).join(", ");
+      insertRun(ctx, { labId, name: `${body.name} · ${label}`, spec, userId, sweepId: id, sweepPoint: i, inputs });
+    });
+  })();
+  ctx.queue.kick();
+  return id;
+}
+
+export const formatNumber = (v: number) => (Math.abs(v) >= 1000 || Math.abs(v) < 0.01 ? v.toPrecision(3) : String(Math.round(v * 1000) / 1000));
+
+/** Derive the sweep's status from its points and store it; returns the new status when it changed. */
+export function refreshSweepStatus(ctx: AppContext, sweepId: string): string | null {
+  const sweep = ctx.db.select().from(schema.sweeps).where(eq(schema.sweeps.id, sweepId)).get();
+  if (!sweep) return null;
+  const rows = ctx.db.select({ status: schema.runs.status }).from(schema.runs).where(eq(schema.runs.sweepId, sweepId)).all();
+  const st = rows.map((r) => r.status);
+  let status: typeof sweep.status;
+  if (st.some((s) => s === "running")) status = "running";
+  else if (st.some((s) => s === "queued")) status = st.some((s) => s !== "queued") ? "running" : "queued";
+  else if (st.some((s) => s === "failed")) status = "failed";
+  else if (st.some((s) => s === "cancelled")) status = "cancelled";
+  else if (st.some((s) => s === "capped")) status = "capped";
+  else status = "finished";
+  if (status === sweep.status) return null;
+  const ended = !["queued", "running"].includes(status);
+  ctx.db.update(schema.sweeps).set({ status, finishedAt: ended ? new Date() : null }).where(eq(schema.sweeps.id, sweepId)).run();
+  return status;
+}
+
+export function cancelSweep(ctx: AppContext, sweepId: string) {
+  const rows = ctx.db.select({ id: schema.runs.id }).from(schema.runs).where(and(eq(schema.runs.sweepId, sweepId), inArray(schema.runs.status, ["queued", "running"]))).all();
+  if (!rows.length) throw conflict("The sweep has no queued or running points.", "not_running");
+  for (const r of rows) ctx.queue.cancel(r.id);
+  refreshSweepStatus(ctx, sweepId);
+}
+
+/** Re-queue points that were cancelled or failed; finished points and stored chunks are kept. */
+export function resumeSweep(ctx: AppContext, sweepId: string) {
+  const res = ctx.db
+    .update(schema.runs)
+    .set({ status: "queued", statusReason: "Resumed.", finishedAt: null })
+    .where(and(eq(schema.runs.sweepId, sweepId), inArray(schema.runs.status, ["cancelled", "failed"])))
+    .run();
+  if (res.changes === 0) throw conflict("Nothing to resume: every point is finished, queued or running.", "nothing_to_resume");
+  ctx.db.update(schema.sweeps).set({ status: "running", finishedAt: null }).where(eq(schema.sweeps.id, sweepId)).run();
+  ctx.queue.kick();
+}
+
+export function sweepDetail(ctx: AppContext, sweepId: string) {
+  const sweep = ctx.db.select().from(schema.sweeps).where(eq(schema.sweeps.id, sweepId)).get();
+  if (!sweep) throw notFound("That sweep");
+  const runs = ctx.db.select().from(schema.runs).where(eq(schema.runs.sweepId, sweepId)).orderBy(asc(schema.runs.sweepPoint)).all();
+  const axes = sweep.axes as { parameter: string; values: number[] }[];
+  const points = runs.map((r) => {
+    const i = r.sweepPoint ?? 0;
+    const values: Record<string, number> = {};
+    if (axes.length === 1) values[axes[0].parameter] = axes[0].values[i];
+    else {
+      values[axes[0].parameter] = axes[0].values[Math.floor(i / axes[1].values.length)];
+      values[axes[1].parameter] = axes[1].values[i % axes[1].values.length];
+    }
+    const s = r.summary as any;
+    return {
+      index: i,
+      runId: r.id,
+      status: r.status,
+      values,
+      replicatesDone: r.replicatesDone,
+      figures: s
+        ? {
+            d50: s.d50 ?? null,
+            falsePassRate: s.falsePassRate ?? null,
+            medianDelay: s.delay?.median ?? null,
+            passByDuration: Object.fromEntries((s.byDuration ?? []).map((b: any) => [String(b.duration), b.passProbability])),
+            peak: s.pulseGeneration?.peak?.median ?? null,
+            fano: s.noise?.fano ?? null,
+          }
+        : null,
+    };
+  });
+  const done = runs.filter((r) => !["queued", "running"].includes(r.status)).length;
+  return {
+    id: sweep.id,
+    labId: sweep.labId,
+    name: sweep.name,
+    status: sweep.status,
+    statusReason: sweep.statusReason,
+    axes,
+    pointCount: sweep.pointCount,
+    pointsDone: done,
+    replicatesPerPoint: (sweep.baseSpec as RunSpec).replicates,
+    createdAt: sweep.createdAt.toISOString(),
+    finishedAt: sweep.finishedAt?.toISOString() ?? null,
+    baseSpec: sweep.baseSpec as RunSpec,
+    points,
+  };
+}
+
+export function listSweeps(ctx: AppContext, labId: string) {
+  const rows = ctx.db.select().from(schema.sweeps).where(and(eq(schema.sweeps.labId, labId), isNull(schema.sweeps.deletedAt))).orderBy(asc(schema.sweeps.createdAt)).all();
+  return rows.reverse().map((s) => {
+    const done = ctx.db.select({ n: count() }).from(schema.runs).where(and(eq(schema.runs.sweepId, s.id), inArray(schema.runs.status, ["finished", "capped", "failed", "cancelled"]))).get()!.n;
+    return { id: s.id, name: s.name, status: s.status, pointCount: s.pointCount, pointsDone: done, axes: (s.axes as any[]).map((a) => a.parameter), createdAt: s.createdAt.toISOString() };
+  });
+}

@@ -1,0 +1,166 @@
+/** Request and response shapes of the runs, sweeps and comparison API. */
+import { z } from "zod";
+import { CircuitSchema, NameSchema, ParameterRefSchema } from "./circuit";
+import { InputProgramSchema } from "./input-program";
+import { RunSpecSchema, SeedSchema } from "./run-spec";
+
+export const RUN_STATUS = ["queued", "running", "finished", "failed", "capped", "cancelled"] as const;
+export type RunStatus = (typeof RUN_STATUS)[number];
+
+/** Limits enforced by the API with 4xx answers (documented in the README). */
+export const API_LIMITS = {
+  /** Stored (replicate, input pulse) rows per run. */
+  maxPulseRowsPerRun: 2_000_000,
+  /** Runs queued or running per lab (sweep points not counted). */
+  maxActiveRunsPerLab: 20,
+  /** Sweeps queued or running per lab. */
+  maxActiveSweepsPerLab: 3,
+  maxSweepPoints: 400,
+  /** Replicates x points in one sweep. */
+  maxSweepReplicates: 400_000,
+  /** Days a deleted run can be restored. */
+  undoDays: 7,
+} as const;
+
+/** Settings of a run: the RunSpec without circuit, program and input signal; the seed is optional (random when absent). */
+export const RunSettingsSchema = RunSpecSchema.omit({ circuit: true, program: true, inputSignal: true }).extend({
+  seed: SeedSchema.optional(),
+});
+export type RunSettings = z.infer<typeof RunSettingsSchema>;
+export type RunSettingsInput = z.input<typeof RunSettingsSchema>;
+
+export const LaunchRunSchema = z
+  .object({
+    name: z.string().trim().min(1, "name must not be empty").max(120),
+    notes: z.string().max(5000).default(""),
+    /** A stored circuit (current version unless circuitVersion) or an inline circuit. */
+    circuitId: z.string().optional(),
+    circuitVersion: z.number().int().min(1).optional(),
+    circuit: CircuitSchema.optional(),
+    /** A stored input program or an inline one. */
+    programId: z.string().optional(),
+    program: InputProgramSchema.optional(),
+    /** The signal the program drives; default: the circuit's first signal. */
+    inputSignal: NameSchema.optional(),
+    settings: RunSettingsSchema,
+  })
+  .refine((v) => !!v.circuitId !== !!v.circuit, { message: "give either circuitId or circuit", path: ["circuitId"] })
+  .refine((v) => !!v.programId !== !!v.program, { message: "give either programId or program", path: ["programId"] });
+export type LaunchRun = z.infer<typeof LaunchRunSchema>;
+export type LaunchRunInput = z.input<typeof LaunchRunSchema>;
+
+export const RunProgressSchema = z.object({
+  replicatesDone: z.number(),
+  replicates: z.number(),
+  fraction: z.number(),
+  eventsPerSecond: z.number().nullable(),
+  secondsLeft: z.number().nullable(),
+});
+export type RunProgressView = z.infer<typeof RunProgressSchema>;
+
+export const RunListItemSchema = z.object({
+  id: z.string(),
+  labId: z.string(),
+  name: z.string(),
+  status: z.enum(RUN_STATUS),
+  statusReason: z.string().nullable(),
+  replicates: z.number(),
+  seed: z.string(),
+  circuitName: z.string(),
+  programName: z.string(),
+  sweepId: z.string().nullable(),
+  controlOf: z.string().nullable(),
+  progress: RunProgressSchema,
+  createdAt: z.string(),
+  finishedAt: z.string().nullable(),
+  archived: z.boolean(),
+  createdBy: z.string().nullable(),
+  /** A few headline figures for lists and phone glances. */
+  headline: z
+    .object({ d50: z.number().nullable(), falsePassRate: z.number().nullable(), medianDelay: z.number().nullable() })
+    .nullable(),
+});
+export type RunListItem = z.infer<typeof RunListItemSchema>;
+
+export const RunDetailSchema = RunListItemSchema.extend({
+  notes: z.string(),
+  spec: RunSpecSchema,
+  engineVersion: z.string(),
+  eventsTotal: z.number(),
+  cappedReplicates: z.number(),
+  computeSeconds: z.number(),
+  startedAt: z.string().nullable(),
+  deletedAt: z.string().nullable(),
+  circuitId: z.string().nullable(),
+  circuitVersion: z.number().nullable(),
+  programId: z.string().nullable(),
+  statsHash: z.string().nullable(),
+  /** RunSummary (shared/schemas/analysis.ts) when finished. */
+  summary: z.any().nullable(),
+  threshold: z.object({ theta: z.number(), downTheta: z.number(), hysteresis: z.number(), windowMinutes: z.number(), outputLifetimeMinutes: z.number() }).nullable(),
+});
+export type RunDetail = z.infer<typeof RunDetailSchema>;
+
+export const RunSeriesSchema = z.object({
+  times: z.array(z.number()),
+  input: z.object({ signal: z.string(), pulses: z.array(z.object({ on: z.number(), off: z.number(), level: z.number() })) }),
+  outputSpecies: z.string(),
+  species: z.array(z.object({ name: z.string(), mean: z.array(z.number()), sd: z.array(z.number()), ode: z.array(z.number()).nullable() })),
+  trajectories: z.array(z.object({ replicate: z.number(), values: z.record(z.string(), z.array(z.number())) })),
+  threshold: z.object({ theta: z.number(), downTheta: z.number() }).nullable(),
+});
+export type RunSeries = z.infer<typeof RunSeriesSchema>;
+
+export const ReplicateQuerySchema = z.object({
+  sort: z.enum(["replicate", "pulseIndex", "durationBin", "delay", "offDelay", "width", "peak", "timeToPeak", "fwhm"]).default("replicate"),
+  dir: z.enum(["asc", "desc"]).default("asc"),
+  page: z.coerce.number().int().min(1).default(1),
+  pageSize: z.coerce.number().int().min(1).max(500).default(50),
+  durationBin: z.coerce.number().optional(),
+});
+export const ReplicatePageSchema = z.object({
+  total: z.number(),
+  page: z.number(),
+  pageSize: z.number(),
+  rows: z.array(
+    z.object({
+      replicate: z.number(), pulseIndex: z.number(), on: z.number(), off: z.number(), durationBin: z.number(),
+      excluded: z.boolean(), passed: z.boolean(), delay: z.number().nullable(), offDelay: z.number().nullable(),
+      width: z.number().nullable(), peak: z.number(), timeToPeak: z.number(), fwhm: z.number().nullable(),
+    }),
+  ),
+});
+export type ReplicatePage = z.infer<typeof ReplicatePageSchema>;
+
+export const PatchRunSchema = z.object({ name: z.string().trim().min(1).max(120).optional(), notes: z.string().max(5000).optional() });
+
+export const EstimateSchema = z.object({ estimatedEvents: z.number(), estimatedSeconds: z.number(), gridPoints: z.number(), pulses: z.number(), storedPulseRows: z.number() });
+export type Estimate = z.infer<typeof EstimateSchema>;
+
+export const CompareRequestSchema = z.object({ runIds: z.array(z.string()).min(2, "choose at least two runs").max(4, "choose at most four runs") });
+
+// ---- sweeps
+export const SweepAxisSchema = z
+  .object({
+    parameter: ParameterRefSchema,
+    values: z.array(z.number().finite()).min(1).max(400).optional(),
+    grid: z.object({ from: z.number().finite(), to: z.number().finite(), count: z.number().int().min(2).max(400), scale: z.enum(["linear", "log"]).default("linear") }).optional(),
+  })
+  .refine((a) => !!a.values !== !!a.grid, { message: "give either values or grid", path: ["values"] })
+  .refine((a) => !a.grid || a.grid.scale !== "log" || (a.grid.from > 0 && a.grid.to > 0), { message: "a log grid needs positive ends", path: ["grid"] });
+
+export const LaunchSweepSchema = z.object({
+  name: z.string().trim().min(1).max(120),
+  base: z.object({
+    circuitId: z.string().optional(),
+    circuitVersion: z.number().int().min(1).optional(),
+    circuit: CircuitSchema.optional(),
+    programId: z.string().optional(),
+    program: InputProgramSchema.optional(),
+    inputSignal: NameSchema.optional(),
+    settings: RunSettingsSchema,
+  }),
+  axes: z.array(SweepAxisSchema).min(1, "sweep one or two parameters").max(2, "sweep one or two parameters"),
+});
+export type LaunchSweep = z.infer<typeof LaunchSweepSchema>;
+export type LaunchSweepInput = z.input<typeof LaunchSweepSchema>;

@@ -1,0 +1,38 @@
+import { test } from "node:test";
+import assert from "node:assert/strict";
+import { makeTestContext, signIn } from "../helpers/test-app";
+import { launchBody, realQueue, waitForRun } from "../helpers/run-helpers";
+import { firstDifference } from "../../server/services/run-store";
+
+test("pool sizes 1 and 2 store identical statistics for the same spec and seed", async () => {
+  const hashes: string[] = [];
+  for (const threads of [1, 2]) {
+    const t = await makeTestContext({ queue: realQueue(threads) });
+    try {
+      const editor = await signIn(t.app, "editor@example.org");
+      const r = await editor.post(`/api/labs/${t.demoLab!.id}/runs`).send(launchBody({ replicates: 450, seed: "same-seed" }));
+      const done = await waitForRun(editor, r.body.id);
+      assert.equal(done.status, "finished");
+      hashes.push(done.statsHash);
+    } finally {
+      await t.close();
+    }
+  }
+  assert.equal(hashes[0], hashes[1]);
+});
+
+test("a different seed changes the statistics, and firstDifference names where", async () => {
+  const t = await makeTestContext({ queue: realQueue(1) });
+  try {
+    const editor = await signIn(t.app, "editor@example.org");
+    const a = await editor.post(`/api/labs/${t.demoLab!.id}/runs`).send(launchBody({ replicates: 100, seed: "seed-a" }));
+    const b = await editor.post(`/api/labs/${t.demoLab!.id}/runs`).send(launchBody({ replicates: 100, seed: "seed-b" }));
+    const da = await waitForRun(editor, a.body.id);
+    const db = await waitForRun(editor, b.body.id);
+    assert.notEqual(da.statsHash, db.statsHash);
+    assert.match(firstDifference(t.ctx.db, a.body.id, b.body.id) ?? "", /^replicate 0/);
+    assert.equal(firstDifference(t.ctx.db, a.body.id, a.body.id), null);
+  } finally {
+    await t.close();
+  }
+});

@@ -1,0 +1,136 @@
+import { test, describe } from "node:test";
+import assert from "node:assert/strict";
+import { eq } from "drizzle-orm";
+import { makeTestContext, signIn } from "../helpers/test-app";
+import { launchBody, realQueue, waitForRun } from "../helpers/run-helpers";
+import { schema } from "../../db/client";
+
+describe("runs through the real queue and pool", () => {
+  test("launch, progress, finish: statistics, series and exports are stored", async () => {
+    const t = await makeTestContext({ queue: realQueue(1) });
+    try {
+      const editor = await signIn(t.app, "editor@example.org");
+      const labId = t.demoLab!.id;
+      const r = await editor.post(`/api/labs/${labId}/runs`).send(launchBody({ replicates: 150 }));
+      assert.equal(r.status, 201, JSON.stringify(r.body));
+      assert.ok(["queued", "running"].includes(r.body.status));
+      const done = await waitForRun(editor, r.body.id);
+      assert.equal(done.status, "finished", done.statusReason);
+      assert.equal(done.progress.replicatesDone, 150);
+      assert.ok(done.eventsTotal > 0);
+      assert.match(done.statsHash, /^[0-9a-f]{64}$/);
+      // the 5 and 60 min pulses appear in the per-duration figures
+      assert.deepEqual(done.summary.byDuration.map((b: any) => b.duration), [5, 60]);
+      const rows = t.ctx.db.select().from(schema.pulseStats).where(eq(schema.pulseStats.runId, r.body.id)).all();
+      assert.equal(rows.length, 150 * 2);
+      const series = await editor.get(`/api/runs/${r.body.id}/series`);
+      assert.equal(series.status, 200);
+      assert.equal(series.body.times.length, 451);
+      assert.equal(series.body.trajectories.length, 20);
+      assert.equal(series.body.species.find((s: any) => s.name === "rptC").mean.length, 451);
+      assert.ok(series.body.species[0].ode, "ODE overlay stored");
+      const page = await editor.get(`/api/runs/${r.body.id}/replicates?sort=delay&dir=desc&page=2&pageSize=10`);
+      assert.equal(page.status, 200);
+      assert.equal(page.body.total, 300);
+      assert.equal(page.body.rows.length, 10);
+      const csv = await editor.get(`/api/runs/${r.body.id}/export/replicates.csv`);
+      assert.equal(csv.status, 200);
+      assert.equal(csv.text.trim().split("\n").length, 301);
+      const agg = await editor.get(`/api/runs/${r.body.id}/export/aggregates.csv`);
+      assert.match(agg.text, /^duration_min,pulses,passed,pass_probability/);
+      // the run list shows it with headline figures
+      const list = await editor.get(`/api/labs/${labId}/runs`);
+      assert.equal(list.body[0].id, r.body.id);
+    } finally {
+      await t.close();
+    }
+  });
+
+  test("bad launch input gets a 400 naming the field; nothing is stored", async () => {
+    const t = await makeTestContext({ queue: realQueue(1) });
+    try {
+      const editor = await signIn(t.app, "editor@example.org");
+      const body = launchBody();
+      const bad = { ...body, settings: { ...body.settings, replicates: 0 } };
+      const r = await editor.post(`/api/labs/${t.demoLab!.id}/runs`).send(bad);
+      assert.equal(r.status, 400);
+      assert.ok(r.body.error.fields.some((f: any) => f.path === "settings.replicates"), JSON.stringify(r.body));
+      const r2 = await editor.post(`/api/labs/${t.demoLab!.id}/runs`).send({ ...body, inputSignal: "Nope" });
+      assert.equal(r2.status, 400);
+      assert.match(r2.body.error.message, /no signal "Nope"/);
+      const tooBig = await editor.post(`/api/labs/${t.demoLab!.id}/runs`).send({ ...body, settings: { ...body.settings, gridStepMinutes: 0.001 } });
+      assert.equal(tooBig.status, 400);
+      assert.match(tooBig.body.error.message, /grid/);
+      assert.equal(t.ctx.db.select().from(schema.runs).all().length, 0);
+    } finally {
+      await t.close();
+    }
+  });
+
+  test("cancel stops a running run; a failing chunk marks the run failed with the reason", async () => {
+    const t = await makeTestContext({ queue: realQueue(1, { chunkWallMs: 1 }) });
+    try {
+      const editor = await signIn(t.app, "editor@example.org");
+      const labId = t.demoLab!.id;
+      const failing = await editor.post(`/api/labs/${labId}/runs`).send(launchBody({ replicates: 100 }));
+      const failed = await waitForRun(editor, failing.body.id);
+      assert.equal(failed.status, "failed");
+      assert.match(failed.statusReason, /wall-time cap/);
+    } finally {
+      await t.close();
+    }
+    const t2 = await makeTestContext({ queue: realQueue(1) });
+    try {
+      const editor = await signIn(t2.app, "editor@example.org");
+      const r = await editor.post(`/api/labs/${t2.demoLab!.id}/runs`).send(launchBody({ replicates: 20_000 }));
+      const c = await editor.post(`/api/runs/${r.body.id}/cancel`);
+      assert.equal(c.status, 200);
+      assert.equal(c.body.status, "cancelled");
+      const again = await editor.post(`/api/runs/${r.body.id}/cancel`);
+      assert.equal(again.status, 409);
+      const viewer = await signIn(t2.app, "viewer@example.org");
+      assert.equal((await viewer.post(`/api/runs/${r.body.id}/cancel`)).status, 403);
+    } finally {
+      await t2.close();
+    }
+  });
+
+  test("a small run launched behind a large one finishes within a few chunk times", async () => {
+    const t = await makeTestContext({ queue: realQueue(1) });
+    try {
+      const editor = await signIn(t.app, "editor@example.org");
+      const labId = t.demoLab!.id;
+      const big = await editor.post(`/api/labs/${labId}/runs`).send(launchBody({ replicates: 100_000, name: "big" }));
+      assert.equal(big.status, 201, JSON.stringify(big.body));
+      const small = await editor.post(`/api/labs/${labId}/runs`).send(launchBody({ replicates: 100, name: "small" }));
+      const done = await waitForRun(editor, small.body.id);
+      assert.equal(done.status, "finished");
+      const bigNow = (await editor.get(`/api/runs/${big.body.id}`)).body;
+      // Round-robin by chunk (100 replicates): the big run got at most a few chunks meanwhile.
+      assert.ok(bigNow.progress.replicatesDone <= 400, `big run did ${bigNow.progress.replicatesDone} replicates`);
+      await editor.post(`/api/runs/${big.body.id}/cancel`).expect(200);
+    } finally {
+      await t.close();
+    }
+  });
+
+  test("delete can be undone; archived runs leave the default list", async () => {
+    const t = await makeTestContext({ queue: realQueue(1) });
+    try {
+      const editor = await signIn(t.app, "editor@example.org");
+      const labId = t.demoLab!.id;
+      const r = await editor.post(`/api/labs/${labId}/runs`).send(launchBody({ replicates: 100 }));
+      await waitForRun(editor, r.body.id);
+      const d = await editor.delete(`/api/runs/${r.body.id}`);
+      assert.equal(d.status, 200);
+      assert.equal((await editor.get(`/api/labs/${labId}/runs`)).body.length, 0);
+      await editor.post(`/api/runs/${r.body.id}/restore`).expect(200);
+      assert.equal((await editor.get(`/api/labs/${labId}/runs`)).body.length, 1);
+      await editor.post(`/api/runs/${r.body.id}/archive`).expect(200);
+      assert.equal((await editor.get(`/api/labs/${labId}/runs`)).body.length, 0);
+      assert.equal((await editor.get(`/api/labs/${labId}/runs?archived=1`)).body.length, 1);
+    } finally {
+      await t.close();
+    }
+  });
+});
