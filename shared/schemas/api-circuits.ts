@@ -60,7 +60,7 @@ export const FeedForwardSchema = z.object({
   code: z.enum(["C1", "C2", "C3", "C4", "I1", "I2", "I3", "I4"]),
   coherent: z.boolean(),
   typeNumber: z.number().int().min(1).max(4),
-  /** E.g. "coherent type 1" or "incoherent type 1 (AND logic)". */
+  /** E.g. "coherent type 1" or "incoherent type 1" (logic is given apart). */
   label: z.string(),
   x: z.string(),
   y: z.string(),
