@@ -6,12 +6,8 @@
  *     one-time link (valid 24 hours) to set its password.
  */
 import { openDatabase } from "../../db/client";
-import type { AppContext } from "../context";
 import { parseEnv } from "../env";
-import { APP_VERSION } from "../version";
-import { nullMailer } from "../services/mail.service";
-import { createIdleQueue } from "../services/run-queue";
-import { createSiteAdmin } from "../services/auth.service";
+import { createSiteAdmin, type AccountsCtx } from "../services/auth.service";
 
 const USAGE = "Usage: npm run admin -- create <email>";
 
@@ -34,7 +30,7 @@ async function main(argv: string[]): Promise<number> {
   }
   const handle = openDatabase(env.DATABASE_URL);
   try {
-    const ctx: AppContext = { db: handle.db, sqlite: handle.sqlite, env, version: APP_VERSION, mailer: nullMailer, queue: createIdleQueue(), poolSize: 1 };
+    const ctx: AccountsCtx = { db: handle.db, sqlite: handle.sqlite, env };
     const r = await createSiteAdmin(ctx, email);
     console.log(`${r.created ? "Created" : "Promoted"} ${email.trim().toLowerCase()} as site admin.`);
     console.log("Set the password with this one-time link (valid for 24 hours):");

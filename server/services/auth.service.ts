@@ -11,6 +11,9 @@ import type { SessionUser } from "../routes/route-table";
 import { hashPassword, verifyPassword } from "./password";
 import { createToken, findValidToken, markTokenUsed } from "./tokens.service";
 
+/** What the account functions need (the admin CLI has no mailer or queue). */
+export type AccountsCtx = Pick<AppContext, "db" | "sqlite" | "env">;
+
 export const PASSWORD_MIN_LENGTH = 8;
 export const PASSWORD_MAX_LENGTH = 200;
 
@@ -25,7 +28,7 @@ export function normalizeEmail(email: string): string {
 let dummyHash: Promise<string> | null = null;
 
 /** The user for these credentials, or null. Takes about as long whether or not the e-mail exists. */
-export async function checkCredentials(ctx: AppContext, email: string, password: string): Promise<SessionUser | null> {
+export async function checkCredentials(ctx: AccountsCtx, email: string, password: string): Promise<SessionUser | null> {
   const u = ctx.db.select().from(schema.users).where(eq(schema.users.email, normalizeEmail(email))).get();
   if (!u || !u.passwordHash) {
     dummyHash ??= hashPassword("not-a-real-password");
@@ -36,17 +39,17 @@ export async function checkCredentials(ctx: AppContext, email: string, password:
   return { id: u.id, email: u.email, displayName: u.displayName, isSiteAdmin: u.isSiteAdmin };
 }
 
-export function findUserByEmail(ctx: AppContext, email: string) {
+export function findUserByEmail(ctx: AccountsCtx, email: string) {
   return ctx.db.select().from(schema.users).where(eq(schema.users.email, normalizeEmail(email))).get() ?? null;
 }
 
-export function meUser(ctx: AppContext, userId: string): MeUser | null {
+export function meUser(ctx: AccountsCtx, userId: string): MeUser | null {
   const u = ctx.db.select().from(schema.users).where(eq(schema.users.id, userId)).get();
   if (!u) return null;
   return { id: u.id, email: u.email, displayName: u.displayName, isSiteAdmin: u.isSiteAdmin, notifyOnRunEnd: u.notifyOnRunEnd };
 }
 
-export function userCount(ctx: AppContext): number {
+export function userCount(ctx: AccountsCtx): number {
   return ctx.db.select({ n: count() }).from(schema.users).get()?.n ?? 0;
 }
 
@@ -56,7 +59,7 @@ export function userCount(ctx: AppContext): number {
  * gets a lab of their own, so there is somewhere to work.
  */
 export async function createAccount(
-  ctx: AppContext,
+  ctx: AccountsCtx,
   input: { email: string; password: string | null; displayName: string; ownLab: boolean },
 ): Promise<MeUser> {
   const email = normalizeEmail(input.email);
@@ -76,7 +79,7 @@ export async function createAccount(
   return meUser(ctx, id)!;
 }
 
-export async function setPassword(ctx: AppContext, userId: string, password: string): Promise<void> {
+export async function setPassword(ctx: AccountsCtx, userId: string, password: string): Promise<void> {
   ctx.db.update(schema.users).set({ passwordHash: await hashPassword(password) }).where(eq(schema.users.id, userId)).run();
 }
 
@@ -103,7 +106,7 @@ export async function requestPasswordReset(ctx: AppContext, email: string): Prom
 }
 
 /** Sets a new password with a reset or set-up token; returns the user id. */
-export async function confirmPasswordReset(ctx: AppContext, token: string, password: string): Promise<string> {
+export async function confirmPasswordReset(ctx: AccountsCtx, token: string, password: string): Promise<string> {
   const row = findValidToken(ctx, token, ["reset", "setup"]);
   if (!row || !row.userId) throw badRequest("This reset link is not valid or has expired. Ask for a new one.", undefined, "invalid_token");
   if (!markTokenUsed(ctx, row.tokenHash)) throw badRequest("This reset link has already been used.", undefined, "invalid_token");
@@ -111,7 +114,7 @@ export async function confirmPasswordReset(ctx: AppContext, token: string, passw
   return row.userId;
 }
 
-export async function changePassword(ctx: AppContext, userId: string, currentPassword: string, newPassword: string): Promise<void> {
+export async function changePassword(ctx: AccountsCtx, userId: string, currentPassword: string, newPassword: string): Promise<void> {
   const u = ctx.db.select().from(schema.users).where(eq(schema.users.id, userId)).get();
   if (!u || !(await verifyPassword(currentPassword, u.passwordHash))) {
     throw badRequest("The current password is not right.", [{ path: "currentPassword", message: "Not right." }], "wrong_password");
@@ -119,7 +122,7 @@ export async function changePassword(ctx: AppContext, userId: string, currentPas
   await setPassword(ctx, userId, newPassword);
 }
 
-export function updateProfile(ctx: AppContext, userId: string, patch: { displayName?: string; notifyOnRunEnd?: boolean }): MeUser {
+export function updateProfile(ctx: AccountsCtx, userId: string, patch: { displayName?: string; notifyOnRunEnd?: boolean }): MeUser {
   const set: Partial<typeof schema.users.$inferInsert> = {};
   if (patch.displayName !== undefined) set.displayName = patch.displayName.trim();
   if (patch.notifyOnRunEnd !== undefined) set.notifyOnRunEnd = patch.notifyOnRunEnd;
@@ -131,7 +134,7 @@ export function updateProfile(ctx: AppContext, userId: string, patch: { displayN
  * Creates the user if needed, makes them site admin, and returns a one-time
  * set-password link (for `npm run admin -- create <email>`).
  */
-export async function createSiteAdmin(ctx: AppContext, email: string): Promise<{ userId: string; created: boolean; link: string }> {
+export async function createSiteAdmin(ctx: AccountsCtx, email: string): Promise<{ userId: string; created: boolean; link: string }> {
   let u = findUserByEmail(ctx, email);
   let created = false;
   if (!u) {
