@@ -1,6 +1,5 @@
 /** Runs: launch, list, detail, progress (polling or server-sent events), cancel, archive, delete with undo, data and exports. */
 import { z } from "zod";
-import Papa from "papaparse";
 import { eq } from "drizzle-orm";
 import { defineRoutes } from "./route-table";
 import { schema } from "../../db/client";
@@ -9,8 +8,9 @@ import { NameSchema, CircuitSchema } from "../../shared/schemas/circuit";
 import { InputProgramSchema } from "../../shared/schemas/input-program";
 import * as runs from "../services/runs.service";
 import * as bundles from "../services/bundles.service";
-import { compareLabRuns, createMatchedControl, aggregatesCsv } from "../services/analysis.service";
-import { readPulseRows, readReplicateRows } from "../services/run-store";
+import { compareLabRuns, createMatchedControl } from "../services/analysis.service";
+import { byDurationCsv, pulseStatsCsv, replicateStatsCsv, summaryCsv } from "../../sim/analysis";
+import { readPulseRows, readReplicateRows, rowToPulseStat } from "../services/run-store";
 import { conflict } from "../http-error";
 import { recordAudit } from "../services/audit.service";
 
@@ -211,15 +211,10 @@ export const runRoutes = defineRoutes([
     method: "get",
     path: "/runs/:id/export/replicates.csv",
     access: { kind: "object", resource: "run", role: "viewer" },
-    summary: "CSV of every (replicate, pulse) row.",
+    summary: "CSV of every (replicate, input pulse) row.",
     handler: ({ ctx, params, res }) => {
       const row = runs.getRunRow(ctx, params.id);
-      const data = readPulseRows(ctx.db, params.id).map((p) => ({
-        replicate: p.replicate, pulse: p.pulseIndex, on_min: p.on, off_min: p.off, duration_bin_min: p.durationBin,
-        excluded: p.excluded ? 1 : 0, passed: p.passed ? 1 : 0, delay_min: p.delay ?? "", off_delay_min: p.offDelay ?? "",
-        widths_min: (p.widths ?? []).join(" "), peak: p.peak, time_to_peak_min: p.timeToPeak, fwhm_min: p.fwhm ?? "", baseline: p.baseline,
-      }));
-      sendFile(res, "text/csv; charset=utf-8", `${csvName(row.name)}-replicates.csv`, Papa.unparse(data.length ? data : [{ replicate: "" }]));
+      sendFile(res, "text/csv; charset=utf-8", `${csvName(row.name)}-pulses.csv`, pulseStatsCsv(readPulseRows(ctx.db, params.id).map(rowToPulseStat)));
       return undefined;
     },
   },
@@ -227,11 +222,12 @@ export const runRoutes = defineRoutes([
     method: "get",
     path: "/runs/:id/export/replicate-totals.csv",
     access: { kind: "object", resource: "run", role: "viewer" },
-    summary: "CSV of per-replicate totals: events, cap, output mean and variance, cell-to-cell factors.",
+    summary: "CSV of per-replicate totals: events, cap, output mean and variance, pass fraction, median delay and width.",
     handler: ({ ctx, params, res }) => {
       const row = runs.getRunRow(ctx, params.id);
-      const data = readReplicateRows(ctx.db, params.id).map((r) => ({ replicate: r.replicate, events: r.events, capped: r.capped ? 1 : 0, output_mean: r.outputMean ?? "", output_var: r.outputVar ?? "", factors: JSON.stringify(r.factors ?? {}) }));
-      sendFile(res, "text/csv; charset=utf-8", `${csvName(row.name)}-replicate-totals.csv`, Papa.unparse(data.length ? data : [{ replicate: "" }]));
+      const pulses = readPulseRows(ctx.db, params.id).map(rowToPulseStat);
+      const reps = readReplicateRows(ctx.db, params.id).map((r) => ({ replicate: r.replicate, events: r.events, capped: r.capped, outputMean: r.outputMean ?? NaN, outputVar: r.outputVar ?? NaN }));
+      sendFile(res, "text/csv; charset=utf-8", `${csvName(row.name)}-replicates.csv`, replicateStatsCsv(pulses, reps));
       return undefined;
     },
   },
@@ -239,10 +235,23 @@ export const runRoutes = defineRoutes([
     method: "get",
     path: "/runs/:id/export/aggregates.csv",
     access: { kind: "object", resource: "run", role: "viewer" },
-    summary: "CSV of the aggregates per input pulse duration.",
+    summary: "CSV of the aggregates per input pulse duration, then the run's headline figures.",
     handler: ({ ctx, params, res }) => {
       const row = runs.getRunRow(ctx, params.id);
-      sendFile(res, "text/csv; charset=utf-8", `${csvName(row.name)}-aggregates.csv`, aggregatesCsv(row.summary as any));
+      if (!row.summary) throw conflict("The run has no results yet.", "not_finished");
+      sendFile(res, "text/csv; charset=utf-8", `${csvName(row.name)}-aggregates.csv`, byDurationCsv(row.summary as any));
+      return undefined;
+    },
+  },
+  {
+    method: "get",
+    path: "/runs/:id/export/headline.csv",
+    access: { kind: "object", resource: "run", role: "viewer" },
+    summary: "CSV of the run's headline figures (threshold, d50, false-pass rate, delays, noise).",
+    handler: ({ ctx, params, res }) => {
+      const row = runs.getRunRow(ctx, params.id);
+      if (!row.summary) throw conflict("The run has no results yet.", "not_finished");
+      sendFile(res, "text/csv; charset=utf-8", `${csvName(row.name)}-headline.csv`, summaryCsv(row.summary as any));
       return undefined;
     },
   },

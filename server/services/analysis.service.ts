@@ -1,9 +1,8 @@
 /**
  * Analysis actions over stored runs: comparisons of two to four runs, the
- * matched simple-regulation control, and the aggregates CSV.
+ * matched simple-regulation control.
  */
 import { and, eq, inArray } from "drizzle-orm";
-import Papa from "papaparse";
 import type { AppContext } from "../context";
 import { schema } from "../../db/client";
 import type { RunSpec } from "../../shared/schemas/run-spec";
@@ -51,23 +50,3 @@ export function createMatchedControl(ctx: AppContext, runId: string, userId: str
   return id;
 }
 
-/** CSV of the per-duration aggregates (one row per input pulse duration). */
-export function aggregatesCsv(summary: RunSummary | null): string {
-  if (!summary) return "duration_min\n";
-  return Papa.unparse(
-    summary.byDuration.map((b) => ({
-      duration_min: b.duration,
-      pulses: b.pulses,
-      passed: b.passed,
-      pass_probability: b.passProbability ?? "",
-      ci_low: b.ci?.[0] ?? "",
-      ci_high: b.ci?.[1] ?? "",
-      median_delay_min: b.medianDelay ?? "",
-      censored: b.censored,
-      excluded: b.excluded,
-      median_width_min: b.medianWidth ?? "",
-      median_peak: b.medianPeak ?? "",
-      median_off_delay_min: b.medianOffDelay ?? "",
-    })),
-  );
-}

@@ -37,7 +37,7 @@ describe("runs through the real queue and pool", () => {
       assert.equal(csv.status, 200);
       assert.equal(csv.text.trim().split("\n").length, 301);
       const agg = await editor.get(`/api/runs/${r.body.id}/export/aggregates.csv`);
-      assert.match(agg.text, /^duration_min,pulses,passed,pass_probability/);
+      assert.match(agg.text, /^duration,pulses,passed,passProbability/);
       // the run list shows it with headline figures
       const list = await editor.get(`/api/labs/${labId}/runs`);
       assert.equal(list.body[0].id, r.body.id);
