@@ -1,0 +1,42 @@
+/**
+ * The simulation pool: piscina threads running ./sim-worker.ts (TypeScript
+ * loaded through tsx in each thread). Used by the server's run queue, the CLI
+ * and the benchmark.
+ */
+import path from "node:path";
+import { Piscina } from "piscina";
+import type { ChunkResult } from "../../sim/index";
+import type { RunSpec } from "../../shared/schemas/run-spec";
+import type { SimTask } from "./sim-task";
+
+export type { SimTask } from "./sim-task";
+
+export interface SimPool {
+  runChunk(task: SimTask): Promise<ChunkResult & { wallTimeExceeded?: boolean }>;
+  /** Compiles the spec in every thread (so timing starts with warm caches). */
+  warmUp(spec: RunSpec): Promise<void>;
+  threads: number;
+  destroy(): Promise<void>;
+}
+
+export function createSimPool(opts: { threads: number; idleTimeoutMs?: number }): SimPool {
+  const threads = Math.max(1, Math.floor(opts.threads));
+  const piscina = new Piscina({
+    filename: path.resolve(__dirname, "sim-worker.ts"),
+    execArgv: ["--import", "tsx"],
+    minThreads: threads,
+    maxThreads: threads,
+    idleTimeout: opts.idleTimeoutMs ?? 60_000,
+  });
+  return {
+    threads,
+    runChunk: (task) => piscina.run(task),
+    async warmUp(spec) {
+      const tasks: Promise<unknown>[] = [];
+      for (let i = 0; i < threads; i++)
+        tasks.push(piscina.run({ spec, replicateStart: 0, count: 0, warmUp: { holdMs: threads > 1 ? 100 : 0 } } satisfies SimTask));
+      await Promise.all(tasks);
+    },
+    destroy: () => piscina.destroy(),
+  };
+}

@@ -1,0 +1,49 @@
+/**
+ * Piscina worker: a thin adapter around sim/. Compiles (and caches, per spec)
+ * the circuit, runs one chunk, enforces the wall-time cap through the engine's
+ * checkpoint (sim/ has no clock) and returns the result with its typed arrays
+ * transferred rather than copied.
+ */
+import { Piscina } from "piscina";
+import { simulateChunk, prepareRun, type ChunkResult } from "../../sim/index";
+import type { SimTask } from "./sim-task";
+
+export type WorkerChunkResult = ChunkResult & { wallTimeExceeded?: boolean };
+
+function transferables(r: ChunkResult): ArrayBuffer[] {
+  const out = new Set<ArrayBuffer>();
+  const add = (a: { buffer: ArrayBufferLike }) => out.add(a.buffer as ArrayBuffer);
+  add(r.gridSum);
+  add(r.gridSumSq);
+  add(r.gridCount);
+  for (const t of r.trajectories) add(t.values);
+  for (const e of r.recordedEvents ?? []) {
+    add(e.initial);
+    add(e.times);
+    add(e.reactions);
+  }
+  return [...out];
+}
+
+export default function simWorker(task: SimTask): unknown {
+  if (task.warmUp) {
+    prepareRun(task.spec);
+    const hold = task.warmUp.holdMs ?? 0;
+    if (hold > 0) Atomics.wait(new Int32Array(new SharedArrayBuffer(4)), 0, 0, hold);
+    return simulateChunk(task.spec, 0, 0);
+  }
+  const limit = task.wallTimeLimitMs;
+  const deadline = limit !== undefined && limit > 0 ? Date.now() + limit : Infinity;
+  const checkpoint = Number.isFinite(deadline) ? () => Date.now() < deadline : undefined;
+  const result: WorkerChunkResult = simulateChunk(task.spec, task.replicateStart, task.count, { ...task.options, checkpoint });
+  if (result.aborted) result.wallTimeExceeded = true;
+  const movable = {
+    get [Piscina.transferableSymbol]() {
+      return transferables(result);
+    },
+    get [Piscina.valueSymbol]() {
+      return result;
+    },
+  };
+  return Piscina.move(movable as never);
+}

@@ -1,0 +1,232 @@
+/**
+ * npm run sim -- <spec.json> --out <dir> [--threads N] [--replicates N] [--seed S] [--quiet]
+ *
+ * Runs a spec and writes flat files in <dir> (created if missing):
+ *   summary.json          engine version, spec, threshold, totals, per-duration pass figures;
+ *                         only its "timing" field varies between identical runs
+ *   grid-mean.csv         time, then mean and SD of every species per grid time
+ *   grid-replicates.csv   replicate, time, every species (all replicates)
+ *   replicates.csv        per replicate: events, capped, end time, output mean/variance, extrinsic factors
+ *   pulses.csv            per replicate and input pulse: the figures of docs/metrics.md
+ *   ode.csv               the mean-field solution on the grid
+ *   events-<r>.csv        every firing of replicate r (when recordEventsFor > 0)
+ * Same spec and seed give byte-identical files for any --threads (aggregates
+ * are reduced in replicate/chunk order). The I/O shell of the engine: the rest
+ * of sim/ stays pure.
+ */
+import { createWriteStream, mkdirSync, writeFileSync, type WriteStream } from "node:fs";
+import path from "node:path";
+import { loadSpecFile } from "./load-spec";
+import {
+  ENGINE_VERSION,
+  gridTimes,
+  reduceChunks,
+  resolveThreshold,
+  runSetup,
+  solveOde,
+  type ChunkResult,
+  type GridPartial,
+} from "../index";
+import type { PulseStat } from "../../shared/schemas/run-spec";
+import { createSimPool } from "../../server/workers/pool";
+import { runAllChunks } from "../../server/workers/run-all-chunks";
+
+interface Args {
+  spec: string;
+  out: string;
+  threads?: number;
+  replicates?: number;
+  seed?: string;
+  quiet: boolean;
+}
+
+function usage(msg?: string): never {
+  if (msg) process.stderr.write(`error: ${msg}\n`);
+  process.stderr.write("usage: npm run sim -- <spec.json> --out <dir> [--threads N] [--replicates N] [--seed S] [--quiet]\n");
+  process.exit(2);
+}
+
+function parseArgs(argv: string[]): Args {
+  let spec: string | undefined;
+  let out: string | undefined;
+  const a: Partial<Args> = { quiet: false };
+  for (let i = 0; i < argv.length; i++) {
+    const v = argv[i];
+    const num = (name: string) => {
+      const n = Number(argv[++i]);
+      if (!Number.isInteger(n) || n < 1) usage(`${name} needs a whole number >= 1`);
+      return n;
+    };
+    if (v === "--out") out = argv[++i];
+    else if (v === "--threads") a.threads = num("--threads");
+    else if (v === "--replicates") a.replicates = num("--replicates");
+    else if (v === "--seed") a.seed = argv[++i];
+    else if (v === "--quiet") a.quiet = true;
+    else if (v === "--help" || v === "-h") usage();
+    else if (v.startsWith("--")) usage(`unknown option ${v}`);
+    else if (spec === undefined) spec = v;
+    else usage(`unexpected argument ${v}`);
+  }
+  if (!spec) usage("missing spec file");
+  if (!out) usage("missing --out <dir>");
+  return { ...a, spec, out } as Args;
+}
+
+const fmt = (v: number | null | undefined) => (v === null || v === undefined || Number.isNaN(v) ? "" : String(v));
+
+function progressBar(enabled: boolean) {
+  let last = -1;
+  return (done: number, total: number) => {
+    if (!enabled) return;
+    const pct = Math.floor((100 * done) / total);
+    if (pct === last) return;
+    last = pct;
+    const w = 30;
+    const fill = Math.round((w * done) / total);
+    process.stderr.write(`\r[${"#".repeat(fill)}${" ".repeat(w - fill)}] ${pct}% ${done}/${total} replicates`);
+    if (done === total) process.stderr.write("\n");
+  };
+}
+
+function write(stream: WriteStream, s: string): Promise<void> {
+  return new Promise((resolve) => (stream.write(s) ? resolve() : stream.once("drain", () => resolve())));
+}
+
+function close(stream: WriteStream): Promise<void> {
+  return new Promise((resolve, reject) => {
+    stream.once("error", reject);
+    stream.end(() => resolve());
+  });
+}
+
+export async function runCli(argv: string[]): Promise<void> {
+  const args = parseArgs(argv);
+  const spec = loadSpecFile(args.spec, { replicates: args.replicates, seed: args.seed });
+  mkdirSync(args.out, { recursive: true });
+  const setup = runSetup(spec);
+  const species = setup.model.speciesNames;
+  const grid = gridTimes(spec);
+  const ng = grid.length;
+  const threshold = resolveThreshold(spec);
+  const started = new Date();
+  const t0 = performance.now();
+
+  const gridCsv = createWriteStream(path.join(args.out, "grid-replicates.csv"));
+  const repCsv = createWriteStream(path.join(args.out, "replicates.csv"));
+  const pulseCsv = createWriteStream(path.join(args.out, "pulses.csv"));
+  const factorRefs = spec.extrinsic.map((v) => v.parameter);
+  await write(gridCsv, `replicate,time,${species.join(",")}\n`);
+  await write(repCsv, `replicate,events,capped,endTime,outputMean,outputVar${factorRefs.map((r) => `,"factor ${r}"`).join("")}\n`);
+  await write(
+    pulseCsv,
+    "replicate,pulseIndex,on,off,durationBin,excluded,passed,delay,offDelay,widths,peak,timeToPeak,fwhm,baseline\n",
+  );
+  const partials: GridPartial[] = [];
+  const byBin = new Map<number, { pulses: number; excluded: number; passed: number; delaySum: number; delays: number }>();
+  let capped = 0;
+  let events = 0;
+
+  const onChunk = async (r: ChunkResult) => {
+    partials.push({ gridSum: r.gridSum, gridSumSq: r.gridSumSq, gridCount: r.gridCount });
+    events += r.events;
+    for (const t of r.trajectories) {
+      let s = "";
+      for (let g = 0; g < ng; g++) {
+        s += `${t.replicate},${grid[g]}`;
+        for (let i = 0; i < species.length; i++) s += `,${fmt(t.values[i * ng + g])}`;
+        s += "\n";
+      }
+      await write(gridCsv, s);
+    }
+    let s = "";
+    for (const rep of r.replicates) {
+      if (rep.capped) capped++;
+      s += `${rep.replicate},${rep.events},${rep.capped},${rep.endTime},${fmt(rep.outputMean)},${fmt(rep.outputVar)}${factorRefs.map((f) => `,${fmt(rep.factors[f])}`).join("")}\n`;
+    }
+    await write(repCsv, s);
+    s = "";
+    for (const p of r.pulses as PulseStat[]) {
+      s += `${p.replicate},${p.pulseIndex},${p.on},${p.off},${p.durationBin},${p.excluded},${p.passed},${fmt(p.delay)},${fmt(p.offDelay)},"${p.widths.join(";")}",${p.peak},${p.timeToPeak},${fmt(p.fwhm)},${p.baseline}\n`;
+      const b = byBin.get(p.durationBin) ?? { pulses: 0, excluded: 0, passed: 0, delaySum: 0, delays: 0 };
+      b.pulses++;
+      if (p.excluded) b.excluded++;
+      else if (p.passed) {
+        b.passed++;
+        if (p.delay !== null) {
+          b.delaySum += p.delay;
+          b.delays++;
+        }
+      }
+      byBin.set(p.durationBin, b);
+    }
+    await write(pulseCsv, s);
+    for (const e of r.recordedEvents ?? []) {
+      const names = setup.model.reactions.map((x) => x.name);
+      let es = `time,reaction\n0,initial:${species.map((n, i) => `${n}=${e.initial[i]}`).join(";")}\n`;
+      for (let k = 0; k < e.times.length; k++) es += `${e.times[k]},${names[e.reactions[k]]}\n`;
+      writeFileSync(path.join(args.out, `events-${e.replicate}.csv`), es);
+    }
+  };
+
+  const pool = args.threads !== undefined ? createSimPool({ threads: args.threads }) : null;
+  try {
+    await runAllChunks(spec, {
+      pool,
+      keepAllGrid: true,
+      onChunk,
+      onProgress: progressBar(!args.quiet && process.stderr.isTTY === true),
+    });
+  } finally {
+    await pool?.destroy();
+  }
+  await Promise.all([close(gridCsv), close(repCsv), close(pulseCsv)]);
+  const seconds = (performance.now() - t0) / 1000;
+
+  const { mean, sd } = reduceChunks(spec, partials);
+  let meanCsv = `time${species.map((n) => `,mean_${n},sd_${n}`).join("")}\n`;
+  for (let g = 0; g < ng; g++) {
+    meanCsv += String(grid[g]);
+    for (let i = 0; i < species.length; i++) meanCsv += `,${fmt(mean[i * ng + g])},${fmt(sd[i * ng + g])}`;
+    meanCsv += "\n";
+  }
+  writeFileSync(path.join(args.out, "grid-mean.csv"), meanCsv);
+  const ode = solveOde(spec);
+  let odeCsv = `time,${species.join(",")}\n`;
+  for (let g = 0; g < ng; g++) odeCsv += `${grid[g]}${species.map((_, i) => `,${ode.values[i * ng + g]}`).join("")}\n`;
+  writeFileSync(path.join(args.out, "ode.csv"), odeCsv);
+
+  const bins = [...byBin.entries()].sort((a, b) => a[0] - b[0]);
+  const summary = {
+    engineVersion: ENGINE_VERSION,
+    method: spec.method === "tauLeap" ? "tauLeap (approximate)" : "direct (exact)",
+    circuit: spec.circuit.name,
+    replicates: spec.replicates,
+    seed: spec.seed,
+    events,
+    cappedReplicates: capped,
+    threshold,
+    perDuration: bins.map(([durationBin, b]) => ({
+      durationBin,
+      pulses: b.pulses,
+      excluded: b.excluded,
+      passed: b.passed,
+      passFraction: b.pulses - b.excluded > 0 ? b.passed / (b.pulses - b.excluded) : null,
+      meanDelay: b.delays > 0 ? b.delaySum / b.delays : null,
+    })),
+    files: ["summary.json", "grid-mean.csv", "grid-replicates.csv", "replicates.csv", "pulses.csv", "ode.csv"],
+    spec,
+    timing: { startedAt: started.toISOString(), seconds, threads: args.threads ?? 1, eventsPerSecond: events / seconds },
+  };
+  writeFileSync(path.join(args.out, "summary.json"), JSON.stringify(summary, null, 2) + "\n");
+  if (!args.quiet)
+    process.stderr.write(
+      `${spec.replicates} replicates, ${events} events in ${seconds.toFixed(2)} s${capped > 0 ? `, ${capped} stopped at the event cap` : ""}; wrote ${args.out}\n`,
+    );
+}
+
+if (require.main === module) {
+  runCli(process.argv.slice(2)).catch((e: Error) => {
+    process.stderr.write(`error: ${e.message}\n`);
+    process.exit(1);
+  });
+}
