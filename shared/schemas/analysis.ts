@@ -275,3 +275,22 @@ export const ComparisonSchema = z.object({
   method: z.string(),
 });
 export type Comparison = z.infer<typeof ComparisonSchema>;
+
+// ---------- against the matched control ----------
+
+export const AccelerationSchema = z.object({
+  /** Mean-field T1/2 of the step response, minutes; null when the output does not rise. */
+  halfRiseCircuitMinutes: nnum,
+  halfRiseControlMinutes: nnum,
+  /** Control T1/2 / circuit T1/2: above 1 = the circuit responds faster (acceleration). */
+  halfRiseRatio: nnum,
+  /** Kaplan-Meier median response delays over all evaluable pulses, and circuit minus control. */
+  medianDelayCircuit: nnum,
+  medianDelayControl: nnum,
+  medianDelayDifference: nnum,
+  /** Median delays for long pulses (the delay cost), and circuit minus control. */
+  longPulseDelayCircuit: nnum,
+  longPulseDelayControl: nnum,
+  longPulseDelayDifference: nnum,
+});
+export type Acceleration = z.infer<typeof AccelerationSchema>;

@@ -5,3 +5,5 @@ export { evaluablePulses, delaysOf, widthsOf, windowEnds } from "./pulse-selecti
 export { ks2, wasserstein1, wilson } from "../stats";
 export { compareRuns, type RunToCompare } from "./compare-runs";
 export { pulseStatsCsv, replicateStatsCsv, byDurationCsv, summaryCsv } from "./csv-export";
+export { makeMatchedControl, outputSteadyStates, type MatchedControlLevels } from "./matched-control";
+export { halfRiseTime, accelerationFigures } from "./acceleration";
