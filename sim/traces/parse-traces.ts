@@ -32,7 +32,7 @@ export interface ParseTraceOptions {
   scheduleColumn?: string;
   onAbove?: number;
   /** Override limits (tests). */
-  limits?: Partial<Pick<typeof TRACE_LIMITS, "maxRows" | "maxCells" | "minPointsPerCell" | "maxErrors">>;
+  limits?: Partial<Record<"maxRows" | "maxCells" | "minPointsPerCell" | "maxErrors", number>>;
 }
 
 export interface ParsedCell {
@@ -160,7 +160,7 @@ export function pulsesFromLevels(times: ArrayLike<number>, levels: ArrayLike<num
 }
 
 export function parseTraces(text: string, options: ParseTraceOptions): ParsedTraces | ParseFailure {
-  const limits = { ...TRACE_LIMITS, ...options.limits };
+  const limits: Record<"maxRows" | "maxCells" | "minPointsPerCell" | "maxErrors", number> = { ...TRACE_LIMITS, ...options.limits };
   const errors = new ErrorList(limits.maxErrors);
   const warnings: string[] = [];
   if (text.charCodeAt(0) === 0xfeff) text = text.slice(1);
