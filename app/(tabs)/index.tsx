@@ -50,10 +50,10 @@ export default function Home() {
         ) : list.length === 0 ? (
           <EmptyState icon="play-circle" title="No runs yet" message="Your lab's runs will appear here with their progress." actionLabel={canEdit ? "Start a study" : undefined} onAction={() => router.push("/runs/new")} />
         ) : (
-          <View style={{ gap: t.spacing.sm, flexDirection: isWide ? "row" : "column", flexWrap: "wrap" }}>
+          <View style={isWide ? { gap: t.spacing.sm, flexDirection: "row", flexWrap: "wrap" } : { gap: t.spacing.sm }}>
             {list.map((r) => (
               <View key={r.id} style={isWide ? { width: "49%", flexGrow: 1 } : undefined}>
-                <RunRow run={r} onPress={() => router.push(`/runs/${r.id}`)} />
+                <RunRow run={{ ...r, replicatesDone: r.progress.replicatesDone }} onPress={() => router.push(`/runs/${r.id}`)} />
               </View>
             ))}
           </View>

@@ -4,7 +4,7 @@ import { useTheme } from "../theme/use-theme";
 import type { RunStatusName } from "../theme/tokens";
 import { Card } from "./card";
 import { Text } from "./text";
-import { StatusBadge, statusLabel } from "./status-badge";
+import { StatusBadge } from "./status-badge";
 import { ProgressBar } from "./progress-bar";
 
 export type RunRowData = { id: string; name: string; status: string; replicates: number; replicatesDone?: number; circuitName?: string | null; programName?: string | null };
@@ -17,7 +17,7 @@ export function RunRow({ run, onPress }: { run: RunRowData; onPress: () => void 
   const color = t.colors.status[run.status as RunStatusName] ?? t.colors.primary;
   const detail = [run.circuitName, run.programName].filter(Boolean).join(" · ");
   return (
-    <Card onPress={onPress} accessibilityLabel={`Run ${run.name}, ${statusLabel(run.status)}, ${done} of ${run.replicates} replicates`} testID={`run-row-${run.id}`}>
+    <Card onPress={onPress} testID={`run-row-${run.id}`}>
       <View style={{ flexDirection: "row", justifyContent: "space-between", alignItems: "flex-start", gap: t.spacing.sm }}>
         <View style={{ flex: 1, gap: 2 }}>
           <Text variant="bodyStrong" numberOfLines={1}>{run.name}</Text>
