@@ -20,6 +20,7 @@ import { fitLogisticPass } from "../stats/logistic-fit";
 import { wilson } from "../stats/wilson-interval";
 import { summarizeDelays } from "./delay-summary";
 import { windowEnds } from "./pulse-selection";
+import { normalizeDuration } from "./normalize-duration";
 
 export interface ReplicateTotals {
   replicate: number;
@@ -89,10 +90,11 @@ export function summarizeRun(input: SummarizeRunInput): RunSummary {
   // ---- by duration
   const groups = new Map<number, { rows: Row[]; excluded: number }>();
   for (const p of pulses) {
-    if (!groups.has(p.durationBin)) groups.set(p.durationBin, { rows: [], excluded: 0 });
-    if (p.excluded) groups.get(p.durationBin)!.excluded++;
+    const d = normalizeDuration(p.durationBin);
+    if (!groups.has(d)) groups.set(d, { rows: [], excluded: 0 });
+    if (p.excluded) groups.get(d)!.excluded++;
   }
-  for (const r of rows) groups.get(r.p.durationBin)!.rows.push(r);
+  for (const r of rows) groups.get(normalizeDuration(r.p.durationBin))!.rows.push(r);
   const durations = [...groups.keys()].sort((a, b) => a - b);
   const byDuration: ByDurationEntry[] = durations.map((duration) => {
     const g = groups.get(duration)!;
@@ -144,7 +146,7 @@ export function summarizeRun(input: SummarizeRunInput): RunSummary {
     longMin = withPulses[withPulses.length - 1].duration;
     notes.push(`No pulse was at least ${fmt(input.longPulseMinutes ?? 3 * noiseDurationMinutes)} min long; the delay cost uses the longest duration, ${fmt(longMin)} min.`);
   }
-  const longRows = rows.filter((r) => r.p.durationBin >= longMin);
+  const longRows = rows.filter((r) => normalizeDuration(r.p.durationBin) >= longMin);
   let delayCost: RunSummary["delayCost"] = null;
   if (longRows.length > 0) {
     const km = kaplanMeier(longRows.map((r) => r.delayObs));
