@@ -8,10 +8,12 @@ import assert from "node:assert/strict";
 import { startTestServer, DEMO_PASSWORD, type TestServer } from "../helpers/test-server";
 import { launchBrowser, screenshot, interLoaded, PHONE, WIDE, axeSeriousViolations, type Viewport } from "./browser";
 import { signIn, DEMO_EDITOR } from "./flows";
+import { ensureWebBuild } from "../../scripts/build-web";
 
 let server: TestServer;
 
 before(async () => {
+  await ensureWebBuild({ quiet: true });
   server = await startTestServer();
 });
 after(async () => {
