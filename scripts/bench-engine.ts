@@ -1,0 +1,64 @@
+/**
+ * Engine benchmark: the circuit in docs/examples/benchmark.json, loaded through
+ * the CLI's own loader (nothing recognises the circuit), run on the worker pool
+ * started and warmed (spec compiled in every thread) beforehand. `seconds` runs
+ * from dispatching the first replicate to receiving the last, so it includes
+ * seeding, grid recording, online crossing detection and the results' transfer.
+ * `events` counts reaction firings only.
+ */
+import os from "node:os";
+import path from "node:path";
+import { loadSpecFile } from "../sim/cli/load-spec";
+import { ENGINE_VERSION } from "../sim/index";
+import { createSimPool } from "../server/workers/pool";
+import { runAllChunks } from "../server/workers/run-all-chunks";
+
+export interface EngineBenchResult {
+  model: string;
+  engineVersion: string;
+  replicates: number;
+  events: number;
+  seconds: number;
+  eventsPerSecond: number;
+  threads: number;
+}
+
+export interface EngineBenchOptions {
+  /** Thread counts to measure, in order (default [1, available parallelism]). */
+  threads?: number[];
+  specPath?: string;
+  replicates?: number;
+  /** Called after each measurement. */
+  onResult?: (r: EngineBenchResult) => void;
+}
+
+export const DEFAULT_BENCH_SPEC = path.resolve(__dirname, "../docs/examples/benchmark.json");
+
+export async function runEngineBench(opts: EngineBenchOptions = {}): Promise<EngineBenchResult[]> {
+  const spec = loadSpecFile(opts.specPath ?? DEFAULT_BENCH_SPEC, { replicates: opts.replicates });
+  const threadCounts = opts.threads ?? [...new Set([1, Math.max(1, os.availableParallelism())])];
+  const results: EngineBenchResult[] = [];
+  for (const threads of threadCounts) {
+    const pool = createSimPool({ threads });
+    try {
+      await pool.warmUp(spec);
+      const t0 = performance.now();
+      const { events } = await runAllChunks(spec, { pool });
+      const seconds = (performance.now() - t0) / 1000;
+      const r: EngineBenchResult = {
+        model: spec.circuit.name,
+        engineVersion: ENGINE_VERSION,
+        replicates: spec.replicates,
+        events,
+        seconds,
+        eventsPerSecond: events / seconds,
+        threads,
+      };
+      results.push(r);
+      opts.onResult?.(r);
+    } finally {
+      await pool.destroy();
+    }
+  }
+  return results;
+}

@@ -1,0 +1,48 @@
+/** The CLI writes the documented files, byte-identical for any --threads (apart from summary timing). */
+import { test, describe } from "node:test";
+import assert from "node:assert/strict";
+import { execFileSync } from "node:child_process";
+import { mkdtempSync, readFileSync, readdirSync, rmSync } from "node:fs";
+import os from "node:os";
+import path from "node:path";
+
+const root = path.resolve(__dirname, "../../..");
+const run = (args: string[]) =>
+  execFileSync(process.execPath, ["--import", "tsx", path.join(root, "sim/cli/main.ts"), ...args], { cwd: root, stdio: "pipe" });
+
+describe("npm run sim", () => {
+  test("same spec and seed: identical files for 1 thread in-process and --threads 2", () => {
+    const dir = mkdtempSync(path.join(os.tmpdir(), "linger-cli-"));
+    try {
+      const spec = path.join(root, "docs/examples/c1ffl-and.json");
+      run([spec, "--out", path.join(dir, "a"), "--replicates", "120", "--quiet"]);
+      run([spec, "--out", path.join(dir, "b", "nested"), "--replicates", "120", "--threads", "2", "--quiet"]);
+      const files = readdirSync(path.join(dir, "a")).sort();
+      assert.deepEqual(files, ["grid-mean.csv", "grid-replicates.csv", "ode.csv", "pulses.csv", "replicates.csv", "summary.json"]);
+      for (const f of files) {
+        const a = readFileSync(path.join(dir, "a", f), "utf8");
+        const b = readFileSync(path.join(dir, "b", "nested", f), "utf8");
+        if (f === "summary.json") {
+          const ja = JSON.parse(a);
+          const jb = JSON.parse(b);
+          delete ja.timing;
+          delete jb.timing;
+          assert.deepEqual(ja, jb);
+        } else assert.equal(a, b, f);
+      }
+      const summary = JSON.parse(readFileSync(path.join(dir, "a", "summary.json"), "utf8"));
+      assert.equal(summary.replicates, 120);
+      assert.match(summary.engineVersion, /^linger-engine /);
+      const header = readFileSync(path.join(dir, "a", "grid-mean.csv"), "utf8").split("\n")[0];
+      assert.equal(header, "time,mean_qsaA,sd_qsaA,mean_hldB,sd_hldB,mean_rptC,sd_rptC");
+    } finally {
+      rmSync(dir, { recursive: true, force: true });
+    }
+  });
+
+  test("an invalid spec fails with a message naming the field", () => {
+    assert.throws(() => run([path.join(root, "package.json"), "--out", os.tmpdir()]), (e: { stderr: Buffer }) =>
+      /not a valid run spec/.test(e.stderr.toString()),
+    );
+  });
+});
