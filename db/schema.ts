@@ -183,6 +183,8 @@ export const runChunks = sqliteTable("run_chunks", {
   /** Float64 [species][grid] sums and sums of squares. */
   gridSum: blob("grid_sum", { mode: "buffer" }),
   gridSumSq: blob("grid_sum_sq", { mode: "buffer" }),
+  /** Float64 [grid]: replicates with a valid value per grid point (a capped replicate stops early). */
+  gridCount: blob("grid_count", { mode: "buffer" }),
   seconds: real("seconds").notNull(),
 }, (t) => [primaryKey({ columns: [t.runId, t.chunkIndex] })]);
 

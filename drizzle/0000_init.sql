@@ -140,6 +140,7 @@ CREATE TABLE `run_chunks` (
 	`events` integer NOT NULL,
 	`grid_sum` blob,
 	`grid_sum_sq` blob,
+	`grid_count` blob,
 	`seconds` real NOT NULL,
 	PRIMARY KEY(`run_id`, `chunk_index`),
 	FOREIGN KEY (`run_id`) REFERENCES `runs`(`id`) ON UPDATE no action ON DELETE cascade

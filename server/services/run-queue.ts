@@ -225,6 +225,7 @@ export function createRunQueue(opts: RunQueueOptions): RunQueue {
               seconds,
               gridSum: result.gridSum,
               gridSumSq: result.gridSumSq,
+              gridCount: result.gridCount,
               replicates: result.replicates,
               pulses: result.pulses,
               trajectories: result.trajectories ?? [],
@@ -272,7 +273,7 @@ export function createRunQueue(opts: RunQueueOptions): RunQueue {
     try {
       const spec = run.spec;
       const chunks = readChunks(db, run.id);
-      const { mean, sd } = reduceChunks(spec, chunks.map((c) => ({ gridSum: fromBlob(c.gridSum as Buffer), gridSumSq: fromBlob(c.gridSumSq as Buffer) })));
+      const { mean, sd } = reduceChunks(spec, chunks.map((c) => ({ gridSum: fromBlob(c.gridSum as Buffer), gridSumSq: fromBlob(c.gridSumSq as Buffer), gridCount: fromBlob(c.gridCount as Buffer) })));
       let ode: Float64Array | null = null;
       try {
         ode = solveOde(spec).values;
@@ -311,7 +312,7 @@ export function createRunQueue(opts: RunQueueOptions): RunQueue {
           })
           .where(eq(schema.runs.id, run.id))
           .run();
-        db.update(schema.runChunks).set({ gridSum: null, gridSumSq: null }).where(eq(schema.runChunks.runId, run.id)).run();
+        db.update(schema.runChunks).set({ gridSum: null, gridSumSq: null, gridCount: null }).where(eq(schema.runChunks.runId, run.id)).run();
       })();
       active.delete(run.id);
       events.emit("progress", { ...progressOf(run), status });

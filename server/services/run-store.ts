@@ -27,6 +27,7 @@ export interface StoredChunk {
   seconds: number;
   gridSum: Float64Array;
   gridSumSq: Float64Array;
+  gridCount: Float64Array;
   replicates: { replicate: number; events: number; capped: boolean; outputMean: number | null; outputVar: number | null; factors: Record<string, number> }[];
   pulses: PulseStat[];
   trajectories: { replicate: number; values: Float64Array }[];
@@ -39,7 +40,7 @@ export function speciesNames(spec: RunSpec): string[] {
 /** Prepared statements for the hot write path (one chunk at a time). */
 export function createChunkWriter(sqlite: Database.Database) {
   const insChunk = sqlite.prepare(
-    `INSERT INTO run_chunks (run_id, chunk_index, replicate_start, count, events, grid_sum, grid_sum_sq, seconds) VALUES (?, ?, ?, ?, ?, ?, ?, ?)`,
+    `INSERT INTO run_chunks (run_id, chunk_index, replicate_start, count, events, grid_sum, grid_sum_sq, grid_count, seconds) VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?)`,
   );
   const insRep = sqlite.prepare(`INSERT INTO replicate_stats (run_id, replicate, events, capped, output_mean, output_var, factors) VALUES (?, ?, ?, ?, ?, ?, ?)`);
   const insPulse = sqlite.prepare(
@@ -50,7 +51,7 @@ export function createChunkWriter(sqlite: Database.Database) {
     `UPDATE runs SET replicates_done = replicates_done + ?, events_total = events_total + ?, capped_replicates = capped_replicates + ?, compute_seconds = compute_seconds + ? WHERE id = ?`,
   );
   const write = sqlite.transaction((runId: string, species: string[], gridLength: number, c: StoredChunk) => {
-    insChunk.run(runId, c.chunkIndex, c.replicateStart, c.count, c.events, toBlob(c.gridSum), toBlob(c.gridSumSq), c.seconds);
+    insChunk.run(runId, c.chunkIndex, c.replicateStart, c.count, c.events, toBlob(c.gridSum), toBlob(c.gridSumSq), toBlob(c.gridCount), c.seconds);
     let capped = 0;
     for (const r of c.replicates) {
       if (r.capped) capped++;
