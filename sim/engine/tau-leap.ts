@@ -5,6 +5,12 @@
  * shorter than 10/a0, 100 exact direct-method steps are taken instead). Off by
  * default; results are labelled "tauLeap" wherever they appear.
  *
+ * Linger adds one bound to the CGP selection: the expected gross consumption of
+ * each species in a leap (not only the net change) stays below the same
+ * max(eps x_i / g_i, 1); near equilibrium the net drift vanishes and CGP alone
+ * allows leaps of several lifetimes, which inflates the variance (explicit-Euler
+ * instability); see docs/engine.md.
+ *
  * Differences from the exact kernel: the state is constant within a leap, so
  * grid points and crossings inside a leap are placed at the leap's start/end;
  * leaps stop exactly at switch times; `events` counts reaction firings (sum of
@@ -40,6 +46,7 @@ export function tauLeapRun(
   const xNew = new Float64Array(nS);
   const mu = new Float64Array(nS);
   const s2 = new Float64Array(nS);
+  const cons = new Float64Array(nS);
   const gOrder = new Float64Array(nS); // highest reactant order per species (2.5 marks 2A)
   for (const r of R)
     for (const e of r.reactants) {
@@ -88,18 +95,20 @@ export function tauLeapRun(
       }
       mu.fill(0);
       s2.fill(0);
+      cons.fill(0);
       for (let j = 0; j < nR; j++) {
         if (critical[j]) continue;
         for (const d of R[j].delta) {
           mu[d.species] += d.change * a[j];
           s2[d.species] += d.change * d.change * a[j];
+          if (d.change < 0) cons[d.species] -= d.change * a[j];
         }
       }
       for (let i = 0; i < nS; i++) {
         if (gOrder[i] === 0 || (mu[i] === 0 && s2[i] === 0)) continue;
         const g = gOrder[i] === 2.5 ? 2 + 1 / Math.max(1, x[i] - 1) : gOrder[i];
         const bound = Math.max((EPS * x[i]) / g, 1);
-        tau1 = Math.min(tau1, bound / Math.abs(mu[i]), (bound * bound) / s2[i]);
+        tau1 = Math.min(tau1, bound / Math.abs(mu[i]), (bound * bound) / s2[i], bound / cons[i]);
       }
       if (a0 > 0 && tau1 < 10 / a0) {
         ssaLeft = SSA_STEPS;
