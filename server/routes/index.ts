@@ -8,5 +8,6 @@ import { runRoutes } from "./runs.routes";
 import { sweepRoutes } from "./sweeps.routes";
 import { circuitRoutes } from "./circuits.routes";
 import { programRoutes } from "./programs.routes";
+import { traceRoutes } from "./traces.routes";
 
-export const allRoutes: RouteDef[] = [...healthRoutes, ...authRoutes, ...labsRoutes, ...adminRoutes, ...runRoutes, ...sweepRoutes, ...circuitRoutes, ...programRoutes];
+export const allRoutes: RouteDef[] = [...healthRoutes, ...authRoutes, ...labsRoutes, ...adminRoutes, ...runRoutes, ...sweepRoutes, ...circuitRoutes, ...programRoutes, ...traceRoutes];

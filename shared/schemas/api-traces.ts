@@ -279,6 +279,8 @@ export const MatchResultSchema = z.object({
   observed: DistributionSetSchema,
   /** Simulated distributions of the closest point (overlay). */
   bestSimulated: DistributionSetSchema.nullable(),
+  /** Plain-words cautions (threshold or schedule differing between the traces and the simulations). */
+  notes: z.array(z.string()),
   /** Points without finished statistics, left out. */
   skippedRuns: z.array(z.object({ runId: z.string(), reason: z.string() })),
 });

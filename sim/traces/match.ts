@@ -194,6 +194,7 @@ export function matchPoints(
     ranges,
     observed: distributionOf(observed),
     bestSimulated: n ? distributionOf(scored[0].c.figures) : null,
+    notes: [],
     skippedRuns,
   };
 }

@@ -1,0 +1,124 @@
+/** Single-cell traces and matching (contract: shared/schemas/api-traces.ts). Logic in services/traces.service.ts and match.service.ts. */
+import { defineRoutes } from "./route-table";
+import { MatchRequestSchema, TraceSetPatchSchema } from "../../shared/schemas/api-traces";
+import {
+  analyseStored,
+  buildTraceSet,
+  deleteTraceSet,
+  listTraceSets,
+  metricsCsv,
+  previewOf,
+  readUpload,
+  saveTraceSet,
+  sendTraceError,
+  traceSetDetail,
+  traceUpload,
+  updateTraceSet,
+} from "../services/traces.service";
+import { matchDetail, runMatch } from "../services/match.service";
+
+export const traceRoutes = defineRoutes([
+  {
+    method: "post",
+    path: "/labs/:labId/traces/preview",
+    access: { kind: "lab", role: "editor" },
+    before: [traceUpload],
+    summary: "Parse, check and analyse an uploaded CSV/TSV (multipart: file + options JSON) without storing anything; 400 names the line and column of the first problems.",
+    handler: ({ ctx, req, res, labId }) => {
+      try {
+        return previewOf(buildTraceSet(ctx, labId, readUpload(req)));
+      } catch (e) {
+        if (sendTraceError(e, res)) return undefined;
+        throw e;
+      }
+    },
+  },
+  {
+    method: "post",
+    path: "/labs/:labId/traces",
+    access: { kind: "lab", role: "editor" },
+    before: [traceUpload],
+    summary: "Upload a trace set (multipart: file + options JSON); stored in one transaction only when the whole file is accepted.",
+    handler: ({ ctx, req, res, labId, user }) => {
+      try {
+        const up = readUpload(req);
+        const built = buildTraceSet(ctx, labId, up);
+        const name = up.options.name ?? (up.fileName ? up.fileName.replace(/\.(csv|tsv|txt)$/i, "") : "Uploaded traces");
+        const id = saveTraceSet(ctx, labId, user!.id, { ...built, name, timeUnit: up.options.timeUnit, settings: up.options.settings });
+        res.status(201);
+        return traceSetDetail(ctx, id);
+      } catch (e) {
+        if (sendTraceError(e, res)) return undefined;
+        throw e;
+      }
+    },
+  },
+  {
+    method: "get",
+    path: "/labs/:labId/traces",
+    access: { kind: "lab", role: "viewer" },
+    summary: "The lab's trace sets, newest first.",
+    handler: ({ ctx, labId }) => ({ traceSets: listTraceSets(ctx, labId) }),
+  },
+  {
+    method: "get",
+    path: "/traces/:id",
+    access: { kind: "object", resource: "traceSet", role: "viewer" },
+    summary: "A trace set: cells (downsampled for charts), per-cell pulse figures and the pooled summary.",
+    handler: ({ ctx, params }) => traceSetDetail(ctx, params.id),
+  },
+  {
+    method: "patch",
+    path: "/traces/:id",
+    access: { kind: "object", resource: "traceSet", role: "editor" },
+    body: TraceSetPatchSchema,
+    summary: "Rename, or change preprocessing and threshold settings (figures are recomputed).",
+    handler: ({ ctx, params, body, user }) => {
+      updateTraceSet(ctx, user!.id, params.id, body);
+      return traceSetDetail(ctx, params.id);
+    },
+  },
+  {
+    method: "delete",
+    path: "/traces/:id",
+    access: { kind: "object", resource: "traceSet", role: "editor" },
+    summary: "Delete a trace set (soft delete).",
+    handler: ({ ctx, params, user }) => {
+      deleteTraceSet(ctx, user!.id, params.id);
+      return undefined;
+    },
+  },
+  {
+    method: "get",
+    path: "/traces/:id/export/metrics.csv",
+    access: { kind: "object", resource: "traceSet", role: "viewer" },
+    summary: "Per cell and pulse figures as CSV.",
+    handler: ({ ctx, params, res }) => {
+      const { row, analysis } = analyseStored(ctx, params.id);
+      const base = row.name.replace(/[^A-Za-z0-9_.-]+/g, "-").replace(/^-+|-+$/g, "") || "traces";
+      res.setHeader("Content-Type", "text/csv; charset=utf-8");
+      res.setHeader("Content-Disposition", `attachment; filename="${base}-metrics.csv"`);
+      res.send(metricsCsv(analysis, row.synthetic));
+      return undefined;
+    },
+  },
+  {
+    method: "post",
+    path: "/traces/:id/match",
+    access: { kind: "object", resource: "traceSet", role: "editor" },
+    body: MatchRequestSchema,
+    summary: "Match the traces against a finished run ({runId}) or every finished point of a sweep ({sweepId}); tolerance fixed in the request (default: closest 5%). Stores the match.",
+    handler: ({ ctx, params, body, user, res }) => {
+      const id = runMatch(ctx, user!.id, params.id, body);
+      res.status(201);
+      return matchDetail(ctx, id);
+    },
+  },
+  {
+    method: "get",
+    path: "/matches/:id",
+    access: { kind: "object", resource: "match", role: "viewer" },
+    summary: "A stored match: ranked points, accept set, parameter ranges and the distributions for overlay charts.",
+    handler: ({ ctx, params }) => matchDetail(ctx, params.id),
+  },
+]);
