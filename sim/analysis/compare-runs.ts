@@ -113,8 +113,12 @@ export function compareRuns(runs: readonly RunToCompare[]): Comparison {
   const sharedHistogram = (samples: number[][]) => {
     const pooled = samples.flat();
     const bins = Math.min(MAX_BINS, sturgesBinCount(pooled.length));
-    const min = pooled.length ? Math.min(...pooled) : 0;
-    const max = pooled.length ? Math.max(...pooled) : 1;
+    let min = pooled.length ? Infinity : 0;
+    let max = pooled.length ? -Infinity : 1;
+    for (const v of pooled) {
+      if (v < min) min = v;
+      if (v > max) max = v;
+    }
     const hs = samples.map((s) => histogram(s, { binCount: bins, min, max }));
     return { edges: hs[0].edges, counts: hs.map((h) => h.counts) };
   };

@@ -7,4 +7,4 @@ export { compareRuns, type RunToCompare } from "./compare-runs";
 export { pulseStatsCsv, replicateStatsCsv, byDurationCsv, summaryCsv } from "./csv-export";
 export { makeMatchedControl, outputSteadyStates, type MatchedControlLevels } from "./matched-control";
 export { halfRiseTime, accelerationFigures } from "./acceleration";
-export { normalizeDuration } from "./normalize-duration";
+export { normalizeDuration, durationNormalizer } from "./normalize-duration";

@@ -9,3 +9,16 @@
 export function normalizeDuration(durationBin: number): number {
   return Number.isFinite(durationBin) ? Number(durationBin.toPrecision(10)) : durationBin;
 }
+
+/** normalizeDuration with a per-call-site cache (runs have few distinct durations). */
+export function durationNormalizer(): (durationBin: number) => number {
+  const cache = new Map<number, number>();
+  return (d) => {
+    let v = cache.get(d);
+    if (v === undefined) {
+      v = normalizeDuration(d);
+      cache.set(d, v);
+    }
+    return v;
+  };
+}

@@ -36,10 +36,14 @@ export function windowEnds(
   windowMinutes: number,
   endTimeMinutes: number = Infinity,
 ): number[] {
-  const nextOn = new Map<string, number>();
-  for (const p of pulses) nextOn.set(`${p.replicate}:${p.pulseIndex}`, p.on);
+  const byReplicate = new Map<number, Map<number, number>>();
+  for (const p of pulses) {
+    let m = byReplicate.get(p.replicate);
+    if (!m) byReplicate.set(p.replicate, (m = new Map()));
+    m.set(p.pulseIndex, p.on);
+  }
   return pulses.map((p) => {
-    const next = nextOn.get(`${p.replicate}:${p.pulseIndex + 1}`);
+    const next = byReplicate.get(p.replicate)!.get(p.pulseIndex + 1);
     return Math.min(p.off + windowMinutes, next ?? Infinity, endTimeMinutes);
   });
 }

@@ -20,7 +20,7 @@ import { fitLogisticPass } from "../stats/logistic-fit";
 import { wilson } from "../stats/wilson-interval";
 import { summarizeDelays } from "./delay-summary";
 import { windowEnds } from "./pulse-selection";
-import { normalizeDuration } from "./normalize-duration";
+import { durationNormalizer } from "./normalize-duration";
 
 export interface ReplicateTotals {
   replicate: number;
@@ -65,6 +65,7 @@ export function summarizeRun(input: SummarizeRunInput): RunSummary {
     windowMinutes: th.windowMinutes,
     outputLifetimeMinutes: finite(th.outputLifetimeMinutes),
   };
+  const normalizeDuration = durationNormalizer();
   const ends = windowEnds(pulses, th.windowMinutes, input.endTimeMinutes ?? Infinity);
   const notes: string[] = [];
 

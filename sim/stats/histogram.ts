@@ -23,8 +23,14 @@ export function histogram(
   options: { binCount?: number; min?: number; max?: number } = {},
 ): Histogram {
   const finite = values.filter((v) => Number.isFinite(v));
-  let min = options.min ?? (finite.length ? Math.min(...finite) : 0);
-  let max = options.max ?? (finite.length ? Math.max(...finite) : 1);
+  let lo = Infinity;
+  let hi = -Infinity;
+  for (const v of finite) {
+    if (v < lo) lo = v;
+    if (v > hi) hi = v;
+  }
+  let min = options.min ?? (finite.length ? lo : 0);
+  let max = options.max ?? (finite.length ? hi : 1);
   if (!(max > min)) {
     // a single value (or none): one unit-wide bin centred on it
     min = min - 0.5;
