@@ -2,7 +2,7 @@
 import { z } from "zod";
 import { defineRoutes } from "./route-table";
 import { listAudit } from "../services/audit.service";
-import { changeRole, createLab, deleteLab, inviteMember, labDetail, labsOf, pendingInvitations, removeMember, renameLab } from "../services/labs.service";
+import { changeRole, createLab, deleteLab, inviteMember, labDetail, labsOf, pendingInvitations, removeMember, renameLab, revokeInvitation } from "../services/labs.service";
 
 const LabName = z.string().trim().min(1, "must not be empty").max(80, "must be at most 80 characters");
 const Role = z.enum(["owner", "editor", "viewer"]);
@@ -82,6 +82,16 @@ export const labsRoutes = defineRoutes([
     access: { kind: "lab", role: "owner" },
     summary: "Pending (unused, unexpired) invitations.",
     handler: ({ ctx, labId }) => ({ invitations: pendingInvitations(ctx, labId) }),
+  },
+  {
+    method: "delete",
+    path: "/labs/:labId/invitations/:invitationId",
+    access: { kind: "lab", role: "owner" },
+    summary: "Withdraw a pending invitation (the id from the list); its link stops working.",
+    handler: ({ ctx, user, labId, params }) => {
+      revokeInvitation(ctx, user!.id, labId, params.invitationId);
+      return undefined;
+    },
   },
   {
     method: "patch",

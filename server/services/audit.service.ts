@@ -19,6 +19,7 @@ export type AuditAction =
   | "lab.renamed"
   | "lab.deleted"
   | "member.invited"
+  | "member.invitation_revoked"
   | "member.joined"
   | "member.role_changed"
   | "member.removed"

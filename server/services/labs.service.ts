@@ -126,13 +126,34 @@ export async function inviteMember(ctx: AppContext, inviter: { id: string; displ
 export function pendingInvitations(ctx: AppContext, labId: string) {
   const t = schema.tokens;
   const rows = ctx.db
-    .select({ email: t.email, role: t.role, expiresAt: t.expiresAt, createdAt: t.createdAt, invitedBy: schema.users.displayName })
+    .select({ tokenHash: t.tokenHash, email: t.email, role: t.role, expiresAt: t.expiresAt, createdAt: t.createdAt, invitedBy: schema.users.displayName })
     .from(t)
     .leftJoin(schema.users, eq(schema.users.id, t.createdBy))
     .where(and(eq(t.purpose, "invite"), eq(t.labId, labId), isNull(t.usedAt), gt(t.expiresAt, new Date())))
     .orderBy(asc(t.createdAt))
     .all();
-  return rows.map((r) => ({ ...r, expiresAt: r.expiresAt.toISOString(), createdAt: r.createdAt.toISOString() }));
+  return rows.map(({ tokenHash, ...r }) => ({ id: invitationId(tokenHash), ...r, expiresAt: r.expiresAt.toISOString(), createdAt: r.createdAt.toISOString() }));
+}
+
+/** A public id for a pending invitation: a prefix of its token's hash (reveals nothing about the token). */
+function invitationId(tokenHash: string): string {
+  return tokenHash.slice(0, 20);
+}
+
+/** Withdraws a pending invitation (its link stops working). */
+export function revokeInvitation(ctx: AppContext, actorId: string, labId: string, id: string): void {
+  const t = schema.tokens;
+  const found = /^[0-9a-f]{20}$/.test(id)
+    ? ctx.db
+        .select()
+        .from(t)
+        .where(and(eq(t.purpose, "invite"), eq(t.labId, labId), isNull(t.usedAt)))
+        .all()
+        .find((row) => invitationId(row.tokenHash) === id)
+    : undefined;
+  if (!found) throw notFound("That invitation");
+  ctx.db.delete(t).where(eq(t.tokenHash, found.tokenHash)).run();
+  recordAudit(ctx, { labId, userId: actorId, action: "member.invitation_revoked", targetType: "invitation", targetId: found.email, detail: { email: found.email, role: found.role } });
 }
 
 function validInvitation(ctx: AppContext, token: string): TokenRow & { labId: string; role: LabRole; email: string } {

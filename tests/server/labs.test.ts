@@ -148,6 +148,7 @@ describe("invitations", () => {
 
     const pending = await owner.get(`/api/labs/${t.demoLab!.id}/invitations`).expect(200);
     assert.deepEqual(pending.body.invitations.map((i: any) => [i.email, i.role, i.invitedBy]), [["newcomer@example.org", "editor", "Demo owner"]]);
+    assert.equal(pending.body.invitations[0].tokenHash, undefined);
 
     const info = await request(t.app).get(`/api/invitations/${token}`).expect(200);
     assert.deepEqual(
@@ -202,6 +203,20 @@ describe("invitations", () => {
     t.ctx.db.update(schema.tokens).set({ expiresAt: new Date(Date.now() - 1000) }).where(eq(schema.tokens.email, "late@example.org")).run();
     await request(t.app).get(`/api/invitations/${token}`).expect(404);
     await request(t.app).post("/api/invitations/accept").send({ token, password: "late-password", displayName: "Late" }).expect(404);
+  });
+
+  test("the owner withdraws a pending invitation; its link stops working", async () => {
+    const { owner, token } = await invite("withdrawn@example.org", "editor");
+    const list = await owner.get(`/api/labs/${t.demoLab!.id}/invitations`).expect(200);
+    const inv = list.body.invitations.find((i: any) => i.email === "withdrawn@example.org");
+    assert.match(inv.id, /^[0-9a-f]{20}$/);
+    const editor = await signIn(t.app, EDITOR);
+    await editor.delete(`/api/labs/${t.demoLab!.id}/invitations/${inv.id}`).expect(403);
+    await owner.delete(`/api/labs/${t.demoLab!.id}/invitations/${inv.id}`).expect(204);
+    await owner.delete(`/api/labs/${t.demoLab!.id}/invitations/${inv.id}`).expect(404);
+    await request(t.app).get(`/api/invitations/${token}`).expect(404);
+    const audit = await owner.get(`/api/labs/${t.demoLab!.id}/audit?limit=1`).expect(200);
+    assert.equal(audit.body.events[0].action, "member.invitation_revoked");
   });
 
   test("only owners invite; inviting a member again is a 409", async () => {
