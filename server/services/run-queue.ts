@@ -105,6 +105,16 @@ export function createRunQueue(opts: RunQueueOptions): RunQueue {
   let orderCounter = 0;
   let idleWaiters: (() => void)[] = [];
   const finalising = new Set<string>();
+  /** End notifications under way (awaited by close so mail is not cut off). */
+  const notifying = new Set<Promise<unknown>>();
+  const notify = (runId: string, status: string) => {
+    if (!opts.onRunEnded) return;
+    const p = Promise.resolve()
+      .then(() => opts.onRunEnded!(runId, status))
+      .catch((e) => log(`run ${runId}: end notification failed: ${(e as Error).message}`))
+      .finally(() => notifying.delete(p));
+    notifying.add(p);
+  };
 
   const capacity = () => Math.max(1, pool.threads);
 
@@ -254,7 +264,7 @@ export function createRunQueue(opts: RunQueueOptions): RunQueue {
   function markFailed(runId: string, reason: string) {
     db.update(schema.runs).set({ status: "failed", statusReason: reason, finishedAt: new Date() }).where(eq(schema.runs.id, runId)).run();
     events.emit("ended", { runId, status: "failed" });
-    void opts.onRunEnded?.(runId, "failed");
+    notify(runId, "failed");
   }
 
   function fail(run: ActiveRun, reason: string) {
@@ -291,10 +301,10 @@ export function createRunQueue(opts: RunQueueOptions): RunQueue {
       const capped = replicates.some((r) => r.capped);
       const n = run.gridLength;
       const status = capped ? "capped" : "finished";
-      sqlite.transaction(() => {
+      const stored = sqlite.transaction(() => {
         // Still ours? (cancelled or deleted while finalising)
         const cur = db.select({ status: schema.runs.status }).from(schema.runs).where(eq(schema.runs.id, run.id)).get();
-        if (!cur || cur.status !== "running") return;
+        if (!cur || cur.status !== "running") return false;
         db.delete(schema.runSeries).where(eq(schema.runSeries.runId, run.id)).run();
         run.species.forEach((name, s) => {
           db.insert(schema.runSeries).values({ runId: run.id, species: name, kind: "mean", values: toBlob(mean.slice(s * n, (s + 1) * n)) }).run();
@@ -313,15 +323,13 @@ export function createRunQueue(opts: RunQueueOptions): RunQueue {
           .where(eq(schema.runs.id, run.id))
           .run();
         db.update(schema.runChunks).set({ gridSum: null, gridSumSq: null, gridCount: null }).where(eq(schema.runChunks.runId, run.id)).run();
+        return true;
       })();
       active.delete(run.id);
+      if (!stored) return;
       events.emit("progress", { ...progressOf(run), status });
       events.emit("ended", { runId: run.id, status });
-      try {
-        await opts.onRunEnded?.(run.id, status);
-      } catch (e) {
-        log(`run ${run.id}: end notification failed: ${(e as Error).message}`);
-      }
+      notify(run.id, status);
     } catch (e) {
       active.delete(run.id);
       markFailed(run.id, `Summarising the run failed: ${(e as Error).message}`);
@@ -384,6 +392,10 @@ export function createRunQueue(opts: RunQueueOptions): RunQueue {
       closed = true;
       for (const r of active.values()) r.stopped = true;
       active.clear();
+      const deadline = Date.now() + 5000;
+      while ((finalising.size > 0 || notifying.size > 0) && Date.now() < deadline) {
+        await Promise.race([Promise.allSettled([...notifying]), new Promise((r) => setTimeout(r, 50))]);
+      }
       await pool.destroy();
       checkIdle();
     },

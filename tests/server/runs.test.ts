@@ -72,7 +72,10 @@ describe("runs through the real queue and pool", () => {
     try {
       const editor = await signIn(t.app, "editor@example.org");
       const labId = t.demoLab!.id;
-      const failing = await editor.post(`/api/labs/${labId}/runs`).send(launchBody({ replicates: 100 }));
+      // A large system size makes each replicate fire ~10^5 events, so the engine's checkpoint is reached past the 1 ms cap.
+      const body = launchBody({ replicates: 100 });
+      const failing = await editor.post(`/api/labs/${labId}/runs`).send({ ...body, settings: { ...body.settings, systemSize: 50 } });
+      assert.equal(failing.status, 201, JSON.stringify(failing.body));
       const failed = await waitForRun(editor, failing.body.id);
       assert.equal(failed.status, "failed");
       assert.match(failed.statusReason, /wall-time cap/);
