@@ -148,20 +148,21 @@ export function kernelSource(model: CompiledModel, opts: KernelOptions): string 
   L.push(`  t = tNext;`);
   L.push(`  ${rand}`);
   L.push(`  r = s2 * atot;`);
-  const chain: string[] = [];
-  for (let j = 0; j < nR; j++) chain.push(`${j === 0 ? "if" : "else if"} (r < (cum ${j === 0 ? "=" : "+="} a${j})) j = ${j};`);
-  let fallback = "0";
-  for (let j = 0; j < nR; j++) fallback = `a${j} > 0 ? ${j} : ${fallback}`;
-  chain.push(`else j = ${fallback};`);
-  L.push(`  ${chain.join("\n  ")}`);
-  L.push(`  switch (j) {`);
   const out = model.outputIndex;
-  model.reactions.forEach((rx, j) => {
+  const fire = model.reactions.map((rx, j) => {
     const upd = rx.delta.map((d) => `x${d.species} += ${d.change};`).join(" ");
     const deps = model.dependents[j].map((k) => props[k]).join(" ");
     const trk = rx.delta.some((d) => d.species === out) ? ` if (trk !== null) trk.push(t, x${out});` : "";
-    L.push(`    case ${j}: ${upd} ${deps}${trk} break;`);
+    return `j = ${j}; ${upd} ${deps}${trk}`;
   });
+  // selection and firing in one chain; the round-off fallback (last non-zero propensity) via a switch
+  for (let j = 0; j < nR; j++) L.push(`  ${j === 0 ? "if" : "else if"} (r < (cum ${j === 0 ? "=" : "+="} a${j})) { ${fire[j]} }`);
+  let fallback = "0";
+  for (let j = 0; j < nR; j++) fallback = `a${j} > 0 ? ${j} : ${fallback}`;
+  L.push(`  else {`);
+  L.push(`    switch (${fallback}) {`);
+  fire.forEach((f, j) => L.push(`      case ${j}: { ${f} break; }`));
+  L.push(`    }`);
   L.push(`  }`);
   L.push(`  if (rec !== null) rec.push(t, j);`);
   L.push(`  if (++ev >= cap) { status = 1; break; }`);
