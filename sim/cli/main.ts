@@ -4,6 +4,7 @@
  * Runs a spec and writes flat files in <dir> (created if missing):
  *   summary.json          engine version, spec, threshold, totals, per-duration pass figures;
  *                         only its "timing" field varies between identical runs
+ *   analysis.json         the noise-filter figures (RunSummary of docs/metrics.md)
  *   grid-mean.csv         time, then mean and SD of every species per grid time
  *   grid-replicates.csv   replicate, time, every species (all replicates)
  *   replicates.csv        per replicate: events, capped, end time, output mean/variance, extrinsic factors
@@ -29,6 +30,7 @@ import {
 } from "../index";
 import type { PulseStat } from "../../shared/schemas/run-spec";
 import { createSimPool } from "../../server/workers/pool";
+import { summarizeRun, type ReplicateTotals } from "../analysis";
 import { runAllChunks } from "../../server/workers/run-all-chunks";
 
 interface Args {
@@ -125,6 +127,8 @@ export async function runCli(argv: string[]): Promise<void> {
   const byBin = new Map<number, { pulses: number; excluded: number; passed: number; delaySum: number; delays: number }>();
   let capped = 0;
   let events = 0;
+  const allPulses: PulseStat[] = [];
+  const allReplicates: ReplicateTotals[] = [];
 
   const onChunk = async (r: ChunkResult) => {
     partials.push({ gridSum: r.gridSum, gridSumSq: r.gridSumSq, gridCount: r.gridCount });
@@ -141,11 +145,13 @@ export async function runCli(argv: string[]): Promise<void> {
     let s = "";
     for (const rep of r.replicates) {
       if (rep.capped) capped++;
+      allReplicates.push({ replicate: rep.replicate, events: rep.events, capped: rep.capped, outputMean: rep.outputMean, outputVar: rep.outputVar });
       s += `${rep.replicate},${rep.events},${rep.capped},${rep.endTime},${fmt(rep.outputMean)},${fmt(rep.outputVar)}${factorRefs.map((f) => `,${fmt(rep.factors[f])}`).join("")}\n`;
     }
     await write(repCsv, s);
     s = "";
     for (const p of r.pulses as PulseStat[]) {
+      allPulses.push(p);
       s += `${p.replicate},${p.pulseIndex},${p.on},${p.off},${p.durationBin},${p.excluded},${p.passed},${fmt(p.delay)},${fmt(p.offDelay)},"${p.widths.join(";")}",${p.peak},${p.timeToPeak},${fmt(p.fwhm)},${p.baseline}\n`;
       const b = byBin.get(p.durationBin) ?? { pulses: 0, excluded: 0, passed: 0, delaySum: 0, delays: 0 };
       b.pulses++;
@@ -213,11 +219,19 @@ export async function runCli(argv: string[]): Promise<void> {
       passFraction: b.pulses - b.excluded > 0 ? b.passed / (b.pulses - b.excluded) : null,
       meanDelay: b.delays > 0 ? b.delaySum / b.delays : null,
     })),
-    files: ["summary.json", "grid-mean.csv", "grid-replicates.csv", "replicates.csv", "pulses.csv", "ode.csv"],
+    files: ["summary.json", "analysis.json", "grid-mean.csv", "grid-replicates.csv", "replicates.csv", "pulses.csv", "ode.csv"],
     spec,
     timing: { startedAt: started.toISOString(), seconds, threads: args.threads ?? 1, eventsPerSecond: events / seconds },
   };
   writeFileSync(path.join(args.out, "summary.json"), JSON.stringify(summary, null, 2) + "\n");
+  const analysis = summarizeRun({
+    pulses: allPulses,
+    replicates: allReplicates,
+    threshold,
+    noiseDurationMinutes: spec.threshold.noiseDurationMinutes,
+    endTimeMinutes: spec.endTimeMinutes,
+  });
+  writeFileSync(path.join(args.out, "analysis.json"), JSON.stringify(analysis, null, 2) + "\n");
   if (!args.quiet)
     process.stderr.write(
       `${spec.replicates} replicates, ${events} events in ${seconds.toFixed(2)} s${capped > 0 ? `, ${capped} stopped at the event cap` : ""}; wrote ${args.out}\n`,

@@ -18,7 +18,7 @@ describe("npm run sim", () => {
       run([spec, "--out", path.join(dir, "a"), "--replicates", "120", "--quiet"]);
       run([spec, "--out", path.join(dir, "b", "nested"), "--replicates", "120", "--threads", "2", "--quiet"]);
       const files = readdirSync(path.join(dir, "a")).sort();
-      assert.deepEqual(files, ["grid-mean.csv", "grid-replicates.csv", "ode.csv", "pulses.csv", "replicates.csv", "summary.json"]);
+      assert.deepEqual(files, ["analysis.json", "grid-mean.csv", "grid-replicates.csv", "ode.csv", "pulses.csv", "replicates.csv", "summary.json"]);
       for (const f of files) {
         const a = readFileSync(path.join(dir, "a", f), "utf8");
         const b = readFileSync(path.join(dir, "b", "nested", f), "utf8");
