@@ -11,7 +11,7 @@ import { createRunQueue } from "./services/run-queue";
 import { createSimPool } from "./workers/pool";
 import { onRunEnded } from "./services/run-events";
 import { seedDemo } from "./services/demo-seed";
-import "./services/demo-circuits";
+import "./services/demo-content";
 
 export interface Booted {
   ctx: AppContext;

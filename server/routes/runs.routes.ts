@@ -145,7 +145,7 @@ export const runRoutes = defineRoutes([
     body: PatchRunSchema,
     summary: "Rename a run or edit its notes.",
     handler: ({ ctx, params, body }) => {
-      ctx.db.update(schema.runs).set(body).where(eq(schema.runs.id, params.id)).run();
+      if (Object.keys(body).length) ctx.db.update(schema.runs).set(body).where(eq(schema.runs.id, params.id)).run();
       return runs.runDetail(ctx, params.id);
     },
   },

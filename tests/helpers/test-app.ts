@@ -25,6 +25,7 @@ import { APP_VERSION } from "../../server/version";
 import { createMailer, nullMailer, type Mailer } from "../../server/services/mail.service";
 import { createIdleQueue, type RunQueue } from "../../server/services/run-queue";
 import { seedDemo, seedDemoAccounts } from "../../server/services/demo-seed";
+import "../../server/services/demo-content";
 import { DEMO_PASSWORD } from "./test-server";
 
 export { DEMO_PASSWORD };
