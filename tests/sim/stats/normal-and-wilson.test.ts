@@ -23,6 +23,10 @@ describe("normal distribution", () => {
     for (let x = -4; x <= 4; x += 0.37) {
       assertCloseTo(1 - erfc(x), ss.errorFunction(x), { abs: 2e-7 }, `erf(${x})`);
     }
+    // simple-statistics' standard normal table is rounded to 4 decimals
+    for (let z = -3; z <= 3; z += 0.25) {
+      assertCloseTo(normalCdf(z), ss.cumulativeStdNormalProbability(z), { abs: 1.01e-4 }, `Phi(${z})`);
+    }
   });
 });
 
