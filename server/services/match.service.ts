@@ -41,7 +41,7 @@ export function runFigures(ctx: AppContext, runId: string): FigureSummary {
 /** The input pulses of a run (from its first replicate's rows). */
 function runPulses(ctx: AppContext, runId: string): { on: number; off: number }[] {
   return ctx.sqlite
-    .prepare("select on as \"on\", off from pulse_stats where run_id = ? and replicate = (select min(replicate) from pulse_stats where run_id = ?) order by pulse_index")
+    .prepare('select "on", "off" from pulse_stats where run_id = ? and replicate = (select min(replicate) from pulse_stats where run_id = ?) order by pulse_index')
     .all(runId, runId) as { on: number; off: number }[];
 }
 

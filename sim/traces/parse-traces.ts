@@ -7,7 +7,8 @@
  * - wide: a `time` column (or the first column) and one column per cell.
  * An optional input column (named by the caller) gives the input level per time.
  *
- * Rules: a header line is required; times are converted to minutes; an empty
+ * Rules: blank lines and lines starting with `#` (comments) are skipped; a
+ * header line is required; times are converted to minutes; an empty
  * value, `NA` or `NaN` is a missing frame (simply absent); any other text is an
  * error. Within a cell, time must strictly increase in file order (equal = a
  * duplicate cell and time; smaller = time going backwards). A cell needs
@@ -126,6 +127,8 @@ function readRows(text: string, delimiter: string, maxRows: number, errors: Erro
       prevCursor = cursor;
       const fields = r.data as string[];
       if (fields.length === 1 && fields[0].trim() === "") return;
+      // comment line
+      if (fields[0].trimStart().startsWith("#")) return;
       for (const e of r.errors) errors.add(startLine, 0, `unreadable line: ${e.message}`);
       rows.push({ line: startLine, fields });
       // header + maxRows data rows

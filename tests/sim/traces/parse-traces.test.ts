@@ -183,3 +183,10 @@ test("pulsesFromLevels: ON from the first frame above onAbove to the first frame
   assert.deepEqual(pulsesFromLevels([0, 1, 2, 3, 4, 5], [0, 1, 1, 0, 2, 2], 0), [{ on: 1, off: 3 }, { on: 4, off: 5 }]);
   assert.deepEqual(pulsesFromLevels([0, 1, 2], [0.4, 0.6, 0.2], 0.5), [{ on: 1, off: 2 }]);
 });
+
+test("comment lines (#) and blank lines are skipped but still counted for line numbers", () => {
+  const text = "# synthetic demo\ncell,time,value\n# note\nA,0,1\nA,1,x\n";
+  const r = parseTraces(text, { timeUnit: "min" });
+  assert.equal(r.ok, false);
+  if (!r.ok) assert.deepEqual({ line: r.errors[0].line, column: r.errors[0].column }, { line: 5, column: 3 });
+});

@@ -1,0 +1,312 @@
+/**
+ * Traces API: preview stores nothing, upload in one transaction, a rejected
+ * upload stores nothing, line/column errors, size and row limits (multer errors
+ * answer 4xx), roles and cross-lab 404s, settings changes recompute, soft
+ * delete, metrics CSV, matching against a run and a sweep, the demo seeder.
+ *
+ * One app per file; runs and sweeps are inserted as finished rows computed
+ * directly with the engine (no worker pool), so the file stays fast.
+ */
+import { test, describe, before, after } from "node:test";
+import assert from "node:assert/strict";
+import { count, eq } from "drizzle-orm";
+import { makeTestContext, signIn, type TestApp } from "../helpers/test-app";
+import { schema } from "../../db/client";
+import { newId } from "../../server/ids";
+import { hashPassword } from "../../server/services/password";
+import "../../server/services/demo-traces";
+import { DEMO_TRACES_KEY, DEMO_TRACES_NAME, DEMO_UPLOAD_OPTIONS, seedDemoTraces } from "../../server/services/demo-traces";
+import { templates } from "../../sim/circuit/templates";
+import { setParameter } from "../../sim/circuit/parameters";
+import { simulateChunk } from "../../sim/engine/simulate-chunk";
+import { RunSpecSchema, type RunSpec } from "../../shared/schemas/run-spec";
+import { MatchDetailSchema, TRACE_LIMITS, TracePreviewSchema, TraceSetDetailSchema, type TraceUploadOptionsInput } from "../../shared/schemas/api-traces";
+import { ApiErrorSchema } from "../../shared/schemas/errors";
+
+type Agent = Awaited<ReturnType<typeof signIn>>;
+let t: TestApp;
+let lab: string;
+let editor: Agent;
+let viewer: Agent;
+let outsider: Agent;
+let otherLab: string;
+
+const PROGRAM = { kind: "ladder", start: 20, durations: [5, 60], repeats: 2, gap: 120 } as const;
+// 2 pulses of 5 and 2 of 60 min: on at 20, 145, 270, 455 (ladder: duration then gap)
+const SETTINGS = { thresholdMolecules: 50, windowMinutes: 30, background: { mode: "value", value: 100 }, scale: { mode: "entered", unitsPerMolecule: 2 } };
+const OPTIONS: TraceUploadOptionsInput = { timeUnit: "min", schedule: { source: "column", column: "input" }, settings: SETTINGS as never };
+
+/** A small long-layout file: cell "a" responds to the 60-min pulse (delay 10), cell "b" never does. */
+function smallCsv(): string {
+  const lines = ["cell,time,value,input"];
+  for (const cell of ["a", "b"]) {
+    for (let tm = 0; tm <= 200; tm += 2) {
+      const on = tm >= 20 && tm < 80 ? 1 : 0;
+      const v = cell === "a" && tm >= 30 && tm < 90 ? 300 : 100;
+      lines.push(`${cell},${tm},${v},${on}`);
+    }
+  }
+  return lines.join("\n") + "\n";
+}
+
+function tableCounts() {
+  return {
+    sets: t.ctx.db.select({ n: count() }).from(schema.traceSets).get()!.n,
+    cells: t.ctx.db.select({ n: count() }).from(schema.traceCells).get()!.n,
+  };
+}
+
+function post(agent: Agent, path: string, text: string | Buffer, options: unknown = OPTIONS, fileName = "cells.csv") {
+  return agent
+    .post(path)
+    .field("options", typeof options === "string" ? options : JSON.stringify(options))
+    .attach("file", Buffer.isBuffer(text) ? text : Buffer.from(text), fileName);
+}
+
+function spec(k: number, seed: string, replicates = 30): RunSpec {
+  const circuit = setParameter(templates["c1ffl-and"].circuit, "K(makeZ,hldB)", k);
+  return RunSpecSchema.parse({
+    circuit, program: PROGRAM, inputSignal: "Q", endTimeMinutes: 700, gridStepMinutes: 1, replicates, seed,
+    threshold: { value: 50, windowMinutes: 30 },
+  });
+}
+
+/** Inserts a finished run with its pulse_stats rows, computed directly with the engine. */
+function insertRun(labId: string, s: RunSpec, status: "finished" | "running" = "finished", sweep?: { id: string; point: number }): string {
+  const id = newId("run_");
+  const now = new Date();
+  t.ctx.db.insert(schema.runs).values({
+    id, labId, name: `run ${id}`, status, spec: s, seed: s.seed, replicates: s.replicates, chunkSize: s.replicates, engineVersion: "test",
+    sweepId: sweep?.id ?? null, sweepPoint: sweep?.point ?? null, replicatesDone: s.replicates, createdAt: now, finishedAt: now,
+  }).run();
+  if (status !== "finished") return id;
+  const r = simulateChunk(s, 0, s.replicates, { trajectoryReplicates: 0 });
+  for (const p of r.pulses) {
+    t.ctx.db.insert(schema.pulseStats).values({
+      runId: id, replicate: p.replicate, pulseIndex: p.pulseIndex, on: p.on, off: p.off, durationBin: p.durationBin, excluded: p.excluded,
+      passed: p.passed, delay: p.delay, offDelay: p.offDelay, width: p.widths[0] ?? null, widths: p.widths, peak: p.peak,
+      timeToPeak: p.timeToPeak, fwhm: p.fwhm, baseline: p.baseline,
+    }).run();
+  }
+  return id;
+}
+
+before(async () => {
+  t = await makeTestContext();
+  lab = t.demoLab!.id;
+  [editor, viewer] = await Promise.all([signIn(t.app, "editor@example.org"), signIn(t.app, "viewer@example.org")]);
+  // A user who owns another lab only.
+  const uid = newId("usr_");
+  otherLab = newId("lab_");
+  const now = new Date();
+  t.ctx.db.insert(schema.users).values({ id: uid, email: "outsider@example.org", displayName: "Outsider", passwordHash: await hashPassword("outsider-pass-1"), isSiteAdmin: false, notifyOnRunEnd: false, createdAt: now }).run();
+  t.ctx.db.insert(schema.labs).values({ id: otherLab, name: "Other lab", createdAt: now }).run();
+  t.ctx.db.insert(schema.memberships).values({ labId: otherLab, userId: uid, role: "owner", createdAt: now }).run();
+  outsider = await signIn(t.app, "outsider@example.org", "outsider-pass-1");
+});
+after(async () => {
+  await t.close();
+});
+
+describe("preview", () => {
+  test("answers the parsed preview with figures and stores nothing", async () => {
+    const before = tableCounts();
+    const r = await post(editor, `/api/labs/${lab}/traces/preview`, smallCsv());
+    assert.equal(r.status, 200, JSON.stringify(r.body));
+    const p = TracePreviewSchema.parse(r.body);
+    assert.equal(p.layout, "long");
+    assert.equal(p.cellCount, 2);
+    assert.deepEqual(p.schedule, [{ on: 20, off: 80 }]);
+    const [a, b] = p.analysis.cells;
+    // threshold 100 + 2 x 50 = 200; a jumps 100 -> 300 between frames 28 and 30: linear crossing at 29
+    assert.equal(a.thresholdTraceUnits, 200);
+    assert.equal(a.pulses[0].delay, 9);
+    assert.equal(b.pulses[0].passed, false);
+    assert.deepEqual(tableCounts(), before);
+  });
+
+  test("a bad file answers 400 naming line and column, and stores nothing", async () => {
+    const before = tableCounts();
+    const text = smallCsv().replace("a,4,100,0", "a,4,bright,0");
+    const r = await post(editor, `/api/labs/${lab}/traces/preview`, text);
+    assert.equal(r.status, 400);
+    ApiErrorSchema.parse(r.body);
+    assert.equal(r.body.error.code, "invalid_traces");
+    assert.deepEqual(r.body.error.lines[0], { line: 4, column: 3, message: 'value "bright" is not a number' });
+    assert.match(r.body.error.message, /line 4, column 3/);
+    assert.deepEqual(tableCounts(), before);
+  });
+
+  test("a viewer may not upload (403); another lab's member gets 404", async () => {
+    assert.equal((await post(viewer, `/api/labs/${lab}/traces/preview`, smallCsv())).status, 403);
+    assert.equal((await post(outsider, `/api/labs/${lab}/traces/preview`, smallCsv())).status, 404);
+  });
+});
+
+describe("upload limits and bad requests (4xx, never 500; nothing stored)", () => {
+  test("a file over the size limit answers 413", async () => {
+    const before = tableCounts();
+    const big = Buffer.alloc(TRACE_LIMITS.maxFileBytes + 1024, "a,1,1\n");
+    const r = await post(editor, `/api/labs/${lab}/traces`, big).catch((e) => e.response ?? Promise.reject(e));
+    assert.equal(r.status, 413);
+    assert.equal(r.body.error.code, "file_too_large");
+    assert.match(r.body.error.message, /larger than 5 MB/);
+    assert.deepEqual(tableCounts(), before);
+  });
+
+  test("too many rows names the line where the limit is passed", async () => {
+    const lines = ["time,c1"];
+    for (let i = 0; i <= TRACE_LIMITS.maxRows + 5; i++) lines.push(`${i},1`);
+    const r = await post(editor, `/api/labs/${lab}/traces`, lines.join("\n"));
+    assert.equal(r.status, 400);
+    assert.match(r.body.error.lines[0].message, /too many rows/);
+    assert.equal(r.body.error.lines[0].line, TRACE_LIMITS.maxRows + 2);
+  });
+
+  test("missing file, bad options JSON, invalid options, a second file field", async () => {
+    let r = await editor.post(`/api/labs/${lab}/traces`).field("options", JSON.stringify(OPTIONS));
+    assert.equal(r.status, 400);
+    assert.match(r.body.error.message, /form field "file"/);
+    r = await post(editor, `/api/labs/${lab}/traces`, smallCsv(), "{not json");
+    assert.equal(r.status, 400);
+    assert.match(r.body.error.message, /not valid JSON/);
+    r = await post(editor, `/api/labs/${lab}/traces`, smallCsv(), { ...OPTIONS, timeUnit: "days" });
+    assert.equal(r.status, 400);
+    assert.match(r.body.error.message, /timeUnit/);
+    r = await editor.post(`/api/labs/${lab}/traces`).field("options", JSON.stringify(OPTIONS)).attach("data", Buffer.from(smallCsv()), "x.csv");
+    assert.equal(r.status, 400);
+    assert.equal(r.body.error.code, "bad_upload");
+  });
+
+  test("a rejected upload stores nothing (late error: too few points in the last cell)", async () => {
+    const before = tableCounts();
+    const text = smallCsv() + "c,0,1,0\nc,2,1,0\n";
+    const r = await post(editor, `/api/labs/${lab}/traces`, text);
+    assert.equal(r.status, 400);
+    assert.match(r.body.error.lines[0].message, /cell "c" has 2 values/);
+    assert.deepEqual(tableCounts(), before);
+  });
+});
+
+describe("stored trace sets", () => {
+  let id: string;
+  before(async () => {
+    const r = await post(editor, `/api/labs/${lab}/traces`, smallCsv(), { ...OPTIONS, name: "Two cells" });
+    assert.equal(r.status, 201, JSON.stringify(r.body));
+    id = TraceSetDetailSchema.parse(r.body).id;
+  });
+
+  test("upload stores the set and its cells in one go, with who uploaded it", async () => {
+    const row = t.ctx.db.select().from(schema.traceSets).where(eq(schema.traceSets.id, id)).get()!;
+    assert.equal(row.cellCount, 2);
+    assert.equal(row.synthetic, false);
+    assert.equal(t.ctx.db.select({ n: count() }).from(schema.traceCells).where(eq(schema.traceCells.traceSetId, id)).get()!.n, 2);
+    const list = await viewer.get(`/api/labs/${lab}/traces`).expect(200);
+    const item = list.body.traceSets.find((x: { id: string }) => x.id === id);
+    assert.equal(item.uploadedByName, "Demo editor");
+    assert.equal(item.fileName, "cells.csv");
+  });
+
+  test("detail for a viewer; 404 for another lab's member", async () => {
+    const d = TraceSetDetailSchema.parse((await viewer.get(`/api/traces/${id}`).expect(200)).body);
+    assert.equal(d.analysis.summary.analysis.counts.passed, 1);
+    assert.equal(d.cells.length, 2);
+    const r = await outsider.get(`/api/traces/${id}`);
+    assert.equal(r.status, 404);
+    assert.equal((await outsider.get(`/api/labs/${lab}/traces`)).status, 404);
+  });
+
+  test("changing the threshold recomputes the figures", async () => {
+    const r = await editor.patch(`/api/traces/${id}`).send({ settings: { ...SETTINGS, thresholdMolecules: 150 } });
+    assert.equal(r.status, 200, JSON.stringify(r.body));
+    // 100 + 2 x 150 = 400 is above both cells
+    assert.equal(TraceSetDetailSchema.parse(r.body).analysis.summary.analysis.counts.passed, 0);
+    assert.equal((await viewer.patch(`/api/traces/${id}`).send({ name: "x" })).status, 403);
+    await editor.patch(`/api/traces/${id}`).send({ settings: SETTINGS }).expect(200);
+  });
+
+  test("metrics CSV", async () => {
+    const r = await viewer.get(`/api/traces/${id}/export/metrics.csv`).expect(200);
+    assert.match(r.headers["content-type"], /text\/csv/);
+    const lines = r.text.trim().split("\n");
+    assert.equal(lines.length, 3);
+    assert.match(lines[0], /^cell,pulse_index,on_min/);
+    assert.match(lines[1], /^a,0,20,80,60,0,1,9,/);
+  });
+
+  test("match against a run from another lab is a 404; unfinished run a 409", async () => {
+    const foreign = insertRun(otherLab, spec(100, "foreign", 2));
+    assert.equal((await editor.post(`/api/traces/${id}/match`).send({ runId: foreign })).status, 404);
+    const running = insertRun(lab, spec(100, "running", 2), "running");
+    assert.equal((await editor.post(`/api/traces/${id}/match`).send({ runId: running })).status, 409);
+    assert.equal((await viewer.post(`/api/traces/${id}/match`).send({ runId: running })).status, 403);
+  });
+
+  test("soft delete hides the set", async () => {
+    const r = await post(editor, `/api/labs/${lab}/traces`, smallCsv(), { ...OPTIONS, name: "To delete" });
+    const delId = r.body.id;
+    await editor.delete(`/api/traces/${delId}`).expect(204);
+    assert.equal((await viewer.get(`/api/traces/${delId}`)).status, 404);
+    const row = t.ctx.db.select().from(schema.traceSets).where(eq(schema.traceSets.id, delId)).get()!;
+    assert.ok(row.deletedAt);
+  });
+});
+
+describe("matching and the demo set", () => {
+  let demoId: string;
+  before(() => {
+    seedDemoTraces(t.ctx, t.demoLab!);
+    seedDemoTraces(t.ctx, t.demoLab!); // idempotent
+    const rows = t.ctx.db.select().from(schema.traceSets).where(eq(schema.traceSets.demoKey, DEMO_TRACES_KEY)).all();
+    assert.equal(rows.length, 1);
+    demoId = rows[0].id;
+  });
+
+  test("the demo set is labelled synthetic, has about 40 cells and the demo options parse its file", async () => {
+    const d = TraceSetDetailSchema.parse((await viewer.get(`/api/traces/${demoId}`).expect(200)).body);
+    assert.equal(d.name, DEMO_TRACES_NAME);
+    assert.equal(d.synthetic, true);
+    assert.equal(d.cellCount, 40);
+    assert.ok(d.analysis.summary.analysis.counts.passed > 0);
+    const csv = await viewer.get(`/api/traces/${demoId}/export/metrics.csv`).expect(200);
+    assert.match(csv.text, /^# SYNTHETIC/);
+    assert.equal(DEMO_UPLOAD_OPTIONS.name, DEMO_TRACES_NAME);
+  });
+
+  test("match a run: one ranked point, stored, readable by a viewer; notes name a schedule difference", async () => {
+    const traces = (await post(editor, `/api/labs/${lab}/traces`, smallCsv(), { ...OPTIONS, name: "For run match" })).body.id;
+    const runId = insertRun(lab, spec(100, "one-run"));
+    const r = await editor.post(`/api/traces/${traces}/match`).send({ runId });
+    assert.equal(r.status, 201, JSON.stringify(r.body));
+    const m = MatchDetailSchema.parse(r.body);
+    assert.equal(m.result.pointCount, 1);
+    assert.equal(m.result.points[0].accepted, true);
+    assert.ok(m.result.notes.some((n) => /differs from the traces' schedule/.test(n)));
+    const again = MatchDetailSchema.parse((await viewer.get(`/api/matches/${m.id}`).expect(200)).body);
+    assert.deepEqual(again.result.points, m.result.points);
+    assert.equal((await outsider.get(`/api/matches/${m.id}`)).status, 404);
+  });
+
+  test("match a sweep: ranked points with parameters, 5% tolerance by default, unfinished points skipped", async () => {
+    const sweepId = newId("swp_");
+    const ks = [40, 100, 250];
+    t.ctx.db.insert(schema.sweeps).values({
+      id: sweepId, labId: lab, name: "K sweep", baseSpec: spec(100, "base"), axes: [{ parameter: "K(makeZ,hldB)", values: [...ks, 600] }],
+      status: "running", pointCount: 4, createdAt: new Date(),
+    }).run();
+    ks.forEach((k, i) => insertRun(lab, spec(k, `pt-${i}`), "finished", { id: sweepId, point: i }));
+    insertRun(lab, spec(600, "pt-3"), "running", { id: sweepId, point: 3 });
+    const traces = (await post(editor, `/api/labs/${lab}/traces`, smallCsv(), { ...OPTIONS, name: "For sweep match" })).body.id;
+    const r = await editor.post(`/api/traces/${traces}/match`).send({ sweepId });
+    assert.equal(r.status, 201, JSON.stringify(r.body));
+    const m = MatchDetailSchema.parse(r.body).result;
+    assert.equal(m.pointCount, 3);
+    assert.equal(m.acceptedCount, 1, "ceil(5% of 3) = 1");
+    assert.deepEqual(m.points.map((p) => p.rank), [1, 2, 3]);
+    assert.deepEqual(m.points.map((p) => p.parameters["K(makeZ,hldB)"]).sort((a, b) => a - b), ks);
+    assert.equal(m.skippedRuns.length, 1);
+    assert.deepEqual(m.ranges[0].sweptMin, 40);
+    const d = await viewer.get(`/api/traces/${traces}`).expect(200);
+    assert.equal(d.body.matches.length, 1);
+  });
+});
