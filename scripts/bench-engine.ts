@@ -21,6 +21,8 @@ export interface EngineBenchResult {
   seconds: number;
   eventsPerSecond: number;
   threads: number;
+  /** CPU time of the whole process (all threads) over the same span: shows contention from other processes. */
+  cpuSeconds: number;
 }
 
 export interface EngineBenchOptions {
@@ -42,9 +44,11 @@ export async function runEngineBench(opts: EngineBenchOptions = {}): Promise<Eng
     const pool = createSimPool({ threads });
     try {
       await pool.warmUp(spec);
+      const c0 = process.cpuUsage();
       const t0 = performance.now();
       const { events } = await runAllChunks(spec, { pool });
       const seconds = (performance.now() - t0) / 1000;
+      const cpu = process.cpuUsage(c0);
       const r: EngineBenchResult = {
         model: spec.circuit.name,
         engineVersion: ENGINE_VERSION,
@@ -53,6 +57,7 @@ export async function runEngineBench(opts: EngineBenchOptions = {}): Promise<Eng
         seconds,
         eventsPerSecond: events / seconds,
         threads,
+        cpuSeconds: (cpu.user + cpu.system) / 1e6,
       };
       results.push(r);
       opts.onResult?.(r);

@@ -21,7 +21,7 @@ async function main() {
   const threads = num("--threads");
   const replicates = num("--replicates");
   const line = (r: EngineBenchResult) =>
-    `${r.threads} thread${r.threads > 1 ? "s" : ""}: ${r.replicates} replicates, ${r.events} events in ${r.seconds.toFixed(3)} s = ${(r.eventsPerSecond / 1e6).toFixed(2)} M events/s`;
+    `${r.threads} thread${r.threads > 1 ? "s" : ""}: ${r.replicates} replicates, ${r.events} events in ${r.seconds.toFixed(3)} s = ${(r.eventsPerSecond / 1e6).toFixed(2)} M events/s (CPU ${r.cpuSeconds.toFixed(3)} s)`;
   const results = await runEngineBench({
     threads: threads !== undefined ? [threads] : undefined,
     replicates,
