@@ -1,11 +1,130 @@
 import React from "react";
+import { View } from "react-native";
+import { useLocalSearchParams, useRouter } from "expo-router";
 import { Screen } from "../../components/ui/screen";
-import { EmptyState } from "../../components/ui/states";
+import { Card } from "../../components/ui/card";
+import { Text } from "../../components/ui/text";
+import { Checkbox } from "../../components/ui/checkbox";
+import { SafetyNote } from "../../components/ui/safety-note";
+import { StatCard } from "../../components/ui/stat-card";
+import { EmptyState, ErrorState, LoadingState } from "../../components/ui/states";
+import { LazyChart } from "../../components/charts/lazy-chart";
+import { compareDelaySpec, compareFilterSpec } from "../../components/charts/specs";
+import { formatNumber } from "../../components/charts/chart-spec";
+import { useComparison, useRuns } from "../../components/data/runs";
+import { useTheme } from "../../components/theme/use-theme";
+import { useBreakpoints } from "../../components/theme/use-breakpoints";
+import type { Comparison, ComparisonPair } from "../../shared/schemas/analysis";
+
+const pct = (p: number | null) => (p === null ? "–" : `${formatNumber(p * 100, 3)}%`);
+const pval = (p: number) => (p < 0.001 ? "p < 0.001" : `p = ${formatNumber(p, 2)}`);
+
+/** A pair's tests in plain words. */
+export function pairSentences(cmp: Comparison, pair: ComparisonPair): string[] {
+  const name = (id: string) => cmp.runs.find((r) => r.id === id)?.name ?? id;
+  const a = name(pair.a);
+  const b = name(pair.b);
+  const out: string[] = [];
+  const d = pair.delays;
+  if (d.withinNoise === null) out.push(`Response delays of ${a} and ${b} could not be tested (too few responses).`);
+  else if (d.withinNoise) out.push(`Response delays of ${a} and ${b} do not differ beyond noise (Kolmogorov-Smirnov and Mann-Whitney, Holm-adjusted, both p ≥ 0.05).`);
+  else
+    out.push(
+      `Response delays differ: median ${formatNumber(d.medianA)} min for ${a} against ${formatNumber(d.medianB)} min for ${b}` +
+        (d.mannWhitney ? ` (Mann-Whitney ${pval(d.mannWhitney.pHolm)} after Holm adjustment).` : "."),
+    );
+  const w = pair.widths;
+  if (w.withinNoise === false) out.push(`Output pulse widths differ: median ${formatNumber(w.medianA)} min against ${formatNumber(w.medianB)} min.`);
+  const diffs = pair.passDifferences.filter((p) => !p.withinNoise);
+  if (diffs.length === 0 && pair.passDifferences.length) out.push(`Pass probabilities do not differ beyond noise at any duration (Fisher's exact test, Holm-adjusted).`);
+  for (const p of diffs)
+    out.push(`At ${formatNumber(p.duration)} min, ${a} passes ${pct(p.passProbabilityA)} of pulses against ${pct(p.passProbabilityB)} for ${b} (Fisher ${pval(p.pHolm)}, Holm-adjusted).`);
+  out.push(...pair.flags);
+  return out;
+}
+
+function ComparisonView({ ids }: { ids: string[] }) {
+  const t = useTheme();
+  const { isWide } = useBreakpoints();
+  const q = useComparison(ids);
+  if (q.isPending) return <LoadingState label="Comparing runs" />;
+  if (q.error) return <ErrorState title="The comparison could not be made" error={q.error} onRetry={() => q.refetch()} />;
+  const cmp = q.data;
+  const filter = compareFilterSpec(cmp, t.colors);
+  const delays = compareDelaySpec(cmp, t.colors);
+  return (
+    <View style={{ gap: t.spacing.lg }} testID="comparison">
+      <SafetyNote />
+      <View style={{ flexDirection: isWide ? "row" : "column", gap: t.spacing.md }}>
+        {cmp.runs.map((r, k) => (
+          <View key={r.id} style={{ flex: isWide ? 1 : undefined, gap: t.spacing.sm }}>
+            <View style={{ flexDirection: "row", alignItems: "center", gap: t.spacing.sm }}>
+              <View style={{ width: 12, height: 12, borderRadius: 6, backgroundColor: t.colors.series[k] }} />
+              <Text variant="bodyStrong" style={{ flexShrink: 1 }}>{r.name}</Text>
+            </View>
+            <StatCard label="d50" value={r.headline.d50 === null ? "not estimable" : `${formatNumber(r.headline.d50)} min`} detail={r.headline.d50Note ?? undefined} />
+            <StatCard label="Median delay" value={r.headline.medianDelay === null ? "not reached" : `${formatNumber(r.headline.medianDelay)} min`} />
+            <StatCard label="False-pass rate" value={pct(r.headline.falsePassRate)} detail={`${r.headline.passed} of ${r.headline.evaluable} pulses passed`} />
+          </View>
+        ))}
+      </View>
+      <View style={isWide ? { flexDirection: "row", flexWrap: "wrap", gap: t.spacing.lg } : { gap: t.spacing.lg }}>
+        <View style={isWide ? { width: "48%", flexGrow: 1 } : undefined}>
+          <Card testID="chart-card-compare-filter">
+            <Text variant="heading">Filter curves</Text>
+            <LazyChart spec={filter} testID="chart-compare-filter" />
+          </Card>
+        </View>
+        {delays ? (
+          <View style={isWide ? { width: "48%", flexGrow: 1 } : undefined}>
+            <Card>
+              <Text variant="heading">Response delays</Text>
+              <LazyChart spec={delays} testID="chart-compare-delays" />
+            </Card>
+          </View>
+        ) : null}
+      </View>
+      <Card testID="comparison-tests">
+        <Text variant="heading">What the tests say</Text>
+        {cmp.pairs.map((p) => (
+          <View key={`${p.a}-${p.b}`} style={{ gap: t.spacing.xs }}>
+            {pairSentences(cmp, p).map((s) => <Text key={s}>• {s}</Text>)}
+          </View>
+        ))}
+        {cmp.flags.map((f) => <Text key={f} tone="muted">• {f}</Text>)}
+        <Text variant="caption" tone="muted">{cmp.method}</Text>
+      </Card>
+    </View>
+  );
+}
 
 export default function Compare() {
+  const t = useTheme();
+  const router = useRouter();
+  const params = useLocalSearchParams<{ ids?: string }>();
+  const ids = (params.ids ?? "").split(",").filter(Boolean);
+  const runs = useRuns();
+  const finished = (runs.data ?? []).filter((r) => r.status === "finished" || r.status === "capped");
+  const toggle = (id: string, on: boolean) => {
+    const next = on ? [...ids, id].slice(0, 4) : ids.filter((x) => x !== id);
+    router.setParams({ ids: next.join(",") });
+  };
   return (
-    <Screen title="Compare">
-      <EmptyState title="Choose runs to compare" message="Pick two to four finished runs." />
+    <Screen title="Compare" subtitle="Choose two to four finished runs.">
+      <Card>
+        {runs.isPending ? (
+          <LoadingState label="Loading runs" />
+        ) : runs.error ? (
+          <ErrorState error={runs.error} onRetry={() => runs.refetch()} />
+        ) : finished.length < 2 ? (
+          <EmptyState icon="columns" title="Not enough finished runs" message="Comparisons need at least two finished runs." />
+        ) : (
+          finished.map((r) => (
+            <Checkbox key={r.id} label={`${r.name} (${r.circuitName})`} checked={ids.includes(r.id)} disabled={!ids.includes(r.id) && ids.length >= 4} onChange={(on) => toggle(r.id, on)} testID={`compare-pick-${r.id}`} />
+          ))
+        )}
+      </Card>
+      {ids.length >= 2 ? <ComparisonView ids={ids} /> : <Text tone="muted">{ids.length === 1 ? "Choose at least one more run." : "Nothing chosen yet."}</Text>}
     </Screen>
   );
 }

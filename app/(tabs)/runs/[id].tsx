@@ -1,0 +1,186 @@
+import React, { useState } from "react";
+import { Linking, View } from "react-native";
+import { useLocalSearchParams, useRouter } from "expo-router";
+import { Screen } from "../../../components/ui/screen";
+import { Card } from "../../../components/ui/card";
+import { Text } from "../../../components/ui/text";
+import { Button } from "../../../components/ui/button";
+import { ProgressBar } from "../../../components/ui/progress-bar";
+import { StatusBadge } from "../../../components/ui/status-badge";
+import { SafetyNote } from "../../../components/ui/safety-note";
+import { DataTable, type Column } from "../../../components/ui/data-table";
+import { Banner, ErrorState, LoadingState } from "../../../components/ui/states";
+import { HeadlineCards } from "../../../components/runs/headline-cards";
+import { LazyChart } from "../../../components/charts/lazy-chart";
+import { delayHistogramSpec, filterCurveSpec, meanBandSpec, trajectoriesSpec } from "../../../components/charts/specs";
+import { formatNumber } from "../../../components/charts/chart-spec";
+import {
+  ACTIVE_STATUSES, exportUrl, runSummary, useArchiveRun, useCancelRun, useDeleteRun, useLaunchControl, useReplicates, useRestoreRun, useRun, useRunSeries, useRuns,
+  type ReplicateQuery,
+} from "../../../components/data/runs";
+import { useCurrentLab } from "../../../components/data/current-lab";
+import { useTheme } from "../../../components/theme/use-theme";
+import { useBreakpoints } from "../../../components/theme/use-breakpoints";
+import type { ReplicatePage } from "../../../shared/schemas/api-runs";
+
+type Row = ReplicatePage["rows"][number];
+const fmt = (v: number | null) => (v === null ? "–" : formatNumber(v));
+const COLUMNS: Column<Row>[] = [
+  { key: "replicate", label: "Replicate", width: 96, sortable: true, render: (r) => String(r.replicate) },
+  { key: "pulseIndex", label: "Pulse", width: 72, sortable: true, render: (r) => String(r.pulseIndex) },
+  { key: "durationBin", label: "Duration (min)", width: 120, sortable: true, render: (r) => fmt(r.durationBin) },
+  { key: "passed", label: "Passed", width: 80, render: (r) => (r.excluded ? "excluded" : r.passed ? "yes" : "no") },
+  { key: "delay", label: "Delay (min)", width: 104, sortable: true, render: (r) => (r.delay === null ? "none" : fmt(r.delay)) },
+  { key: "offDelay", label: "OFF delay (min)", width: 124, sortable: true, render: (r) => fmt(r.offDelay) },
+  { key: "width", label: "Width (min)", width: 104, sortable: true, render: (r) => fmt(r.width) },
+  { key: "peak", label: "Peak", width: 88, sortable: true, render: (r) => fmt(r.peak) },
+  { key: "fwhm", label: "FWHM (min)", width: 104, sortable: true, render: (r) => fmt(r.fwhm) },
+];
+
+function ReplicateTable({ runId }: { runId: string }) {
+  const [q, setQ] = useState<ReplicateQuery>({ sort: "replicate", dir: "asc", page: 1, pageSize: 20 });
+  const rows = useReplicates(runId, q);
+  if (rows.isPending) return <LoadingState label="Loading replicate figures" />;
+  if (rows.error) return <ErrorState error={rows.error} onRetry={() => rows.refetch()} />;
+  return (
+    <DataTable
+      testID="replicate-table"
+      caption="Per-replicate figures for each input pulse"
+      columns={COLUMNS}
+      rows={rows.data.rows}
+      sort={q.sort}
+      dir={q.dir}
+      onSort={(key) => setQ((s) => ({ ...s, sort: key, dir: s.sort === key && s.dir === "asc" ? "desc" : "asc", page: 1 }))}
+      page={q.page}
+      pageCount={Math.ceil(rows.data.total / q.pageSize)}
+      onPage={(page) => setQ((s) => ({ ...s, page }))}
+    />
+  );
+}
+
+function RunCharts({ runId, finished }: { runId: string; finished: boolean }) {
+  const t = useTheme();
+  const { isWide } = useBreakpoints();
+  const series = useRunSeries(runId, finished);
+  const run = useRun(runId);
+  const summary = runSummary(run.data);
+  const specs = [
+    summary ? { key: "filter", title: "Filter curve", spec: filterCurveSpec(summary, t.colors) } : null,
+    series.data ? { key: "trajectories", title: "Sample trajectories", spec: trajectoriesSpec(series.data, t.colors) } : null,
+    series.data ? { key: "mean", title: "Mean and spread", spec: meanBandSpec(series.data, t.colors) } : null,
+    summary ? { key: "delays", title: "Response delays", spec: delayHistogramSpec(summary, t.colors) } : null,
+  ].filter((s): s is { key: string; title: string; spec: NonNullable<ReturnType<typeof trajectoriesSpec>> } => !!s && !!s.spec);
+  return (
+    <View style={isWide ? { flexDirection: "row", flexWrap: "wrap", gap: t.spacing.lg } : { gap: t.spacing.lg }}>
+      {series.error ? <ErrorState title="Time series could not be loaded" error={series.error} onRetry={() => series.refetch()} /> : null}
+      {specs.map((s) => (
+        <View key={s.key} style={isWide ? { width: "48%", flexGrow: 1 } : undefined}>
+          <Card testID={`chart-card-${s.key}`}>
+            <Text variant="heading">{s.title}</Text>
+            <LazyChart spec={s.spec} testID={`chart-${s.key}`} />
+          </Card>
+        </View>
+      ))}
+      {series.isPending && finished ? <LoadingState label="Loading time series" /> : null}
+    </View>
+  );
+}
+
+export default function RunDetailScreen() {
+  const t = useTheme();
+  const router = useRouter();
+  const { id } = useLocalSearchParams<{ id: string }>();
+  const { canEdit } = useCurrentLab();
+  const q = useRun(id);
+  const cancel = useCancelRun();
+  const archive = useArchiveRun();
+  const del = useDeleteRun();
+  const restore = useRestoreRun();
+  const control = useLaunchControl();
+  const labRuns = useRuns();
+  if (q.isPending) return <Screen title="Run"><LoadingState label="Loading run" /></Screen>;
+  if (q.error) return <Screen title="Run"><ErrorState title="This run could not be loaded" error={q.error} onRetry={() => q.refetch()} /></Screen>;
+  const run = q.data;
+  const summary = runSummary(run);
+  const active = ACTIVE_STATUSES.has(run.status);
+  const hasResults = run.status === "finished" || run.status === "capped";
+  const controlRun = labRuns.data?.find((r) => r.controlOf === run.id);
+  const p = run.progress;
+  return (
+    <Screen
+      title={run.name}
+      subtitle={`${run.circuitName} · ${run.programName}`}
+      actions={
+        <>
+          {active && canEdit ? <Button label="Cancel run" variant="danger" icon="x-circle" busy={cancel.isPending} onPress={() => cancel.mutate(run.id)} testID="cancel-run" /> : null}
+          {hasResults ? <Button label="Compare" variant="secondary" icon="columns" onPress={() => router.push(`/compare?ids=${[run.id, controlRun?.id].filter(Boolean).join(",")}`)} testID="compare-run" /> : null}
+        </>
+      }
+    >
+      {run.deletedAt ? (
+        <Banner tone="notice">
+          <View style={{ gap: t.spacing.sm }}>
+            <Text style={{ color: t.colors.onNoticeSoft }}>This run is deleted and will be purged after 7 days.</Text>
+            <Button label="Undo delete" variant="secondary" onPress={() => restore.mutate(run.id)} busy={restore.isPending} style={{ alignSelf: "flex-start" }} />
+          </View>
+        </Banner>
+      ) : null}
+      <Card testID="run-status">
+        <View style={{ flexDirection: "row", justifyContent: "space-between", alignItems: "center", gap: t.spacing.sm, flexWrap: "wrap" }}>
+          <StatusBadge status={run.status} />
+          <Text variant="caption" tone="muted">seed {run.seed} · engine {run.engineVersion}</Text>
+        </View>
+        <ProgressBar value={run.status === "finished" ? 1 : p.fraction} label={`Progress of ${run.name}`} color={t.colors.status[run.status]} />
+        <Text variant="caption" tone="muted">
+          {p.replicatesDone.toLocaleString("en")} of {p.replicates.toLocaleString("en")} replicates
+          {active && p.secondsLeft !== null ? ` · about ${Math.ceil(p.secondsLeft)} s left` : ""}
+          {run.statusReason ? ` · ${run.statusReason}` : ""}
+        </Text>
+      </Card>
+      <SafetyNote />
+      {summary ? (
+        <>
+          <Text variant="heading">Headline figures</Text>
+          <HeadlineCards summary={summary} />
+        </>
+      ) : active ? (
+        <Text tone="muted">Figures appear when the run finishes.</Text>
+      ) : null}
+      {hasResults ? <RunCharts runId={run.id} finished={hasResults} /> : null}
+      {hasResults ? (
+        <Card>
+          <Text variant="heading">Per-replicate figures</Text>
+          <ReplicateTable runId={run.id} />
+        </Card>
+      ) : null}
+      {hasResults ? (
+        <Card>
+          <Text variant="heading">Export</Text>
+          <View style={{ flexDirection: "row", flexWrap: "wrap", gap: t.spacing.sm }}>
+            {(["replicates.csv", "aggregates.csv", "summary.json", "bundle.json"] as const).map((f) => (
+              <Button key={f} label={`Download ${f}`} variant="secondary" icon="download" compact onPress={() => Linking.openURL(exportUrl(run.id, f))} />
+            ))}
+          </View>
+          <Text variant="caption" tone="muted">The bundle holds the circuit version, program, settings and seed, so anyone can reproduce the run exactly.</Text>
+        </Card>
+      ) : null}
+      {canEdit ? (
+        <Card>
+          <Text variant="heading">More</Text>
+          <View style={{ flexDirection: "row", flexWrap: "wrap", gap: t.spacing.sm }}>
+            {hasResults && !run.controlOf ? (
+              controlRun ? (
+                <Button label="Open the matched control" variant="secondary" icon="git-branch" onPress={() => router.push(`/runs/${controlRun.id}`)} />
+              ) : (
+                <Button label="Run a matched simple-regulation control" variant="secondary" icon="git-branch" busy={control.isPending} onPress={() => control.mutate(run.id, { onSuccess: (c) => router.push(`/runs/${c.id}`) })} />
+              )
+            ) : null}
+            {!active ? <Button label={run.archived ? "Archived" : "Archive"} variant="secondary" icon="archive" disabled={run.archived} busy={archive.isPending} onPress={() => archive.mutate(run.id)} /> : null}
+            {!active && !run.deletedAt ? <Button label="Delete" variant="secondary" icon="trash-2" busy={del.isPending} onPress={() => del.mutate(run.id)} /> : null}
+          </View>
+          {control.error || archive.error || del.error || cancel.error ? <ErrorState error={control.error ?? archive.error ?? del.error ?? cancel.error} /> : null}
+        </Card>
+      ) : null}
+    </Screen>
+  );
+}

@@ -1,0 +1,68 @@
+import React from "react";
+import { View } from "react-native";
+import type { RunSummary } from "../../shared/schemas/analysis";
+import { formatNumber } from "../charts/chart-spec";
+import { StatCard } from "../ui/stat-card";
+import { Text } from "../ui/text";
+import { useTheme } from "../theme/use-theme";
+
+const pct = (p: number | null | undefined) => (p === null || p === undefined ? "–" : `${formatNumber(p * 100, 3)}%`);
+const ci = (c: [number | null, number | null] | null | undefined, unit = "") =>
+  c ? `95% CI ${c[0] === null ? "not reached" : formatNumber(c[0])}–${c[1] === null ? "not reached" : formatNumber(c[1])}${unit}` : undefined;
+
+/** The headline figures of a finished run. */
+export function HeadlineCards({ summary }: { summary: RunSummary }) {
+  const t = useTheme();
+  const pg = summary.pulseGeneration;
+  const isPulseGenerator = pg.pulses > 0 && pg.peakAboveBaseline.median !== null && (pg.fwhm.n ?? 0) > 0;
+  return (
+    <View style={{ gap: t.spacing.md }} testID="headline-cards">
+      <View style={{ flexDirection: "row", flexWrap: "wrap", gap: t.spacing.md }}>
+        <StatCard
+          testID="card-d50"
+          label="d50 (duration passed half the time)"
+          value={summary.d50 === null ? "not estimable" : `${formatNumber(summary.d50)} min`}
+          detail={summary.d50 === null ? summary.d50Note ?? undefined : ci(summary.logistic.d50Ci, " min")}
+        />
+        <StatCard
+          testID="card-median-delay"
+          label="Median response delay"
+          value={summary.delay.median === null ? "not reached" : `${formatNumber(summary.delay.median)} min`}
+          detail={ci(summary.delay.medianCi, " min") + ` · ${summary.delay.censored} without response`}
+        />
+        <StatCard
+          testID="card-false-pass"
+          label={`False-pass rate (pulses under ${formatNumber(summary.noiseDurationMinutes)} min)`}
+          value={pct(summary.falsePassRate)}
+          detail={summary.falsePass ? `${summary.falsePass.passed} of ${summary.falsePass.pulses} passed · 95% CI ${pct(summary.falsePass.ci[0])}–${pct(summary.falsePass.ci[1])}` : "no pulses shorter than the noise duration"}
+        />
+        {summary.delayCost ? (
+          <StatCard
+            label={`Delay paid for long pulses (≥ ${formatNumber(summary.delayCost.minDurationMinutes)} min)`}
+            value={summary.delayCost.medianDelay === null ? "not reached" : `${formatNumber(summary.delayCost.medianDelay)} min`}
+            detail={`${summary.delayCost.responded} of ${summary.delayCost.pulses} responded`}
+          />
+        ) : null}
+        {isPulseGenerator ? (
+          <>
+            <StatCard label="Median peak above baseline" value={`${formatNumber(pg.peakAboveBaseline.median)} molecules`} detail={`time to peak ${formatNumber(pg.timeToPeak.median)} min`} />
+            <StatCard label="Median pulse width (FWHM)" value={`${formatNumber(pg.fwhm.median)} min`} detail={`${pg.fwhmNotMeasurable} not measurable`} />
+          </>
+        ) : null}
+      </View>
+      <View style={{ gap: t.spacing.xs }}>
+        <Text variant="label">Pass probability per input duration</Text>
+        <View style={{ flexDirection: "row", flexWrap: "wrap", gap: t.spacing.sm }}>
+          {summary.byDuration.map((e) => (
+            <View key={e.duration} style={{ paddingHorizontal: t.spacing.sm, paddingVertical: t.spacing.xs, borderRadius: t.radii.sm, backgroundColor: t.colors.surfaceAlt }}>
+              <Text variant="caption">
+                {formatNumber(e.duration)} min: {pct(e.passProbability)} ({e.passed}/{e.pulses})
+              </Text>
+            </View>
+          ))}
+        </View>
+      </View>
+      {summary.notes.length ? summary.notes.map((n) => <Text key={n} variant="caption" tone="muted">• {n}</Text>) : null}
+    </View>
+  );
+}

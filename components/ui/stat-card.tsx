@@ -1,0 +1,19 @@
+import React from "react";
+import { View } from "react-native";
+import { useTheme } from "../theme/use-theme";
+import { Text } from "./text";
+
+/** One headline figure: label, value, a line of detail. */
+export function StatCard({ label, value, detail, testID }: { label: string; value: string; detail?: string; testID?: string }) {
+  const t = useTheme();
+  return (
+    <View
+      testID={testID}
+      style={{ flexGrow: 1, flexBasis: 150, minWidth: 140, backgroundColor: t.colors.surface, borderRadius: t.radii.lg, borderWidth: 1, borderColor: t.colors.divider, padding: t.spacing.lg, gap: t.spacing.xs }}
+    >
+      <Text variant="label" tone="muted">{label}</Text>
+      <Text variant="title">{value}</Text>
+      {detail ? <Text variant="caption" tone="muted">{detail}</Text> : null}
+    </View>
+  );
+}
