@@ -182,4 +182,15 @@ describe("run mechanics", () => {
     const ng = 101;
     for (let i = 0; i < 3; i++) assert.equal(x[i], r.trajectories[0].values[i * ng + ng - 1]);
   });
+
+  test("random program: one shared realisation by default, one per replicate on request (chunk-independent)", () => {
+    const program = { kind: "random", start: 0, meanInterval: 20, durations: { dist: "exponential", mean: 3 }, seed: "spikes" };
+    const shared = simulateChunk(spec({ program, replicates: 3 }), 0, 3);
+    const ons = (r: typeof shared, rep: number) => r.pulses.filter((p) => p.replicate === rep).map((p) => p.on);
+    assert.deepEqual(ons(shared, 0), ons(shared, 2));
+    const per = spec({ program: { ...program, perReplicate: true }, replicates: 3 });
+    const all = simulateChunk(per, 0, 3);
+    assert.notDeepEqual(ons(all, 0), ons(all, 2));
+    assert.deepEqual(ons(simulateChunk(per, 2, 1), 2), ons(all, 2));
+  });
 });
