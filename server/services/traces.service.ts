@@ -303,7 +303,7 @@ export function traceSetDetail(ctx: AppContext, id: string): TraceSetDetail {
     ...listItem(row, userName(ctx, row.uploadedBy)),
     schedule: row.schedule as TracePulse[],
     settings,
-    cells: chartCells(prepared, TRACE_LIMITS.maxChartPointsPerCell),
+    cells: chartCells(prepared.slice(0, TRACE_LIMITS.maxChartCells), TRACE_LIMITS.maxChartPointsPerCell),
     analysis,
     matches: matches.map((m) => ({ ...m, createdAt: m.createdAt.getTime() })),
   };

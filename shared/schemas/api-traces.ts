@@ -21,6 +21,8 @@ export const TRACE_LIMITS = {
   maxErrors: 20,
   /** Points per cell sent to charts (longer cells are downsampled). */
   maxChartPointsPerCell: 400,
+  /** Cells sent to charts in the detail (the first ones, in upload order); figures cover every cell. */
+  maxChartCells: 60,
 } as const;
 
 export const TraceLayoutSchema = z.enum(["long", "wide"]);
@@ -206,7 +208,7 @@ export type TraceSetListItem = z.infer<typeof TraceSetListItemSchema>;
 export const TraceSetDetailSchema = TraceSetListItemSchema.extend({
   schedule: z.array(TracePulseSchema),
   settings: TraceSettingsSchema,
-  /** Cells for charts (downsampled when long). */
+  /** Cells for charts: the first TRACE_LIMITS.maxChartCells, downsampled when long (figures cover every cell). */
   cells: z.array(ChartCellSchema),
   analysis: TraceAnalysisSchema,
   matches: z.array(z.object({ id: z.string(), runId: z.string().nullable(), sweepId: z.string().nullable(), createdAt: z.number() })),
