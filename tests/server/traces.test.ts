@@ -15,7 +15,9 @@ import { schema } from "../../db/client";
 import { newId } from "../../server/ids";
 import { hashPassword } from "../../server/services/password";
 import "../../server/services/demo-traces";
-import { DEMO_TRACES_KEY, DEMO_TRACES_NAME, DEMO_UPLOAD_OPTIONS, seedDemoTraces } from "../../server/services/demo-traces";
+import { DEMO_TRACES_FILE, DEMO_TRACES_KEY, DEMO_TRACES_NAME, DEMO_UPLOAD_OPTIONS, demoTracesCsv, seedDemoTraces } from "../../server/services/demo-traces";
+import { readFileSync } from "node:fs";
+import { join } from "node:path";
 import { templates } from "../../sim/circuit/templates";
 import { setParameter } from "../../sim/circuit/parameters";
 import { simulateChunk } from "../../sim/engine/simulate-chunk";
@@ -188,6 +190,32 @@ describe("upload limits and bad requests (4xx, never 500; nothing stored)", () =
   });
 });
 
+describe("other layouts and schedule sources", () => {
+  test("wide TSV in seconds, schedule from a saved input program", async () => {
+    const programId = newId("prg_");
+    const now = new Date();
+    t.ctx.db.insert(schema.inputPrograms).values({ id: programId, labId: lab, name: "One pulse", body: { kind: "pulses", pulses: [{ start: 1, duration: 2 }] }, createdAt: now, updatedAt: now }).run();
+    const rows = ["time\tc1\tc2"];
+    for (let s = 0; s <= 600; s += 30) rows.push(`${s}\t${s >= 90 ? 300 : 100}\t${s >= 400 ? "" : 100}`);
+    const r = await post(editor, `/api/labs/${lab}/traces/preview`, rows.join("\n"), { ...OPTIONS, timeUnit: "s", schedule: { source: "program", programId }, settings: { ...SETTINGS, windowMinutes: 5 } }, "cells.tsv");
+    assert.equal(r.status, 200, JSON.stringify(r.body));
+    const p = TracePreviewSchema.parse(r.body);
+    assert.equal(p.layout, "wide");
+    assert.equal(p.delimiter, "tab");
+    assert.deepEqual(p.timeRangeMinutes, [0, 10]);
+    assert.deepEqual(p.schedule.map((x) => [x.on, x.off]), [[1, 3]]);
+    // c1 jumps 100 -> 300 between 1 and 1.5 min: crossing of 200 at 1.25 min
+    assert.equal(p.analysis.cells[0].pulses[0].delay, 0.25);
+    // c2 ends at 6.5 min, before the window of the pulse closes (3 + 5 = 8 min): not scored
+    assert.deepEqual(p.analysis.cells[1].skipped, [{ pulseIndex: 0, reason: "notCovered" }]);
+    const other = newId("prg_");
+    t.ctx.db.insert(schema.inputPrograms).values({ id: other, labId: otherLab, name: "Foreign", body: { kind: "pulses", pulses: [{ start: 1, duration: 2 }] }, createdAt: now, updatedAt: now }).run();
+    const bad = await post(editor, `/api/labs/${lab}/traces/preview`, rows.join("\n"), { ...OPTIONS, timeUnit: "s", schedule: { source: "program", programId: other } });
+    assert.equal(bad.status, 400);
+    assert.match(bad.body.error.message, /program was not found/);
+  });
+});
+
 describe("stored trace sets", () => {
   let id: string;
   before(async () => {
@@ -271,6 +299,16 @@ describe("matching and the demo set", () => {
     const csv = await viewer.get(`/api/traces/${demoId}/export/metrics.csv`).expect(200);
     assert.match(csv.text, /^# SYNTHETIC/);
     assert.equal(DEMO_UPLOAD_OPTIONS.name, DEMO_TRACES_NAME);
+  });
+
+  test("the committed demo file is what the recipe makes, and uploads with the demo options", async () => {
+    const text = readFileSync(join(__dirname, "..", "..", "docs", "examples", DEMO_TRACES_FILE), "utf8");
+    assert.equal(text.replace(/^#.*\n/, ""), demoTracesCsv(), "docs/examples/demo-traces.csv is stale: run npx tsx scripts/make-demo-traces.ts");
+    const r = await post(editor, `/api/labs/${lab}/traces/preview`, text, DEMO_UPLOAD_OPTIONS, DEMO_TRACES_FILE);
+    assert.equal(r.status, 200, JSON.stringify(r.body).slice(0, 500));
+    const p = TracePreviewSchema.parse(r.body);
+    assert.equal(p.cellCount, 40);
+    assert.equal(p.schedule.length, 7, "the Duration ladder's seven pulses");
   });
 
   test("match a run: one ranked point, stored, readable by a viewer; notes name a schedule difference", async () => {
