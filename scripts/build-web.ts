@@ -10,7 +10,7 @@
  */
 import { createHash } from "node:crypto";
 import { spawn } from "node:child_process";
-import { copyFileSync, existsSync, mkdirSync, readFileSync, readdirSync, statSync, writeFileSync } from "node:fs";
+import { copyFileSync, existsSync, mkdirSync, readFileSync, readdirSync, rmSync, statSync, writeFileSync } from "node:fs";
 import path from "node:path";
 
 const ROOT = path.resolve(__dirname, "..");
@@ -74,6 +74,8 @@ export async function ensureWebBuild(opts: { force?: boolean; quiet?: boolean } 
   copyCanvaskit();
   const hash = hashInputs();
   if (!opts.quiet) console.log("web build: exporting with expo (about 40 s cold)…");
+  // Start from an empty dist/ so no chunk of an older build is left behind.
+  rmSync(DIST, { recursive: true, force: true });
   const expoBin = path.join(ROOT, "node_modules", ".bin", "expo");
   await run(expoBin, ["export", "--platform", "web", "--output-dir", "dist", "--clear"]);
   writeFileSync(HASH_FILE, hash + "\n");
