@@ -104,7 +104,8 @@ export default function Compare() {
   const params = useLocalSearchParams<{ ids?: string }>();
   const ids = (params.ids ?? "").split(",").filter(Boolean);
   const runs = useRuns();
-  const finished = (runs.data ?? []).filter((r) => r.status === "finished" || r.status === "capped");
+  // Finished runs, plus any chosen run (for example one that just finished and is not in the cached list yet).
+  const finished = (runs.data ?? []).filter((r) => r.status === "finished" || r.status === "capped" || ids.includes(r.id));
   const toggle = (id: string, on: boolean) => {
     const next = on ? [...ids, id].slice(0, 4) : ids.filter((x) => x !== id);
     router.setParams({ ids: next.join(",") });

@@ -1,36 +1,46 @@
 import React from "react";
 import { View } from "react-native";
 import type { RunSummary } from "../../shared/schemas/analysis";
+import type { Circuit } from "../../shared/schemas/circuit";
+
+/** A circuit whose output production has a repressor (as in an incoherent feed-forward pulse generator). */
+export function outputIsRepressed(c: Circuit): boolean {
+  return c.reactions.some((r) => r.products.some((p) => p.species === c.outputSpecies) && r.rate.kind === "regulated" && r.rate.regulators.some((g) => g.effect === "represses"));
+}
 import { formatNumber } from "../charts/chart-spec";
 import { StatCard } from "../ui/stat-card";
 import { Text } from "../ui/text";
 import { useTheme } from "../theme/use-theme";
 
+const CARD = { flexGrow: 1, flexBasis: 150, minWidth: 140 } as const;
 const pct = (p: number | null | undefined) => (p === null || p === undefined ? "–" : `${formatNumber(p * 100, 3)}%`);
 const ci = (c: [number | null, number | null] | null | undefined, unit = "") =>
   c ? `95% CI ${c[0] === null ? "not reached" : formatNumber(c[0])}–${c[1] === null ? "not reached" : formatNumber(c[1])}${unit}` : undefined;
 
 /** The headline figures of a finished run. */
-export function HeadlineCards({ summary }: { summary: RunSummary }) {
+export function HeadlineCards({ summary, circuit }: { summary: RunSummary; circuit?: Circuit }) {
   const t = useTheme();
   const pg = summary.pulseGeneration;
-  const isPulseGenerator = pg.pulses > 0 && pg.peakAboveBaseline.median !== null && (pg.fwhm.n ?? 0) > 0;
+  const isPulseGenerator = pg.pulses > 0 && pg.peakAboveBaseline.median !== null && (!circuit || outputIsRepressed(circuit));
   return (
     <View style={{ gap: t.spacing.md }} testID="headline-cards">
       <View style={{ flexDirection: "row", flexWrap: "wrap", gap: t.spacing.md }}>
         <StatCard
+          style={CARD}
           testID="card-d50"
           label="d50 (duration passed half the time)"
           value={summary.d50 === null ? "not estimable" : `${formatNumber(summary.d50)} min`}
           detail={summary.d50 === null ? summary.d50Note ?? undefined : ci(summary.logistic.d50Ci, " min")}
         />
         <StatCard
+          style={CARD}
           testID="card-median-delay"
           label="Median response delay"
           value={summary.delay.median === null ? "not reached" : `${formatNumber(summary.delay.median)} min`}
           detail={ci(summary.delay.medianCi, " min") + ` · ${summary.delay.censored} without response`}
         />
         <StatCard
+          style={CARD}
           testID="card-false-pass"
           label={`False-pass rate (pulses under ${formatNumber(summary.noiseDurationMinutes)} min)`}
           value={pct(summary.falsePassRate)}
@@ -38,6 +48,7 @@ export function HeadlineCards({ summary }: { summary: RunSummary }) {
         />
         {summary.delayCost ? (
           <StatCard
+          style={CARD}
             label={`Delay paid for long pulses (≥ ${formatNumber(summary.delayCost.minDurationMinutes)} min)`}
             value={summary.delayCost.medianDelay === null ? "not reached" : `${formatNumber(summary.delayCost.medianDelay)} min`}
             detail={`${summary.delayCost.responded} of ${summary.delayCost.pulses} responded`}
@@ -45,8 +56,8 @@ export function HeadlineCards({ summary }: { summary: RunSummary }) {
         ) : null}
         {isPulseGenerator ? (
           <>
-            <StatCard label="Median peak above baseline" value={`${formatNumber(pg.peakAboveBaseline.median)} molecules`} detail={`time to peak ${formatNumber(pg.timeToPeak.median)} min`} />
-            <StatCard label="Median pulse width (FWHM)" value={`${formatNumber(pg.fwhm.median)} min`} detail={`${pg.fwhmNotMeasurable} not measurable`} />
+            <StatCard style={CARD} label="Median peak above baseline" value={`${formatNumber(pg.peakAboveBaseline.median)} molecules`} detail={`time to peak ${formatNumber(pg.timeToPeak.median)} min`} />
+            <StatCard style={CARD} label="Median pulse width (FWHM)" value={`${formatNumber(pg.fwhm.median)} min`} detail={`${pg.fwhmNotMeasurable} not measurable`} />
           </>
         ) : null}
       </View>

@@ -1,15 +1,15 @@
 import React from "react";
-import { View } from "react-native";
+import { View, type StyleProp, type ViewStyle } from "react-native";
 import { useTheme } from "../theme/use-theme";
 import { Text } from "./text";
 
 /** One headline figure: label, value, a line of detail. */
-export function StatCard({ label, value, detail, testID }: { label: string; value: string; detail?: string; testID?: string }) {
+export function StatCard({ label, value, detail, testID, style }: { label: string; value: string; detail?: string; testID?: string; style?: StyleProp<ViewStyle> }) {
   const t = useTheme();
   return (
     <View
       testID={testID}
-      style={{ flexGrow: 1, flexBasis: 150, minWidth: 140, backgroundColor: t.colors.surface, borderRadius: t.radii.lg, borderWidth: 1, borderColor: t.colors.divider, padding: t.spacing.lg, gap: t.spacing.xs }}
+      style={[{ backgroundColor: t.colors.surface, borderRadius: t.radii.lg, borderWidth: 1, borderColor: t.colors.divider, padding: t.spacing.lg, gap: t.spacing.xs }, style]}
     >
       <Text variant="label" tone="muted">{label}</Text>
       <Text variant="title">{value}</Text>

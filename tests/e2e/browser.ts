@@ -54,11 +54,48 @@ export async function launchBrowser(viewport: Viewport): Promise<BrowserSession>
   };
 }
 
-/** Saves a full-page screenshot as test-results/screenshots/<name>.png. */
-export async function screenshot(page: Page, name: string): Promise<string> {
+/**
+ * Saves test-results/screenshots/<name>.png, and, when the screen's scroll
+ * view is taller than the window, more shots scrolled down (<name>-2.png ...,
+ * at most maxShots in all); the scroll position is restored afterwards.
+ */
+export async function screenshot(page: Page, name: string, maxShots = 4): Promise<string> {
   mkdirSync(SCREENSHOT_DIR, { recursive: true });
-  const file = join(SCREENSHOT_DIR, `${name.replace(/[^a-z0-9-]+/gi, "-")}.png`);
-  await page.screenshot({ path: file, fullPage: true });
+  const base = name.replace(/[^a-z0-9-]+/gi, "-");
+  const file = join(SCREENSHOT_DIR, `${base}.png`);
+  const marker = await page.evaluate(() => {
+    let best: HTMLElement | null = null;
+    document.querySelectorAll<HTMLElement>("div").forEach((el) => {
+      const oy = getComputedStyle(el).overflowY;
+      if ((oy === "auto" || oy === "scroll") && el.scrollHeight > el.clientHeight + 4) {
+        if (!best || el.clientHeight * el.scrollHeight > best.clientHeight * best.scrollHeight) best = el;
+      }
+    });
+    if (!best) return null;
+    const el = best as HTMLElement;
+    el.setAttribute("data-shot-scroller", "1");
+    return { top: el.scrollTop, height: el.scrollHeight, view: el.clientHeight };
+  });
+  if (!marker) {
+    await page.screenshot({ path: file });
+    return file;
+  }
+  const shots = Math.min(maxShots, Math.ceil(marker.height / marker.view));
+  for (let i = 0; i < shots; i++) {
+    await page.evaluate((y) => {
+      const el = document.querySelector<HTMLElement>("[data-shot-scroller]");
+      if (el) el.scrollTop = y;
+    }, i * marker.view);
+    await page.waitForTimeout(150);
+    await page.screenshot({ path: i === 0 ? file : join(SCREENSHOT_DIR, `${base}-${i + 1}.png`) });
+  }
+  await page.evaluate((y) => {
+    const el = document.querySelector<HTMLElement>("[data-shot-scroller]");
+    if (el) {
+      el.scrollTop = y;
+      el.removeAttribute("data-shot-scroller");
+    }
+  }, marker.top);
   return file;
 }
 

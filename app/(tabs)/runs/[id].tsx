@@ -141,7 +141,7 @@ export default function RunDetailScreen() {
       {summary ? (
         <>
           <Text variant="heading">Headline figures</Text>
-          <HeadlineCards summary={summary} />
+          <HeadlineCards summary={summary} circuit={run.spec.circuit} />
         </>
       ) : active ? (
         <Text tone="muted">Figures appear when the run finishes.</Text>
