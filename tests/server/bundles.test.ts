@@ -1,0 +1,86 @@
+import { test } from "node:test";
+import assert from "node:assert/strict";
+import { makeTestContext, signIn } from "../helpers/test-app";
+import { launchBody, realQueue, waitForRun } from "../helpers/run-helpers";
+import { schema } from "../../db/client";
+import { eq } from "drizzle-orm";
+
+test("bundle export, import into another lab and verified reproduction", async () => {
+  const t = await makeTestContext({ queue: realQueue(1) });
+  try {
+    const editor = await signIn(t.app, "editor@example.org");
+    const labId = t.demoLab!.id;
+    const r = await editor.post(`/api/labs/${labId}/runs`).send(launchBody({ replicates: 200, seed: "bundle-seed" }));
+    const original = await waitForRun(editor, r.body.id);
+    const b = await editor.get(`/api/runs/${r.body.id}/export/bundle.json`);
+    assert.equal(b.status, 200);
+    assert.match(b.headers["content-disposition"], /attachment; filename=".*-bundle\.json"/);
+    const bundle = JSON.parse(b.text);
+    assert.equal(bundle.format, "linger-run-bundle");
+    assert.equal(bundle.spec.seed, "bundle-seed");
+    assert.equal(bundle.statsHash, original.statsHash);
+    assert.equal(bundle.runtime.node, process.versions.node);
+    assert.ok(bundle.runtime.v8);
+    assert.ok(bundle.engineVersion);
+
+    // Another lab imports it (a member of that lab, who cannot see the original).
+    const other = await signIn(t.app, "editor@example.org");
+    const lab2 = await other.post(`/api/labs`).send({ name: "Second lab" });
+    assert.equal(lab2.status, 201, JSON.stringify(lab2.body));
+    const imp = await other.post(`/api/labs/${lab2.body.lab.id}/bundles/import`).send({ bundle });
+    assert.equal(imp.status, 201, JSON.stringify(imp.body));
+    const reproduced = await waitForRun(other, imp.body.id);
+    assert.equal(reproduced.reproduction.identical, true, reproduced.reproduction.message);
+    assert.equal(reproduced.statsHash, original.statsHash);
+
+    // A tampered bundle (different seed, same expected hash) is reported as different.
+    const tampered = { ...bundle, spec: { ...bundle.spec, seed: "other-seed" } };
+    const imp2 = await other.post(`/api/labs/${lab2.body.lab.id}/bundles/import`).send({ bundle: tampered });
+    const differs = await waitForRun(other, imp2.body.id);
+    assert.equal(differs.reproduction.identical, false);
+    assert.match(differs.reproduction.message, /Differs/);
+
+    // Re-running inside the lab reports the first difference when there is one.
+    t.ctx.db.update(schema.runs).set({ expectedStatsHash: "0".repeat(64) }).where(eq(schema.runs.id, r.body.id)).run();
+    const again = await editor.post(`/api/runs/${r.body.id}/reproduce`);
+    assert.equal(again.status, 201);
+    const rerun = await waitForRun(editor, again.body.id);
+    assert.equal(rerun.reproduction.identical, true);
+
+    // Bad bundles get a 400 naming the field; nothing is stored.
+    const before = t.ctx.db.select().from(schema.runs).all().length;
+    const bad = await other.post(`/api/labs/${lab2.body.lab.id}/bundles/import`).send({ bundle: { ...bundle, format: "something-else" } });
+    assert.equal(bad.status, 400);
+    assert.match(bad.body.error.message, /format/);
+    const bad2 = await other.post(`/api/labs/${lab2.body.lab.id}/bundles/import`).send({ bundle: { ...bundle, spec: { ...bundle.spec, replicates: -1 } } });
+    assert.equal(bad2.status, 400);
+    assert.ok(bad2.body.error.fields.some((f: any) => f.path === "spec.replicates"), JSON.stringify(bad2.body.error));
+    assert.equal(t.ctx.db.select().from(schema.runs).all().length, before);
+  } finally {
+    await t.close();
+  }
+});
+
+test("matched control and comparison of a filter with its control", async () => {
+  const t = await makeTestContext({ queue: realQueue(1) });
+  try {
+    const editor = await signIn(t.app, "editor@example.org");
+    const labId = t.demoLab!.id;
+    const r = await editor.post(`/api/labs/${labId}/runs`).send(launchBody({ replicates: 200, seed: "ctl" }));
+    await waitForRun(editor, r.body.id);
+    const c = await editor.post(`/api/runs/${r.body.id}/control`);
+    assert.equal(c.status, 201, JSON.stringify(c.body));
+    assert.equal(c.body.controlOf, r.body.id);
+    assert.equal(c.body.spec.seed, "ctl");
+    const control = await waitForRun(editor, c.body.id);
+    assert.equal(control.status, "finished");
+    const cmp = await editor.post(`/api/labs/${labId}/compare`).send({ runIds: [r.body.id, c.body.id] });
+    assert.equal(cmp.status, 200, JSON.stringify(cmp.body));
+    assert.equal(cmp.body.runs.length, 2);
+    const one = await editor.post(`/api/labs/${labId}/compare`).send({ runIds: [r.body.id] });
+    assert.equal(one.status, 400);
+    assert.match(one.body.error.message, /at least two/);
+  } finally {
+    await t.close();
+  }
+});
