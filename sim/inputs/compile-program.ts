@@ -51,6 +51,8 @@ interface RawPulse {
   off: number;
   level: number;
   binned: boolean;
+  /** The duration as declared (exact); off - on can differ from it by round-off. */
+  duration?: number;
 }
 
 function sampleDuration(u: UniformSource, d: DurationDistribution): number {
@@ -70,14 +72,14 @@ export function compileProgram(
   const lvl = (l: number | undefined) => l ?? signal.onLevel;
   switch (program.kind) {
     case "pulses":
-      for (const p of program.pulses) raw.push({ on: p.start, off: p.start + p.duration, level: lvl(p.level), binned: false });
+      for (const p of program.pulses) raw.push({ on: p.start, off: p.start + p.duration, level: lvl(p.level), binned: false, duration: p.duration });
       break;
     case "periodic": {
       const max = program.count ?? PROGRAM_LIMITS.maxPulses;
       for (let i = 0; i < max; i++) {
         const on = program.start + i * (program.onDuration + program.offDuration);
         if (on >= end) break;
-        raw.push({ on, off: on + program.onDuration, level: lvl(program.level), binned: false });
+        raw.push({ on, off: on + program.onDuration, level: lvl(program.level), binned: false, duration: program.onDuration });
       }
       break;
     }
@@ -86,7 +88,7 @@ export function compileProgram(
       outer: for (const d of program.durations)
         for (let k = 0; k < program.repeats; k++) {
           if (t >= end || raw.length >= PROGRAM_LIMITS.maxPulses) break outer;
-          raw.push({ on: t, off: t + d, level: lvl(program.level), binned: false });
+          raw.push({ on: t, off: t + d, level: lvl(program.level), binned: false, duration: d });
           t += d + program.gap;
         }
       break;
@@ -103,7 +105,7 @@ export function compileProgram(
         if (d > 0) raw.push({ on: t, off: t + d, level: lvl(program.level), binned: true });
         t += sampleExponential(u, program.meanInterval);
       }
-      for (const p of program.extraPulses) raw.push({ on: p.start, off: p.start + p.duration, level: lvl(p.level), binned: false });
+      for (const p of program.extraPulses) raw.push({ on: p.start, off: p.start + p.duration, level: lvl(p.level), binned: false, duration: p.duration });
       break;
     }
   }
@@ -116,12 +118,14 @@ export function compileProgram(
       last.off = Math.max(last.off, p.off);
       last.level = Math.max(last.level, p.level);
       last.binned = last.binned || p.binned;
+      // a merged pulse has no declared duration: its own length counts
+      last.duration = undefined;
     } else merged.push({ ...p });
   }
   const pulses: CompiledPulse[] = merged.slice(0, PROGRAM_LIMITS.maxPulses).map((p) => {
     const d = p.off - p.on;
     const w = DURATION_BIN_MINUTES;
-    return { on: p.on, off: p.off, level: p.level, durationBin: p.binned ? (Math.floor(d / w) + 0.5) * w : d };
+    return { on: p.on, off: p.off, level: p.level, durationBin: p.binned ? (Math.floor(d / w) + 0.5) * w : p.duration ?? d };
   });
   const times: number[] = [];
   const levels: number[] = [];

@@ -53,3 +53,9 @@ describe("compileProgram", () => {
     assert.ok(Math.abs(mean - 3) < 4 * se, `mean ${mean}`);
   });
 });
+
+test("ladder pulses carry their declared duration exactly, whatever the round-off of off - on", () => {
+  // 0.1-step ladders accumulate floating-point error in the switch times.
+  const c = compileProgram({ kind: "ladder", start: 0.1, durations: [15.8, 0.7, 94.6], repeats: 3, gap: 33.3 }, 10_000);
+  assert.deepEqual([...new Set(c.pulses.map((p) => p.durationBin))], [15.8, 0.7, 94.6]);
+});
