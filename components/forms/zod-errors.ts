@@ -5,7 +5,9 @@ export function issuesToMap(issues: z.core.$ZodIssue[], prefix = ""): Record<str
   const out: Record<string, string> = {};
   for (const i of issues) {
     const key = prefix + i.path.map(String).join(".");
-    if (!(key in out)) out[key] = i.message;
+    if (key in out) continue;
+    // A number field holding text (NaN) gets a plain message rather than zod's type wording.
+    out[key] = i.code === "invalid_type" && (i as { expected?: string }).expected === "number" ? "Enter a number." : i.message;
   }
   return out;
 }
