@@ -13,12 +13,12 @@ import type Database from "better-sqlite3";
 import type { Db } from "../../db/client";
 import { schema } from "../../db/client";
 import type { RunSpec } from "../../shared/schemas/run-spec";
-import { chunkLayout, gridTimes, reduceChunks, resolveThreshold, solveOde } from "../../sim";
-import { summarizeRun } from "../../sim/analysis";
+import { resolve } from "node:path";
+import { Piscina } from "piscina";
+import { chunkLayout, gridTimes } from "../../sim";
 import type { SimPool } from "../workers/pool";
-import {
-  createChunkWriter, fromBlob, readChunks, readPulseRows, readReplicateRows, rowToPulseStat, speciesNames, statsHash, toBlob,
-} from "./run-store";
+import type { FinaliseResult, FinaliseTask } from "../workers/finalise-worker";
+import { createChunkWriter, readChunks, speciesNames } from "./run-store";
 
 export interface RunQueueStats {
   queuedRuns: number;
@@ -71,6 +71,8 @@ export interface RunQueueOptions {
   db: Db;
   sqlite: Database.Database;
   pool: SimPool;
+  /** The database file (the finalising worker opens it read-only); default: the open connection's file. */
+  dbPath?: string;
   /** Wall-time cap per chunk, ms (enforced in the worker). */
   chunkWallMs?: number;
   /** Called after a run reaches an end state (finished, capped, failed). */
@@ -96,6 +98,14 @@ export function createRunQueue(opts: RunQueueOptions): RunQueue {
   const { db, sqlite, pool } = opts;
   const log = opts.log ?? ((m: string) => console.log(`[queue] ${m}`));
   const writer = createChunkWriter(sqlite);
+  const dbPath = opts.dbPath ?? sqlite.name;
+  const finaliser = new Piscina({
+    filename: resolve(__dirname, "..", "workers", "finalise-worker.ts"),
+    execArgv: ["--import", "tsx"],
+    // kept warm: a cold thread (loading tsx) would delay small runs' results by a second
+    minThreads: 1,
+    maxThreads: 1,
+  });
   const events = new EventEmitter();
   events.setMaxListeners(0);
   const active = new Map<string, ActiveRun>();
@@ -278,46 +288,24 @@ export function createRunQueue(opts: RunQueueOptions): RunQueue {
   async function finalise(run: ActiveRun) {
     if (finalising.has(run.id)) return;
     finalising.add(run.id);
-    // Let the event loop answer requests between the chunk write and the heavier finalisation.
-    await new Promise((r) => setImmediate(r));
     try {
+      // Reduction, ODE, summary and hash run in a worker thread: the event loop only writes the result.
+      const r: FinaliseResult = await finaliser.run({ dbPath, runId: run.id } satisfies FinaliseTask);
+      if (r.odeNote) log(`run ${run.id}: no ODE overlay (${r.odeNote})`);
       const spec = run.spec;
-      const chunks = readChunks(db, run.id);
-      const { mean, sd } = reduceChunks(spec, chunks.map((c) => ({ gridSum: fromBlob(c.gridSum as Buffer), gridSumSq: fromBlob(c.gridSumSq as Buffer), gridCount: fromBlob(c.gridCount as Buffer) })));
-      let ode: Float64Array | null = null;
-      try {
-        ode = solveOde(spec).values;
-      } catch (e) {
-        log(`run ${run.id}: no ODE overlay (${(e as Error).message})`);
-      }
-      const threshold = resolveThreshold(spec);
-      const replicates = readReplicateRows(db, run.id);
-      const summary = summarizeRun({
-        pulses: readPulseRows(db, run.id).map(rowToPulseStat),
-        replicates: replicates.map((r) => ({ replicate: r.replicate, events: r.events, capped: r.capped, outputMean: r.outputMean ?? NaN, outputVar: r.outputVar ?? NaN })),
-        threshold,
-        noiseDurationMinutes: spec.threshold?.noiseDurationMinutes ?? 10,
-      });
-      const capped = replicates.some((r) => r.capped);
-      const n = run.gridLength;
-      const status = capped ? "capped" : "finished";
+      const status = r.capped ? "capped" : "finished";
       const stored = sqlite.transaction(() => {
         // Still ours? (cancelled or deleted while finalising)
         const cur = db.select({ status: schema.runs.status }).from(schema.runs).where(eq(schema.runs.id, run.id)).get();
         if (!cur || cur.status !== "running") return false;
         db.delete(schema.runSeries).where(eq(schema.runSeries.runId, run.id)).run();
-        run.species.forEach((name, s) => {
-          db.insert(schema.runSeries).values({ runId: run.id, species: name, kind: "mean", values: toBlob(mean.slice(s * n, (s + 1) * n)) }).run();
-          db.insert(schema.runSeries).values({ runId: run.id, species: name, kind: "sd", values: toBlob(sd.slice(s * n, (s + 1) * n)) }).run();
-          if (ode) db.insert(schema.runSeries).values({ runId: run.id, species: name, kind: "ode", values: toBlob(ode.slice(s * n, (s + 1) * n)) }).run();
-        });
-        const hash = statsHash(db, run.id);
+        for (const s of r.series) db.insert(schema.runSeries).values({ runId: run.id, species: s.species, kind: s.kind, values: Buffer.from(s.values.buffer, s.values.byteOffset, s.values.byteLength) }).run();
         db.update(schema.runs)
           .set({
             status,
-            statusReason: capped ? `Some replicates stopped at the event cap of ${spec.eventCapPerReplicate}; their figures end at the cap.` : null,
-            summary,
-            statsHash: hash,
+            statusReason: r.capped ? `Some replicates stopped at the event cap of ${spec.eventCapPerReplicate}; their figures end at the cap.` : null,
+            summary: r.summary,
+            statsHash: r.statsHash,
             finishedAt: new Date(),
           })
           .where(eq(schema.runs.id, run.id))
@@ -332,7 +320,7 @@ export function createRunQueue(opts: RunQueueOptions): RunQueue {
       notify(run.id, status);
     } catch (e) {
       active.delete(run.id);
-      markFailed(run.id, `Summarising the run failed: ${(e as Error).message}`);
+      if (!closed) markFailed(run.id, `Summarising the run failed: ${(e as Error).message}`);
     } finally {
       finalising.delete(run.id);
       pump();
@@ -396,7 +384,7 @@ export function createRunQueue(opts: RunQueueOptions): RunQueue {
       while ((finalising.size > 0 || notifying.size > 0) && Date.now() < deadline) {
         await Promise.race([Promise.allSettled([...notifying]), new Promise((r) => setTimeout(r, 50))]);
       }
-      await pool.destroy();
+      await Promise.all([pool.destroy(), finaliser.destroy()]);
       checkIdle();
     },
   };

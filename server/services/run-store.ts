@@ -120,16 +120,26 @@ export function readChunks(db: Db, runId: string) {
 
 /**
  * Content hash of the stored statistics: every replicate row and pulse row in
- * index order, and the grid mean/SD series, as canonical text. Two runs with
- * the same hash stored the same numbers.
+ * index order, and the grid mean/SD series (species order, mean then sd), as
+ * canonical text. Two runs with the same hash stored the same numbers.
  */
-export function statsHash(db: Db, runId: string): string {
+export function computeStatsHash(
+  replicates: { replicate: number; events: number; capped: boolean; outputMean: number | null; outputVar: number | null }[],
+  pulses: PulseRow[],
+  series: { species: string; kind: string; values: Uint8Array }[],
+): string {
   const h = createHash("sha256");
-  for (const r of readReplicateRows(db, runId)) h.update(canonicalReplicate(r) + "\n");
-  for (const p of readPulseRows(db, runId)) h.update(canonicalPulse(p) + "\n");
-  const series = db.select().from(schema.runSeries).where(and(eq(schema.runSeries.runId, runId))).orderBy(asc(schema.runSeries.species), asc(schema.runSeries.kind)).all();
-  for (const s of series) if (s.kind !== "ode") h.update(`${s.species}/${s.kind}:`).update(s.values as Buffer);
+  for (const r of replicates) h.update(canonicalReplicate(r) + "\n");
+  for (const p of pulses) h.update(canonicalPulse(p) + "\n");
+  const sorted = series.filter((s) => s.kind !== "ode").sort((a, b) => (a.species < b.species ? -1 : a.species > b.species ? 1 : a.kind < b.kind ? -1 : a.kind > b.kind ? 1 : 0));
+  for (const s of sorted) h.update(`${s.species}/${s.kind}:`).update(s.values);
   return h.digest("hex");
+}
+
+/** The hash of a run's stored statistics as they are in the database. */
+export function statsHash(db: Db, runId: string): string {
+  const series = db.select().from(schema.runSeries).where(eq(schema.runSeries.runId, runId)).all();
+  return computeStatsHash(readReplicateRows(db, runId), readPulseRows(db, runId), series.map((s) => ({ species: s.species, kind: s.kind, values: s.values as Buffer })));
 }
 
 export const canonicalReplicate = (r: { replicate: number; events: number; capped: boolean; outputMean: number | null; outputVar: number | null }) =>

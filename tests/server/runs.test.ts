@@ -109,8 +109,9 @@ describe("runs through the real queue and pool", () => {
       const done = await waitForRun(editor, small.body.id);
       assert.equal(done.status, "finished");
       const bigNow = (await editor.get(`/api/runs/${big.body.id}`)).body;
-      // Round-robin by chunk (100 replicates): the big run got at most a few chunks meanwhile.
-      assert.ok(bigNow.progress.replicatesDone <= 400, `big run did ${bigNow.progress.replicatesDone} replicates`);
+      // Round-robin by chunk (100 replicates): the big run got a few chunks meanwhile (first come, first served
+      // would have made the small run wait for all 100,000). The bound allows for finalising and the 100 ms polling.
+      assert.ok(bigNow.progress.replicatesDone <= 1000, `big run did ${bigNow.progress.replicatesDone} replicates`);
       await editor.post(`/api/runs/${big.body.id}/cancel`).expect(200);
     } finally {
       await t.close();

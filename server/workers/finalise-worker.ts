@@ -1,0 +1,77 @@
+/**
+ * Finalising a run off the HTTP event loop: reads the run's stored chunks and
+ * rows from SQLite (a read-only connection; WAL lets the server keep writing),
+ * reduces the grid sums in chunk order, solves the ODE overlay, summarises the
+ * pulse statistics and hashes everything. The server writes the result in one
+ * transaction.
+ */
+import Database from "better-sqlite3";
+import { drizzle } from "drizzle-orm/better-sqlite3";
+import { eq } from "drizzle-orm";
+import * as schema from "../../db/schema";
+import type { Db } from "../../db/client";
+import type { RunSpec } from "../../shared/schemas/run-spec";
+import type { RunSummary } from "../../shared/schemas/analysis";
+import { reduceChunks, resolveThreshold, solveOde, gridTimes } from "../../sim";
+import { summarizeRun } from "../../sim/analysis";
+import { computeStatsHash, fromBlob, readChunks, readPulseRows, readReplicateRows, rowToPulseStat, toBlob } from "../services/run-store";
+
+export interface FinaliseTask {
+  dbPath: string;
+  runId: string;
+}
+
+export interface FinaliseResult {
+  series: { species: string; kind: "mean" | "sd" | "ode"; values: Uint8Array }[];
+  summary: RunSummary;
+  statsHash: string;
+  capped: boolean;
+  odeNote: string | null;
+}
+
+export default function finalise(task: FinaliseTask): FinaliseResult {
+  const sqlite = new Database(task.dbPath, { readonly: true, fileMustExist: true });
+  try {
+    sqlite.pragma("busy_timeout = 5000");
+    const db = drizzle(sqlite, { schema }) as unknown as Db;
+    const run = db.select().from(schema.runs).where(eq(schema.runs.id, task.runId)).get();
+    if (!run) throw new Error(`run ${task.runId} not found`);
+    const spec = run.spec as RunSpec;
+    const chunks = readChunks(db, task.runId);
+    const { mean, sd } = reduceChunks(
+      spec,
+      chunks.map((c) => ({ gridSum: fromBlob(c.gridSum as Buffer), gridSumSq: fromBlob(c.gridSumSq as Buffer), gridCount: fromBlob(c.gridCount as Buffer) })),
+    );
+    const n = gridTimes(spec).length;
+    let ode: Float64Array | null = null;
+    let odeNote: string | null = null;
+    try {
+      ode = solveOde(spec).values;
+    } catch (e) {
+      odeNote = (e as Error).message;
+    }
+    const series: FinaliseResult["series"] = [];
+    spec.circuit.species.forEach((sp, s) => {
+      series.push({ species: sp.name, kind: "mean", values: toBlob(mean.slice(s * n, (s + 1) * n)) });
+      series.push({ species: sp.name, kind: "sd", values: toBlob(sd.slice(s * n, (s + 1) * n)) });
+      if (ode) series.push({ species: sp.name, kind: "ode", values: toBlob(ode.slice(s * n, (s + 1) * n)) });
+    });
+    const replicates = readReplicateRows(db, task.runId);
+    const pulseRows = readPulseRows(db, task.runId);
+    const summary = summarizeRun({
+      pulses: pulseRows.map(rowToPulseStat),
+      replicates: replicates.map((r) => ({ replicate: r.replicate, events: r.events, capped: r.capped, outputMean: r.outputMean ?? NaN, outputVar: r.outputVar ?? NaN })),
+      threshold: resolveThreshold(spec),
+      noiseDurationMinutes: spec.threshold?.noiseDurationMinutes ?? 10,
+    });
+    return {
+      series: series.map((s) => ({ ...s, values: new Uint8Array(s.values) })),
+      summary,
+      statsHash: computeStatsHash(replicates, pulseRows, series),
+      capped: replicates.some((r) => r.capped),
+      odeNote,
+    };
+  } finally {
+    sqlite.close();
+  }
+}
