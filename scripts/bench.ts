@@ -1,12 +1,16 @@
 /**
- * npm run bench [-- --json] [--threads N] [--replicates N]
+ * npm run bench [-- --json] [--threads N] [--replicates N] [--no-e2e] [--e2e-replicates N]
  * Without --threads: measures 1 thread and the pool (all cores). With --json the
  * last line is one JSON object: the last measurement's
  * {model, replicates, events, seconds, eventsPerSecond, threads}, plus, when
  * more than one thread count was measured, `runs` (every measurement) and
- * `scaling` (events/s of the last over the first).
+ * `scaling` (events/s of the last over the first), and `endToEnd` (scripts/bench-e2e.ts:
+ * replicates through the server's queue with everything stored, against the engine
+ * alone on the same pool, and the p95 latencies of /api/health and the run list
+ * meanwhile) unless --no-e2e.
  */
 import { runEngineBench, type EngineBenchResult } from "./bench-engine";
+import { runEndToEndBench } from "./bench-e2e";
 
 async function main() {
   const argv = process.argv.slice(2);
@@ -42,6 +46,15 @@ async function main() {
   if (results.length > 1) {
     out.runs = results;
     out.scaling = last.eventsPerSecond / results[0].eventsPerSecond;
+  }
+  if (!argv.includes("--no-e2e")) {
+    const e2e = await runEndToEndBench({ replicates: num("--e2e-replicates") ?? 10_000, threads });
+    out.endToEnd = e2e;
+    if (!json)
+      console.log(
+        `end to end (${e2e.threads} thread${e2e.threads > 1 ? "s" : ""}): ${e2e.replicates} replicates stored in ${e2e.seconds.toFixed(2)} s vs engine alone ${e2e.engineSeconds.toFixed(2)} s ` +
+          `= ${e2e.overheadRatio.toFixed(3)}x; p95 latency /api/health ${e2e.healthP95Ms.toFixed(1)} ms, run list ${e2e.listP95Ms.toFixed(1)} ms (${e2e.requests} requests)`,
+      );
   }
   if (json) console.log(JSON.stringify(out));
   else if (results.length > 1) console.log(`scaling 1 -> ${last.threads} threads: ${(out.scaling as number).toFixed(2)}x`);

@@ -1,0 +1,110 @@
+/**
+ * End-to-end benchmark: replicates of the benchmark circuit (docs/examples/
+ * benchmark.json, through the CLI's loader) launched through the API of a real
+ * server process (own free port, temporary database, no demo data), computed by
+ * the run queue with everything stored. While it computes, signed-in requests
+ * to /api/health and to the run list are sent at 10 per second each, and their
+ * latencies recorded.
+ *
+ * seconds: the server's own startedAt -> finishedAt of the run (queue, pool,
+ *   storage and finalisation).
+ * engineSeconds: the same replicates through the same engine call on a pool of
+ *   the same size, without queue, database or HTTP (runEngineBench).
+ * overheadRatio: seconds / engineSeconds (target: at most 1.15).
+ */
+import os from "node:os";
+import { loadSpecFile } from "../sim/cli/load-spec";
+import { DEFAULT_BENCH_SPEC, runEngineBench } from "./bench-engine";
+import { startServerProcess } from "./lib/spawn-server";
+
+export interface EndToEndResult {
+  replicates: number;
+  threads: number;
+  seconds: number;
+  engineSeconds: number;
+  overheadRatio: number;
+  healthP95Ms: number;
+  listP95Ms: number;
+  requests: number;
+}
+
+const p95 = (xs: number[]) => {
+  if (!xs.length) return NaN;
+  const s = [...xs].sort((a, b) => a - b);
+  return s[Math.min(s.length - 1, Math.ceil(0.95 * s.length) - 1)];
+};
+
+export async function runEndToEndBench(opts: { replicates?: number; threads?: number } = {}): Promise<EndToEndResult> {
+  const replicates = opts.replicates ?? 10_000;
+  const threads = opts.threads ?? Math.max(1, os.availableParallelism() - 1);
+  const spec = loadSpecFile(DEFAULT_BENCH_SPEC, { replicates });
+
+  let measured: { seconds: number; healthP95Ms: number; listP95Ms: number; requests: number };
+  const server = await startServerProcess({ env: { LINGER_SEED_DEMO: "0", LINGER_POOL_SIZE: String(threads), LINGER_TEST: "1" } });
+  try {
+    const base = server.url;
+    const json = { "content-type": "application/json" };
+    const email = "bench@example.org";
+    const password = "bench-password-123";
+    const up = await fetch(`${base}/api/auth/sign-up`, { method: "POST", headers: json, body: JSON.stringify({ email, password, displayName: "Bench" }) });
+    if (!up.ok) throw new Error(`sign-up failed: ${up.status} ${await up.text()}`);
+    const si = await fetch(`${base}/api/auth/sign-in`, { method: "POST", headers: json, body: JSON.stringify({ email, password }) });
+    if (!si.ok) throw new Error(`sign-in failed: ${si.status}`);
+    const cookie = (si.headers.get("set-cookie") ?? "").split(";")[0];
+    const me = await (await fetch(`${base}/api/me`, { headers: { cookie } })).json();
+    const labId = me.labs[0].id;
+
+    const launch = await fetch(`${base}/api/labs/${labId}/runs`, {
+      method: "POST",
+      headers: { ...json, cookie },
+      body: JSON.stringify({
+        name: "benchmark",
+        circuit: spec.circuit,
+        program: spec.program,
+        inputSignal: spec.inputSignal,
+        settings: { ...spec, circuit: undefined, program: undefined, inputSignal: undefined },
+      }),
+    });
+    if (launch.status !== 201) throw new Error(`launch failed: ${launch.status} ${await launch.text()}`);
+    const runId = (await launch.json()).id;
+
+    const health: number[] = [];
+    const list: number[] = [];
+    const timed = async (url: string, into: number[]) => {
+      const t0 = performance.now();
+      const r = await fetch(url, { headers: { cookie } });
+      await r.arrayBuffer();
+      into.push(performance.now() - t0);
+    };
+    let done = false;
+    const load = (async () => {
+      // 10 requests per second to each endpoint, bounded by the run's end (and by a hard count).
+      for (let i = 0; !done && i < 100_000; i++) {
+        const tick = performance.now();
+        await Promise.all([timed(`${base}/api/health`, health), timed(`${base}/api/labs/${labId}/runs`, list)]);
+        const wait = 100 - (performance.now() - tick);
+        if (wait > 0) await new Promise((r) => setTimeout(r, wait));
+      }
+    })();
+    let run: any;
+    for (;;) {
+      run = await (await fetch(`${base}/api/runs/${runId}`, { headers: { cookie } })).json();
+      if (!["queued", "running"].includes(run.status)) break;
+      await new Promise((r) => setTimeout(r, 200));
+    }
+    done = true;
+    await load;
+    if (run.status !== "finished") throw new Error(`run ended ${run.status}: ${run.statusReason}`);
+    measured = {
+      seconds: (Date.parse(run.finishedAt) - Date.parse(run.startedAt)) / 1000,
+      healthP95Ms: p95(health),
+      listP95Ms: p95(list),
+      requests: health.length + list.length,
+    };
+  } finally {
+    await server.stop();
+  }
+  // The engine alone, after the server has stopped, on a pool of the same size.
+  const [engine] = await runEngineBench({ threads: [threads], replicates });
+  return { replicates, threads, ...measured, engineSeconds: engine.seconds, overheadRatio: measured.seconds / engine.seconds };
+}
