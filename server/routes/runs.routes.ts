@@ -8,7 +8,7 @@ import { NameSchema, CircuitSchema } from "../../shared/schemas/circuit";
 import { InputProgramSchema } from "../../shared/schemas/input-program";
 import * as runs from "../services/runs.service";
 import * as bundles from "../services/bundles.service";
-import { compareLabRuns, createMatchedControl } from "../services/analysis.service";
+import { accelerationFor, compareLabRuns, createMatchedControl } from "../services/analysis.service";
 import { byDurationCsv, pulseStatsCsv, replicateStatsCsv, summaryCsv } from "../../sim/analysis";
 import { readPulseRows, readReplicateRows, rowToPulseStat } from "../services/run-store";
 import { conflict } from "../http-error";
@@ -91,7 +91,11 @@ export const runRoutes = defineRoutes([
     path: "/runs/:id",
     access: { kind: "object", resource: "run", role: "viewer" },
     summary: "Run detail: status, progress, settings, summary figures, reproduction check.",
-    handler: ({ ctx, params }) => ({ ...runs.runDetail(ctx, params.id), reproduction: bundles.reproductionStatus(ctx, params.id) }),
+    handler: ({ ctx, params }) => ({
+      ...runs.runDetail(ctx, params.id),
+      reproduction: bundles.reproductionStatus(ctx, params.id),
+      acceleration: accelerationFor(ctx, params.id),
+    }),
   },
   {
     method: "get",

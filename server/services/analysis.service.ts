@@ -2,12 +2,12 @@
  * Analysis actions over stored runs: comparisons of two to four runs, the
  * matched simple-regulation control.
  */
-import { and, eq, inArray } from "drizzle-orm";
+import { and, desc, eq, inArray, isNull } from "drizzle-orm";
 import type { AppContext } from "../context";
 import { schema } from "../../db/client";
 import type { RunSpec } from "../../shared/schemas/run-spec";
 import type { RunSummary } from "../../shared/schemas/analysis";
-import { compareRuns, delaysOf, widthsOf, makeMatchedControl } from "../../sim/analysis";
+import { accelerationFigures, compareRuns, delaysOf, widthsOf, makeMatchedControl } from "../../sim/analysis";
 import { badRequest, conflict, notFound } from "../http-error";
 import { checkLimits, getRunRow, insertRun } from "./runs.service";
 import { readPulseRows, rowToPulseStat } from "./run-store";
@@ -50,3 +50,25 @@ export function createMatchedControl(ctx: AppContext, runId: string, userId: str
   return id;
 }
 
+
+/**
+ * Acceleration and delay against the matched control, when the run has a
+ * finished control (or is one): T1/2 ratio and median delays, circuit minus control.
+ */
+export function accelerationFor(ctx: AppContext, runId: string) {
+  const row = getRunRow(ctx, runId);
+  const pair = row.controlOf
+    ? { circuit: ctx.db.select().from(schema.runs).where(eq(schema.runs.id, row.controlOf)).get(), control: row }
+    : { circuit: row, control: ctx.db.select().from(schema.runs).where(and(eq(schema.runs.controlOf, row.id), isNull(schema.runs.deletedAt))).orderBy(desc(schema.runs.createdAt)).get() };
+  if (!pair.circuit?.summary || !pair.control?.summary) return null;
+  return {
+    circuitRunId: pair.circuit.id,
+    controlRunId: pair.control.id,
+    ...accelerationFigures({
+      circuitSpec: pair.circuit.spec as RunSpec,
+      circuitSummary: pair.circuit.summary as RunSummary,
+      controlSpec: pair.control.spec as RunSpec,
+      controlSummary: pair.control.summary as RunSummary,
+    }),
+  };
+}

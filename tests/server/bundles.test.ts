@@ -74,6 +74,12 @@ test("matched control and comparison of a filter with its control", async () => 
     assert.equal(c.body.spec.seed, "ctl");
     const control = await waitForRun(editor, c.body.id);
     assert.equal(control.status, "finished");
+    // Both runs now report the acceleration figures of the pair.
+    const detail = (await editor.get(`/api/runs/${r.body.id}`)).body;
+    assert.equal(detail.acceleration.controlRunId, c.body.id);
+    assert.equal(control.acceleration.circuitRunId, r.body.id);
+    // The coherent AND filter responds more slowly than plain regulation (domain notes, section 2: sign-sensitive delay).
+    assert.ok(detail.acceleration.halfRiseRatio < 1, `T1/2 ratio ${detail.acceleration.halfRiseRatio}`);
     const cmp = await editor.post(`/api/labs/${labId}/compare`).send({ runIds: [r.body.id, c.body.id] });
     assert.equal(cmp.status, 200, JSON.stringify(cmp.body));
     assert.equal(cmp.body.runs.length, 2);
