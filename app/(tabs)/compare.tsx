@@ -24,13 +24,15 @@ export function pairSentences(cmp: Comparison, pair: ComparisonPair): string[] {
   const name = (id: string) => cmp.runs.find((r) => r.id === id)?.name ?? id;
   const a = name(pair.a);
   const b = name(pair.b);
+  // The server states its findings in plain words; use them when present.
+  if (pair.flags.length) return pair.flags;
   const out: string[] = [];
   const d = pair.delays;
   if (d.withinNoise === null) out.push(`Response delays of ${a} and ${b} could not be tested (too few responses).`);
   else if (d.withinNoise) out.push(`Response delays of ${a} and ${b} do not differ beyond noise (Kolmogorov-Smirnov and Mann-Whitney, Holm-adjusted, both p ≥ 0.05).`);
   else
     out.push(
-      `Response delays differ: median ${formatNumber(d.medianA)} min for ${a} against ${formatNumber(d.medianB)} min for ${b}` +
+      `Response delays differ` + (d.medianA !== null && d.medianB !== null ? `: median ${formatNumber(d.medianA)} min for ${a} against ${formatNumber(d.medianB)} min for ${b}` : ` between ${a} and ${b}`) +
         (d.mannWhitney ? ` (Mann-Whitney ${pval(d.mannWhitney.pHolm)} after Holm adjustment).` : "."),
     );
   const w = pair.widths;
@@ -39,7 +41,6 @@ export function pairSentences(cmp: Comparison, pair: ComparisonPair): string[] {
   if (diffs.length === 0 && pair.passDifferences.length) out.push(`Pass probabilities do not differ beyond noise at any duration (Fisher's exact test, Holm-adjusted).`);
   for (const p of diffs)
     out.push(`At ${formatNumber(p.duration)} min, ${a} passes ${pct(p.passProbabilityA)} of pulses against ${pct(p.passProbabilityB)} for ${b} (Fisher ${pval(p.pHolm)}, Holm-adjusted).`);
-  out.push(...pair.flags);
   return out;
 }
 
