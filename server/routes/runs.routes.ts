@@ -1,11 +1,11 @@
 /** Runs: launch, list, detail, progress (polling or server-sent events), cancel, archive, delete with undo, data and exports. */
 import { z } from "zod";
 import { eq } from "drizzle-orm";
-import { defineRoutes } from "./route-table";
+import { defineRoutes, type RouteDef } from "./route-table";
+import type { AppContext } from "../context";
+import type { RunSummary } from "../../shared/schemas/analysis";
 import { schema } from "../../db/client";
-import { LaunchRunSchema, PatchRunSchema, ReplicateQuerySchema, RunSettingsSchema, CompareRequestSchema } from "../../shared/schemas/api-runs";
-import { NameSchema, CircuitSchema } from "../../shared/schemas/circuit";
-import { InputProgramSchema } from "../../shared/schemas/input-program";
+import { LaunchRunSchema, PatchRunSchema, ReplicateQuerySchema, RunInputsCheckedSchema, CompareRequestSchema } from "../../shared/schemas/api-runs";
 import * as runs from "../services/runs.service";
 import * as bundles from "../services/bundles.service";
 import { accelerationFor, compareLabRuns, createMatchedControl } from "../services/analysis.service";
@@ -14,22 +14,31 @@ import { readPulseRows, readReplicateRows, rowToPulseStat } from "../services/ru
 import { conflict } from "../http-error";
 import { recordAudit } from "../services/audit.service";
 
-const EstimateBodySchema = z.object({
-  circuitId: z.string().optional(),
-  circuitVersion: z.number().int().min(1).optional(),
-  circuit: CircuitSchema.optional(),
-  programId: z.string().optional(),
-  program: InputProgramSchema.optional(),
-  inputSignal: NameSchema.optional(),
-  settings: RunSettingsSchema,
-});
-
 const csvName = (name: string) => name.replace(/[^A-Za-z0-9_.-]+/g, "-").replace(/^-+|-+$/g, "").slice(0, 60) || "run";
 
-function sendFile(res: any, type: string, fileName: string, text: string) {
-  res.setHeader("Content-Type", type);
-  res.setHeader("Content-Disposition", `attachment; filename="${fileName}"`);
-  res.send(text);
+type RunRow = ReturnType<typeof runs.getRunRow>;
+
+const finishedSummary = (row: RunRow): RunSummary => {
+  if (!row.summary) throw conflict("The run has no results yet.", "not_finished");
+  return row.summary as RunSummary;
+};
+
+/** A download of one of the run's exports: GET /runs/:id/export/<file>, named after the run. */
+function exportRoute(file: string, summary: string, make: (ctx: AppContext, row: RunRow) => { suffix: string; text: string }): RouteDef {
+  return {
+    method: "get",
+    path: `/runs/:id/export/${file}`,
+    access: { kind: "object", resource: "run", role: "viewer" },
+    summary,
+    handler: ({ ctx, params, res }) => {
+      const row = runs.getRunRow(ctx, params.id);
+      const { suffix, text } = make(ctx, row);
+      res.setHeader("Content-Type", suffix.endsWith(".csv") ? "text/csv; charset=utf-8" : "application/json");
+      res.setHeader("Content-Disposition", `attachment; filename="${csvName(row.name)}-${suffix}"`);
+      res.send(text);
+      return undefined;
+    },
+  };
 }
 
 export const runRoutes = defineRoutes([
@@ -58,7 +67,7 @@ export const runRoutes = defineRoutes([
     method: "post",
     path: "/labs/:labId/runs/estimate",
     access: { kind: "lab", role: "viewer" },
-    body: EstimateBodySchema,
+    body: RunInputsCheckedSchema,
     summary: "Cost estimate before launch: events from the ODE path times replicates.",
     handler: ({ ctx, labId, body }) => {
       const spec = runs.buildSpec(runs.resolveInputs(ctx, labId, body), { ...body.settings, seed: body.settings.seed ?? "estimate" });
@@ -211,76 +220,27 @@ export const runRoutes = defineRoutes([
     summary: "Per-replicate, per-pulse statistics, sorted and paged.",
     handler: ({ ctx, params, query }) => runs.replicatePage(ctx, params.id, query),
   },
-  {
-    method: "get",
-    path: "/runs/:id/export/replicates.csv",
-    access: { kind: "object", resource: "run", role: "viewer" },
-    summary: "CSV of every (replicate, input pulse) row.",
-    handler: ({ ctx, params, res }) => {
-      const row = runs.getRunRow(ctx, params.id);
-      sendFile(res, "text/csv; charset=utf-8", `${csvName(row.name)}-pulses.csv`, pulseStatsCsv(readPulseRows(ctx.db, params.id).map(rowToPulseStat)));
-      return undefined;
-    },
-  },
-  {
-    method: "get",
-    path: "/runs/:id/export/replicate-totals.csv",
-    access: { kind: "object", resource: "run", role: "viewer" },
-    summary: "CSV of per-replicate totals: events, cap, output mean and variance, pass fraction, median delay and width.",
-    handler: ({ ctx, params, res }) => {
-      const row = runs.getRunRow(ctx, params.id);
-      const pulses = readPulseRows(ctx.db, params.id).map(rowToPulseStat);
-      const reps = readReplicateRows(ctx.db, params.id).map((r) => ({ replicate: r.replicate, events: r.events, capped: r.capped, outputMean: r.outputMean ?? NaN, outputVar: r.outputVar ?? NaN }));
-      sendFile(res, "text/csv; charset=utf-8", `${csvName(row.name)}-replicates.csv`, replicateStatsCsv(pulses, reps));
-      return undefined;
-    },
-  },
-  {
-    method: "get",
-    path: "/runs/:id/export/aggregates.csv",
-    access: { kind: "object", resource: "run", role: "viewer" },
-    summary: "CSV of the aggregates per input pulse duration, then the run's headline figures.",
-    handler: ({ ctx, params, res }) => {
-      const row = runs.getRunRow(ctx, params.id);
-      if (!row.summary) throw conflict("The run has no results yet.", "not_finished");
-      sendFile(res, "text/csv; charset=utf-8", `${csvName(row.name)}-aggregates.csv`, byDurationCsv(row.summary as any));
-      return undefined;
-    },
-  },
-  {
-    method: "get",
-    path: "/runs/:id/export/headline.csv",
-    access: { kind: "object", resource: "run", role: "viewer" },
-    summary: "CSV of the run's headline figures (threshold, d50, false-pass rate, delays, noise).",
-    handler: ({ ctx, params, res }) => {
-      const row = runs.getRunRow(ctx, params.id);
-      if (!row.summary) throw conflict("The run has no results yet.", "not_finished");
-      sendFile(res, "text/csv; charset=utf-8", `${csvName(row.name)}-headline.csv`, summaryCsv(row.summary as any));
-      return undefined;
-    },
-  },
-  {
-    method: "get",
-    path: "/runs/:id/export/summary.json",
-    access: { kind: "object", resource: "run", role: "viewer" },
-    summary: "The JSON summary of the run.",
-    handler: ({ ctx, params, res }) => {
-      const d = runs.runDetail(ctx, params.id);
-      sendFile(res, "application/json", `${csvName(d.name)}-summary.json`, JSON.stringify({ id: d.id, name: d.name, status: d.status, seed: d.seed, engineVersion: d.engineVersion, threshold: d.threshold, summary: d.summary }, null, 2));
-      return undefined;
-    },
-  },
-  {
-    method: "get",
-    path: "/runs/:id/export/bundle.json",
-    access: { kind: "object", resource: "run", role: "viewer" },
-    summary: "The reproduction bundle: circuit, program, settings, seed, engine, Node and V8 versions, statistics hash.",
-    handler: ({ ctx, params, res }) => {
-      const b = bundles.makeBundle(ctx, params.id);
-      sendFile(res, "application/json", `${csvName(b.name)}-bundle.json`, JSON.stringify(b, null, 2));
-      return undefined;
-    },
-  },
+  exportRoute("replicates.csv", "CSV of every (replicate, input pulse) row.", (ctx, row) => ({
+    suffix: "pulses.csv",
+    text: pulseStatsCsv(readPulseRows(ctx.db, row.id).map(rowToPulseStat)),
+  })),
+  exportRoute("replicate-totals.csv", "CSV of per-replicate totals: events, cap, output mean and variance, pass fraction, median delay and width.", (ctx, row) => ({
+    suffix: "replicates.csv",
+    text: replicateStatsCsv(
+      readPulseRows(ctx.db, row.id).map(rowToPulseStat),
+      readReplicateRows(ctx.db, row.id).map((r) => ({ replicate: r.replicate, events: r.events, capped: r.capped, outputMean: r.outputMean ?? NaN, outputVar: r.outputVar ?? NaN })),
+    ),
+  })),
+  exportRoute("aggregates.csv", "CSV of the aggregates per input pulse duration.", (_ctx, row) => ({ suffix: "aggregates.csv", text: byDurationCsv(finishedSummary(row)) })),
+  exportRoute("headline.csv", "CSV of the run's headline figures (threshold, d50, false-pass rate, delays, noise).", (_ctx, row) => ({ suffix: "headline.csv", text: summaryCsv(finishedSummary(row)) })),
+  exportRoute("summary.json", "The JSON summary of the run.", (ctx, row) => {
+    const d = runs.runDetail(ctx, row.id);
+    return { suffix: "summary.json", text: JSON.stringify({ id: d.id, name: d.name, status: d.status, seed: d.seed, engineVersion: d.engineVersion, threshold: d.threshold, summary: d.summary }, null, 2) };
+  }),
+  exportRoute("bundle.json", "The reproduction bundle: circuit, program, settings, seed, engine, Node and V8 versions, statistics hash.", (ctx, row) => ({
+    suffix: "bundle.json",
+    text: JSON.stringify(bundles.makeBundle(ctx, row.id), null, 2),
+  })),
   {
     method: "post",
     path: "/runs/:id/reproduce",

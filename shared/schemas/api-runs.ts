@@ -29,23 +29,32 @@ export const RunSettingsSchema = RunSpecSchema.omit({ circuit: true, program: tr
 export type RunSettings = z.infer<typeof RunSettingsSchema>;
 export type RunSettingsInput = z.input<typeof RunSettingsSchema>;
 
-export const LaunchRunSchema = z
-  .object({
+/** What a run computes: a stored circuit (current version unless circuitVersion) or an inline one, a stored or inline program, and settings. */
+export const RunInputsSchema = z.object({
+  circuitId: z.string().optional(),
+  circuitVersion: z.number().int().min(1).optional(),
+  circuit: CircuitSchema.optional(),
+  programId: z.string().optional(),
+  program: InputProgramSchema.optional(),
+  /** The signal the program drives; default: the circuit's first signal. */
+  inputSignal: NameSchema.optional(),
+  settings: RunSettingsSchema,
+});
+export type RunInputs = z.infer<typeof RunInputsSchema>;
+
+const oneOfEach = <T extends z.ZodType<RunInputs>>(schema: T) =>
+  schema
+    .refine((v) => !!v.circuitId !== !!v.circuit, { message: "give either circuitId or circuit", path: ["circuitId"] })
+    .refine((v) => !!v.programId !== !!v.program, { message: "give either programId or program", path: ["programId"] });
+
+export const RunInputsCheckedSchema = oneOfEach(RunInputsSchema);
+
+export const LaunchRunSchema = oneOfEach(
+  RunInputsSchema.extend({
     name: z.string().trim().min(1, "name must not be empty").max(120),
     notes: z.string().max(5000).default(""),
-    /** A stored circuit (current version unless circuitVersion) or an inline circuit. */
-    circuitId: z.string().optional(),
-    circuitVersion: z.number().int().min(1).optional(),
-    circuit: CircuitSchema.optional(),
-    /** A stored input program or an inline one. */
-    programId: z.string().optional(),
-    program: InputProgramSchema.optional(),
-    /** The signal the program drives; default: the circuit's first signal. */
-    inputSignal: NameSchema.optional(),
-    settings: RunSettingsSchema,
-  })
-  .refine((v) => !!v.circuitId !== !!v.circuit, { message: "give either circuitId or circuit", path: ["circuitId"] })
-  .refine((v) => !!v.programId !== !!v.program, { message: "give either programId or program", path: ["programId"] });
+  }),
+);
 export type LaunchRun = z.infer<typeof LaunchRunSchema>;
 export type LaunchRunInput = z.input<typeof LaunchRunSchema>;
 
@@ -151,15 +160,7 @@ export const SweepAxisSchema = z
 
 export const LaunchSweepSchema = z.object({
   name: z.string().trim().min(1).max(120),
-  base: z.object({
-    circuitId: z.string().optional(),
-    circuitVersion: z.number().int().min(1).optional(),
-    circuit: CircuitSchema.optional(),
-    programId: z.string().optional(),
-    program: InputProgramSchema.optional(),
-    inputSignal: NameSchema.optional(),
-    settings: RunSettingsSchema,
-  }),
+  base: RunInputsCheckedSchema,
   axes: z.array(SweepAxisSchema).min(1, "sweep one or two parameters").max(2, "sweep one or two parameters"),
 });
 export type LaunchSweep = z.infer<typeof LaunchSweepSchema>;
