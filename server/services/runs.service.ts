@@ -11,6 +11,7 @@ import { RunSpecSchema, type RunSpec } from "../../shared/schemas/run-spec";
 import { API_LIMITS, type LaunchRun, type RunDetail, type RunListItem, type RunSeries, type RunSettings } from "../../shared/schemas/api-runs";
 import type { Circuit } from "../../shared/schemas/circuit";
 import type { InputProgram } from "../../shared/schemas/input-program";
+import type { RunSummary } from "../../shared/schemas/analysis";
 import { ENGINE_VERSION, chunkLayout, compileProgram, estimateEvents, gridTimes, resolveThreshold, validateCircuit } from "../../sim";
 import { badRequest, conflict, notFound, tooMany } from "../http-error";
 import { parseOr400 } from "../middleware/validate";
@@ -154,6 +155,18 @@ export function getRunRow(ctx: AppContext, id: string): RunRow {
   return row;
 }
 
+/** The figures a phone glance needs: d50, false-pass rate, median delay, and the pass probability at the longest pulse. */
+function headlineOf(s: RunSummary): NonNullable<RunListItem["headline"]> {
+  const longest = s.byDuration?.length ? s.byDuration[s.byDuration.length - 1] : null;
+  return {
+    d50: s.d50 ?? null,
+    falsePassRate: s.falsePassRate ?? null,
+    medianDelay: s.delay?.median ?? null,
+    longestDuration: longest?.duration ?? null,
+    passAtLongest: longest?.passProbability ?? null,
+  };
+}
+
 const iso = (d: Date | null | undefined) => (d ? d.toISOString() : null);
 
 function userNames(ctx: AppContext, ids: (string | null)[]): Map<string, string> {
@@ -174,9 +187,17 @@ function progressView(ctx: AppContext, row: RunRow) {
   };
 }
 
-export function toListItem(ctx: AppContext, row: RunRow, names: Map<string, string>): RunListItem {
+function programNames(ctx: AppContext, ids: (string | null)[]): Map<string, string> {
+  const want = [...new Set(ids.filter((x): x is string => !!x))];
+  if (!want.length) return new Map();
+  return new Map(ctx.db.select({ id: schema.inputPrograms.id, name: schema.inputPrograms.name }).from(schema.inputPrograms).where(inArray(schema.inputPrograms.id, want)).all().map((p) => [p.id, p.name]));
+}
+
+const PROGRAM_KIND_LABEL: Record<string, string> = { pulses: "pulse list", periodic: "periodic train", ladder: "duration ladder", random: "random train" };
+
+export function toListItem(ctx: AppContext, row: RunRow, names: Map<string, string>, programs: Map<string, string> = programNames(ctx, [row.programId])): RunListItem {
   const spec = row.spec as RunSpec;
-  const s = row.summary as any;
+  const s = row.summary as RunSummary | null;
   return {
     id: row.id,
     labId: row.labId,
@@ -186,7 +207,7 @@ export function toListItem(ctx: AppContext, row: RunRow, names: Map<string, stri
     replicates: row.replicates,
     seed: row.seed,
     circuitName: spec.circuit.name,
-    programName: (spec.program as any).name ?? spec.program.kind,
+    programName: (row.programId && programs.get(row.programId)) || `inline ${PROGRAM_KIND_LABEL[spec.program.kind] ?? spec.program.kind}`,
     sweepId: row.sweepId,
     controlOf: row.controlOf,
     progress: progressView(ctx, row),
@@ -194,7 +215,7 @@ export function toListItem(ctx: AppContext, row: RunRow, names: Map<string, stri
     finishedAt: iso(row.finishedAt),
     archived: !!row.archivedAt,
     createdBy: row.createdBy ? names.get(row.createdBy) ?? null : null,
-    headline: s ? { d50: s.d50 ?? null, falsePassRate: s.falsePassRate ?? null, medianDelay: s.delay?.median ?? s.medianDelay ?? null } : null,
+    headline: s ? headlineOf(s) : null,
   };
 }
 
@@ -211,7 +232,8 @@ export function listRuns(ctx: AppContext, labId: string, q: { archived?: boolean
     .limit(Math.min(q.limit ?? 200, 500))
     .all();
   const names = userNames(ctx, rows.map((r) => r.createdBy));
-  return rows.map((r) => toListItem(ctx, r, names));
+  const programs = programNames(ctx, rows.map((r) => r.programId));
+  return rows.map((r) => toListItem(ctx, r, names, programs));
 }
 
 export function runDetail(ctx: AppContext, id: string): RunDetail {

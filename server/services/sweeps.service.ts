@@ -7,7 +7,7 @@
 import { and, asc, count, eq, inArray, isNull } from "drizzle-orm";
 import type { AppContext } from "../context";
 import { schema } from "../../db/client";
-import { API_LIMITS, type LaunchSweep } from "../../shared/schemas/api-runs";
+import { API_LIMITS, type LaunchSweep, type SweepDetail, type SweepListItem } from "../../shared/schemas/api-runs";
 import type { RunSpec } from "../../shared/schemas/run-spec";
 import { listParameters, setParameter } from "../../sim";
 import { badRequest, conflict, notFound, tooMany } from "../http-error";
@@ -114,7 +114,7 @@ export function resumeSweep(ctx: AppContext, sweepId: string) {
   ctx.queue.kick();
 }
 
-export function sweepDetail(ctx: AppContext, sweepId: string) {
+export function sweepDetail(ctx: AppContext, sweepId: string): SweepDetail {
   const sweep = ctx.db.select().from(schema.sweeps).where(eq(schema.sweeps.id, sweepId)).get();
   if (!sweep) throw notFound("That sweep");
   const runs = ctx.db.select().from(schema.runs).where(eq(schema.runs.sweepId, sweepId)).orderBy(asc(schema.runs.sweepPoint)).all();
@@ -164,7 +164,7 @@ export function sweepDetail(ctx: AppContext, sweepId: string) {
   };
 }
 
-export function listSweeps(ctx: AppContext, labId: string) {
+export function listSweeps(ctx: AppContext, labId: string): SweepListItem[] {
   const rows = ctx.db.select().from(schema.sweeps).where(and(eq(schema.sweeps.labId, labId), isNull(schema.sweeps.deletedAt))).orderBy(asc(schema.sweeps.createdAt)).all();
   return rows.reverse().map((s) => {
     const done = ctx.db.select({ n: count() }).from(schema.runs).where(and(eq(schema.runs.sweepId, s.id), inArray(schema.runs.status, ["finished", "capped", "failed", "cancelled"]))).get()!.n;

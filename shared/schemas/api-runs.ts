@@ -86,7 +86,14 @@ export const RunListItemSchema = z.object({
   createdBy: z.string().nullable(),
   /** A few headline figures for lists and phone glances. */
   headline: z
-    .object({ d50: z.number().nullable(), falsePassRate: z.number().nullable(), medianDelay: z.number().nullable() })
+    .object({
+      d50: z.number().nullable(),
+      falsePassRate: z.number().nullable(),
+      medianDelay: z.number().nullable(),
+      /** The longest input pulse duration and its pass probability. */
+      longestDuration: z.number().nullable(),
+      passAtLongest: z.number().nullable(),
+    })
     .nullable(),
 });
 export type RunListItem = z.infer<typeof RunListItemSchema>;
@@ -165,3 +172,53 @@ export const LaunchSweepSchema = z.object({
 });
 export type LaunchSweep = z.infer<typeof LaunchSweepSchema>;
 export type LaunchSweepInput = z.input<typeof LaunchSweepSchema>;
+
+export const SweepPointSchema = z.object({
+  index: z.number(),
+  runId: z.string(),
+  status: z.enum(RUN_STATUS),
+  /** Parameter reference -> value at this point. */
+  values: z.record(z.string(), z.number()),
+  replicatesDone: z.number(),
+  figures: z
+    .object({
+      d50: z.number().nullable(),
+      falsePassRate: z.number().nullable(),
+      medianDelay: z.number().nullable(),
+      /** Duration (minutes, as text) -> pass probability. */
+      passByDuration: z.record(z.string(), z.number().nullable()),
+      peak: z.number().nullable(),
+      fano: z.number().nullable(),
+    })
+    .nullable(),
+});
+export type SweepPoint = z.infer<typeof SweepPointSchema>;
+
+export const SweepDetailSchema = z.object({
+  id: z.string(),
+  labId: z.string(),
+  name: z.string(),
+  status: z.enum(RUN_STATUS),
+  statusReason: z.string().nullable(),
+  axes: z.array(z.object({ parameter: z.string(), values: z.array(z.number()) })),
+  pointCount: z.number(),
+  pointsDone: z.number(),
+  replicatesPerPoint: z.number(),
+  createdAt: z.string(),
+  finishedAt: z.string().nullable(),
+  baseSpec: RunSpecSchema,
+  points: z.array(SweepPointSchema),
+});
+export type SweepDetail = z.infer<typeof SweepDetailSchema>;
+
+export const SweepListItemSchema = z.object({
+  id: z.string(),
+  name: z.string(),
+  status: z.enum(RUN_STATUS),
+  pointCount: z.number(),
+  pointsDone: z.number(),
+  /** The swept parameter references. */
+  axes: z.array(z.string()),
+  createdAt: z.string(),
+});
+export type SweepListItem = z.infer<typeof SweepListItemSchema>;

@@ -16,6 +16,11 @@ test("demo seeding queues the two demo runs once; they finish and can be compare
     for (const d of done) assert.equal(d.status, "finished", d.statusReason);
     // the ladder's seven durations appear in both runs' filter curves
     for (const d of done) assert.deepEqual(d.summary.byDuration.map((b: any) => b.duration), [1, 2, 5, 10, 20, 40, 80]);
+    const list = (await viewer.get(`/api/labs/${t.demoLab!.id}/runs`)).body;
+    for (const item of list) {
+      assert.equal(item.programName, "Duration ladder");
+      assert.equal(item.headline.longestDuration, 80);
+    }
     const cmp = await viewer.post(`/api/labs/${t.demoLab!.id}/compare`).send({ runIds: runs.map((r) => r.id) });
     assert.equal(cmp.status, 200, JSON.stringify(cmp.body));
   } finally {

@@ -4,6 +4,7 @@ import { eq } from "drizzle-orm";
 import { makeTestContext, signIn } from "../helpers/test-app";
 import { launchBody, realQueue, waitForRun } from "../helpers/run-helpers";
 import { schema } from "../../db/client";
+import { ReplicatePageSchema, RunDetailSchema, RunListItemSchema, RunSeriesSchema } from "../../shared/schemas/api-runs";
 
 describe("runs through the real queue and pool", () => {
   test("launch, progress, finish: statistics, series and exports are stored", async () => {
@@ -19,18 +20,22 @@ describe("runs through the real queue and pool", () => {
       assert.equal(done.progress.replicatesDone, 150);
       assert.ok(done.eventsTotal > 0);
       assert.match(done.statsHash, /^[0-9a-f]{64}$/);
+      // responses keep the shared contract the web app parses them with
+      RunDetailSchema.parse(done);
       // the 5 and 60 min pulses appear in the per-duration figures
       assert.deepEqual(done.summary.byDuration.map((b: any) => b.duration), [5, 60]);
       const rows = t.ctx.db.select().from(schema.pulseStats).where(eq(schema.pulseStats.runId, r.body.id)).all();
       assert.equal(rows.length, 150 * 2);
       const series = await editor.get(`/api/runs/${r.body.id}/series`);
       assert.equal(series.status, 200);
+      RunSeriesSchema.parse(series.body);
       assert.equal(series.body.times.length, 451);
       assert.equal(series.body.trajectories.length, 20);
       assert.equal(series.body.species.find((s: any) => s.name === "rptC").mean.length, 451);
       assert.ok(series.body.species[0].ode, "ODE overlay stored");
       const page = await editor.get(`/api/runs/${r.body.id}/replicates?sort=delay&dir=desc&page=2&pageSize=10`);
       assert.equal(page.status, 200);
+      ReplicatePageSchema.parse(page.body);
       assert.equal(page.body.total, 300);
       assert.equal(page.body.rows.length, 10);
       const csv = await editor.get(`/api/runs/${r.body.id}/export/replicates.csv`);
@@ -41,6 +46,8 @@ describe("runs through the real queue and pool", () => {
       // the run list shows it with headline figures
       const list = await editor.get(`/api/labs/${labId}/runs`);
       assert.equal(list.body[0].id, r.body.id);
+      RunListItemSchema.parse(list.body[0]);
+      assert.equal(list.body[0].programName, "inline duration ladder");
     } finally {
       await t.close();
     }

@@ -2,6 +2,7 @@ import { test } from "node:test";
 import assert from "node:assert/strict";
 import { makeTestContext, signIn } from "../helpers/test-app";
 import { launchBody, realQueue } from "../helpers/run-helpers";
+import { SweepDetailSchema, SweepListItemSchema } from "../../shared/schemas/api-runs";
 
 async function waitSweep(agent: any, id: string, timeoutMs = 180_000) {
   const t0 = Date.now();
@@ -30,6 +31,8 @@ test("a one-parameter sweep computes every point with its own seed and stores pe
     assert.deepEqual(r.body.axes[0].values.map((v: number) => Math.round(v)), [25, 100, 400]);
     const done = await waitSweep(editor, r.body.id);
     assert.equal(done.status, "finished");
+    SweepDetailSchema.parse(done);
+    SweepListItemSchema.parse((await editor.get(`/api/labs/${labId}/sweeps`)).body[0]);
     assert.equal(done.points.length, 3);
     for (const p of done.points) assert.ok(p.figures, "figures stored for each point");
     // A larger half-max for the hold factor makes passing harder: the 60-min pass probability does not rise.
