@@ -3,6 +3,7 @@ import { z } from "zod";
 import { CircuitSchema, NameSchema, ParameterRefSchema } from "./circuit";
 import { InputProgramSchema } from "./input-program";
 import { RunSpecSchema, SeedSchema } from "./run-spec";
+import { AccelerationSchema } from "./analysis";
 
 export const RUN_STATUS = ["queued", "running", "finished", "failed", "capped", "cancelled"] as const;
 export type RunStatus = (typeof RUN_STATUS)[number];
@@ -114,6 +115,21 @@ export const RunDetailSchema = RunListItemSchema.extend({
   /** RunSummary (shared/schemas/analysis.ts) when finished. */
   summary: z.any().nullable(),
   threshold: z.object({ theta: z.number(), downTheta: z.number(), hysteresis: z.number(), windowMinutes: z.number(), outputLifetimeMinutes: z.number() }).nullable(),
+  /** For a reproduction: identical statistics or the first difference. */
+  reproduction: z
+    .object({
+      of: z.string(),
+      expectedHash: z.string().nullable(),
+      actualHash: z.string().nullable(),
+      identical: z.boolean().nullable(),
+      firstDifference: z.string().nullable(),
+      engineMatches: z.boolean(),
+      message: z.string(),
+    })
+    .nullable()
+    .optional(),
+  /** Against the matched control, once both runs finished. */
+  acceleration: AccelerationSchema.extend({ circuitRunId: z.string(), controlRunId: z.string() }).nullable().optional(),
 });
 export type RunDetail = z.infer<typeof RunDetailSchema>;
 

@@ -4,6 +4,7 @@ import { makeTestContext, signIn } from "../helpers/test-app";
 import { launchBody, realQueue, waitForRun } from "../helpers/run-helpers";
 import { schema } from "../../db/client";
 import { eq } from "drizzle-orm";
+import { RunDetailSchema } from "../../shared/schemas/api-runs";
 
 test("bundle export, import into another lab and verified reproduction", async () => {
   const t = await makeTestContext({ queue: realQueue(1) });
@@ -31,6 +32,7 @@ test("bundle export, import into another lab and verified reproduction", async (
     assert.equal(imp.status, 201, JSON.stringify(imp.body));
     const reproduced = await waitForRun(other, imp.body.id);
     assert.equal(reproduced.reproduction.identical, true, reproduced.reproduction.message);
+    assert.equal(RunDetailSchema.parse(reproduced).reproduction?.identical, true);
     assert.equal(reproduced.statsHash, original.statsHash);
 
     // A tampered bundle (different seed, same expected hash) is reported as different.
@@ -75,7 +77,8 @@ test("matched control and comparison of a filter with its control", async () => 
     const control = await waitForRun(editor, c.body.id);
     assert.equal(control.status, "finished");
     // Both runs now report the acceleration figures of the pair.
-    const detail = (await editor.get(`/api/runs/${r.body.id}`)).body;
+    const detail = RunDetailSchema.parse((await editor.get(`/api/runs/${r.body.id}`)).body);
+    assert.ok(detail.acceleration);
     assert.equal(detail.acceleration.controlRunId, c.body.id);
     assert.equal(control.acceleration.circuitRunId, r.body.id);
     // The coherent AND filter responds more slowly than plain regulation (domain notes, section 2: sign-sensitive delay).

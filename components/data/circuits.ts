@@ -1,0 +1,116 @@
+import { keepPreviousData, useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
+import { api } from "./api";
+import { useLabId } from "./current-lab";
+import {
+  CheckCircuitResponseSchema,
+  CircuitDetailResponseSchema,
+  CircuitListResponseSchema,
+  CircuitSummarySchema,
+  CircuitVersionResponseSchema,
+  TemplatesResponseSchema,
+  type CreateCircuitRequest,
+  type UpdateCircuitRequest,
+} from "../../shared/schemas/api-circuits";
+
+export const circuitKeys = {
+  all: ["circuits"] as const,
+  list: (labId: string, archived = false) => ["circuits", "list", labId, archived] as const,
+  detail: (id: string) => ["circuits", "detail", id] as const,
+  version: (id: string, v: number) => ["circuits", "version", id, v] as const,
+  templates: ["templates"] as const,
+  check: (labId: string, body: unknown) => ["circuits", "check", labId, body] as const,
+};
+
+export function useCircuits(opts: { archived?: boolean } = {}) {
+  const labId = useLabId();
+  return useQuery({
+    queryKey: circuitKeys.list(labId, !!opts.archived),
+    queryFn: ({ signal }) => api(`/api/labs/${labId}/circuits${opts.archived ? "?archived=1" : ""}`, { schema: CircuitListResponseSchema, signal }),
+    enabled: !!labId,
+    select: (r) => r.circuits,
+  });
+}
+
+export function useCircuit(id: string | undefined) {
+  return useQuery({
+    queryKey: circuitKeys.detail(id ?? ""),
+    queryFn: ({ signal }) => api(`/api/circuits/${id}`, { schema: CircuitDetailResponseSchema, signal }),
+    enabled: !!id,
+  });
+}
+
+export function useCircuitVersion(id: string | undefined, version: number | undefined) {
+  return useQuery({
+    queryKey: circuitKeys.version(id ?? "", version ?? 0),
+    queryFn: ({ signal }) => api(`/api/circuits/${id}/versions/${version}`, { schema: CircuitVersionResponseSchema, signal }),
+    enabled: !!id && !!version,
+  });
+}
+
+export function useTemplates() {
+  return useQuery({
+    queryKey: circuitKeys.templates,
+    queryFn: ({ signal }) => api("/api/templates", { schema: TemplatesResponseSchema, signal }),
+    staleTime: 5 * 60_000,
+    select: (r) => r.templates,
+  });
+}
+
+/** Server-side check of a circuit body as typed (field errors and the feed-forward type). */
+export function useCircuitCheck(body: unknown, enabled = true) {
+  const labId = useLabId();
+  return useQuery({
+    queryKey: circuitKeys.check(labId, body),
+    queryFn: ({ signal }) => api(`/api/labs/${labId}/circuits/check`, { method: "POST", body: { body }, schema: CheckCircuitResponseSchema, signal }),
+    enabled: enabled && !!labId,
+    placeholderData: keepPreviousData,
+    staleTime: Infinity,
+    retry: false,
+  });
+}
+
+export function useCreateCircuit() {
+  const labId = useLabId();
+  const qc = useQueryClient();
+  return useMutation({
+    mutationFn: (req: CreateCircuitRequest) => api(`/api/labs/${labId}/circuits`, { method: "POST", body: req, schema: CircuitDetailResponseSchema }),
+    onSuccess: (d) => {
+      qc.setQueryData(circuitKeys.detail(d.circuit.id), d);
+      qc.invalidateQueries({ queryKey: ["circuits", "list"] });
+    },
+  });
+}
+
+export function useUpdateCircuit(id: string) {
+  const qc = useQueryClient();
+  return useMutation({
+    mutationFn: (req: UpdateCircuitRequest) => api(`/api/circuits/${id}`, { method: "PUT", body: req, schema: CircuitDetailResponseSchema }),
+    onSuccess: (d) => {
+      qc.setQueryData(circuitKeys.detail(id), d);
+      qc.invalidateQueries({ queryKey: ["circuits", "list"] });
+    },
+  });
+}
+
+export function useDuplicateCircuit() {
+  const qc = useQueryClient();
+  return useMutation({
+    mutationFn: ({ id, name }: { id: string; name?: string }) => api(`/api/circuits/${id}/duplicate`, { method: "POST", body: name ? { name } : {}, schema: CircuitDetailResponseSchema }),
+    onSuccess: (d) => {
+      qc.setQueryData(circuitKeys.detail(d.circuit.id), d);
+      qc.invalidateQueries({ queryKey: ["circuits", "list"] });
+    },
+  });
+}
+
+export function useArchiveCircuit() {
+  const qc = useQueryClient();
+  return useMutation({
+    mutationFn: ({ id, archived }: { id: string; archived: boolean }) =>
+      api(`/api/circuits/${id}/${archived ? "archive" : "unarchive"}`, { method: "POST", schema: CircuitSummarySchema }),
+    onSuccess: (_d, v) => {
+      qc.invalidateQueries({ queryKey: circuitKeys.detail(v.id) });
+      qc.invalidateQueries({ queryKey: ["circuits", "list"] });
+    },
+  });
+}

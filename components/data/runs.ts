@@ -1,0 +1,190 @@
+import { keepPreviousData, useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
+import { useEffect } from "react";
+import { Platform } from "react-native";
+import { z } from "zod";
+import { api, apiUrl } from "./api";
+import { useLabId } from "./current-lab";
+import {
+  EstimateSchema,
+  ReplicatePageSchema,
+  RunDetailSchema,
+  RunListItemSchema,
+  RunSeriesSchema,
+  type LaunchRunInput,
+  type RunDetail,
+  type RunListItem,
+} from "../../shared/schemas/api-runs";
+import { ComparisonSchema, RunSummarySchema, type RunSummary } from "../../shared/schemas/analysis";
+
+export type { RunDetail, RunListItem };
+
+const RunListSchema = z.array(RunListItemSchema);
+/** A created run comes back as its detail. */
+const RunCreatedSchema = RunDetailSchema;
+const RunDetailResponseSchema = RunDetailSchema;
+const ComparisonResponseSchema = ComparisonSchema;
+
+export const runKeys = {
+  all: ["runs"] as const,
+  list: (labId: string, archived = false) => ["runs", "list", labId, archived] as const,
+  detail: (id: string) => ["runs", "detail", id] as const,
+  series: (id: string) => ["runs", "series", id] as const,
+  replicates: (id: string, q: object) => ["runs", "replicates", id, q] as const,
+  estimate: (labId: string, req: unknown) => ["runs", "estimate", labId, req] as const,
+  compare: (labId: string, ids: string[]) => ["runs", "compare", labId, ids] as const,
+};
+
+export const ACTIVE_STATUSES = new Set(["running", "queued"]);
+
+/** Running and queued first, then newest first. */
+export function sortRunsForHome<T extends { status: string; createdAt?: string | number }>(runs: T[]): T[] {
+  const time = (r: T) => (r.createdAt === undefined ? 0 : typeof r.createdAt === "number" ? r.createdAt : Date.parse(r.createdAt));
+  const rank = (r: T) => (r.status === "running" ? 0 : r.status === "queued" ? 1 : 2);
+  return [...runs].sort((a, b) => rank(a) - rank(b) || time(b) - time(a));
+}
+
+export function useRuns(opts: { archived?: boolean } = {}) {
+  const labId = useLabId();
+  return useQuery({
+    queryKey: runKeys.list(labId, !!opts.archived),
+    queryFn: ({ signal }) => api(`/api/labs/${labId}/runs${opts.archived ? "?archived=1" : ""}`, { schema: RunListSchema, signal }),
+    enabled: !!labId,
+    refetchInterval: (q) => (q.state.data?.some((r) => ACTIVE_STATUSES.has(r.status)) ? 3000 : false),
+  });
+}
+
+/** A run's status, progress and summary; polls while it is active and listens to server-sent progress on the web. */
+export function useRun(id: string | undefined) {
+  const qc = useQueryClient();
+  const q = useQuery({
+    queryKey: runKeys.detail(id ?? ""),
+    queryFn: ({ signal }) => api(`/api/runs/${id}`, { schema: RunDetailResponseSchema, signal }),
+    enabled: !!id,
+    refetchInterval: (query) => (query.state.data && ACTIVE_STATUSES.has(query.state.data.status) ? 2000 : false),
+  });
+  const active = !!q.data && ACTIVE_STATUSES.has(q.data.status);
+  const status = q.data?.status;
+  useEffect(() => {
+    // A run that has just ended changes the lists (status, headline figures).
+    if (status && !ACTIVE_STATUSES.has(status)) qc.invalidateQueries({ queryKey: ["runs", "list"] });
+  }, [status, qc]);
+  useEffect(() => {
+    if (!id || !active || Platform.OS !== "web" || typeof EventSource === "undefined") return;
+    const es = new EventSource(apiUrl(`/api/runs/${id}/events`), { withCredentials: true });
+    const refresh = () => qc.invalidateQueries({ queryKey: runKeys.detail(id) });
+    es.addEventListener("progress", refresh);
+    es.addEventListener("status", refresh);
+    es.addEventListener("end", refresh);
+    es.onerror = () => es.close();
+    return () => es.close();
+  }, [id, active, qc]);
+  return q;
+}
+
+/** The finished run's summary parsed with the shared RunSummary schema (null until finished). */
+export function runSummary(run: RunDetail | undefined): RunSummary | null {
+  if (!run?.summary) return null;
+  const parsed = RunSummarySchema.safeParse(run.summary);
+  return parsed.success ? parsed.data : null;
+}
+
+export function useRunSeries(id: string | undefined, enabled = true) {
+  return useQuery({
+    queryKey: runKeys.series(id ?? ""),
+    queryFn: ({ signal }) => api(`/api/runs/${id}/series`, { schema: RunSeriesSchema, signal }),
+    enabled: !!id && enabled,
+    staleTime: Infinity,
+  });
+}
+
+export type ReplicateQuery = { sort: string; dir: "asc" | "desc"; page: number; pageSize: number };
+
+export function useReplicates(id: string | undefined, q: ReplicateQuery, enabled = true) {
+  return useQuery({
+    queryKey: runKeys.replicates(id ?? "", q),
+    queryFn: ({ signal }) =>
+      api(`/api/runs/${id}/replicates?sort=${q.sort}&dir=${q.dir}&page=${q.page}&pageSize=${q.pageSize}`, { schema: ReplicatePageSchema, signal }),
+    enabled: !!id && enabled,
+    placeholderData: keepPreviousData,
+  });
+}
+
+export function useRunEstimate(req: LaunchRunInput | null) {
+  const labId = useLabId();
+  return useQuery({
+    queryKey: runKeys.estimate(labId, req),
+    queryFn: ({ signal }) => api(`/api/labs/${labId}/runs/estimate`, { method: "POST", body: req, schema: EstimateSchema, signal }),
+    enabled: !!labId && !!req,
+    placeholderData: keepPreviousData,
+    staleTime: Infinity,
+    retry: false,
+  });
+}
+
+export function useLaunchRun() {
+  const labId = useLabId();
+  const qc = useQueryClient();
+  return useMutation({
+    mutationFn: (req: LaunchRunInput) => api(`/api/labs/${labId}/runs`, { method: "POST", body: req, schema: RunCreatedSchema }),
+    onSuccess: (run) => {
+      qc.setQueryData(runKeys.detail(run.id), run);
+      qc.invalidateQueries({ queryKey: ["runs", "list"] });
+    },
+  });
+}
+
+function invalidateRun(qc: ReturnType<typeof useQueryClient>, id: string) {
+  qc.invalidateQueries({ queryKey: runKeys.detail(id) });
+  qc.invalidateQueries({ queryKey: ["runs", "list"] });
+}
+
+export function useCancelRun() {
+  const qc = useQueryClient();
+  return useMutation({ mutationFn: (id: string) => api(`/api/runs/${id}/cancel`, { method: "POST" }), onSuccess: (_d, id) => invalidateRun(qc, id) });
+}
+
+export function useArchiveRun() {
+  const qc = useQueryClient();
+  return useMutation({ mutationFn: (id: string) => api(`/api/runs/${id}/archive`, { method: "POST" }), onSuccess: (_d, id) => invalidateRun(qc, id) });
+}
+
+export function useDeleteRun() {
+  const qc = useQueryClient();
+  return useMutation({ mutationFn: (id: string) => api(`/api/runs/${id}`, { method: "DELETE" }), onSuccess: (_d, id) => invalidateRun(qc, id) });
+}
+
+export function useRestoreRun() {
+  const qc = useQueryClient();
+  return useMutation({ mutationFn: (id: string) => api(`/api/runs/${id}/restore`, { method: "POST" }), onSuccess: (_d, id) => invalidateRun(qc, id) });
+}
+
+export function usePatchRun(id: string) {
+  const qc = useQueryClient();
+  return useMutation({
+    mutationFn: (body: { name?: string; notes?: string }) => api(`/api/runs/${id}`, { method: "PATCH", body }),
+    onSuccess: () => invalidateRun(qc, id),
+  });
+}
+
+/** Launches the matched simple-regulation control of a run; resolves with the control run. */
+export function useLaunchControl() {
+  const qc = useQueryClient();
+  return useMutation({
+    mutationFn: (id: string) => api(`/api/runs/${id}/control`, { method: "POST", schema: RunCreatedSchema }),
+    onSuccess: () => qc.invalidateQueries({ queryKey: ["runs", "list"] }),
+  });
+}
+
+export function useComparison(runIds: string[]) {
+  const labId = useLabId();
+  return useQuery({
+    queryKey: runKeys.compare(labId, runIds),
+    queryFn: ({ signal }) => api(`/api/labs/${labId}/compare`, { method: "POST", body: { runIds }, schema: ComparisonResponseSchema, signal }),
+    enabled: !!labId && runIds.length >= 2 && runIds.length <= 4,
+    staleTime: 60_000,
+  });
+}
+
+export function exportUrl(id: string, file: "replicates.csv" | "aggregates.csv" | "summary.json" | "bundle.json"): string {
+  return apiUrl(`/api/runs/${id}/export/${file}`);
+}
