@@ -23,7 +23,7 @@ export default function SignedInLayout() {
   if (me.isPending || signedOut) return <Screen><LoadingState label="Opening Linger" /></Screen>;
   if (me.error) return <Screen title="Linger"><ErrorState error={me.error} onRetry={() => me.refetch()} /></Screen>;
   return (
-    <AppShell pathname={pathname} onNavigate={(href) => router.navigate(href as never)} labName={lab?.name}>
+    <AppShell pathname={pathname} onNavigate={(href) => router.navigate(href as never)} labName={lab?.name} isSiteAdmin={!!me.data.user.isSiteAdmin}>
       <Slot />
     </AppShell>
   );

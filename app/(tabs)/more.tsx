@@ -5,17 +5,19 @@ import { Screen } from "../../components/ui/screen";
 import { Card } from "../../components/ui/card";
 import { Text } from "../../components/ui/text";
 import { Icon } from "../../components/ui/icon";
-import { NAV_ITEMS } from "../../components/ui/nav-items";
+import { navItemsFor } from "../../components/ui/nav-items";
+import { useMe } from "../../components/data/use-me";
 import { useTheme } from "../../components/theme/use-theme";
 
 /** Phone only: the sections that do not fit in the tab bar. */
 export default function More() {
   const t = useTheme();
   const router = useRouter();
+  const me = useMe();
   return (
     <Screen title="More">
       <View style={{ gap: t.spacing.sm }}>
-        {NAV_ITEMS.filter((i) => !i.phoneTab).map((i) => (
+        {navItemsFor({ isSiteAdmin: me.data?.user.isSiteAdmin }).filter((i) => !i.phoneTab).map((i) => (
           <Card key={i.href} onPress={() => router.push(i.href as never)} accessibilityLabel={i.label}>
             <View style={{ flexDirection: "row", gap: t.spacing.md, alignItems: "center" }}>
               <Icon name={i.icon} color={t.colors.primary} />

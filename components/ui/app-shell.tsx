@@ -6,12 +6,14 @@ import { useBreakpoints } from "../theme/use-breakpoints";
 import { MIN_TOUCH } from "../theme/tokens";
 import { Text } from "./text";
 import { Icon } from "./icon";
-import { NAV_ITEMS, MORE_ITEM, isActive, type NavItem } from "./nav-items";
+import { navItemsFor, MORE_ITEM, isActive, type NavItem } from "./nav-items";
 
 type ShellProps = {
   pathname: string;
   onNavigate: (href: string) => void;
   labName?: string;
+  /** Shows the Admin section. */
+  isSiteAdmin?: boolean;
   children: React.ReactNode;
 };
 
@@ -73,7 +75,7 @@ function NavButton({ item, active, onNavigate, layout }: { item: NavItem; active
 function BottomTabsShell({ pathname, onNavigate, children }: ShellProps) {
   const t = useTheme();
   const insets = useSafeAreaInsets();
-  const tabs = [...NAV_ITEMS.filter((i) => i.phoneTab), MORE_ITEM];
+  const tabs = [...navItemsFor().filter((i) => i.phoneTab), MORE_ITEM];
   return (
     <View style={{ flex: 1, backgroundColor: t.colors.background }} testID="layout-phone">
       <View style={{ flex: 1 }}>{children}</View>
@@ -96,7 +98,7 @@ function BottomTabsShell({ pathname, onNavigate, children }: ShellProps) {
   );
 }
 
-function SideNavShell({ pathname, onNavigate, labName, children }: ShellProps) {
+function SideNavShell({ pathname, onNavigate, labName, isSiteAdmin, children }: ShellProps) {
   const t = useTheme();
   return (
     <View style={{ flex: 1, flexDirection: "row", backgroundColor: t.colors.background }} testID="layout-wide">
@@ -109,7 +111,7 @@ function SideNavShell({ pathname, onNavigate, labName, children }: ShellProps) {
           <Text variant="title" tone="primary">Linger</Text>
           {labName ? <Text variant="caption" tone="muted" numberOfLines={2}>{labName}</Text> : null}
         </View>
-        {NAV_ITEMS.map((item) => (
+        {navItemsFor({ isSiteAdmin }).map((item) => (
           <NavButton key={item.href} item={item} active={isActive(item, pathname)} onNavigate={onNavigate} layout="side" />
         ))}
       </View>

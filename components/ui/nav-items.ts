@@ -1,6 +1,6 @@
 import type { IconName } from "./icon";
 
-export type NavItem = { href: string; label: string; icon: IconName; phoneTab: boolean };
+export type NavItem = { href: string; label: string; icon: IconName; phoneTab: boolean; siteAdminOnly?: boolean };
 
 /** The sections of the app. On a phone the first four plus "More" are tabs. */
 export const NAV_ITEMS: NavItem[] = [
@@ -11,14 +11,21 @@ export const NAV_ITEMS: NavItem[] = [
   { href: "/compare", label: "Compare", icon: "columns", phoneTab: false },
   { href: "/sweeps", label: "Sweeps", icon: "grid", phoneTab: false },
   { href: "/traces", label: "Traces", icon: "bar-chart-2", phoneTab: false },
-  { href: "/settings", label: "Lab & account", icon: "settings", phoneTab: false },
+  { href: "/lab", label: "Lab", icon: "users", phoneTab: false },
+  { href: "/settings", label: "Settings", icon: "settings", phoneTab: false },
+  { href: "/admin", label: "Admin", icon: "shield", phoneTab: false, siteAdminOnly: true },
 ];
+
+/** The sections this user may see (Admin only for site admins). */
+export function navItemsFor(opts: { isSiteAdmin?: boolean } = {}): NavItem[] {
+  return NAV_ITEMS.filter((i) => !i.siteAdminOnly || !!opts.isSiteAdmin);
+}
 
 export const MORE_ITEM: NavItem = { href: "/more", label: "More", icon: "menu", phoneTab: true };
 
 /** Whether a nav item is the active section for a pathname. */
 export function isActive(item: NavItem, pathname: string): boolean {
   if (item.href === "/") return pathname === "/" || pathname === "";
-  if (item.href === "/more") return ["/more", "/compare", "/sweeps", "/traces", "/settings"].some((p) => pathname.startsWith(p));
+  if (item.href === "/more") return ["/more", "/compare", "/sweeps", "/traces", "/lab", "/settings", "/admin"].some((p) => pathname.startsWith(p));
   return pathname === item.href || pathname.startsWith(item.href + "/");
 }

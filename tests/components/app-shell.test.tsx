@@ -26,7 +26,7 @@ describe("AppShell chooses its layout from the window width at run time", () => 
     setWidth(1280);
     renderWithProviders(<AppShell pathname="/runs/abc" onNavigate={() => {}} labName="Tank Sensor Group"><Text>content</Text></AppShell>);
     expect(screen.getByTestId("layout-wide")).toBeTruthy();
-    for (const label of ["Home", "Circuits", "Inputs", "Runs", "Compare", "Sweeps", "Traces", "Lab & account"]) {
+    for (const label of ["Home", "Circuits", "Inputs", "Runs", "Compare", "Sweeps", "Traces", "Lab", "Settings"]) {
       expect(screen.getByLabelText(label)).toBeTruthy();
     }
     expect(screen.getByText("Tank Sensor Group")).toBeTruthy();

@@ -11,6 +11,10 @@ import { SafetyNote } from "../../../components/ui/safety-note";
 import { DataTable, type Column } from "../../../components/ui/data-table";
 import { Banner, ErrorState, LoadingState } from "../../../components/ui/states";
 import { HeadlineCards } from "../../../components/runs/headline-cards";
+import { ReproductionCard } from "../../../components/runs/reproduction-card";
+import { AccelerationCard } from "../../../components/runs/acceleration-card";
+import { ShareLinkCard } from "../../../components/runs/share-link";
+import { useReproduceRun } from "../../../components/data/bundles";
 import { LazyChart } from "../../../components/charts/lazy-chart";
 import { delayHistogramSpec, filterCurveSpec, meanBandSpec, trajectoriesSpec } from "../../../components/charts/specs";
 import { formatNumber } from "../../../components/charts/chart-spec";
@@ -90,8 +94,9 @@ export default function RunDetailScreen() {
   const t = useTheme();
   const router = useRouter();
   const { id } = useLocalSearchParams<{ id: string }>();
-  const { canEdit } = useCurrentLab();
+  const { canEdit, lab } = useCurrentLab();
   const q = useRun(id);
+  const reproduce = useReproduceRun();
   const cancel = useCancelRun();
   const archive = useArchiveRun();
   const del = useDeleteRun();
@@ -114,6 +119,9 @@ export default function RunDetailScreen() {
         <>
           {active && canEdit ? <Button label="Cancel run" variant="danger" icon="x-circle" busy={cancel.isPending} onPress={() => cancel.mutate(run.id)} testID="cancel-run" /> : null}
           {hasResults ? <Button label="Compare" variant="secondary" icon="columns" onPress={() => router.push(`/compare?ids=${[run.id, controlRun?.id].filter(Boolean).join(",")}`)} testID="compare-run" /> : null}
+          {hasResults && canEdit ? (
+            <Button label="Reproduce" variant="secondary" icon="repeat" busy={reproduce.isPending} onPress={() => reproduce.mutate(run.id, { onSuccess: (r) => router.push(`/runs/${r.id}`) })} testID="reproduce-run" />
+          ) : null}
         </>
       }
     >
@@ -137,6 +145,8 @@ export default function RunDetailScreen() {
           {run.statusReason ? ` · ${run.statusReason}` : ""}
         </Text>
       </Card>
+      {run.reproduction ? <ReproductionCard reproduction={run.reproduction} onOpenOriginal={(of) => router.push(`/runs/${of}`)} /> : null}
+      {reproduce.error ? <ErrorState title="The reproduction could not be started" error={reproduce.error} /> : null}
       <SafetyNote />
       {summary ? (
         <>
@@ -146,6 +156,7 @@ export default function RunDetailScreen() {
       ) : active ? (
         <Text tone="muted">Figures appear when the run finishes.</Text>
       ) : null}
+      {run.acceleration ? <AccelerationCard acceleration={run.acceleration} runId={run.id} onOpen={(other) => router.push(`/runs/${other}`)} /> : null}
       {hasResults ? <RunCharts runId={run.id} finished={hasResults} /> : null}
       {hasResults ? (
         <Card>
@@ -164,6 +175,7 @@ export default function RunDetailScreen() {
           <Text variant="caption" tone="muted">The bundle holds the circuit version, program, settings and seed, so anyone can reproduce the run exactly.</Text>
         </Card>
       ) : null}
+      <ShareLinkCard runId={run.id} labName={lab?.name} canEdit={canEdit} />
       {canEdit ? (
         <Card>
           <Text variant="heading">More</Text>

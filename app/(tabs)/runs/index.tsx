@@ -9,6 +9,7 @@ import { EmptyState, ErrorState, LoadingState } from "../../../components/ui/sta
 import { useRuns, sortRunsForHome } from "../../../components/data/runs";
 import { useCurrentLab } from "../../../components/data/current-lab";
 import { useTheme } from "../../../components/theme/use-theme";
+import { ImportProblems, useBundleImportFlow } from "../../../components/runs/import-bundle";
 
 export default function RunsScreen() {
   const t = useTheme();
@@ -16,16 +17,19 @@ export default function RunsScreen() {
   const { canEdit } = useCurrentLab();
   const [show, setShow] = useState<"active" | "archived">("active");
   const runs = useRuns({ archived: show === "archived" });
+  const importer = useBundleImportFlow((id) => router.push(`/runs/${id}`));
   return (
     <Screen
       title="Runs"
       actions={
         <>
           <Button label="Compare runs" variant="secondary" icon="columns" onPress={() => router.push("/compare")} />
+          {canEdit ? <Button label="Import bundle" variant="secondary" icon="upload" busy={importer.busy} onPress={importer.start} testID="import-bundle" /> : null}
           {canEdit ? <Button label="Start a study" icon="play" onPress={() => router.push("/runs/new")} /> : null}
         </>
       }
     >
+      {importer.problem ? <ImportProblems problem={importer.problem} /> : null}
       <Choice label="Show" value={show} options={[{ value: "active", label: "Current" }, { value: "archived", label: "Archived" }]} onChange={setShow} />
       {runs.isPending ? (
         <LoadingState label="Loading runs" />
