@@ -10,6 +10,7 @@ import { createMailer } from "./services/mail.service";
 import { createRunQueue } from "./services/run-queue";
 import { createSimPool } from "./workers/pool";
 import { onRunEnded } from "./services/run-events";
+import { purgeDeleted } from "./services/runs.service";
 import { seedDemo } from "./services/demo-seed";
 import "./services/demo-content";
 
@@ -34,9 +35,14 @@ export async function boot(env: Env = parseEnv()): Promise<Booted> {
   const queue = ctx.queue;
   if (env.LINGER_SEED_DEMO) await seedDemo(ctx);
   queue.kick();
+  // Deleted runs stay restorable for the undo period, then go for good.
+  purgeDeleted(ctx);
+  const purge = setInterval(() => purgeDeleted(ctx), 6 * 3600_000);
+  purge.unref();
   return {
     ctx,
     async shutdown() {
+      clearInterval(purge);
       await queue.close();
       await mailer.close();
       handle.close();

@@ -145,3 +145,20 @@ describe("runs through the real queue and pool", () => {
     }
   });
 });
+
+test("deleted runs are purged after the undo period, not before", async () => {
+  const t = await makeTestContext();
+  try {
+    const editor = await signIn(t.app, "editor@example.org");
+    const r = await editor.post(`/api/labs/${t.demoLab!.id}/runs`).send(launchBody({ replicates: 10 }));
+    await editor.delete(`/api/runs/${r.body.id}`).expect(200);
+    const { purgeDeleted } = await import("../../server/services/runs.service");
+    const day = 86400_000;
+    purgeDeleted(t.ctx, Date.now() + 6 * day);
+    assert.equal(t.ctx.db.select().from(schema.runs).all().length, 1, "still restorable within 7 days");
+    purgeDeleted(t.ctx, Date.now() + 8 * day);
+    assert.equal(t.ctx.db.select().from(schema.runs).all().length, 0);
+  } finally {
+    await t.close();
+  }
+});
