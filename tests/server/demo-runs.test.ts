@@ -5,11 +5,14 @@ import { realQueue, waitForRun } from "../helpers/run-helpers";
 import { seedDemo } from "../../server/services/demo-seed";
 import { schema } from "../../db/client";
 
-test("demo seeding queues the two demo runs once; they finish and can be compared", async () => {
+test("demo seeding queues the two demo runs and the demo sweep once; they finish and can be compared", async () => {
   const t = await makeTestContext({ seed: "full", queue: realQueue(1) });
   try {
     await seedDemo(t.ctx); // a second start must not add runs
-    const runs = t.ctx.db.select().from(schema.runs).all();
+    const runs = t.ctx.db.select().from(schema.runs).all().filter((r) => !r.sweepId);
+    const sweeps = t.ctx.db.select().from(schema.sweeps).all();
+    assert.equal(sweeps.length, 1);
+    assert.equal(sweeps[0].pointCount, 9);
     assert.deepEqual(runs.map((r) => r.demoKey).sort(), ["run-tank-direct-ladder", "run-tank-hold-ladder"]);
     const viewer = await signIn(t.app, "viewer@example.org");
     const done = await Promise.all(runs.map((r) => waitForRun(viewer, r.id, 180_000)));
@@ -21,6 +24,14 @@ test("demo seeding queues the two demo runs once; they finish and can be compare
       assert.equal(item.programName, "Duration ladder");
       assert.equal(item.headline.longestDuration, 80);
     }
+    const sweep = await (async () => {
+      for (;;) {
+        const r = (await viewer.get(`/api/sweeps/${sweeps[0].id}`)).body;
+        if (!["queued", "running"].includes(r.status)) return r;
+        await new Promise((res) => setTimeout(res, 200));
+      }
+    })();
+    assert.equal(sweep.status, "finished");
     const cmp = await viewer.post(`/api/labs/${t.demoLab!.id}/compare`).send({ runIds: runs.map((r) => r.id) });
     assert.equal(cmp.status, 200, JSON.stringify(cmp.body));
   } finally {
