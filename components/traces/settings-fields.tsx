@@ -61,7 +61,7 @@ export function SettingsFields({ values, errors, onChange, testIDPrefix = "trace
         onChange={(m) => onChange("backgroundMode", m)}
       />
       {values.backgroundMode === "value" ? (
-        <Field label="Background" unit="trace units" value={values.backgroundValue} onChangeText={(x) => onChange("backgroundValue", x)} error={errors["background.value"]} keyboardType="decimal-pad" testID={id("background-value")} />
+        <Field label="Background" unit="trace units" value={values.backgroundValue} onChangeText={(x) => onChange("backgroundValue", x)} error={errors["background.value"]} keyboardType="decimal-pad" testID={id("background-units")} />
       ) : values.backgroundMode === "preInput" ? (
         <Text variant="caption" tone="muted">Each cell's median before the first input pulse.</Text>
       ) : null}

@@ -144,7 +144,7 @@ export function TraceUploadForm({ programs, pickFile, onPreview, onSave, preview
         <Text variant="heading">Input schedule</Text>
         <Choice
           label="The inducer's on and off times come from"
-          testID="upload-schedule"
+          testID="upload-schedule-source"
           value={v.scheduleSource}
           options={[{ value: "column", label: "A column of the file" }, { value: "program", label: "An input program" }]}
           onChange={(x) => set("scheduleSource", x)}

@@ -43,7 +43,6 @@ export default function TracesScreen() {
             <Card
               key={s.id}
               onPress={() => router.push(`/traces/${s.id}`)}
-              accessibilityLabel={`${s.name}${s.synthetic ? ", synthetic" : ""}, ${s.cellCount} cells`}
               testID={`trace-row-${s.id}`}
             >
               <View style={{ flexDirection: "row", justifyContent: "space-between", alignItems: "flex-start", gap: t.spacing.sm, flexWrap: "wrap" }}>
