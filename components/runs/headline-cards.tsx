@@ -17,8 +17,8 @@ const pct = (p: number | null | undefined) => (p === null || p === undefined ? "
 const ci = (c: [number | null, number | null] | null | undefined, unit = "") =>
   c ? `95% CI ${c[0] === null ? "not reached" : formatNumber(c[0])}–${c[1] === null ? "not reached" : formatNumber(c[1])}${unit}` : undefined;
 
-/** The headline figures of a finished run. */
-export function HeadlineCards({ summary, circuit }: { summary: RunSummary; circuit?: Circuit }) {
+/** The headline figures of a finished run (or of a trace set, cells as replicates: peaks are then in trace units). */
+export function HeadlineCards({ summary, circuit, peakUnit = "molecules" }: { summary: RunSummary; circuit?: Circuit; peakUnit?: string }) {
   const t = useTheme();
   const pg = summary.pulseGeneration;
   const isPulseGenerator = pg.pulses > 0 && pg.peakAboveBaseline.median !== null && (!circuit || outputIsRepressed(circuit));
@@ -56,7 +56,7 @@ export function HeadlineCards({ summary, circuit }: { summary: RunSummary; circu
         ) : null}
         {isPulseGenerator ? (
           <>
-            <StatCard style={CARD} label="Median peak above baseline" value={`${formatNumber(pg.peakAboveBaseline.median)} molecules`} detail={`time to peak ${formatNumber(pg.timeToPeak.median)} min`} />
+            <StatCard style={CARD} label="Median peak above baseline" value={`${formatNumber(pg.peakAboveBaseline.median)} ${peakUnit}`} detail={`time to peak ${formatNumber(pg.timeToPeak.median)} min`} />
             <StatCard style={CARD} label="Median pulse width (FWHM)" value={`${formatNumber(pg.fwhm.median)} min`} detail={`${pg.fwhmNotMeasurable} not measurable`} />
           </>
         ) : null}

@@ -87,10 +87,10 @@ export function MatchResultView({ match, targetName }: { match: MatchDetail; tar
   const best = r.points[0];
   const parameters = useMemo(() => r.ranges.map((x) => x.parameter), [r.ranges]);
   const delayChart = best && r.bestSimulated
-    ? distributionOverlaySpec(r.observed.delays, r.bestSimulated.delays, t.colors, { title: "Response delays: observed and simulated", quantity: "response delay", ks: best.distances.delayKs, w1: best.distances.delayW1Minutes })
+    ? distributionOverlaySpec(r.observed.delays, r.bestSimulated.delays, t.colors, { title: "Response delays: observed and simulated", quantity: "response delay", ks: best.distances.delayKs, w1: best.distances.delayW1Minutes, simulatedLabel: isSweep ? "Simulated, closest point" : "Simulated" })
     : null;
   const widthChart = best && r.bestSimulated
-    ? distributionOverlaySpec(r.observed.widths, r.bestSimulated.widths, t.colors, { title: "Output pulse widths: observed and simulated", quantity: "pulse width", ks: best.distances.widthKs, w1: best.distances.widthW1Minutes })
+    ? distributionOverlaySpec(r.observed.widths, r.bestSimulated.widths, t.colors, { title: "Output pulse widths: observed and simulated", quantity: "pulse width", ks: best.distances.widthKs, w1: best.distances.widthW1Minutes, simulatedLabel: isSweep ? "Simulated, closest point" : "Simulated" })
     : null;
   return (
     <View style={{ gap: t.spacing.md }} testID="match-result">
@@ -136,8 +136,18 @@ export function MatchResultView({ match, targetName }: { match: MatchDetail; tar
         </View>
       ) : null}
       {r.skippedRuns.length ? <Text variant="caption" tone="muted">{r.skippedRuns.length} unfinished point{r.skippedRuns.length === 1 ? "" : "s"} left out.</Text> : null}
-      {delayChart ? <LazyChart spec={delayChart} testID="chart-match-delays" /> : null}
-      {widthChart ? <LazyChart spec={widthChart} testID="chart-match-widths" /> : null}
+      {delayChart ? (
+        <View style={{ gap: t.spacing.xs }}>
+          <Text variant="label">{delayChart.title} (cumulative)</Text>
+          <LazyChart spec={delayChart} testID="chart-match-delays" />
+        </View>
+      ) : null}
+      {widthChart ? (
+        <View style={{ gap: t.spacing.xs }}>
+          <Text variant="label">{widthChart.title} (cumulative)</Text>
+          <LazyChart spec={widthChart} testID="chart-match-widths" />
+        </View>
+      ) : null}
       {best && r.bestSimulated && !delayChart && !widthChart ? <Text variant="caption" tone="muted">No delays or widths on one side, so there is nothing to overlay.</Text> : null}
     </View>
   );

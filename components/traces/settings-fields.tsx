@@ -21,7 +21,8 @@ export function SettingsFields({ values, errors, onChange, testIDPrefix = "trace
   const t = useTheme();
   const { isWide } = useBreakpoints();
   const row = (children: React.ReactNode) => <View style={{ flexDirection: isWide ? "row" : "column", gap: t.spacing.md, flexWrap: "wrap" }}>{children}</View>;
-  const half = { flexGrow: 1, flexBasis: 180 } as const;
+  // Side by side when wide; in a phone column a flex basis would become a height.
+  const half = isWide ? ({ flexGrow: 1, flexBasis: 180 } as const) : undefined;
   const id = (s: string) => `${testIDPrefix}-${s}`;
   return (
     <View style={{ gap: t.spacing.md }}>

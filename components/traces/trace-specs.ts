@@ -90,7 +90,7 @@ export function distributionOverlaySpec(
   observed: number[],
   simulated: number[],
   c: Palette,
-  what: { title: string; quantity: string; ks: number; w1: number | null },
+  what: { title: string; quantity: string; ks: number; w1: number | null; simulatedLabel?: string },
 ): ChartSpec | null {
   if (!observed.length || !simulated.length) return null;
   const obs = [...observed].sort((a, b) => a - b);
@@ -110,7 +110,7 @@ export function distributionOverlaySpec(
     ],
     legend: [
       { label: `Observed (${obs.length})`, color: c.series[0] },
-      { label: `Simulated, closest point (${sim.length})`, color: c.series[1] },
+      { label: `${what.simulatedLabel ?? "Simulated"} (${sim.length})`, color: c.series[1] },
     ],
     yDomain: [0, 1],
     height: 200,

@@ -114,7 +114,8 @@ export function TraceUploadForm({ programs, pickFile, onPreview, onSave, preview
     } else onSave(req);
   };
   const row = (children: React.ReactNode) => <View style={{ flexDirection: isWide ? "row" : "column", gap: t.spacing.md, flexWrap: "wrap" }}>{children}</View>;
-  const half = { flexGrow: 1, flexBasis: 180 } as const;
+  // Side by side when wide; in a phone column a flex basis would become a height.
+  const half = isWide ? ({ flexGrow: 1, flexBasis: 180 } as const) : undefined;
   // The message repeats the first listed problems, so it is shown only when there is no list.
   const otherError = apiError && !lines.length ? apiError.message : null;
 
