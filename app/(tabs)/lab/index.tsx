@@ -13,7 +13,7 @@ import { InvitationList } from "../../../components/lab/invitation-list";
 import { CreateLabForm } from "../../../components/lab/create-lab-form";
 import { ConfirmAction } from "../../../components/lab/confirm-action";
 import { AuditList } from "../../../components/lab/audit-list";
-import { ROLE_WORDS } from "../../../components/lab/roles";
+import { ROLE_WORDS, withArticle } from "../../../components/lab/roles";
 import { useCurrentLab } from "../../../components/data/current-lab";
 import { useMe } from "../../../components/data/use-me";
 import { useRuns } from "../../../components/data/runs";
@@ -68,7 +68,7 @@ export default function LabScreen() {
   const roleError = changeRole.error && changeRole.variables ? { userId: changeRole.variables.userId, error: changeRole.error } : null;
   const removeError = remove.error && remove.variables ? { userId: remove.variables, error: remove.error } : null;
   return (
-    <Screen title={current.name} subtitle={`Your role: ${ROLE_WORDS[current.role].label.toLowerCase()} (${ROLE_WORDS[current.role].can})`} testID="lab-screen">
+    <Screen title={current.name} subtitle={`As ${withArticle(current.role)} you ${ROLE_WORDS[current.role].youCan}.`} testID="lab-screen">
       <Card>
         <Text variant="heading">Current lab</Text>
         <LabSwitcher />
