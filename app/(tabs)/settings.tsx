@@ -10,11 +10,9 @@ import { DisplayNameForm, RunMailSetting } from "../../components/account/profil
 import { ChangePasswordForm } from "../../components/account/change-password-form";
 import { useMe, useSignOut } from "../../components/data/use-me";
 import { useChangePassword, useUpdateProfile } from "../../components/data/account";
-import { useTheme } from "../../components/theme/use-theme";
 
 /** Account settings: display name, run e-mails, password, sign out. */
 export default function Settings() {
-  const t = useTheme();
   const router = useRouter();
   const me = useMe();
   const name = useUpdateProfile();

@@ -20,7 +20,6 @@ import { useRuns } from "../../../components/data/runs";
 import {
   useAudit, useChangeRole, useCreateLab, useInvitations, useInvite, useLab, useRemoveMember, useWithdrawInvitation,
 } from "../../../components/data/labs";
-import { useTheme } from "../../../components/theme/use-theme";
 
 function CreateLabCard() {
   const create = useCreateLab();
@@ -36,7 +35,6 @@ function CreateLabCard() {
 
 /** Lab page: members and roles; owners invite, withdraw invitations, change roles, remove members and read the history. */
 export default function LabScreen() {
-  const t = useTheme();
   const router = useRouter();
   const me = useMe();
   const { lab: current } = useCurrentLab();
