@@ -38,7 +38,7 @@ export function PreviewSummary({ preview, stale }: { preview: TracePreview; stal
         <StatCard style={CARD} label="Pulses passed" value={`${passed} of ${evaluable}`} detail={`cell × pulse pairs · ${s.skippedNotCovered} not watched whole`} />
       </View>
       <Text variant="caption" tone="muted">
-        Read as {LAYOUT[preview.layout]}, separated by {DELIM[preview.delimiter]}, times in {preview.timeUnit} (shown in minutes). Frame interval {formatNumber(a.frameIntervalMinutes)} min. {a.scaleNote}
+        Read as {LAYOUT[preview.layout]}, separated by {DELIM[preview.delimiter]}, times in {preview.timeUnit} (shown in minutes). Frame interval {formatNumber(a.frameIntervalMinutes)} min. Scale: {a.scaleNote}
       </Text>
       {preview.warnings.length ? (
         <Banner tone="notice" testID="preview-warnings">

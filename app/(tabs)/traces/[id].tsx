@@ -69,7 +69,7 @@ export default function TraceSetScreen() {
 
       <Text variant="heading">Headline figures</Text>
       <Text variant="caption" tone="muted">
-        Each cell counts as a replicate: {sum.pulsesAnalysed.toLocaleString("en")} cell × pulse records scored; {sum.skippedNotCovered} not watched whole{sum.skippedGap ? `, ${sum.skippedGap} left out for gaps` : ""}. Frame interval {formatNumber(a.frameIntervalMinutes)} min. {a.scaleNote}
+        Each cell counts as a replicate: {sum.pulsesAnalysed.toLocaleString("en")} cell × pulse records scored; {sum.skippedNotCovered} not watched whole{sum.skippedGap ? `, ${sum.skippedGap} left out for gaps` : ""}. Frame interval {formatNumber(a.frameIntervalMinutes)} min. Scale: {a.scaleNote}
       </Text>
       <HeadlineCards summary={headlineSummary(sum.analysis)} peakUnit="trace units" />
 
