@@ -33,7 +33,9 @@ export function seedDemoRuns(ctx: AppContext, lab: { id: string; ownerId: string
     const circuitId = demoCircuitId(ctx, lab.id, d.circuit);
     if (!circuitId) continue;
     const inputs = resolveInputs(ctx, lab.id, { circuitId, programId });
-    const spec = buildSpec(inputs, { ...DEMO_SETTINGS, systemSize: 1, start: "given", burnInMinutes: 500, threshold: { hysteresis: 0.2, noiseDurationMinutes: 10 }, extrinsic: [], eventCapPerReplicate: 10_000_000, recordEventsFor: 0, method: "direct" });
+    // The synthetic demo traces' threshold and window, so matching them against these runs compares like with like.
+    const threshold = { value: DEMO_THRESHOLD_MOLECULES, windowMinutes: 30, hysteresis: 0.2, noiseDurationMinutes: 10 };
+    const spec = buildSpec(inputs, { ...DEMO_SETTINGS, systemSize: 1, start: "given", burnInMinutes: 500, threshold, extrinsic: [], eventCapPerReplicate: 10_000_000, recordEventsFor: 0, method: "direct" });
     insertRun(ctx, {
       labId: lab.id,
       name: d.name,

@@ -50,6 +50,8 @@ export interface SummarizeRunInput {
   longPulseMinutes?: number;
   /** End of the simulated (or recorded) path; windows close there at the latest. */
   endTimeMinutes?: number;
+  /** Measured traces have no steady-state output moments per cell: leave the noise figures empty without a remark. */
+  measuredTraces?: boolean;
 }
 
 const finite = (x: number | null | undefined): number | null => (x !== null && x !== undefined && Number.isFinite(x) ? x : null);
@@ -202,7 +204,7 @@ export function summarizeRun(input: SummarizeRunInput): RunSummary {
   if (excludedTotal > 0) {
     notes.push(`${excludedTotal} of ${pulses.length} pulses started with the output already above threshold and are left out of pass and delay figures.`);
   }
-  if (replicates.length > moments.length) {
+  if (replicates.length > moments.length && !input.measuredTraces) {
     notes.push(`${replicates.length - moments.length} replicates had no steady-state output moments and are left out of the noise figures.`);
   }
 

@@ -119,6 +119,7 @@ export function analyseTraces(cells: readonly RawCell[], schedule: readonly Trac
       windowMinutes: settings.windowMinutes,
     },
     noiseDurationMinutes: settings.noiseDurationMinutes,
+    measuredTraces: true,
   });
   return {
     prepared: prepared.cells,

@@ -20,16 +20,6 @@ import { useUndoableDelete } from "../../../components/traces/use-undoable-delet
 import { metricsCsvUrl, useDeleteTraceSet, usePatchTraceSet, useTraceSet } from "../../../components/data/traces";
 import { useCurrentLab } from "../../../components/data/current-lab";
 import { useTheme } from "../../../components/theme/use-theme";
-import type { RunSummary } from "../../../shared/schemas/analysis";
-
-/**
- * The pooled summary for the shared headline cards. Output-noise figures are
- * empty for traces by design (docs/traces.md), so the summary's remark about
- * replicates without steady-state moments says nothing useful here.
- */
-function headlineSummary(s: RunSummary): RunSummary {
-  return { ...s, notes: s.notes.filter((n) => !/steady-state output moments/i.test(n)) };
-}
 
 export default function TraceSetScreen() {
   const t = useTheme();
@@ -71,7 +61,7 @@ export default function TraceSetScreen() {
       <Text variant="caption" tone="muted">
         Each cell counts as a replicate: {sum.pulsesAnalysed.toLocaleString("en")} cell × pulse records scored; {sum.skippedNotCovered} not watched whole{sum.skippedGap ? `, ${sum.skippedGap} left out for gaps` : ""}. Frame interval {formatNumber(a.frameIntervalMinutes)} min. Scale: {a.scaleNote}
       </Text>
-      <HeadlineCards summary={headlineSummary(sum.analysis)} peakUnit="trace units" />
+      <HeadlineCards summary={sum.analysis} peakUnit="trace units" />
 
       {chart ? (
         <Card testID="chart-card-cells">

@@ -160,3 +160,12 @@ describe("CSV exports", () => {
     assert.ok(head.some((r) => r[0] === "falsePassRate" && Math.abs(Number(r[1]) - 13 / 59) < 1e-12));
   });
 });
+
+test("replicates without output moments are remarked on, except for measured traces", () => {
+  const noMoments = replicates.map((r) => ({ ...r, capped: false, outputMean: NaN, outputVar: NaN }));
+  const simulated = summarizeRun({ pulses: records(), replicates: noMoments, threshold, noiseDurationMinutes: 10 });
+  assert.ok(simulated.notes.some((n) => /no steady-state output moments/.test(n)));
+  assert.equal(simulated.noise.fano, null);
+  const traces = summarizeRun({ pulses: records(), replicates: noMoments, threshold, noiseDurationMinutes: 10, measuredTraces: true });
+  assert.ok(!traces.notes.some((n) => /output moments/.test(n)));
+});
