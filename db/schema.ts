@@ -145,6 +145,8 @@ export const runs = sqliteTable("runs", {
   /** Reproduction: the run (or "bundle") this run re-computes, and the stats hash it must match. */
   reproduceOf: text("reproduce_of"),
   expectedStatsHash: text("expected_stats_hash"),
+  /** Engine version of the original (run or bundle). */
+  expectedEngineVersion: text("expected_engine_version"),
   replicatesDone: integer("replicates_done").notNull().default(0),
   eventsTotal: integer("events_total").notNull().default(0),
   cappedReplicates: integer("capped_replicates").notNull().default(0),

@@ -184,6 +184,7 @@ CREATE TABLE `runs` (
 	`control_of` text,
 	`reproduce_of` text,
 	`expected_stats_hash` text,
+	`expected_engine_version` text,
 	`replicates_done` integer DEFAULT 0 NOT NULL,
 	`events_total` integer DEFAULT 0 NOT NULL,
 	`capped_replicates` integer DEFAULT 0 NOT NULL,

@@ -7,6 +7,7 @@ import { Banner } from "../../components/ui/states";
 import { Text } from "../../components/ui/text";
 import { ApiError } from "../../components/data/api";
 import { useResetConfirm, useResetRequest } from "../../components/data/use-me";
+import { PASSWORD_MIN_LENGTH } from "../../shared/schemas/auth";
 
 /** Without a token: ask for a reset mail. With ?token=: choose a new password. */
 export default function Reset() {
@@ -22,12 +23,12 @@ export default function Reset() {
       <AuthFrame title="Choose a new password">
         {confirm.isSuccess ? <Banner tone="success">Your password is changed. You can sign in now.</Banner> : null}
         {serverError ? <Banner tone="danger">{serverError.message}</Banner> : null}
-        <Field label="New password" value={password} onChangeText={setPassword} secureTextEntry error={error ?? serverError?.fieldMap?.().password} autoComplete="new-password" hint="At least 10 characters." />
+        <Field label="New password" value={password} onChangeText={setPassword} secureTextEntry error={error ?? serverError?.fieldMap?.().password} autoComplete="new-password" hint={`At least ${PASSWORD_MIN_LENGTH} characters.`} />
         <Button
           label="Save password"
           busy={confirm.isPending}
           onPress={() => {
-            if (password.length < 10) return setError("Use at least 10 characters.");
+            if (password.length < PASSWORD_MIN_LENGTH) return setError(`Use at least ${PASSWORD_MIN_LENGTH} characters.`);
             setError(undefined);
             confirm.mutate({ token, password });
           }}

@@ -7,6 +7,7 @@ import { Banner } from "../../components/ui/states";
 import { Text } from "../../components/ui/text";
 import { ApiError } from "../../components/data/api";
 import { useSignIn, useSignUp } from "../../components/data/use-me";
+import { PASSWORD_MIN_LENGTH } from "../../shared/schemas/auth";
 
 export default function SignUp() {
   const router = useRouter();
@@ -21,10 +22,10 @@ export default function SignUp() {
     const e: Record<string, string> = {};
     if (!/^[^\s@]+@[^\s@]+\.[^\s@]+$/.test(v.email.trim())) e.email = "Enter a valid email address.";
     if (!v.displayName.trim()) e.displayName = "Enter the name your lab will see.";
-    if (v.password.length < 10) e.password = "Use at least 10 characters.";
+    if (v.password.length < PASSWORD_MIN_LENGTH) e.password = `Use at least ${PASSWORD_MIN_LENGTH} characters.`;
     setErrors(e);
     if (Object.keys(e).length) return;
-    const body = { email: v.email.trim(), displayName: v.displayName.trim(), password: v.password, inviteToken: params.invite };
+    const body = { email: v.email.trim(), displayName: v.displayName.trim(), password: v.password, invitationToken: params.invite };
     signUp.mutate(body, {
       onSuccess: () => signIn.mutate({ email: body.email, password: body.password }, { onSuccess: () => router.replace("/") }),
     });
@@ -34,7 +35,7 @@ export default function SignUp() {
       {server && !server.fields.length ? <Banner tone="danger">{server.message}</Banner> : null}
       <Field label="Email" value={v.email} onChangeText={(email) => setV({ ...v, email })} error={fields.email} autoCapitalize="none" keyboardType="email-address" autoComplete="email" />
       <Field label="Display name" value={v.displayName} onChangeText={(displayName) => setV({ ...v, displayName })} error={fields.displayName} autoComplete="name" />
-      <Field label="Password" value={v.password} onChangeText={(password) => setV({ ...v, password })} error={fields.password} secureTextEntry autoComplete="new-password" hint="At least 10 characters." />
+      <Field label="Password" value={v.password} onChangeText={(password) => setV({ ...v, password })} error={fields.password} secureTextEntry autoComplete="new-password" hint={`At least ${PASSWORD_MIN_LENGTH} characters.`} />
       <Button label="Create account" onPress={submit} busy={signUp.isPending || signIn.isPending} />
       <Link href="/sign-in" style={{ minHeight: 44, paddingVertical: 12 }}>
         <Text tone="primary" variant="label">I already have an account</Text>

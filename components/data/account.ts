@@ -6,9 +6,8 @@ import { useMutation, useQueryClient } from "@tanstack/react-query";
 import { api } from "./api";
 import { MeSchema, meKeys } from "./use-me";
 
-/** Same rule as the server (server/services/auth.service.ts PASSWORD_MIN_LENGTH / MAX). */
-export const PASSWORD_MIN_LENGTH = 8;
-export const PASSWORD_MAX_LENGTH = 200;
+/** The server's rule (shared/schemas/auth.ts). */
+export { PASSWORD_MIN_LENGTH, PASSWORD_MAX_LENGTH } from "../../shared/schemas/auth";
 
 /** PATCH /api/me: display name and/or the "e-mail me when my lab's runs end" setting. */
 export function useUpdateProfile() {

@@ -34,7 +34,7 @@ export function useSignIn() {
 
 export function useSignUp() {
   return useMutation({
-    mutationFn: (body: { email: string; password: string; displayName: string; inviteToken?: string }) =>
+    mutationFn: (body: { email: string; password: string; displayName: string; invitationToken?: string }) =>
       api("/api/auth/sign-up", { method: "POST", body }),
   });
 }

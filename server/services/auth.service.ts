@@ -14,8 +14,7 @@ import { createToken, findValidToken, markTokenUsed } from "./tokens.service";
 /** What the account functions need (the admin CLI has no mailer or queue). */
 export type AccountsCtx = Pick<AppContext, "db" | "sqlite" | "env">;
 
-export const PASSWORD_MIN_LENGTH = 8;
-export const PASSWORD_MAX_LENGTH = 200;
+export { PASSWORD_MIN_LENGTH, PASSWORD_MAX_LENGTH } from "../../shared/schemas/auth";
 
 export interface MeUser extends SessionUser {
   notifyOnRunEnd: boolean;

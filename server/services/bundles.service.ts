@@ -8,7 +8,7 @@ import type { AppContext } from "../context";
 import { schema } from "../../db/client";
 import { BUNDLE_FORMAT, RunBundleSchema, type RunBundle } from "../../shared/schemas/bundle";
 import type { RunSpec } from "../../shared/schemas/run-spec";
-import { ENGINE_VERSION, validateCircuit } from "../../sim";
+import { validateCircuit } from "../../sim";
 import { badRequest } from "../http-error";
 import { parseOr400 } from "../middleware/validate";
 import { checkLimits, getRunRow, insertRun } from "./runs.service";
@@ -42,7 +42,7 @@ export function importBundle(ctx: AppContext, labId: string, userId: string, raw
     spec: bundle.spec,
     userId,
   });
-  ctx.db.update(schema.runs).set({ reproduceOf: "bundle", expectedStatsHash: bundle.statsHash }).where(eq(schema.runs.id, id)).run();
+  ctx.db.update(schema.runs).set({ reproduceOf: "bundle", expectedStatsHash: bundle.statsHash, expectedEngineVersion: bundle.engineVersion }).where(eq(schema.runs.id, id)).run();
   ctx.queue.kick();
   return id;
 }
@@ -57,7 +57,7 @@ export function reproduceRun(ctx: AppContext, runId: string, userId: string): st
     userId,
     inputs: { circuitId: row.circuitId, circuitVersion: row.circuitVersion, programId: row.programId },
   });
-  ctx.db.update(schema.runs).set({ reproduceOf: row.id, expectedStatsHash: row.statsHash }).where(eq(schema.runs.id, id)).run();
+  ctx.db.update(schema.runs).set({ reproduceOf: row.id, expectedStatsHash: row.statsHash, expectedEngineVersion: row.engineVersion }).where(eq(schema.runs.id, id)).run();
   ctx.queue.kick();
   return id;
 }
@@ -76,7 +76,8 @@ export interface ReproductionStatus {
 export function reproductionStatus(ctx: AppContext, runId: string): ReproductionStatus | null {
   const row = getRunRow(ctx, runId);
   if (!row.reproduceOf) return null;
-  const engineMatches = row.engineVersion === ENGINE_VERSION;
+  // The engine that computed this run against the one that computed the original.
+  const engineMatches = row.engineVersion === (row.expectedEngineVersion ?? row.engineVersion);
   if (!row.statsHash) return { of: row.reproduceOf, expectedHash: row.expectedStatsHash, actualHash: null, identical: null, firstDifference: null, engineMatches, message: "The reproduction is still computing." };
   if (!row.expectedStatsHash) return { of: row.reproduceOf, expectedHash: null, actualHash: row.statsHash, identical: null, firstDifference: null, engineMatches, message: "The original had no statistics hash (it had not finished), so there is nothing to compare with." };
   const identical = row.statsHash === row.expectedStatsHash;
@@ -96,6 +97,6 @@ export function reproductionStatus(ctx: AppContext, runId: string): Reproduction
       ? "Identical: every stored statistic matches the original."
       : diff
         ? `Differs: ${diff}.`
-        : "Differs: the statistics hash does not match the bundle's.",
+        : `Differs: the statistics hash does not match the bundle's${engineMatches ? "" : ` (the original was computed by ${row.expectedEngineVersion}, this run by ${row.engineVersion})`}.`,
   };
 }

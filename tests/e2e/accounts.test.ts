@@ -141,6 +141,7 @@ describe("accounts, labs, admin and reproduction at phone size (390x844)", { tim
     assert.ok(link, `the mail holds an /invite?token= link:\n${mail.text}`);
     const linkUrl = new URL(link);
     assert.equal(linkUrl.pathname, "/invite", "the mail's link path is the web app's invitation route");
+    assert.equal(linkUrl.port, String(server.port), "mail links use the port the server really listens on");
 
     // ---- a fresh browser accepts by creating the account
     const invited = await browser();

@@ -33,14 +33,17 @@ test("bundle export, import into another lab and verified reproduction", async (
     const reproduced = await waitForRun(other, imp.body.id);
     assert.equal(reproduced.reproduction.identical, true, reproduced.reproduction.message);
     assert.equal(RunDetailSchema.parse(reproduced).reproduction?.identical, true);
+    assert.equal(reproduced.reproduction.engineMatches, true);
     assert.equal(reproduced.statsHash, original.statsHash);
 
     // A tampered bundle (different seed, same expected hash) is reported as different.
-    const tampered = { ...bundle, spec: { ...bundle.spec, seed: "other-seed" } };
+    const tampered = { ...bundle, engineVersion: "linger-engine 0.9.0", spec: { ...bundle.spec, seed: "other-seed" } };
     const imp2 = await other.post(`/api/labs/${lab2.body.lab.id}/bundles/import`).send({ bundle: tampered });
     const differs = await waitForRun(other, imp2.body.id);
     assert.equal(differs.reproduction.identical, false);
     assert.match(differs.reproduction.message, /Differs/);
+    assert.equal(differs.reproduction.engineMatches, false);
+    assert.match(differs.reproduction.message, /linger-engine 0\.9\.0/);
 
     // Re-running inside the lab reports the first difference when there is one.
     t.ctx.db.update(schema.runs).set({ expectedStatsHash: "0".repeat(64) }).where(eq(schema.runs.id, r.body.id)).run();
