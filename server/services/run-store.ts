@@ -92,14 +92,16 @@ export interface PulseRow {
   baseline: number;
 }
 
-/** Pulse rows in (replicate, pulse) order. */
+/** Pulse rows in (replicate, pulse) order. A raw prepared statement: runs can hold millions of rows. */
 export function readPulseRows(db: Db, runId: string): PulseRow[] {
-  return db
-    .select()
-    .from(schema.pulseStats)
-    .where(eq(schema.pulseStats.runId, runId))
-    .orderBy(asc(schema.pulseStats.replicate), asc(schema.pulseStats.pulseIndex))
-    .all() as unknown as PulseRow[];
+  const rows = db.$client
+    .prepare(
+      `SELECT replicate, pulse_index AS pulseIndex, "on", off, duration_bin AS durationBin, excluded, passed, delay, off_delay AS offDelay,
+              width, widths, peak, time_to_peak AS timeToPeak, fwhm, baseline
+         FROM pulse_stats WHERE run_id = ? ORDER BY replicate, pulse_index`,
+    )
+    .all(runId) as (Omit<PulseRow, "excluded" | "passed" | "widths"> & { excluded: number; passed: number; widths: string | null })[];
+  return rows.map((r) => ({ ...r, excluded: r.excluded === 1, passed: r.passed === 1, widths: r.widths === null ? null : (JSON.parse(r.widths) as number[]) }));
 }
 
 export function rowToPulseStat(r: PulseRow): PulseStat {
