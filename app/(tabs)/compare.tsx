@@ -65,7 +65,12 @@ function ComparisonView({ ids }: { ids: string[] }) {
             </View>
             <StatCard label="d50" value={r.headline.d50 === null ? "not estimable" : `${formatNumber(r.headline.d50)} min`} detail={r.headline.d50Note ?? undefined} />
             <StatCard label="Median delay" value={r.headline.medianDelay === null ? "not reached" : `${formatNumber(r.headline.medianDelay)} min`} />
-            <StatCard label="False-pass rate" value={pct(r.headline.falsePassRate)} detail={`${r.headline.passed} of ${r.headline.evaluable} pulses passed`} />
+            <StatCard label="False-pass rate" value={pct(r.headline.falsePassRate)} detail="pulses shorter than the noise duration that passed" />
+            <StatCard label="Pulses passed" value={`${r.headline.passed} of ${r.headline.evaluable}`} detail="every evaluable pulse, all durations" />
+            <StatCard
+              label="Delay paid for long pulses"
+              value={r.headline.delayCostMedian === null ? "not reached" : `${formatNumber(r.headline.delayCostMedian)} min`}
+            />
           </View>
         ))}
       </View>
