@@ -23,7 +23,7 @@ import { tmpdir } from "node:os";
 import { join, resolve } from "node:path";
 import type { Page } from "playwright-core";
 import { startTestServer, DEMO_PASSWORD, type TestServer } from "../helpers/test-server";
-import { axeSeriousViolations, launchBrowser, screenshot, smallTouchTargets, unlabelledControls, PHONE, type BrowserSession } from "./browser";
+import { launchBrowser, screenshot, PHONE, type BrowserSession, assertAccessible } from "./browser";
 import { signIn, DEMO_EDITOR } from "./flows";
 import { ensureWebBuild } from "../../scripts/build-web";
 
@@ -47,13 +47,6 @@ after(async () => {
   for (const s of sessions) await s.close();
   await server?.stop();
 });
-
-async function checkA11y(page: Page, where: string) {
-  const serious = await axeSeriousViolations(page);
-  assert.deepEqual(serious, [], `${where}: ${JSON.stringify(serious, null, 2)}`);
-  assert.deepEqual(await smallTouchTargets(page), [], `${where}: touch targets under 44 px`);
-  assert.deepEqual(await unlabelledControls(page), [], `${where}: controls without an accessible name`);
-}
 
 /** Signs in through the API; returns the session cookie. */
 async function apiSignIn(email: string, password: string): Promise<string> {
@@ -108,7 +101,7 @@ describe("accounts, labs, admin and reproduction at phone size (390x844)", { tim
       await page.getByRole("link", { name: "Lab", exact: true }).click();
       await page.getByTestId("lab-screen").waitFor();
       await page.getByTestId("member-editor@example.org").waitFor();
-      await checkA11y(page, "lab");
+      await assertAccessible(page, "lab");
       await page.getByTestId("invite-email").fill(INVITED);
       await page.getByRole("button", { name: "Send invitation" }).click();
       await page.getByTestId("invite-sent").waitFor();
@@ -118,13 +111,13 @@ describe("accounts, labs, admin and reproduction at phone size (390x844)", { tim
       await page.getByTestId("open-audit").click();
       await page.getByTestId("audit-screen").waitFor();
       await page.getByText(`Demo owner invited ${INVITED} as a viewer`).first().waitFor();
-      await checkA11y(page, "lab history");
+      await assertAccessible(page, "lab history");
       await shot(page, "02-history");
 
       await page.goto(server.url + "/settings");
       await page.getByTestId("settings-screen").waitFor();
       assert.equal(await page.getByRole("checkbox", { name: /E-mail me when my lab's runs/ }).getAttribute("aria-checked"), "true", "run e-mails are on by default");
-      await checkA11y(page, "settings");
+      await assertAccessible(page, "settings");
       await shot(page, "03-settings");
       assert.deepEqual(owner.errors, [], "no uncaught page errors (owner)");
     } catch (e) {
@@ -151,7 +144,7 @@ describe("accounts, labs, admin and reproduction at phone size (390x844)", { tim
       await page.getByTestId("invitation-lab").waitFor();
       assert.equal(await page.getByTestId("invitation-lab").innerText(), LAB);
       await page.getByText("You are invited to join as a viewer").waitFor();
-      await checkA11y(page, "invitation");
+      await assertAccessible(page, "invitation");
       await shot(page, "04-invitation");
       await page.getByTestId("accept-display-name").fill("Tank technician");
       await page.getByTestId("accept-password").fill(INVITED_PASSWORD);
@@ -163,7 +156,7 @@ describe("accounts, labs, admin and reproduction at phone size (390x844)", { tim
       await page.getByText("Your role: viewer", { exact: true }).waitFor();
       await page.getByTestId(`member-${INVITED}`).waitFor();
       assert.equal(await page.getByTestId("invite-card").count(), 0, "a viewer cannot invite");
-      await checkA11y(page, "lab as the new viewer");
+      await assertAccessible(page, "lab as the new viewer");
       await shot(page, "05-joined");
       assert.deepEqual(invited.errors, [], "no uncaught page errors (invited)");
     } catch (e) {
@@ -183,7 +176,7 @@ describe("accounts, labs, admin and reproduction at phone size (390x844)", { tim
       await page.getByTestId("user-list").getByText(INVITED).waitFor();
       await page.getByRole("button", { name: "Back up the database now" }).click();
       await page.getByTestId("backup-result").getByText(/Backup written: linger-.+\.db/).waitFor();
-      await checkA11y(page, "admin");
+      await assertAccessible(page, "admin");
       await shot(page, "06-admin");
       assert.deepEqual(admin.errors, [], "no uncaught page errors (admin)");
     } catch (e) {
@@ -218,7 +211,7 @@ describe("accounts, labs, admin and reproduction at phone size (390x844)", { tim
       await page.getByTestId("reproduction-verdict").getByText(/^Identical: every stored statistic matches the original/).waitFor({ timeout: 300_000 });
       assert.match(await page.getByTestId("reproduction-engine").innerText(), /same as the original/);
       await page.getByTestId("headline-cards").waitFor();
-      await checkA11y(page, "reproduced run");
+      await assertAccessible(page, "reproduced run");
       await shot(page, "07-reproduced");
 
       // Import the original's bundle from the runs list (expo-document-picker's file input).
@@ -227,7 +220,7 @@ describe("accounts, labs, admin and reproduction at phone size (390x844)", { tim
       writeFileSync(file, bundle);
       await page.goto(server.url + "/runs");
       await page.getByTestId("import-bundle").waitFor();
-      await checkA11y(page, "runs list");
+      await assertAccessible(page, "runs list");
       const chooser = page.waitForEvent("filechooser");
       await page.getByTestId("import-bundle").click();
       await (await chooser).setFiles(file);

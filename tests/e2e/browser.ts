@@ -3,6 +3,7 @@
  * playwright-core, a fresh profile per launch, screenshots under
  * test-results/screenshots/ (git-ignored).
  */
+import assert from "node:assert/strict";
 import { mkdirSync, mkdtempSync, readFileSync, rmSync } from "node:fs";
 import { tmpdir } from "node:os";
 import { join, resolve } from "node:path";
@@ -152,4 +153,12 @@ export async function unlabelledControls(page: Page): Promise<string[]> {
     });
     return out;
   });
+}
+
+/** No serious or critical axe-core violation, no touch target under 44 px, no control without an accessible name. */
+export async function assertAccessible(page: Page, where: string): Promise<void> {
+  const serious = await axeSeriousViolations(page);
+  assert.deepEqual(serious, [], `${where}: ${JSON.stringify(serious, null, 2)}`);
+  assert.deepEqual(await smallTouchTargets(page), [], `${where}: touch targets under 44 px`);
+  assert.deepEqual(await unlabelledControls(page), [], `${where}: controls without an accessible name`);
 }

@@ -10,9 +10,8 @@
  */
 import { after, before, describe, test } from "node:test";
 import assert from "node:assert/strict";
-import type { Page } from "playwright-core";
 import { startTestServer, DEMO_PASSWORD, type TestServer } from "../helpers/test-server";
-import { axeSeriousViolations, launchBrowser, screenshot, smallTouchTargets, unlabelledControls, PHONE, WIDE, type Viewport } from "./browser";
+import { launchBrowser, screenshot, PHONE, WIDE, type Viewport, assertAccessible } from "./browser";
 import { signIn, DEMO_EDITOR } from "./flows";
 import { ensureWebBuild } from "../../scripts/build-web";
 
@@ -27,13 +26,6 @@ after(async () => {
   await server?.stop();
 });
 
-async function checkA11y(page: Page, where: string) {
-  const serious = await axeSeriousViolations(page);
-  assert.deepEqual(serious, [], `${where}: ${JSON.stringify(serious, null, 2)}`);
-  assert.deepEqual(await smallTouchTargets(page), [], `${where}: touch targets under 44 px`);
-  assert.deepEqual(await unlabelledControls(page), [], `${where}: controls without an accessible name`);
-}
-
 for (const vp of [PHONE, WIDE] as Viewport[]) {
   describe(`main path at ${vp.name} size (${vp.width}x${vp.height})`, { timeout: 420_000 }, () => {
     test("template circuit, ladder program, run, results, comparison with the control", async () => {
@@ -45,7 +37,7 @@ for (const vp of [PHONE, WIDE] as Viewport[]) {
       try {
         await signIn(page, server.url, DEMO_EDITOR, DEMO_PASSWORD);
         await page.getByText("Tank Sensor Group").first().waitFor();
-        await checkA11y(page, "home");
+        await assertAccessible(page, "home");
         await screenshot(page, `main-${tag}-01-home`);
 
         // Circuit from the C1-FFL AND template.
@@ -53,13 +45,13 @@ for (const vp of [PHONE, WIDE] as Viewport[]) {
         await page.getByTestId("template-c1ffl-and").click();
         const circuitName = `Hold sensor ${tag}`;
         await page.getByTestId("new-circuit-name").fill(circuitName);
-        await checkA11y(page, "new circuit");
+        await assertAccessible(page, "new circuit");
         await screenshot(page, `main-${tag}-02-template`);
         await page.getByTestId("create-from-template").click();
         await page.waitForURL(/\/circuits\/[^/]+$/);
         await page.getByTestId("feed-forward-badge").waitFor();
         assert.match(await page.getByTestId("feed-forward-badge").innerText(), /coherent type 1/i);
-        await checkA11y(page, "circuit detail");
+        await assertAccessible(page, "circuit detail");
         await screenshot(page, `main-${tag}-03-circuit`);
         const circuitUrl = page.url();
 
@@ -69,7 +61,7 @@ for (const vp of [PHONE, WIDE] as Viewport[]) {
         await page.getByTestId("program-name").fill(programName);
         await page.getByTestId("program-durations").fill("2, 5, 10, 20, 40");
         await page.getByTestId("program-preview-canvas").locator("canvas").first().waitFor({ timeout: 60_000 });
-        await checkA11y(page, "new program");
+        await assertAccessible(page, "new program");
         await screenshot(page, `main-${tag}-04-program`);
         await page.getByTestId("program-save").click();
         await page.waitForURL(/\/programs\/[^/]+$/);
@@ -82,7 +74,7 @@ for (const vp of [PHONE, WIDE] as Viewport[]) {
         await page.getByTestId("run-replicates").fill("40");
         await page.getByTestId("run-estimate").getByText(/of compute/).waitFor({ timeout: 30_000 });
         assert.ok((await page.getByTestId("run-seed").inputValue()).length > 0, "a seed is shown");
-        await checkA11y(page, "new run");
+        await assertAccessible(page, "new run");
         await screenshot(page, `main-${tag}-05-new-run`);
         await page.getByTestId("launch-run").click();
         await page.waitForURL(/\/runs\/(?!new)[^/]+$/);
@@ -95,7 +87,7 @@ for (const vp of [PHONE, WIDE] as Viewport[]) {
         await page.getByTestId("safety-note").first().waitFor();
         await page.getByTestId("replicate-table").waitFor();
         await page.waitForTimeout(500);
-        await checkA11y(page, "run detail");
+        await assertAccessible(page, "run detail");
         await screenshot(page, `main-${tag}-06-run`);
 
         // Comparison with the demo control run.
@@ -105,7 +97,7 @@ for (const vp of [PHONE, WIDE] as Viewport[]) {
         await page.getByTestId("comparison-tests").waitFor({ timeout: 60_000 });
         await page.getByTestId("chart-compare-filter-canvas").locator("canvas").first().waitFor({ timeout: 60_000 });
         await page.waitForTimeout(500);
-        await checkA11y(page, "compare");
+        await assertAccessible(page, "compare");
         await screenshot(page, `main-${tag}-07-compare`);
         assert.deepEqual(errors, [], "no uncaught page errors");
       } catch (e) {

@@ -17,7 +17,7 @@ import { tmpdir } from "node:os";
 import { join, resolve } from "node:path";
 import type { Page } from "playwright-core";
 import { startTestServer, DEMO_PASSWORD, type TestServer } from "../helpers/test-server";
-import { axeSeriousViolations, launchBrowser, screenshot, smallTouchTargets, unlabelledControls, PHONE, WIDE, type Viewport } from "./browser";
+import { launchBrowser, screenshot, PHONE, WIDE, type Viewport, assertAccessible } from "./browser";
 import { signIn, DEMO_EDITOR } from "./flows";
 import { ensureWebBuild } from "../../scripts/build-web";
 import { DEMO_TRACES_NAME, DEMO_UPLOAD_OPTIONS } from "../../server/services/demo-traces";
@@ -41,13 +41,6 @@ after(async () => {
   await server?.stop();
   if (tmp) rmSync(tmp, { recursive: true, force: true });
 });
-
-async function checkA11y(page: Page, where: string) {
-  const serious = await axeSeriousViolations(page);
-  assert.deepEqual(serious, [], `${where}: ${JSON.stringify(serious, null, 2)}`);
-  assert.deepEqual(await smallTouchTargets(page), [], `${where}: touch targets under 44 px`);
-  assert.deepEqual(await unlabelledControls(page), [], `${where}: controls without an accessible name`);
-}
 
 /** Picks a file through the screen's button: expo-document-picker opens a hidden <input type=file>; playwright fills it. */
 async function pickFile(page: Page, path: string) {
@@ -82,7 +75,7 @@ for (const vp of [PHONE, WIDE] as Viewport[]) {
         await page.waitForURL(/\/traces$/);
         await page.getByTestId("traces-screen").getByText(DEMO_TRACES_NAME).first().waitFor();
         assert.ok((await page.locator('[data-testid^="synthetic-badge-"]').count()) >= 1, "the demo set carries the synthetic badge");
-        await checkA11y(page, "traces list");
+        await assertAccessible(page, "traces list");
         await screenshot(page, `traces-${tag}-01-list`);
 
         await page.getByRole("link", { name: new RegExp(`^${DEMO_TRACES_NAME.replace(/[()]/g, "\\$&")}.*Synthetic, not measured`) }).click();
@@ -90,7 +83,7 @@ for (const vp of [PHONE, WIDE] as Viewport[]) {
         await page.getByTestId("headline-cards").waitFor();
         await page.getByTestId("chart-cells-canvas").locator("canvas").first().waitFor({ timeout: 60_000 });
         await page.waitForTimeout(300);
-        await checkA11y(page, "synthetic set detail");
+        await assertAccessible(page, "synthetic set detail");
         await screenshot(page, `traces-${tag}-02-demo-set`);
 
         // Upload screen: a broken file first.
@@ -109,7 +102,7 @@ for (const vp of [PHONE, WIDE] as Viewport[]) {
         assert.match(text, /Line 5, column 2/, text);
         // The form keeps what was typed.
         assert.equal(await page.getByTestId("upload-threshold").inputValue(), String(s.thresholdMolecules));
-        await checkA11y(page, "upload with problems");
+        await assertAccessible(page, "upload with problems");
         await screenshot(page, `traces-${tag}-03-upload-problems`);
 
         // The demo file with the options that fit it.
@@ -134,7 +127,7 @@ for (const vp of [PHONE, WIDE] as Viewport[]) {
         assert.match(await page.getByTestId("preview-cells").innerText(), /\b40\b/);
         await page.getByTestId("chart-preview-canvas").locator("canvas").first().waitFor({ timeout: 60_000 });
         await page.waitForTimeout(300);
-        await checkA11y(page, "upload preview");
+        await assertAccessible(page, "upload preview");
         await screenshot(page, `traces-${tag}-04-preview`);
 
         await page.getByTestId("upload-save").click();
@@ -148,7 +141,7 @@ for (const vp of [PHONE, WIDE] as Viewport[]) {
         await page.getByTestId("safety-note").first().waitFor();
         await page.getByTestId("chart-cells-canvas").locator("canvas").first().waitFor({ timeout: 60_000 });
         await page.waitForTimeout(300);
-        await checkA11y(page, "uploaded set detail");
+        await assertAccessible(page, "uploaded set detail");
         await screenshot(page, `traces-${tag}-05-detail`);
 
         // Match against the finished demo run (the run list refreshes while runs are active).
@@ -162,7 +155,7 @@ for (const vp of [PHONE, WIDE] as Viewport[]) {
         assert.match(distances, /Wasserstein/, distances);
         await page.getByTestId("chart-match-delays-canvas").locator("canvas").first().waitFor({ timeout: 60_000 });
         await page.waitForTimeout(300);
-        await checkA11y(page, "match result");
+        await assertAccessible(page, "match result");
         await screenshot(page, `traces-${tag}-06-match`, 6);
 
         // Delete, then undo within the grace period.
