@@ -105,7 +105,6 @@ function ComparisonView({ ids }: { ids: string[] }) {
 }
 
 export default function Compare() {
-  const t = useTheme();
   const router = useRouter();
   const params = useLocalSearchParams<{ ids?: string }>();
   const ids = (params.ids ?? "").split(",").filter(Boolean);

@@ -1,6 +1,5 @@
 import React from "react";
 import { View } from "react-native";
-import { useTheme } from "../theme/use-theme";
 import { Card } from "../ui/card";
 import { Text } from "../ui/text";
 import { Button } from "../ui/button";
@@ -11,7 +10,6 @@ const size = (bytes: number) => (bytes >= 1024 * 1024 ? `${(bytes / 1024 / 1024)
 
 /** "Back up the database now": a consistent online copy into backups/ beside the database; shows the file name. */
 export function BackupCard({ onBackup, busy, result, error }: { onBackup: () => void; busy?: boolean; result?: BackupResult; error?: unknown }) {
-  const t = useTheme();
   return (
     <Card testID="backup-card">
       <Text variant="heading">Backup</Text>

@@ -5,7 +5,7 @@
  * and hash in one more.
  */
 import { createHash } from "node:crypto";
-import { and, asc, eq } from "drizzle-orm";
+import { asc, eq } from "drizzle-orm";
 import type Database from "better-sqlite3";
 import type { Db } from "../../db/client";
 import { schema } from "../../db/client";

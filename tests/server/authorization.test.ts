@@ -22,7 +22,6 @@ import { describe, test, before, after } from "node:test";
 import assert from "node:assert/strict";
 import type { AddressInfo } from "node:net";
 import type { Server } from "node:http";
-import { eq } from "drizzle-orm";
 import { allRoutes } from "../../server/routes";
 import type { Access, LabRole, RouteDef } from "../../server/routes/route-table";
 import { roleAtLeast } from "../../server/routes/route-table";
