@@ -10,7 +10,7 @@ import * as runs from "../services/runs.service";
 import * as bundles from "../services/bundles.service";
 import { accelerationFor, compareLabRuns, createMatchedControl } from "../services/analysis.service";
 import { byDurationCsv, pulseStatsCsv, replicateStatsCsv, summaryCsv } from "../../sim/analysis";
-import { readPulseRows, readReplicateRows, rowToPulseStat } from "../services/run-store";
+import { readPulseStats, readReplicateRows } from "../services/run-store";
 import { conflict } from "../http-error";
 import { recordAudit } from "../services/audit.service";
 
@@ -222,12 +222,12 @@ export const runRoutes = defineRoutes([
   },
   exportRoute("replicates.csv", "CSV of every (replicate, input pulse) row.", (ctx, row) => ({
     suffix: "pulses.csv",
-    text: pulseStatsCsv(readPulseRows(ctx.db, row.id).map(rowToPulseStat)),
+    text: pulseStatsCsv(readPulseStats(ctx.db, row.id)),
   })),
   exportRoute("replicate-totals.csv", "CSV of per-replicate totals: events, cap, output mean and variance, pass fraction, median delay and width.", (ctx, row) => ({
     suffix: "replicates.csv",
     text: replicateStatsCsv(
-      readPulseRows(ctx.db, row.id).map(rowToPulseStat),
+      readPulseStats(ctx.db, row.id),
       readReplicateRows(ctx.db, row.id).map((r) => ({ replicate: r.replicate, events: r.events, capped: r.capped, outputMean: r.outputMean ?? NaN, outputVar: r.outputVar ?? NaN })),
     ),
   })),

@@ -10,7 +10,7 @@ import type { RunSummary } from "../../shared/schemas/analysis";
 import { accelerationFigures, compareRuns, delaysOf, widthsOf, makeMatchedControl } from "../../sim/analysis";
 import { badRequest, conflict, notFound } from "../http-error";
 import { checkLimits, getRunRow, insertRun } from "./runs.service";
-import { readPulseRows, rowToPulseStat } from "./run-store";
+import { readPulseStats } from "./run-store";
 
 export function compareLabRuns(ctx: AppContext, labId: string, runIds: string[]) {
   if (new Set(runIds).size !== runIds.length) throw badRequest("Choose different runs to compare.", [{ path: "runIds", message: "duplicates" }]);
@@ -21,7 +21,7 @@ export function compareLabRuns(ctx: AppContext, labId: string, runIds: string[])
   if (unfinished.length) throw conflict(`These runs have no results yet: ${unfinished.map((r) => r.name).join(", ")}.`, "not_finished");
   return compareRuns(
     ordered.map((r) => {
-      const pulses = readPulseRows(ctx.db, r.id).map(rowToPulseStat);
+      const pulses = readPulseStats(ctx.db, r.id);
       return { id: r.id, name: r.name, summary: r.summary as RunSummary, delays: delaysOf(pulses), widths: widthsOf(pulses) };
     }),
   );

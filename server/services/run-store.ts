@@ -74,42 +74,27 @@ export function createChunkWriter(sqlite: Database.Database) {
 
 const finiteOrNull = (x: number | null | undefined) => (x === null || x === undefined || !Number.isFinite(x) ? null : x);
 
-export interface PulseRow {
-  replicate: number;
-  pulseIndex: number;
-  on: number;
-  off: number;
-  durationBin: number;
-  excluded: boolean;
-  passed: boolean;
-  delay: number | null;
-  offDelay: number | null;
-  width: number | null;
-  widths: number[] | null;
-  peak: number;
-  timeToPeak: number;
-  fwhm: number | null;
-  baseline: number;
-}
-
-/** Pulse rows in (replicate, pulse) order. A raw prepared statement: runs can hold millions of rows. */
-export function readPulseRows(db: Db, runId: string): PulseRow[] {
+/**
+ * Pulse statistics in (replicate, pulse) order. A raw prepared statement
+ * returning arrays: runs can hold millions of rows.
+ */
+export function readPulseStats(db: Db, runId: string): PulseStat[] {
   const rows = db.$client
     .prepare(
-      `SELECT replicate, pulse_index AS pulseIndex, "on", off, duration_bin AS durationBin, excluded, passed, delay, off_delay AS offDelay,
-              width, widths, peak, time_to_peak AS timeToPeak, fwhm, baseline
+      `SELECT replicate, pulse_index, "on", off, duration_bin, excluded, passed, delay, off_delay, widths, peak, time_to_peak, fwhm, baseline
          FROM pulse_stats WHERE run_id = ? ORDER BY replicate, pulse_index`,
     )
-    .all(runId) as (Omit<PulseRow, "excluded" | "passed" | "widths"> & { excluded: number; passed: number; widths: string | null })[];
-  return rows.map((r) => ({ ...r, excluded: r.excluded === 1, passed: r.passed === 1, widths: r.widths === null ? null : (JSON.parse(r.widths) as number[]) }));
-}
-
-export function rowToPulseStat(r: PulseRow): PulseStat {
-  return {
-    replicate: r.replicate, pulseIndex: r.pulseIndex, on: r.on, off: r.off, durationBin: r.durationBin,
-    excluded: r.excluded, passed: r.passed, delay: r.delay, offDelay: r.offDelay,
-    widths: (r.widths as number[] | null) ?? [], peak: r.peak, timeToPeak: r.timeToPeak, fwhm: r.fwhm, baseline: r.baseline,
-  };
+    .raw()
+    .all(runId) as [number, number, number, number, number, number, number, number | null, number | null, string | null, number, number, number | null, number][];
+  const out: PulseStat[] = new Array(rows.length);
+  for (let i = 0; i < rows.length; i++) {
+    const r = rows[i];
+    out[i] = {
+      replicate: r[0], pulseIndex: r[1], on: r[2], off: r[3], durationBin: r[4], excluded: r[5] === 1, passed: r[6] === 1,
+      delay: r[7], offDelay: r[8], widths: r[9] === null ? [] : (JSON.parse(r[9]) as number[]), peak: r[10], timeToPeak: r[11], fwhm: r[12], baseline: r[13],
+    };
+  }
+  return out;
 }
 
 export function readReplicateRows(db: Db, runId: string) {
@@ -127,7 +112,7 @@ export function readChunks(db: Db, runId: string) {
  */
 export function computeStatsHash(
   replicates: { replicate: number; events: number; capped: boolean; outputMean: number | null; outputVar: number | null }[],
-  pulses: PulseRow[],
+  pulses: PulseStat[],
   series: { species: string; kind: string; values: Uint8Array }[],
 ): string {
   const h = createHash("sha256");
@@ -141,13 +126,13 @@ export function computeStatsHash(
 /** The hash of a run's stored statistics as they are in the database. */
 export function statsHash(db: Db, runId: string): string {
   const series = db.select().from(schema.runSeries).where(eq(schema.runSeries.runId, runId)).all();
-  return computeStatsHash(readReplicateRows(db, runId), readPulseRows(db, runId), series.map((s) => ({ species: s.species, kind: s.kind, values: s.values as Buffer })));
+  return computeStatsHash(readReplicateRows(db, runId), readPulseStats(db, runId), series.map((s) => ({ species: s.species, kind: s.kind, values: s.values as Buffer })));
 }
 
 export const canonicalReplicate = (r: { replicate: number; events: number; capped: boolean; outputMean: number | null; outputVar: number | null }) =>
   `r ${r.replicate} ${r.events} ${r.capped ? 1 : 0} ${r.outputMean} ${r.outputVar}`;
-export const canonicalPulse = (p: PulseRow) =>
-  `p ${p.replicate} ${p.pulseIndex} ${p.on} ${p.off} ${p.durationBin} ${p.excluded ? 1 : 0} ${p.passed ? 1 : 0} ${p.delay} ${p.offDelay} ${JSON.stringify(p.widths ?? [])} ${p.peak} ${p.timeToPeak} ${p.fwhm} ${p.baseline}`;
+export const canonicalPulse = (p: PulseStat) =>
+  `p ${p.replicate} ${p.pulseIndex} ${p.on} ${p.off} ${p.durationBin} ${p.excluded ? 1 : 0} ${p.passed ? 1 : 0} ${p.delay} ${p.offDelay} ${JSON.stringify(p.widths)} ${p.peak} ${p.timeToPeak} ${p.fwhm} ${p.baseline}`;
 
 /** The first difference between two runs' stored statistics, or null when identical. */
 export function firstDifference(db: Db, a: string, b: string): string | null {
@@ -157,9 +142,9 @@ export function firstDifference(db: Db, a: string, b: string): string | null {
     const x = canonicalReplicate(ra[i]), y = canonicalReplicate(rb[i]);
     if (x !== y) return `replicate ${ra[i].replicate}: events/output differ (${x.slice(2)} vs ${y.slice(2)})`;
   }
-  const pa = readPulseRows(db, a), pb = readPulseRows(db, b);
+  const pa = readPulseStats(db, a), pb = readPulseStats(db, b);
   if (pa.length !== pb.length) return `pulse row count differs: ${pa.length} vs ${pb.length}`;
-  const fields: (keyof PulseRow)[] = ["on", "off", "durationBin", "excluded", "passed", "delay", "offDelay", "widths", "peak", "timeToPeak", "fwhm", "baseline"];
+  const fields: (keyof PulseStat)[] = ["on", "off", "durationBin", "excluded", "passed", "delay", "offDelay", "widths", "peak", "timeToPeak", "fwhm", "baseline"];
   for (let i = 0; i < pa.length; i++) {
     for (const f of fields) {
       const x = JSON.stringify(pa[i][f]), y = JSON.stringify(pb[i][f]);

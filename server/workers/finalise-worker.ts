@@ -14,7 +14,7 @@ import type { RunSpec } from "../../shared/schemas/run-spec";
 import type { RunSummary } from "../../shared/schemas/analysis";
 import { reduceChunks, resolveThreshold, solveOde, gridTimes } from "../../sim";
 import { summarizeRun } from "../../sim/analysis";
-import { computeStatsHash, fromBlob, readChunks, readPulseRows, readReplicateRows, rowToPulseStat, toBlob } from "../services/run-store";
+import { computeStatsHash, fromBlob, readChunks, readPulseStats, readReplicateRows, toBlob } from "../services/run-store";
 
 export interface FinaliseTask {
   dbPath: string;
@@ -57,9 +57,9 @@ export default function finalise(task: FinaliseTask): FinaliseResult {
       if (ode) series.push({ species: sp.name, kind: "ode", values: toBlob(ode.slice(s * n, (s + 1) * n)) });
     });
     const replicates = readReplicateRows(db, task.runId);
-    const pulseRows = readPulseRows(db, task.runId);
+    const pulses = readPulseStats(db, task.runId);
     const summary = summarizeRun({
-      pulses: pulseRows.map(rowToPulseStat),
+      pulses,
       replicates: replicates.map((r) => ({ replicate: r.replicate, events: r.events, capped: r.capped, outputMean: r.outputMean ?? NaN, outputVar: r.outputVar ?? NaN })),
       threshold: resolveThreshold(spec),
       noiseDurationMinutes: spec.threshold?.noiseDurationMinutes ?? 10,
@@ -67,7 +67,7 @@ export default function finalise(task: FinaliseTask): FinaliseResult {
     return {
       series: series.map((s) => ({ ...s, values: new Uint8Array(s.values) })),
       summary,
-      statsHash: computeStatsHash(replicates, pulseRows, series),
+      statsHash: computeStatsHash(replicates, pulses, series),
       capped: replicates.some((r) => r.capped),
       odeNote,
     };
