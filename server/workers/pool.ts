@@ -34,7 +34,7 @@ export function createSimPool(opts: { threads: number; idleTimeoutMs?: number })
     async warmUp(spec) {
       const tasks: Promise<unknown>[] = [];
       for (let i = 0; i < threads; i++)
-        tasks.push(piscina.run({ spec, replicateStart: 0, count: 0, warmUp: { holdMs: threads > 1 ? 100 : 0 } } satisfies SimTask));
+        tasks.push(piscina.run({ spec, replicateStart: 0, count: 0, warmUp: { holdMs: threads > 1 ? 100 : 0, replicates: 3 } } satisfies SimTask));
       await Promise.all(tasks);
     },
     destroy: () => piscina.destroy(),

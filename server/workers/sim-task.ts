@@ -9,5 +9,5 @@ export interface SimTask {
   /** Wall-time cap for this chunk, milliseconds; the chunk comes back with aborted = true past it. */
   wallTimeLimitMs?: number;
   /** Only compile and cache the spec (and hold the thread for holdMs), returning an empty result. */
-  warmUp?: { holdMs?: number };
+  warmUp?: { holdMs?: number; replicates?: number };
 }

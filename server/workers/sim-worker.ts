@@ -30,7 +30,8 @@ export default function simWorker(task: SimTask): unknown {
     prepareRun(task.spec);
     const hold = task.warmUp.holdMs ?? 0;
     if (hold > 0) Atomics.wait(new Int32Array(new SharedArrayBuffer(4)), 0, 0, hold);
-    return simulateChunk(task.spec, 0, 0);
+    // A few throwaway replicates let the JIT optimise this thread's generated kernel before timing starts.
+    return simulateChunk(task.spec, 0, task.warmUp.replicates ?? 0);
   }
   const limit = task.wallTimeLimitMs;
   const deadline = limit !== undefined && limit > 0 ? Date.now() + limit : Infinity;
