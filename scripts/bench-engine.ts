@@ -30,6 +30,8 @@ export interface EngineBenchOptions {
   threads?: number[];
   specPath?: string;
   replicates?: number;
+  /** Throwaway replicates per thread before timing (default 3; 0 compiles the spec only, as the server's pool does). */
+  warmUpReplicates?: number;
   /** Called after each measurement. */
   onResult?: (r: EngineBenchResult) => void;
 }
@@ -43,7 +45,7 @@ export async function runEngineBench(opts: EngineBenchOptions = {}): Promise<Eng
   for (const threads of threadCounts) {
     const pool = createSimPool({ threads });
     try {
-      await pool.warmUp(spec);
+      await pool.warmUp(spec, { replicates: opts.warmUpReplicates });
       const c0 = process.cpuUsage();
       const t0 = performance.now();
       const { events } = await runAllChunks(spec, { pool });

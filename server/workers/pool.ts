@@ -13,8 +13,8 @@ export type { SimTask } from "./sim-task";
 
 export interface SimPool {
   runChunk(task: SimTask): Promise<ChunkResult & { wallTimeExceeded?: boolean }>;
-  /** Compiles the spec in every thread (so timing starts with warm caches). */
-  warmUp(spec: RunSpec): Promise<void>;
+  /** Compiles the spec in every thread and runs a few throwaway replicates (so timing starts with warm caches and JIT). */
+  warmUp(spec: RunSpec, opts?: { replicates?: number }): Promise<void>;
   threads: number;
   destroy(): Promise<void>;
 }
@@ -31,10 +31,10 @@ export function createSimPool(opts: { threads: number; idleTimeoutMs?: number })
   return {
     threads,
     runChunk: (task) => piscina.run(task),
-    async warmUp(spec) {
+    async warmUp(spec, warmOpts = {}) {
       const tasks: Promise<unknown>[] = [];
       for (let i = 0; i < threads; i++)
-        tasks.push(piscina.run({ spec, replicateStart: 0, count: 0, warmUp: { holdMs: threads > 1 ? 100 : 0, replicates: 3 } } satisfies SimTask));
+        tasks.push(piscina.run({ spec, replicateStart: 0, count: 0, warmUp: { holdMs: threads > 1 ? 100 : 0, replicates: warmOpts.replicates ?? 3 } } satisfies SimTask));
       await Promise.all(tasks);
     },
     destroy: () => piscina.destroy(),
