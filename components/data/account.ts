@@ -4,7 +4,8 @@
  */
 import { useMutation, useQueryClient } from "@tanstack/react-query";
 import { api } from "./api";
-import { MeSchema, meKeys } from "./use-me";
+import { meKeys } from "./use-me";
+import { MeSchema, OkSchema, type ChangePasswordBody, type MePatchBody } from "../../shared/schemas/api-accounts";
 
 /** The server's rule (shared/schemas/auth.ts). */
 export { PASSWORD_MIN_LENGTH, PASSWORD_MAX_LENGTH } from "../../shared/schemas/auth";
@@ -13,7 +14,7 @@ export { PASSWORD_MIN_LENGTH, PASSWORD_MAX_LENGTH } from "../../shared/schemas/a
 export function useUpdateProfile() {
   const qc = useQueryClient();
   return useMutation({
-    mutationFn: (body: { displayName?: string; notifyOnRunEnd?: boolean }) => api("/api/me", { method: "PATCH", body, schema: MeSchema }),
+    mutationFn: (body: MePatchBody) => api("/api/me", { method: "PATCH", body, schema: MeSchema }),
     onSuccess: (me) => qc.setQueryData(meKeys.all, me),
   });
 }
@@ -21,6 +22,6 @@ export function useUpdateProfile() {
 /** POST /api/auth/change-password; the server ends the user's other sessions. */
 export function useChangePassword() {
   return useMutation({
-    mutationFn: (body: { currentPassword: string; newPassword: string }) => api("/api/auth/change-password", { method: "POST", body }),
+    mutationFn: (body: ChangePasswordBody) => api("/api/auth/change-password", { method: "POST", body, schema: OkSchema }),
   });
 }

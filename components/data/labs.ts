@@ -1,78 +1,36 @@
 /**
  * Labs, members, invitations and the audit trail (server/routes/labs.routes.ts,
- * and the public invitation routes of auth.routes.ts).
- *
- * The response shapes are declared here because shared/schemas has no labs
- * contract yet; they mirror server/services/labs.service.ts and audit.service.ts.
+ * and the public invitation routes of auth.routes.ts). Contract:
+ * shared/schemas/api-accounts.ts.
  */
 import { useInfiniteQuery, useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
-import { z } from "zod";
 import { api } from "./api";
-import { MeSchema, meKeys } from "./use-me";
+import { meKeys } from "./use-me";
+import {
+  AcceptInvitationResponseSchema,
+  AuditPageSchema,
+  InvitationListSchema,
+  InvitationOfferResponseSchema,
+  InviteResponseSchema,
+  LabCreatedSchema,
+  LabMembersResponseSchema,
+  LabResponseSchema,
+  type AcceptInvitationBody,
+  type InviteBody,
+  type LabCreateBody,
+  type LabRole,
+} from "../../shared/schemas/api-accounts";
 
-export const LAB_ROLES = ["owner", "editor", "viewer"] as const;
-export const LabRoleSchema = z.enum(LAB_ROLES);
-export type LabRole = z.infer<typeof LabRoleSchema>;
-
-export const LabMemberSchema = z.object({
-  userId: z.string(),
-  email: z.string(),
-  displayName: z.string(),
-  role: LabRoleSchema,
-  joinedAt: z.string(),
-});
-export type LabMember = z.infer<typeof LabMemberSchema>;
-
-export const LabDetailSchema = z.object({
-  id: z.string(),
-  name: z.string(),
-  isDemo: z.boolean().optional().default(false),
-  createdAt: z.string(),
-  members: z.array(LabMemberSchema),
-});
-export type LabDetail = z.infer<typeof LabDetailSchema>;
-const LabResponseSchema = z.object({ lab: LabDetailSchema, role: LabRoleSchema.optional() });
-
-export const PendingInvitationSchema = z.object({
-  id: z.string(),
-  email: z.string().nullable(),
-  role: LabRoleSchema.nullable(),
-  expiresAt: z.string(),
-  createdAt: z.string(),
-  invitedBy: z.string().nullable(),
-});
-export type PendingInvitation = z.infer<typeof PendingInvitationSchema>;
-const InvitationListSchema = z.object({ invitations: z.array(PendingInvitationSchema) });
-const InviteResponseSchema = z.object({ invitation: z.object({ email: z.string(), role: LabRoleSchema, expiresAt: z.string() }) });
-
-export const AuditEventSchema = z.object({
-  id: z.number(),
-  labId: z.string().nullable(),
-  userId: z.string().nullable(),
-  userName: z.string().nullable(),
-  action: z.string(),
-  targetType: z.string().nullable(),
-  targetId: z.string().nullable(),
-  detail: z.unknown(),
-  at: z.string(),
-});
-export type AuditEvent = z.infer<typeof AuditEventSchema>;
-const AuditPageSchema = z.object({ events: z.array(AuditEventSchema) });
-
-/** What a public invitation link offers. */
-export const InvitationOfferSchema = z.object({
-  labName: z.string(),
-  role: LabRoleSchema,
-  email: z.string(),
-  expiresAt: z.string(),
-  hasAccount: z.boolean(),
-});
-export type InvitationOffer = z.infer<typeof InvitationOfferSchema>;
-const InvitationOfferResponseSchema = z.object({ invitation: InvitationOfferSchema });
-const AcceptResponseSchema = MeSchema.extend({ labId: z.string(), role: LabRoleSchema });
-export type AcceptResult = z.infer<typeof AcceptResponseSchema>;
-
-const CreatedLabSchema = z.object({ lab: z.object({ id: z.string(), name: z.string(), role: LabRoleSchema }) });
+export { LAB_ROLES } from "../../shared/schemas/api-accounts";
+export type {
+  AcceptInvitationResponse as AcceptResult,
+  AuditEvent,
+  InvitationOffer,
+  LabDetail,
+  LabMember,
+  LabRole,
+  PendingInvitation,
+} from "../../shared/schemas/api-accounts";
 
 export const labKeys = {
   all: ["labs"] as const,
@@ -104,7 +62,7 @@ export function useInvitations(labId: string, enabled = true) {
 export function useInvite(labId: string) {
   const qc = useQueryClient();
   return useMutation({
-    mutationFn: (body: { email: string; role: LabRole }) => api(`/api/labs/${labId}/invitations`, { method: "POST", body, schema: InviteResponseSchema }),
+    mutationFn: (body: InviteBody) => api(`/api/labs/${labId}/invitations`, { method: "POST", body, schema: InviteResponseSchema }),
     onSuccess: () => {
       qc.invalidateQueries({ queryKey: labKeys.invitations(labId) });
       qc.invalidateQueries({ queryKey: ["labs", "audit", labId] });
@@ -127,7 +85,7 @@ export function useChangeRole(labId: string) {
   const qc = useQueryClient();
   return useMutation({
     mutationFn: (v: { userId: string; role: LabRole }) =>
-      api(`/api/labs/${labId}/members/${encodeURIComponent(v.userId)}`, { method: "PATCH", body: { role: v.role }, schema: z.object({ lab: LabDetailSchema }) }),
+      api(`/api/labs/${labId}/members/${encodeURIComponent(v.userId)}`, { method: "PATCH", body: { role: v.role }, schema: LabMembersResponseSchema }),
     onSuccess: () => {
       qc.invalidateQueries({ queryKey: labKeys.detail(labId) });
       qc.invalidateQueries({ queryKey: ["labs", "audit", labId] });
@@ -153,7 +111,7 @@ export function useRemoveMember(labId: string) {
 export function useCreateLab() {
   const qc = useQueryClient();
   return useMutation({
-    mutationFn: (body: { name: string }) => api("/api/labs", { method: "POST", body, schema: CreatedLabSchema }).then((r) => r.lab),
+    mutationFn: (body: LabCreateBody) => api("/api/labs", { method: "POST", body, schema: LabCreatedSchema }).then((r) => r.lab),
     onSuccess: () => qc.invalidateQueries({ queryKey: meKeys.all }),
   });
 }
@@ -184,7 +142,7 @@ export function useInvitationOffer(token: string | undefined) {
 export function useAcceptInvitation() {
   const qc = useQueryClient();
   return useMutation({
-    mutationFn: (body: { token: string; password?: string; displayName?: string }) => api("/api/invitations/accept", { method: "POST", body, schema: AcceptResponseSchema }),
+    mutationFn: (body: AcceptInvitationBody) => api("/api/invitations/accept", { method: "POST", body, schema: AcceptInvitationResponseSchema }),
     onSuccess: (r) => {
       qc.setQueryData(meKeys.all, { user: r.user, labs: r.labs });
       qc.invalidateQueries({ queryKey: labKeys.all });

@@ -1,18 +1,21 @@
+/**
+ * The session: /api/me, sign-in and -out, sign-up and password reset
+ * (contract: shared/schemas/api-accounts.ts). Profile changes live in account.ts.
+ */
 import { useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
-import { z } from "zod";
 import { api } from "./api";
+import {
+  MeSchema,
+  OkSchema,
+  SignedInSchema,
+  type MePatchBody,
+  type ResetConfirmBody,
+  type ResetRequestBody,
+  type SignInBody,
+  type SignUpBody,
+} from "../../shared/schemas/api-accounts";
 
-export const MeUserSchema = z.object({
-  id: z.string(),
-  email: z.string(),
-  displayName: z.string(),
-  isSiteAdmin: z.boolean().optional().default(false),
-  notifyOnRunEnd: z.boolean().optional().default(true),
-});
-export const MeLabSchema = z.object({ id: z.string(), name: z.string(), role: z.enum(["owner", "editor", "viewer"]) });
-export const MeSchema = z.object({ user: MeUserSchema, labs: z.array(MeLabSchema) });
-export type Me = z.infer<typeof MeSchema>;
-export type MeLab = z.infer<typeof MeLabSchema>;
+export type { Me, MeLab, MeUser } from "../../shared/schemas/api-accounts";
 
 export const meKeys = { all: ["me"] as const };
 
@@ -24,7 +27,7 @@ export function useMe() {
 export function useSignIn() {
   const qc = useQueryClient();
   return useMutation({
-    mutationFn: (body: { email: string; password: string }) => api("/api/auth/sign-in", { method: "POST", body }),
+    mutationFn: (body: SignInBody) => api("/api/auth/sign-in", { method: "POST", body, schema: SignedInSchema }),
     onSuccess: async () => {
       qc.clear();
       await qc.invalidateQueries({ queryKey: meKeys.all });
@@ -34,8 +37,7 @@ export function useSignIn() {
 
 export function useSignUp() {
   return useMutation({
-    mutationFn: (body: { email: string; password: string; displayName: string; invitationToken?: string }) =>
-      api("/api/auth/sign-up", { method: "POST", body }),
+    mutationFn: (body: SignUpBody) => api("/api/auth/sign-up", { method: "POST", body, schema: SignedInSchema }),
   });
 }
 
@@ -50,17 +52,17 @@ export function useSignOut() {
 }
 
 export function useResetRequest() {
-  return useMutation({ mutationFn: (body: { email: string }) => api("/api/auth/reset-request", { method: "POST", body }) });
+  return useMutation({ mutationFn: (body: ResetRequestBody) => api("/api/auth/reset-request", { method: "POST", body, schema: OkSchema }) });
 }
 
 export function useResetConfirm() {
-  return useMutation({ mutationFn: (body: { token: string; password: string }) => api("/api/auth/reset-confirm", { method: "POST", body }) });
+  return useMutation({ mutationFn: (body: ResetConfirmBody) => api("/api/auth/reset-confirm", { method: "POST", body, schema: OkSchema }) });
 }
 
 export function useUpdateMe() {
   const qc = useQueryClient();
   return useMutation({
-    mutationFn: (body: { displayName?: string; notifyOnRunEnd?: boolean }) => api("/api/me", { method: "PATCH", body }),
+    mutationFn: (body: MePatchBody) => api("/api/me", { method: "PATCH", body, schema: MeSchema }),
     onSuccess: () => qc.invalidateQueries({ queryKey: meKeys.all }),
   });
 }

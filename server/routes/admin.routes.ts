@@ -1,5 +1,4 @@
 /** Site-admin routes: the fake SMTP outbox, database backup, the user list. */
-import { z } from "zod";
 import { mkdirSync, statSync } from "node:fs";
 import { dirname, join, resolve } from "node:path";
 import { count, desc, eq } from "drizzle-orm";
@@ -7,11 +6,7 @@ import { defineRoutes } from "./route-table";
 import { schema } from "../../db/client";
 import { recordAudit } from "../services/audit.service";
 import type { AppContext } from "../context";
-
-export const OutboxQuerySchema = z.object({
-  limit: z.coerce.number().int().min(1).max(500).default(100),
-  to: z.string().max(254).optional(),
-});
+import { OutboxQuerySchema, type AdminUsers, type BackupResult, type Outbox } from "../../shared/schemas/api-accounts";
 
 /** Folder for backups: `backups/` beside the database file (data/backups by default). */
 export function backupDir(ctx: AppContext): string {
@@ -38,7 +33,7 @@ export const adminRoutes = defineRoutes([
     access: { kind: "siteAdmin" },
     query: OutboxQuerySchema,
     summary: "Mail kept by the local fake SMTP server, newest first (empty when a real SMTP server is configured).",
-    handler: ({ ctx, query }) => {
+    handler: ({ ctx, query }): Outbox => {
       const o = schema.outbox;
       const rows = ctx.db
         .select()
@@ -58,7 +53,7 @@ export const adminRoutes = defineRoutes([
     path: "/admin/backup",
     access: { kind: "siteAdmin" },
     summary: "Write a consistent backup of the database (SQLite online backup) to data/backups; returns the file name.",
-    handler: async ({ ctx, res, user }) => {
+    handler: async ({ ctx, res, user }): Promise<BackupResult> => {
       const b = await backupDatabase(ctx);
       recordAudit(ctx, { labId: null, userId: user!.id, action: "admin.backup", targetType: "file", targetId: b.file, detail: { bytes: b.bytes } });
       res.status(201);
@@ -70,7 +65,7 @@ export const adminRoutes = defineRoutes([
     path: "/admin/users",
     access: { kind: "siteAdmin" },
     summary: "Every account on the instance with its number of labs.",
-    handler: ({ ctx }) => {
+    handler: ({ ctx }): AdminUsers => {
       const u = schema.users;
       const m = schema.memberships;
       const rows = ctx.db

@@ -4,7 +4,6 @@
  * rest need a session.
  */
 import type { Request, Response } from "express";
-import { z } from "zod";
 import { defineRoutes, type SessionUser } from "./route-table";
 import { unauthorized } from "../http-error";
 import { authenticatorOf, destroyUserSessions, SESSION_COOKIE } from "../middleware/session";
@@ -15,8 +14,6 @@ import {
   findUserByEmail,
   meUser,
   normalizeEmail,
-  PASSWORD_MAX_LENGTH,
-  PASSWORD_MIN_LENGTH,
   requestPasswordReset,
   updateProfile,
 } from "../services/auth.service";
@@ -24,21 +21,20 @@ import { describeInvitation, invitationEmail, joinWithInvitation, labsOf } from 
 import { assertNotLimited, authLimitersOf } from "../services/rate-limit";
 import { badRequest, conflict } from "../http-error";
 import type { AppContext } from "../context";
-
-const Email = z.string().trim().max(254).pipe(z.email("must be an e-mail address"));
-const Password = z
-  .string()
-  .min(PASSWORD_MIN_LENGTH, `must be at least ${PASSWORD_MIN_LENGTH} characters`)
-  .max(PASSWORD_MAX_LENGTH, `must be at most ${PASSWORD_MAX_LENGTH} characters`);
-const DisplayName = z.string().trim().min(1, "must not be empty").max(80, "must be at most 80 characters");
-
-export const SignInBodySchema = z.object({ email: z.string().max(254), password: z.string().max(PASSWORD_MAX_LENGTH) });
-export const SignUpBodySchema = z.object({ email: Email, password: Password, displayName: DisplayName, invitationToken: z.string().max(200).optional() });
-export const ResetRequestBodySchema = z.object({ email: z.string().trim().max(254) });
-export const ResetConfirmBodySchema = z.object({ token: z.string().min(1).max(200), password: Password });
-export const ChangePasswordBodySchema = z.object({ currentPassword: z.string().max(PASSWORD_MAX_LENGTH), newPassword: Password });
-export const MePatchBodySchema = z.object({ displayName: DisplayName.optional(), notifyOnRunEnd: z.boolean().optional() });
-export const AcceptInvitationBodySchema = z.object({ token: z.string().min(1).max(200), password: Password.optional(), displayName: DisplayName.optional() });
+import {
+  AcceptInvitationBodySchema,
+  ChangePasswordBodySchema,
+  MePatchBodySchema,
+  ResetConfirmBodySchema,
+  ResetRequestBodySchema,
+  SignInBodySchema,
+  SignUpBodySchema,
+  type AcceptInvitationResponse,
+  type InvitationOfferResponse,
+  type Me,
+  type Ok,
+  type SignedIn,
+} from "../../shared/schemas/api-accounts";
 
 function authenticateLocal(req: Request, res: Response): Promise<SessionUser | null> {
   return new Promise((resolve, reject) => {
@@ -56,7 +52,7 @@ function clientKey(req: Request): string {
   return req.ip ?? req.socket.remoteAddress ?? "unknown";
 }
 
-function me(ctx: AppContext, userId: string) {
+function me(ctx: AppContext, userId: string): Me {
   const user = meUser(ctx, userId);
   if (!user) throw unauthorized();
   return { user, labs: labsOf(ctx, userId).map(({ id, name, role }) => ({ id, name, role })) };
@@ -69,7 +65,7 @@ export const authRoutes = defineRoutes([
     access: { kind: "public" },
     body: SignInBodySchema,
     summary: "Sign in with e-mail and password; 200 {user}, 401 when either is wrong (without saying which).",
-    handler: async ({ req, res, ctx, body }) => {
+    handler: async ({ req, res, ctx, body }): Promise<SignedIn> => {
       const l = authLimitersOf(ctx);
       const email = normalizeEmail(body.email);
       const keys: [typeof l.signInPerEmail, string][] = [
@@ -84,7 +80,7 @@ export const authRoutes = defineRoutes([
       }
       l.signInPerEmail.clear(email);
       await logIn(req, user);
-      return { user: meUser(ctx, user.id) };
+      return { user: me(ctx, user.id).user };
     },
   },
   {
@@ -105,7 +101,7 @@ export const authRoutes = defineRoutes([
     access: { kind: "public" },
     body: SignUpBodySchema,
     summary: "Create an account (with an invitation: join its lab; otherwise get a lab of one's own) and sign in; 201 {user}.",
-    handler: async ({ req, res, ctx, body }) => {
+    handler: async ({ req, res, ctx, body }): Promise<SignedIn> => {
       if (body.invitationToken) {
         const invited = invitationEmail(ctx, body.invitationToken);
         if (invited !== normalizeEmail(body.email)) {
@@ -125,7 +121,7 @@ export const authRoutes = defineRoutes([
     access: { kind: "public" },
     body: ResetRequestBodySchema,
     summary: "Mail a password-reset link if the address has an account. Always 200.",
-    handler: async ({ req, ctx, body }) => {
+    handler: async ({ req, ctx, body }): Promise<Ok> => {
       const l = authLimitersOf(ctx);
       const email = normalizeEmail(body.email);
       const keys: [typeof l.resetPerEmail, string][] = [
@@ -148,7 +144,7 @@ export const authRoutes = defineRoutes([
     access: { kind: "public" },
     body: ResetConfirmBodySchema,
     summary: "Set a new password with a reset (or set-up) link; ends the user's other sessions.",
-    handler: async ({ req, ctx, body }) => {
+    handler: async ({ req, ctx, body }): Promise<Ok> => {
       const l = authLimitersOf(ctx);
       const keys: [typeof l.resetPerIp, string][] = [[l.resetPerIp, clientKey(req)]];
       assertNotLimited(keys, "password reset");
@@ -169,7 +165,7 @@ export const authRoutes = defineRoutes([
     access: { kind: "signedIn" },
     body: ChangePasswordBodySchema,
     summary: "Change one's password (needs the current one); ends the user's other sessions.",
-    handler: async ({ req, ctx, user, body }) => {
+    handler: async ({ req, ctx, user, body }): Promise<Ok> => {
       await changePassword(ctx, user!.id, body.currentPassword, body.newPassword);
       destroyUserSessions(ctx, user!.id, req.sessionID);
       return { ok: true };
@@ -180,7 +176,7 @@ export const authRoutes = defineRoutes([
     path: "/me",
     access: { kind: "signedIn" },
     summary: "The signed-in user and their labs with roles.",
-    handler: ({ ctx, user }) => me(ctx, user!.id),
+    handler: ({ ctx, user }): Me => me(ctx, user!.id),
   },
   {
     method: "patch",
@@ -188,7 +184,7 @@ export const authRoutes = defineRoutes([
     access: { kind: "signedIn" },
     body: MePatchBodySchema,
     summary: "Change one's display name or the run-notification setting.",
-    handler: ({ ctx, user, body }) => {
+    handler: ({ ctx, user, body }): Me => {
       updateProfile(ctx, user!.id, body);
       return me(ctx, user!.id);
     },
@@ -198,7 +194,7 @@ export const authRoutes = defineRoutes([
     path: "/invitations/:token",
     access: { kind: "public" },
     summary: "What an invitation link offers: lab name, role, invited address.",
-    handler: ({ ctx, params }) => ({ invitation: describeInvitation(ctx, params.token) }),
+    handler: ({ ctx, params }): InvitationOfferResponse => ({ invitation: describeInvitation(ctx, params.token) }),
   },
   {
     method: "post",
@@ -206,7 +202,7 @@ export const authRoutes = defineRoutes([
     access: { kind: "public" },
     body: AcceptInvitationBodySchema,
     summary: "Accept an invitation: adds the signed-in user, or creates the invited account (password, displayName) and signs in.",
-    handler: async ({ req, ctx, user, body }) => {
+    handler: async ({ req, ctx, user, body }): Promise<AcceptInvitationResponse> => {
       if (user) {
         const joined = joinWithInvitation(ctx, body.token, user.id);
         return { ...joined, ...me(ctx, user.id) };

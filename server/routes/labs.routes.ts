@@ -1,20 +1,21 @@
 /** Labs, members, invitations and the audit trail. */
-import { z } from "zod";
 import { defineRoutes } from "./route-table";
 import { listAudit } from "../services/audit.service";
 import { changeRole, createLab, deleteLab, inviteMember, labDetail, labsOf, pendingInvitations, removeMember, renameLab, revokeInvitation } from "../services/labs.service";
-
-const LabName = z.string().trim().min(1, "must not be empty").max(80, "must be at most 80 characters");
-const Role = z.enum(["owner", "editor", "viewer"]);
-
-export const LabCreateBodySchema = z.object({ name: LabName });
-export const LabPatchBodySchema = z.object({ name: LabName });
-export const InviteBodySchema = z.object({ email: z.string().trim().max(254).pipe(z.email("must be an e-mail address")), role: Role });
-export const RoleBodySchema = z.object({ role: Role });
-export const AuditQuerySchema = z.object({
-  limit: z.coerce.number().int().min(1).max(500).optional(),
-  before: z.coerce.number().int().min(1).optional(),
-});
+import {
+  AuditQuerySchema,
+  InviteBodySchema,
+  LabCreateBodySchema,
+  LabPatchBodySchema,
+  RoleBodySchema,
+  type AuditPage,
+  type InvitationList,
+  type InviteResponse,
+  type LabCreated,
+  type LabList,
+  type LabMembersResponse,
+  type LabResponse,
+} from "../../shared/schemas/api-accounts";
 
 export const labsRoutes = defineRoutes([
   {
@@ -22,7 +23,7 @@ export const labsRoutes = defineRoutes([
     path: "/labs",
     access: { kind: "signedIn" },
     summary: "The caller's labs with their role.",
-    handler: ({ ctx, user }) => ({ labs: labsOf(ctx, user!.id) }),
+    handler: ({ ctx, user }): LabList => ({ labs: labsOf(ctx, user!.id) }),
   },
   {
     method: "post",
@@ -30,7 +31,7 @@ export const labsRoutes = defineRoutes([
     access: { kind: "signedIn" },
     body: LabCreateBodySchema,
     summary: "Create a lab; the creator becomes its owner.",
-    handler: ({ ctx, res, user, body }) => {
+    handler: ({ ctx, res, user, body }): LabCreated => {
       const lab = createLab(ctx, user!.id, body.name);
       res.status(201);
       return { lab };
@@ -41,7 +42,7 @@ export const labsRoutes = defineRoutes([
     path: "/labs/:labId",
     access: { kind: "lab", role: "viewer" },
     summary: "A lab: name and members.",
-    handler: ({ ctx, labId, role }) => ({ lab: labDetail(ctx, labId), role }),
+    handler: ({ ctx, labId, role }): LabResponse => ({ lab: labDetail(ctx, labId), role: role! }),
   },
   {
     method: "patch",
@@ -49,9 +50,9 @@ export const labsRoutes = defineRoutes([
     access: { kind: "lab", role: "owner" },
     body: LabPatchBodySchema,
     summary: "Rename a lab.",
-    handler: ({ ctx, user, labId, role, body }) => {
+    handler: ({ ctx, user, labId, role, body }): LabResponse => {
       renameLab(ctx, user!.id, labId, body.name);
-      return { lab: labDetail(ctx, labId), role };
+      return { lab: labDetail(ctx, labId), role: role! };
     },
   },
   {
@@ -70,7 +71,7 @@ export const labsRoutes = defineRoutes([
     access: { kind: "lab", role: "owner" },
     body: InviteBodySchema,
     summary: "Invite someone by e-mail with a role; the link expires in 7 days.",
-    handler: async ({ ctx, res, user, labId, body }) => {
+    handler: async ({ ctx, res, user, labId, body }): Promise<InviteResponse> => {
       const invitation = await inviteMember(ctx, user!, labId, body.email, body.role);
       res.status(201);
       return { invitation };
@@ -81,7 +82,7 @@ export const labsRoutes = defineRoutes([
     path: "/labs/:labId/invitations",
     access: { kind: "lab", role: "owner" },
     summary: "Pending (unused, unexpired) invitations.",
-    handler: ({ ctx, labId }) => ({ invitations: pendingInvitations(ctx, labId) }),
+    handler: ({ ctx, labId }): InvitationList => ({ invitations: pendingInvitations(ctx, labId) }),
   },
   {
     method: "delete",
@@ -99,7 +100,7 @@ export const labsRoutes = defineRoutes([
     access: { kind: "lab", role: "owner" },
     body: RoleBodySchema,
     summary: "Change a member's role; a lab always keeps an owner (409 otherwise).",
-    handler: ({ ctx, user, labId, params, body }) => {
+    handler: ({ ctx, user, labId, params, body }): LabMembersResponse => {
       changeRole(ctx, user!.id, labId, params.userId, body.role);
       return { lab: labDetail(ctx, labId) };
     },
@@ -120,6 +121,6 @@ export const labsRoutes = defineRoutes([
     access: { kind: "lab", role: "owner" },
     query: AuditQuerySchema,
     summary: "The lab's audit trail, newest first (?limit, ?before=<id> to page back).",
-    handler: ({ ctx, labId, query }) => ({ events: listAudit(ctx, labId, { limit: query.limit, beforeId: query.before }) }),
+    handler: ({ ctx, labId, query }): AuditPage => ({ events: listAudit(ctx, labId, { limit: query.limit, beforeId: query.before }) }),
   },
 ]);

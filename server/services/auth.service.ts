@@ -10,15 +10,15 @@ import { badRequest, conflict } from "../http-error";
 import type { SessionUser } from "../routes/route-table";
 import { hashPassword, verifyPassword } from "./password";
 import { createToken, findValidToken, markTokenUsed } from "./tokens.service";
+import type { MeUser } from "../../shared/schemas/api-accounts";
 
 /** What the account functions need (the admin CLI has no mailer or queue). */
 export type AccountsCtx = Pick<AppContext, "db" | "sqlite" | "env">;
 
 export { PASSWORD_MIN_LENGTH, PASSWORD_MAX_LENGTH } from "../../shared/schemas/auth";
 
-export interface MeUser extends SessionUser {
-  notifyOnRunEnd: boolean;
-}
+/** The signed-in user as the API shows it (contract: shared/schemas/api-accounts.ts). */
+export type { MeUser };
 
 export function normalizeEmail(email: string): string {
   return email.trim().toLowerCase();

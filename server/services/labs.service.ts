@@ -12,13 +12,9 @@ import { roleAtLeast, type LabRole } from "../routes/route-table";
 import { recordAudit } from "./audit.service";
 import { normalizeEmail } from "./auth.service";
 import { createToken, findValidToken, markTokenUsed, type TokenRow } from "./tokens.service";
+import type { InvitationOffer, InvitationSent, JoinedLab, LabDetail, LabSummary, PendingInvitation } from "../../shared/schemas/api-accounts";
 
-export interface LabSummary {
-  id: string;
-  name: string;
-  role: LabRole;
-  memberCount: number;
-}
+export type { LabSummary };
 
 export function labsOf(ctx: AppContext, userId: string): LabSummary[] {
   const m = schema.memberships;
@@ -52,7 +48,7 @@ export function createLab(ctx: AppContext, userId: string, name: string): LabSum
   return { id, name: name.trim(), role: "owner", memberCount: 1 };
 }
 
-export function labDetail(ctx: AppContext, labId: string) {
+export function labDetail(ctx: AppContext, labId: string): LabDetail {
   const lab = ctx.db.select().from(schema.labs).where(eq(schema.labs.id, labId)).get();
   if (!lab) throw notFound("That lab");
   const m = schema.memberships;
@@ -91,7 +87,7 @@ export function deleteLab(ctx: AppContext, userId: string, labId: string): void 
 
 // ------------------------------------------------------------ invitations
 
-export async function inviteMember(ctx: AppContext, inviter: { id: string; displayName: string }, labId: string, emailIn: string, role: LabRole) {
+export async function inviteMember(ctx: AppContext, inviter: { id: string; displayName: string }, labId: string, emailIn: string, role: LabRole): Promise<InvitationSent> {
   const lab = ctx.db.select().from(schema.labs).where(eq(schema.labs.id, labId)).get();
   if (!lab) throw notFound("That lab");
   const email = normalizeEmail(emailIn);
@@ -123,7 +119,7 @@ export async function inviteMember(ctx: AppContext, inviter: { id: string; displ
   return { email, role, expiresAt: expiresAt.toISOString() };
 }
 
-export function pendingInvitations(ctx: AppContext, labId: string) {
+export function pendingInvitations(ctx: AppContext, labId: string): PendingInvitation[] {
   const t = schema.tokens;
   const rows = ctx.db
     .select({ tokenHash: t.tokenHash, email: t.email, role: t.role, expiresAt: t.expiresAt, createdAt: t.createdAt, invitedBy: schema.users.displayName })
@@ -163,7 +159,7 @@ function validInvitation(ctx: AppContext, token: string): TokenRow & { labId: st
 }
 
 /** What a public invitation page shows. */
-export function describeInvitation(ctx: AppContext, token: string) {
+export function describeInvitation(ctx: AppContext, token: string): InvitationOffer {
   const row = validInvitation(ctx, token);
   const lab = ctx.db.select().from(schema.labs).where(eq(schema.labs.id, row.labId)).get();
   if (!lab) throw notFound("That invitation");
@@ -172,7 +168,7 @@ export function describeInvitation(ctx: AppContext, token: string) {
 }
 
 /** Adds the user to the invitation's lab (a higher existing role is kept) and uses up the token. */
-export function joinWithInvitation(ctx: AppContext, token: string, userId: string): { labId: string; role: LabRole } {
+export function joinWithInvitation(ctx: AppContext, token: string, userId: string): JoinedLab {
   const row = validInvitation(ctx, token);
   let role: LabRole = row.role;
   ctx.sqlite.transaction(() => {

@@ -2,6 +2,8 @@
  * Accounts through the HTTP API: sign-in and sessions, cookies, CSRF, rate
  * limits, sign-up (first account = site admin), password reset through the
  * fake SMTP outbox, change password, profile settings, the admin set-up link.
+ * Every successful answer is checked against its shared schema
+ * (shared/schemas/api-accounts.ts), the one the web app parses it with.
  */
 import { describe, test, before, after } from "node:test";
 import assert from "node:assert/strict";
@@ -11,6 +13,8 @@ import { makeTestContext, signIn, tokenFromMail, DEMO_PASSWORD, TEST_BASE_URL, t
 import { schema } from "../../db/client";
 import { defaultAuthLimiters, resetAuthLimiters, setAuthLimiters } from "../../server/services/rate-limit";
 import { createSiteAdmin } from "../../server/services/auth.service";
+import { assertContract } from "../helpers/contract";
+import { AdminUsersSchema, MeSchema, OkSchema, SignedInSchema } from "../../shared/schemas/api-accounts";
 
 const OWNER = "owner@example.org";
 const VIEWER = "viewer@example.org";
@@ -23,10 +27,12 @@ describe("sign-in, session and sign-out", () => {
   test("the demo owner signs in with the demo password: 200 with the user, and /api/me works with the cookie", async () => {
     const agent = request.agent(t.app);
     const r = await agent.post("/api/auth/sign-in").send({ email: OWNER, password: DEMO_PASSWORD }).expect(200);
+    assertContract(SignedInSchema, r.body, "POST /api/auth/sign-in");
     assert.equal(r.body.user.email, OWNER);
     assert.equal(r.body.user.isSiteAdmin, false);
     assert.equal(r.body.user.passwordHash, undefined, "no hash on the wire");
     const me = await agent.get("/api/me").expect(200);
+    assertContract(MeSchema, me.body, "GET /api/me");
     assert.equal(me.body.user.email, OWNER);
     assert.deepEqual(
       me.body.labs.map((l: any) => [l.name, l.role]),
@@ -136,6 +142,7 @@ describe("sign-up", () => {
     try {
       const agent = request.agent(t.app);
       const r = await agent.post("/api/auth/sign-up").send({ email: "Ada@Example.org", password: "a-long-password", displayName: "Ada" }).expect(201);
+      assertContract(SignedInSchema, r.body, "POST /api/auth/sign-up");
       assert.equal(r.body.user.email, "ada@example.org");
       assert.equal(r.body.user.isSiteAdmin, false);
       const me = await agent.get("/api/me").expect(200);
@@ -172,6 +179,7 @@ describe("password reset through the outbox, and change password", () => {
   test("reset-request mails a link with LINGER_BASE_URL; the token sets a new password once and ends old sessions", async () => {
     const oldSession = await signIn(t.app, VIEWER);
     const r = await request(t.app).post("/api/auth/reset-request").send({ email: "Viewer@example.org" }).expect(200);
+    assertContract(OkSchema, r.body, "POST /api/auth/reset-request");
     assert.equal(r.body.ok, true);
     const mail = t.outbox(VIEWER);
     assert.equal(mail.length, 1);
@@ -182,7 +190,8 @@ describe("password reset through the outbox, and change password", () => {
     assert.equal(t.ctx.db.select().from(schema.tokens).all().some((row) => row.tokenHash === token), false);
 
     await request(t.app).post("/api/auth/reset-confirm").send({ token, password: "short" }).expect(400);
-    await request(t.app).post("/api/auth/reset-confirm").send({ token, password: "brand-new-password" }).expect(200);
+    const confirmed = await request(t.app).post("/api/auth/reset-confirm").send({ token, password: "brand-new-password" }).expect(200);
+    assertContract(OkSchema, confirmed.body, "POST /api/auth/reset-confirm");
     await request(t.app).post("/api/auth/sign-in").send({ email: VIEWER, password: DEMO_PASSWORD }).expect(401);
     await signIn(t.app, VIEWER, "brand-new-password");
     await oldSession.get("/api/me").expect(401);
@@ -210,7 +219,8 @@ describe("password reset through the outbox, and change password", () => {
     const other = await signIn(t.app, "editor@example.org");
     const agent = await signIn(t.app, "editor@example.org");
     await agent.post("/api/auth/change-password").send({ currentPassword: "wrong-password", newPassword: "editor-new-password" }).expect(400);
-    await agent.post("/api/auth/change-password").send({ currentPassword: DEMO_PASSWORD, newPassword: "editor-new-password" }).expect(200);
+    const changed = await agent.post("/api/auth/change-password").send({ currentPassword: DEMO_PASSWORD, newPassword: "editor-new-password" }).expect(200);
+    assertContract(OkSchema, changed.body, "POST /api/auth/change-password");
     await agent.get("/api/me").expect(200);
     await other.get("/api/me").expect(401);
     await signIn(t.app, "editor@example.org", "editor-new-password");
@@ -220,6 +230,7 @@ describe("password reset through the outbox, and change password", () => {
   test("PATCH /api/me changes the display name and the run-notification setting", async () => {
     const agent = await signIn(t.app, OWNER);
     const r = await agent.patch("/api/me").send({ displayName: "  Tank owner ", notifyOnRunEnd: false }).expect(200);
+    assertContract(MeSchema, r.body, "PATCH /api/me");
     assert.equal(r.body.user.displayName, "Tank owner");
     assert.equal(r.body.user.notifyOnRunEnd, false);
     await agent.patch("/api/me").send({ notifyOnRunEnd: "no" }).expect(400);
@@ -240,7 +251,8 @@ describe("first site admin by set-up link", () => {
       const agent = await signIn(t.app, "boss@example.org", "boss-password");
       const me = await agent.get("/api/me").expect(200);
       assert.equal(me.body.user.isSiteAdmin, true);
-      await agent.get("/api/admin/users").expect(200);
+      const users = await agent.get("/api/admin/users").expect(200);
+      assertContract(AdminUsersSchema, users.body, "GET /api/admin/users");
       // promoting an existing account
       const again = await createSiteAdmin(t.ctx, "boss@example.org");
       assert.equal(again.created, false);

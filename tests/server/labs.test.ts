@@ -2,7 +2,8 @@
  * Labs and roles through the HTTP API: creating and renaming labs, members
  * and roles (a lab always keeps an owner), invitations by e-mail (through the
  * fake SMTP outbox), the audit trail, and the site-admin routes (users, outbox,
- * online backup).
+ * online backup). Every successful answer is checked against its shared schema
+ * (shared/schemas/api-accounts.ts), the one the web app parses it with.
  */
 import { describe, test, before, after } from "node:test";
 import assert from "node:assert/strict";
@@ -15,6 +16,22 @@ import { makeTestContext, signIn, tokenFromMail, TEST_BASE_URL, type TestApp } f
 import { schema } from "../../db/client";
 import { recordAudit, listAudit } from "../../server/services/audit.service";
 import { backupDir } from "../../server/routes/admin.routes";
+import { assertContract } from "../helpers/contract";
+import {
+  AcceptInvitationResponseSchema,
+  AdminUsersSchema,
+  AuditPageSchema,
+  BackupResultSchema,
+  InvitationListSchema,
+  InvitationOfferResponseSchema,
+  InviteResponseSchema,
+  LabCreatedSchema,
+  LabListSchema,
+  LabMembersResponseSchema,
+  LabResponseSchema,
+  MeSchema,
+  OutboxSchema,
+} from "../../shared/schemas/api-accounts";
 
 const OWNER = "owner@example.org";
 const EDITOR = "editor@example.org";
@@ -32,11 +49,14 @@ describe("labs", () => {
   test("a signed-in user creates a lab and becomes its owner; others cannot see it (404)", async () => {
     const editor = await signIn(t.app, EDITOR);
     const r = await editor.post("/api/labs").send({ name: "  Batch reactor  " }).expect(201);
+    assertContract(LabCreatedSchema, r.body, "POST /api/labs");
     assert.equal(r.body.lab.name, "Batch reactor");
     assert.equal(r.body.lab.role, "owner");
     const list = await editor.get("/api/labs").expect(200);
+    assertContract(LabListSchema, list.body, "GET /api/labs");
     assert.deepEqual(list.body.labs.map((l: any) => [l.name, l.role]).sort(), [["Batch reactor", "owner"], ["Tank Sensor Group", "editor"]]);
     const detail = await editor.get(`/api/labs/${r.body.lab.id}`).expect(200);
+    assertContract(LabResponseSchema, detail.body, "GET /api/labs/:labId");
     assert.deepEqual(detail.body.lab.members.map((m: any) => [m.email, m.role]), [[EDITOR, "owner"]]);
     const owner = await signIn(t.app, OWNER);
     await owner.get(`/api/labs/${r.body.lab.id}`).expect(404);
@@ -56,6 +76,7 @@ describe("labs", () => {
     await editor.patch(`/api/labs/${lab}`).send({ name: "X" }).expect(403);
     await editor.delete(`/api/labs/${lab}`).expect(403);
     const renamed = await owner.patch(`/api/labs/${lab}`).send({ name: "Tank Sensor Team" }).expect(200);
+    assertContract(LabResponseSchema, renamed.body, "PATCH /api/labs/:labId");
     assert.equal(renamed.body.lab.name, "Tank Sensor Team");
 
     const scratch = (await owner.post("/api/labs").send({ name: "Scratch" }).expect(201)).body.lab.id;
@@ -76,6 +97,7 @@ describe("members and roles", () => {
     const viewerId = userId(t, VIEWER);
     const ownerId = userId(t, OWNER);
     const r = await owner.patch(`/api/labs/${lab}/members/${viewerId}`).send({ role: "editor" }).expect(200);
+    assertContract(LabMembersResponseSchema, r.body, "PATCH /api/labs/:labId/members/:userId");
     assert.equal(r.body.lab.members.find((m: any) => m.userId === viewerId).role, "editor");
     const last = await owner.patch(`/api/labs/${lab}/members/${ownerId}`).send({ role: "viewer" }).expect(409);
     assert.equal(last.body.error.code, "last_owner");
@@ -103,6 +125,7 @@ describe("members and roles", () => {
     const lab = t.demoLab!.id;
     const newOwner = await signIn(t.app, VIEWER);
     const r = await newOwner.get(`/api/labs/${lab}/audit`).expect(200);
+    assertContract(AuditPageSchema, r.body, "GET /api/labs/:labId/audit");
     const actions = r.body.events.map((e: any) => e.action);
     assert.deepEqual(actions, ["member.left", "member.role_changed", "member.role_changed", "member.role_changed"]);
     const change = r.body.events.find((e: any) => e.action === "member.role_changed" && e.detail.to === "editor" && e.targetId === userId(t, OWNER));
@@ -133,6 +156,7 @@ describe("invitations", () => {
   async function invite(email: string, role: string) {
     const owner = await signIn(t.app, OWNER);
     const r = await owner.post(`/api/labs/${t.demoLab!.id}/invitations`).send({ email, role }).expect(201);
+    assertContract(InviteResponseSchema, r.body, "POST /api/labs/:labId/invitations");
     const mail = t.outbox(email.toLowerCase()).at(-1)!;
     return { owner, response: r.body, mail, token: tokenFromMail(mail.text, "/invite") };
   }
@@ -147,10 +171,12 @@ describe("invitations", () => {
     assert.match(mail.text, /as an editor/);
 
     const pending = await owner.get(`/api/labs/${t.demoLab!.id}/invitations`).expect(200);
+    assertContract(InvitationListSchema, pending.body, "GET /api/labs/:labId/invitations");
     assert.deepEqual(pending.body.invitations.map((i: any) => [i.email, i.role, i.invitedBy]), [["newcomer@example.org", "editor", "Demo owner"]]);
     assert.equal(pending.body.invitations[0].tokenHash, undefined);
 
     const info = await request(t.app).get(`/api/invitations/${token}`).expect(200);
+    assertContract(InvitationOfferResponseSchema, info.body, "GET /api/invitations/:token");
     assert.deepEqual(
       { ...info.body.invitation, expiresAt: undefined },
       { labName: "Tank Sensor Group", role: "editor", email: "newcomer@example.org", hasAccount: false, expiresAt: undefined },
@@ -160,9 +186,11 @@ describe("invitations", () => {
     const missing = await agent.post("/api/invitations/accept").send({ token }).expect(400);
     assert.deepEqual(missing.body.error.fields.map((f: any) => f.path).sort(), ["displayName", "password"]);
     const ok = await agent.post("/api/invitations/accept").send({ token, password: "newcomer-password", displayName: "Newcomer" }).expect(200);
+    assertContract(AcceptInvitationResponseSchema, ok.body, "POST /api/invitations/accept (new account)");
     assert.equal(ok.body.role, "editor");
     assert.equal(ok.body.user.email, "newcomer@example.org");
     const me = await agent.get("/api/me").expect(200);
+    assertContract(MeSchema, me.body, "GET /api/me");
     assert.deepEqual(me.body.labs.map((l: any) => [l.name, l.role]), [["Tank Sensor Group", "editor"]]);
 
     // One-time.
@@ -185,6 +213,7 @@ describe("invitations", () => {
     assert.equal(anon.body.error.code, "sign_in_required");
     const viewer = await signIn(t.app, VIEWER);
     const ok = await viewer.post("/api/invitations/accept").send({ token }).expect(200);
+    assertContract(AcceptInvitationResponseSchema, ok.body, "POST /api/invitations/accept (signed in)");
     assert.equal(ok.body.labId, lab2);
     assert.deepEqual(ok.body.labs.map((l: any) => l.name).sort(), ["Second lab", "Tank Sensor Group"]);
   });
@@ -245,8 +274,10 @@ describe("site admin routes", () => {
     await request(t.app).post("/api/auth/reset-request").send({ email: EDITOR }).expect(200);
     const admin = await signIn(t.app, VIEWER);
     const users = await admin.get("/api/admin/users").expect(200);
+    assertContract(AdminUsersSchema, users.body, "GET /api/admin/users");
     assert.deepEqual(users.body.users.map((u: any) => [u.email, u.labCount]), [[EDITOR, 1], [OWNER, 1], [VIEWER, 1]]);
     const box = await admin.get(`/api/admin/outbox?to=${EDITOR}`).expect(200);
+    assertContract(OutboxSchema, box.body, "GET /api/admin/outbox");
     assert.equal(box.body.mailer, "fake");
     assert.equal(box.body.messages.length, 1);
     assert.equal(box.body.messages[0].subject, "Reset your Linger password");
@@ -255,6 +286,7 @@ describe("site admin routes", () => {
   test("backup writes a consistent copy of the database (SQLite online backup) that opens with the same data", async () => {
     const admin = await signIn(t.app, VIEWER);
     const r = await admin.post("/api/admin/backup").expect(201);
+    assertContract(BackupResultSchema, r.body, "POST /api/admin/backup");
     assert.match(r.body.file, /^linger-\d{4}-\d\d-\d\dT[\d-]+Z\.db$/);
     const path = join(backupDir(t.ctx), r.body.file);
     assert.ok(existsSync(path));
