@@ -32,6 +32,8 @@ export function Choice<T extends string>({ label, value, options, onChange, test
               style={({ focused }: { pressed: boolean; focused?: boolean }) => ({
                 minHeight: MIN_TOUCH,
                 minWidth: MIN_TOUCH,
+                // A long label wraps inside the row instead of running past its container on a phone.
+                maxWidth: "100%",
                 justifyContent: "center",
                 paddingHorizontal: t.spacing.md,
                 borderRadius: t.radii.md,

@@ -43,18 +43,27 @@ export default function SweepDetailScreen() {
   const figLabel = FIGURES.find((f) => f.value === figure)!.label;
   const [ax, ay] = s.axes;
   let chart: ChartSpec | null = null;
+  let chartEmpty = false;
   if (s.axes.length === 1) {
-    const rows = s.points.map((p) => ({ x: p.values[ax.parameter], y: figureOf(p, figure) })).filter((r) => r.y !== null).sort((a, b) => a.x - b.x);
+    const all = s.points.map((p) => ({ x: p.values[ax.parameter], y: figureOf(p, figure) })).sort((a, b) => a.x - b.x);
+    const rows = all.filter((r) => r.y !== null);
+    // Scale and range come from the swept grid, not from the points that have this figure, so they stay put when
+    // the figure changes and a point without a value shows as a gap at its place rather than being cut off.
+    const xs = ax.values;
+    const xMin = Math.min(...xs), xMax = Math.max(...xs);
+    const logX = xs.length > 1 && xMin > 0 && xMax / xMin >= 8;
+    chartEmpty = rows.length === 0;
     if (rows.length) {
       chart = {
         title: `${figLabel} over ${ax.parameter}`,
-        description: rows.map((r) => `${formatNumber(r.x)}: ${formatNumber(r.y)}`).join("; "),
+        description: all.map((r) => `${formatNumber(r.x)}: ${formatNumber(r.y)}`).join("; "),
         xLabel: ax.parameter,
         yLabel: figLabel,
         rows,
         layers: [{ type: "line", key: "y", color: t.colors.series[0], width: 2 }, { type: "points", key: "y", color: t.colors.series[0], radius: 4 }],
         legend: [{ label: figLabel, color: t.colors.series[0] }],
-        logX: rows.length > 1 && rows[0].x > 0 && rows[rows.length - 1].x / rows[0].x >= 8,
+        logX,
+        xDomain: xMax > xMin ? [xMin, xMax] : undefined,
       };
     }
   }
@@ -79,6 +88,10 @@ export default function SweepDetailScreen() {
       {chart ? (
         <Card>
           <LazyChart spec={chart} testID="sweep-chart" />
+        </Card>
+      ) : chartEmpty ? (
+        <Card testID="sweep-chart-empty">
+          <Text tone="muted">No point has a {figLabel} value{active ? " yet" : ""}. Choose another figure.</Text>
         </Card>
       ) : null}
       {s.axes.length === 2 ? (

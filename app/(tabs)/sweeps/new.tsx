@@ -77,7 +77,7 @@ export default function NewSweep() {
           <Choice
             label="Parameter"
             value={parameter}
-            options={params.map((p) => ({ value: p.ref, label: `${p.label} (now ${p.value} ${p.unit})` }))}
+            options={params.map((p) => ({ value: p.ref, label: `${p.label} (now ${p.value}${p.unit ? ` ${p.unit}` : ""})` }))}
             onChange={(ref) => {
               setParameter(ref);
               const p = params.find((x) => x.ref === ref);
