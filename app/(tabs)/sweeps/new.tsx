@@ -34,6 +34,8 @@ export default function NewSweep() {
   const [replicates, setReplicates] = useState("100");
   const [seed, setSeed] = useState(randomSeed);
   const [name, setName] = useState("");
+  const [thresholdValue, setThresholdValue] = useState("");
+  const [windowMinutes, setWindowMinutes] = useState("");
   const [errors, setErrors] = useState<Record<string, string>>({});
   const launch = useLaunchSweep();
   const server = launch.error instanceof ApiError ? launch.error : null;
@@ -51,12 +53,24 @@ export default function NewSweep() {
     if (!Number.isInteger(n) || n < 2 || n > 400) e.count = "Between 2 and 400 values.";
     if (!Number.isInteger(reps) || reps < 1) e.replicates = "A whole number of at least 1.";
     if (!name.trim()) e.name = "Give the sweep a name.";
+    const th = thresholdValue.trim() ? parseNumber(thresholdValue) : undefined;
+    const win = windowMinutes.trim() ? parseNumber(windowMinutes) : undefined;
+    if (th !== undefined && !(th > 0)) e.thresholdValue = "Threshold must be positive (or empty for the default).";
+    if (win !== undefined && !(win > 0)) e.windowMinutes = "Window must be positive (or empty for the default).";
     setErrors(e);
     if (Object.keys(e).length || !program.data) return;
     launch.mutate(
       {
         name: name.trim(),
-        base: { circuitId, programId, settings: { endTimeMinutes: suggestedEndTime(program.data.body), gridStepMinutes: 1, replicates: reps, seed } },
+        base: { circuitId, programId, settings: {
+            endTimeMinutes: suggestedEndTime(program.data.body),
+            gridStepMinutes: 1,
+            replicates: reps,
+            seed,
+            // One threshold for every point, so their figures compare (the default would follow each point's own steady state).
+            threshold: { value: th, windowMinutes: win },
+          },
+        },
         axes: [{ parameter, grid: { from: f, to: tt, count: n, scale } }],
       },
       { onSuccess: (d) => router.replace(`/sweeps/${d.id}`) },
@@ -95,6 +109,28 @@ export default function NewSweep() {
       ) : circuitId ? <LoadingState label="Loading parameters" /> : null}
       <Card>
         <Field label="Replicates per value" value={replicates} onChangeText={setReplicates} error={errors.replicates} keyboardType="number-pad" />
+        <View style={{ flexDirection: "row", flexWrap: "wrap", gap: t.spacing.md }}>
+          <Field
+            label="Threshold"
+            unit="molecules"
+            value={thresholdValue}
+            onChangeText={setThresholdValue}
+            error={errors.thresholdValue ?? server?.fieldMap?.()["base.settings.threshold.value"]}
+            keyboardType="decimal-pad"
+            hint="Default: half of each point's own ODE steady state when on. Set one value to compare points on the same footing."
+            style={{ flexGrow: 1, flexBasis: 150 }}
+          />
+          <Field
+            label="Response window"
+            unit="min"
+            value={windowMinutes}
+            onChangeText={setWindowMinutes}
+            error={errors.windowMinutes ?? server?.fieldMap?.()["base.settings.threshold.windowMinutes"]}
+            keyboardType="decimal-pad"
+            hint="Default: 3 output lifetimes."
+            style={{ flexGrow: 1, flexBasis: 150 }}
+          />
+        </View>
         <View style={{ flexDirection: "row", gap: t.spacing.sm, alignItems: "flex-end", flexWrap: "wrap" }}>
           <Field label="Seed" value={seed} onChangeText={setSeed} autoCapitalize="none" style={{ flexGrow: 1, flexBasis: 200 }} />
           <Button label="New random seed" variant="secondary" icon="refresh-cw" onPress={() => setSeed(randomSeed())} />
