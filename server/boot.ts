@@ -35,7 +35,7 @@ export async function boot(env: Env = parseEnv()): Promise<Booted> {
   const queue = ctx.queue;
   if (env.LINGER_SEED_DEMO) await seedDemo(ctx);
   queue.kick();
-  // Deleted runs stay restorable for the undo period, then go for good.
+  // Deleted runs and trace sets stay restorable for the undo period, then go for good.
   purgeDeleted(ctx);
   const purge = setInterval(() => purgeDeleted(ctx), 6 * 3600_000);
   purge.unref();

@@ -115,11 +115,16 @@ export function useTraceSets() {
   });
 }
 
-export function useTraceSet(id: string | undefined) {
+/**
+ * One set's detail. `paused` stops fetching and keeps the data shown: after a
+ * delete the server answers 404 until the set is restored, and the screen
+ * still shows the deleted set with its Undo.
+ */
+export function useTraceSet(id: string | undefined, opts: { paused?: boolean } = {}) {
   return useQuery({
     queryKey: traceKeys.detail(id ?? ""),
     queryFn: ({ signal }) => api(`/api/traces/${id}`, { schema: TraceSetDetailSchema, signal }),
-    enabled: !!id,
+    enabled: !!id && !opts.paused,
   });
 }
 
@@ -158,12 +163,28 @@ export function usePatchTraceSet(id: string) {
   });
 }
 
+/**
+ * Deletes at once; the server keeps the set restorable for the undo period
+ * (useRestoreTraceSet). The cached detail is kept so the screen can offer Undo.
+ */
 export function useDeleteTraceSet() {
   const qc = useQueryClient();
   return useMutation({
     mutationFn: (id: string) => api(`/api/traces/${id}`, { method: "DELETE" }),
     onSuccess: (_d, id) => {
-      qc.removeQueries({ queryKey: traceKeys.detail(id) });
+      void qc.cancelQueries({ queryKey: traceKeys.detail(id) });
+      qc.invalidateQueries({ queryKey: ["traces", "list"] });
+    },
+  });
+}
+
+/** Undoes a delete (POST /api/traces/:id/restore); the detail and lists are fetched again. */
+export function useRestoreTraceSet() {
+  const qc = useQueryClient();
+  return useMutation({
+    mutationFn: (id: string) => api(`/api/traces/${id}/restore`, { method: "POST", schema: TraceSetListItemSchema }),
+    onSuccess: (_d, id) => {
+      qc.invalidateQueries({ queryKey: traceKeys.detail(id) });
       qc.invalidateQueries({ queryKey: ["traces", "list"] });
     },
   });

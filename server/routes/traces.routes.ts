@@ -1,6 +1,6 @@
 /** Single-cell traces and matching (contract: shared/schemas/api-traces.ts). Logic in services/traces.service.ts and match.service.ts. */
 import { defineRoutes } from "./route-table";
-import { MatchRequestSchema, TraceSetPatchSchema } from "../../shared/schemas/api-traces";
+import { MatchRequestSchema, TraceSetPatchSchema, type TraceSetListItem } from "../../shared/schemas/api-traces";
 import {
   analyseStored,
   buildTraceSet,
@@ -9,6 +9,7 @@ import {
   metricsCsv,
   previewOf,
   readUpload,
+  restoreTraceSet,
   saveTraceSet,
   sendTraceError,
   traceSetDetail,
@@ -82,11 +83,18 @@ export const traceRoutes = defineRoutes([
     method: "delete",
     path: "/traces/:id",
     access: { kind: "object", resource: "traceSet", role: "editor" },
-    summary: "Delete a trace set (soft delete).",
+    summary: "Delete a trace set; it can be restored for 7 days, then it is purged. Every other route answers 404 for it meanwhile.",
     handler: ({ ctx, params, user }) => {
       deleteTraceSet(ctx, user!.id, params.id);
       return undefined;
     },
+  },
+  {
+    method: "post",
+    path: "/traces/:id/restore",
+    access: { kind: "object", resource: "traceSet", role: "editor" },
+    summary: "Undo a delete (within 7 days); answers the list item. 409 when the set is not deleted.",
+    handler: ({ ctx, params, user }): TraceSetListItem => restoreTraceSet(ctx, user!.id, params.id),
   },
   {
     method: "get",

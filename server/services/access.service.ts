@@ -1,5 +1,5 @@
 /** Who may see what: lab membership and the lab that owns an object. */
-import { and, eq, isNull } from "drizzle-orm";
+import { and, eq } from "drizzle-orm";
 import type { AppContext } from "../context";
 import { schema } from "../../db/client";
 import type { LabRole } from "../routes/route-table";
@@ -36,7 +36,8 @@ export function resourceLab(ctx: AppContext, kind: ResourceKind, id: string): st
       row = ctx.db.select({ labId: s.sweeps.labId }).from(s.sweeps).where(eq(s.sweeps.id, id)).get();
       break;
     case "traceSet":
-      row = ctx.db.select({ labId: s.traceSets.labId }).from(s.traceSets).where(and(eq(s.traceSets.id, id), isNull(s.traceSets.deletedAt))).get();
+      // Like runs: deleted sets stay reachable for restore; traces.service answers 404 for them everywhere else.
+      row = ctx.db.select({ labId: s.traceSets.labId }).from(s.traceSets).where(eq(s.traceSets.id, id)).get();
       break;
     case "match":
       row = ctx.db.select({ labId: s.matches.labId }).from(s.matches).where(eq(s.matches.id, id)).get();

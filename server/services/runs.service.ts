@@ -17,6 +17,7 @@ import { badRequest, conflict, notFound, tooMany } from "../http-error";
 import { parseOr400 } from "../middleware/validate";
 import { newId } from "../ids";
 import { fromBlob } from "./run-store";
+import { purgeDeletedTraceSets } from "./traces.service";
 
 export const randomSeed = () => randomBytes(6).toString("hex");
 
@@ -359,8 +360,9 @@ export function restore(ctx: AppContext, id: string) {
   ctx.db.update(schema.runs).set({ deletedAt: null }).where(eq(schema.runs.id, id)).run();
 }
 
-/** Remove runs deleted longer ago than the undo period. */
+/** Remove runs and trace sets deleted longer ago than the undo period. */
 export function purgeDeleted(ctx: AppContext, now = Date.now()) {
   const cutoff = new Date(now - API_LIMITS.undoDays * 86400_000);
   ctx.db.delete(schema.runs).where(and(isNotNull(schema.runs.deletedAt), lt(schema.runs.deletedAt, cutoff))).run();
+  purgeDeletedTraceSets(ctx, now);
 }

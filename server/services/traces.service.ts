@@ -1,20 +1,21 @@
 /**
  * Single-cell trace sets: upload (multipart, parsed and checked before anything
  * is stored), preview, detail with the pulse figures, settings changes, soft
- * delete and the metrics CSV. Parsing and analysis live in sim/traces (pure);
+ * delete with restore for the undo period (then purged), and the metrics CSV. Parsing and analysis live in sim/traces (pure);
  * this file does the I/O. Contract: shared/schemas/api-traces.ts.
  */
 import type { NextFunction, Request, Response } from "express";
 import multer from "multer";
-import { and, desc, eq, isNull, sql } from "drizzle-orm";
+import { and, desc, eq, isNotNull, isNull, lt, sql } from "drizzle-orm";
 import type { AppContext } from "../context";
 import { schema } from "../../db/client";
 import { newId } from "../ids";
-import { HttpError, badRequest, notFound } from "../http-error";
+import { HttpError, badRequest, conflict, notFound } from "../http-error";
 import { parseOr400 } from "../middleware/validate";
 import { recordAudit } from "./audit.service";
 import { compileProgram } from "../../sim/inputs/compile-program";
 import { InputProgramSchema } from "../../shared/schemas/input-program";
+import { API_LIMITS } from "../../shared/schemas/api-runs";
 import {
   TRACE_LIMITS,
   TraceSettingsSchema,
@@ -224,6 +225,10 @@ export function saveTraceSet(
 
 type TraceSetRow = typeof schema.traceSets.$inferSelect;
 
+/**
+ * A live (not deleted) set, or 404. Every route but restore reads through
+ * this: the access check finds deleted sets too (so restore can reach them).
+ */
 function getRow(ctx: AppContext, id: string): TraceSetRow {
   const row = ctx.db.select().from(schema.traceSets).where(and(eq(schema.traceSets.id, id), isNull(schema.traceSets.deletedAt))).get();
   if (!row) throw notFound("That traceSet");
@@ -323,10 +328,32 @@ export function updateTraceSet(ctx: AppContext, userId: string, id: string, patc
   recordAudit(ctx, { labId: row.labId, userId, action: "traces.updated", targetType: "traceSet", targetId: id, detail: { fields: Object.keys(set) } });
 }
 
+/** Soft delete: the set disappears from every route but restore, and is purged after the undo period. */
 export function deleteTraceSet(ctx: AppContext, userId: string, id: string): void {
   const row = getRow(ctx, id);
-  ctx.db.update(schema.traceSets).set({ deletedAt: new Date() }).where(eq(schema.traceSets.id, id)).run();
-  recordAudit(ctx, { labId: row.labId, userId, action: "traces.deleted", targetType: "traceSet", targetId: id, detail: { name: row.name } });
+  ctx.sqlite.transaction(() => {
+    ctx.db.update(schema.traceSets).set({ deletedAt: new Date() }).where(eq(schema.traceSets.id, id)).run();
+    recordAudit(ctx, { labId: row.labId, userId, action: "traces.deleted", targetType: "traceSet", targetId: id, detail: { name: row.name } });
+  })();
+}
+
+/** Undoes a delete (until the purge); 409 when the set is not deleted. Answers the list item (no analysis). */
+export function restoreTraceSet(ctx: AppContext, userId: string, id: string): TraceSetListItem {
+  const row = ctx.db.select().from(schema.traceSets).where(eq(schema.traceSets.id, id)).get();
+  if (!row) throw notFound("That traceSet");
+  if (!row.deletedAt) throw conflict("That trace set is not deleted.");
+  ctx.sqlite.transaction(() => {
+    ctx.db.update(schema.traceSets).set({ deletedAt: null }).where(eq(schema.traceSets.id, id)).run();
+    recordAudit(ctx, { labId: row.labId, userId, action: "traces.restored", targetType: "traceSet", targetId: id, detail: { name: row.name } });
+  })();
+  return listItem({ ...row, deletedAt: null }, userName(ctx, row.uploadedBy));
+}
+
+/** Removes trace sets deleted longer ago than the undo period (cells and matches cascade); returns how many. */
+export function purgeDeletedTraceSets(ctx: Pick<AppContext, "db">, now = Date.now()): number {
+  const cutoff = new Date(now - API_LIMITS.undoDays * 86400_000);
+  const t = schema.traceSets;
+  return ctx.db.delete(t).where(and(isNotNull(t.deletedAt), lt(t.deletedAt, cutoff))).run().changes;
 }
 
 // ---------------------------------------------------------------- CSV export

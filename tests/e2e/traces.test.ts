@@ -6,7 +6,8 @@
  * docs/examples/demo-traces.csv with the options that fit it
  * (DEMO_UPLOAD_OPTIONS), preview, save, see the headline cards and the chart,
  * match against the finished demo run "Tank sensor, hold on Duration ladder"
- * and see the distances and the overlay chart; delete and undo. axe-core runs
+ * and see the distances and the overlay chart; delete (at once: the API
+ * answers 404 for the set) and undo (the server restores it). axe-core runs
  * on each screen (no serious or critical violation), as do the 44 px
  * touch-target and label checks. Screenshots go to test-results/screenshots/.
  */
@@ -158,14 +159,21 @@ for (const vp of [PHONE, WIDE] as Viewport[]) {
         await assertAccessible(page, "match result");
         await screenshot(page, `traces-${tag}-06-match`, 6);
 
-        // Delete, then undo within the grace period.
+        // Delete: the server deletes at once (the set answers 404); Undo restores it on the server.
+        const setId = new URL(page.url()).pathname.split("/").pop()!;
         await page.getByTestId("delete-trace-set").click();
-        await page.getByTestId("delete-pending").waitFor();
+        await page.getByTestId("trace-deleted").waitFor();
+        const notice = await page.getByTestId("trace-deleted").boundingBox();
+        assert.ok(notice && notice.y >= 0 && notice.y + notice.height <= vp.height, `the notice with Undo is in view where Delete was pressed (${JSON.stringify(notice)})`);
+        assert.equal((await page.request.get(`${server.url}/api/traces/${setId}`)).status(), 404, "deleted on the server at once");
+        await assertAccessible(page, "deleted set with undo");
+        await screenshot(page, `traces-${tag}-07-deleted`);
         await page.getByTestId("undo-delete").click();
-        await page.getByTestId("delete-pending").waitFor({ state: "detached" });
-        await page.waitForTimeout(8_500);
+        await page.getByTestId("trace-deleted").waitFor({ state: "detached" });
+        assert.equal((await page.request.get(`${server.url}/api/traces/${setId}`)).status(), 200, "restored on the server");
         await page.reload();
         await page.getByTestId("trace-detail-screen").getByText(name).first().waitFor();
+        await page.getByTestId("match-panel").waitFor();
 
         assert.deepEqual(errors, [], "no uncaught page errors");
       } catch (e) {

@@ -2,7 +2,9 @@
  * Traces API: preview stores nothing, upload in one transaction, a rejected
  * upload stores nothing, line/column errors, size and row limits (multer errors
  * answer 4xx), roles and cross-lab 404s, settings changes recompute, soft
- * delete, metrics CSV, matching against a run and a sweep, the demo seeder.
+ * delete with restore (every other route answers 404 meanwhile) and the purge
+ * after the undo period, metrics CSV, matching against a run and a sweep, the
+ * demo seeder.
  *
  * One app per file; runs and sweeps are inserted as finished rows computed
  * directly with the engine (no worker pool), so the file stays fast.
@@ -22,8 +24,12 @@ import { templates } from "../../sim/circuit/templates";
 import { setParameter } from "../../sim/circuit/parameters";
 import { simulateChunk } from "../../sim/engine/simulate-chunk";
 import { RunSpecSchema, type RunSpec } from "../../shared/schemas/run-spec";
-import { MatchDetailSchema, TRACE_LIMITS, TracePreviewSchema, TraceSetDetailSchema, type TraceUploadOptionsInput } from "../../shared/schemas/api-traces";
+import { MatchDetailSchema, TRACE_LIMITS, TracePreviewSchema, TraceSetDetailSchema, TraceSetListItemSchema, type TraceUploadOptionsInput } from "../../shared/schemas/api-traces";
 import { ApiErrorSchema } from "../../shared/schemas/errors";
+import { API_LIMITS } from "../../shared/schemas/api-runs";
+import { purgeDeletedTraceSets } from "../../server/services/traces.service";
+import { purgeDeleted } from "../../server/services/runs.service";
+import { listAudit } from "../../server/services/audit.service";
 
 type Agent = Awaited<ReturnType<typeof signIn>>;
 let t: TestApp;
@@ -270,13 +276,69 @@ describe("stored trace sets", () => {
     assert.equal((await viewer.post(`/api/traces/${id}/match`).send({ runId: running })).status, 403);
   });
 
-  test("soft delete hides the set", async () => {
+  test("delete hides the set from every route but restore; restore brings it back; both are audited", async () => {
     const r = await post(editor, `/api/labs/${lab}/traces`, smallCsv(), { ...OPTIONS, name: "To delete" });
-    const delId = r.body.id;
+    const delId = TraceSetDetailSchema.parse(r.body).id;
+    // A running run: matching the live set answers 409 (run not finished), so a 404 below is the set's.
+    const running = insertRun(lab, spec(100, "running-for-delete", 2), "running");
+    assert.equal((await editor.post(`/api/traces/${delId}/match`).send({ runId: running })).status, 409);
+    assert.equal((await viewer.post(`/api/traces/${delId}/restore`)).status, 403, "a viewer may not restore");
+    assert.equal((await editor.post(`/api/traces/${delId}/restore`)).status, 409, "a live set cannot be restored");
+
     await editor.delete(`/api/traces/${delId}`).expect(204);
-    assert.equal((await viewer.get(`/api/traces/${delId}`)).status, 404);
     const row = t.ctx.db.select().from(schema.traceSets).where(eq(schema.traceSets.id, delId)).get()!;
-    assert.ok(row.deletedAt);
+    assert.ok(row.deletedAt, "soft delete keeps the row");
+    const gone = await viewer.get(`/api/traces/${delId}`);
+    assert.equal(gone.status, 404);
+    assert.match(ApiErrorSchema.parse(gone.body).error.message, /traceSet/);
+    assert.equal((await editor.patch(`/api/traces/${delId}`).send({ name: "x" })).status, 404, "PATCH");
+    assert.equal((await viewer.get(`/api/traces/${delId}/export/metrics.csv`)).status, 404, "export");
+    const match = await editor.post(`/api/traces/${delId}/match`).send({ runId: running });
+    assert.equal(match.status, 404, "match");
+    assert.match(match.body.error.message, /traceSet/);
+    assert.equal((await editor.delete(`/api/traces/${delId}`)).status, 404, "a second delete");
+    const list = await viewer.get(`/api/labs/${lab}/traces`).expect(200);
+    assert.ok(!list.body.traceSets.some((x: { id: string }) => x.id === delId), "not listed");
+    // Restore is for editors of the set's lab only.
+    assert.equal((await outsider.post(`/api/traces/${delId}/restore`)).status, 404);
+    assert.equal((await viewer.post(`/api/traces/${delId}/restore`)).status, 403);
+
+    const restored = await editor.post(`/api/traces/${delId}/restore`).expect(200);
+    const item = TraceSetListItemSchema.parse(restored.body);
+    assert.equal(item.id, delId);
+    assert.equal(item.name, "To delete");
+    const back = TraceSetDetailSchema.parse((await viewer.get(`/api/traces/${delId}`).expect(200)).body);
+    assert.equal(back.cells.length, 2);
+    assert.ok((await viewer.get(`/api/labs/${lab}/traces`).expect(200)).body.traceSets.some((x: { id: string }) => x.id === delId), "listed again");
+    assert.equal((await editor.post(`/api/traces/${delId}/restore`)).status, 409, "restoring twice");
+
+    const events = listAudit(t.ctx, lab, { limit: 20 }).filter((e) => e.targetId === delId).map((e) => e.action);
+    assert.deepEqual(events.slice(0, 2), ["traces.restored", "traces.deleted"]);
+  });
+
+  test(`a deleted set is purged after the undo period (${API_LIMITS.undoDays} days), not before`, async () => {
+    const r = await post(editor, `/api/labs/${lab}/traces`, smallCsv(), { ...OPTIONS, name: "To purge" });
+    const purgeId = TraceSetDetailSchema.parse(r.body).id;
+    const keepId = TraceSetDetailSchema.parse((await post(editor, `/api/labs/${lab}/traces`, smallCsv(), { ...OPTIONS, name: "Kept" })).body).id;
+    await editor.delete(`/api/traces/${purgeId}`).expect(204);
+    const deletedAt = t.ctx.db.select().from(schema.traceSets).where(eq(schema.traceSets.id, purgeId)).get()!.deletedAt!.getTime();
+    const day = 86_400_000;
+    const exists = (id: string) => !!t.ctx.db.select().from(schema.traceSets).where(eq(schema.traceSets.id, id)).get();
+    const cells = (id: string) => t.ctx.db.select({ n: count() }).from(schema.traceCells).where(eq(schema.traceCells.traceSetId, id)).get()!.n;
+
+    purgeDeletedTraceSets(t.ctx, deletedAt + API_LIMITS.undoDays * day - 60_000);
+    assert.ok(exists(purgeId), "one minute before the end of the undo period the set is still there");
+    // Still restorable then: restore, delete again (deletedAt moves on a little).
+    await editor.post(`/api/traces/${purgeId}/restore`).expect(200);
+    await editor.delete(`/api/traces/${purgeId}`).expect(204);
+
+    // The boot-time purge (runs.service purgeDeleted) includes trace sets.
+    purgeDeleted(t.ctx, Date.now() + API_LIMITS.undoDays * day + 60_000);
+    assert.equal(exists(purgeId), false, "purged after the undo period");
+    assert.equal(cells(purgeId), 0, "its cells go with it");
+    assert.ok(exists(keepId), "a set that is not deleted stays");
+    assert.equal(cells(keepId), 2);
+    assert.equal((await editor.post(`/api/traces/${purgeId}/restore`)).status, 404, "nothing left to restore");
   });
 });
 

@@ -16,23 +16,25 @@ import { CellTable } from "../../../components/traces/cell-table";
 import { MatchPanel } from "../../../components/traces/match-panel";
 import { EditTraceSet } from "../../../components/traces/edit-trace-set";
 import { SyntheticBadge, SYNTHETIC_NOTE } from "../../../components/traces/synthetic-badge";
-import { useUndoableDelete } from "../../../components/traces/use-undoable-delete";
-import { metricsCsvUrl, useDeleteTraceSet, usePatchTraceSet, useTraceSet } from "../../../components/data/traces";
+import { metricsCsvUrl, useDeleteTraceSet, usePatchTraceSet, useRestoreTraceSet, useTraceSet } from "../../../components/data/traces";
 import { useCurrentLab } from "../../../components/data/current-lab";
 import { useTheme } from "../../../components/theme/use-theme";
+import { API_LIMITS } from "../../../shared/schemas/api-runs";
 
 export default function TraceSetScreen() {
   const t = useTheme();
   const router = useRouter();
   const { id } = useLocalSearchParams<{ id: string }>();
   const { canEdit } = useCurrentLab();
-  const q = useTraceSet(id);
+  // Deleted on the server (restorable for the undo period): the set stays on screen with Undo; it answers 404 meanwhile.
+  const [deleted, setDeleted] = useState(false);
+  const q = useTraceSet(id, { paused: deleted });
   const patch = usePatchTraceSet(id ?? "");
   const del = useDeleteTraceSet();
+  const restore = useRestoreTraceSet();
   const [editing, setEditing] = useState(false);
-  const removal = useUndoableDelete(() => del.mutate(id ?? "", { onSuccess: () => router.replace("/traces") }));
   if (q.isPending) return <Screen title="Trace set"><LoadingState label="Loading the trace set" /></Screen>;
-  if (q.error) return <Screen title="Trace set"><ErrorState title="This trace set could not be loaded" error={q.error} onRetry={() => q.refetch()} /></Screen>;
+  if (q.error && !q.data) return <Screen title="Trace set"><ErrorState title="This trace set could not be loaded" error={q.error} onRetry={() => q.refetch()} /></Screen>;
   const s = q.data;
   const a = s.analysis;
   const sum = a.summary;
@@ -46,15 +48,6 @@ export default function TraceSetScreen() {
           <Banner tone="notice" testID="synthetic-note">{SYNTHETIC_NOTE}</Banner>
         </View>
       ) : null}
-      {removal.pending ? (
-        <Banner tone="notice" testID="delete-pending">
-          <View style={{ gap: t.spacing.sm }}>
-            <Text style={{ color: t.colors.onNoticeSoft }}>This trace set will be deleted in {removal.secondsLeft} s.</Text>
-            <Button label="Undo delete" variant="secondary" onPress={removal.undo} style={{ alignSelf: "flex-start" }} testID="undo-delete" />
-          </View>
-        </Banner>
-      ) : null}
-      {del.error ? <ErrorState title="The trace set could not be deleted" error={del.error} /> : null}
       <SafetyNote />
 
       <Text variant="heading">Headline figures</Text>
@@ -76,15 +69,32 @@ export default function TraceSetScreen() {
         <CellTable cells={a.cells} />
       </Card>
 
-      <MatchPanel traceSet={s} canEdit={canEdit} />
+      {!deleted ? <MatchPanel traceSet={s} canEdit={canEdit} /> : null}
 
-      <Card>
-        <Text variant="heading">Export</Text>
-        <Button label="Download metrics.csv" variant="secondary" icon="download" compact onPress={() => Linking.openURL(metricsCsvUrl(s.id))} style={{ alignSelf: "flex-start" }} testID="export-metrics" />
-        <Text variant="caption" tone="muted">One row per cell and scored pulse{s.synthetic ? "; the file starts with a line marking it synthetic" : ""}.</Text>
-      </Card>
+      {!deleted ? (
+        <Card>
+          <Text variant="heading">Export</Text>
+          <Button label="Download metrics.csv" variant="secondary" icon="download" compact onPress={() => Linking.openURL(metricsCsvUrl(s.id))} style={{ alignSelf: "flex-start" }} testID="export-metrics" />
+          <Text variant="caption" tone="muted">One row per cell and scored pulse{s.synthetic ? "; the file starts with a line marking it synthetic" : ""}.</Text>
+        </Card>
+      ) : null}
 
-      {canEdit ? (
+      {/* In place of the settings card, where the Delete button was: in view after the press. */}
+      {deleted ? (
+        <Banner tone="notice" testID="trace-deleted">
+          <View style={{ gap: t.spacing.sm }}>
+            <Text style={{ color: t.colors.onNoticeSoft }}>This trace set is deleted and will be purged after {API_LIMITS.undoDays} days.</Text>
+            <View style={{ flexDirection: "row", flexWrap: "wrap", gap: t.spacing.sm }}>
+              <Button label="Undo delete" variant="secondary" busy={restore.isPending} onPress={() => restore.mutate(s.id, { onSuccess: () => setDeleted(false) })} testID="undo-delete" />
+              <Button label="Back to trace sets" variant="secondary" icon="arrow-left" onPress={() => router.replace("/traces")} testID="deleted-back" />
+            </View>
+          </View>
+        </Banner>
+      ) : null}
+      {del.error ? <ErrorState title="The trace set could not be deleted" error={del.error} /> : null}
+      {restore.error ? <ErrorState title="The trace set could not be restored" error={restore.error} /> : null}
+
+      {canEdit && !deleted ? (
         <Card>
           <Text variant="heading">Settings</Text>
           {editing ? (
@@ -107,7 +117,14 @@ export default function TraceSetScreen() {
               </Text>
               <View style={{ flexDirection: "row", flexWrap: "wrap", gap: t.spacing.sm }}>
                 <Button label="Edit name and preprocessing" variant="secondary" icon="sliders" onPress={() => setEditing(true)} testID="edit-trace-open" />
-                {!removal.pending ? <Button label="Delete trace set" variant="secondary" icon="trash-2" busy={del.isPending} onPress={removal.start} testID="delete-trace-set" /> : null}
+                <Button
+                  label="Delete trace set"
+                  variant="secondary"
+                  icon="trash-2"
+                  busy={del.isPending}
+                  onPress={() => del.mutate(s.id, { onSuccess: () => setDeleted(true) })}
+                  testID="delete-trace-set"
+                />
               </View>
             </>
           )}
