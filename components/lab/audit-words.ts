@@ -89,6 +89,8 @@ export function describeAuditEvent(e: AuditEvent, names: AuditNames = {}): strin
       return `${who} changed a trace set's settings`;
     case "traces.deleted":
       return `${who} deleted ${named("trace set")}`;
+    case "traces.restored":
+      return `${who} restored ${named("trace set")}`;
     case "traces.matched":
       return `${who} matched a trace set against simulations`;
     default:
