@@ -28,10 +28,7 @@ import {
 
 export type { MatchDetail, TraceParseError, TracePreview, TraceSetDetail, TraceSetListItem };
 
-const TraceSetListSchema = z.union([
-  z.object({ traceSets: z.array(TraceSetListItemSchema) }).transform((r) => r.traceSets),
-  z.array(TraceSetListItemSchema),
-]);
+const TraceSetListSchema = z.object({ traceSets: z.array(TraceSetListItemSchema) }).transform((r) => r.traceSets);
 
 export const traceKeys = {
   all: ["traces"] as const,
