@@ -5,6 +5,7 @@ import { schema } from "../../db/client";
 import { LaunchSweepSchema } from "../../shared/schemas/api-runs";
 import * as sweeps from "../services/sweeps.service";
 import { recordAudit } from "../services/audit.service";
+import { assertRestorable } from "../services/undo";
 
 export const sweepRoutes = defineRoutes([
   {
@@ -76,6 +77,8 @@ export const sweepRoutes = defineRoutes([
     access: { kind: "object", resource: "sweep", role: "editor" },
     summary: "Undo a sweep delete.",
     handler: ({ ctx, params }) => {
+      const sweep = ctx.db.select({ deletedAt: schema.sweeps.deletedAt }).from(schema.sweeps).where(eq(schema.sweeps.id, params.id)).get();
+      assertRestorable("sweep", sweep?.deletedAt ?? null);
       ctx.db.update(schema.sweeps).set({ deletedAt: null }).where(eq(schema.sweeps.id, params.id)).run();
       ctx.db.update(schema.runs).set({ deletedAt: null }).where(eq(schema.runs.sweepId, params.id)).run();
       return sweeps.sweepDetail(ctx, params.id);

@@ -142,6 +142,9 @@ export function runMatch(ctx: AppContext, userId: string, traceSetId: string, re
 export function matchDetail(ctx: AppContext, id: string): MatchDetail {
   const m = ctx.db.select().from(schema.matches).where(eq(schema.matches.id, id)).get();
   if (!m) throw notFound("That match");
+  // A match goes with its trace set: hidden while the set is deleted (restorable), gone when it is purged.
+  const set = ctx.db.select({ deletedAt: schema.traceSets.deletedAt }).from(schema.traceSets).where(eq(schema.traceSets.id, m.traceSetId)).get();
+  if (!set || set.deletedAt) throw notFound("That match");
   const parsed = MatchResultSchema.safeParse(m.result);
   if (!parsed.success) throw new HttpError(409, "bad_match", "This match was stored in an older form; run it again.");
   return {

@@ -18,6 +18,7 @@ import { parseOr400 } from "../middleware/validate";
 import { newId } from "../ids";
 import { fromBlob } from "./run-store";
 import { purgeDeletedTraceSets } from "./traces.service";
+import { assertRestorable } from "./undo";
 
 export const randomSeed = () => randomBytes(6).toString("hex");
 
@@ -356,13 +357,14 @@ export function softDelete(ctx: AppContext, id: string) {
 
 export function restore(ctx: AppContext, id: string) {
   const row = getRunRow(ctx, id);
-  if (!row.deletedAt) throw conflict("That run is not deleted.");
+  assertRestorable("run", row.deletedAt);
   ctx.db.update(schema.runs).set({ deletedAt: null }).where(eq(schema.runs.id, id)).run();
 }
 
-/** Remove runs and trace sets deleted longer ago than the undo period. */
+/** Remove runs, sweeps and trace sets deleted longer ago than the undo period. */
 export function purgeDeleted(ctx: AppContext, now = Date.now()) {
   const cutoff = new Date(now - API_LIMITS.undoDays * 86400_000);
   ctx.db.delete(schema.runs).where(and(isNotNull(schema.runs.deletedAt), lt(schema.runs.deletedAt, cutoff))).run();
+  ctx.db.delete(schema.sweeps).where(and(isNotNull(schema.sweeps.deletedAt), lt(schema.sweeps.deletedAt, cutoff))).run();
   purgeDeletedTraceSets(ctx, now);
 }

@@ -32,6 +32,7 @@ import {
 import { parseTraces, type ParsedCell } from "../../sim/traces/parse-traces";
 import { analyseTraces, chartCells } from "../../sim/traces/trace-metrics";
 import type { RawCell } from "../../sim/traces/preprocess";
+import { assertRestorable } from "./undo";
 
 export const toBlob = (a: Float64Array) => Buffer.from(a.buffer, a.byteOffset, a.byteLength);
 export const fromBlob = (b: Buffer | Uint8Array): Float64Array => {
@@ -341,7 +342,7 @@ export function deleteTraceSet(ctx: AppContext, userId: string, id: string): voi
 export function restoreTraceSet(ctx: AppContext, userId: string, id: string): TraceSetListItem {
   const row = ctx.db.select().from(schema.traceSets).where(eq(schema.traceSets.id, id)).get();
   if (!row) throw notFound("That traceSet");
-  if (!row.deletedAt) throw conflict("That trace set is not deleted.");
+  assertRestorable("trace set", row.deletedAt);
   ctx.sqlite.transaction(() => {
     ctx.db.update(schema.traceSets).set({ deletedAt: null }).where(eq(schema.traceSets.id, id)).run();
     recordAudit(ctx, { labId: row.labId, userId, action: "traces.restored", targetType: "traceSet", targetId: id, detail: { name: row.name } });

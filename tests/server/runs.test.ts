@@ -158,6 +158,11 @@ test("deleted runs are purged after the undo period, not before", async () => {
     const day = 86400_000;
     purgeDeleted(t.ctx, Date.now() + 6 * day);
     assert.equal(t.ctx.db.select().from(schema.runs).all().length, 1, "still restorable within 7 days");
+    // Past the undo period a restore is refused even before the purge has run.
+    t.ctx.db.update(schema.runs).set({ deletedAt: new Date(Date.now() - 8 * day) }).where(eq(schema.runs.id, r.body.id)).run();
+    const late = await editor.post(`/api/runs/${r.body.id}/restore`);
+    assert.equal(late.status, 409);
+    assert.equal(late.body.error.code, "undo_expired");
     purgeDeleted(t.ctx, Date.now() + 8 * day);
     assert.equal(t.ctx.db.select().from(schema.runs).all().length, 0);
   } finally {

@@ -64,6 +64,8 @@ test("a cancelled sweep resumes and finishes; bad axes get a 400 naming the fiel
     await editor.post(`/api/sweeps/${r.body.id}/cancel`).expect(200);
     const cancelled = (await editor.get(`/api/sweeps/${r.body.id}`)).body;
     assert.equal(cancelled.status, "cancelled");
+    const notDeleted = await editor.post(`/api/sweeps/${r.body.id}/restore`);
+    assert.equal(notDeleted.status, 409, "only a deleted sweep can be restored");
     await editor.post(`/api/sweeps/${r.body.id}/resume`).expect(200);
     const done = await waitSweep(editor, r.body.id);
     assert.equal(done.status, "finished");

@@ -385,6 +385,11 @@ describe("matching and the demo set", () => {
     const again = MatchDetailSchema.parse((await viewer.get(`/api/matches/${m.id}`).expect(200)).body);
     assert.deepEqual(again.result.points, m.result.points);
     assert.equal((await outsider.get(`/api/matches/${m.id}`)).status, 404);
+    // The match goes with its trace set: hidden while the set is deleted, back when it is restored.
+    await editor.delete(`/api/traces/${traces}`).expect(204);
+    assert.equal((await viewer.get(`/api/matches/${m.id}`)).status, 404);
+    await editor.post(`/api/traces/${traces}/restore`).expect(200);
+    await viewer.get(`/api/matches/${m.id}`).expect(200);
   });
 
   test("match a sweep: ranked points with parameters, 5% tolerance by default, unfinished points skipped", async () => {
