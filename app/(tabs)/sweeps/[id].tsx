@@ -7,7 +7,7 @@ import { Text } from "../../../components/ui/text";
 import { Button } from "../../../components/ui/button";
 import { Choice } from "../../../components/ui/choice";
 import { ProgressBar } from "../../../components/ui/progress-bar";
-import { StatusBadge } from "../../../components/ui/status-badge";
+import { StatusBadge, statusLabel } from "../../../components/ui/status-badge";
 import { SafetyNote } from "../../../components/ui/safety-note";
 import { ErrorState, LoadingState } from "../../../components/ui/states";
 import { LazyChart } from "../../../components/charts/lazy-chart";
@@ -125,7 +125,7 @@ export default function SweepDetailScreen() {
         {s.points.map((p) => (
           <Card key={p.index} onPress={() => router.push(`/runs/${p.runId}`)} style={{ padding: t.spacing.md }}>
             <Text variant="bodyStrong">{Object.entries(p.values).map(([k, v]) => `${k} = ${formatNumber(v)}`).join(", ")}</Text>
-            <Text variant="caption" tone="muted">{p.status} · {figLabel}: {formatNumber(figureOf(p, figure))}</Text>
+            <Text variant="caption" tone="muted">{statusLabel(p.status)} · {figLabel}: {formatNumber(figureOf(p, figure))}</Text>
           </Card>
         ))}
       </Card>
