@@ -1,7 +1,7 @@
 /** Runs: launch, list, detail, progress (polling or server-sent events), cancel, archive, delete with undo, data and exports. */
 import { z } from "zod";
 import { eq } from "drizzle-orm";
-import { defineRoutes, type RouteDef } from "./route-table";
+import { defineRoutes, type RouteCall, type RouteDef } from "./route-table";
 import type { AppContext } from "../context";
 import type { RunSummary } from "../../shared/schemas/analysis";
 import { schema } from "../../db/client";
@@ -17,6 +17,13 @@ import { recordAudit } from "../services/audit.service";
 const csvName = (name: string) => name.replace(/[^A-Za-z0-9_.-]+/g, "-").replace(/^-+|-+$/g, "").slice(0, 60) || "run";
 
 type RunRow = ReturnType<typeof runs.getRunRow>;
+
+/** The answer to any action that creates a run (launch, import, reproduce, control): audit it, 201 with its detail. */
+function newRun({ ctx, labId, user, res }: RouteCall, id: string, action: string, detail?: Record<string, unknown>) {
+  recordAudit(ctx, { labId, userId: user!.id, action, targetType: "run", targetId: id, detail: detail ?? null });
+  res.status(201);
+  return runs.runDetail(ctx, id);
+}
 
 const finishedSummary = (row: RunRow): RunSummary => {
   if (!row.summary) throw conflict("The run has no results yet.", "not_finished");
@@ -56,12 +63,7 @@ export const runRoutes = defineRoutes([
     access: { kind: "lab", role: "editor" },
     body: LaunchRunSchema,
     summary: "Launch a run (queued at once).",
-    handler: ({ ctx, labId, user, body, res }) => {
-      const id = runs.launchRun(ctx, labId, user!.id, body);
-      recordAudit(ctx, { labId, userId: user!.id, action: "run.launched", targetType: "run", targetId: id, detail: { name: body.name } });
-      res.status(201);
-      return runs.runDetail(ctx, id);
-    },
+    handler: (call) => newRun(call, runs.launchRun(call.ctx, call.labId, call.user!.id, call.body), "run.launched", { name: call.body.name }),
   },
   {
     method: "post",
@@ -88,12 +90,7 @@ export const runRoutes = defineRoutes([
     access: { kind: "lab", role: "editor" },
     body: z.object({ bundle: z.unknown(), name: z.string().trim().min(1).max(120).optional() }),
     summary: "Import a run bundle and re-run it; the run reports whether it reproduced the bundle's statistics.",
-    handler: ({ ctx, labId, user, body, res }) => {
-      const id = bundles.importBundle(ctx, labId, user!.id, body.bundle, body.name);
-      recordAudit(ctx, { labId, userId: user!.id, action: "run.imported", targetType: "run", targetId: id });
-      res.status(201);
-      return runs.runDetail(ctx, id);
-    },
+    handler: (call) => newRun(call, bundles.importBundle(call.ctx, call.labId, call.user!.id, call.body.bundle, call.body.name), "run.imported"),
   },
   {
     method: "get",
@@ -246,23 +243,13 @@ export const runRoutes = defineRoutes([
     path: "/runs/:id/reproduce",
     access: { kind: "object", resource: "run", role: "editor" },
     summary: "Re-run this run's bundle; the new run reports identical statistics or the first difference.",
-    handler: ({ ctx, params, user, labId, res }) => {
-      const id = bundles.reproduceRun(ctx, params.id, user!.id);
-      recordAudit(ctx, { labId, userId: user!.id, action: "run.reproduced", targetType: "run", targetId: id, detail: { of: params.id } });
-      res.status(201);
-      return runs.runDetail(ctx, id);
-    },
+    handler: (call) => newRun(call, bundles.reproduceRun(call.ctx, call.params.id, call.user!.id), "run.reproduced", { of: call.params.id }),
   },
   {
     method: "post",
     path: "/runs/:id/control",
     access: { kind: "object", resource: "run", role: "editor" },
     summary: "Create and launch the matched simple-regulation control (same steady state, program and seed scheme).",
-    handler: ({ ctx, params, user, labId, res }) => {
-      const id = createMatchedControl(ctx, params.id, user!.id);
-      recordAudit(ctx, { labId, userId: user!.id, action: "run.launched", targetType: "run", targetId: id, detail: { controlOf: params.id } });
-      res.status(201);
-      return runs.runDetail(ctx, id);
-    },
+    handler: (call) => newRun(call, createMatchedControl(call.ctx, call.params.id, call.user!.id), "run.launched", { controlOf: call.params.id }),
   },
 ]);
