@@ -54,7 +54,7 @@ export function Button({ label, onPress, variant = "primary", icon, disabled, bu
       ]}
     >
       <View style={styles.row}>
-        {busy ? <ActivityIndicator size="small" color={fg} /> : icon ? <Icon name={icon} size={18} color={fg} /> : null}
+        {busy ? <ActivityIndicator size="small" color={fg} aria-hidden /> : icon ? <Icon name={icon} size={18} color={fg} /> : null}
         <Text variant="label" style={{ color: fg, fontFamily: t.fonts.semibold }}>{label}</Text>
       </View>
     </Pressable>

@@ -44,7 +44,8 @@ export function LoadingState({ label = "Loading" }: { label?: string }) {
   const t = useTheme();
   return (
     <View testID="loading-state" role="progressbar" aria-label={label} style={{ alignItems: "center", gap: t.spacing.sm, paddingVertical: t.spacing.xxl }}>
-      <ActivityIndicator color={t.colors.primary} />
+      {/* decorative: the labelled progressbar is the wrapper */}
+      <ActivityIndicator color={t.colors.primary} aria-hidden />
       <Text tone="muted">{label}…</Text>
     </View>
   );
