@@ -45,6 +45,8 @@ export function describeAuditEvent(e: AuditEvent, names: AuditNames = {}): strin
       return `${who} cancelled a sweep`;
     case "sweep.deleted":
       return `${who} deleted a sweep`;
+    case "sweep.restored":
+      return `${who} restored a sweep`;
     case "lab.created":
       return `${who} created the lab${str(d.name) ? ` ${q(str(d.name)!)}` : ""}`;
     case "lab.renamed":

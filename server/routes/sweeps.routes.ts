@@ -1,11 +1,8 @@
 /** Parameter sweeps: launch, list, detail with per-point figures, cancel, resume, delete. */
-import { eq } from "drizzle-orm";
 import { defineRoutes } from "./route-table";
-import { schema } from "../../db/client";
 import { LaunchSweepSchema } from "../../shared/schemas/api-runs";
 import * as sweeps from "../services/sweeps.service";
 import { recordAudit } from "../services/audit.service";
-import { assertRestorable } from "../services/undo";
 
 export const sweepRoutes = defineRoutes([
   {
@@ -62,11 +59,7 @@ export const sweepRoutes = defineRoutes([
     access: { kind: "object", resource: "sweep", role: "editor" },
     summary: "Delete a sweep and hide its points (restorable for 7 days).",
     handler: ({ ctx, params, user, labId }) => {
-      const now = new Date();
-      const running = ctx.db.select({ id: schema.runs.id, status: schema.runs.status }).from(schema.runs).where(eq(schema.runs.sweepId, params.id)).all();
-      for (const r of running) if (r.status === "queued" || r.status === "running") ctx.queue.cancel(r.id);
-      ctx.db.update(schema.sweeps).set({ deletedAt: now }).where(eq(schema.sweeps.id, params.id)).run();
-      ctx.db.update(schema.runs).set({ deletedAt: now }).where(eq(schema.runs.sweepId, params.id)).run();
+      sweeps.deleteSweep(ctx, params.id);
       recordAudit(ctx, { labId, userId: user!.id, action: "sweep.deleted", targetType: "sweep", targetId: params.id });
       return { deleted: true, undo: `/api/sweeps/${params.id}/restore` };
     },
@@ -76,11 +69,9 @@ export const sweepRoutes = defineRoutes([
     path: "/sweeps/:id/restore",
     access: { kind: "object", resource: "sweep", role: "editor" },
     summary: "Undo a sweep delete.",
-    handler: ({ ctx, params }) => {
-      const sweep = ctx.db.select({ deletedAt: schema.sweeps.deletedAt }).from(schema.sweeps).where(eq(schema.sweeps.id, params.id)).get();
-      assertRestorable("sweep", sweep?.deletedAt ?? null);
-      ctx.db.update(schema.sweeps).set({ deletedAt: null }).where(eq(schema.sweeps.id, params.id)).run();
-      ctx.db.update(schema.runs).set({ deletedAt: null }).where(eq(schema.runs.sweepId, params.id)).run();
+    handler: ({ ctx, params, user, labId }) => {
+      sweeps.restoreSweep(ctx, params.id);
+      recordAudit(ctx, { labId, userId: user!.id, action: "sweep.restored", targetType: "sweep", targetId: params.id });
       return sweeps.sweepDetail(ctx, params.id);
     },
   },

@@ -13,6 +13,7 @@ import { listParameters, setParameter } from "../../sim";
 import { badRequest, conflict, notFound, tooMany } from "../http-error";
 import { newId } from "../ids";
 import { buildSpec, insertRun, resolveInputs } from "./runs.service";
+import { assertRestorable } from "./undo";
 
 export function axisValues(axis: LaunchSweep["axes"][number]): number[] {
   if (axis.values) return axis.values;
@@ -112,6 +113,31 @@ export function resumeSweep(ctx: AppContext, sweepId: string) {
   if (res.changes === 0) throw conflict("Nothing to resume: every point is finished, queued or running.", "nothing_to_resume");
   ctx.db.update(schema.sweeps).set({ status: "running", finishedAt: null }).where(eq(schema.sweeps.id, sweepId)).run();
   ctx.queue.kick();
+}
+
+/** Delete a sweep and hide its points (cancelling any still computing); restorable for the undo period. */
+export function deleteSweep(ctx: AppContext, sweepId: string) {
+  const sweep = ctx.db.select({ deletedAt: schema.sweeps.deletedAt }).from(schema.sweeps).where(eq(schema.sweeps.id, sweepId)).get();
+  if (!sweep) throw notFound("That sweep");
+  if (sweep.deletedAt) throw conflict("That sweep is already deleted.", "already_deleted");
+  const active = ctx.db.select({ id: schema.runs.id }).from(schema.runs).where(and(eq(schema.runs.sweepId, sweepId), inArray(schema.runs.status, ["queued", "running"]))).all();
+  for (const r of active) ctx.queue.cancel(r.id);
+  const now = new Date();
+  ctx.sqlite.transaction(() => {
+    ctx.db.update(schema.sweeps).set({ deletedAt: now }).where(eq(schema.sweeps.id, sweepId)).run();
+    ctx.db.update(schema.runs).set({ deletedAt: now }).where(eq(schema.runs.sweepId, sweepId)).run();
+  })();
+}
+
+/** Undo a sweep delete (409 when it is not deleted or the undo period has passed). */
+export function restoreSweep(ctx: AppContext, sweepId: string) {
+  const sweep = ctx.db.select({ deletedAt: schema.sweeps.deletedAt }).from(schema.sweeps).where(eq(schema.sweeps.id, sweepId)).get();
+  if (!sweep) throw notFound("That sweep");
+  assertRestorable("sweep", sweep.deletedAt);
+  ctx.sqlite.transaction(() => {
+    ctx.db.update(schema.sweeps).set({ deletedAt: null }).where(eq(schema.sweeps.id, sweepId)).run();
+    ctx.db.update(schema.runs).set({ deletedAt: null }).where(eq(schema.runs.sweepId, sweepId)).run();
+  })();
 }
 
 export function sweepDetail(ctx: AppContext, sweepId: string): SweepDetail {

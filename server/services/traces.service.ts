@@ -10,7 +10,7 @@ import { and, desc, eq, isNotNull, isNull, lt, sql } from "drizzle-orm";
 import type { AppContext } from "../context";
 import { schema } from "../../db/client";
 import { newId } from "../ids";
-import { HttpError, badRequest, conflict, notFound } from "../http-error";
+import { HttpError, badRequest, notFound } from "../http-error";
 import { parseOr400 } from "../middleware/validate";
 import { recordAudit } from "./audit.service";
 import { compileProgram } from "../../sim/inputs/compile-program";

@@ -70,6 +70,14 @@ test("a cancelled sweep resumes and finishes; bad axes get a 400 naming the fiel
     const done = await waitSweep(editor, r.body.id);
     assert.equal(done.status, "finished");
     assert.ok(done.points.every((p: any) => p.status === "finished"));
+    // Delete hides the sweep and its points; a second delete is a 409; restore brings both back.
+    await editor.delete(`/api/sweeps/${r.body.id}`).expect(200);
+    assert.equal((await editor.delete(`/api/sweeps/${r.body.id}`)).status, 409);
+    assert.equal((await editor.get(`/api/labs/${labId}/sweeps`)).body.length, 0);
+    assert.equal((await editor.get(`/api/labs/${labId}/runs?sweepPoints=1`)).body.length, 0);
+    await editor.post(`/api/sweeps/${r.body.id}/restore`).expect(200);
+    assert.equal((await editor.get(`/api/labs/${labId}/sweeps`)).body.length, 1);
+    assert.equal((await editor.get(`/api/labs/${labId}/runs?sweepPoints=1`)).body.length, 4);
   } finally {
     await t.close();
   }
