@@ -5,5 +5,6 @@ module.exports = {
   transformIgnorePatterns: [
     "node_modules/(?!((jest-)?react-native|@react-native(-community)?|expo(nent)?|@expo(nent)?/.*|@expo-google-fonts/.*|react-navigation|@react-navigation/.*|react-native-svg|victory-native|@shopify/react-native-skia|@tanstack/.*))",
   ],
+  moduleNameMapper: { "^@/(.*)$": "<rootDir>/$1" },
   setupFilesAfterEnv: ["<rootDir>/tests/components/jest-setup.ts"],
 };

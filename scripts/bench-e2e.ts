@@ -13,9 +13,9 @@
  * overheadRatio: seconds / engineSeconds (target: at most 1.15).
  */
 import os from "node:os";
-import { loadSpecFile } from "../sim/cli/load-spec";
+import { loadSpecFile } from "@/server/cli/load-spec";
 import { DEFAULT_BENCH_SPEC, runEngineBench } from "./bench-engine";
-import { startServerProcess } from "./lib/spawn-server";
+import { startServerProcess } from "@/scripts/lib/spawn-server";
 
 export interface EndToEndResult {
   replicates: number;
@@ -40,15 +40,25 @@ export async function runEndToEndBench(opts: { replicates?: number; threads?: nu
   const spec = loadSpecFile(DEFAULT_BENCH_SPEC, { replicates });
 
   let measured: { seconds: number; healthP95Ms: number; listP95Ms: number; requests: number };
-  const server = await startServerProcess({ env: { LINGER_SEED_DEMO: "0", LINGER_POOL_SIZE: String(threads), LINGER_TEST: "1" } });
+  const server = await startServerProcess({
+    env: { LINGER_SEED_DEMO: "0", LINGER_POOL_SIZE: String(threads), LINGER_TEST: "1" },
+  });
   try {
     const base = server.url;
     const json = { "content-type": "application/json" };
     const email = "bench@example.org";
     const password = "bench-password-123";
-    const up = await fetch(`${base}/api/auth/sign-up`, { method: "POST", headers: json, body: JSON.stringify({ email, password, displayName: "Bench" }) });
+    const up = await fetch(`${base}/api/auth/sign-up`, {
+      method: "POST",
+      headers: json,
+      body: JSON.stringify({ email, password, displayName: "Bench" }),
+    });
     if (!up.ok) throw new Error(`sign-up failed: ${up.status} ${await up.text()}`);
-    const si = await fetch(`${base}/api/auth/sign-in`, { method: "POST", headers: json, body: JSON.stringify({ email, password }) });
+    const si = await fetch(`${base}/api/auth/sign-in`, {
+      method: "POST",
+      headers: json,
+      body: JSON.stringify({ email, password }),
+    });
     if (!si.ok) throw new Error(`sign-in failed: ${si.status}`);
     const cookie = (si.headers.get("set-cookie") ?? "").split(";")[0];
     const me = await (await fetch(`${base}/api/me`, { headers: { cookie } })).json();
@@ -107,5 +117,11 @@ export async function runEndToEndBench(opts: { replicates?: number; threads?: nu
   // The engine alone, after the server has stopped, on a pool of the same size, warmed as little as the server's
   // (spec compiled, no throwaway replicates), so the ratio compares like with like.
   const [engine] = await runEngineBench({ threads: [threads], replicates, warmUpReplicates: 0 });
-  return { replicates, threads, ...measured, engineSeconds: engine.seconds, overheadRatio: measured.seconds / engine.seconds };
+  return {
+    replicates,
+    threads,
+    ...measured,
+    engineSeconds: engine.seconds,
+    overheadRatio: measured.seconds / engine.seconds,
+  };
 }

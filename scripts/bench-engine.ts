@@ -8,10 +8,10 @@
  */
 import os from "node:os";
 import path from "node:path";
-import { loadSpecFile } from "../sim/cli/load-spec";
-import { ENGINE_VERSION } from "../sim/index";
-import { createSimPool } from "../server/workers/pool";
-import { runAllChunks } from "../server/workers/run-all-chunks";
+import { loadSpecFile } from "@/server/cli/load-spec";
+import { ENGINE_VERSION } from "@/sim";
+import { createSimPool } from "@/server/compute/pool";
+import { runAllChunks } from "@/server/compute/run-all-chunks";
 
 export interface EngineBenchResult {
   model: string;

@@ -57,7 +57,8 @@ async function main() {
       );
   }
   if (json) console.log(JSON.stringify(out));
-  else if (results.length > 1) console.log(`scaling 1 -> ${last.threads} threads: ${(out.scaling as number).toFixed(2)}x`);
+  else if (results.length > 1)
+    console.log(`scaling 1 -> ${last.threads} threads: ${(out.scaling as number).toFixed(2)}x`);
 }
 
 main().catch((e: Error) => {

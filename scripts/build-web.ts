@@ -10,7 +10,16 @@
  */
 import { createHash } from "node:crypto";
 import { spawn } from "node:child_process";
-import { copyFileSync, existsSync, mkdirSync, readFileSync, readdirSync, rmSync, statSync, writeFileSync } from "node:fs";
+import {
+  copyFileSync,
+  existsSync,
+  mkdirSync,
+  readFileSync,
+  readdirSync,
+  rmSync,
+  statSync,
+  writeFileSync,
+} from "node:fs";
 import path from "node:path";
 
 const ROOT = path.resolve(__dirname, "..");
@@ -61,12 +70,16 @@ function run(cmd: string, args: string[]): Promise<void> {
       env: { ...process.env, EXPO_NO_TELEMETRY: "1", EXPO_OFFLINE: "1", CI: "1", NODE_ENV: "production" },
     });
     child.on("error", reject);
-    child.on("exit", (code) => (code === 0 ? resolve() : reject(new Error(`${cmd} ${args.join(" ")} exited with ${code}`))));
+    child.on("exit", (code) =>
+      code === 0 ? resolve() : reject(new Error(`${cmd} ${args.join(" ")} exited with ${code}`)),
+    );
   });
 }
 
 /** Builds dist/ if it is missing or stale (or always with force). Resolves with whether it built. */
-export async function ensureWebBuild(opts: { force?: boolean; quiet?: boolean } = {}): Promise<{ built: boolean; dist: string }> {
+export async function ensureWebBuild(
+  opts: { force?: boolean; quiet?: boolean } = {},
+): Promise<{ built: boolean; dist: string }> {
   if (!opts.force && isWebBuildFresh()) {
     if (!opts.quiet) console.log("web build: dist/ is up to date");
     return { built: false, dist: DIST };

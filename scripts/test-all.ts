@@ -53,7 +53,16 @@ async function main() {
     rmSync(tap, { force: true });
     const r = spawnSync(
       process.execPath,
-      ["--import", "tsx", "--test", "--test-reporter=spec", "--test-reporter-destination=stdout", "--test-reporter=tap", `--test-reporter-destination=${tap}`, ...nodeTests],
+      [
+        "--import",
+        "tsx",
+        "--test",
+        "--test-reporter=spec",
+        "--test-reporter-destination=stdout",
+        "--test-reporter=tap",
+        `--test-reporter-destination=${tap}`,
+        ...nodeTests,
+      ],
       { cwd: ROOT, stdio: "inherit", env: { ...process.env, LINGER_TEST: "1" } },
     );
     const text = existsSync(tap) ? readFileSync(tap, "utf8") : "";
@@ -72,11 +81,15 @@ async function main() {
   if (hasComponents && (!only || only === "components")) {
     const out = join(tmp, "jest.json");
     rmSync(out, { force: true });
-    const r = spawnSync(process.execPath, [join(ROOT, "node_modules", "jest", "bin", "jest.js"), "--ci", "--json", `--outputFile=${out}`], {
-      cwd: ROOT,
-      stdio: "inherit",
-      env: { ...process.env, EXPO_NO_TELEMETRY: "1" },
-    });
+    const r = spawnSync(
+      process.execPath,
+      [join(ROOT, "node_modules", "jest", "bin", "jest.js"), "--ci", "--json", `--outputFile=${out}`],
+      {
+        cwd: ROOT,
+        stdio: "inherit",
+        env: { ...process.env, EXPO_NO_TELEMETRY: "1" },
+      },
+    );
     if (existsSync(out)) {
       const j = JSON.parse(readFileSync(out, "utf8"));
       passed += j.numPassedTests ?? 0;

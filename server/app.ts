@@ -7,11 +7,11 @@ import compression from "compression";
 import { existsSync } from "node:fs";
 import { resolve, join } from "node:path";
 import type { AppContext } from "./context";
-import { apiNotFound, errorHandler } from "./middleware/error-handler";
-import { csrfGuard } from "./middleware/csrf";
-import { installAuth } from "./middleware/session";
-import { mountRoutes } from "./routes/route-table";
-import { allRoutes } from "./routes";
+import { apiNotFound, errorHandler } from "@/server/middleware/error-handler";
+import { csrfGuard } from "@/server/middleware/csrf";
+import { installAuth } from "@/server/middleware/session";
+import { mountRoutes } from "@/server/routes/route-table";
+import { allRoutes } from "@/server/routes";
 
 export function createApp(ctx: AppContext) {
   const app = express();
@@ -41,7 +41,12 @@ export function createApp(ctx: AppContext) {
       res.setHeader("Cache-Control", "no-cache");
       res.sendFile(indexHtml);
     } else {
-      res.status(200).type("html").send("<!doctype html><title>Linger</title><p>Linger: the web build is missing. Run <code>npm run build:web</code>.</p>");
+      res
+        .status(200)
+        .type("html")
+        .send(
+          "<!doctype html><title>Linger</title><p>Linger: the web build is missing. Run <code>npm run build:web</code>.</p>",
+        );
     }
   });
   app.use(errorHandler);

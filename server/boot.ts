@@ -2,17 +2,17 @@
  * Builds the long-lived services from the configuration: database (migrated),
  * mailer, compute pool and run queue; seeds demo data unless switched off.
  */
-import { openDatabase } from "../db/client";
+import { openDatabase } from "@/db/client";
 import type { AppContext } from "./context";
 import { parseEnv, type Env } from "./env";
 import { APP_VERSION } from "./version";
-import { createMailer } from "./services/mail.service";
-import { createRunQueue } from "./services/run-queue";
-import { createSimPool } from "./workers/pool";
-import { onRunEnded } from "./services/run-events";
-import { purgeDeleted } from "./services/runs.service";
-import { seedDemo } from "./services/demo-seed";
-import "./services/demo-content";
+import { createMailer } from "@/server/services/mail.service";
+import { createRunQueue } from "@/server/compute/run-queue";
+import { createSimPool } from "@/server/compute/pool";
+import { onRunEnded } from "@/server/compute/run-events";
+import { purgeDeleted } from "@/server/services/runs.service";
+import { seedDemo } from "@/server/demo/seed";
+import "@/server/demo/content";
 
 export interface Booted {
   ctx: AppContext;
@@ -23,7 +23,14 @@ export async function boot(env: Env = parseEnv()): Promise<Booted> {
   const handle = openDatabase(env.DATABASE_URL);
   const mailer = await createMailer(env, { db: handle.db });
   const pool = createSimPool({ threads: env.poolSize });
-  const ctx = { db: handle.db, sqlite: handle.sqlite, env, version: APP_VERSION, mailer, poolSize: env.poolSize } as AppContext;
+  const ctx = {
+    db: handle.db,
+    sqlite: handle.sqlite,
+    env,
+    version: APP_VERSION,
+    mailer,
+    poolSize: env.poolSize,
+  } as AppContext;
   ctx.queue = createRunQueue({
     db: handle.db,
     sqlite: handle.sqlite,

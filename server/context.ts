@@ -1,9 +1,9 @@
 /** What every route and service gets: the database, configuration and long-lived services. */
-import type { Db } from "../db/client";
+import type { Db } from "@/db/client";
 import type Database from "better-sqlite3";
 import type { Env } from "./env";
-import type { Mailer } from "./services/mail.service";
-import type { RunQueue } from "./services/run-queue";
+import type { Mailer } from "@/server/services/mail.service";
+import type { RunQueue } from "@/server/compute/run-queue";
 
 export interface AppContext {
   db: Db;

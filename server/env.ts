@@ -6,7 +6,10 @@ import { z } from "zod";
 import { availableParallelism } from "node:os";
 
 const bool = (fallback: boolean) =>
-  z.enum(["0", "1", "true", "false", "yes", "no"]).optional().transform((v) => (v === undefined ? fallback : ["1", "true", "yes"].includes(v)));
+  z
+    .enum(["0", "1", "true", "false", "yes", "no"])
+    .optional()
+    .transform((v) => (v === undefined ? fallback : ["1", "true", "yes"].includes(v)));
 
 export const EnvSchema = z.object({
   PORT: z.coerce.number().int().min(0).max(65535).default(8080),

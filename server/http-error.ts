@@ -1,3 +1,4 @@
+import type { ZodError, ZodType } from "zod";
 /** An error with an HTTP status and a stable code; the error handler turns it into JSON. */
 export class HttpError extends Error {
   constructor(
@@ -17,3 +18,19 @@ export const forbidden = (message = "Your role does not allow this.") => new Htt
 export const notFound = (what = "That item") => new HttpError(404, "not_found", `${what} was not found.`);
 export const conflict = (message: string, code = "conflict") => new HttpError(409, code, message);
 export const tooMany = (message: string) => new HttpError(429, "too_many_requests", message);
+
+export function zodFields(err: ZodError): { path: string; message: string }[] {
+  return err.issues.map((i) => ({ path: i.path.map(String).join("."), message: i.message }));
+}
+
+/** Parse `value` with `schema`; a failure is a 400 naming each field. */
+export function parseOr400<T>(schema: ZodType<T>, value: unknown, where = "body"): T {
+  const r = schema.safeParse(value);
+  if (r.success) return r.data;
+  const fields = zodFields(r.error);
+  throw badRequest(
+    `Invalid ${where}: ${fields.map((f) => `${f.path || where}: ${f.message}`).join("; ")}`,
+    fields,
+    "invalid",
+  );
+}

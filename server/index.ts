@@ -2,7 +2,7 @@
 import { createApp } from "./app";
 import { boot } from "./boot";
 import { parseEnv } from "./env";
-import { DEMO_ACCOUNTS } from "./services/demo-seed";
+import { DEMO_ACCOUNTS } from "@/server/demo/seed";
 
 async function main() {
   let env;
@@ -21,7 +21,9 @@ async function main() {
     if (!env.LINGER_BASE_URL && env.PORT === 0) ctx.env.baseUrl = `http://localhost:${port}`;
     console.log(`Linger is listening on http://localhost:${port}`);
     if (env.LINGER_SEED_DEMO) {
-      console.log(`Demo sign-in: ${DEMO_ACCOUNTS.map((a) => a.email).join(", ")} with password from LINGER_DEMO_PASSWORD${process.env.LINGER_DEMO_PASSWORD ? "" : ` (default "${env.LINGER_DEMO_PASSWORD}")`}`);
+      console.log(
+        `Demo sign-in: ${DEMO_ACCOUNTS.map((a) => a.email).join(", ")} with password from LINGER_DEMO_PASSWORD${process.env.LINGER_DEMO_PASSWORD ? "" : ` (default "${env.LINGER_DEMO_PASSWORD}")`}`,
+      );
     }
     if (process.send) process.send({ type: "listening", port });
   });

@@ -1,8 +1,8 @@
 import React from "react";
 import { View } from "react-native";
 import { Redirect, Slot } from "expo-router";
-import { useMe } from "../../components/data/use-me";
-import { useTheme } from "../../components/theme/use-theme";
+import { useMe } from "@/components/data/use-me";
+import { useTheme } from "@/components/theme/use-theme";
 
 /** Signed-out pages: a narrow centred column. A signed-in visitor goes home. */
 export default function AuthLayout() {

@@ -1,11 +1,11 @@
 import React from "react";
 import { View } from "react-native";
 import { Link, useRouter } from "expo-router";
-import { AuthFrame } from "../../components/ui/auth-frame";
-import { SignInForm } from "../../components/forms/sign-in-form";
-import { useSignIn } from "../../components/data/use-me";
-import { useTheme } from "../../components/theme/use-theme";
-import { Text } from "../../components/ui/text";
+import { AuthFrame } from "@/components/ui/auth-frame";
+import { SignInForm } from "@/components/forms/sign-in-form";
+import { useSignIn } from "@/components/data/use-me";
+import { useTheme } from "@/components/theme/use-theme";
+import { Text } from "@/components/ui/text";
 
 export default function SignIn() {
   const t = useTheme();
@@ -20,10 +20,14 @@ export default function SignIn() {
       />
       <View style={{ flexDirection: "row", flexWrap: "wrap", justifyContent: "space-between", gap: t.spacing.md }}>
         <Link href="/reset" style={{ minHeight: 44, paddingVertical: 12 }}>
-          <Text tone="primary" variant="label">Forgot your password?</Text>
+          <Text tone="primary" variant="label">
+            Forgot your password?
+          </Text>
         </Link>
         <Link href="/sign-up" style={{ minHeight: 44, paddingVertical: 12 }}>
-          <Text tone="primary" variant="label">Create an account</Text>
+          <Text tone="primary" variant="label">
+            Create an account
+          </Text>
         </Link>
       </View>
     </AuthFrame>

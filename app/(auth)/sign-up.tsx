@@ -1,13 +1,13 @@
 import React, { useState } from "react";
 import { useLocalSearchParams, useRouter, Link } from "expo-router";
-import { AuthFrame } from "../../components/ui/auth-frame";
-import { Field } from "../../components/ui/field";
-import { Button } from "../../components/ui/button";
-import { Banner } from "../../components/ui/states";
-import { Text } from "../../components/ui/text";
-import { ApiError } from "../../components/data/api";
-import { useSignIn, useSignUp } from "../../components/data/use-me";
-import { PASSWORD_MIN_LENGTH } from "../../shared/schemas/auth";
+import { AuthFrame } from "@/components/ui/auth-frame";
+import { Field } from "@/components/ui/field";
+import { Button } from "@/components/ui/button";
+import { Banner } from "@/components/ui/states";
+import { Text } from "@/components/ui/text";
+import { ApiError } from "@/components/data/api";
+import { useSignIn, useSignUp } from "@/components/data/use-me";
+import { PASSWORD_MIN_LENGTH } from "@/shared/schemas/auth";
 
 export default function SignUp() {
   const router = useRouter();
@@ -25,20 +25,50 @@ export default function SignUp() {
     if (v.password.length < PASSWORD_MIN_LENGTH) e.password = `Use at least ${PASSWORD_MIN_LENGTH} characters.`;
     setErrors(e);
     if (Object.keys(e).length) return;
-    const body = { email: v.email.trim(), displayName: v.displayName.trim(), password: v.password, invitationToken: params.invite };
+    const body = {
+      email: v.email.trim(),
+      displayName: v.displayName.trim(),
+      password: v.password,
+      invitationToken: params.invite,
+    };
     signUp.mutate(body, {
-      onSuccess: () => signIn.mutate({ email: body.email, password: body.password }, { onSuccess: () => router.replace("/") }),
+      onSuccess: () =>
+        signIn.mutate({ email: body.email, password: body.password }, { onSuccess: () => router.replace("/") }),
     });
   };
   return (
     <AuthFrame title={params.invite ? "Accept your invitation" : "Create an account"}>
       {server && !server.fields.length ? <Banner tone="danger">{server.message}</Banner> : null}
-      <Field label="Email" value={v.email} onChangeText={(email) => setV({ ...v, email })} error={fields.email} autoCapitalize="none" keyboardType="email-address" autoComplete="email" />
-      <Field label="Display name" value={v.displayName} onChangeText={(displayName) => setV({ ...v, displayName })} error={fields.displayName} autoComplete="name" />
-      <Field label="Password" value={v.password} onChangeText={(password) => setV({ ...v, password })} error={fields.password} secureTextEntry autoComplete="new-password" hint={`At least ${PASSWORD_MIN_LENGTH} characters.`} />
+      <Field
+        label="Email"
+        value={v.email}
+        onChangeText={(email) => setV({ ...v, email })}
+        error={fields.email}
+        autoCapitalize="none"
+        keyboardType="email-address"
+        autoComplete="email"
+      />
+      <Field
+        label="Display name"
+        value={v.displayName}
+        onChangeText={(displayName) => setV({ ...v, displayName })}
+        error={fields.displayName}
+        autoComplete="name"
+      />
+      <Field
+        label="Password"
+        value={v.password}
+        onChangeText={(password) => setV({ ...v, password })}
+        error={fields.password}
+        secureTextEntry
+        autoComplete="new-password"
+        hint={`At least ${PASSWORD_MIN_LENGTH} characters.`}
+      />
       <Button label="Create account" onPress={submit} busy={signUp.isPending || signIn.isPending} />
       <Link href="/sign-in" style={{ minHeight: 44, paddingVertical: 12 }}>
-        <Text tone="primary" variant="label">I already have an account</Text>
+        <Text tone="primary" variant="label">
+          I already have an account
+        </Text>
       </Link>
     </AuthFrame>
   );

@@ -1,11 +1,11 @@
 import React, { useEffect } from "react";
 import { Slot, usePathname, useRouter } from "expo-router";
-import { AppShell } from "../../components/ui/app-shell";
-import { useMe } from "../../components/data/use-me";
-import { isUnauthorized } from "../../components/data/api";
-import { useCurrentLab } from "../../components/data/current-lab";
-import { Screen } from "../../components/ui/screen";
-import { ErrorState, LoadingState } from "../../components/ui/states";
+import { AppShell } from "@/components/ui/app-shell";
+import { useMe } from "@/components/data/use-me";
+import { isUnauthorized } from "@/components/data/api";
+import { useCurrentLab } from "@/components/data/current-lab";
+import { Screen } from "@/components/ui/screen";
+import { ErrorState, LoadingState } from "@/components/ui/states";
 
 /**
  * Signed-in area. The client owns sign-in redirects: when /api/me answers 401
@@ -20,10 +20,25 @@ export default function SignedInLayout() {
   useEffect(() => {
     if (signedOut) router.replace("/sign-in");
   }, [signedOut, router]);
-  if (me.isPending || signedOut) return <Screen><LoadingState label="Opening Linger" /></Screen>;
-  if (me.error) return <Screen title="Linger"><ErrorState error={me.error} onRetry={() => me.refetch()} /></Screen>;
+  if (me.isPending || signedOut)
+    return (
+      <Screen>
+        <LoadingState label="Opening Linger" />
+      </Screen>
+    );
+  if (me.error)
+    return (
+      <Screen title="Linger">
+        <ErrorState error={me.error} onRetry={() => me.refetch()} />
+      </Screen>
+    );
   return (
-    <AppShell pathname={pathname} onNavigate={(href) => router.navigate(href as never)} labName={lab?.name} isSiteAdmin={!!me.data.user.isSiteAdmin}>
+    <AppShell
+      pathname={pathname}
+      onNavigate={(href) => router.navigate(href as never)}
+      labName={lab?.name}
+      isSiteAdmin={!!me.data.user.isSiteAdmin}
+    >
       <Slot />
     </AppShell>
   );

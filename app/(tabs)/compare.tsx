@@ -1,20 +1,20 @@
 import React from "react";
 import { View } from "react-native";
 import { useLocalSearchParams, useRouter } from "expo-router";
-import { Screen } from "../../components/ui/screen";
-import { Card } from "../../components/ui/card";
-import { Text } from "../../components/ui/text";
-import { Checkbox } from "../../components/ui/checkbox";
-import { SafetyNote } from "../../components/ui/safety-note";
-import { StatCard } from "../../components/ui/stat-card";
-import { EmptyState, ErrorState, LoadingState } from "../../components/ui/states";
-import { LazyChart } from "../../components/charts/lazy-chart";
-import { compareDelaySpec, compareFilterSpec } from "../../components/charts/specs";
-import { formatNumber } from "../../components/charts/chart-spec";
-import { useComparison, useRuns } from "../../components/data/runs";
-import { useTheme } from "../../components/theme/use-theme";
-import { useBreakpoints } from "../../components/theme/use-breakpoints";
-import type { Comparison, ComparisonPair } from "../../shared/schemas/analysis";
+import { Screen } from "@/components/ui/screen";
+import { Card } from "@/components/ui/card";
+import { Text } from "@/components/ui/text";
+import { Checkbox } from "@/components/ui/checkbox";
+import { SafetyNote } from "@/components/ui/safety-note";
+import { StatCard } from "@/components/ui/stat-card";
+import { EmptyState, ErrorState, LoadingState } from "@/components/ui/states";
+import { LazyChart } from "@/components/charts/lazy-chart";
+import { compareDelaySpec, compareFilterSpec } from "@/components/charts/specs";
+import { formatNumber } from "@/components/charts/chart-spec";
+import { useComparison, useRuns } from "@/components/data/runs";
+import { useTheme } from "@/components/theme/use-theme";
+import { useBreakpoints } from "@/components/theme/use-breakpoints";
+import type { Comparison, ComparisonPair } from "@/shared/schemas/analysis";
 
 const pct = (p: number | null) => (p === null ? "–" : `${formatNumber(p * 100, 3)}%`);
 const pval = (p: number) => (p < 0.001 ? "p < 0.001" : `p = ${formatNumber(p, 2)}`);
@@ -29,18 +29,30 @@ export function pairSentences(cmp: Comparison, pair: ComparisonPair): string[] {
   const out: string[] = [];
   const d = pair.delays;
   if (d.withinNoise === null) out.push(`Response delays of ${a} and ${b} could not be tested (too few responses).`);
-  else if (d.withinNoise) out.push(`Response delays of ${a} and ${b} do not differ beyond noise (Kolmogorov-Smirnov and Mann-Whitney, Holm-adjusted, both p ≥ 0.05).`);
+  else if (d.withinNoise)
+    out.push(
+      `Response delays of ${a} and ${b} do not differ beyond noise (Kolmogorov-Smirnov and Mann-Whitney, Holm-adjusted, both p ≥ 0.05).`,
+    );
   else
     out.push(
-      `Response delays differ` + (d.medianA !== null && d.medianB !== null ? `: median ${formatNumber(d.medianA)} min for ${a} against ${formatNumber(d.medianB)} min for ${b}` : ` between ${a} and ${b}`) +
+      `Response delays differ` +
+        (d.medianA !== null && d.medianB !== null
+          ? `: median ${formatNumber(d.medianA)} min for ${a} against ${formatNumber(d.medianB)} min for ${b}`
+          : ` between ${a} and ${b}`) +
         (d.mannWhitney ? ` (Mann-Whitney ${pval(d.mannWhitney.pHolm)} after Holm adjustment).` : "."),
     );
   const w = pair.widths;
-  if (w.withinNoise === false) out.push(`Output pulse widths differ: median ${formatNumber(w.medianA)} min against ${formatNumber(w.medianB)} min.`);
+  if (w.withinNoise === false)
+    out.push(
+      `Output pulse widths differ: median ${formatNumber(w.medianA)} min against ${formatNumber(w.medianB)} min.`,
+    );
   const diffs = pair.passDifferences.filter((p) => !p.withinNoise);
-  if (diffs.length === 0 && pair.passDifferences.length) out.push(`Pass probabilities do not differ beyond noise at any duration (Fisher's exact test, Holm-adjusted).`);
+  if (diffs.length === 0 && pair.passDifferences.length)
+    out.push(`Pass probabilities do not differ beyond noise at any duration (Fisher's exact test, Holm-adjusted).`);
   for (const p of diffs)
-    out.push(`At ${formatNumber(p.duration)} min, ${a} passes ${pct(p.passProbabilityA)} of pulses against ${pct(p.passProbabilityB)} for ${b} (Fisher ${pval(p.pHolm)}, Holm-adjusted).`);
+    out.push(
+      `At ${formatNumber(p.duration)} min, ${a} passes ${pct(p.passProbabilityA)} of pulses against ${pct(p.passProbabilityB)} for ${b} (Fisher ${pval(p.pHolm)}, Holm-adjusted).`,
+    );
   return out;
 }
 
@@ -49,7 +61,8 @@ function ComparisonView({ ids }: { ids: string[] }) {
   const { isWide } = useBreakpoints();
   const q = useComparison(ids);
   if (q.isPending) return <LoadingState label="Comparing runs" />;
-  if (q.error) return <ErrorState title="The comparison could not be made" error={q.error} onRetry={() => q.refetch()} />;
+  if (q.error)
+    return <ErrorState title="The comparison could not be made" error={q.error} onRetry={() => q.refetch()} />;
   const cmp = q.data;
   const filter = compareFilterSpec(cmp, t.colors);
   const delays = compareDelaySpec(cmp, t.colors);
@@ -61,15 +74,34 @@ function ComparisonView({ ids }: { ids: string[] }) {
           <View key={r.id} style={{ flex: isWide ? 1 : undefined, gap: t.spacing.sm }}>
             <View style={{ flexDirection: "row", alignItems: "center", gap: t.spacing.sm }}>
               <View style={{ width: 12, height: 12, borderRadius: 6, backgroundColor: t.colors.series[k] }} />
-              <Text variant="bodyStrong" style={{ flexShrink: 1 }}>{r.name}</Text>
+              <Text variant="bodyStrong" style={{ flexShrink: 1 }}>
+                {r.name}
+              </Text>
             </View>
-            <StatCard label="d50" value={r.headline.d50 === null ? "not estimable" : `${formatNumber(r.headline.d50)} min`} detail={r.headline.d50Note ?? undefined} />
-            <StatCard label="Median delay" value={r.headline.medianDelay === null ? "not reached" : `${formatNumber(r.headline.medianDelay)} min`} />
-            <StatCard label="False-pass rate" value={pct(r.headline.falsePassRate)} detail="pulses shorter than the noise duration that passed" />
-            <StatCard label="Pulses passed" value={`${r.headline.passed} of ${r.headline.evaluable}`} detail="every evaluable pulse, all durations" />
+            <StatCard
+              label="d50"
+              value={r.headline.d50 === null ? "not estimable" : `${formatNumber(r.headline.d50)} min`}
+              detail={r.headline.d50Note ?? undefined}
+            />
+            <StatCard
+              label="Median delay"
+              value={r.headline.medianDelay === null ? "not reached" : `${formatNumber(r.headline.medianDelay)} min`}
+            />
+            <StatCard
+              label="False-pass rate"
+              value={pct(r.headline.falsePassRate)}
+              detail="pulses shorter than the noise duration that passed"
+            />
+            <StatCard
+              label="Pulses passed"
+              value={`${r.headline.passed} of ${r.headline.evaluable}`}
+              detail="every evaluable pulse, all durations"
+            />
             <StatCard
               label="Delay paid for long pulses"
-              value={r.headline.delayCostMedian === null ? "not reached" : `${formatNumber(r.headline.delayCostMedian)} min`}
+              value={
+                r.headline.delayCostMedian === null ? "not reached" : `${formatNumber(r.headline.delayCostMedian)} min`
+              }
             />
           </View>
         ))}
@@ -94,11 +126,19 @@ function ComparisonView({ ids }: { ids: string[] }) {
         <Text variant="heading">What the tests say</Text>
         {cmp.pairs.map((p) => (
           <View key={`${p.a}-${p.b}`} style={{ gap: t.spacing.xs }}>
-            {pairSentences(cmp, p).map((s) => <Text key={s}>• {s}</Text>)}
+            {pairSentences(cmp, p).map((s) => (
+              <Text key={s}>• {s}</Text>
+            ))}
           </View>
         ))}
-        {cmp.flags.map((f) => <Text key={f} tone="muted">• {f}</Text>)}
-        <Text variant="caption" tone="muted">{cmp.method}</Text>
+        {cmp.flags.map((f) => (
+          <Text key={f} tone="muted">
+            • {f}
+          </Text>
+        ))}
+        <Text variant="caption" tone="muted">
+          {cmp.method}
+        </Text>
       </Card>
     </View>
   );
@@ -110,7 +150,9 @@ export default function Compare() {
   const ids = (params.ids ?? "").split(",").filter(Boolean);
   const runs = useRuns();
   // Finished runs, plus any chosen run (for example one that just finished and is not in the cached list yet).
-  const finished = (runs.data ?? []).filter((r) => r.status === "finished" || r.status === "capped" || ids.includes(r.id));
+  const finished = (runs.data ?? []).filter(
+    (r) => r.status === "finished" || r.status === "capped" || ids.includes(r.id),
+  );
   const toggle = (id: string, on: boolean) => {
     const next = on ? [...ids, id].slice(0, 4) : ids.filter((x) => x !== id);
     router.setParams({ ids: next.join(",") });
@@ -123,14 +165,29 @@ export default function Compare() {
         ) : runs.error ? (
           <ErrorState error={runs.error} onRetry={() => runs.refetch()} />
         ) : finished.length < 2 ? (
-          <EmptyState icon="columns" title="Not enough finished runs" message="Comparisons need at least two finished runs." />
+          <EmptyState
+            icon="columns"
+            title="Not enough finished runs"
+            message="Comparisons need at least two finished runs."
+          />
         ) : (
           finished.map((r) => (
-            <Checkbox key={r.id} label={`${r.name} (${r.circuitName})`} checked={ids.includes(r.id)} disabled={!ids.includes(r.id) && ids.length >= 4} onChange={(on) => toggle(r.id, on)} testID={`compare-pick-${r.id}`} />
+            <Checkbox
+              key={r.id}
+              label={`${r.name} (${r.circuitName})`}
+              checked={ids.includes(r.id)}
+              disabled={!ids.includes(r.id) && ids.length >= 4}
+              onChange={(on) => toggle(r.id, on)}
+              testID={`compare-pick-${r.id}`}
+            />
           ))
         )}
       </Card>
-      {ids.length >= 2 ? <ComparisonView ids={ids} /> : <Text tone="muted">{ids.length === 1 ? "Choose at least one more run." : "Nothing chosen yet."}</Text>}
+      {ids.length >= 2 ? (
+        <ComparisonView ids={ids} />
+      ) : (
+        <Text tone="muted">{ids.length === 1 ? "Choose at least one more run." : "Nothing chosen yet."}</Text>
+      )}
     </Screen>
   );
 }

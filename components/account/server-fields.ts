@@ -1,5 +1,5 @@
-import { ApiError } from "../data/api";
-import { stripPrefix } from "../forms/zod-errors";
+import { ApiError } from "@/components/data/api";
+import { stripPrefix } from "@/components/forms/zod-errors";
 
 /** Field errors of a server answer keyed by the request field ("email"), whether the path starts with "body." or not. */
 export function serverFields(error: unknown): Record<string, string> {

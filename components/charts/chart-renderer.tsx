@@ -11,14 +11,16 @@ import { seriesKeys, formatNumber } from "./chart-spec";
 
 export type ChartRendererProps = { spec: ChartSpec; colors: { text: string; grid: string; frame: string } };
 
-// eslint-disable-next-line @typescript-eslint/no-require-imports
 const INTER = require("@expo-google-fonts/inter/400Regular/Inter_400Regular.ttf");
 
 export default function ChartRenderer({ spec, colors }: ChartRendererProps) {
   const font = useFont(INTER, 11);
   const keys = seriesKeys(spec);
   const rows = spec.logX ? spec.rows.map((r) => ({ ...r, x: Math.log10(Math.max(r.x, 1e-9)) })) : spec.rows;
-  const xDomain = spec.xDomain && spec.logX ? ([Math.log10(spec.xDomain[0]), Math.log10(spec.xDomain[1])] as [number, number]) : spec.xDomain;
+  const xDomain =
+    spec.xDomain && spec.logX
+      ? ([Math.log10(spec.xDomain[0]), Math.log10(spec.xDomain[1])] as [number, number])
+      : spec.xDomain;
   const domain = xDomain || spec.yDomain ? { x: xDomain, y: spec.yDomain } : undefined;
   // victory-native's generics want literal keys; the spec is dynamic, so the props are built loosely.
   const Chart = CartesianChart as unknown as React.ComponentType<Record<string, unknown>>;
@@ -38,17 +40,64 @@ export default function ChartRenderer({ spec, colors }: ChartRendererProps) {
           tickCount: 6,
           formatXLabel: (v: number) => formatNumber(spec.logX ? Math.pow(10, v) : v, 3),
         }}
-        yAxis={[{ font, labelColor: colors.text, lineColor: colors.grid, tickCount: 5, formatYLabel: (v: number) => formatNumber(v, 3) }]}
+        yAxis={[
+          {
+            font,
+            labelColor: colors.text,
+            lineColor: colors.grid,
+            tickCount: 5,
+            formatYLabel: (v: number) => formatNumber(v, 3),
+          },
+        ]}
         frame={{ lineColor: colors.frame, lineWidth: 1 }}
       >
         {({ points, chartBounds }: { points: Record<string, never>; chartBounds: never }) => (
           <>
             {spec.layers.map((l, i) => {
-              if (l.type === "band") return <AreaRange key={i} upperPoints={points[l.upper]} lowerPoints={points[l.lower]} color={l.color} opacity={l.opacity ?? 0.22} />;
-              if (l.type === "area") return <Area key={i} points={points[l.key]} y0={(chartBounds as { bottom: number }).bottom} color={l.color} opacity={l.opacity ?? 0.2} curveType={l.curve ?? "linear"} />;
-              if (l.type === "points") return <Scatter key={i} points={points[l.key]} radius={l.radius ?? 4} color={l.color} />;
-              if (l.type === "bars") return <Bar key={i} points={points[l.key]} chartBounds={chartBounds} color={l.color} innerPadding={0.15} roundedCorners={{ topLeft: 2, topRight: 2 }} />;
-              return <Line key={i} points={points[l.key]} color={l.color} strokeWidth={l.width ?? 2} curveType={l.curve ?? "linear"} opacity={l.opacity ?? 1} />;
+              if (l.type === "band")
+                return (
+                  <AreaRange
+                    key={i}
+                    upperPoints={points[l.upper]}
+                    lowerPoints={points[l.lower]}
+                    color={l.color}
+                    opacity={l.opacity ?? 0.22}
+                  />
+                );
+              if (l.type === "area")
+                return (
+                  <Area
+                    key={i}
+                    points={points[l.key]}
+                    y0={(chartBounds as { bottom: number }).bottom}
+                    color={l.color}
+                    opacity={l.opacity ?? 0.2}
+                    curveType={l.curve ?? "linear"}
+                  />
+                );
+              if (l.type === "points")
+                return <Scatter key={i} points={points[l.key]} radius={l.radius ?? 4} color={l.color} />;
+              if (l.type === "bars")
+                return (
+                  <Bar
+                    key={i}
+                    points={points[l.key]}
+                    chartBounds={chartBounds}
+                    color={l.color}
+                    innerPadding={0.15}
+                    roundedCorners={{ topLeft: 2, topRight: 2 }}
+                  />
+                );
+              return (
+                <Line
+                  key={i}
+                  points={points[l.key]}
+                  color={l.color}
+                  strokeWidth={l.width ?? 2}
+                  curveType={l.curve ?? "linear"}
+                  opacity={l.opacity ?? 1}
+                />
+              );
             })}
           </>
         )}

@@ -6,7 +6,14 @@
 export type ChartRow = { x: number } & Record<string, number | null>;
 
 export type ChartLayer =
-  | { type: "line"; key: string; color: string; width?: number; curve?: "linear" | "stepAfter" | "monotoneX"; opacity?: number }
+  | {
+      type: "line";
+      key: string;
+      color: string;
+      width?: number;
+      curve?: "linear" | "stepAfter" | "monotoneX";
+      opacity?: number;
+    }
   | { type: "band"; lower: string; upper: string; color: string; opacity?: number }
   | { type: "points"; key: string; color: string; radius?: number }
   | { type: "bars"; key: string; color: string }

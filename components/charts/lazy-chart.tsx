@@ -5,15 +5,25 @@
  */
 import React from "react";
 import { Platform, View } from "react-native";
-import { useTheme } from "../theme/use-theme";
-import { Text } from "../ui/text";
+import { useTheme } from "@/components/theme/use-theme";
+import { Text } from "@/components/ui/text";
 import type { ChartSpec } from "./chart-spec";
 
 function ChartFallback({ height }: { height: number }) {
   const t = useTheme();
   return (
-    <View style={{ height, alignItems: "center", justifyContent: "center", backgroundColor: t.colors.surfaceAlt, borderRadius: t.radii.md }}>
-      <Text variant="caption" tone="muted">Loading chart…</Text>
+    <View
+      style={{
+        height,
+        alignItems: "center",
+        justifyContent: "center",
+        backgroundColor: t.colors.surfaceAlt,
+        borderRadius: t.radii.md,
+      }}
+    >
+      <Text variant="caption" tone="muted">
+        Loading chart…
+      </Text>
     </View>
   );
 }
@@ -38,7 +48,11 @@ export function LazyChart({ spec, testID }: { spec: ChartSpec; testID?: string }
   const colors = { text: t.colors.textMuted, grid: t.colors.divider, frame: t.colors.border };
   return (
     <View style={{ gap: t.spacing.sm }} testID={testID}>
-      <View role="img" aria-label={`${spec.title}. ${spec.description}`} testID={testID ? `${testID}-canvas` : undefined}>
+      <View
+        role="img"
+        aria-label={`${spec.title}. ${spec.description}`}
+        testID={testID ? `${testID}-canvas` : undefined}
+      >
         <React.Suspense fallback={<ChartFallback height={height} />}>
           <Renderer spec={spec} colors={colors} />
         </React.Suspense>
@@ -47,11 +61,15 @@ export function LazyChart({ spec, testID }: { spec: ChartSpec; testID?: string }
         {spec.legend.map((l) => (
           <View key={l.label} style={{ flexDirection: "row", alignItems: "center", gap: t.spacing.xs }}>
             <View style={{ width: 14, height: 4, borderRadius: 2, backgroundColor: l.color }} />
-            <Text variant="caption" tone="muted">{l.label}</Text>
+            <Text variant="caption" tone="muted">
+              {l.label}
+            </Text>
           </View>
         ))}
       </View>
-      <Text variant="caption" tone="muted">{spec.xLabel} (across) · {spec.yLabel} (up)</Text>
+      <Text variant="caption" tone="muted">
+        {spec.xLabel} (across) · {spec.yLabel} (up)
+      </Text>
     </View>
   );
 }

@@ -1,11 +1,11 @@
 import React from "react";
-import { useProgramPreview } from "../data/programs";
-import { useTheme } from "../theme/use-theme";
+import { useProgramPreview } from "@/components/data/programs";
+import { useTheme } from "@/components/theme/use-theme";
 import { LazyChart } from "./lazy-chart";
 import { programPreviewSpec } from "./specs";
-import { ErrorState, LoadingState } from "../ui/states";
-import { Text } from "../ui/text";
-import type { InputProgramInput } from "../../shared/schemas/input-program";
+import { ErrorState, LoadingState } from "@/components/ui/states";
+import { Text } from "@/components/ui/text";
+import type { InputProgramInput } from "@/shared/schemas/input-program";
 
 /** Live preview plot of an input program's signal. */
 export function ProgramPreview({ program, endTimeMinutes }: { program: InputProgramInput; endTimeMinutes: number }) {
@@ -16,7 +16,9 @@ export function ProgramPreview({ program, endTimeMinutes }: { program: InputProg
   return (
     <>
       <LazyChart spec={programPreviewSpec(q.data, t.colors)} testID="program-preview" />
-      <Text variant="caption" tone="muted">{q.data.pulses.length} pulses before {endTimeMinutes} min{q.data.note ? ` · ${q.data.note}` : ""}</Text>
+      <Text variant="caption" tone="muted">
+        {q.data.pulses.length} pulses before {endTimeMinutes} min{q.data.note ? ` · ${q.data.note}` : ""}
+      </Text>
     </>
   );
 }

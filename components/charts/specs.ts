@@ -1,10 +1,10 @@
 /** Builders from API data to ChartSpecs (no drawing here). */
-import type { Palette } from "../theme/tokens";
+import type { Palette } from "@/components/theme/tokens";
 import type { ChartRow, ChartSpec } from "./chart-spec";
 import { formatNumber } from "./chart-spec";
-import type { RunSummary, Comparison } from "../../shared/schemas/analysis";
-import type { RunSeries } from "../../shared/schemas/api-runs";
-import type { PreviewProgramResponse } from "../../shared/schemas/api-programs";
+import type { RunSummary, Comparison } from "@/shared/schemas/analysis";
+import type { RunSeries } from "@/shared/schemas/api-runs";
+import type { PreviewProgramResponse } from "@/shared/schemas/api-programs";
 
 /** Step samples of a piecewise-constant signal from [on, off) pulses, on a grid of `times`. */
 export function signalOnGrid(times: number[], pulses: { on: number; off: number; level: number }[]): number[] {
@@ -32,14 +32,22 @@ export function programPreviewSpec(preview: PreviewProgramResponse, c: Palette):
   }
   rows.push({ x: end, level: prev });
   const n = preview.pulses.length;
-  const durations = [...new Set(preview.pulses.map((p) => Math.round((p.off - p.on) * 100) / 100))].sort((a, b) => a - b);
+  const durations = [...new Set(preview.pulses.map((p) => Math.round((p.off - p.on) * 100) / 100))].sort(
+    (a, b) => a - b,
+  );
   return {
     title: "Input signal preview",
-    description: `${n} pulse${n === 1 ? "" : "s"} before ${formatNumber(end)} minutes; durations ${durations.slice(0, 8).map((d) => formatNumber(d)).join(", ")}${durations.length > 8 ? "…" : ""} minutes.`,
+    description: `${n} pulse${n === 1 ? "" : "s"} before ${formatNumber(end)} minutes; durations ${durations
+      .slice(0, 8)
+      .map((d) => formatNumber(d))
+      .join(", ")}${durations.length > 8 ? "…" : ""} minutes.`,
     xLabel: "Time (min)",
     yLabel: "Signal level",
     rows,
-    layers: [{ type: "area", key: "level", color: c.series[0], opacity: 0.25 }, { type: "line", key: "level", color: c.series[0], width: 2 }],
+    layers: [
+      { type: "area", key: "level", color: c.series[0], opacity: 0.25 },
+      { type: "line", key: "level", color: c.series[0], width: 2 },
+    ],
     legend: [{ label: "Input signal", color: c.series[0] }],
     xDomain: [0, end],
     height: 160,
@@ -65,7 +73,8 @@ export function filterCurveSpec(summary: RunSummary, c: Palette): ChartSpec {
     ...(hasFit ? { fit: logisticAt(summary, e.duration) } : {}),
   }));
   const d50 = summary.d50 === null ? (summary.d50Note ?? "d50 not estimable") : `d50 ${formatNumber(summary.d50)} min`;
-  const logX = entries.length > 1 && entries[0].duration > 0 && entries[entries.length - 1].duration / entries[0].duration >= 8;
+  const logX =
+    entries.length > 1 && entries[0].duration > 0 && entries[entries.length - 1].duration / entries[0].duration >= 8;
   return {
     title: "Filter curve",
     description: `Pass probability for ${entries.length} input durations, from ${entries.map((e) => `${formatNumber(e.duration)} min: ${formatNumber((e.passProbability ?? 0) * 100, 3)}%`).join("; ")}. ${d50}.`,
@@ -74,7 +83,9 @@ export function filterCurveSpec(summary: RunSummary, c: Palette): ChartSpec {
     rows,
     layers: [
       { type: "band", lower: "lo", upper: "hi", color: c.series[0], opacity: 0.2 },
-      ...(hasFit ? [{ type: "line" as const, key: "fit", color: c.series[1], width: 2, curve: "monotoneX" as const }] : []),
+      ...(hasFit
+        ? [{ type: "line" as const, key: "fit", color: c.series[1], width: 2, curve: "monotoneX" as const }]
+        : []),
       { type: "line", key: "pass", color: c.series[0], width: 1.5, opacity: 0.6 },
       { type: "points", key: "pass", color: c.series[0], radius: 4 },
     ],
@@ -161,7 +172,13 @@ export function trajectoriesSpec(series: RunSeries, c: Palette, maxTrajectories 
     rows,
     layers: [
       { type: "area", key: "input", color: c.series[2], opacity: 0.18, curve: "stepAfter" },
-      ...trajs.map((_, k) => ({ type: "line" as const, key: `r${k}`, color: colors[k % colors.length], width: 1.25, curve: "stepAfter" as const })),
+      ...trajs.map((_, k) => ({
+        type: "line" as const,
+        key: `r${k}`,
+        color: colors[k % colors.length],
+        width: 1.25,
+        curve: "stepAfter" as const,
+      })),
       ...(series.threshold ? [{ type: "line" as const, key: "theta", color: c.series[1], width: 1 }] : []),
     ],
     legend: [
@@ -202,7 +219,12 @@ export function compareFilterSpec(cmp: Comparison, c: Palette): ChartSpec {
   const logX = xs.length > 1 && xs[xs.length - 1] / xs[0] >= 8;
   return {
     title: "Filter curves compared",
-    description: cmp.runs.map((r, k) => `${r.name}: ${cmp.filterCurves.map((f) => `${formatNumber(f.duration)} min ${f.runs[k]?.passProbability === null || f.runs[k] === null ? "–" : formatNumber((f.runs[k]!.passProbability ?? 0) * 100) + "%"}`).join(", ")}`).join(". "),
+    description: cmp.runs
+      .map(
+        (r, k) =>
+          `${r.name}: ${cmp.filterCurves.map((f) => `${formatNumber(f.duration)} min ${f.runs[k]?.passProbability === null || f.runs[k] === null ? "–" : formatNumber((f.runs[k]!.passProbability ?? 0) * 100) + "%"}`).join(", ")}`,
+      )
+      .join(". "),
     xLabel: logX ? "Input pulse duration (min, log scale)" : "Input pulse duration (min)",
     yLabel: "Pass probability",
     rows: rows.filter((r) => r.x > 0),
@@ -231,11 +253,19 @@ export function compareDelaySpec(cmp: Comparison, c: Palette): ChartSpec | null 
   });
   return {
     title: "Response delays compared",
-    description: cmp.runs.map((r, j) => `${r.name}: ${d.runs[j].censored} censored`).join("; ") + ". Fractions of observed delays per bin.",
+    description:
+      cmp.runs.map((r, j) => `${r.name}: ${d.runs[j].censored} censored`).join("; ") +
+      ". Fractions of observed delays per bin.",
     xLabel: "Response delay (min)",
     yLabel: "Fraction of responses",
     rows,
-    layers: cmp.runs.map((_, j) => ({ type: "line" as const, key: `f${j}`, color: c.series[j], width: 2, curve: "stepAfter" as const })),
+    layers: cmp.runs.map((_, j) => ({
+      type: "line" as const,
+      key: `f${j}`,
+      color: c.series[j],
+      width: 2,
+      curve: "stepAfter" as const,
+    })),
     legend: cmp.runs.map((r, j) => ({ label: r.name, color: c.series[j] })),
     height: 200,
   };

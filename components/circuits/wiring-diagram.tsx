@@ -5,9 +5,9 @@
  */
 import React from "react";
 import { View } from "react-native";
-import { useTheme } from "../theme/use-theme";
-import { Text } from "../ui/text";
-import type { WiringEdge, WiringNode, FeedForward } from "../../shared/schemas/api-circuits";
+import { useTheme } from "@/components/theme/use-theme";
+import { Text } from "@/components/ui/text";
+import type { WiringEdge, WiringNode, FeedForward } from "@/shared/schemas/api-circuits";
 
 const NODE = 56;
 
@@ -15,7 +15,11 @@ type P = { x: number; y: number };
 
 /** Node positions on a circle (signals first, so inputs sit at the top left). */
 export function layoutNodes(nodes: WiringNode[], width: number, height: number): Record<string, P> {
-  const ordered = [...nodes.filter((n) => n.kind === "signal"), ...nodes.filter((n) => n.kind === "species" && !n.isOutput), ...nodes.filter((n) => n.isOutput)];
+  const ordered = [
+    ...nodes.filter((n) => n.kind === "signal"),
+    ...nodes.filter((n) => n.kind === "species" && !n.isOutput),
+    ...nodes.filter((n) => n.isOutput),
+  ];
   const cx = width / 2;
   const cy = height / 2;
   const r = Math.max(10, Math.min(width, height) / 2 - NODE / 2 - 6);
@@ -48,7 +52,19 @@ function Segment({ from, to, color, thickness = 2 }: { from: P; to: P; color: st
   );
 }
 
-function Edge({ a, b, sign, color, offset }: { a: P; b: P; sign: "activates" | "represses"; color: string; offset: number }) {
+function Edge({
+  a,
+  b,
+  sign,
+  color,
+  offset,
+}: {
+  a: P;
+  b: P;
+  sign: "activates" | "represses";
+  color: string;
+  offset: number;
+}) {
   const dx = b.x - a.x;
   const dy = b.y - a.y;
   const len = Math.hypot(dx, dy) || 1;
@@ -63,10 +79,30 @@ function Edge({ a, b, sign, color, offset }: { a: P; b: P; sign: "activates" | "
   const markers =
     sign === "activates"
       ? [
-          <Segment key="h1" from={end} to={{ x: end.x - ux * head - uy * head * 0.6, y: end.y - uy * head + ux * head * 0.6 }} color={color} thickness={2.5} />,
-          <Segment key="h2" from={end} to={{ x: end.x - ux * head + uy * head * 0.6, y: end.y - uy * head - ux * head * 0.6 }} color={color} thickness={2.5} />,
+          <Segment
+            key="h1"
+            from={end}
+            to={{ x: end.x - ux * head - uy * head * 0.6, y: end.y - uy * head + ux * head * 0.6 }}
+            color={color}
+            thickness={2.5}
+          />,
+          <Segment
+            key="h2"
+            from={end}
+            to={{ x: end.x - ux * head + uy * head * 0.6, y: end.y - uy * head - ux * head * 0.6 }}
+            color={color}
+            thickness={2.5}
+          />,
         ]
-      : [<Segment key="bar" from={{ x: end.x - uy * 9, y: end.y + ux * 9 }} to={{ x: end.x + uy * 9, y: end.y - ux * 9 }} color={color} thickness={3} />];
+      : [
+          <Segment
+            key="bar"
+            from={{ x: end.x - uy * 9, y: end.y + ux * 9 }}
+            to={{ x: end.x + uy * 9, y: end.y - ux * 9 }}
+            color={color}
+            thickness={3}
+          />,
+        ];
   return (
     <>
       <Segment from={start} to={end} color={color} />
@@ -75,7 +111,17 @@ function Edge({ a, b, sign, color, offset }: { a: P; b: P; sign: "activates" | "
   );
 }
 
-export function WiringDiagram({ nodes, edges, feedForward, height = 220 }: { nodes: WiringNode[]; edges: WiringEdge[]; feedForward?: FeedForward | null; height?: number }) {
+export function WiringDiagram({
+  nodes,
+  edges,
+  feedForward,
+  height = 220,
+}: {
+  nodes: WiringNode[];
+  edges: WiringEdge[];
+  feedForward?: FeedForward | null;
+  height?: number;
+}) {
   const t = useTheme();
   const [width, setWidth] = React.useState(0);
   const pos = width ? layoutNodes(nodes, width, height) : {};
@@ -96,7 +142,16 @@ export function WiringDiagram({ nodes, edges, feedForward, height = 220 }: { nod
               const b = pos[e.to];
               if (!a || !b || e.from === e.to) return null;
               const reverse = edges.some((o) => o.from === e.to && o.to === e.from);
-              return <Edge key={i} a={a} b={b} sign={e.sign} color={e.sign === "activates" ? t.colors.primary : t.colors.danger} offset={reverse ? 6 : 0} />;
+              return (
+                <Edge
+                  key={i}
+                  a={a}
+                  b={b}
+                  sign={e.sign}
+                  color={e.sign === "activates" ? t.colors.primary : t.colors.danger}
+                  offset={reverse ? 6 : 0}
+                />
+              );
             })
           : null}
         {width
@@ -120,7 +175,15 @@ export function WiringDiagram({ nodes, edges, feedForward, height = 220 }: { nod
                     justifyContent: "center",
                   }}
                 >
-                  <Text variant="caption" numberOfLines={1} style={{ fontFamily: t.fonts.semibold, color: n.isOutput ? t.colors.onPrimarySoft : t.colors.text, maxWidth: NODE - 6 }}>
+                  <Text
+                    variant="caption"
+                    numberOfLines={1}
+                    style={{
+                      fontFamily: t.fonts.semibold,
+                      color: n.isOutput ? t.colors.onPrimarySoft : t.colors.text,
+                      maxWidth: NODE - 6,
+                    }}
+                  >
                     {n.name}
                   </Text>
                 </View>
@@ -129,11 +192,19 @@ export function WiringDiagram({ nodes, edges, feedForward, height = 220 }: { nod
           : null}
       </View>
       <View style={{ flexDirection: "row", flexWrap: "wrap", gap: t.spacing.md }}>
-        <Text variant="caption" tone="muted">→ activates</Text>
-        <Text variant="caption" tone="muted">⊣ represses</Text>
-        <Text variant="caption" tone="muted">square = input signal · bold ring = output</Text>
+        <Text variant="caption" tone="muted">
+          → activates
+        </Text>
+        <Text variant="caption" tone="muted">
+          ⊣ represses
+        </Text>
+        <Text variant="caption" tone="muted">
+          square = input signal · bold ring = output
+        </Text>
       </View>
-      <Text variant="caption" tone="muted">{description}</Text>
+      <Text variant="caption" tone="muted">
+        {description}
+      </Text>
     </View>
   );
 }

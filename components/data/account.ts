@@ -5,10 +5,10 @@
 import { useMutation, useQueryClient } from "@tanstack/react-query";
 import { api } from "./api";
 import { meKeys } from "./use-me";
-import { MeSchema, OkSchema, type ChangePasswordBody, type MePatchBody } from "../../shared/schemas/api-accounts";
+import { MeSchema, OkSchema, type ChangePasswordBody, type MePatchBody } from "@/shared/schemas/api-accounts";
 
 /** The server's rule (shared/schemas/auth.ts). */
-export { PASSWORD_MIN_LENGTH, PASSWORD_MAX_LENGTH } from "../../shared/schemas/auth";
+export { PASSWORD_MIN_LENGTH, PASSWORD_MAX_LENGTH } from "@/shared/schemas/auth";
 
 /** PATCH /api/me: display name and/or the "e-mail me when my lab's runs end" setting. */
 export function useUpdateProfile() {

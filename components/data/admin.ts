@@ -5,9 +5,9 @@
  */
 import { useMutation, useQuery } from "@tanstack/react-query";
 import { api } from "./api";
-import { AdminUsersSchema, BackupResultSchema, OutboxSchema } from "../../shared/schemas/api-accounts";
+import { AdminUsersSchema, BackupResultSchema, OutboxSchema } from "@/shared/schemas/api-accounts";
 
-export type { AdminUser, BackupResult, OutboxMessage } from "../../shared/schemas/api-accounts";
+export type { AdminUser, BackupResult, OutboxMessage } from "@/shared/schemas/api-accounts";
 
 export const adminKeys = {
   outbox: (limit: number) => ["admin", "outbox", limit] as const,

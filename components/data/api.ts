@@ -4,7 +4,7 @@
  * use the hooks in this folder.
  */
 import type { z } from "zod";
-import { ApiErrorSchema } from "../../shared/schemas/errors";
+import { ApiErrorSchema } from "@/shared/schemas/errors";
 
 export type FieldError = { path: string; message: string };
 

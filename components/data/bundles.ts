@@ -9,7 +9,7 @@ import * as DocumentPicker from "expo-document-picker";
 import { api } from "./api";
 import { useLabId } from "./current-lab";
 import { runKeys } from "./runs";
-import { RunDetailSchema } from "../../shared/schemas/api-runs";
+import { RunDetailSchema } from "@/shared/schemas/api-runs";
 
 export function useReproduceRun() {
   const qc = useQueryClient();

@@ -10,7 +10,7 @@ import {
   TemplatesResponseSchema,
   type CreateCircuitRequest,
   type UpdateCircuitRequest,
-} from "../../shared/schemas/api-circuits";
+} from "@/shared/schemas/api-circuits";
 
 export const circuitKeys = {
   all: ["circuits"] as const,

@@ -19,9 +19,9 @@ import {
   type InviteBody,
   type LabCreateBody,
   type LabRole,
-} from "../../shared/schemas/api-accounts";
+} from "@/shared/schemas/api-accounts";
 
-export { LAB_ROLES } from "../../shared/schemas/api-accounts";
+export { LAB_ROLES } from "@/shared/schemas/api-accounts";
 export type {
   AcceptInvitationResponse as AcceptResult,
   AuditEvent,
@@ -30,7 +30,7 @@ export type {
   LabMember,
   LabRole,
   PendingInvitation,
-} from "../../shared/schemas/api-accounts";
+} from "@/shared/schemas/api-accounts";
 
 export const labKeys = {
   all: ["labs"] as const,

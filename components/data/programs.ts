@@ -8,8 +8,8 @@ import {
   ProgramSummarySchema,
   type CreateProgramRequest,
   type UpdateProgramRequest,
-} from "../../shared/schemas/api-programs";
-import type { InputProgramInput } from "../../shared/schemas/input-program";
+} from "@/shared/schemas/api-programs";
+import type { InputProgramInput } from "@/shared/schemas/input-program";
 
 export const programKeys = {
   all: ["programs"] as const,

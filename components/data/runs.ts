@@ -13,8 +13,8 @@ import {
   type LaunchRunInput,
   type RunDetail,
   type RunListItem,
-} from "../../shared/schemas/api-runs";
-import { ComparisonSchema, RunSummarySchema, type RunSummary } from "../../shared/schemas/analysis";
+} from "@/shared/schemas/api-runs";
+import { ComparisonSchema, RunSummarySchema, type RunSummary } from "@/shared/schemas/analysis";
 
 export type { RunDetail, RunListItem };
 

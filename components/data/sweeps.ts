@@ -3,7 +3,7 @@ import { useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
 import { z } from "zod";
 import { api } from "./api";
 import { useLabId } from "./current-lab";
-import { SweepDetailSchema, SweepListItemSchema, type LaunchSweepInput, type SweepDetail } from "../../shared/schemas/api-runs";
+import { SweepDetailSchema, SweepListItemSchema, type LaunchSweepInput, type SweepDetail } from "@/shared/schemas/api-runs";
 
 export { SweepDetailSchema, SweepListItemSchema, type SweepDetail };
 const SweepListSchema = z.array(SweepListItemSchema);

@@ -9,7 +9,7 @@ import * as DocumentPicker from "expo-document-picker";
 import { z } from "zod";
 import { api, apiUrl, ApiError } from "./api";
 import { useLabId } from "./current-lab";
-import { ApiErrorSchema } from "../../shared/schemas/errors";
+import { ApiErrorSchema } from "@/shared/schemas/errors";
 import {
   MatchDetailSchema,
   TraceParseErrorSchema,
@@ -24,7 +24,7 @@ import {
   type TraceSetListItem,
   type TraceSetPatch,
   type TraceUploadOptionsInput,
-} from "../../shared/schemas/api-traces";
+} from "@/shared/schemas/api-traces";
 
 export type { MatchDetail, TraceParseError, TracePreview, TraceSetDetail, TraceSetListItem };
 

@@ -13,9 +13,9 @@ import {
   type ResetRequestBody,
   type SignInBody,
   type SignUpBody,
-} from "../../shared/schemas/api-accounts";
+} from "@/shared/schemas/api-accounts";
 
-export type { Me, MeLab, MeUser } from "../../shared/schemas/api-accounts";
+export type { Me, MeLab, MeUser } from "@/shared/schemas/api-accounts";
 
 export const meKeys = { all: ["me"] as const };
 

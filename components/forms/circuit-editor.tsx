@@ -7,15 +7,15 @@
  */
 import React, { useMemo, useState } from "react";
 import { View } from "react-native";
-import { CircuitSchema, type CircuitInput } from "../../shared/schemas/circuit";
-import { useTheme } from "../theme/use-theme";
-import { useBreakpoints } from "../theme/use-breakpoints";
-import { Field } from "../ui/field";
-import { Button } from "../ui/button";
-import { Choice } from "../ui/choice";
-import { Card } from "../ui/card";
-import { Text } from "../ui/text";
-import { Banner } from "../ui/states";
+import { CircuitSchema, type CircuitInput } from "@/shared/schemas/circuit";
+import { useTheme } from "@/components/theme/use-theme";
+import { useBreakpoints } from "@/components/theme/use-breakpoints";
+import { Field } from "@/components/ui/field";
+import { Button } from "@/components/ui/button";
+import { Choice } from "@/components/ui/choice";
+import { Card } from "@/components/ui/card";
+import { Text } from "@/components/ui/text";
+import { Banner } from "@/components/ui/states";
 import { issuesToMap, parseNumber } from "./zod-errors";
 import { formatStoich, parseStoich } from "./stoich-text";
 
@@ -56,7 +56,16 @@ export type CircuitEditorProps = {
   onChange?: (body: CircuitInput) => void;
 };
 
-export function CircuitEditor({ initial, onSubmit, submitLabel, busy, serverErrors = {}, serverMessage, header, onChange }: CircuitEditorProps) {
+export function CircuitEditor({
+  initial,
+  onSubmit,
+  submitLabel,
+  busy,
+  serverErrors = {},
+  serverMessage,
+  header,
+  onChange,
+}: CircuitEditorProps) {
   const t = useTheme();
   const { isWide } = useBreakpoints();
   const [circuit, setCircuit] = useState<CircuitInput>(initial);
@@ -109,7 +118,9 @@ export function CircuitEditor({ initial, onSubmit, submitLabel, busy, serverErro
       />
     );
   };
-  const row = (children: React.ReactNode) => <View style={{ flexDirection: isWide ? "row" : "column", gap: t.spacing.md, flexWrap: "wrap" }}>{children}</View>;
+  const row = (children: React.ReactNode) => (
+    <View style={{ flexDirection: isWide ? "row" : "column", gap: t.spacing.md, flexWrap: "wrap" }}>{children}</View>
+  );
 
   const species = circuit.species ?? [];
   const signals = circuit.signals ?? [];
@@ -122,7 +133,11 @@ export function CircuitEditor({ initial, onSubmit, submitLabel, busy, serverErro
 
   return (
     <View style={{ gap: t.spacing.lg }}>
-      {serverMessage ? <Banner tone="danger" testID="circuit-server-error">{serverMessage}</Banner> : null}
+      {serverMessage ? (
+        <Banner tone="danger" testID="circuit-server-error">
+          {serverMessage}
+        </Banner>
+      ) : null}
       {header}
       <Card>
         <Text variant="heading">About</Text>
@@ -134,50 +149,117 @@ export function CircuitEditor({ initial, onSubmit, submitLabel, busy, serverErro
           options={species.filter((s) => s.name).map((s) => ({ value: s.name, label: s.name }))}
           onChange={(v) => update(["outputSpecies"], v)}
         />
-        {errorAt(["outputSpecies"]) ? <Text variant="caption" tone="danger" role="alert">{errorAt(["outputSpecies"])}</Text> : null}
+        {errorAt(["outputSpecies"]) ? (
+          <Text variant="caption" tone="danger" role="alert">
+            {errorAt(["outputSpecies"])}
+          </Text>
+        ) : null}
       </Card>
 
       <Card>
         <Text variant="heading">Species</Text>
         {species.map((s, i) => (
-          <View key={i} style={{ gap: t.spacing.sm, borderTopWidth: i ? 1 : 0, borderTopColor: t.colors.divider, paddingTop: i ? t.spacing.md : 0 }}>
+          <View
+            key={i}
+            style={{
+              gap: t.spacing.sm,
+              borderTopWidth: i ? 1 : 0,
+              borderTopColor: t.colors.divider,
+              paddingTop: i ? t.spacing.md : 0,
+            }}
+          >
             {row(
               <>
-                <View style={{ flexGrow: 1, flexBasis: 160 }}>{textField(`Species ${i + 1} name`, ["species", i, "name"])}</View>
-                {numberField(`Initial count of ${s.name || `species ${i + 1}`}`, ["species", i, "initialCount"], "molecules")}
+                <View style={{ flexGrow: 1, flexBasis: 160 }}>
+                  {textField(`Species ${i + 1} name`, ["species", i, "name"])}
+                </View>
+                {numberField(
+                  `Initial count of ${s.name || `species ${i + 1}`}`,
+                  ["species", i, "initialCount"],
+                  "molecules",
+                )}
               </>,
             )}
-            <Button label={`Remove species ${s.name || i + 1}`} variant="ghost" compact icon="trash-2" style={{ alignSelf: "flex-start" }} onPress={() => update(["species"], species.filter((_, j) => j !== i))} />
+            <Button
+              label={`Remove species ${s.name || i + 1}`}
+              variant="ghost"
+              compact
+              icon="trash-2"
+              style={{ alignSelf: "flex-start" }}
+              onPress={() =>
+                update(
+                  ["species"],
+                  species.filter((_, j) => j !== i),
+                )
+              }
+            />
           </View>
         ))}
-        <Button label="Add species" variant="secondary" icon="plus" style={{ alignSelf: "flex-start" }} onPress={() => update(["species", species.length], { name: "", initialCount: 0 })} />
+        <Button
+          label="Add species"
+          variant="secondary"
+          icon="plus"
+          style={{ alignSelf: "flex-start" }}
+          onPress={() => update(["species", species.length], { name: "", initialCount: 0 })}
+        />
       </Card>
 
       <Card>
         <Text variant="heading">Input signals</Text>
-        <Text variant="caption" tone="muted">Signals are set by an input program (for example an inducer added to the tank).</Text>
+        <Text variant="caption" tone="muted">
+          Signals are set by an input program (for example an inducer added to the tank).
+        </Text>
         {signals.map((s, i) => (
           <View key={i} style={{ gap: t.spacing.sm }}>
             {row(
               <>
-                <View style={{ flexGrow: 1, flexBasis: 160 }}>{textField(`Signal ${i + 1} name`, ["signals", i, "name"])}</View>
+                <View style={{ flexGrow: 1, flexBasis: 160 }}>
+                  {textField(`Signal ${i + 1} name`, ["signals", i, "name"])}
+                </View>
                 {numberField("Level when off", ["signals", i, "offLevel"], "signal units")}
                 {numberField("Level when on", ["signals", i, "onLevel"], "signal units")}
               </>,
             )}
-            <Button label={`Remove signal ${s.name || i + 1}`} variant="ghost" compact icon="trash-2" style={{ alignSelf: "flex-start" }} onPress={() => update(["signals"], signals.filter((_, j) => j !== i))} />
+            <Button
+              label={`Remove signal ${s.name || i + 1}`}
+              variant="ghost"
+              compact
+              icon="trash-2"
+              style={{ alignSelf: "flex-start" }}
+              onPress={() =>
+                update(
+                  ["signals"],
+                  signals.filter((_, j) => j !== i),
+                )
+              }
+            />
           </View>
         ))}
-        <Button label="Add signal" variant="secondary" icon="plus" style={{ alignSelf: "flex-start" }} onPress={() => update(["signals", signals.length], { name: "", offLevel: 0, onLevel: 1 })} />
+        <Button
+          label="Add signal"
+          variant="secondary"
+          icon="plus"
+          style={{ alignSelf: "flex-start" }}
+          onPress={() => update(["signals", signals.length], { name: "", offLevel: 0, onLevel: 1 })}
+        />
       </Card>
 
       <Card>
         <Text variant="heading">Reactions</Text>
         {reactions.map((r, i) => {
           const kind = r.rate?.kind ?? "massAction";
-          const regs = r.rate?.kind === "regulated" ? r.rate.regulators ?? [] : [];
+          const regs = r.rate?.kind === "regulated" ? (r.rate.regulators ?? []) : [];
           return (
-            <View key={i} testID={`reaction-${i}`} style={{ gap: t.spacing.md, borderTopWidth: i ? 1 : 0, borderTopColor: t.colors.divider, paddingTop: i ? t.spacing.lg : 0 }}>
+            <View
+              key={i}
+              testID={`reaction-${i}`}
+              style={{
+                gap: t.spacing.md,
+                borderTopWidth: i ? 1 : 0,
+                borderTopColor: t.colors.divider,
+                paddingTop: i ? t.spacing.lg : 0,
+              }}
+            >
               {textField(`Reaction ${i + 1} name`, ["reactions", i, "name"])}
               {row(
                 <>
@@ -189,7 +271,9 @@ export function CircuitEditor({ initial, onSubmit, submitLabel, busy, serverErro
                       setTexts((s) => ({ ...s, [key(["reactions", i, "reactants"])]: v }));
                       update(["reactions", i, "reactants"], parseStoich(v));
                     }}
-                    error={errorAt(["reactions", i, "reactants"]) ?? errorAt(["reactions", i, "reactants", 0, "species"])}
+                    error={
+                      errorAt(["reactions", i, "reactants"]) ?? errorAt(["reactions", i, "reactants", 0, "species"])
+                    }
                     autoCapitalize="none"
                     style={{ flexGrow: 1, flexBasis: 160 }}
                   />
@@ -219,7 +303,13 @@ export function CircuitEditor({ initial, onSubmit, submitLabel, busy, serverErro
                   update(
                     ["reactions", i, "rate"],
                     k === "regulated"
-                      ? { kind: "regulated", maxRatePerMinute: 1, logic: "and", leakFraction: 0, regulators: [{ source: species[0]?.name ?? "", effect: "activates", halfMax: 10, hill: 2 }] }
+                      ? {
+                          kind: "regulated",
+                          maxRatePerMinute: 1,
+                          logic: "and",
+                          leakFraction: 0,
+                          regulators: [{ source: species[0]?.name ?? "", effect: "activates", halfMax: 10, hill: 2 }],
+                        }
                       : { kind: k, ratePerMinute: 0.1 },
                   )
                 }
@@ -228,21 +318,45 @@ export function CircuitEditor({ initial, onSubmit, submitLabel, busy, serverErro
                 <>
                   {row(
                     <>
-                      {numberField("Maximal rate", ["reactions", i, "rate", "maxRatePerMinute"], "molecules per minute")}
+                      {numberField(
+                        "Maximal rate",
+                        ["reactions", i, "rate", "maxRatePerMinute"],
+                        "molecules per minute",
+                      )}
                       {numberField("Leak fraction", ["reactions", i, "rate", "leakFraction"], "0 to 1")}
                     </>,
                   )}
                   <Choice
                     label="How regulators combine"
                     value={(r.rate as { logic?: "and" | "or" }).logic ?? "and"}
-                    options={[{ value: "and", label: "AND (all needed)" }, { value: "or", label: "OR (any one)" }]}
+                    options={[
+                      { value: "and", label: "AND (all needed)" },
+                      { value: "or", label: "OR (any one)" },
+                    ]}
                     onChange={(v) => update(["reactions", i, "rate", "logic"], v)}
                   />
                   {regs.map((g, j) => (
-                    <View key={j} style={{ gap: t.spacing.sm, padding: t.spacing.md, borderRadius: t.radii.md, backgroundColor: t.colors.surfaceAlt }}>
+                    <View
+                      key={j}
+                      style={{
+                        gap: t.spacing.sm,
+                        padding: t.spacing.md,
+                        borderRadius: t.radii.md,
+                        backgroundColor: t.colors.surfaceAlt,
+                      }}
+                    >
                       {row(
                         <>
-                          <View style={{ flexGrow: 1, flexBasis: 140 }}>{textField(`Regulator ${j + 1} of ${r.name || `reaction ${i + 1}`}`, ["reactions", i, "rate", "regulators", j, "source"])}</View>
+                          <View style={{ flexGrow: 1, flexBasis: 140 }}>
+                            {textField(`Regulator ${j + 1} of ${r.name || `reaction ${i + 1}`}`, [
+                              "reactions",
+                              i,
+                              "rate",
+                              "regulators",
+                              j,
+                              "source",
+                            ])}
+                          </View>
                           {numberField("Half-max K", ["reactions", i, "rate", "regulators", j, "halfMax"], "molecules")}
                           {numberField("Hill coefficient n", ["reactions", i, "rate", "regulators", j, "hill"])}
                         </>,
@@ -250,17 +364,54 @@ export function CircuitEditor({ initial, onSubmit, submitLabel, busy, serverErro
                       <Choice
                         label={`Effect of ${g.source || `regulator ${j + 1}`}`}
                         value={g.effect ?? "activates"}
-                        options={[{ value: "activates", label: "Activates" }, { value: "represses", label: "Represses" }]}
+                        options={[
+                          { value: "activates", label: "Activates" },
+                          { value: "represses", label: "Represses" },
+                        ]}
                         onChange={(v) => update(["reactions", i, "rate", "regulators", j, "effect"], v)}
                       />
-                      <Button label={`Remove regulator ${g.source || j + 1}`} variant="ghost" compact icon="trash-2" style={{ alignSelf: "flex-start" }} onPress={() => update(["reactions", i, "rate", "regulators"], regs.filter((_, k) => k !== j))} />
+                      <Button
+                        label={`Remove regulator ${g.source || j + 1}`}
+                        variant="ghost"
+                        compact
+                        icon="trash-2"
+                        style={{ alignSelf: "flex-start" }}
+                        onPress={() =>
+                          update(
+                            ["reactions", i, "rate", "regulators"],
+                            regs.filter((_, k) => k !== j),
+                          )
+                        }
+                      />
                     </View>
                   ))}
-                  {errorAt(["reactions", i, "rate", "regulators"]) ? <Text variant="caption" tone="danger" role="alert">{errorAt(["reactions", i, "rate", "regulators"])}</Text> : null}
-                  <Button label="Add regulator" variant="secondary" compact icon="plus" style={{ alignSelf: "flex-start" }} onPress={() => update(["reactions", i, "rate", "regulators", regs.length], { source: "", effect: "activates", halfMax: 10, hill: 2 })} />
+                  {errorAt(["reactions", i, "rate", "regulators"]) ? (
+                    <Text variant="caption" tone="danger" role="alert">
+                      {errorAt(["reactions", i, "rate", "regulators"])}
+                    </Text>
+                  ) : null}
+                  <Button
+                    label="Add regulator"
+                    variant="secondary"
+                    compact
+                    icon="plus"
+                    style={{ alignSelf: "flex-start" }}
+                    onPress={() =>
+                      update(["reactions", i, "rate", "regulators", regs.length], {
+                        source: "",
+                        effect: "activates",
+                        halfMax: 10,
+                        hill: 2,
+                      })
+                    }
+                  />
                 </>
               ) : (
-                numberField(kind === "constant" ? "Rate" : "Rate constant", ["reactions", i, "rate", "ratePerMinute"], kind === "constant" ? "molecules per minute" : "per minute")
+                numberField(
+                  kind === "constant" ? "Rate" : "Rate constant",
+                  ["reactions", i, "rate", "ratePerMinute"],
+                  kind === "constant" ? "molecules per minute" : "per minute",
+                )
               )}
               <Field
                 label="Only while this signal is on (optional)"
@@ -270,22 +421,49 @@ export function CircuitEditor({ initial, onSubmit, submitLabel, busy, serverErro
                 autoCapitalize="none"
                 hint="A signal name that multiplies the whole rate."
               />
-              <Button label={`Remove reaction ${r.name || i + 1}`} variant="ghost" compact icon="trash-2" style={{ alignSelf: "flex-start" }} onPress={() => update(["reactions"], reactions.filter((_, j) => j !== i))} />
+              <Button
+                label={`Remove reaction ${r.name || i + 1}`}
+                variant="ghost"
+                compact
+                icon="trash-2"
+                style={{ alignSelf: "flex-start" }}
+                onPress={() =>
+                  update(
+                    ["reactions"],
+                    reactions.filter((_, j) => j !== i),
+                  )
+                }
+              />
             </View>
           );
         })}
-        {errorAt(["reactions"]) ? <Text variant="caption" tone="danger" role="alert">{errorAt(["reactions"])}</Text> : null}
+        {errorAt(["reactions"]) ? (
+          <Text variant="caption" tone="danger" role="alert">
+            {errorAt(["reactions"])}
+          </Text>
+        ) : null}
         <Button
           label="Add reaction"
           variant="secondary"
           icon="plus"
           style={{ alignSelf: "flex-start" }}
-          onPress={() => update(["reactions", reactions.length], { name: `R${reactions.length + 1}`, reactants: [], products: [], modifiers: [], rate: { kind: "massAction", ratePerMinute: 0.1 } })}
+          onPress={() =>
+            update(["reactions", reactions.length], {
+              name: `R${reactions.length + 1}`,
+              reactants: [],
+              products: [],
+              modifiers: [],
+              rate: { kind: "massAction", ratePerMinute: 0.1 },
+            })
+          }
         />
       </Card>
 
       {showAll && errorCount > 0 ? (
-        <Banner tone="danger" testID="circuit-form-errors">{`${errorCount} field${errorCount === 1 ? " needs" : "s need"} attention before saving.`}</Banner>
+        <Banner
+          tone="danger"
+          testID="circuit-form-errors"
+        >{`${errorCount} field${errorCount === 1 ? " needs" : "s need"} attention before saving.`}</Banner>
       ) : null}
       <Button label={submitLabel} icon="save" onPress={submit} busy={busy} testID="circuit-save" />
     </View>

@@ -1,4 +1,4 @@
-import { SeedSchema } from "../../shared/schemas/run-spec";
+import { SeedSchema } from "@/shared/schemas/run-spec";
 import { parseNumber } from "./zod-errors";
 
 /** A fresh random seed (letters and digits), shown to the user and editable. */
@@ -40,10 +40,12 @@ export function validateRunForm(v: RunFormValues): Partial<Record<keyof RunFormV
   const grid = parseNumber(v.gridStepMinutes);
   if (!(grid > 0)) e.gridStepMinutes = "Grid step must be a positive number of minutes.";
   else if (end > 0 && end / grid > 20_000) e.gridStepMinutes = "At most 20,000 grid points: use a larger step.";
-  if (v.thresholdValue.trim() && !(parseNumber(v.thresholdValue) > 0)) e.thresholdValue = "Threshold must be positive (or empty for the default).";
+  if (v.thresholdValue.trim() && !(parseNumber(v.thresholdValue) > 0))
+    e.thresholdValue = "Threshold must be positive (or empty for the default).";
   const h = parseNumber(v.hysteresis);
   if (!(h >= 0 && h <= 0.9)) e.hysteresis = "Hysteresis must be between 0 and 0.9.";
-  if (v.windowMinutes.trim() && !(parseNumber(v.windowMinutes) > 0)) e.windowMinutes = "Window must be positive (or empty for the default).";
+  if (v.windowMinutes.trim() && !(parseNumber(v.windowMinutes) > 0))
+    e.windowMinutes = "Window must be positive (or empty for the default).";
   if (!(parseNumber(v.noiseDurationMinutes) > 0)) e.noiseDurationMinutes = "Noise duration must be positive.";
   return e;
 }

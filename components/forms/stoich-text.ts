@@ -1,4 +1,4 @@
-import type { StoichEntry } from "../../shared/schemas/circuit";
+import type { StoichEntry } from "@/shared/schemas/circuit";
 
 /** "A + 2B" -> entries; "" or "0" or "∅" -> none. Names are kept as typed so the schema can report bad ones. */
 export function parseStoich(text: string): { species: string; count: number }[] {

@@ -7,7 +7,8 @@ export function issuesToMap(issues: z.core.$ZodIssue[], prefix = ""): Record<str
     const key = prefix + i.path.map(String).join(".");
     if (key in out) continue;
     // A number field holding text (NaN) gets a plain message rather than zod's type wording.
-    out[key] = i.code === "invalid_type" && (i as { expected?: string }).expected === "number" ? "Enter a number." : i.message;
+    out[key] =
+      i.code === "invalid_type" && (i as { expected?: string }).expected === "number" ? "Enter a number." : i.message;
   }
   return out;
 }

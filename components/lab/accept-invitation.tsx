@@ -1,13 +1,13 @@
 import React, { useState } from "react";
 import { View } from "react-native";
-import { useTheme } from "../theme/use-theme";
-import { Field } from "../ui/field";
-import { Button } from "../ui/button";
-import { Banner } from "../ui/states";
-import { Text } from "../ui/text";
-import { PASSWORD_MAX_LENGTH, PASSWORD_MIN_LENGTH } from "../data/account";
-import type { InvitationOffer } from "../data/labs";
-import { serverFields, serverMessage } from "../account/server-fields";
+import { useTheme } from "@/components/theme/use-theme";
+import { Field } from "@/components/ui/field";
+import { Button } from "@/components/ui/button";
+import { Banner } from "@/components/ui/states";
+import { Text } from "@/components/ui/text";
+import { PASSWORD_MAX_LENGTH, PASSWORD_MIN_LENGTH } from "@/components/data/account";
+import type { InvitationOffer } from "@/components/data/labs";
+import { serverFields, serverMessage } from "@/components/account/server-fields";
 import { ROLE_WORDS, withArticle } from "./roles";
 
 export type NewAccountValues = { displayName: string; password: string; repeatPassword: string };
@@ -23,16 +23,22 @@ export function validateNewAccount(v: NewAccountValues): Errors {
   return e;
 }
 
-const until = (iso: string) => new Date(iso).toLocaleDateString("en-GB", { day: "numeric", month: "long", year: "numeric" });
+const until = (iso: string) =>
+  new Date(iso).toLocaleDateString("en-GB", { day: "numeric", month: "long", year: "numeric" });
 
 /** What the invitation offers: the lab, the role and the invited address. */
 export function InvitationSummary({ offer }: { offer: InvitationOffer }) {
   const t = useTheme();
   return (
     <View style={{ gap: t.spacing.xs }} testID="invitation-summary">
-      <Text variant="heading" testID="invitation-lab">{offer.labName}</Text>
+      <Text variant="heading" testID="invitation-lab">
+        {offer.labName}
+      </Text>
       <Text>{`You are invited to join as ${withArticle(offer.role)}: ${ROLE_WORDS[offer.role].can}.`}</Text>
-      <Text variant="caption" tone="muted">{`Sent to ${offer.email} · the link works until ${until(offer.expiresAt)}`}</Text>
+      <Text
+        variant="caption"
+        tone="muted"
+      >{`Sent to ${offer.email} · the link works until ${until(offer.expiresAt)}`}</Text>
     </View>
   );
 }
@@ -42,7 +48,14 @@ export function InvitationSummary({ offer }: { offer: InvitationOffer }) {
  * account: choose a display name and a password (the invited address is the
  * account's). Signed out with an account: `signIn` (a sign-in form) is shown.
  */
-export function AcceptInvitation({ offer, signedInAs, onAccept, busy, error, signIn }: {
+export function AcceptInvitation({
+  offer,
+  signedInAs,
+  onAccept,
+  busy,
+  error,
+  signIn,
+}: {
   offer: InvitationOffer;
   signedInAs?: { email: string; displayName: string } | null;
   onAccept: (account?: { displayName: string; password: string }) => void;
@@ -54,9 +67,17 @@ export function AcceptInvitation({ offer, signedInAs, onAccept, busy, error, sig
   const [values, setValues] = useState<NewAccountValues>({ displayName: "", password: "", repeatPassword: "" });
   const [errors, setErrors] = useState<Errors>({});
   const fields = serverFields(error);
-  const message = serverMessage(error, signedInAs ? [] : ["displayName", "password"], "The invitation could not be accepted. Try again.");
+  const message = serverMessage(
+    error,
+    signedInAs ? [] : ["displayName", "password"],
+    "The invitation could not be accepted. Try again.",
+  );
   const set = (k: keyof NewAccountValues) => (text: string) => setValues((v) => ({ ...v, [k]: text }));
-  const banner = message ? <Banner tone="danger" testID="accept-error">{message}</Banner> : null;
+  const banner = message ? (
+    <Banner tone="danger" testID="accept-error">
+      {message}
+    </Banner>
+  ) : null;
 
   if (signedInAs) {
     const other = signedInAs.email.toLowerCase() !== offer.email.toLowerCase();
@@ -65,8 +86,16 @@ export function AcceptInvitation({ offer, signedInAs, onAccept, busy, error, sig
         <InvitationSummary offer={offer} />
         {banner}
         <Text>{`You are signed in as ${signedInAs.displayName} (${signedInAs.email}).`}</Text>
-        {other ? <Banner tone="notice">{`This invitation was sent to ${offer.email}. Accepting adds the account you are signed in with.`}</Banner> : null}
-        <Button label={`Join ${offer.labName}`} icon="user-plus" busy={busy} onPress={() => onAccept()} testID="accept-invitation" />
+        {other ? (
+          <Banner tone="notice">{`This invitation was sent to ${offer.email}. Accepting adds the account you are signed in with.`}</Banner>
+        ) : null}
+        <Button
+          label={`Join ${offer.labName}`}
+          icon="user-plus"
+          busy={busy}
+          onPress={() => onAccept()}
+          testID="accept-invitation"
+        />
       </View>
     );
   }
@@ -90,7 +119,15 @@ export function AcceptInvitation({ offer, signedInAs, onAccept, busy, error, sig
       <InvitationSummary offer={offer} />
       {banner}
       <Text>{`Create your account for ${offer.email} to join.`}</Text>
-      <Field label="Display name" testID="accept-display-name" value={values.displayName} onChangeText={set("displayName")} error={errors.displayName ?? fields.displayName} autoComplete="name" hint="Shown to the members of your labs." />
+      <Field
+        label="Display name"
+        testID="accept-display-name"
+        value={values.displayName}
+        onChangeText={set("displayName")}
+        error={errors.displayName ?? fields.displayName}
+        autoComplete="name"
+        hint="Shown to the members of your labs."
+      />
       <Field
         label="Password"
         testID="accept-password"
@@ -101,8 +138,23 @@ export function AcceptInvitation({ offer, signedInAs, onAccept, busy, error, sig
         autoComplete="new-password"
         hint={`At least ${PASSWORD_MIN_LENGTH} characters.`}
       />
-      <Field label="Password again" testID="accept-repeat-password" value={values.repeatPassword} onChangeText={set("repeatPassword")} error={errors.repeatPassword} secureTextEntry autoComplete="new-password" onSubmitEditing={submit} />
-      <Button label="Create account and join" icon="user-plus" busy={busy} onPress={submit} testID="accept-invitation" />
+      <Field
+        label="Password again"
+        testID="accept-repeat-password"
+        value={values.repeatPassword}
+        onChangeText={set("repeatPassword")}
+        error={errors.repeatPassword}
+        secureTextEntry
+        autoComplete="new-password"
+        onSubmitEditing={submit}
+      />
+      <Button
+        label="Create account and join"
+        icon="user-plus"
+        busy={busy}
+        onPress={submit}
+        testID="accept-invitation"
+      />
     </View>
   );
 }

@@ -1,4 +1,4 @@
-import type { AuditEvent } from "../data/labs";
+import type { AuditEvent } from "@/components/data/labs";
 import { withArticle } from "./roles";
 
 export type AuditNames = {
@@ -28,7 +28,9 @@ export function describeAuditEvent(e: AuditEvent, names: AuditNames = {}): strin
   const named = (kind: string) => (str(d.name) ? `${kind} ${q(str(d.name)!)}` : `a ${kind}`);
   switch (e.action) {
     case "run.launched":
-      return str(d.controlOf) ? `${who} launched the matched control of ${runName(str(d.controlOf))}` : `${who} launched ${runName(target, str(d.name))}`;
+      return str(d.controlOf)
+        ? `${who} launched the matched control of ${runName(str(d.controlOf))}`
+        : `${who} launched ${runName(target, str(d.name))}`;
     case "run.cancelled":
       return `${who} cancelled ${runName(target)}`;
     case "run.deleted":

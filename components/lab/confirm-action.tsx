@@ -1,15 +1,24 @@
 import React, { useState } from "react";
 import { View } from "react-native";
-import { useTheme } from "../theme/use-theme";
-import { Button } from "../ui/button";
-import { Text } from "../ui/text";
-import type { IconName } from "../ui/icon";
+import { useTheme } from "@/components/theme/use-theme";
+import { Button } from "@/components/ui/button";
+import { Text } from "@/components/ui/text";
+import type { IconName } from "@/components/ui/icon";
 
 /**
  * A destructive action in two steps: the first press asks in words what will
  * happen, the second does it; "Keep" backs out.
  */
-export function ConfirmAction({ label, question, confirmLabel, onConfirm, busy, icon, accessibilityLabel, testID }: {
+export function ConfirmAction({
+  label,
+  question,
+  confirmLabel,
+  onConfirm,
+  busy,
+  icon,
+  accessibilityLabel,
+  testID,
+}: {
   label: string;
   /** e.g. "Remove Demo viewer from the lab?" */
   question: string;
@@ -23,7 +32,18 @@ export function ConfirmAction({ label, question, confirmLabel, onConfirm, busy, 
   const t = useTheme();
   const [asking, setAsking] = useState(false);
   if (!asking) {
-    return <Button label={label} variant="secondary" compact icon={icon} busy={busy} accessibilityLabel={accessibilityLabel} onPress={() => setAsking(true)} testID={testID} />;
+    return (
+      <Button
+        label={label}
+        variant="secondary"
+        compact
+        icon={icon}
+        busy={busy}
+        accessibilityLabel={accessibilityLabel}
+        onPress={() => setAsking(true)}
+        testID={testID}
+      />
+    );
   }
   return (
     <View role="group" aria-label={question} style={{ gap: t.spacing.sm, flexShrink: 1 }}>
@@ -40,7 +60,13 @@ export function ConfirmAction({ label, question, confirmLabel, onConfirm, busy, 
           }}
           testID={testID ? `${testID}-confirm` : undefined}
         />
-        <Button label="Keep" variant="secondary" compact onPress={() => setAsking(false)} testID={testID ? `${testID}-keep` : undefined} />
+        <Button
+          label="Keep"
+          variant="secondary"
+          compact
+          onPress={() => setAsking(false)}
+          testID={testID ? `${testID}-keep` : undefined}
+        />
       </View>
     </View>
   );

@@ -1,28 +1,48 @@
 import React from "react";
 import { View } from "react-native";
-import { useTheme } from "../theme/use-theme";
-import { Text } from "../ui/text";
-import { Banner } from "../ui/states";
-import type { PendingInvitation } from "../data/labs";
+import { useTheme } from "@/components/theme/use-theme";
+import { Text } from "@/components/ui/text";
+import { Banner } from "@/components/ui/states";
+import type { PendingInvitation } from "@/components/data/labs";
 import { ConfirmAction } from "./confirm-action";
 import { memberErrorMessage } from "./member-list";
 
-const day = (iso: string) => new Date(iso).toLocaleDateString("en-GB", { day: "numeric", month: "short", year: "numeric" });
+const day = (iso: string) =>
+  new Date(iso).toLocaleDateString("en-GB", { day: "numeric", month: "short", year: "numeric" });
 
 /** Pending invitations with a withdraw action (its link stops working). */
-export function InvitationList({ invitations, onWithdraw, busyId, error }: {
+export function InvitationList({
+  invitations,
+  onWithdraw,
+  busyId,
+  error,
+}: {
   invitations: PendingInvitation[];
   onWithdraw: (id: string) => void;
   busyId?: string | null;
   error?: unknown;
 }) {
   const t = useTheme();
-  if (invitations.length === 0) return <Text tone="muted" testID="no-invitations">No pending invitations.</Text>;
+  if (invitations.length === 0)
+    return (
+      <Text tone="muted" testID="no-invitations">
+        No pending invitations.
+      </Text>
+    );
   return (
     <View testID="invitation-list">
       {error ? <Banner tone="danger">{memberErrorMessage(error)}</Banner> : null}
       {invitations.map((i) => (
-        <View key={i.id} style={{ gap: t.spacing.sm, paddingVertical: t.spacing.md, borderTopWidth: 1, borderTopColor: t.colors.divider }} testID={`invitation-${i.email}`}>
+        <View
+          key={i.id}
+          style={{
+            gap: t.spacing.sm,
+            paddingVertical: t.spacing.md,
+            borderTopWidth: 1,
+            borderTopColor: t.colors.divider,
+          }}
+          testID={`invitation-${i.email}`}
+        >
           <View style={{ gap: 2 }}>
             <Text variant="bodyStrong">{i.email ?? "unknown address"}</Text>
             <Text variant="caption" tone="muted">

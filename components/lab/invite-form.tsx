@@ -1,13 +1,13 @@
 import React, { useEffect, useState } from "react";
 import { View } from "react-native";
-import { useTheme } from "../theme/use-theme";
-import { Field } from "../ui/field";
-import { Choice } from "../ui/choice";
-import { Button } from "../ui/button";
-import { Banner } from "../ui/states";
-import { Text } from "../ui/text";
-import { serverFields, serverMessage } from "../account/server-fields";
-import type { LabRole } from "../data/labs";
+import { useTheme } from "@/components/theme/use-theme";
+import { Field } from "@/components/ui/field";
+import { Choice } from "@/components/ui/choice";
+import { Button } from "@/components/ui/button";
+import { Banner } from "@/components/ui/states";
+import { Text } from "@/components/ui/text";
+import { serverFields, serverMessage } from "@/components/account/server-fields";
+import type { LabRole } from "@/components/data/labs";
 import { ROLE_OPTIONS, ROLE_WORDS, withArticle } from "./roles";
 
 export type InviteValues = { email: string; role: LabRole };
@@ -26,7 +26,12 @@ export function validateInvite(v: InviteValues): Partial<Record<keyof InviteValu
  * server says no (for example "already a member"); clears the address once
  * `sentTo` reports a sent invitation.
  */
-export function InviteForm({ onSubmit, busy, error, sentTo }: {
+export function InviteForm({
+  onSubmit,
+  busy,
+  error,
+  sentTo,
+}: {
   onSubmit: (v: InviteValues) => void;
   busy?: boolean;
   error?: unknown;
@@ -48,9 +53,16 @@ export function InviteForm({ onSubmit, busy, error, sentTo }: {
   };
   return (
     <View style={{ gap: t.spacing.md }} testID="invite-form">
-      {message ? <Banner tone="danger" testID="invite-error">{message}</Banner> : null}
+      {message ? (
+        <Banner tone="danger" testID="invite-error">
+          {message}
+        </Banner>
+      ) : null}
       {sentTo && !error ? (
-        <Banner tone="success" testID="invite-sent">{`Invitation sent to ${sentTo.email} as ${withArticle(sentTo.role)}. The link works for 7 days.`}</Banner>
+        <Banner
+          tone="success"
+          testID="invite-sent"
+        >{`Invitation sent to ${sentTo.email} as ${withArticle(sentTo.role)}. The link works for 7 days.`}</Banner>
       ) : null}
       <Field
         label="E-mail address"
@@ -63,9 +75,22 @@ export function InviteForm({ onSubmit, busy, error, sentTo }: {
         autoCapitalize="none"
         onSubmitEditing={submit}
       />
-      <Choice label="Role" value={values.role} options={ROLE_OPTIONS} onChange={(role) => setValues((v) => ({ ...v, role }))} testID="invite-role" />
+      <Choice
+        label="Role"
+        value={values.role}
+        options={ROLE_OPTIONS}
+        onChange={(role) => setValues((v) => ({ ...v, role }))}
+        testID="invite-role"
+      />
       <Text variant="caption" tone="muted">{`${ROLE_WORDS[values.role].label}: ${ROLE_WORDS[values.role].can}.`}</Text>
-      <Button label="Send invitation" icon="send" onPress={submit} busy={busy} testID="invite-submit" style={{ alignSelf: "flex-start" }} />
+      <Button
+        label="Send invitation"
+        icon="send"
+        onPress={submit}
+        busy={busy}
+        testID="invite-submit"
+        style={{ alignSelf: "flex-start" }}
+      />
     </View>
   );
 }

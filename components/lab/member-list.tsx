@@ -1,12 +1,12 @@
 import React, { useState } from "react";
 import { View } from "react-native";
-import { useTheme } from "../theme/use-theme";
-import { Text } from "../ui/text";
-import { Choice } from "../ui/choice";
-import { Button } from "../ui/button";
-import { Banner } from "../ui/states";
-import { ApiError } from "../data/api";
-import type { LabMember, LabRole } from "../data/labs";
+import { useTheme } from "@/components/theme/use-theme";
+import { Text } from "@/components/ui/text";
+import { Choice } from "@/components/ui/choice";
+import { Button } from "@/components/ui/button";
+import { Banner } from "@/components/ui/states";
+import { ApiError } from "@/components/data/api";
+import type { LabMember, LabRole } from "@/components/data/labs";
 import { ConfirmAction } from "./confirm-action";
 import { ROLE_OPTIONS, ROLE_WORDS } from "./roles";
 
@@ -37,13 +37,24 @@ export function MemberRow({ member, isSelf, canManage, busy, error, onChangeRole
     else onChangeRole(role);
   };
   return (
-    <View style={{ gap: t.spacing.sm, paddingVertical: t.spacing.md, borderTopWidth: 1, borderTopColor: t.colors.divider }} testID={`member-${member.email}`}>
+    <View
+      style={{ gap: t.spacing.sm, paddingVertical: t.spacing.md, borderTopWidth: 1, borderTopColor: t.colors.divider }}
+      testID={`member-${member.email}`}
+    >
       <View style={{ gap: 2 }}>
         <Text variant="bodyStrong">{name}</Text>
-        <Text variant="caption" tone="muted">{member.email}</Text>
+        <Text variant="caption" tone="muted">
+          {member.email}
+        </Text>
       </View>
       {canManage ? (
-        <Choice label={`Role of ${member.displayName}`} value={member.role} options={ROLE_OPTIONS} onChange={choose} testID={`role-${member.email}`} />
+        <Choice
+          label={`Role of ${member.displayName}`}
+          value={member.role}
+          options={ROLE_OPTIONS}
+          onChange={choose}
+          testID={`role-${member.email}`}
+        />
       ) : (
         <Text variant="label">{`${ROLE_WORDS[member.role].label}: ${ROLE_WORDS[member.role].can}`}</Text>
       )}
@@ -64,7 +75,11 @@ export function MemberRow({ member, isSelf, canManage, busy, error, onChangeRole
           </View>
         </View>
       ) : null}
-      {error ? <Banner tone="danger" testID={`member-error-${member.email}`}>{memberErrorMessage(error)}</Banner> : null}
+      {error ? (
+        <Banner tone="danger" testID={`member-error-${member.email}`}>
+          {memberErrorMessage(error)}
+        </Banner>
+      ) : null}
       {canManage && !isSelf ? (
         <View style={{ flexDirection: "row" }}>
           <ConfirmAction
@@ -84,7 +99,15 @@ export function MemberRow({ member, isSelf, canManage, busy, error, onChangeRole
 }
 
 /** The lab's members. `error` is shown under the member whose change was refused. */
-export function MemberList({ members, myUserId, canManage, busyUserId, error, onChangeRole, onRemove }: {
+export function MemberList({
+  members,
+  myUserId,
+  canManage,
+  busyUserId,
+  error,
+  onChangeRole,
+  onRemove,
+}: {
   members: LabMember[];
   myUserId: string;
   canManage: boolean;

@@ -1,12 +1,12 @@
 import React from "react";
 import { View } from "react-native";
-import { useTheme } from "../theme/use-theme";
-import { Card } from "../ui/card";
-import { Text } from "../ui/text";
-import { Button } from "../ui/button";
-import { StatCard } from "../ui/stat-card";
-import { formatNumber } from "../charts/chart-spec";
-import type { RunDetail } from "../../shared/schemas/api-runs";
+import { useTheme } from "@/components/theme/use-theme";
+import { Card } from "@/components/ui/card";
+import { Text } from "@/components/ui/text";
+import { Button } from "@/components/ui/button";
+import { StatCard } from "@/components/ui/stat-card";
+import { formatNumber } from "@/components/charts/chart-spec";
+import type { RunDetail } from "@/shared/schemas/api-runs";
 
 export type AccelerationView = NonNullable<RunDetail["acceleration"]>;
 
@@ -16,16 +16,19 @@ const SAME_SPEED = 0.02;
 /** The T1/2 ratio (control / circuit) in plain words. */
 export function halfRiseWords(a: AccelerationView): string {
   const r = a.halfRiseRatio;
-  if (r === null || !Number.isFinite(r) || r <= 0) return "No T1/2 ratio: the output does not rise in one of the two runs.";
+  if (r === null || !Number.isFinite(r) || r <= 0)
+    return "No T1/2 ratio: the output does not rise in one of the two runs.";
   if (Math.abs(r - 1) <= SAME_SPEED) return `About as fast as the matched control (T1/2 ratio ${formatNumber(r)}).`;
-  if (r > 1) return `Acceleration: the circuit reaches half its steady level ${formatNumber(r)}× faster than the matched control.`;
+  if (r > 1)
+    return `Acceleration: the circuit reaches half its steady level ${formatNumber(r)}× faster than the matched control.`;
   return `Slow-down: the circuit reaches half its steady level ${formatNumber(1 / r)}× slower than the matched control.`;
 }
 
 /** The median-delay difference (circuit minus control) in plain words. */
 export function delayWords(a: AccelerationView): string {
   const d = a.medianDelayDifference;
-  if (d === null || !Number.isFinite(d)) return "No median-delay difference: a median response delay was not reached in one of the two runs.";
+  if (d === null || !Number.isFinite(d))
+    return "No median-delay difference: a median response delay was not reached in one of the two runs.";
   if (d === 0) return "The median response delay is the same as the control's.";
   return `The circuit's median response delay is ${formatNumber(Math.abs(d))} min ${d > 0 ? "longer" : "shorter"} than the control's.`;
 }
@@ -33,7 +36,15 @@ export function delayWords(a: AccelerationView): string {
 const min = (v: number | null) => (v === null ? "not reached" : `${formatNumber(v)} min`);
 
 /** A circuit run against its finished matched simple-regulation control (shown on both runs), linking to the other one. */
-export function AccelerationCard({ acceleration: a, runId, onOpen }: { acceleration: AccelerationView; runId: string; onOpen: (runId: string) => void }) {
+export function AccelerationCard({
+  acceleration: a,
+  runId,
+  onOpen,
+}: {
+  acceleration: AccelerationView;
+  runId: string;
+  onOpen: (runId: string) => void;
+}) {
   const t = useTheme();
   const isControl = runId === a.controlRunId;
   return (
@@ -42,11 +53,20 @@ export function AccelerationCard({ acceleration: a, runId, onOpen }: { accelerat
       <Text testID="acceleration-words">{halfRiseWords(a)}</Text>
       <Text testID="delay-words">{delayWords(a)}</Text>
       <View style={{ flexDirection: "row", flexWrap: "wrap", gap: t.spacing.md }}>
-        <StatCard style={{ flexGrow: 1, flexBasis: 150 }} label="T1/2 ratio (control ÷ circuit)" value={a.halfRiseRatio === null ? "–" : formatNumber(a.halfRiseRatio)} detail={`T1/2 circuit ${min(a.halfRiseCircuitMinutes)} · control ${min(a.halfRiseControlMinutes)}`} />
+        <StatCard
+          style={{ flexGrow: 1, flexBasis: 150 }}
+          label="T1/2 ratio (control ÷ circuit)"
+          value={a.halfRiseRatio === null ? "–" : formatNumber(a.halfRiseRatio)}
+          detail={`T1/2 circuit ${min(a.halfRiseCircuitMinutes)} · control ${min(a.halfRiseControlMinutes)}`}
+        />
         <StatCard
           style={{ flexGrow: 1, flexBasis: 150 }}
           label="Median delay, circuit − control"
-          value={a.medianDelayDifference === null ? "–" : `${a.medianDelayDifference > 0 ? "+" : ""}${formatNumber(a.medianDelayDifference)} min`}
+          value={
+            a.medianDelayDifference === null
+              ? "–"
+              : `${a.medianDelayDifference > 0 ? "+" : ""}${formatNumber(a.medianDelayDifference)} min`
+          }
           detail={`circuit ${min(a.medianDelayCircuit)} · control ${min(a.medianDelayControl)}`}
         />
       </View>

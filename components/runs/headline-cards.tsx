@@ -1,27 +1,43 @@
 import React from "react";
 import { View } from "react-native";
-import type { RunSummary } from "../../shared/schemas/analysis";
-import type { Circuit } from "../../shared/schemas/circuit";
+import type { RunSummary } from "@/shared/schemas/analysis";
+import type { Circuit } from "@/shared/schemas/circuit";
+import { formatNumber } from "@/components/charts/chart-spec";
+import { StatCard } from "@/components/ui/stat-card";
+import { Text } from "@/components/ui/text";
+import { useTheme } from "@/components/theme/use-theme";
 
 /** A circuit whose output production has a repressor (as in an incoherent feed-forward pulse generator). */
 export function outputIsRepressed(c: Circuit): boolean {
-  return c.reactions.some((r) => r.products.some((p) => p.species === c.outputSpecies) && r.rate.kind === "regulated" && r.rate.regulators.some((g) => g.effect === "represses"));
+  return c.reactions.some(
+    (r) =>
+      r.products.some((p) => p.species === c.outputSpecies) &&
+      r.rate.kind === "regulated" &&
+      r.rate.regulators.some((g) => g.effect === "represses"),
+  );
 }
-import { formatNumber } from "../charts/chart-spec";
-import { StatCard } from "../ui/stat-card";
-import { Text } from "../ui/text";
-import { useTheme } from "../theme/use-theme";
 
 const CARD = { flexGrow: 1, flexBasis: 150, minWidth: 140 } as const;
 const pct = (p: number | null | undefined) => (p === null || p === undefined ? "–" : `${formatNumber(p * 100, 3)}%`);
 const ci = (c: [number | null, number | null] | null | undefined, unit = "") =>
-  c ? `95% CI ${c[0] === null ? "not reached" : formatNumber(c[0])}–${c[1] === null ? "not reached" : formatNumber(c[1])}${unit}` : undefined;
+  c
+    ? `95% CI ${c[0] === null ? "not reached" : formatNumber(c[0])}–${c[1] === null ? "not reached" : formatNumber(c[1])}${unit}`
+    : undefined;
 
 /** The headline figures of a finished run (or of a trace set, cells as replicates: peaks are then in trace units). */
-export function HeadlineCards({ summary, circuit, peakUnit = "molecules" }: { summary: RunSummary; circuit?: Circuit; peakUnit?: string }) {
+export function HeadlineCards({
+  summary,
+  circuit,
+  peakUnit = "molecules",
+}: {
+  summary: RunSummary;
+  circuit?: Circuit;
+  peakUnit?: string;
+}) {
   const t = useTheme();
   const pg = summary.pulseGeneration;
-  const isPulseGenerator = pg.pulses > 0 && pg.peakAboveBaseline.median !== null && (!circuit || outputIsRepressed(circuit));
+  const isPulseGenerator =
+    pg.pulses > 0 && pg.peakAboveBaseline.median !== null && (!circuit || outputIsRepressed(circuit));
   return (
     <View style={{ gap: t.spacing.md }} testID="headline-cards">
       <View style={{ flexDirection: "row", flexWrap: "wrap", gap: t.spacing.md }}>
@@ -30,7 +46,7 @@ export function HeadlineCards({ summary, circuit, peakUnit = "molecules" }: { su
           testID="card-d50"
           label="d50 (duration passed half the time)"
           value={summary.d50 === null ? "not estimable" : `${formatNumber(summary.d50)} min`}
-          detail={summary.d50 === null ? summary.d50Note ?? undefined : ci(summary.logistic.d50Ci, " min")}
+          detail={summary.d50 === null ? (summary.d50Note ?? undefined) : ci(summary.logistic.d50Ci, " min")}
         />
         <StatCard
           style={CARD}
@@ -44,20 +60,38 @@ export function HeadlineCards({ summary, circuit, peakUnit = "molecules" }: { su
           testID="card-false-pass"
           label={`False-pass rate (pulses under ${formatNumber(summary.noiseDurationMinutes)} min)`}
           value={pct(summary.falsePassRate)}
-          detail={summary.falsePass ? `${summary.falsePass.passed} of ${summary.falsePass.pulses} passed · 95% CI ${pct(summary.falsePass.ci[0])}–${pct(summary.falsePass.ci[1])}` : "no pulses shorter than the noise duration"}
+          detail={
+            summary.falsePass
+              ? `${summary.falsePass.passed} of ${summary.falsePass.pulses} passed · 95% CI ${pct(summary.falsePass.ci[0])}–${pct(summary.falsePass.ci[1])}`
+              : "no pulses shorter than the noise duration"
+          }
         />
         {summary.delayCost ? (
           <StatCard
-          style={CARD}
+            style={CARD}
             label={`Delay paid for long pulses (≥ ${formatNumber(summary.delayCost.minDurationMinutes)} min)`}
-            value={summary.delayCost.medianDelay === null ? "not reached" : `${formatNumber(summary.delayCost.medianDelay)} min`}
+            value={
+              summary.delayCost.medianDelay === null
+                ? "not reached"
+                : `${formatNumber(summary.delayCost.medianDelay)} min`
+            }
             detail={`${summary.delayCost.responded} of ${summary.delayCost.pulses} responded`}
           />
         ) : null}
         {isPulseGenerator ? (
           <>
-            <StatCard style={CARD} label="Median peak above baseline" value={`${formatNumber(pg.peakAboveBaseline.median)} ${peakUnit}`} detail={`time to peak ${formatNumber(pg.timeToPeak.median)} min`} />
-            <StatCard style={CARD} label="Median pulse width (FWHM)" value={`${formatNumber(pg.fwhm.median)} min`} detail={`${pg.fwhmNotMeasurable} not measurable`} />
+            <StatCard
+              style={CARD}
+              label="Median peak above baseline"
+              value={`${formatNumber(pg.peakAboveBaseline.median)} ${peakUnit}`}
+              detail={`time to peak ${formatNumber(pg.timeToPeak.median)} min`}
+            />
+            <StatCard
+              style={CARD}
+              label="Median pulse width (FWHM)"
+              value={`${formatNumber(pg.fwhm.median)} min`}
+              detail={`${pg.fwhmNotMeasurable} not measurable`}
+            />
           </>
         ) : null}
       </View>
@@ -65,7 +99,15 @@ export function HeadlineCards({ summary, circuit, peakUnit = "molecules" }: { su
         <Text variant="label">Pass probability per input duration</Text>
         <View style={{ flexDirection: "row", flexWrap: "wrap", gap: t.spacing.sm }}>
           {summary.byDuration.map((e) => (
-            <View key={e.duration} style={{ paddingHorizontal: t.spacing.sm, paddingVertical: t.spacing.xs, borderRadius: t.radii.sm, backgroundColor: t.colors.surfaceAlt }}>
+            <View
+              key={e.duration}
+              style={{
+                paddingHorizontal: t.spacing.sm,
+                paddingVertical: t.spacing.xs,
+                borderRadius: t.radii.sm,
+                backgroundColor: t.colors.surfaceAlt,
+              }}
+            >
               <Text variant="caption">
                 {formatNumber(e.duration)} min: {pct(e.passProbability)} ({e.passed}/{e.pulses})
               </Text>
@@ -73,7 +115,13 @@ export function HeadlineCards({ summary, circuit, peakUnit = "molecules" }: { su
           ))}
         </View>
       </View>
-      {summary.notes.length ? summary.notes.map((n) => <Text key={n} variant="caption" tone="muted">• {n}</Text>) : null}
+      {summary.notes.length
+        ? summary.notes.map((n) => (
+            <Text key={n} variant="caption" tone="muted">
+              • {n}
+            </Text>
+          ))
+        : null}
     </View>
   );
 }

@@ -1,13 +1,14 @@
 import React, { useState } from "react";
 import { Platform, View } from "react-native";
-import { useTheme } from "../theme/use-theme";
-import { Card } from "../ui/card";
-import { Text } from "../ui/text";
-import { Button } from "../ui/button";
+import { useTheme } from "@/components/theme/use-theme";
+import { Card } from "@/components/ui/card";
+import { Text } from "@/components/ui/text";
+import { Button } from "@/components/ui/button";
 
 /** The run's address in this app (the page's origin on the web). */
 export function runUrl(runId: string): string {
-  const origin = Platform.OS === "web" && typeof window !== "undefined" && window.location ? window.location.origin : "";
+  const origin =
+    Platform.OS === "web" && typeof window !== "undefined" && window.location ? window.location.origin : "";
   return `${origin}/runs/${encodeURIComponent(runId)}`;
 }
 
@@ -46,9 +47,18 @@ export function ShareLinkCard({ runId, labName, canEdit }: { runId: string; labN
   return (
     <Card testID="share-card">
       <Text variant="heading">Share</Text>
-      <Text selectable testID="run-link" style={{ fontFamily: t.fonts.medium }}>{url}</Text>
+      <Text selectable testID="run-link" style={{ fontFamily: t.fonts.medium }}>
+        {url}
+      </Text>
       <View style={{ flexDirection: "row", flexWrap: "wrap", alignItems: "center", gap: t.spacing.md }}>
-        <Button label="Copy link" variant="secondary" icon="link" compact onPress={() => copyText(url).then((ok) => setState(ok ? "copied" : "failed"))} testID="copy-link" />
+        <Button
+          label="Copy link"
+          variant="secondary"
+          icon="link"
+          compact
+          onPress={() => copyText(url).then((ok) => setState(ok ? "copied" : "failed"))}
+          testID="copy-link"
+        />
         {state !== "idle" ? (
           <Text variant="caption" tone={state === "copied" ? "muted" : "danger"} role="status">
             {state === "copied" ? "Link copied." : "Could not copy: select the link above and copy it."}

@@ -1,9 +1,9 @@
 /** Per-cell figures of a trace set, sorted and paged on the client (the detail already holds every cell). */
 import React, { useMemo, useState } from "react";
-import { DataTable, type Column } from "../ui/data-table";
-import { formatNumber } from "../charts/chart-spec";
+import { DataTable, type Column } from "@/components/ui/data-table";
+import { formatNumber } from "@/components/charts/chart-spec";
 import { median } from "./median";
-import type { CellMetrics } from "../../shared/schemas/api-traces";
+import type { CellMetrics } from "@/shared/schemas/api-traces";
 
 export type CellRow = {
   cell: string;
@@ -49,25 +49,45 @@ const COLUMNS: Column<CellRow>[] = [
   { key: "lastMinute", label: "To (min)", width: 88, sortable: true, render: (r) => fmt(r.lastMinute) },
   { key: "gaps", label: "Gaps", width: 72, sortable: true, render: (r) => String(r.gaps) },
   { key: "background", label: "Background", width: 108, sortable: true, render: (r) => fmt(r.background) },
-  { key: "thresholdTraceUnits", label: "Threshold (units)", width: 132, sortable: true, render: (r) => fmt(r.thresholdTraceUnits) },
+  {
+    key: "thresholdTraceUnits",
+    label: "Threshold (units)",
+    width: 132,
+    sortable: true,
+    render: (r) => fmt(r.thresholdTraceUnits),
+  },
   { key: "passed", label: "Passed", width: 96, sortable: true, render: (r) => `${r.passed} of ${r.scored}` },
   { key: "medianDelay", label: "Median delay (min)", width: 144, sortable: true, render: (r) => fmt(r.medianDelay) },
-  { key: "notCovered", label: "Not watched", width: 104, sortable: true, render: (r) => String(r.notCovered + r.gapDropped) },
+  {
+    key: "notCovered",
+    label: "Not watched",
+    width: 104,
+    sortable: true,
+    render: (r) => String(r.notCovered + r.gapDropped),
+  },
 ];
 
 const PAGE = 15;
 
 export function CellTable({ cells }: { cells: CellMetrics[] }) {
   const rows = useMemo(() => cellRows(cells), [cells]);
-  const [q, setQ] = useState<{ sort: keyof CellRow; dir: "asc" | "desc"; page: number }>({ sort: "cell", dir: "asc", page: 1 });
+  const [q, setQ] = useState<{ sort: keyof CellRow; dir: "asc" | "desc"; page: number }>({
+    sort: "cell",
+    dir: "asc",
+    page: 1,
+  });
   const sorted = useMemo(() => {
     const k = q.sort;
     const sign = q.dir === "asc" ? 1 : -1;
     return [...rows].sort((a, b) => {
-      const x = a[k], y = b[k];
+      const x = a[k],
+        y = b[k];
       if (x === null) return 1;
       if (y === null) return -1;
-      return (typeof x === "string" ? x.localeCompare(String(y), "en", { numeric: true }) : (x as number) - (y as number)) * sign;
+      return (
+        (typeof x === "string" ? x.localeCompare(String(y), "en", { numeric: true }) : (x as number) - (y as number)) *
+        sign
+      );
     });
   }, [rows, q.sort, q.dir]);
   const pageCount = Math.max(1, Math.ceil(sorted.length / PAGE));
@@ -80,7 +100,9 @@ export function CellTable({ cells }: { cells: CellMetrics[] }) {
       rows={sorted.slice((page - 1) * PAGE, page * PAGE)}
       sort={q.sort}
       dir={q.dir}
-      onSort={(key) => setQ((s) => ({ sort: key as keyof CellRow, dir: s.sort === key && s.dir === "asc" ? "desc" : "asc", page: 1 }))}
+      onSort={(key) =>
+        setQ((s) => ({ sort: key as keyof CellRow, dir: s.sort === key && s.dir === "asc" ? "desc" : "asc", page: 1 }))
+      }
       page={page}
       pageCount={pageCount}
       onPage={(p) => setQ((s) => ({ ...s, page: p }))}

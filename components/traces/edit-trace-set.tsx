@@ -5,17 +5,24 @@
  */
 import React, { useState } from "react";
 import { View } from "react-native";
-import { useTheme } from "../theme/use-theme";
-import { Text } from "../ui/text";
-import { Field } from "../ui/field";
-import { Button } from "../ui/button";
-import { Banner } from "../ui/states";
-import { ApiError } from "../data/api";
+import { useTheme } from "@/components/theme/use-theme";
+import { Text } from "@/components/ui/text";
+import { Field } from "@/components/ui/field";
+import { Button } from "@/components/ui/button";
+import { Banner } from "@/components/ui/states";
+import { ApiError } from "@/components/data/api";
 import { SettingsFields } from "./settings-fields";
 import { settingsToValues, validateSettings, valuesToSettings, type SettingsValues } from "./settings-form";
-import type { TraceSetDetail, TraceSetPatch } from "../../shared/schemas/api-traces";
+import type { TraceSetDetail, TraceSetPatch } from "@/shared/schemas/api-traces";
 
-export function EditTraceSet({ traceSet, busy, error, onSave, onCancel, saved }: {
+export function EditTraceSet({
+  traceSet,
+  busy,
+  error,
+  onSave,
+  onCancel,
+  saved,
+}: {
   traceSet: TraceSetDetail;
   busy?: boolean;
   error?: unknown;
@@ -32,12 +39,20 @@ export function EditTraceSet({ traceSet, busy, error, onSave, onCancel, saved }:
   if (error instanceof ApiError) {
     for (const f of error.fields) {
       const p = f.path.replace(/^body\./, "");
-      const k = p.startsWith("settings.") ? p.slice("settings.".length) : p === "settings" ? "scale.unitsPerMolecule" : p;
+      const k = p.startsWith("settings.")
+        ? p.slice("settings.".length)
+        : p === "settings"
+          ? "scale.unitsPerMolecule"
+          : p;
       if (!(k in server)) server[k] = f.message;
     }
   }
   const errors: Record<string, string> = { ...server, ...(showAll ? local : {}) };
-  const nameError = !name.trim() ? "Give the set a name." : name.trim().length > 120 ? "At most 120 characters." : undefined;
+  const nameError = !name.trim()
+    ? "Give the set a name."
+    : name.trim().length > 120
+      ? "At most 120 characters."
+      : undefined;
   const save = () => {
     setShowAll(true);
     if (Object.keys(local).length || nameError) return;
@@ -45,15 +60,34 @@ export function EditTraceSet({ traceSet, busy, error, onSave, onCancel, saved }:
   };
   return (
     <View style={{ gap: t.spacing.md }} testID="edit-trace-set">
-      <Field label="Name" value={name} onChangeText={setName} error={showAll ? nameError : server.name} testID="edit-trace-name" />
-      <SettingsFields values={v} errors={errors} onChange={(k, x) => { setV((s) => ({ ...s, [k]: x })); }} testIDPrefix="edit" />
-      {error instanceof Error ? <Banner tone="danger" testID="edit-trace-error">{error.message}</Banner> : null}
+      <Field
+        label="Name"
+        value={name}
+        onChangeText={setName}
+        error={showAll ? nameError : server.name}
+        testID="edit-trace-name"
+      />
+      <SettingsFields
+        values={v}
+        errors={errors}
+        onChange={(k, x) => {
+          setV((s) => ({ ...s, [k]: x }));
+        }}
+        testIDPrefix="edit"
+      />
+      {error instanceof Error ? (
+        <Banner tone="danger" testID="edit-trace-error">
+          {error.message}
+        </Banner>
+      ) : null}
       {saved ? <Banner tone="success">Saved; the figures below are recomputed with these settings.</Banner> : null}
       <View style={{ flexDirection: "row", flexWrap: "wrap", gap: t.spacing.sm }}>
         <Button label="Save and recompute" icon="refresh-cw" busy={busy} onPress={save} testID="edit-trace-save" />
         <Button label="Close without saving" variant="secondary" onPress={onCancel} />
       </View>
-      <Text variant="caption" tone="muted">Earlier matches keep the figures they were computed with; run a match again after a change.</Text>
+      <Text variant="caption" tone="muted">
+        Earlier matches keep the figures they were computed with; run a match again after a change.
+      </Text>
     </View>
   );
 }

@@ -6,35 +6,50 @@
  */
 import React, { useState } from "react";
 import { View } from "react-native";
-import { useTheme } from "../theme/use-theme";
-import { Card } from "../ui/card";
-import { Text } from "../ui/text";
-import { Field } from "../ui/field";
-import { Button } from "../ui/button";
-import { Choice } from "../ui/choice";
-import { ErrorState, LoadingState } from "../ui/states";
-import { parseNumber } from "../forms/zod-errors";
-import { useRuns } from "../data/runs";
-import { useSweeps } from "../data/sweeps";
-import { useMatch, useRunMatch, type TraceSetDetail } from "../data/traces";
+import { useTheme } from "@/components/theme/use-theme";
+import { Card } from "@/components/ui/card";
+import { Text } from "@/components/ui/text";
+import { Field } from "@/components/ui/field";
+import { Button } from "@/components/ui/button";
+import { Choice } from "@/components/ui/choice";
+import { ErrorState, LoadingState } from "@/components/ui/states";
+import { parseNumber } from "@/components/forms/zod-errors";
+import { useRuns } from "@/components/data/runs";
+import { useSweeps } from "@/components/data/sweeps";
+import { useMatch, useRunMatch, type TraceSetDetail } from "@/components/data/traces";
 import { MatchResultView } from "./match-result";
-import type { MatchRequest } from "../../shared/schemas/api-traces";
+import type { MatchRequest } from "@/shared/schemas/api-traces";
 
 const DONE = new Set(["finished", "capped"]);
 
-export type MatchFormValues = { target: "run" | "sweep"; runId: string; sweepId: string; toleranceKind: "fraction" | "distance"; percent: string; distance: string };
+export type MatchFormValues = {
+  target: "run" | "sweep";
+  runId: string;
+  sweepId: string;
+  toleranceKind: "fraction" | "distance";
+  percent: string;
+  distance: string;
+};
 
 /** Checks the match form; returns the request or field messages. */
-export function matchRequestOf(v: MatchFormValues): { request: MatchRequest | null; errors: Partial<Record<keyof MatchFormValues, string>> } {
+export function matchRequestOf(v: MatchFormValues): {
+  request: MatchRequest | null;
+  errors: Partial<Record<keyof MatchFormValues, string>>;
+} {
   const errors: Partial<Record<keyof MatchFormValues, string>> = {};
   if (v.target === "run" && !v.runId) errors.runId = "Choose a finished run.";
   if (v.target === "sweep" && !v.sweepId) errors.sweepId = "Choose a sweep.";
   const pct = parseNumber(v.percent);
   const dist = parseNumber(v.distance);
-  if (v.toleranceKind === "fraction" && !(pct > 0 && pct <= 100)) errors.percent = "Enter a percentage above 0 and at most 100.";
-  if (v.toleranceKind === "distance" && !(dist >= 0 && dist <= 3)) errors.distance = "Enter a combined distance from 0 to 3.";
+  if (v.toleranceKind === "fraction" && !(pct > 0 && pct <= 100))
+    errors.percent = "Enter a percentage above 0 and at most 100.";
+  if (v.toleranceKind === "distance" && !(dist >= 0 && dist <= 3))
+    errors.distance = "Enter a combined distance from 0 to 3.";
   if (Object.keys(errors).length) return { request: null, errors };
-  const tolerance = v.toleranceKind === "fraction" ? { kind: "fraction" as const, fraction: pct / 100 } : { kind: "distance" as const, distance: dist };
+  const tolerance =
+    v.toleranceKind === "fraction"
+      ? { kind: "fraction" as const, fraction: pct / 100 }
+      : { kind: "distance" as const, distance: dist };
   return { request: v.target === "run" ? { runId: v.runId, tolerance } : { sweepId: v.sweepId, tolerance }, errors };
 }
 
@@ -51,7 +66,14 @@ export function MatchPanel({ traceSet, canEdit }: { traceSet: TraceSetDetail; ca
   const runs = useRuns();
   const sweeps = useSweeps();
   const match = useRunMatch(traceSet.id);
-  const [v, setV] = useState<MatchFormValues>({ target: "run", runId: "", sweepId: "", toleranceKind: "fraction", percent: "5", distance: "0.5" });
+  const [v, setV] = useState<MatchFormValues>({
+    target: "run",
+    runId: "",
+    sweepId: "",
+    toleranceKind: "fraction",
+    percent: "5",
+    distance: "0.5",
+  });
   const [showErrors, setShowErrors] = useState(false);
   const [shownId, setShownId] = useState<string | null>(traceSet.matches[0]?.id ?? null);
   const set = <K extends keyof MatchFormValues>(k: K, value: MatchFormValues[K]) => setV((s) => ({ ...s, [k]: value }));
@@ -59,7 +81,10 @@ export function MatchPanel({ traceSet, canEdit }: { traceSet: TraceSetDetail; ca
   const finishedRuns = (runs.data ?? []).filter((r) => DONE.has(r.status) && !r.sweepId);
   const pendingRuns = (runs.data ?? []).filter((r) => (r.status === "running" || r.status === "queued") && !r.sweepId);
   const sweepList = sweeps.data ?? [];
-  const names = new Map<string, string>([...(runs.data ?? []).map((r) => [r.id, r.name] as const), ...sweepList.map((s) => [s.id, s.name] as const)]);
+  const names = new Map<string, string>([
+    ...(runs.data ?? []).map((r) => [r.id, r.name] as const),
+    ...sweepList.map((s) => [s.id, s.name] as const),
+  ]);
   const { request, errors } = matchRequestOf(v);
   const err = (k: keyof MatchFormValues) => (showErrors ? errors[k] : undefined);
   const run = () => {
@@ -72,34 +97,103 @@ export function MatchPanel({ traceSet, canEdit }: { traceSet: TraceSetDetail; ca
     <Card testID="match-panel">
       <Text variant="heading">Match against simulations</Text>
       <Text variant="caption" tone="muted">
-        Compares the spread of pass, response delay and pulse width of these cells with a finished run, or with every finished point of a sweep (then the closest points form the accept set). Use runs with the same threshold ({formatThreshold(traceSet.settings.thresholdMolecules)} molecules) and input schedule.
+        Compares the spread of pass, response delay and pulse width of these cells with a finished run, or with every
+        finished point of a sweep (then the closest points form the accept set). Use runs with the same threshold (
+        {formatThreshold(traceSet.settings.thresholdMolecules)} molecules) and input schedule.
       </Text>
       {canEdit ? (
         <View style={{ gap: t.spacing.md }}>
-          <Choice label="Match against" testID="match-target" value={v.target} options={[{ value: "run", label: "A finished run" }, { value: "sweep", label: "A sweep" }]} onChange={(x) => set("target", x)} />
+          <Choice
+            label="Match against"
+            testID="match-target"
+            value={v.target}
+            options={[
+              { value: "run", label: "A finished run" },
+              { value: "sweep", label: "A sweep" },
+            ]}
+            onChange={(x) => set("target", x)}
+          />
           {v.target === "run" ? (
-            runs.isPending ? <LoadingState label="Loading runs" />
-            : runs.error ? <ErrorState error={runs.error} onRetry={() => runs.refetch()} />
-            : finishedRuns.length ? (
-              <Choice label="Run" testID="match-run" value={v.runId} options={finishedRuns.map((r) => ({ value: r.id, label: r.name }))} onChange={(x) => set("runId", x)} />
+            runs.isPending ? (
+              <LoadingState label="Loading runs" />
+            ) : runs.error ? (
+              <ErrorState error={runs.error} onRetry={() => runs.refetch()} />
+            ) : finishedRuns.length ? (
+              <Choice
+                label="Run"
+                testID="match-run"
+                value={v.runId}
+                options={finishedRuns.map((r) => ({ value: r.id, label: r.name }))}
+                onChange={(x) => set("runId", x)}
+              />
             ) : (
-              <Text tone="muted">No finished run in this lab yet{pendingRuns.length ? ` (${pendingRuns.length} still running)` : ""}.</Text>
+              <Text tone="muted">
+                No finished run in this lab yet{pendingRuns.length ? ` (${pendingRuns.length} still running)` : ""}.
+              </Text>
             )
-          ) : sweeps.isPending ? <LoadingState label="Loading sweeps" />
-            : sweeps.error ? <ErrorState error={sweeps.error} onRetry={() => sweeps.refetch()} />
-            : sweepList.length ? (
-              <Choice label="Sweep" testID="match-sweep" value={v.sweepId} options={sweepList.map((s) => ({ value: s.id, label: `${s.name} (${s.pointsDone} of ${s.pointCount} points done)` }))} onChange={(x) => set("sweepId", x)} />
-            ) : (
-              <Text tone="muted">No sweep in this lab yet.</Text>
-            )}
-          {err("runId") || err("sweepId") ? <Text variant="caption" tone="danger" role="alert">{err("runId") ?? err("sweepId")}</Text> : null}
-          <Choice label="Tolerance (fixed before matching)" testID="match-tolerance" value={v.toleranceKind} options={[{ value: "fraction", label: "Closest share of points" }, { value: "distance", label: "Distance cut-off" }]} onChange={(x) => set("toleranceKind", x)} />
-          {v.toleranceKind === "fraction" ? (
-            <Field label="Accept the closest" unit="% of points" value={v.percent} onChangeText={(x) => set("percent", x)} error={err("percent")} keyboardType="decimal-pad" hint="At least one point is always accepted." testID="match-percent" />
+          ) : sweeps.isPending ? (
+            <LoadingState label="Loading sweeps" />
+          ) : sweeps.error ? (
+            <ErrorState error={sweeps.error} onRetry={() => sweeps.refetch()} />
+          ) : sweepList.length ? (
+            <Choice
+              label="Sweep"
+              testID="match-sweep"
+              value={v.sweepId}
+              options={sweepList.map((s) => ({
+                value: s.id,
+                label: `${s.name} (${s.pointsDone} of ${s.pointCount} points done)`,
+              }))}
+              onChange={(x) => set("sweepId", x)}
+            />
           ) : (
-            <Field label="Accept points with combined distance at most" unit="0 to 3" value={v.distance} onChangeText={(x) => set("distance", x)} error={err("distance")} keyboardType="decimal-pad" testID="match-distance" />
+            <Text tone="muted">No sweep in this lab yet.</Text>
           )}
-          <Button label="Run the match" icon="crosshair" busy={match.isPending} onPress={run} style={{ alignSelf: "flex-start" }} testID="match-run-button" />
+          {err("runId") || err("sweepId") ? (
+            <Text variant="caption" tone="danger" role="alert">
+              {err("runId") ?? err("sweepId")}
+            </Text>
+          ) : null}
+          <Choice
+            label="Tolerance (fixed before matching)"
+            testID="match-tolerance"
+            value={v.toleranceKind}
+            options={[
+              { value: "fraction", label: "Closest share of points" },
+              { value: "distance", label: "Distance cut-off" },
+            ]}
+            onChange={(x) => set("toleranceKind", x)}
+          />
+          {v.toleranceKind === "fraction" ? (
+            <Field
+              label="Accept the closest"
+              unit="% of points"
+              value={v.percent}
+              onChangeText={(x) => set("percent", x)}
+              error={err("percent")}
+              keyboardType="decimal-pad"
+              hint="At least one point is always accepted."
+              testID="match-percent"
+            />
+          ) : (
+            <Field
+              label="Accept points with combined distance at most"
+              unit="0 to 3"
+              value={v.distance}
+              onChangeText={(x) => set("distance", x)}
+              error={err("distance")}
+              keyboardType="decimal-pad"
+              testID="match-distance"
+            />
+          )}
+          <Button
+            label="Run the match"
+            icon="crosshair"
+            busy={match.isPending}
+            onPress={run}
+            style={{ alignSelf: "flex-start" }}
+            testID="match-run-button"
+          />
           {match.error ? <ErrorState title="The match could not be run" error={match.error} /> : null}
         </View>
       ) : null}

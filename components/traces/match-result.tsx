@@ -6,27 +6,32 @@
  */
 import React, { useMemo, useState } from "react";
 import { View } from "react-native";
-import { useTheme } from "../theme/use-theme";
-import { Text } from "../ui/text";
-import { StatCard } from "../ui/stat-card";
-import { Banner } from "../ui/states";
-import { DataTable, type Column } from "../ui/data-table";
-import { LazyChart } from "../charts/lazy-chart";
-import { formatNumber } from "../charts/chart-spec";
+import { useTheme } from "@/components/theme/use-theme";
+import { Text } from "@/components/ui/text";
+import { StatCard } from "@/components/ui/stat-card";
+import { Banner } from "@/components/ui/states";
+import { DataTable, type Column } from "@/components/ui/data-table";
+import { LazyChart } from "@/components/charts/lazy-chart";
+import { formatNumber } from "@/components/charts/chart-spec";
 import { distributionOverlaySpec } from "./trace-specs";
-import type { Distances, MatchDetail, MatchPoint } from "../../shared/schemas/api-traces";
+import type { Distances, MatchDetail, MatchPoint } from "@/shared/schemas/api-traces";
 
 const CARD = { flexGrow: 1, flexBasis: 200, minWidth: 170 } as const;
 const pct = (p: number | null | undefined) => (p === null || p === undefined ? "–" : `${formatNumber(p * 100, 3)}%`);
 
 /** The tolerance in words ("the closest 5% of points", "combined distance at most 0.4"). */
 export function toleranceWords(m: MatchDetail["result"]["tolerance"]): string {
-  return m.kind === "fraction" ? `the closest ${formatNumber(m.fraction * 100)}% of points` : `combined distance at most ${formatNumber(m.distance)}`;
+  return m.kind === "fraction"
+    ? `the closest ${formatNumber(m.fraction * 100)}% of points`
+    : `combined distance at most ${formatNumber(m.distance)}`;
 }
 
 /** Sentences for one point's distances, used by the cards and by screen readers. */
 export function distanceWords(d: Distances): { pass: string; delay: string; width: string; combined: string } {
-  const shift = (w: number | null, what: string) => (w === null ? "" : ` On average ${what} would have to move ${formatNumber(w)} min to line up (Wasserstein-1 distance).`);
+  const shift = (w: number | null, what: string) =>
+    w === null
+      ? ""
+      : ` On average ${what} would have to move ${formatNumber(w)} min to line up (Wasserstein-1 distance).`;
   return {
     pass: `Pass rates differ by ${formatNumber(d.pass * 100, 3)} percentage points, weighted over the input durations both sides have.`,
     delay: `The largest gap between the cumulative distributions of response delays is ${formatNumber(d.delayKs, 2)} (Kolmogorov–Smirnov D: 0 is the same distribution, 1 is no overlap).${shift(d.delayW1Minutes, "delays")}`,
@@ -40,10 +45,34 @@ function DistanceCards({ d }: { d: Distances }) {
   const w = distanceWords(d);
   return (
     <View style={{ flexDirection: "row", flexWrap: "wrap", gap: t.spacing.md }} testID="match-distances">
-      <StatCard style={CARD} testID="match-combined" label="Combined distance (0 = identical, 3 = nothing alike)" value={formatNumber(d.combined, 3)} detail={w.combined} />
-      <StatCard style={CARD} testID="match-pass" label="Pass-rate difference" value={`${formatNumber(d.pass * 100, 3)} points`} detail={w.pass} />
-      <StatCard style={CARD} testID="match-delay" label="Response delays: largest gap (KS D)" value={formatNumber(d.delayKs, 2)} detail={w.delay} />
-      <StatCard style={CARD} testID="match-width" label="Pulse widths: largest gap (KS D)" value={formatNumber(d.widthKs, 2)} detail={w.width} />
+      <StatCard
+        style={CARD}
+        testID="match-combined"
+        label="Combined distance (0 = identical, 3 = nothing alike)"
+        value={formatNumber(d.combined, 3)}
+        detail={w.combined}
+      />
+      <StatCard
+        style={CARD}
+        testID="match-pass"
+        label="Pass-rate difference"
+        value={`${formatNumber(d.pass * 100, 3)} points`}
+        detail={w.pass}
+      />
+      <StatCard
+        style={CARD}
+        testID="match-delay"
+        label="Response delays: largest gap (KS D)"
+        value={formatNumber(d.delayKs, 2)}
+        detail={w.delay}
+      />
+      <StatCard
+        style={CARD}
+        testID="match-width"
+        label="Pulse widths: largest gap (KS D)"
+        value={formatNumber(d.widthKs, 2)}
+        detail={w.width}
+      />
     </View>
   );
 }
@@ -56,7 +85,12 @@ function RankedPoints({ points, parameters }: { points: MatchPoint[]; parameters
   const columns: Column<PointRow>[] = [
     { key: "rank", label: "Rank", width: 64, render: (r) => String(r.rank) },
     { key: "accepted", label: "Accept set", width: 104, render: (r) => (r.accepted ? "✓ accepted" : "–") },
-    ...parameters.map((p) => ({ key: `p:${p}`, label: p, width: Math.max(104, Math.min(180, p.length * 9)), render: (r: PointRow) => formatNumber(r.parameters[p]) })),
+    ...parameters.map((p) => ({
+      key: `p:${p}`,
+      label: p,
+      width: Math.max(104, Math.min(180, p.length * 9)),
+      render: (r: PointRow) => formatNumber(r.parameters[p]),
+    })),
     { key: "combined", label: "Combined", width: 96, render: (r) => formatNumber(r.distances.combined, 3) },
     { key: "pass", label: "Pass diff.", width: 96, render: (r) => pct(r.distances.pass) },
     { key: "delayKs", label: "Delay D", width: 84, render: (r) => formatNumber(r.distances.delayKs, 2) },
@@ -86,31 +120,62 @@ export function MatchResultView({ match, targetName }: { match: MatchDetail; tar
   const isSweep = !!match.sweepId;
   const best = r.points[0];
   const parameters = useMemo(() => r.ranges.map((x) => x.parameter), [r.ranges]);
-  const delayChart = best && r.bestSimulated
-    ? distributionOverlaySpec(r.observed.delays, r.bestSimulated.delays, t.colors, { title: "Response delays: observed and simulated", quantity: "response delay", ks: best.distances.delayKs, w1: best.distances.delayW1Minutes, simulatedLabel: isSweep ? "Simulated, closest point" : "Simulated" })
-    : null;
-  const widthChart = best && r.bestSimulated
-    ? distributionOverlaySpec(r.observed.widths, r.bestSimulated.widths, t.colors, { title: "Output pulse widths: observed and simulated", quantity: "pulse width", ks: best.distances.widthKs, w1: best.distances.widthW1Minutes, simulatedLabel: isSweep ? "Simulated, closest point" : "Simulated" })
-    : null;
+  const delayChart =
+    best && r.bestSimulated
+      ? distributionOverlaySpec(r.observed.delays, r.bestSimulated.delays, t.colors, {
+          title: "Response delays: observed and simulated",
+          quantity: "response delay",
+          ks: best.distances.delayKs,
+          w1: best.distances.delayW1Minutes,
+          simulatedLabel: isSweep ? "Simulated, closest point" : "Simulated",
+        })
+      : null;
+  const widthChart =
+    best && r.bestSimulated
+      ? distributionOverlaySpec(r.observed.widths, r.bestSimulated.widths, t.colors, {
+          title: "Output pulse widths: observed and simulated",
+          quantity: "pulse width",
+          ks: best.distances.widthKs,
+          w1: best.distances.widthW1Minutes,
+          simulatedLabel: isSweep ? "Simulated, closest point" : "Simulated",
+        })
+      : null;
   return (
     <View style={{ gap: t.spacing.md }} testID="match-result">
       <Text variant="heading">
-        Match against {isSweep ? "sweep" : "run"}{targetName ? ` “${targetName}”` : ""}
+        Match against {isSweep ? "sweep" : "run"}
+        {targetName ? ` “${targetName}”` : ""}
       </Text>
       <Text variant="caption" tone="muted">
-        {new Date(match.createdAt).toLocaleString("en-GB", { dateStyle: "medium", timeStyle: "short" })} · observed: {r.observed.n} scored pulses, pass rate {pct(r.observed.passRate)}
-        {r.bestSimulated ? ` · simulated${isSweep ? " (closest point)" : ""}: ${r.bestSimulated.n} pulses, pass rate ${pct(r.bestSimulated.passRate)}` : ""}
+        {new Date(match.createdAt).toLocaleString("en-GB", { dateStyle: "medium", timeStyle: "short" })} · observed:{" "}
+        {r.observed.n} scored pulses, pass rate {pct(r.observed.passRate)}
+        {r.bestSimulated
+          ? ` · simulated${isSweep ? " (closest point)" : ""}: ${r.bestSimulated.n} pulses, pass rate ${pct(r.bestSimulated.passRate)}`
+          : ""}
       </Text>
       {r.notes.length ? (
         <Banner tone="notice" testID="match-notes">
           <View style={{ gap: t.spacing.xs }}>
-            {r.notes.map((n) => <Text key={n} variant="caption" style={{ color: t.colors.onNoticeSoft }}>• {n}</Text>)}
+            {r.notes.map((n) => (
+              <Text key={n} variant="caption" style={{ color: t.colors.onNoticeSoft }}>
+                • {n}
+              </Text>
+            ))}
           </View>
         </Banner>
       ) : null}
       {best ? (
         <>
-          {isSweep ? <Text variant="label">Closest point{Object.keys(best.parameters).length ? `: ${Object.entries(best.parameters).map(([k, v]) => `${k} = ${formatNumber(v)}`).join(", ")}` : ""}</Text> : null}
+          {isSweep ? (
+            <Text variant="label">
+              Closest point
+              {Object.keys(best.parameters).length
+                ? `: ${Object.entries(best.parameters)
+                    .map(([k, v]) => `${k} = ${formatNumber(v)}`)
+                    .join(", ")}`
+                : ""}
+            </Text>
+          ) : null}
           <DistanceCards d={best.distances} />
         </>
       ) : (
@@ -121,13 +186,15 @@ export function MatchResultView({ match, targetName }: { match: MatchDetail; tar
           <Text variant="heading">Accept set</Text>
           <Text testID="match-accept-summary">
             {r.acceptedCount} of {r.pointCount} points accepted ({toleranceWords(r.tolerance)}
-            {r.acceptDistance !== null ? `; combined distance up to ${formatNumber(r.acceptDistance, 3)}` : ""}). ABC rejection: the sweep grid is the prior, the accepted points approximate the parameters that fit.
+            {r.acceptDistance !== null ? `; combined distance up to ${formatNumber(r.acceptDistance, 3)}` : ""}). ABC
+            rejection: the sweep grid is the prior, the accepted points approximate the parameters that fit.
           </Text>
           {r.ranges.length ? (
             <View style={{ gap: t.spacing.xs }} testID="match-ranges">
               {r.ranges.map((g) => (
                 <Text key={g.parameter} variant="label">
-                  {g.parameter}: accepted {formatNumber(g.acceptedMin)}–{formatNumber(g.acceptedMax)} of swept {formatNumber(g.sweptMin)}–{formatNumber(g.sweptMax)}
+                  {g.parameter}: accepted {formatNumber(g.acceptedMin)}–{formatNumber(g.acceptedMax)} of swept{" "}
+                  {formatNumber(g.sweptMin)}–{formatNumber(g.sweptMax)}
                 </Text>
               ))}
             </View>
@@ -135,7 +202,11 @@ export function MatchResultView({ match, targetName }: { match: MatchDetail; tar
           <RankedPoints points={r.points} parameters={parameters} />
         </View>
       ) : null}
-      {r.skippedRuns.length ? <Text variant="caption" tone="muted">{r.skippedRuns.length} unfinished point{r.skippedRuns.length === 1 ? "" : "s"} left out.</Text> : null}
+      {r.skippedRuns.length ? (
+        <Text variant="caption" tone="muted">
+          {r.skippedRuns.length} unfinished point{r.skippedRuns.length === 1 ? "" : "s"} left out.
+        </Text>
+      ) : null}
       {delayChart ? (
         <View style={{ gap: t.spacing.xs }}>
           <Text variant="label">{delayChart.title} (cumulative)</Text>
@@ -148,7 +219,11 @@ export function MatchResultView({ match, targetName }: { match: MatchDetail; tar
           <LazyChart spec={widthChart} testID="chart-match-widths" />
         </View>
       ) : null}
-      {best && r.bestSimulated && !delayChart && !widthChart ? <Text variant="caption" tone="muted">No delays or widths on one side, so there is nothing to overlay.</Text> : null}
+      {best && r.bestSimulated && !delayChart && !widthChart ? (
+        <Text variant="caption" tone="muted">
+          No delays or widths on one side, so there is nothing to overlay.
+        </Text>
+      ) : null}
     </View>
   );
 }

@@ -1,15 +1,15 @@
 import React from "react";
 import { View } from "react-native";
-import { useTheme } from "../theme/use-theme";
-import { Card } from "../ui/card";
-import { Text } from "../ui/text";
-import { StatCard } from "../ui/stat-card";
-import { Banner } from "../ui/states";
-import { LazyChart } from "../charts/lazy-chart";
-import { formatNumber } from "../charts/chart-spec";
+import { useTheme } from "@/components/theme/use-theme";
+import { Card } from "@/components/ui/card";
+import { Text } from "@/components/ui/text";
+import { StatCard } from "@/components/ui/stat-card";
+import { Banner } from "@/components/ui/states";
+import { LazyChart } from "@/components/charts/lazy-chart";
+import { formatNumber } from "@/components/charts/chart-spec";
 import { cellsOverScheduleSpec } from "./trace-specs";
 import { median } from "./median";
-import type { TracePreview } from "../../shared/schemas/api-traces";
+import type { TracePreview } from "@/shared/schemas/api-traces";
 
 const CARD = { flexGrow: 1, flexBasis: 140, minWidth: 130 } as const;
 
@@ -30,26 +30,52 @@ export function PreviewSummary({ preview, stale }: { preview: TracePreview; stal
   return (
     <Card testID="upload-preview-result">
       <Text variant="heading">Preview{preview.fileName ? ` of ${preview.fileName}` : ""}</Text>
-      {stale ? <Banner tone="notice">You changed the file or the settings after this preview; preview again to update it.</Banner> : null}
+      {stale ? (
+        <Banner tone="notice">
+          You changed the file or the settings after this preview; preview again to update it.
+        </Banner>
+      ) : null}
       <View style={{ flexDirection: "row", flexWrap: "wrap", gap: t.spacing.md }}>
-        <StatCard style={CARD} testID="preview-cells" label="Cells found" value={preview.cellCount.toLocaleString("en")} />
+        <StatCard
+          style={CARD}
+          testID="preview-cells"
+          label="Cells found"
+          value={preview.cellCount.toLocaleString("en")}
+        />
         <StatCard style={CARD} testID="preview-rows" label="Data rows" value={preview.rows.toLocaleString("en")} />
-        <StatCard style={CARD} label="Input pulses" value={String(preview.schedule.length)} detail={`${formatNumber(preview.timeRangeMinutes[0])}–${formatNumber(preview.timeRangeMinutes[1])} min`} />
-        <StatCard style={CARD} label="Pulses passed" value={`${passed} of ${evaluable}`} detail={`cell × pulse pairs · ${s.skippedNotCovered} not watched whole`} />
+        <StatCard
+          style={CARD}
+          label="Input pulses"
+          value={String(preview.schedule.length)}
+          detail={`${formatNumber(preview.timeRangeMinutes[0])}–${formatNumber(preview.timeRangeMinutes[1])} min`}
+        />
+        <StatCard
+          style={CARD}
+          label="Pulses passed"
+          value={`${passed} of ${evaluable}`}
+          detail={`cell × pulse pairs · ${s.skippedNotCovered} not watched whole`}
+        />
       </View>
       <Text variant="caption" tone="muted">
-        Read as {LAYOUT[preview.layout]}, separated by {DELIM[preview.delimiter]}, times in {preview.timeUnit} (shown in minutes). Frame interval {formatNumber(a.frameIntervalMinutes)} min. Scale: {a.scaleNote}
+        Read as {LAYOUT[preview.layout]}, separated by {DELIM[preview.delimiter]}, times in {preview.timeUnit} (shown in
+        minutes). Frame interval {formatNumber(a.frameIntervalMinutes)} min. Scale: {a.scaleNote}
       </Text>
       {preview.warnings.length ? (
         <Banner tone="notice" testID="preview-warnings">
           <View style={{ gap: t.spacing.xs }}>
             {preview.warnings.map((w) => (
-              <Text key={w} variant="caption" style={{ color: t.colors.onNoticeSoft }}>• {w}</Text>
+              <Text key={w} variant="caption" style={{ color: t.colors.onNoticeSoft }}>
+                • {w}
+              </Text>
             ))}
           </View>
         </Banner>
       ) : null}
-      {preview.schedule.length === 0 ? <Banner tone="notice">No input pulse was found, so no pulse can be scored. Check the schedule column or program.</Banner> : null}
+      {preview.schedule.length === 0 ? (
+        <Banner tone="notice">
+          No input pulse was found, so no pulse can be scored. Check the schedule column or program.
+        </Banner>
+      ) : null}
       {chart ? <LazyChart spec={chart} testID="chart-preview" /> : null}
     </Card>
   );

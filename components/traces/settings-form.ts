@@ -4,8 +4,14 @@
  * settings' schema paths, as the server names them), and conversion to the
  * wire shapes of shared/schemas/api-traces.ts.
  */
-import { TRACE_LIMITS, TraceSettingsSchema, type TraceSettings, type TraceSettingsInput, type TraceUploadOptionsInput } from "../../shared/schemas/api-traces";
-import { issuesToMap, parseNumber } from "../forms/zod-errors";
+import {
+  TRACE_LIMITS,
+  TraceSettingsSchema,
+  type TraceSettings,
+  type TraceSettingsInput,
+  type TraceUploadOptionsInput,
+} from "@/shared/schemas/api-traces";
+import { issuesToMap, parseNumber } from "@/components/forms/zod-errors";
 
 export type SettingsValues = {
   backgroundMode: "none" | "value" | "preInput";
@@ -52,9 +58,11 @@ export function settingsToValues(s: TraceSettings): SettingsValues {
     backgroundMode: s.background.mode,
     backgroundValue: s.background.mode === "value" ? String(s.background.value) : "",
     scaleMode: s.scale.mode,
-    unitsPerMolecule: s.scale.mode === "entered" ? String(s.scale.unitsPerMolecule) : SETTINGS_DEFAULTS.unitsPerMolecule,
+    unitsPerMolecule:
+      s.scale.mode === "entered" ? String(s.scale.unitsPerMolecule) : SETTINGS_DEFAULTS.unitsPerMolecule,
     onSteadyStateMolecules: s.scale.mode === "fitPlateau" ? String(s.scale.onSteadyStateMolecules) : "",
-    minPulseMinutes: s.scale.mode === "fitPlateau" ? String(s.scale.minPulseMinutes) : SETTINGS_DEFAULTS.minPulseMinutes,
+    minPulseMinutes:
+      s.scale.mode === "fitPlateau" ? String(s.scale.minPulseMinutes) : SETTINGS_DEFAULTS.minPulseMinutes,
     smoothingMode: s.smoothing.mode,
     widthFrames: s.smoothing.mode === "movingAverage" ? String(s.smoothing.widthFrames) : SETTINGS_DEFAULTS.widthFrames,
     thresholdMolecules: String(s.thresholdMolecules),
@@ -70,12 +78,18 @@ export function settingsToValues(s: TraceSettings): SettingsValues {
 export function valuesToSettings(v: SettingsValues): TraceSettingsInput {
   const n = parseNumber;
   return {
-    background: v.backgroundMode === "value" ? { mode: "value", value: n(v.backgroundValue) } : { mode: v.backgroundMode },
+    background:
+      v.backgroundMode === "value" ? { mode: "value", value: n(v.backgroundValue) } : { mode: v.backgroundMode },
     scale:
       v.scaleMode === "entered"
         ? { mode: "entered", unitsPerMolecule: n(v.unitsPerMolecule) }
-        : { mode: "fitPlateau", onSteadyStateMolecules: n(v.onSteadyStateMolecules), minPulseMinutes: n(v.minPulseMinutes) },
-    smoothing: v.smoothingMode === "movingAverage" ? { mode: "movingAverage", widthFrames: n(v.widthFrames) } : { mode: "none" },
+        : {
+            mode: "fitPlateau",
+            onSteadyStateMolecules: n(v.onSteadyStateMolecules),
+            minPulseMinutes: n(v.minPulseMinutes),
+          },
+    smoothing:
+      v.smoothingMode === "movingAverage" ? { mode: "movingAverage", widthFrames: n(v.widthFrames) } : { mode: "none" },
     thresholdMolecules: n(v.thresholdMolecules),
     hysteresis: n(v.hysteresis),
     windowMinutes: n(v.windowMinutes),
@@ -90,15 +104,19 @@ export function validateSettings(v: SettingsValues): SettingsErrors {
   const e: SettingsErrors = {};
   const n = parseNumber;
   if (!(n(v.thresholdMolecules) > 0)) e.thresholdMolecules = "Threshold must be a positive number of molecules.";
-  if (v.backgroundMode === "value" && !Number.isFinite(n(v.backgroundValue))) e["background.value"] = "Enter the background in trace units.";
-  if (v.scaleMode === "entered" && !(n(v.unitsPerMolecule) > 0)) e["scale.unitsPerMolecule"] = "Scale must be a positive number of trace units per molecule.";
+  if (v.backgroundMode === "value" && !Number.isFinite(n(v.backgroundValue)))
+    e["background.value"] = "Enter the background in trace units.";
+  if (v.scaleMode === "entered" && !(n(v.unitsPerMolecule) > 0))
+    e["scale.unitsPerMolecule"] = "Scale must be a positive number of trace units per molecule.";
   if (v.scaleMode === "fitPlateau") {
-    if (!(n(v.onSteadyStateMolecules) > 0)) e["scale.onSteadyStateMolecules"] = "Enter the model's ON steady state in molecules (positive).";
+    if (!(n(v.onSteadyStateMolecules) > 0))
+      e["scale.onSteadyStateMolecules"] = "Enter the model's ON steady state in molecules (positive).";
     if (!(n(v.minPulseMinutes) > 0)) e["scale.minPulseMinutes"] = "Enter a positive number of minutes.";
   }
   if (v.smoothingMode === "movingAverage") {
     const w = n(v.widthFrames);
-    if (!(Number.isInteger(w) && w >= 3 && w <= 51 && w % 2 === 1)) e["smoothing.widthFrames"] = "Width must be an odd whole number of frames from 3 to 51.";
+    if (!(Number.isInteger(w) && w >= 3 && w <= 51 && w % 2 === 1))
+      e["smoothing.widthFrames"] = "Width must be an odd whole number of frames from 3 to 51.";
   }
   const h = n(v.hysteresis);
   if (!(h >= 0 && h <= 0.9)) e.hysteresis = "Hysteresis must be between 0 and 0.9.";
@@ -106,7 +124,8 @@ export function validateSettings(v: SettingsValues): SettingsErrors {
   if (!(n(v.noiseDurationMinutes) > 0)) e.noiseDurationMinutes = "Noise duration must be a positive number of minutes.";
   const g = n(v.gapFactor);
   if (!(g >= 1 && g <= 100)) e.gapFactor = "Gap factor must be between 1 and 100 frame intervals.";
-  if (v.maxGapMinutes.trim() && !(n(v.maxGapMinutes) > 0)) e.maxGapMinutes = "Longest allowed gap must be positive (or empty to keep every pulse).";
+  if (v.maxGapMinutes.trim() && !(n(v.maxGapMinutes) > 0))
+    e.maxGapMinutes = "Longest allowed gap must be positive (or empty to keep every pulse).";
   if (Object.keys(e).length === 0) {
     const r = TraceSettingsSchema.safeParse(valuesToSettings(v));
     if (!r.success) Object.assign(e, issuesToMap(r.error.issues));
@@ -146,7 +165,8 @@ export type UploadErrors = Record<string, string>;
 export function validateUpload(v: UploadValues, file: { size: number | null } | null): UploadErrors {
   const e: UploadErrors = {};
   if (!file) e.file = "Choose a CSV or TSV file.";
-  else if (file.size !== null && file.size > TRACE_LIMITS.maxFileBytes) e.file = `The file is larger than ${TRACE_LIMITS.maxFileBytes / (1024 * 1024)} MB; split it or drop columns you do not need.`;
+  else if (file.size !== null && file.size > TRACE_LIMITS.maxFileBytes)
+    e.file = `The file is larger than ${TRACE_LIMITS.maxFileBytes / (1024 * 1024)} MB; split it or drop columns you do not need.`;
   if (v.name.trim().length > 120) e.name = "At most 120 characters.";
   if (v.scheduleSource === "column") {
     if (!v.scheduleColumn.trim()) e.scheduleColumn = "Name the column that holds the input level.";

@@ -1,9 +1,9 @@
 /** ChartSpecs for traces (plain data; drawn by the lazy chart). */
-import type { Palette } from "../theme/tokens";
-import type { ChartRow, ChartSpec } from "../charts/chart-spec";
-import { formatNumber } from "../charts/chart-spec";
-import { signalOnGrid } from "../charts/specs";
-import type { TracePulse } from "../../shared/schemas/api-traces";
+import type { Palette } from "@/components/theme/tokens";
+import type { ChartRow, ChartSpec } from "@/components/charts/chart-spec";
+import { formatNumber } from "@/components/charts/chart-spec";
+import { signalOnGrid } from "@/components/charts/specs";
+import type { TracePulse } from "@/shared/schemas/api-traces";
 
 type ChartCell = { cell: string; times: number[]; values: (number | null)[] };
 
@@ -35,10 +35,16 @@ export function cellsOverScheduleSpec(
     cell.times.forEach((t, i) => m.set(t, cell.values[i] ?? null));
     return m;
   });
-  const grid = thin([...new Set(shown.flatMap((x) => x.times))].sort((a, b) => a - b), 600);
+  const grid = thin(
+    [...new Set(shown.flatMap((x) => x.times))].sort((a, b) => a - b),
+    600,
+  );
   let top = 1;
   for (const cell of shown) for (const v of cell.values) if (v !== null && Number.isFinite(v)) top = Math.max(top, v);
-  const input = signalOnGrid(grid, schedule.map((p) => ({ on: p.on, off: p.off, level: 1 })));
+  const input = signalOnGrid(
+    grid,
+    schedule.map((p) => ({ on: p.on, off: p.off, level: 1 })),
+  );
   const threshold = opts.thresholdTraceUnits ?? null;
   const rows: ChartRow[] = grid.map((x, i) => {
     const r: ChartRow = { x, input: input[i] * top * 0.25 };
@@ -73,7 +79,8 @@ export function cellsOverScheduleSpec(
 
 /** Fraction of the sorted sample at or below x. */
 function ecdfAt(sorted: number[], x: number): number {
-  let lo = 0, hi = sorted.length;
+  let lo = 0,
+    hi = sorted.length;
   while (lo < hi) {
     const mid = (lo + hi) >> 1;
     if (sorted[mid] <= x) lo = mid + 1;
@@ -95,7 +102,10 @@ export function distributionOverlaySpec(
   if (!observed.length || !simulated.length) return null;
   const obs = [...observed].sort((a, b) => a - b);
   const sim = [...simulated].sort((a, b) => a - b);
-  const grid = thin([...new Set([...obs, ...sim])].sort((a, b) => a - b), 400);
+  const grid = thin(
+    [...new Set([...obs, ...sim])].sort((a, b) => a - b),
+    400,
+  );
   const rows: ChartRow[] = grid.map((x) => ({ x, obs: ecdfAt(obs, x), sim: ecdfAt(sim, x) }));
   const med = (s: number[]) => s[Math.floor((s.length - 1) / 2)];
   return {

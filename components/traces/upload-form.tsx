@@ -6,19 +6,26 @@
  */
 import React, { useState } from "react";
 import { View } from "react-native";
-import { useTheme } from "../theme/use-theme";
-import { useBreakpoints } from "../theme/use-breakpoints";
-import { Card } from "../ui/card";
-import { Text } from "../ui/text";
-import { Field } from "../ui/field";
-import { Button } from "../ui/button";
-import { Choice } from "../ui/choice";
-import { Banner } from "../ui/states";
-import { ApiError } from "../data/api";
-import { uploadLines, type TraceFile, type UploadRequest } from "../data/traces";
+import { useTheme } from "@/components/theme/use-theme";
+import { useBreakpoints } from "@/components/theme/use-breakpoints";
+import { Card } from "@/components/ui/card";
+import { Text } from "@/components/ui/text";
+import { Field } from "@/components/ui/field";
+import { Button } from "@/components/ui/button";
+import { Choice } from "@/components/ui/choice";
+import { Banner } from "@/components/ui/states";
+import { ApiError } from "@/components/data/api";
+import { uploadLines, type TraceFile, type UploadRequest } from "@/components/data/traces";
 import { SettingsFields } from "./settings-fields";
 import { UploadProblems } from "./upload-problems";
-import { UPLOAD_DEFAULTS, toUploadOptions, uploadServerErrors, validateUpload, type SettingsValues, type UploadValues } from "./settings-form";
+import {
+  UPLOAD_DEFAULTS,
+  toUploadOptions,
+  uploadServerErrors,
+  validateUpload,
+  type SettingsValues,
+  type UploadValues,
+} from "./settings-form";
 
 function formatBytes(n: number | null): string {
   if (n === null) return "size unknown";
@@ -58,10 +65,25 @@ export function requestKey(file: TraceFile | null, v: UploadValues): string {
   return JSON.stringify([file?.name ?? null, file?.size ?? null, v]);
 }
 
-export function TraceUploadForm({ programs, pickFile, onPreview, onSave, previewBusy, saveBusy, error, renderPreview, onRequestKey, initial }: TraceUploadFormProps) {
+export function TraceUploadForm({
+  programs,
+  pickFile,
+  onPreview,
+  onSave,
+  previewBusy,
+  saveBusy,
+  error,
+  renderPreview,
+  onRequestKey,
+  initial,
+}: TraceUploadFormProps) {
   const t = useTheme();
   const { isWide } = useBreakpoints();
-  const [v, setV] = useState<UploadValues>(() => ({ ...UPLOAD_DEFAULTS, ...initial, settings: { ...UPLOAD_DEFAULTS.settings, ...initial?.settings } }));
+  const [v, setV] = useState<UploadValues>(() => ({
+    ...UPLOAD_DEFAULTS,
+    ...initial,
+    settings: { ...UPLOAD_DEFAULTS.settings, ...initial?.settings },
+  }));
   const [file, setFile] = useState<TraceFile | null>(null);
   const [touched, setTouched] = useState<Set<string>>(new Set());
   const [showAll, setShowAll] = useState(false);
@@ -81,7 +103,7 @@ export function TraceUploadForm({ programs, pickFile, onPreview, onSave, preview
   const lines = uploadLines(error);
   const apiError = error instanceof ApiError ? error : null;
   const server = apiError ? uploadServerErrors(apiError.fields) : {};
-  const err = (k: string) => ((showAll || touched.has(k)) ? local[k] : undefined) ?? server[k];
+  const err = (k: string) => (showAll || touched.has(k) ? local[k] : undefined) ?? server[k];
   // A settings error shows once its own field was touched (or on submit); server errors always.
   const settingsErrors: Record<string, string> = {};
   for (const k of new Set([...Object.keys(local), ...Object.keys(server)])) {
@@ -113,7 +135,9 @@ export function TraceUploadForm({ programs, pickFile, onPreview, onSave, preview
       onPreview(req);
     } else onSave(req);
   };
-  const row = (children: React.ReactNode) => <View style={{ flexDirection: isWide ? "row" : "column", gap: t.spacing.md, flexWrap: "wrap" }}>{children}</View>;
+  const row = (children: React.ReactNode) => (
+    <View style={{ flexDirection: isWide ? "row" : "column", gap: t.spacing.md, flexWrap: "wrap" }}>{children}</View>
+  );
   // Side by side when wide; in a phone column a flex basis would become a height.
   const half = isWide ? ({ flexGrow: 1, flexBasis: 180 } as const) : undefined;
   // The message repeats the first listed problems, so it is shown only when there is no list.
@@ -123,22 +147,71 @@ export function TraceUploadForm({ programs, pickFile, onPreview, onSave, preview
     <View style={{ gap: t.spacing.lg }}>
       <Card>
         <Text variant="heading">File</Text>
-        <Text variant="caption" tone="muted">CSV or TSV with a header line, up to 5 MB. Long layout: columns cell, time, value (and an input column); wide layout: a time column and one column per cell.</Text>
+        <Text variant="caption" tone="muted">
+          CSV or TSV with a header line, up to 5 MB. Long layout: columns cell, time, value (and an input column); wide
+          layout: a time column and one column per cell.
+        </Text>
         <View style={{ flexDirection: "row", alignItems: "center", gap: t.spacing.md, flexWrap: "wrap" }}>
-          <Button label={file ? "Choose another file" : "Choose a file"} icon="upload" variant="secondary" onPress={choose} testID="upload-pick-file" />
+          <Button
+            label={file ? "Choose another file" : "Choose a file"}
+            icon="upload"
+            variant="secondary"
+            onPress={choose}
+            testID="upload-pick-file"
+          />
           <Text testID="upload-file-name" tone={file ? "default" : "muted"} style={{ flexShrink: 1 }}>
             {file ? `${file.name} (${formatBytes(file.size)})` : "No file chosen"}
           </Text>
         </View>
-        {err("file") || pickError ? <Text variant="caption" tone="danger" role="alert" testID="upload-file-error">{err("file") ?? pickError}</Text> : null}
-        <Field label="Name" value={v.name} onChangeText={(x) => set("name", x)} error={err("name")} hint="Optional; the file name is used when empty." testID="upload-name" />
+        {err("file") || pickError ? (
+          <Text variant="caption" tone="danger" role="alert" testID="upload-file-error">
+            {err("file") ?? pickError}
+          </Text>
+        ) : null}
+        <Field
+          label="Name"
+          value={v.name}
+          onChangeText={(x) => set("name", x)}
+          error={err("name")}
+          hint="Optional; the file name is used when empty."
+          testID="upload-name"
+        />
       </Card>
 
       <Card>
         <Text variant="heading">How to read it</Text>
-        <Choice label="Layout" testID="upload-layout" value={v.layout} options={[{ value: "auto", label: "Detect" }, { value: "long", label: "Long" }, { value: "wide", label: "Wide" }]} onChange={(x) => set("layout", x)} />
-        <Choice label="Time unit in the file" testID="upload-time-unit" value={v.timeUnit} options={[{ value: "s", label: "Seconds" }, { value: "min", label: "Minutes" }, { value: "h", label: "Hours" }]} onChange={(x) => set("timeUnit", x)} />
-        <Field label="Reporter channel" unit="optional" value={v.channel} onChangeText={(x) => set("channel", x)} error={err("channel")} hint="Only for long files with a channel column holding several channels." autoCapitalize="none" testID="upload-channel" />
+        <Choice
+          label="Layout"
+          testID="upload-layout"
+          value={v.layout}
+          options={[
+            { value: "auto", label: "Detect" },
+            { value: "long", label: "Long" },
+            { value: "wide", label: "Wide" },
+          ]}
+          onChange={(x) => set("layout", x)}
+        />
+        <Choice
+          label="Time unit in the file"
+          testID="upload-time-unit"
+          value={v.timeUnit}
+          options={[
+            { value: "s", label: "Seconds" },
+            { value: "min", label: "Minutes" },
+            { value: "h", label: "Hours" },
+          ]}
+          onChange={(x) => set("timeUnit", x)}
+        />
+        <Field
+          label="Reporter channel"
+          unit="optional"
+          value={v.channel}
+          onChangeText={(x) => set("channel", x)}
+          error={err("channel")}
+          hint="Only for long files with a channel column holding several channels."
+          autoCapitalize="none"
+          testID="upload-channel"
+        />
       </Card>
 
       <Card>
@@ -147,24 +220,58 @@ export function TraceUploadForm({ programs, pickFile, onPreview, onSave, preview
           label="The inducer's on and off times come from"
           testID="upload-schedule-source"
           value={v.scheduleSource}
-          options={[{ value: "column", label: "A column of the file" }, { value: "program", label: "An input program" }]}
+          options={[
+            { value: "column", label: "A column of the file" },
+            { value: "program", label: "An input program" },
+          ]}
           onChange={(x) => set("scheduleSource", x)}
         />
         {v.scheduleSource === "column" ? (
           row(
             <>
-              <Field label="Input column" value={v.scheduleColumn} onChangeText={(x) => set("scheduleColumn", x)} error={err("scheduleColumn")} autoCapitalize="none" testID="upload-schedule-column" style={half} />
-              <Field label="ON above" unit="input level" value={v.onAbove} onChangeText={(x) => set("onAbove", x)} error={err("onAbove")} keyboardType="decimal-pad" testID="upload-on-above" style={half} />
+              <Field
+                label="Input column"
+                value={v.scheduleColumn}
+                onChangeText={(x) => set("scheduleColumn", x)}
+                error={err("scheduleColumn")}
+                autoCapitalize="none"
+                testID="upload-schedule-column"
+                style={half}
+              />
+              <Field
+                label="ON above"
+                unit="input level"
+                value={v.onAbove}
+                onChangeText={(x) => set("onAbove", x)}
+                error={err("onAbove")}
+                keyboardType="decimal-pad"
+                testID="upload-on-above"
+                style={half}
+              />
             </>,
           )
         ) : programs.length ? (
           <>
-            <Choice label="Input program" testID="upload-program" value={v.programId} options={programs.map((p) => ({ value: p.id, label: p.name }))} onChange={(x) => set("programId", x)} />
-            {err("programId") ? <Text variant="caption" tone="danger" role="alert">{err("programId")}</Text> : null}
-            <Text variant="caption" tone="muted">Compiled over the time span of the traces; programs that draw a new schedule per replicate cannot be used.</Text>
+            <Choice
+              label="Input program"
+              testID="upload-program"
+              value={v.programId}
+              options={programs.map((p) => ({ value: p.id, label: p.name }))}
+              onChange={(x) => set("programId", x)}
+            />
+            {err("programId") ? (
+              <Text variant="caption" tone="danger" role="alert">
+                {err("programId")}
+              </Text>
+            ) : null}
+            <Text variant="caption" tone="muted">
+              Compiled over the time span of the traces; programs that draw a new schedule per replicate cannot be used.
+            </Text>
           </>
         ) : (
-          <Text tone="danger" role="alert">This lab has no input programs yet; use a column of the file.</Text>
+          <Text tone="danger" role="alert">
+            This lab has no input programs yet; use a column of the file.
+          </Text>
         )}
       </Card>
 
@@ -174,12 +281,35 @@ export function TraceUploadForm({ programs, pickFile, onPreview, onSave, preview
       </Card>
 
       {lines.length ? <UploadProblems problems={lines} /> : null}
-      {otherError ? <Banner tone="danger" testID="upload-error">{otherError}</Banner> : null}
-      {showAll && !valid ? <Text tone="danger" role="alert" testID="upload-invalid">Some fields need attention (marked above).</Text> : null}
+      {otherError ? (
+        <Banner tone="danger" testID="upload-error">
+          {otherError}
+        </Banner>
+      ) : null}
+      {showAll && !valid ? (
+        <Text tone="danger" role="alert" testID="upload-invalid">
+          Some fields need attention (marked above).
+        </Text>
+      ) : null}
 
       <View style={{ flexDirection: "row", flexWrap: "wrap", gap: t.spacing.sm }}>
-        <Button label="Preview" icon="eye" variant="secondary" busy={previewBusy} disabled={saveBusy} onPress={() => submit("preview")} testID="upload-preview" />
-        <Button label="Save trace set" icon="save" busy={saveBusy} disabled={previewBusy} onPress={() => submit("save")} testID="upload-save" />
+        <Button
+          label="Preview"
+          icon="eye"
+          variant="secondary"
+          busy={previewBusy}
+          disabled={saveBusy}
+          onPress={() => submit("preview")}
+          testID="upload-preview"
+        />
+        <Button
+          label="Save trace set"
+          icon="save"
+          busy={saveBusy}
+          disabled={previewBusy}
+          onPress={() => submit("save")}
+          testID="upload-save"
+        />
       </View>
       {renderPreview ? renderPreview(requestKey(file, v)) : null}
     </View>

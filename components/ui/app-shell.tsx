@@ -1,9 +1,9 @@
 import React from "react";
 import { Pressable, View } from "react-native";
 import { useSafeAreaInsets } from "react-native-safe-area-context";
-import { useTheme } from "../theme/use-theme";
-import { useBreakpoints } from "../theme/use-breakpoints";
-import { MIN_TOUCH } from "../theme/tokens";
+import { useTheme } from "@/components/theme/use-theme";
+import { useBreakpoints } from "@/components/theme/use-breakpoints";
+import { MIN_TOUCH } from "@/components/theme/tokens";
 import { Text } from "./text";
 import { Icon } from "./icon";
 import { navItemsFor, MORE_ITEM, isActive, type NavItem } from "./nav-items";
@@ -26,7 +26,17 @@ export function AppShell(props: ShellProps) {
   return isWide ? <SideNavShell {...props} /> : <BottomTabsShell {...props} />;
 }
 
-function NavButton({ item, active, onNavigate, layout }: { item: NavItem; active: boolean; onNavigate: (h: string) => void; layout: "tab" | "side" }) {
+function NavButton({
+  item,
+  active,
+  onNavigate,
+  layout,
+}: {
+  item: NavItem;
+  active: boolean;
+  onNavigate: (h: string) => void;
+  layout: "tab" | "side";
+}) {
   const t = useTheme();
   const color = active ? t.colors.primary : t.colors.textMuted;
   return (
@@ -61,10 +71,17 @@ function NavButton({ item, active, onNavigate, layout }: { item: NavItem; active
             }
       }
     >
-      <Icon name={item.icon} size={layout === "tab" ? 22 : 20} color={active && layout === "side" ? t.colors.onPrimarySoft : color} />
+      <Icon
+        name={item.icon}
+        size={layout === "tab" ? 22 : 20}
+        color={active && layout === "side" ? t.colors.onPrimarySoft : color}
+      />
       <Text
         variant={layout === "tab" ? "caption" : "label"}
-        style={{ color: active && layout === "side" ? t.colors.onPrimarySoft : color, fontFamily: active ? t.fonts.semibold : t.fonts.medium }}
+        style={{
+          color: active && layout === "side" ? t.colors.onPrimarySoft : color,
+          fontFamily: active ? t.fonts.semibold : t.fonts.medium,
+        }}
       >
         {item.label}
       </Text>
@@ -91,7 +108,13 @@ function BottomTabsShell({ pathname, onNavigate, children }: ShellProps) {
         }}
       >
         {tabs.map((item) => (
-          <NavButton key={item.href} item={item} active={isActive(item, pathname)} onNavigate={onNavigate} layout="tab" />
+          <NavButton
+            key={item.href}
+            item={item}
+            active={isActive(item, pathname)}
+            onNavigate={onNavigate}
+            layout="tab"
+          />
         ))}
       </View>
     </View>
@@ -105,14 +128,33 @@ function SideNavShell({ pathname, onNavigate, labName, isSiteAdmin, children }: 
       <View
         role="navigation"
         aria-label="Sections"
-        style={{ width: 232, backgroundColor: t.colors.surface, borderRightWidth: 1, borderRightColor: t.colors.divider, padding: t.spacing.lg, gap: t.spacing.xs }}
+        style={{
+          width: 232,
+          backgroundColor: t.colors.surface,
+          borderRightWidth: 1,
+          borderRightColor: t.colors.divider,
+          padding: t.spacing.lg,
+          gap: t.spacing.xs,
+        }}
       >
         <View style={{ paddingHorizontal: t.spacing.md, paddingBottom: t.spacing.lg, gap: 2 }}>
-          <Text variant="title" tone="primary">Linger</Text>
-          {labName ? <Text variant="caption" tone="muted" numberOfLines={2}>{labName}</Text> : null}
+          <Text variant="title" tone="primary">
+            Linger
+          </Text>
+          {labName ? (
+            <Text variant="caption" tone="muted" numberOfLines={2}>
+              {labName}
+            </Text>
+          ) : null}
         </View>
         {navItemsFor({ isSiteAdmin }).map((item) => (
-          <NavButton key={item.href} item={item} active={isActive(item, pathname)} onNavigate={onNavigate} layout="side" />
+          <NavButton
+            key={item.href}
+            item={item}
+            active={isActive(item, pathname)}
+            onNavigate={onNavigate}
+            layout="side"
+          />
         ))}
       </View>
       <View style={{ flex: 1 }}>{children}</View>

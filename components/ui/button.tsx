@@ -1,7 +1,7 @@
 import React from "react";
 import { ActivityIndicator, Pressable, StyleSheet, View, type StyleProp, type ViewStyle } from "react-native";
-import { useTheme } from "../theme/use-theme";
-import { MIN_TOUCH } from "../theme/tokens";
+import { useTheme } from "@/components/theme/use-theme";
+import { MIN_TOUCH } from "@/components/theme/tokens";
 import { Text } from "./text";
 import { Icon, type IconName } from "./icon";
 
@@ -20,13 +20,27 @@ export type ButtonProps = {
 };
 
 /** A button with at least a 44 px touch target and an accessible label. */
-export function Button({ label, onPress, variant = "primary", icon, disabled, busy, accessibilityLabel, testID, style, compact }: ButtonProps) {
+export function Button({
+  label,
+  onPress,
+  variant = "primary",
+  icon,
+  disabled,
+  busy,
+  accessibilityLabel,
+  testID,
+  style,
+  compact,
+}: ButtonProps) {
   const t = useTheme();
   const bg =
-    variant === "primary" ? t.colors.primary
-    : variant === "danger" ? t.colors.danger
-    : variant === "secondary" ? t.colors.surface
-    : "transparent";
+    variant === "primary"
+      ? t.colors.primary
+      : variant === "danger"
+        ? t.colors.danger
+        : variant === "secondary"
+          ? t.colors.surface
+          : "transparent";
   const fg = variant === "primary" || variant === "danger" ? t.colors.onPrimary : t.colors.primary;
   const border = variant === "secondary" ? t.colors.border : "transparent";
   const inactive = disabled || busy;
@@ -54,8 +68,14 @@ export function Button({ label, onPress, variant = "primary", icon, disabled, bu
       ]}
     >
       <View style={styles.row}>
-        {busy ? <ActivityIndicator size="small" color={fg} aria-hidden /> : icon ? <Icon name={icon} size={18} color={fg} /> : null}
-        <Text variant="label" style={{ color: fg, fontFamily: t.fonts.semibold }}>{label}</Text>
+        {busy ? (
+          <ActivityIndicator size="small" color={fg} aria-hidden />
+        ) : icon ? (
+          <Icon name={icon} size={18} color={fg} />
+        ) : null}
+        <Text variant="label" style={{ color: fg, fontFamily: t.fonts.semibold }}>
+          {label}
+        </Text>
       </View>
     </Pressable>
   );

@@ -1,9 +1,15 @@
 import React from "react";
 import { Pressable, View, type StyleProp, type ViewStyle } from "react-native";
-import { useTheme } from "../theme/use-theme";
+import { useTheme } from "@/components/theme/use-theme";
 
 /** A surface with a border and padding. With onPress it becomes a link-like pressable with an accessible label. */
-export function Card({ children, style, onPress, accessibilityLabel, testID }: {
+export function Card({
+  children,
+  style,
+  onPress,
+  accessibilityLabel,
+  testID,
+}: {
   children: React.ReactNode;
   style?: StyleProp<ViewStyle>;
   onPress?: () => void;
@@ -39,5 +45,9 @@ export function Card({ children, style, onPress, accessibilityLabel, testID }: {
       </Pressable>
     );
   }
-  return <View style={[base, style]} testID={testID}>{children}</View>;
+  return (
+    <View style={[base, style]} testID={testID}>
+      {children}
+    </View>
+  );
 }

@@ -1,11 +1,17 @@
 import React from "react";
 import { Pressable, View } from "react-native";
-import { useTheme } from "../theme/use-theme";
-import { MIN_TOUCH } from "../theme/tokens";
+import { useTheme } from "@/components/theme/use-theme";
+import { MIN_TOUCH } from "@/components/theme/tokens";
 import { Text } from "./text";
 
 /** A row of mutually exclusive options (radio group), each >= 44 px. */
-export function Choice<T extends string>({ label, value, options, onChange, testID }: {
+export function Choice<T extends string>({
+  label,
+  value,
+  options,
+  onChange,
+  testID,
+}: {
   label: string;
   value: T;
   options: { value: T; label: string }[];
@@ -42,7 +48,9 @@ export function Choice<T extends string>({ label, value, options, onChange, test
                 backgroundColor: selected ? t.colors.primarySoft : t.colors.surface,
               })}
             >
-              <Text variant="label" style={{ color: selected ? t.colors.onPrimarySoft : t.colors.text }}>{o.label}</Text>
+              <Text variant="label" style={{ color: selected ? t.colors.onPrimarySoft : t.colors.text }}>
+                {o.label}
+              </Text>
             </Pressable>
           );
         })}

@@ -1,7 +1,7 @@
 import React, { useId } from "react";
 import { TextInput, View, type KeyboardTypeOptions, type StyleProp, type ViewStyle } from "react-native";
-import { useTheme } from "../theme/use-theme";
-import { MIN_TOUCH } from "../theme/tokens";
+import { useTheme } from "@/components/theme/use-theme";
+import { MIN_TOUCH } from "@/components/theme/tokens";
 import { Text } from "./text";
 
 export type FieldProps = {
@@ -26,14 +26,28 @@ export type FieldProps = {
 };
 
 /** A labelled text input with an inline validation message. */
-export function Field({ label, value, onChangeText, error, hint, unit, style, testID, multiline, editable = true, ...input }: FieldProps) {
+export function Field({
+  label,
+  value,
+  onChangeText,
+  error,
+  hint,
+  unit,
+  style,
+  testID,
+  multiline,
+  editable = true,
+  ...input
+}: FieldProps) {
   const t = useTheme();
   const id = useId();
   const errorId = `${id}-error`;
   const fullLabel = unit ? `${label} (${unit})` : label;
   return (
     <View style={[{ gap: t.spacing.xs }, style]}>
-      <Text variant="label" nativeID={`${id}-label`}>{fullLabel}</Text>
+      <Text variant="label" nativeID={`${id}-label`}>
+        {fullLabel}
+      </Text>
       <TextInput
         {...input}
         testID={testID}
@@ -61,11 +75,19 @@ export function Field({ label, value, onChangeText, error, hint, unit, style, te
         }}
       />
       {error ? (
-        <Text variant="caption" tone="danger" nativeID={errorId} role="alert" testID={testID ? `${testID}-error` : undefined}>
+        <Text
+          variant="caption"
+          tone="danger"
+          nativeID={errorId}
+          role="alert"
+          testID={testID ? `${testID}-error` : undefined}
+        >
           {error}
         </Text>
       ) : hint ? (
-        <Text variant="caption" tone="muted">{hint}</Text>
+        <Text variant="caption" tone="muted">
+          {hint}
+        </Text>
       ) : null}
     </View>
   );

@@ -5,5 +5,14 @@ export type IconName = React.ComponentProps<typeof Feather>["name"];
 
 /** The app's one icon set (Feather outlines). Decorative: hidden from screen readers; label the control instead. */
 export function Icon({ name, size = 20, color }: { name: IconName; size?: number; color: string }) {
-  return <Feather name={name} size={size} color={color} aria-hidden accessibilityElementsHidden importantForAccessibility="no" />;
+  return (
+    <Feather
+      name={name}
+      size={size}
+      color={color}
+      aria-hidden
+      accessibilityElementsHidden
+      importantForAccessibility="no"
+    />
+  );
 }

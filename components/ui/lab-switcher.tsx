@@ -1,7 +1,7 @@
 import React from "react";
 import { View } from "react-native";
-import { useTheme } from "../theme/use-theme";
-import { useCurrentLab } from "../data/current-lab";
+import { useTheme } from "@/components/theme/use-theme";
+import { useCurrentLab } from "@/components/data/current-lab";
 import { Text } from "./text";
 import { Choice } from "./choice";
 
@@ -13,15 +13,26 @@ export function LabSwitcher() {
   if (labs.length < 2) {
     return (
       <View style={{ gap: 2 }}>
-        <Text variant="heading" testID="current-lab-name">{lab.name}</Text>
-        <Text variant="caption" tone="muted">Your role: {lab.role}</Text>
+        <Text variant="heading" testID="current-lab-name">
+          {lab.name}
+        </Text>
+        <Text variant="caption" tone="muted">
+          Your role: {lab.role}
+        </Text>
       </View>
     );
   }
   return (
     <View style={{ gap: t.spacing.xs }}>
-      <Text variant="heading" testID="current-lab-name">{lab.name}</Text>
-      <Choice label="Switch lab" value={lab.id} options={labs.map((l) => ({ value: l.id, label: l.name }))} onChange={choose} />
+      <Text variant="heading" testID="current-lab-name">
+        {lab.name}
+      </Text>
+      <Choice
+        label="Switch lab"
+        value={lab.id}
+        options={labs.map((l) => ({ value: l.id, label: l.name }))}
+        onChange={choose}
+      />
     </View>
   );
 }

@@ -26,6 +26,9 @@ export const MORE_ITEM: NavItem = { href: "/more", label: "More", icon: "menu", 
 /** Whether a nav item is the active section for a pathname. */
 export function isActive(item: NavItem, pathname: string): boolean {
   if (item.href === "/") return pathname === "/" || pathname === "";
-  if (item.href === "/more") return ["/more", "/compare", "/sweeps", "/traces", "/lab", "/settings", "/admin"].some((p) => pathname.startsWith(p));
+  if (item.href === "/more")
+    return ["/more", "/compare", "/sweeps", "/traces", "/lab", "/settings", "/admin"].some((p) =>
+      pathname.startsWith(p),
+    );
   return pathname === item.href || pathname.startsWith(item.href + "/");
 }

@@ -1,6 +1,6 @@
 import React from "react";
 import { View } from "react-native";
-import { useTheme } from "../theme/use-theme";
+import { useTheme } from "@/components/theme/use-theme";
 
 /** A horizontal progress bar, 0..1, with an accessible value. */
 export function ProgressBar({ value, color, label }: { value: number; color?: string; label: string }) {
@@ -15,7 +15,9 @@ export function ProgressBar({ value, color, label }: { value: number; color?: st
       aria-valuenow={Math.round(v * 100)}
       style={{ height: 8, borderRadius: 4, backgroundColor: t.colors.surfaceAlt, overflow: "hidden" }}
     >
-      <View style={{ width: `${v * 100}%`, height: "100%", backgroundColor: color ?? t.colors.primary, borderRadius: 4 }} />
+      <View
+        style={{ width: `${v * 100}%`, height: "100%", backgroundColor: color ?? t.colors.primary, borderRadius: 4 }}
+      />
     </View>
   );
 }

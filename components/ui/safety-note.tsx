@@ -1,6 +1,6 @@
 import React from "react";
 import { View } from "react-native";
-import { useTheme } from "../theme/use-theme";
+import { useTheme } from "@/components/theme/use-theme";
 import { Text } from "./text";
 import { Icon } from "./icon";
 
@@ -25,7 +25,9 @@ export function SafetyNote({ compact }: { compact?: boolean }) {
       }}
     >
       <Icon name="info" size={18} color={t.colors.onNoticeSoft} />
-      <Text variant="caption" tone="notice" style={{ flex: 1 }}>{SAFETY_NOTE}</Text>
+      <Text variant="caption" tone="notice" style={{ flex: 1 }}>
+        {SAFETY_NOTE}
+      </Text>
     </View>
   );
 }

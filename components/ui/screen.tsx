@@ -1,16 +1,24 @@
 import React from "react";
 import { ScrollView, View, type StyleProp, type ViewStyle } from "react-native";
 import { useSafeAreaInsets } from "react-native-safe-area-context";
-import { useTheme } from "../theme/use-theme";
-import { MAX_CONTENT_WIDTH } from "../theme/tokens";
-import { useBreakpoints } from "../theme/use-breakpoints";
+import { useTheme } from "@/components/theme/use-theme";
+import { MAX_CONTENT_WIDTH } from "@/components/theme/tokens";
+import { useBreakpoints } from "@/components/theme/use-breakpoints";
 import { Text } from "./text";
 
 /**
  * One wrapper per screen: safe-area padding, a scrolling column capped at
  * MAX_CONTENT_WIDTH and centred, an optional title row with actions.
  */
-export function Screen({ title, subtitle, actions, children, scroll = true, contentStyle, testID }: {
+export function Screen({
+  title,
+  subtitle,
+  actions,
+  children,
+  scroll = true,
+  contentStyle,
+  testID,
+}: {
   title?: string;
   subtitle?: string;
   actions?: React.ReactNode;
@@ -26,17 +34,35 @@ export function Screen({ title, subtitle, actions, children, scroll = true, cont
   const inner = (
     <View
       style={[
-        { width: "100%", maxWidth: MAX_CONTENT_WIDTH, alignSelf: "center", paddingHorizontal: pad, paddingTop: pad + insets.top, paddingBottom: t.spacing.xxxl, gap: t.spacing.lg },
+        {
+          width: "100%",
+          maxWidth: MAX_CONTENT_WIDTH,
+          alignSelf: "center",
+          paddingHorizontal: pad,
+          paddingTop: pad + insets.top,
+          paddingBottom: t.spacing.xxxl,
+          gap: t.spacing.lg,
+        },
         contentStyle,
       ]}
     >
       {title ? (
-        <View style={{ flexDirection: "row", flexWrap: "wrap", alignItems: "center", justifyContent: "space-between", gap: t.spacing.md }}>
+        <View
+          style={{
+            flexDirection: "row",
+            flexWrap: "wrap",
+            alignItems: "center",
+            justifyContent: "space-between",
+            gap: t.spacing.md,
+          }}
+        >
           <View style={{ flexShrink: 1, gap: t.spacing.xxs }}>
             <Text variant="title">{title}</Text>
             {subtitle ? <Text tone="muted">{subtitle}</Text> : null}
           </View>
-          {actions ? <View style={{ flexDirection: "row", flexWrap: "wrap", gap: t.spacing.sm }}>{actions}</View> : null}
+          {actions ? (
+            <View style={{ flexDirection: "row", flexWrap: "wrap", gap: t.spacing.sm }}>{actions}</View>
+          ) : null}
         </View>
       ) : null}
       {children}
@@ -44,7 +70,13 @@ export function Screen({ title, subtitle, actions, children, scroll = true, cont
   );
   return (
     <View style={{ flex: 1, backgroundColor: t.colors.background }} testID={testID} role="main">
-      {scroll ? <ScrollView contentContainerStyle={{ flexGrow: 1 }} keyboardShouldPersistTaps="handled">{inner}</ScrollView> : inner}
+      {scroll ? (
+        <ScrollView contentContainerStyle={{ flexGrow: 1 }} keyboardShouldPersistTaps="handled">
+          {inner}
+        </ScrollView>
+      ) : (
+        inner
+      )}
     </View>
   );
 }

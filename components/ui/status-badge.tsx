@@ -1,7 +1,7 @@
 import React from "react";
 import { View } from "react-native";
-import { useTheme } from "../theme/use-theme";
-import type { RunStatusName } from "../theme/tokens";
+import { useTheme } from "@/components/theme/use-theme";
+import type { RunStatusName } from "@/components/theme/tokens";
 import { Text } from "./text";
 
 const LABELS: Record<RunStatusName, string> = {
@@ -22,8 +22,19 @@ export function StatusBadge({ status }: { status: string }) {
   const t = useTheme();
   const color = t.colors.status[status as RunStatusName] ?? t.colors.textMuted;
   return (
-    <View style={{ alignSelf: "flex-start", borderWidth: 1.5, borderColor: color, borderRadius: t.radii.pill, paddingHorizontal: t.spacing.sm, paddingVertical: 1 }}>
-      <Text variant="caption" style={{ color, fontFamily: t.fonts.semibold }}>{statusLabel(status)}</Text>
+    <View
+      style={{
+        alignSelf: "flex-start",
+        borderWidth: 1.5,
+        borderColor: color,
+        borderRadius: t.radii.pill,
+        paddingHorizontal: t.spacing.sm,
+        paddingVertical: 1,
+      }}
+    >
+      <Text variant="caption" style={{ color, fontFamily: t.fonts.semibold }}>
+        {statusLabel(status)}
+      </Text>
     </View>
   );
 }

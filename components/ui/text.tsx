@@ -1,7 +1,7 @@
 import React from "react";
 import { Text as RNText, type TextProps, type TextStyle } from "react-native";
-import { useTheme } from "../theme/use-theme";
-import type { TextVariant } from "../theme/tokens";
+import { useTheme } from "@/components/theme/use-theme";
+import type { TextVariant } from "@/components/theme/tokens";
 
 export type AppTextProps = TextProps & {
   variant?: TextVariant;
@@ -13,12 +13,17 @@ export type AppTextProps = TextProps & {
 export function Text({ variant = "body", tone = "default", align, style, ...rest }: AppTextProps) {
   const t = useTheme();
   const color =
-    tone === "muted" ? t.colors.textMuted
-    : tone === "primary" ? t.colors.primary
-    : tone === "danger" ? t.colors.danger
-    : tone === "notice" ? t.colors.onNoticeSoft
-    : tone === "onPrimary" ? t.colors.onPrimary
-    : t.colors.text;
+    tone === "muted"
+      ? t.colors.textMuted
+      : tone === "primary"
+        ? t.colors.primary
+        : tone === "danger"
+          ? t.colors.danger
+          : tone === "notice"
+            ? t.colors.onNoticeSoft
+            : tone === "onPrimary"
+              ? t.colors.onPrimary
+              : t.colors.text;
   const isHeading = variant === "display" || variant === "title" || variant === "heading";
   return (
     <RNText

@@ -25,7 +25,9 @@ export interface ServerProcess {
   output(): string;
 }
 
-export async function startServerProcess(opts: { env?: Record<string, string>; dbPath?: string; dir?: string; timeoutMs?: number } = {}): Promise<ServerProcess> {
+export async function startServerProcess(
+  opts: { env?: Record<string, string>; dbPath?: string; dir?: string; timeoutMs?: number } = {},
+): Promise<ServerProcess> {
   const dir = opts.dir ?? mkdtempSync(join(tmpdir(), "linger-server-"));
   const dbPath = opts.dbPath ?? join(dir, "linger.db");
   let out = "";
@@ -47,7 +49,10 @@ export async function startServerProcess(opts: { env?: Record<string, string>; d
   child.stdout?.on("data", (d) => (out += d));
   child.stderr?.on("data", (d) => (out += d));
   const port = await new Promise<number>((resolvePort, reject) => {
-    const timer = setTimeout(() => reject(new Error(`server did not start in time:\n${out}`)), opts.timeoutMs ?? 60_000);
+    const timer = setTimeout(
+      () => reject(new Error(`server did not start in time:\n${out}`)),
+      opts.timeoutMs ?? 60_000,
+    );
     child.on("message", (m: any) => {
       if (m?.type === "listening") {
         clearTimeout(timer);

@@ -5,9 +5,9 @@
  *     Creates the account if needed, makes it a site admin, and prints a
  *     one-time link (valid 24 hours) to set its password.
  */
-import { openDatabase } from "../../db/client";
-import { parseEnv } from "../env";
-import { createSiteAdmin, type AccountsCtx } from "../services/auth.service";
+import { openDatabase } from "@/db/client";
+import { parseEnv } from "@/server/env";
+import { createSiteAdmin, type AccountsCtx } from "@/server/services/auth.service";
 
 const USAGE = "Usage: npm run admin -- create <email>";
 

@@ -1,7 +1,6 @@
 import type { ErrorRequestHandler, RequestHandler } from "express";
 import { ZodError } from "zod";
-import { HttpError } from "../http-error";
-import { zodFields } from "./validate";
+import { HttpError, zodFields } from "@/server/http-error";
 
 /** JSON 404 for unknown /api routes. */
 export const apiNotFound: RequestHandler = (req, res) => {
@@ -13,20 +12,32 @@ export const errorHandler: ErrorRequestHandler = (err, req, res, _next) => {
   if (res.headersSent) return;
   if (err instanceof ZodError) {
     const fields = zodFields(err);
-    res.status(400).json({ error: { code: "invalid", message: fields.map((f) => `${f.path || "body"}: ${f.message}`).join("; "), fields } });
+    res.status(400).json({
+      error: { code: "invalid", message: fields.map((f) => `${f.path || "body"}: ${f.message}`).join("; "), fields },
+    });
     return;
   }
   if (err instanceof HttpError) {
-    res.status(err.status).json({ error: { code: err.code, message: err.message, ...(err.fields ? { fields: err.fields } : {}) } });
+    res
+      .status(err.status)
+      .json({ error: { code: err.code, message: err.message, ...(err.fields ? { fields: err.fields } : {}) } });
     return;
   }
   // body-parser / multer errors carry a status
-  const status = typeof err?.status === "number" ? err.status : typeof err?.statusCode === "number" ? err.statusCode : 500;
+  const status =
+    typeof err?.status === "number" ? err.status : typeof err?.statusCode === "number" ? err.statusCode : 500;
   if (status >= 400 && status < 500) {
-    const message = err.type === "entity.parse.failed" ? "The request body is not valid JSON." : err.type === "entity.too.large" ? "The request body is too large." : String(err.message ?? "Bad request.");
+    const message =
+      err.type === "entity.parse.failed"
+        ? "The request body is not valid JSON."
+        : err.type === "entity.too.large"
+          ? "The request body is too large."
+          : String(err.message ?? "Bad request.");
     res.status(status).json({ error: { code: err.code ?? err.type ?? "bad_request", message } });
     return;
   }
   console.error(`[error] ${req.method} ${req.originalUrl}`, err);
-  res.status(500).json({ error: { code: "internal", message: "Something went wrong on the server. It has been logged." } });
+  res
+    .status(500)
+    .json({ error: { code: "internal", message: "Something went wrong on the server. It has been logged." } });
 };

@@ -14,10 +14,10 @@ import { Strategy as LocalStrategy } from "passport-local";
 import { randomBytes } from "node:crypto";
 import { eq } from "drizzle-orm";
 import type Database from "better-sqlite3";
-import type { AppContext } from "../context";
-import { schema } from "../../db/client";
-import type { SessionUser } from "../routes/route-table";
-import { checkCredentials } from "../services/auth.service";
+import type { AppContext } from "@/server/context";
+import { schema } from "@/db/client";
+import type { SessionUser } from "@/server/routes/route-table";
+import { checkCredentials } from "@/server/services/auth.service";
 
 export const SESSION_COOKIE = "linger.sid";
 const SESSION_MAX_AGE_MS = 14 * 24 * 3600 * 1000;
@@ -32,11 +32,18 @@ export class SqliteSessionStore extends session.Store {
   private lastPrune = 0;
   private readonly stmts;
 
-  constructor(private readonly sqlite: Database.Database, private readonly now: () => number = Date.now) {
+  constructor(
+    private readonly sqlite: Database.Database,
+    private readonly now: () => number = Date.now,
+  ) {
     super();
     this.stmts = {
-      get: sqlite.prepare<[string], { data: string; expires_at: number }>("select data, expires_at from sessions where sid = ?"),
-      set: sqlite.prepare("insert into sessions (sid, data, expires_at) values (?, ?, ?) on conflict(sid) do update set data = excluded.data, expires_at = excluded.expires_at"),
+      get: sqlite.prepare<[string], { data: string; expires_at: number }>(
+        "select data, expires_at from sessions where sid = ?",
+      ),
+      set: sqlite.prepare(
+        "insert into sessions (sid, data, expires_at) values (?, ?, ?) on conflict(sid) do update set data = excluded.data, expires_at = excluded.expires_at",
+      ),
       destroy: sqlite.prepare("delete from sessions where sid = ?"),
       touch: sqlite.prepare("update sessions set expires_at = ? where sid = ?"),
       prune: sqlite.prepare("delete from sessions where expires_at < ?"),
@@ -130,13 +137,22 @@ export function destroyUserSessions(ctx: AppContext, userId: string, keepSid?: s
 export function sessionSecret(ctx: AppContext): string {
   if (ctx.env.LINGER_SESSION_SECRET) return ctx.env.LINGER_SESSION_SECRET;
   const key = "session_secret";
-  ctx.db.insert(schema.appSettings).values({ key, value: randomBytes(32).toString("base64url") }).onConflictDoNothing().run();
+  ctx.db
+    .insert(schema.appSettings)
+    .values({ key, value: randomBytes(32).toString("base64url") })
+    .onConflictDoNothing()
+    .run();
   return ctx.db.select().from(schema.appSettings).where(eq(schema.appSettings.key, key)).get()!.value;
 }
 
 export function loadSessionUser(ctx: AppContext, id: string): SessionUser | null {
   const u = ctx.db
-    .select({ id: schema.users.id, email: schema.users.email, displayName: schema.users.displayName, isSiteAdmin: schema.users.isSiteAdmin })
+    .select({
+      id: schema.users.id,
+      email: schema.users.email,
+      displayName: schema.users.displayName,
+      isSiteAdmin: schema.users.isSiteAdmin,
+    })
     .from(schema.users)
     .where(eq(schema.users.id, id))
     .get();

@@ -3,10 +3,10 @@ import { mkdirSync, statSync } from "node:fs";
 import { dirname, join, resolve } from "node:path";
 import { count, desc, eq } from "drizzle-orm";
 import { defineRoutes } from "./route-table";
-import { schema } from "../../db/client";
-import { recordAudit } from "../services/audit.service";
-import type { AppContext } from "../context";
-import { OutboxQuerySchema, type AdminUsers, type BackupResult, type Outbox } from "../../shared/schemas/api-accounts";
+import { schema } from "@/db/client";
+import { recordAudit } from "@/server/services/audit.service";
+import type { AppContext } from "@/server/context";
+import { OutboxQuerySchema, type AdminUsers, type BackupResult, type Outbox } from "@/shared/schemas/api-accounts";
 
 /** Folder for backups: `backups/` beside the database file (data/backups by default). */
 export function backupDir(ctx: AppContext): string {
@@ -55,7 +55,14 @@ export const adminRoutes = defineRoutes([
     summary: "Write a consistent backup of the database (SQLite online backup) to data/backups; returns the file name.",
     handler: async ({ ctx, res, user }): Promise<BackupResult> => {
       const b = await backupDatabase(ctx);
-      recordAudit(ctx, { labId: null, userId: user!.id, action: "admin.backup", targetType: "file", targetId: b.file, detail: { bytes: b.bytes } });
+      recordAudit(ctx, {
+        labId: null,
+        userId: user!.id,
+        action: "admin.backup",
+        targetType: "file",
+        targetId: b.file,
+        detail: { bytes: b.bytes },
+      });
       res.status(201);
       return { file: b.file, bytes: b.bytes };
     },
@@ -69,7 +76,14 @@ export const adminRoutes = defineRoutes([
       const u = schema.users;
       const m = schema.memberships;
       const rows = ctx.db
-        .select({ id: u.id, email: u.email, displayName: u.displayName, isSiteAdmin: u.isSiteAdmin, createdAt: u.createdAt, labCount: count(m.labId) })
+        .select({
+          id: u.id,
+          email: u.email,
+          displayName: u.displayName,
+          isSiteAdmin: u.isSiteAdmin,
+          createdAt: u.createdAt,
+          labCount: count(m.labId),
+        })
         .from(u)
         .leftJoin(m, eq(m.userId, u.id))
         .groupBy(u.id)

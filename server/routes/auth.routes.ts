@@ -5,8 +5,8 @@
  */
 import type { Request, Response } from "express";
 import { defineRoutes, type SessionUser } from "./route-table";
-import { unauthorized } from "../http-error";
-import { authenticatorOf, destroyUserSessions, SESSION_COOKIE } from "../middleware/session";
+import { unauthorized, badRequest, conflict } from "@/server/http-error";
+import { authenticatorOf, destroyUserSessions, SESSION_COOKIE } from "@/server/middleware/session";
 import {
   changePassword,
   confirmPasswordReset,
@@ -16,11 +16,10 @@ import {
   normalizeEmail,
   requestPasswordReset,
   updateProfile,
-} from "../services/auth.service";
-import { describeInvitation, invitationEmail, joinWithInvitation, labsOf } from "../services/labs.service";
-import { assertNotLimited, authLimitersOf } from "../services/rate-limit";
-import { badRequest, conflict } from "../http-error";
-import type { AppContext } from "../context";
+} from "@/server/services/auth.service";
+import { describeInvitation, invitationEmail, joinWithInvitation, labsOf } from "@/server/services/labs.service";
+import { assertNotLimited, authLimitersOf } from "@/server/services/rate-limit";
+import type { AppContext } from "@/server/context";
 import {
   AcceptInvitationBodySchema,
   ChangePasswordBodySchema,
@@ -34,13 +33,13 @@ import {
   type Me,
   type Ok,
   type SignedIn,
-} from "../../shared/schemas/api-accounts";
+} from "@/shared/schemas/api-accounts";
 
 function authenticateLocal(req: Request, res: Response): Promise<SessionUser | null> {
   return new Promise((resolve, reject) => {
-    authenticatorOf(req).authenticate("local", (err: unknown, user: SessionUser | false) => (err ? reject(err) : resolve(user || null)))(req, res, (e?: unknown) =>
-      e ? reject(e) : resolve(null),
-    );
+    authenticatorOf(req).authenticate("local", (err: unknown, user: SessionUser | false) =>
+      err ? reject(err) : resolve(user || null),
+    )(req, res, (e?: unknown) => (e ? reject(e) : resolve(null)));
   });
 }
 
@@ -100,15 +99,25 @@ export const authRoutes = defineRoutes([
     path: "/auth/sign-up",
     access: { kind: "public" },
     body: SignUpBodySchema,
-    summary: "Create an account (with an invitation: join its lab; otherwise get a lab of one's own) and sign in; 201 {user}.",
+    summary:
+      "Create an account (with an invitation: join its lab; otherwise get a lab of one's own) and sign in; 201 {user}.",
     handler: async ({ req, res, ctx, body }): Promise<SignedIn> => {
       if (body.invitationToken) {
         const invited = invitationEmail(ctx, body.invitationToken);
         if (invited !== normalizeEmail(body.email)) {
-          throw badRequest(`This invitation is for ${invited}.`, [{ path: "email", message: "Use the invited address." }], "email_mismatch");
+          throw badRequest(
+            `This invitation is for ${invited}.`,
+            [{ path: "email", message: "Use the invited address." }],
+            "email_mismatch",
+          );
         }
       }
-      const user = await createAccount(ctx, { email: body.email, password: body.password, displayName: body.displayName, ownLab: !body.invitationToken });
+      const user = await createAccount(ctx, {
+        email: body.email,
+        password: body.password,
+        displayName: body.displayName,
+        ownLab: !body.invitationToken,
+      });
       if (body.invitationToken) joinWithInvitation(ctx, body.invitationToken, user.id);
       await logIn(req, user);
       res.status(201);
@@ -201,14 +210,19 @@ export const authRoutes = defineRoutes([
     path: "/invitations/accept",
     access: { kind: "public" },
     body: AcceptInvitationBodySchema,
-    summary: "Accept an invitation: adds the signed-in user, or creates the invited account (password, displayName) and signs in.",
+    summary:
+      "Accept an invitation: adds the signed-in user, or creates the invited account (password, displayName) and signs in.",
     handler: async ({ req, ctx, user, body }): Promise<AcceptInvitationResponse> => {
       if (user) {
         const joined = joinWithInvitation(ctx, body.token, user.id);
         return { ...joined, ...me(ctx, user.id) };
       }
       const email = invitationEmail(ctx, body.token);
-      if (findUserByEmail(ctx, email)) throw conflict(`An account for ${email} exists: sign in first, then open the invitation again.`, "sign_in_required");
+      if (findUserByEmail(ctx, email))
+        throw conflict(
+          `An account for ${email} exists: sign in first, then open the invitation again.`,
+          "sign_in_required",
+        );
       if (!body.password || !body.displayName) {
         const fields = [
           ...(!body.password ? [{ path: "password", message: "Required to create the account." }] : []),
@@ -216,7 +230,12 @@ export const authRoutes = defineRoutes([
         ];
         throw badRequest("Choose a display name and a password for the new account.", fields, "invalid");
       }
-      const created = await createAccount(ctx, { email, password: body.password, displayName: body.displayName, ownLab: false });
+      const created = await createAccount(ctx, {
+        email,
+        password: body.password,
+        displayName: body.displayName,
+        ownLab: false,
+      });
       const joined = joinWithInvitation(ctx, body.token, created.id);
       await logIn(req, created);
       return { ...joined, ...me(ctx, created.id) };

@@ -1,13 +1,13 @@
 /** Circuits and templates (contract: shared/schemas/api-circuits.ts). Logic in services/circuits.service.ts. */
 import { defineRoutes } from "./route-table";
-import { badRequest } from "../http-error";
+import { badRequest } from "@/server/http-error";
 import {
   CheckCircuitRequestSchema,
   CircuitListQuerySchema,
   CreateCircuitRequestSchema,
   DuplicateCircuitRequestSchema,
   UpdateCircuitRequestSchema,
-} from "../../shared/schemas/api-circuits";
+} from "@/shared/schemas/api-circuits";
 import {
   checkCircuit,
   createCircuit,
@@ -19,7 +19,7 @@ import {
   parseCircuitRequest,
   setCircuitArchived,
   updateCircuit,
-} from "../services/circuits.service";
+} from "@/server/services/circuits.service";
 
 const isTrue = (s: string | undefined) => s === "1" || s === "true";
 
@@ -85,7 +85,11 @@ export const circuitRoutes = defineRoutes([
     handler: ({ ctx, params }) => {
       const version = Number(params.version);
       if (!Number.isInteger(version) || version < 1)
-        throw badRequest("The version must be a whole number from 1.", [{ path: "version", message: "must be a whole number from 1" }], "invalid");
+        throw badRequest(
+          "The version must be a whole number from 1.",
+          [{ path: "version", message: "must be a whole number from 1" }],
+          "invalid",
+        );
       return getCircuitVersion(ctx, params.id, version);
     },
   },

@@ -10,4 +10,14 @@ import { circuitRoutes } from "./circuits.routes";
 import { programRoutes } from "./programs.routes";
 import { traceRoutes } from "./traces.routes";
 
-export const allRoutes: RouteDef[] = [...healthRoutes, ...authRoutes, ...labsRoutes, ...adminRoutes, ...runRoutes, ...sweepRoutes, ...circuitRoutes, ...programRoutes, ...traceRoutes];
+export const allRoutes: RouteDef[] = [
+  ...healthRoutes,
+  ...authRoutes,
+  ...labsRoutes,
+  ...adminRoutes,
+  ...runRoutes,
+  ...sweepRoutes,
+  ...circuitRoutes,
+  ...programRoutes,
+  ...traceRoutes,
+];

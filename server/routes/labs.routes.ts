@@ -1,7 +1,18 @@
 /** Labs, members, invitations and the audit trail. */
 import { defineRoutes } from "./route-table";
-import { listAudit } from "../services/audit.service";
-import { changeRole, createLab, deleteLab, inviteMember, labDetail, labsOf, pendingInvitations, removeMember, renameLab, revokeInvitation } from "../services/labs.service";
+import { listAudit } from "@/server/services/audit.service";
+import {
+  changeRole,
+  createLab,
+  deleteLab,
+  inviteMember,
+  labDetail,
+  labsOf,
+  pendingInvitations,
+  removeMember,
+  renameLab,
+  revokeInvitation,
+} from "@/server/services/labs.service";
 import {
   AuditQuerySchema,
   InviteBodySchema,
@@ -15,7 +26,7 @@ import {
   type LabList,
   type LabMembersResponse,
   type LabResponse,
-} from "../../shared/schemas/api-accounts";
+} from "@/shared/schemas/api-accounts";
 
 export const labsRoutes = defineRoutes([
   {
@@ -121,6 +132,8 @@ export const labsRoutes = defineRoutes([
     access: { kind: "lab", role: "owner" },
     query: AuditQuerySchema,
     summary: "The lab's audit trail, newest first (?limit, ?before=<id> to page back).",
-    handler: ({ ctx, labId, query }): AuditPage => ({ events: listAudit(ctx, labId, { limit: query.limit, beforeId: query.before }) }),
+    handler: ({ ctx, labId, query }): AuditPage => ({
+      events: listAudit(ctx, labId, { limit: query.limit, beforeId: query.before }),
+    }),
   },
 ]);

@@ -6,7 +6,7 @@ import {
   PreviewProgramRequestSchema,
   ProgramListQuerySchema,
   UpdateProgramRequestSchema,
-} from "../../shared/schemas/api-programs";
+} from "@/shared/schemas/api-programs";
 import {
   createProgram,
   duplicateProgram,
@@ -15,7 +15,7 @@ import {
   previewProgram,
   setProgramArchived,
   updateProgram,
-} from "../services/programs.service";
+} from "@/server/services/programs.service";
 
 const isTrue = (s: string | undefined) => s === "1" || s === "true";
 

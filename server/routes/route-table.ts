@@ -6,14 +6,13 @@
  */
 import type { Request, Response, NextFunction, Router } from "express";
 import type { ZodType } from "zod";
-import { HttpError, forbidden, notFound, unauthorized } from "../http-error";
-import { parseOr400 } from "../middleware/validate";
-import type { AppContext } from "../context";
-import { labRoleOf, resourceLab, type ResourceKind } from "../services/access.service";
+import { HttpError, forbidden, notFound, unauthorized, parseOr400 } from "@/server/http-error";
+import type { AppContext } from "@/server/context";
+import { labRoleOf, resourceLab, type ResourceKind } from "@/server/services/access.service";
 
-export type LabRole = "viewer" | "editor" | "owner";
-const RANK: Record<LabRole, number> = { viewer: 1, editor: 2, owner: 3 };
-export const roleAtLeast = (have: LabRole | null, need: LabRole) => have !== null && RANK[have] >= RANK[need];
+import { roleAtLeast, type LabRole, type SessionUser } from "@/shared/schemas/api-accounts";
+
+export { roleAtLeast, type LabRole, type SessionUser };
 
 export type Access =
   /** Anyone, signed in or not. */
@@ -26,13 +25,6 @@ export type Access =
   | { kind: "lab"; role: LabRole }
   /** A member of the lab that owns the object named by the :id path parameter. */
   | { kind: "object"; resource: ResourceKind; role: LabRole };
-
-export interface SessionUser {
-  id: string;
-  email: string;
-  displayName: string;
-  isSiteAdmin: boolean;
-}
 
 export interface RouteCall<B = any, Q = any> {
   req: Request;
@@ -67,7 +59,11 @@ export function defineRoutes(defs: RouteDef[]): RouteDef[] {
 }
 
 /** Resolve the caller's access for a route; throws 401/403/404 as the rule says. */
-export function checkAccess(ctx: AppContext, access: Access, req: Request): { user: SessionUser | null; labId: string; role: LabRole | null } {
+export function checkAccess(
+  ctx: AppContext,
+  access: Access,
+  req: Request,
+): { user: SessionUser | null; labId: string; role: LabRole | null } {
   const user = (req.user as SessionUser | undefined) ?? null;
   if (access.kind === "public") return { user, labId: "", role: null };
   if (!user) throw unauthorized();
@@ -88,7 +84,10 @@ export function checkAccess(ctx: AppContext, access: Access, req: Request): { us
   const role = labRoleOf(ctx, user.id, labId);
   // Not a member: the object does not exist as far as the caller can tell.
   if (!role) throw notFound(what);
-  if (!roleAtLeast(role, access.role)) throw forbidden(`This needs the ${access.role} role in the lab; you are ${role === "viewer" ? "a viewer" : `an ${role}`}.`);
+  if (!roleAtLeast(role, access.role))
+    throw forbidden(
+      `This needs the ${access.role} role in the lab; you are ${role === "viewer" ? "a viewer" : `an ${role}`}.`,
+    );
   return { user, labId, role };
 }
 
@@ -106,7 +105,17 @@ export function mountRoutes(router: Router, ctx: AppContext, defs: RouteDef[]): 
       const a = (req as any).lingerAccess as ReturnType<typeof checkAccess>;
       const body = def.body ? parseOr400(def.body, req.body ?? {}, "body") : req.body;
       const query = def.query ? parseOr400(def.query, req.query ?? {}, "query") : req.query;
-      const out = await def.handler({ req, res, ctx, user: a.user, labId: a.labId, role: a.role, body, query, params: req.params as Record<string, string> });
+      const out = await def.handler({
+        req,
+        res,
+        ctx,
+        user: a.user,
+        labId: a.labId,
+        role: a.role,
+        body,
+        query,
+        params: req.params as Record<string, string>,
+      });
       if (!res.headersSent && !res.writableEnded) {
         if (out === undefined) res.status(204).end();
         else res.json(out);

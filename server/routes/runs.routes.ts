@@ -2,19 +2,29 @@
 import { z } from "zod";
 import { eq } from "drizzle-orm";
 import { defineRoutes, type RouteCall, type RouteDef } from "./route-table";
-import type { AppContext } from "../context";
-import type { RunSummary } from "../../shared/schemas/analysis";
-import { schema } from "../../db/client";
-import { LaunchRunSchema, PatchRunSchema, ReplicateQuerySchema, RunInputsCheckedSchema, CompareRequestSchema } from "../../shared/schemas/api-runs";
-import * as runs from "../services/runs.service";
-import * as bundles from "../services/bundles.service";
-import { accelerationFor, compareLabRuns, createMatchedControl } from "../services/analysis.service";
-import { byDurationCsv, pulseStatsCsv, replicateStatsCsv, summaryCsv } from "../../sim/analysis";
-import { readPulseStats, readReplicateRows } from "../services/run-store";
-import { conflict } from "../http-error";
-import { recordAudit } from "../services/audit.service";
+import type { AppContext } from "@/server/context";
+import type { RunSummary } from "@/shared/schemas/analysis";
+import { schema } from "@/db/client";
+import {
+  LaunchRunSchema,
+  PatchRunSchema,
+  ReplicateQuerySchema,
+  RunInputsCheckedSchema,
+  CompareRequestSchema,
+} from "@/shared/schemas/api-runs";
+import * as runs from "@/server/services/runs.service";
+import * as bundles from "@/server/services/bundles.service";
+import { accelerationFor, compareLabRuns, createMatchedControl } from "@/server/services/analysis.service";
+import { byDurationCsv, pulseStatsCsv, replicateStatsCsv, summaryCsv } from "@/sim/analysis";
+import { readPulseStats, readReplicateRows } from "@/server/compute/run-store";
+import { conflict } from "@/server/http-error";
+import { recordAudit } from "@/server/services/audit.service";
 
-const csvName = (name: string) => name.replace(/[^A-Za-z0-9_.-]+/g, "-").replace(/^-+|-+$/g, "").slice(0, 60) || "run";
+const csvName = (name: string) =>
+  name
+    .replace(/[^A-Za-z0-9_.-]+/g, "-")
+    .replace(/^-+|-+$/g, "")
+    .slice(0, 60) || "run";
 
 type RunRow = ReturnType<typeof runs.getRunRow>;
 
@@ -31,7 +41,11 @@ const finishedSummary = (row: RunRow): RunSummary => {
 };
 
 /** A download of one of the run's exports: GET /runs/:id/export/<file>, named after the run. */
-function exportRoute(file: string, summary: string, make: (ctx: AppContext, row: RunRow) => { suffix: string; text: string }): RouteDef {
+function exportRoute(
+  file: string,
+  summary: string,
+  make: (ctx: AppContext, row: RunRow) => { suffix: string; text: string },
+): RouteDef {
   return {
     method: "get",
     path: `/runs/:id/export/${file}`,
@@ -53,9 +67,20 @@ export const runRoutes = defineRoutes([
     method: "get",
     path: "/labs/:labId/runs",
     access: { kind: "lab", role: "viewer" },
-    query: z.object({ archived: z.enum(["0", "1"]).optional(), status: z.string().optional(), sweepPoints: z.enum(["0", "1"]).optional(), limit: z.coerce.number().int().min(1).max(500).optional() }),
+    query: z.object({
+      archived: z.enum(["0", "1"]).optional(),
+      status: z.string().optional(),
+      sweepPoints: z.enum(["0", "1"]).optional(),
+      limit: z.coerce.number().int().min(1).max(500).optional(),
+    }),
     summary: "The lab's runs, running and queued first, then newest.",
-    handler: ({ ctx, labId, query }) => runs.listRuns(ctx, labId, { archived: query.archived === "1", status: query.status, includeSweepPoints: query.sweepPoints === "1", limit: query.limit }),
+    handler: ({ ctx, labId, query }) =>
+      runs.listRuns(ctx, labId, {
+        archived: query.archived === "1",
+        status: query.status,
+        includeSweepPoints: query.sweepPoints === "1",
+        limit: query.limit,
+      }),
   },
   {
     method: "post",
@@ -63,7 +88,10 @@ export const runRoutes = defineRoutes([
     access: { kind: "lab", role: "editor" },
     body: LaunchRunSchema,
     summary: "Launch a run (queued at once).",
-    handler: (call) => newRun(call, runs.launchRun(call.ctx, call.labId, call.user!.id, call.body), "run.launched", { name: call.body.name }),
+    handler: (call) =>
+      newRun(call, runs.launchRun(call.ctx, call.labId, call.user!.id, call.body), "run.launched", {
+        name: call.body.name,
+      }),
   },
   {
     method: "post",
@@ -72,7 +100,10 @@ export const runRoutes = defineRoutes([
     body: RunInputsCheckedSchema,
     summary: "Cost estimate before launch: events from the ODE path times replicates.",
     handler: ({ ctx, labId, body }) => {
-      const spec = runs.buildSpec(runs.resolveInputs(ctx, labId, body), { ...body.settings, seed: body.settings.seed ?? "estimate" });
+      const spec = runs.buildSpec(runs.resolveInputs(ctx, labId, body), {
+        ...body.settings,
+        seed: body.settings.seed ?? "estimate",
+      });
       return runs.estimate(spec);
     },
   },
@@ -90,7 +121,12 @@ export const runRoutes = defineRoutes([
     access: { kind: "lab", role: "editor" },
     body: z.object({ bundle: z.unknown(), name: z.string().trim().min(1).max(120).optional() }),
     summary: "Import a run bundle and re-run it; the run reports whether it reproduced the bundle's statistics.",
-    handler: (call) => newRun(call, bundles.importBundle(call.ctx, call.labId, call.user!.id, call.body.bundle, call.body.name), "run.imported"),
+    handler: (call) =>
+      newRun(
+        call,
+        bundles.importBundle(call.ctx, call.labId, call.user!.id, call.body.bundle, call.body.name),
+        "run.imported",
+      ),
   },
   {
     method: "get",
@@ -109,7 +145,12 @@ export const runRoutes = defineRoutes([
     access: { kind: "object", resource: "run", role: "viewer" },
     summary: "Server-sent events: progress while the run computes, then one 'ended' event.",
     handler: ({ ctx, params, req, res }) => {
-      res.writeHead(200, { "Content-Type": "text/event-stream", "Cache-Control": "no-store", Connection: "keep-alive", "X-Accel-Buffering": "no" });
+      res.writeHead(200, {
+        "Content-Type": "text/event-stream",
+        "Cache-Control": "no-store",
+        Connection: "keep-alive",
+        "X-Accel-Buffering": "no",
+      });
       const send = (event: string, data: unknown) => res.write(`event: ${event}\ndata: ${JSON.stringify(data)}\n\n`);
       const row = runs.getRunRow(ctx, params.id);
       send("status", { status: row.status, replicatesDone: row.replicatesDone, replicates: row.replicates });
@@ -221,35 +262,77 @@ export const runRoutes = defineRoutes([
     suffix: "pulses.csv",
     text: pulseStatsCsv(readPulseStats(ctx.db, row.id)),
   })),
-  exportRoute("replicate-totals.csv", "CSV of per-replicate totals: events, cap, output mean and variance, pass fraction, median delay and width.", (ctx, row) => ({
-    suffix: "replicates.csv",
-    text: replicateStatsCsv(
-      readPulseStats(ctx.db, row.id),
-      readReplicateRows(ctx.db, row.id).map((r) => ({ replicate: r.replicate, events: r.events, capped: r.capped, outputMean: r.outputMean ?? NaN, outputVar: r.outputVar ?? NaN })),
-    ),
+  exportRoute(
+    "replicate-totals.csv",
+    "CSV of per-replicate totals: events, cap, output mean and variance, pass fraction, median delay and width.",
+    (ctx, row) => ({
+      suffix: "replicates.csv",
+      text: replicateStatsCsv(
+        readPulseStats(ctx.db, row.id),
+        readReplicateRows(ctx.db, row.id).map((r) => ({
+          replicate: r.replicate,
+          events: r.events,
+          capped: r.capped,
+          outputMean: r.outputMean ?? NaN,
+          outputVar: r.outputVar ?? NaN,
+        })),
+      ),
+    }),
+  ),
+  exportRoute("aggregates.csv", "CSV of the aggregates per input pulse duration.", (_ctx, row) => ({
+    suffix: "aggregates.csv",
+    text: byDurationCsv(finishedSummary(row)),
   })),
-  exportRoute("aggregates.csv", "CSV of the aggregates per input pulse duration.", (_ctx, row) => ({ suffix: "aggregates.csv", text: byDurationCsv(finishedSummary(row)) })),
-  exportRoute("headline.csv", "CSV of the run's headline figures (threshold, d50, false-pass rate, delays, noise).", (_ctx, row) => ({ suffix: "headline.csv", text: summaryCsv(finishedSummary(row)) })),
+  exportRoute(
+    "headline.csv",
+    "CSV of the run's headline figures (threshold, d50, false-pass rate, delays, noise).",
+    (_ctx, row) => ({ suffix: "headline.csv", text: summaryCsv(finishedSummary(row)) }),
+  ),
   exportRoute("summary.json", "The JSON summary of the run.", (ctx, row) => {
     const d = runs.runDetail(ctx, row.id);
-    return { suffix: "summary.json", text: JSON.stringify({ id: d.id, name: d.name, status: d.status, seed: d.seed, engineVersion: d.engineVersion, threshold: d.threshold, summary: d.summary }, null, 2) };
+    return {
+      suffix: "summary.json",
+      text: JSON.stringify(
+        {
+          id: d.id,
+          name: d.name,
+          status: d.status,
+          seed: d.seed,
+          engineVersion: d.engineVersion,
+          threshold: d.threshold,
+          summary: d.summary,
+        },
+        null,
+        2,
+      ),
+    };
   }),
-  exportRoute("bundle.json", "The reproduction bundle: circuit, program, settings, seed, engine, Node and V8 versions, statistics hash.", (ctx, row) => ({
-    suffix: "bundle.json",
-    text: JSON.stringify(bundles.makeBundle(ctx, row.id), null, 2),
-  })),
+  exportRoute(
+    "bundle.json",
+    "The reproduction bundle: circuit, program, settings, seed, engine, Node and V8 versions, statistics hash.",
+    (ctx, row) => ({
+      suffix: "bundle.json",
+      text: JSON.stringify(bundles.makeBundle(ctx, row.id), null, 2),
+    }),
+  ),
   {
     method: "post",
     path: "/runs/:id/reproduce",
     access: { kind: "object", resource: "run", role: "editor" },
     summary: "Re-run this run's bundle; the new run reports identical statistics or the first difference.",
-    handler: (call) => newRun(call, bundles.reproduceRun(call.ctx, call.params.id, call.user!.id), "run.reproduced", { of: call.params.id }),
+    handler: (call) =>
+      newRun(call, bundles.reproduceRun(call.ctx, call.params.id, call.user!.id), "run.reproduced", {
+        of: call.params.id,
+      }),
   },
   {
     method: "post",
     path: "/runs/:id/control",
     access: { kind: "object", resource: "run", role: "editor" },
     summary: "Create and launch the matched simple-regulation control (same steady state, program and seed scheme).",
-    handler: (call) => newRun(call, createMatchedControl(call.ctx, call.params.id, call.user!.id), "run.launched", { controlOf: call.params.id }),
+    handler: (call) =>
+      newRun(call, createMatchedControl(call.ctx, call.params.id, call.user!.id), "run.launched", {
+        controlOf: call.params.id,
+      }),
   },
 ]);

@@ -1,8 +1,8 @@
 /** Parameter sweeps: launch, list, detail with per-point figures, cancel, resume, delete. */
 import { defineRoutes } from "./route-table";
-import { LaunchSweepSchema } from "../../shared/schemas/api-runs";
-import * as sweeps from "../services/sweeps.service";
-import { recordAudit } from "../services/audit.service";
+import { LaunchSweepSchema } from "@/shared/schemas/api-runs";
+import * as sweeps from "@/server/services/sweeps.service";
+import { recordAudit } from "@/server/services/audit.service";
 
 export const sweepRoutes = defineRoutes([
   {
@@ -20,7 +20,14 @@ export const sweepRoutes = defineRoutes([
     summary: "Launch a sweep of one or two parameters; each point is a child run.",
     handler: ({ ctx, labId, user, body, res }) => {
       const id = sweeps.launchSweep(ctx, labId, user!.id, body);
-      recordAudit(ctx, { labId, userId: user!.id, action: "sweep.launched", targetType: "sweep", targetId: id, detail: { name: body.name } });
+      recordAudit(ctx, {
+        labId,
+        userId: user!.id,
+        action: "sweep.launched",
+        targetType: "sweep",
+        targetId: id,
+        detail: { name: body.name },
+      });
       res.status(201);
       return sweeps.sweepDetail(ctx, id);
     },
@@ -39,7 +46,13 @@ export const sweepRoutes = defineRoutes([
     summary: "Cancel the sweep's queued and running points.",
     handler: ({ ctx, params, user, labId }) => {
       sweeps.cancelSweep(ctx, params.id);
-      recordAudit(ctx, { labId, userId: user!.id, action: "sweep.cancelled", targetType: "sweep", targetId: params.id });
+      recordAudit(ctx, {
+        labId,
+        userId: user!.id,
+        action: "sweep.cancelled",
+        targetType: "sweep",
+        targetId: params.id,
+      });
       return sweeps.sweepDetail(ctx, params.id);
     },
   },

@@ -1,6 +1,6 @@
 /** Single-cell traces and matching (contract: shared/schemas/api-traces.ts). Logic in services/traces.service.ts and match.service.ts. */
 import { defineRoutes } from "./route-table";
-import { MatchRequestSchema, TraceSetPatchSchema, type TraceSetListItem } from "../../shared/schemas/api-traces";
+import { MatchRequestSchema, TraceSetPatchSchema, type TraceSetListItem } from "@/shared/schemas/api-traces";
 import {
   analyseStored,
   buildTraceSet,
@@ -15,8 +15,8 @@ import {
   traceSetDetail,
   traceUpload,
   updateTraceSet,
-} from "../services/traces.service";
-import { matchDetail, runMatch } from "../services/match.service";
+} from "@/server/services/traces.service";
+import { matchDetail, runMatch } from "@/server/services/match.service";
 
 export const traceRoutes = defineRoutes([
   {
@@ -24,7 +24,8 @@ export const traceRoutes = defineRoutes([
     path: "/labs/:labId/traces/preview",
     access: { kind: "lab", role: "editor" },
     before: [traceUpload],
-    summary: "Parse, check and analyse an uploaded CSV/TSV (multipart: file + options JSON) without storing anything; 400 names the line and column of the first problems.",
+    summary:
+      "Parse, check and analyse an uploaded CSV/TSV (multipart: file + options JSON) without storing anything; 400 names the line and column of the first problems.",
     handler: ({ ctx, req, res, labId }) => {
       try {
         return previewOf(buildTraceSet(ctx, labId, readUpload(req)));
@@ -39,13 +40,20 @@ export const traceRoutes = defineRoutes([
     path: "/labs/:labId/traces",
     access: { kind: "lab", role: "editor" },
     before: [traceUpload],
-    summary: "Upload a trace set (multipart: file + options JSON); stored in one transaction only when the whole file is accepted.",
+    summary:
+      "Upload a trace set (multipart: file + options JSON); stored in one transaction only when the whole file is accepted.",
     handler: ({ ctx, req, res, labId, user }) => {
       try {
         const up = readUpload(req);
         const built = buildTraceSet(ctx, labId, up);
-        const name = up.options.name ?? (up.fileName ? up.fileName.replace(/\.(csv|tsv|txt)$/i, "") : "Uploaded traces");
-        const id = saveTraceSet(ctx, labId, user!.id, { ...built, name, timeUnit: up.options.timeUnit, settings: up.options.settings });
+        const name =
+          up.options.name ?? (up.fileName ? up.fileName.replace(/\.(csv|tsv|txt)$/i, "") : "Uploaded traces");
+        const id = saveTraceSet(ctx, labId, user!.id, {
+          ...built,
+          name,
+          timeUnit: up.options.timeUnit,
+          settings: up.options.settings,
+        });
         res.status(201);
         return traceSetDetail(ctx, id);
       } catch (e) {
@@ -83,7 +91,8 @@ export const traceRoutes = defineRoutes([
     method: "delete",
     path: "/traces/:id",
     access: { kind: "object", resource: "traceSet", role: "editor" },
-    summary: "Delete a trace set; it can be restored for 7 days, then it is purged. Every other route answers 404 for it meanwhile.",
+    summary:
+      "Delete a trace set; it can be restored for 7 days, then it is purged. Every other route answers 404 for it meanwhile.",
     handler: ({ ctx, params, user }) => {
       deleteTraceSet(ctx, user!.id, params.id);
       return undefined;
@@ -115,7 +124,8 @@ export const traceRoutes = defineRoutes([
     path: "/traces/:id/match",
     access: { kind: "object", resource: "traceSet", role: "editor" },
     body: MatchRequestSchema,
-    summary: "Match the traces against a finished run ({runId}) or every finished point of a sweep ({sweepId}); tolerance fixed in the request (default: closest 5%). Stores the match.",
+    summary:
+      "Match the traces against a finished run ({runId}) or every finished point of a sweep ({sweepId}); tolerance fixed in the request (default: closest 5%). Stores the match.",
     handler: ({ ctx, params, body, user, res }) => {
       const id = runMatch(ctx, user!.id, params.id, body);
       res.status(201);

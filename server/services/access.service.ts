@@ -1,8 +1,8 @@
 /** Who may see what: lab membership and the lab that owns an object. */
 import { and, eq } from "drizzle-orm";
-import type { AppContext } from "../context";
-import { schema } from "../../db/client";
-import type { LabRole } from "../routes/route-table";
+import type { AppContext } from "@/server/context";
+import { schema } from "@/db/client";
+import type { LabRole } from "@/shared/schemas/api-accounts";
 
 export type ResourceKind = "run" | "circuit" | "program" | "sweep" | "traceSet" | "match" | "lab";
 
@@ -30,7 +30,11 @@ export function resourceLab(ctx: AppContext, kind: ResourceKind, id: string): st
       row = ctx.db.select({ labId: s.circuits.labId }).from(s.circuits).where(eq(s.circuits.id, id)).get();
       break;
     case "program":
-      row = ctx.db.select({ labId: s.inputPrograms.labId }).from(s.inputPrograms).where(eq(s.inputPrograms.id, id)).get();
+      row = ctx.db
+        .select({ labId: s.inputPrograms.labId })
+        .from(s.inputPrograms)
+        .where(eq(s.inputPrograms.id, id))
+        .get();
       break;
     case "sweep":
       row = ctx.db.select({ labId: s.sweeps.labId }).from(s.sweeps).where(eq(s.sweeps.id, id)).get();

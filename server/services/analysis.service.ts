@@ -3,26 +3,38 @@
  * matched simple-regulation control.
  */
 import { and, desc, eq, inArray, isNull } from "drizzle-orm";
-import type { AppContext } from "../context";
-import { schema } from "../../db/client";
-import type { RunSpec } from "../../shared/schemas/run-spec";
-import type { RunSummary } from "../../shared/schemas/analysis";
-import { accelerationFigures, compareRuns, delaysOf, widthsOf, makeMatchedControl } from "../../sim/analysis";
-import { badRequest, conflict, notFound } from "../http-error";
+import type { AppContext } from "@/server/context";
+import { schema } from "@/db/client";
+import type { RunSpec } from "@/shared/schemas/run-spec";
+import type { RunSummary } from "@/shared/schemas/analysis";
+import { accelerationFigures, compareRuns, delaysOf, widthsOf, makeMatchedControl } from "@/sim/analysis";
+import { badRequest, conflict, notFound } from "@/server/http-error";
 import { checkLimits, getRunRow, insertRun } from "./runs.service";
-import { readPulseStats } from "./run-store";
+import { readPulseStats } from "@/server/compute/run-store";
 
 export function compareLabRuns(ctx: AppContext, labId: string, runIds: string[]) {
-  if (new Set(runIds).size !== runIds.length) throw badRequest("Choose different runs to compare.", [{ path: "runIds", message: "duplicates" }]);
-  const rows = ctx.db.select().from(schema.runs).where(and(eq(schema.runs.labId, labId), inArray(schema.runs.id, runIds))).all();
+  if (new Set(runIds).size !== runIds.length)
+    throw badRequest("Choose different runs to compare.", [{ path: "runIds", message: "duplicates" }]);
+  const rows = ctx.db
+    .select()
+    .from(schema.runs)
+    .where(and(eq(schema.runs.labId, labId), inArray(schema.runs.id, runIds)))
+    .all();
   for (const id of runIds) if (!rows.some((r) => r.id === id)) throw notFound(`Run ${id}`);
   const ordered = runIds.map((id) => rows.find((r) => r.id === id)!);
   const unfinished = ordered.filter((r) => !r.summary);
-  if (unfinished.length) throw conflict(`These runs have no results yet: ${unfinished.map((r) => r.name).join(", ")}.`, "not_finished");
+  if (unfinished.length)
+    throw conflict(`These runs have no results yet: ${unfinished.map((r) => r.name).join(", ")}.`, "not_finished");
   return compareRuns(
     ordered.map((r) => {
       const pulses = readPulseStats(ctx.db, r.id);
-      return { id: r.id, name: r.name, summary: r.summary as RunSummary, delays: delaysOf(pulses), widths: widthsOf(pulses) };
+      return {
+        id: r.id,
+        name: r.name,
+        summary: r.summary as RunSummary,
+        delays: delaysOf(pulses),
+        widths: widthsOf(pulses),
+      };
     }),
   );
 }
@@ -50,7 +62,6 @@ export function createMatchedControl(ctx: AppContext, runId: string, userId: str
   return id;
 }
 
-
 /**
  * Acceleration and delay against the matched control, when the run has a
  * finished control (or is one): T1/2 ratio and median delays, circuit minus control.
@@ -59,7 +70,15 @@ export function accelerationFor(ctx: AppContext, runId: string) {
   const row = getRunRow(ctx, runId);
   const pair = row.controlOf
     ? { circuit: ctx.db.select().from(schema.runs).where(eq(schema.runs.id, row.controlOf)).get(), control: row }
-    : { circuit: row, control: ctx.db.select().from(schema.runs).where(and(eq(schema.runs.controlOf, row.id), isNull(schema.runs.deletedAt))).orderBy(desc(schema.runs.createdAt)).get() };
+    : {
+        circuit: row,
+        control: ctx.db
+          .select()
+          .from(schema.runs)
+          .where(and(eq(schema.runs.controlOf, row.id), isNull(schema.runs.deletedAt)))
+          .orderBy(desc(schema.runs.createdAt))
+          .get(),
+      };
   if (!pair.circuit?.summary || !pair.control?.summary) return null;
   return {
     circuitRunId: pair.circuit.id,

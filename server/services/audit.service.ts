@@ -3,8 +3,8 @@
  * One row per event in `audit_events`; lab owners read their lab's trail.
  */
 import { and, desc, eq, lt } from "drizzle-orm";
-import type { AppContext } from "../context";
-import { schema } from "../../db/client";
+import type { AppContext } from "@/server/context";
+import { schema } from "@/db/client";
 
 /** Actions in use; others may be added (the column is free text). */
 export type AuditAction =
@@ -65,7 +65,11 @@ export function recordAudit(ctx: Pick<AppContext, "db">, e: AuditInput): void {
 }
 
 /** A lab's events, newest first; `beforeId` pages back. */
-export function listAudit(ctx: Pick<AppContext, "db">, labId: string, opts: { limit?: number; beforeId?: number } = {}): AuditEvent[] {
+export function listAudit(
+  ctx: Pick<AppContext, "db">,
+  labId: string,
+  opts: { limit?: number; beforeId?: number } = {},
+): AuditEvent[] {
   const a = schema.auditEvents;
   const rows = ctx.db
     .select({

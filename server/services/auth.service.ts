@@ -3,19 +3,18 @@
  * passport live in server/middleware/session.ts; routes in auth.routes.ts.
  */
 import { count, eq } from "drizzle-orm";
-import type { AppContext } from "../context";
-import { schema } from "../../db/client";
-import { newId } from "../ids";
-import { badRequest, conflict } from "../http-error";
-import type { SessionUser } from "../routes/route-table";
+import type { AppContext } from "@/server/context";
+import { schema } from "@/db/client";
+import { newId } from "@/server/ids";
+import { badRequest, conflict } from "@/server/http-error";
+import type { SessionUser, MeUser } from "@/shared/schemas/api-accounts";
 import { hashPassword, verifyPassword } from "./password";
 import { createToken, findValidToken, markTokenUsed } from "./tokens.service";
-import type { MeUser } from "../../shared/schemas/api-accounts";
 
 /** What the account functions need (the admin CLI has no mailer or queue). */
 export type AccountsCtx = Pick<AppContext, "db" | "sqlite" | "env">;
 
-export { PASSWORD_MIN_LENGTH, PASSWORD_MAX_LENGTH } from "../../shared/schemas/auth";
+export { PASSWORD_MIN_LENGTH, PASSWORD_MAX_LENGTH } from "@/shared/schemas/auth";
 
 /** The signed-in user as the API shows it (contract: shared/schemas/api-accounts.ts). */
 export type { MeUser };
@@ -28,7 +27,11 @@ let dummyHash: Promise<string> | null = null;
 
 /** The user for these credentials, or null. Takes about as long whether or not the e-mail exists. */
 export async function checkCredentials(ctx: AccountsCtx, email: string, password: string): Promise<SessionUser | null> {
-  const u = ctx.db.select().from(schema.users).where(eq(schema.users.email, normalizeEmail(email))).get();
+  const u = ctx.db
+    .select()
+    .from(schema.users)
+    .where(eq(schema.users.email, normalizeEmail(email)))
+    .get();
   if (!u || !u.passwordHash) {
     dummyHash ??= hashPassword("not-a-real-password");
     await verifyPassword(password, await dummyHash);
@@ -39,13 +42,25 @@ export async function checkCredentials(ctx: AccountsCtx, email: string, password
 }
 
 export function findUserByEmail(ctx: AccountsCtx, email: string) {
-  return ctx.db.select().from(schema.users).where(eq(schema.users.email, normalizeEmail(email))).get() ?? null;
+  return (
+    ctx.db
+      .select()
+      .from(schema.users)
+      .where(eq(schema.users.email, normalizeEmail(email)))
+      .get() ?? null
+  );
 }
 
 export function meUser(ctx: AccountsCtx, userId: string): MeUser | null {
   const u = ctx.db.select().from(schema.users).where(eq(schema.users.id, userId)).get();
   if (!u) return null;
-  return { id: u.id, email: u.email, displayName: u.displayName, isSiteAdmin: u.isSiteAdmin, notifyOnRunEnd: u.notifyOnRunEnd };
+  return {
+    id: u.id,
+    email: u.email,
+    displayName: u.displayName,
+    isSiteAdmin: u.isSiteAdmin,
+    notifyOnRunEnd: u.notifyOnRunEnd,
+  };
 }
 
 export function userCount(ctx: AccountsCtx): number {
@@ -66,12 +81,30 @@ export async function createAccount(
   const now = new Date();
   const id = newId("usr_");
   ctx.sqlite.transaction(() => {
-    if (findUserByEmail(ctx, email)) throw conflict("An account with this e-mail address already exists. Sign in, or reset the password.", "email_taken");
+    if (findUserByEmail(ctx, email))
+      throw conflict(
+        "An account with this e-mail address already exists. Sign in, or reset the password.",
+        "email_taken",
+      );
     const first = userCount(ctx) === 0;
-    ctx.db.insert(schema.users).values({ id, email, displayName: input.displayName.trim(), passwordHash, isSiteAdmin: first, notifyOnRunEnd: true, createdAt: now }).run();
+    ctx.db
+      .insert(schema.users)
+      .values({
+        id,
+        email,
+        displayName: input.displayName.trim(),
+        passwordHash,
+        isSiteAdmin: first,
+        notifyOnRunEnd: true,
+        createdAt: now,
+      })
+      .run();
     if (input.ownLab) {
       const labId = newId("lab_");
-      ctx.db.insert(schema.labs).values({ id: labId, name: `${input.displayName.trim()}'s lab`, createdAt: now }).run();
+      ctx.db
+        .insert(schema.labs)
+        .values({ id: labId, name: `${input.displayName.trim()}'s lab`, createdAt: now })
+        .run();
       ctx.db.insert(schema.memberships).values({ labId, userId: id, role: "owner", createdAt: now }).run();
     }
   })();
@@ -79,7 +112,11 @@ export async function createAccount(
 }
 
 export async function setPassword(ctx: AccountsCtx, userId: string, password: string): Promise<void> {
-  ctx.db.update(schema.users).set({ passwordHash: await hashPassword(password) }).where(eq(schema.users.id, userId)).run();
+  ctx.db
+    .update(schema.users)
+    .set({ passwordHash: await hashPassword(password) })
+    .where(eq(schema.users.id, userId))
+    .run();
 }
 
 /** Sends a reset link when the address has an account; silent otherwise (the caller always answers 200). */
@@ -107,21 +144,36 @@ export async function requestPasswordReset(ctx: AppContext, email: string): Prom
 /** Sets a new password with a reset or set-up token; returns the user id. */
 export async function confirmPasswordReset(ctx: AccountsCtx, token: string, password: string): Promise<string> {
   const row = findValidToken(ctx, token, ["reset", "setup"]);
-  if (!row || !row.userId) throw badRequest("This reset link is not valid or has expired. Ask for a new one.", undefined, "invalid_token");
-  if (!markTokenUsed(ctx, row.tokenHash)) throw badRequest("This reset link has already been used.", undefined, "invalid_token");
+  if (!row || !row.userId)
+    throw badRequest("This reset link is not valid or has expired. Ask for a new one.", undefined, "invalid_token");
+  if (!markTokenUsed(ctx, row.tokenHash))
+    throw badRequest("This reset link has already been used.", undefined, "invalid_token");
   await setPassword(ctx, row.userId, password);
   return row.userId;
 }
 
-export async function changePassword(ctx: AccountsCtx, userId: string, currentPassword: string, newPassword: string): Promise<void> {
+export async function changePassword(
+  ctx: AccountsCtx,
+  userId: string,
+  currentPassword: string,
+  newPassword: string,
+): Promise<void> {
   const u = ctx.db.select().from(schema.users).where(eq(schema.users.id, userId)).get();
   if (!u || !(await verifyPassword(currentPassword, u.passwordHash))) {
-    throw badRequest("The current password is not right.", [{ path: "currentPassword", message: "Not right." }], "wrong_password");
+    throw badRequest(
+      "The current password is not right.",
+      [{ path: "currentPassword", message: "Not right." }],
+      "wrong_password",
+    );
   }
   await setPassword(ctx, userId, newPassword);
 }
 
-export function updateProfile(ctx: AccountsCtx, userId: string, patch: { displayName?: string; notifyOnRunEnd?: boolean }): MeUser {
+export function updateProfile(
+  ctx: AccountsCtx,
+  userId: string,
+  patch: { displayName?: string; notifyOnRunEnd?: boolean },
+): MeUser {
   const set: Partial<typeof schema.users.$inferInsert> = {};
   if (patch.displayName !== undefined) set.displayName = patch.displayName.trim();
   if (patch.notifyOnRunEnd !== undefined) set.notifyOnRunEnd = patch.notifyOnRunEnd;
@@ -133,7 +185,10 @@ export function updateProfile(ctx: AccountsCtx, userId: string, patch: { display
  * Creates the user if needed, makes them site admin, and returns a one-time
  * set-password link (for `npm run admin -- create <email>`).
  */
-export async function createSiteAdmin(ctx: AccountsCtx, email: string): Promise<{ userId: string; created: boolean; link: string }> {
+export async function createSiteAdmin(
+  ctx: AccountsCtx,
+  email: string,
+): Promise<{ userId: string; created: boolean; link: string }> {
   let u = findUserByEmail(ctx, email);
   let created = false;
   if (!u) {

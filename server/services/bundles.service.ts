@@ -4,15 +4,14 @@
  * first difference (when the original run is in this database).
  */
 import { eq } from "drizzle-orm";
-import type { AppContext } from "../context";
-import { schema } from "../../db/client";
-import { BUNDLE_FORMAT, RunBundleSchema, type RunBundle } from "../../shared/schemas/bundle";
-import type { RunSpec } from "../../shared/schemas/run-spec";
-import { validateCircuit } from "../../sim";
-import { badRequest } from "../http-error";
-import { parseOr400 } from "../middleware/validate";
+import type { AppContext } from "@/server/context";
+import { schema } from "@/db/client";
+import { BUNDLE_FORMAT, RunBundleSchema, type RunBundle } from "@/shared/schemas/bundle";
+import type { RunSpec } from "@/shared/schemas/run-spec";
+import { validateCircuit } from "@/sim";
+import { badRequest, parseOr400 } from "@/server/http-error";
 import { checkLimits, getRunRow, insertRun } from "./runs.service";
-import { firstDifference } from "./run-store";
+import { firstDifference } from "@/server/compute/run-store";
 
 export function makeBundle(ctx: AppContext, runId: string): RunBundle {
   const row = getRunRow(ctx, runId);
@@ -33,7 +32,11 @@ export function makeBundle(ctx: AppContext, runId: string): RunBundle {
 export function importBundle(ctx: AppContext, labId: string, userId: string, raw: unknown, name?: string): string {
   const bundle = parseOr400(RunBundleSchema, raw, "bundle");
   const v = validateCircuit(bundle.spec.circuit);
-  if (!v.ok) throw badRequest(`The bundle's circuit is not valid: ${v.errors.map((e) => `${e.path}: ${e.message}`).join("; ")}`, v.errors.map((e) => ({ path: `bundle.spec.circuit.${e.path}`, message: e.message })));
+  if (!v.ok)
+    throw badRequest(
+      `The bundle's circuit is not valid: ${v.errors.map((e) => `${e.path}: ${e.message}`).join("; ")}`,
+      v.errors.map((e) => ({ path: `bundle.spec.circuit.${e.path}`, message: e.message })),
+    );
   checkLimits(bundle.spec);
   const id = insertRun(ctx, {
     labId,
@@ -42,7 +45,11 @@ export function importBundle(ctx: AppContext, labId: string, userId: string, raw
     spec: bundle.spec,
     userId,
   });
-  ctx.db.update(schema.runs).set({ reproduceOf: "bundle", expectedStatsHash: bundle.statsHash, expectedEngineVersion: bundle.engineVersion }).where(eq(schema.runs.id, id)).run();
+  ctx.db
+    .update(schema.runs)
+    .set({ reproduceOf: "bundle", expectedStatsHash: bundle.statsHash, expectedEngineVersion: bundle.engineVersion })
+    .where(eq(schema.runs.id, id))
+    .run();
   ctx.queue.kick();
   return id;
 }
@@ -57,7 +64,11 @@ export function reproduceRun(ctx: AppContext, runId: string, userId: string): st
     userId,
     inputs: { circuitId: row.circuitId, circuitVersion: row.circuitVersion, programId: row.programId },
   });
-  ctx.db.update(schema.runs).set({ reproduceOf: row.id, expectedStatsHash: row.statsHash, expectedEngineVersion: row.engineVersion }).where(eq(schema.runs.id, id)).run();
+  ctx.db
+    .update(schema.runs)
+    .set({ reproduceOf: row.id, expectedStatsHash: row.statsHash, expectedEngineVersion: row.engineVersion })
+    .where(eq(schema.runs.id, id))
+    .run();
   ctx.queue.kick();
   return id;
 }
@@ -78,12 +89,34 @@ export function reproductionStatus(ctx: AppContext, runId: string): Reproduction
   if (!row.reproduceOf) return null;
   // The engine that computed this run against the one that computed the original.
   const engineMatches = row.engineVersion === (row.expectedEngineVersion ?? row.engineVersion);
-  if (!row.statsHash) return { of: row.reproduceOf, expectedHash: row.expectedStatsHash, actualHash: null, identical: null, firstDifference: null, engineMatches, message: "The reproduction is still computing." };
-  if (!row.expectedStatsHash) return { of: row.reproduceOf, expectedHash: null, actualHash: row.statsHash, identical: null, firstDifference: null, engineMatches, message: "The original had no statistics hash (it had not finished), so there is nothing to compare with." };
+  if (!row.statsHash)
+    return {
+      of: row.reproduceOf,
+      expectedHash: row.expectedStatsHash,
+      actualHash: null,
+      identical: null,
+      firstDifference: null,
+      engineMatches,
+      message: "The reproduction is still computing.",
+    };
+  if (!row.expectedStatsHash)
+    return {
+      of: row.reproduceOf,
+      expectedHash: null,
+      actualHash: row.statsHash,
+      identical: null,
+      firstDifference: null,
+      engineMatches,
+      message: "The original had no statistics hash (it had not finished), so there is nothing to compare with.",
+    };
   const identical = row.statsHash === row.expectedStatsHash;
   let diff: string | null = null;
   if (!identical && row.reproduceOf !== "bundle") {
-    const original = ctx.db.select({ id: schema.runs.id }).from(schema.runs).where(eq(schema.runs.id, row.reproduceOf)).get();
+    const original = ctx.db
+      .select({ id: schema.runs.id })
+      .from(schema.runs)
+      .where(eq(schema.runs.id, row.reproduceOf))
+      .get();
     if (original) diff = firstDifference(ctx.db, row.reproduceOf, row.id);
   }
   return {

@@ -5,14 +5,14 @@
  */
 import { and, desc, eq, isNotNull, isNull, ne, sql } from "drizzle-orm";
 import type { ZodType } from "zod";
-import type { AppContext } from "../context";
-import { schema } from "../../db/client";
-import { newId } from "../ids";
-import { badRequest, conflict, notFound } from "../http-error";
+import type { AppContext } from "@/server/context";
+import { schema } from "@/db/client";
+import { newId } from "@/server/ids";
+import { badRequest, conflict, notFound } from "@/server/http-error";
 import { recordAudit } from "./audit.service";
-import { findFeedForwardLoops, wiringOf } from "./feed-forward";
-import { listParameters, templates, validateCircuit } from "../../sim";
-import { CircuitSchema, type Circuit } from "../../shared/schemas/circuit";
+import { findFeedForwardLoops, wiringOf } from "@/sim/circuit/feed-forward";
+import { listParameters, templates, validateCircuit } from "@/sim";
+import { CircuitSchema, type Circuit } from "@/shared/schemas/circuit";
 import {
   TEMPLATE_KEYS,
   type CheckCircuitResponse,
@@ -22,7 +22,7 @@ import {
   type FieldError,
   type Template,
   type TemplateKey,
-} from "../../shared/schemas/api-circuits";
+} from "@/shared/schemas/api-circuits";
 
 const c = schema.circuits;
 const v = schema.circuitVersions;
@@ -51,14 +51,19 @@ export function parseCircuitRequest<T>(zschema: ZodType<T>, raw: unknown, bodyKe
     const path = i.path.map(String).join(".");
     return { path, message: nameItem(circuitRaw, i.path.slice(1), i.path[0] === bodyKey) + i.message };
   });
-  throw badRequest(`Invalid request: ${fields.map((f) => `${f.path || "body"}: ${f.message}`).join("; ")}`, fields, "invalid");
+  throw badRequest(
+    `Invalid request: ${fields.map((f) => `${f.path || "body"}: ${f.message}`).join("; ")}`,
+    fields,
+    "invalid",
+  );
 }
 
 function nameItem(circuitRaw: unknown, rest: readonly PropertyKey[], inBody: boolean): string {
   if (!inBody || rest.length < 2 || typeof rest[1] !== "number") return "";
   const list = rest[0];
   if (list !== "reactions" && list !== "species" && list !== "signals") return "";
-  const item = (circuitRaw as Record<string, unknown[]> | null)?.[list]?.[rest[1] as number] as { name?: unknown } | undefined;
+  const item = (circuitRaw as Record<string, unknown[]> | null)?.[list]?.[rest[1] as number] as
+    { name?: unknown } | undefined;
   const what = list === "reactions" ? "reaction" : list === "species" ? "species" : "signal";
   return typeof item?.name === "string" && item.name ? `${what} "${item.name}": ` : `${what} ${rest[1] as number}: `;
 }
@@ -72,7 +77,10 @@ function assertSemanticallyValid(body: Circuit, prefix = "body"): void {
 function semanticFieldErrors(body: unknown, prefix: string): FieldError[] {
   const r = validateCircuit(body);
   if (r.ok) return [];
-  return r.errors.map((e: { path: string; message: string }) => ({ path: [prefix, dotPath(e.path)].filter(Boolean).join("."), message: e.message }));
+  return r.errors.map((e: { path: string; message: string }) => ({
+    path: [prefix, dotPath(e.path)].filter(Boolean).join("."),
+    message: e.message,
+  }));
 }
 
 /** Live check for the editor: zod + semantic checks, never throws for a bad body. */
@@ -96,7 +104,14 @@ export function listTemplates(): Template[] {
   return TEMPLATE_KEYS.map((key) => {
     const t = templates[key];
     const circuit = CircuitSchema.parse(t.circuit);
-    return { key, title: t.title, description: t.description, circuit, inputSignal: t.inputSignal, feedForward: findFeedForwardLoops(circuit)[0] ?? null };
+    return {
+      key,
+      title: t.title,
+      description: t.description,
+      circuit,
+      inputSignal: t.inputSignal,
+      feedForward: findFeedForwardLoops(circuit)[0] ?? null,
+    };
   });
 }
 
@@ -110,11 +125,18 @@ type CircuitRow = typeof c.$inferSelect;
 
 function userName(ctx: AppContext, userId: string | null): string | null {
   if (!userId) return null;
-  return ctx.db.select({ n: schema.users.displayName }).from(schema.users).where(eq(schema.users.id, userId)).get()?.n ?? null;
+  return (
+    ctx.db.select({ n: schema.users.displayName }).from(schema.users).where(eq(schema.users.id, userId)).get()?.n ??
+    null
+  );
 }
 
 function currentBody(ctx: AppContext, row: CircuitRow): Circuit {
-  const ver = ctx.db.select().from(v).where(and(eq(v.circuitId, row.id), eq(v.version, row.currentVersion))).get();
+  const ver = ctx.db
+    .select()
+    .from(v)
+    .where(and(eq(v.circuitId, row.id), eq(v.version, row.currentVersion)))
+    .get();
   if (!ver) throw new Error(`circuit ${row.id} has no version ${row.currentVersion}`);
   return CircuitSchema.parse(ver.body);
 }
@@ -172,18 +194,34 @@ export function getCircuitDetail(ctx: AppContext, id: string): CircuitDetailResp
   return {
     circuit: summarize(ctx, row, body),
     body,
-    versions: versions.map((x) => ({ version: x.version, note: x.note ?? null, createdAt: x.createdAt.toISOString(), createdByName: x.createdByName ?? null })),
+    versions: versions.map((x) => ({
+      version: x.version,
+      note: x.note ?? null,
+      createdAt: x.createdAt.toISOString(),
+      createdByName: x.createdByName ?? null,
+    })),
     wiring,
     feedForward: loops[0] ?? null,
     feedForwardLoops: loops,
-    parameters: listParameters(body).map((p: { ref: string; label: string; value: number; unit: string }) => ({ ref: p.ref, label: p.label, value: p.value, unit: p.unit })),
+    parameters: listParameters(body).map((p: { ref: string; label: string; value: number; unit: string }) => ({
+      ref: p.ref,
+      label: p.label,
+      value: p.value,
+      unit: p.unit,
+    })),
   };
 }
 
 export function getCircuitVersion(ctx: AppContext, id: string, version: number): CircuitVersionResponse {
   const row = getRow(ctx, id);
   const ver = ctx.db
-    .select({ version: v.version, note: v.note, body: v.body, createdAt: v.createdAt, createdByName: schema.users.displayName })
+    .select({
+      version: v.version,
+      note: v.note,
+      body: v.body,
+      createdAt: v.createdAt,
+      createdByName: schema.users.displayName,
+    })
     .from(v)
     .leftJoin(schema.users, eq(schema.users.id, v.createdBy))
     .where(and(eq(v.circuitId, id), eq(v.version, version)))
@@ -226,7 +264,11 @@ function assertNameFree(ctx: AppContext, labId: string, name: string, exceptId?:
 /** A free name: `base`, else "base (copy)", "base (copy 2)", ... */
 function freeName(ctx: AppContext, labId: string, base: string): string {
   const taken = (n: string) =>
-    !!ctx.db.select({ id: c.id }).from(c).where(and(eq(c.labId, labId), isNull(c.archivedAt), sql`lower(${c.name}) = lower(${n})`)).get();
+    !!ctx.db
+      .select({ id: c.id })
+      .from(c)
+      .where(and(eq(c.labId, labId), isNull(c.archivedAt), sql`lower(${c.name}) = lower(${n})`))
+      .get();
   const stem = base.length > 100 ? base.slice(0, 100) : base;
   for (let i = 1; ; i++) {
     const n = i === 1 ? `${stem} (copy)` : `${stem} (copy ${i})`;
@@ -253,24 +295,47 @@ export interface CreateCircuitInput {
 export function createCircuit(ctx: AppContext, actor: Actor, labId: string, input: CreateCircuitInput): string {
   const name = input.name.trim();
   const base = input.body ?? (input.template ? templateCircuit(input.template) : undefined);
-  if (!base) throw badRequest("Give a circuit body or a template key.", [{ path: "body", message: "give a circuit body or a template key" }], "invalid");
+  if (!base)
+    throw badRequest(
+      "Give a circuit body or a template key.",
+      [{ path: "body", message: "give a circuit body or a template key" }],
+      "invalid",
+    );
   const body: Circuit = { ...base, name };
   assertSemanticallyValid(body);
-  const note = input.note?.trim() || (input.body ? "Created" : `Created from the template "${templates[input.template!].title}"`);
+  const note =
+    input.note?.trim() || (input.body ? "Created" : `Created from the template "${templates[input.template!].title}"`);
   const id = newId("cir_");
   const now = new Date();
   ctx.db.transaction((tx) => {
     assertNameFree({ ...ctx, db: tx as unknown as AppContext["db"] }, labId, name);
-    tx.insert(c).values({ id, labId, name, currentVersion: 1, createdBy: actor.userId, createdAt: now, updatedAt: now, archivedAt: null, demoKey: input.demoKey ?? null }).run();
+    tx.insert(c)
+      .values({
+        id,
+        labId,
+        name,
+        currentVersion: 1,
+        createdBy: actor.userId,
+        createdAt: now,
+        updatedAt: now,
+        archivedAt: null,
+        demoKey: input.demoKey ?? null,
+      })
+      .run();
     tx.insert(v).values({ circuitId: id, version: 1, body, note, createdBy: actor.userId, createdAt: now }).run();
-    recordAudit({ db: tx as unknown as AppContext["db"] }, {
-      labId,
-      userId: actor.userId,
-      action: input.copiedFrom ? "circuit.duplicated" : "circuit.created",
-      targetType: "circuit",
-      targetId: id,
-      detail: input.copiedFrom ? { name, from: input.copiedFrom.id, fromVersion: input.copiedFrom.version } : { name, template: input.template ?? null },
-    });
+    recordAudit(
+      { db: tx as unknown as AppContext["db"] },
+      {
+        labId,
+        userId: actor.userId,
+        action: input.copiedFrom ? "circuit.duplicated" : "circuit.created",
+        targetType: "circuit",
+        targetId: id,
+        detail: input.copiedFrom
+          ? { name, from: input.copiedFrom.id, fromVersion: input.copiedFrom.version }
+          : { name, template: input.template ?? null },
+      },
+    );
   });
   return id;
 }
@@ -299,7 +364,16 @@ export function updateCircuit(ctx: AppContext, actor: Actor, id: string, input: 
     assertSemanticallyValid(body);
     const version = row.currentVersion + 1;
     const now = new Date();
-    tx.insert(v).values({ circuitId: id, version, body, note: input.note?.trim() || null, createdBy: actor.userId, createdAt: now }).run();
+    tx.insert(v)
+      .values({
+        circuitId: id,
+        version,
+        body,
+        note: input.note?.trim() || null,
+        createdBy: actor.userId,
+        createdAt: now,
+      })
+      .run();
     tx.update(c).set({ currentVersion: version, name, updatedAt: now }).where(eq(c.id, id)).run();
     recordAudit(txCtx, {
       labId: row.labId,
@@ -331,8 +405,18 @@ export function setCircuitArchived(ctx: AppContext, actor: Actor, id: string, ar
     const row = getRow(txCtx, id);
     if (!!row.archivedAt === archived) return;
     if (!archived) assertNameFree(txCtx, row.labId, row.name, id);
-    tx.update(c).set({ archivedAt: archived ? new Date() : null }).where(eq(c.id, id)).run();
-    recordAudit(txCtx, { labId: row.labId, userId: actor.userId, action: archived ? "circuit.archived" : "circuit.unarchived", targetType: "circuit", targetId: id, detail: { name: row.name } });
+    tx.update(c)
+      .set({ archivedAt: archived ? new Date() : null })
+      .where(eq(c.id, id))
+      .run();
+    recordAudit(txCtx, {
+      labId: row.labId,
+      userId: actor.userId,
+      action: archived ? "circuit.archived" : "circuit.unarchived",
+      targetType: "circuit",
+      targetId: id,
+      detail: { name: row.name },
+    });
   });
   const row = getRow(ctx, id);
   return summarize(ctx, row, currentBody(ctx, row));

@@ -4,15 +4,23 @@
  * least one owner.
  */
 import { and, asc, count, eq, gt, isNull } from "drizzle-orm";
-import type { AppContext } from "../context";
-import { schema } from "../../db/client";
-import { newId } from "../ids";
-import { badRequest, conflict, forbidden, notFound } from "../http-error";
-import { roleAtLeast, type LabRole } from "../routes/route-table";
+import type { AppContext } from "@/server/context";
+import { schema } from "@/db/client";
+import { newId } from "@/server/ids";
+import { badRequest, conflict, forbidden, notFound } from "@/server/http-error";
+import {
+  roleAtLeast,
+  type LabRole,
+  InvitationOffer,
+  InvitationSent,
+  JoinedLab,
+  LabDetail,
+  LabSummary,
+  PendingInvitation,
+} from "@/shared/schemas/api-accounts";
 import { recordAudit } from "./audit.service";
 import { normalizeEmail } from "./auth.service";
 import { createToken, findValidToken, markTokenUsed, type TokenRow } from "./tokens.service";
-import type { InvitationOffer, InvitationSent, JoinedLab, LabDetail, LabSummary, PendingInvitation } from "../../shared/schemas/api-accounts";
 
 export type { LabSummary };
 
@@ -29,12 +37,20 @@ export function labsOf(ctx: AppContext, userId: string): LabSummary[] {
 }
 
 function memberCount(ctx: AppContext, labId: string): number {
-  return ctx.db.select({ n: count() }).from(schema.memberships).where(eq(schema.memberships.labId, labId)).get()?.n ?? 0;
+  return (
+    ctx.db.select({ n: count() }).from(schema.memberships).where(eq(schema.memberships.labId, labId)).get()?.n ?? 0
+  );
 }
 
 function ownerCount(ctx: AppContext, labId: string): number {
   const m = schema.memberships;
-  return ctx.db.select({ n: count() }).from(m).where(and(eq(m.labId, labId), eq(m.role, "owner"))).get()?.n ?? 0;
+  return (
+    ctx.db
+      .select({ n: count() })
+      .from(m)
+      .where(and(eq(m.labId, labId), eq(m.role, "owner")))
+      .get()?.n ?? 0
+  );
 }
 
 export function createLab(ctx: AppContext, userId: string, name: string): LabSummary {
@@ -43,7 +59,14 @@ export function createLab(ctx: AppContext, userId: string, name: string): LabSum
   ctx.sqlite.transaction(() => {
     ctx.db.insert(schema.labs).values({ id, name: name.trim(), createdAt: now }).run();
     ctx.db.insert(schema.memberships).values({ labId: id, userId, role: "owner", createdAt: now }).run();
-    recordAudit(ctx, { labId: id, userId, action: "lab.created", targetType: "lab", targetId: id, detail: { name: name.trim() } });
+    recordAudit(ctx, {
+      labId: id,
+      userId,
+      action: "lab.created",
+      targetType: "lab",
+      targetId: id,
+      detail: { name: name.trim() },
+    });
   })();
   return { id, name: name.trim(), role: "owner", memberCount: 1 };
 }
@@ -53,7 +76,13 @@ export function labDetail(ctx: AppContext, labId: string): LabDetail {
   if (!lab) throw notFound("That lab");
   const m = schema.memberships;
   const members = ctx.db
-    .select({ userId: m.userId, email: schema.users.email, displayName: schema.users.displayName, role: m.role, joinedAt: m.createdAt })
+    .select({
+      userId: m.userId,
+      email: schema.users.email,
+      displayName: schema.users.displayName,
+      role: m.role,
+      joinedAt: m.createdAt,
+    })
     .from(m)
     .innerJoin(schema.users, eq(schema.users.id, m.userId))
     .where(eq(m.labId, labId))
@@ -72,7 +101,14 @@ export function renameLab(ctx: AppContext, userId: string, labId: string, name: 
   const before = ctx.db.select().from(schema.labs).where(eq(schema.labs.id, labId)).get();
   if (!before) throw notFound("That lab");
   ctx.db.update(schema.labs).set({ name: name.trim() }).where(eq(schema.labs.id, labId)).run();
-  recordAudit(ctx, { labId, userId, action: "lab.renamed", targetType: "lab", targetId: labId, detail: { from: before.name, to: name.trim() } });
+  recordAudit(ctx, {
+    labId,
+    userId,
+    action: "lab.renamed",
+    targetType: "lab",
+    targetId: labId,
+    detail: { from: before.name, to: name.trim() },
+  });
 }
 
 /** Deletes the lab and everything in it (foreign keys cascade). */
@@ -81,13 +117,26 @@ export function deleteLab(ctx: AppContext, userId: string, labId: string): void 
   if (!lab) throw notFound("That lab");
   ctx.sqlite.transaction(() => {
     ctx.db.delete(schema.labs).where(eq(schema.labs.id, labId)).run();
-    recordAudit(ctx, { labId, userId, action: "lab.deleted", targetType: "lab", targetId: labId, detail: { name: lab.name } });
+    recordAudit(ctx, {
+      labId,
+      userId,
+      action: "lab.deleted",
+      targetType: "lab",
+      targetId: labId,
+      detail: { name: lab.name },
+    });
   })();
 }
 
 // ------------------------------------------------------------ invitations
 
-export async function inviteMember(ctx: AppContext, inviter: { id: string; displayName: string }, labId: string, emailIn: string, role: LabRole): Promise<InvitationSent> {
+export async function inviteMember(
+  ctx: AppContext,
+  inviter: { id: string; displayName: string },
+  labId: string,
+  emailIn: string,
+  role: LabRole,
+): Promise<InvitationSent> {
   const lab = ctx.db.select().from(schema.labs).where(eq(schema.labs.id, labId)).get();
   if (!lab) throw notFound("That lab");
   const email = normalizeEmail(emailIn);
@@ -99,7 +148,14 @@ export async function inviteMember(ctx: AppContext, inviter: { id: string; displ
     .get();
   if (existing) throw conflict(`${email} is already a member of this lab (${existing.role}).`, "already_member");
   const { token, expiresAt } = createToken(ctx, { purpose: "invite", labId, email, role, createdBy: inviter.id });
-  recordAudit(ctx, { labId, userId: inviter.id, action: "member.invited", targetType: "invitation", targetId: email, detail: { email, role } });
+  recordAudit(ctx, {
+    labId,
+    userId: inviter.id,
+    action: "member.invited",
+    targetType: "invitation",
+    targetId: email,
+    detail: { email, role },
+  });
   const link = `${ctx.env.baseUrl}/invite?token=${encodeURIComponent(token)}`;
   await ctx.mailer.send({
     to: email,
@@ -122,13 +178,25 @@ export async function inviteMember(ctx: AppContext, inviter: { id: string; displ
 export function pendingInvitations(ctx: AppContext, labId: string): PendingInvitation[] {
   const t = schema.tokens;
   const rows = ctx.db
-    .select({ tokenHash: t.tokenHash, email: t.email, role: t.role, expiresAt: t.expiresAt, createdAt: t.createdAt, invitedBy: schema.users.displayName })
+    .select({
+      tokenHash: t.tokenHash,
+      email: t.email,
+      role: t.role,
+      expiresAt: t.expiresAt,
+      createdAt: t.createdAt,
+      invitedBy: schema.users.displayName,
+    })
     .from(t)
     .leftJoin(schema.users, eq(schema.users.id, t.createdBy))
     .where(and(eq(t.purpose, "invite"), eq(t.labId, labId), isNull(t.usedAt), gt(t.expiresAt, new Date())))
     .orderBy(asc(t.createdAt))
     .all();
-  return rows.map(({ tokenHash, ...r }) => ({ id: invitationId(tokenHash), ...r, expiresAt: r.expiresAt.toISOString(), createdAt: r.createdAt.toISOString() }));
+  return rows.map(({ tokenHash, ...r }) => ({
+    id: invitationId(tokenHash),
+    ...r,
+    expiresAt: r.expiresAt.toISOString(),
+    createdAt: r.createdAt.toISOString(),
+  }));
 }
 
 /** A public id for a pending invitation: a prefix of its token's hash (reveals nothing about the token). */
@@ -149,12 +217,20 @@ export function revokeInvitation(ctx: AppContext, actorId: string, labId: string
     : undefined;
   if (!found) throw notFound("That invitation");
   ctx.db.delete(t).where(eq(t.tokenHash, found.tokenHash)).run();
-  recordAudit(ctx, { labId, userId: actorId, action: "member.invitation_revoked", targetType: "invitation", targetId: found.email, detail: { email: found.email, role: found.role } });
+  recordAudit(ctx, {
+    labId,
+    userId: actorId,
+    action: "member.invitation_revoked",
+    targetType: "invitation",
+    targetId: found.email,
+    detail: { email: found.email, role: found.role },
+  });
 }
 
 function validInvitation(ctx: AppContext, token: string): TokenRow & { labId: string; role: LabRole; email: string } {
   const row = findValidToken(ctx, token, ["invite"]);
-  if (!row || !row.labId || !row.role || !row.email) throw notFound("That invitation (it may have expired or been used)");
+  if (!row || !row.labId || !row.role || !row.email)
+    throw notFound("That invitation (it may have expired or been used)");
   return row as TokenRow & { labId: string; role: LabRole; email: string };
 }
 
@@ -163,7 +239,11 @@ export function describeInvitation(ctx: AppContext, token: string): InvitationOf
   const row = validInvitation(ctx, token);
   const lab = ctx.db.select().from(schema.labs).where(eq(schema.labs.id, row.labId)).get();
   if (!lab) throw notFound("That invitation");
-  const hasAccount = !!ctx.db.select({ id: schema.users.id }).from(schema.users).where(eq(schema.users.email, row.email)).get();
+  const hasAccount = !!ctx.db
+    .select({ id: schema.users.id })
+    .from(schema.users)
+    .where(eq(schema.users.email, row.email))
+    .get();
   return { labName: lab.name, role: row.role, email: row.email, expiresAt: row.expiresAt.toISOString(), hasAccount };
 }
 
@@ -172,17 +252,33 @@ export function joinWithInvitation(ctx: AppContext, token: string, userId: strin
   const row = validInvitation(ctx, token);
   let role: LabRole = row.role;
   ctx.sqlite.transaction(() => {
-    if (!markTokenUsed(ctx, row.tokenHash)) throw badRequest("This invitation has already been used.", undefined, "invalid_token");
+    if (!markTokenUsed(ctx, row.tokenHash))
+      throw badRequest("This invitation has already been used.", undefined, "invalid_token");
     const m = schema.memberships;
-    const current = ctx.db.select().from(m).where(and(eq(m.labId, row.labId), eq(m.userId, userId))).get();
+    const current = ctx.db
+      .select()
+      .from(m)
+      .where(and(eq(m.labId, row.labId), eq(m.userId, userId)))
+      .get();
     if (!current) {
       ctx.db.insert(m).values({ labId: row.labId, userId, role: row.role, createdAt: new Date() }).run();
     } else if (roleAtLeast(current.role, row.role)) {
       role = current.role;
     } else {
-      ctx.db.update(m).set({ role: row.role }).where(and(eq(m.labId, row.labId), eq(m.userId, userId))).run();
+      ctx.db
+        .update(m)
+        .set({ role: row.role })
+        .where(and(eq(m.labId, row.labId), eq(m.userId, userId)))
+        .run();
     }
-    recordAudit(ctx, { labId: row.labId, userId, action: "member.joined", targetType: "user", targetId: userId, detail: { invitedEmail: row.email, role, invitedBy: row.createdBy } });
+    recordAudit(ctx, {
+      labId: row.labId,
+      userId,
+      action: "member.joined",
+      targetType: "user",
+      targetId: userId,
+      detail: { invitedEmail: row.email, role, invitedBy: row.createdBy },
+    });
   })();
   return { labId: row.labId, role };
 }
@@ -195,7 +291,13 @@ export function invitationEmail(ctx: AppContext, token: string): string {
 
 function membership(ctx: AppContext, labId: string, userId: string) {
   const m = schema.memberships;
-  return ctx.db.select().from(m).where(and(eq(m.labId, labId), eq(m.userId, userId))).get() ?? null;
+  return (
+    ctx.db
+      .select()
+      .from(m)
+      .where(and(eq(m.labId, labId), eq(m.userId, userId)))
+      .get() ?? null
+  );
 }
 
 export function changeRole(ctx: AppContext, actorId: string, labId: string, userId: string, role: LabRole): void {
@@ -207,23 +309,52 @@ export function changeRole(ctx: AppContext, actorId: string, labId: string, user
       throw conflict("A lab needs at least one owner. Make someone else an owner first.", "last_owner");
     }
     const m = schema.memberships;
-    ctx.db.update(m).set({ role }).where(and(eq(m.labId, labId), eq(m.userId, userId))).run();
-    recordAudit(ctx, { labId, userId: actorId, action: "member.role_changed", targetType: "user", targetId: userId, detail: { from: current.role, to: role } });
+    ctx.db
+      .update(m)
+      .set({ role })
+      .where(and(eq(m.labId, labId), eq(m.userId, userId)))
+      .run();
+    recordAudit(ctx, {
+      labId,
+      userId: actorId,
+      action: "member.role_changed",
+      targetType: "user",
+      targetId: userId,
+      detail: { from: current.role, to: role },
+    });
   })();
 }
 
 /** An owner removes a member, or a member leaves (actor = target). */
-export function removeMember(ctx: AppContext, actor: { id: string; role: LabRole }, labId: string, userId: string): void {
+export function removeMember(
+  ctx: AppContext,
+  actor: { id: string; role: LabRole },
+  labId: string,
+  userId: string,
+): void {
   const self = actor.id === userId;
   if (!self && actor.role !== "owner") throw forbidden("Only an owner can remove other members.");
   const current = membership(ctx, labId, userId);
   if (!current) throw notFound("That member");
   ctx.sqlite.transaction(() => {
     if (current.role === "owner" && ownerCount(ctx, labId) <= 1) {
-      throw conflict("A lab needs at least one owner. Make someone else an owner first, or delete the lab.", "last_owner");
+      throw conflict(
+        "A lab needs at least one owner. Make someone else an owner first, or delete the lab.",
+        "last_owner",
+      );
     }
     const m = schema.memberships;
-    ctx.db.delete(m).where(and(eq(m.labId, labId), eq(m.userId, userId))).run();
-    recordAudit(ctx, { labId, userId: actor.id, action: self ? "member.left" : "member.removed", targetType: "user", targetId: userId, detail: { role: current.role } });
+    ctx.db
+      .delete(m)
+      .where(and(eq(m.labId, labId), eq(m.userId, userId)))
+      .run();
+    recordAudit(ctx, {
+      labId,
+      userId: actor.id,
+      action: self ? "member.left" : "member.removed",
+      targetType: "user",
+      targetId: userId,
+      detail: { role: current.role },
+    });
   })();
 }

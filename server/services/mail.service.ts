@@ -10,9 +10,9 @@
 import nodemailer from "nodemailer";
 import { SMTPServer } from "smtp-server";
 import type { AddressInfo } from "node:net";
-import type { Db } from "../../db/client";
-import { schema } from "../../db/client";
-import type { Env } from "../env";
+import type { Db } from "@/db/client";
+import { schema } from "@/db/client";
+import type { Env } from "@/server/env";
 
 export interface MailMessage {
   to: string;
@@ -33,7 +33,10 @@ export const nullMailer: Mailer = { kind: "null", send: async () => {}, close: a
  * The mailer for this configuration: SMTP to LINGER_SMTP_URL, or the local
  * fake server writing to the outbox table of `deps.db`.
  */
-export async function createMailer(env: Pick<Env, "LINGER_SMTP_URL" | "LINGER_MAIL_FROM">, deps: { db: Db }): Promise<Mailer> {
+export async function createMailer(
+  env: Pick<Env, "LINGER_SMTP_URL" | "LINGER_MAIL_FROM">,
+  deps: { db: Db },
+): Promise<Mailer> {
   if (env.LINGER_SMTP_URL) {
     const transport = nodemailer.createTransport(env.LINGER_SMTP_URL);
     return {

@@ -7,26 +7,41 @@
  * before any distance is computed.
  */
 import { and, asc, eq, isNull } from "drizzle-orm";
-import type { AppContext } from "../context";
-import { schema } from "../../db/client";
-import { newId } from "../ids";
-import { HttpError, conflict, notFound } from "../http-error";
+import type { AppContext } from "@/server/context";
+import { schema } from "@/db/client";
+import { newId } from "@/server/ids";
+import { HttpError, conflict, notFound } from "@/server/http-error";
 import { recordAudit } from "./audit.service";
 import { analyseStored } from "./traces.service";
-import { getParameter } from "../../sim/circuit/parameters";
-import { resolveThreshold } from "../../sim/engine/resolve-threshold";
-import { RunSpecSchema, type RunSpec } from "../../shared/schemas/run-spec";
-import { MatchResultSchema, type MatchDetail, type MatchRequest, type MatchResult, type TracePulse, type TraceSettings } from "../../shared/schemas/api-traces";
-import { addRecord, matchPoints, summarizeFigures, type CandidatePoint, type FigureSummary } from "../../sim/traces/match";
-import { pooledPulses } from "../../sim/traces/trace-metrics";
+import { getParameter } from "@/sim/circuit/parameters";
+import { resolveThreshold } from "@/sim/engine/resolve-threshold";
+import { RunSpecSchema, type RunSpec } from "@/shared/schemas/run-spec";
+import {
+  MatchResultSchema,
+  type MatchDetail,
+  type MatchRequest,
+  type MatchResult,
+  type TracePulse,
+  type TraceSettings,
+} from "@/shared/schemas/api-traces";
+import { addRecord, matchPoints, summarizeFigures, type CandidatePoint, type FigureSummary } from "@/sim/traces/match";
+import { pooledPulses } from "@/sim/traces/trace-metrics";
 
 const DONE = new Set(["finished", "capped"]);
 
 /** Figures of a run from its pulse_stats rows (streamed; excluded pulses left out). */
 export function runFigures(ctx: AppContext, runId: string): FigureSummary {
   const s = summarizeFigures([]);
-  const stmt = ctx.sqlite.prepare("select duration_bin as durationBin, excluded, passed, delay, widths from pulse_stats where run_id = ?");
-  for (const r of stmt.iterate(runId) as Iterable<{ durationBin: number; excluded: number; passed: number; delay: number | null; widths: string | null }>) {
+  const stmt = ctx.sqlite.prepare(
+    "select duration_bin as durationBin, excluded, passed, delay, widths from pulse_stats where run_id = ?",
+  );
+  for (const r of stmt.iterate(runId) as Iterable<{
+    durationBin: number;
+    excluded: number;
+    passed: number;
+    delay: number | null;
+    widths: string | null;
+  }>) {
     addRecord(s, {
       durationBin: r.durationBin,
       excluded: !!r.excluded,
@@ -41,11 +56,18 @@ export function runFigures(ctx: AppContext, runId: string): FigureSummary {
 /** The input pulses of a run (from its first replicate's rows). */
 function runPulses(ctx: AppContext, runId: string): { on: number; off: number }[] {
   return ctx.sqlite
-    .prepare('select "on", "off" from pulse_stats where run_id = ? and replicate = (select min(replicate) from pulse_stats where run_id = ?) order by pulse_index')
+    .prepare(
+      'select "on", "off" from pulse_stats where run_id = ? and replicate = (select min(replicate) from pulse_stats where run_id = ?) order by pulse_index',
+    )
     .all(runId, runId) as { on: number; off: number }[];
 }
 
-function cautions(ctx: AppContext, settings: TraceSettings, schedule: TracePulse[], runs: { id: string; spec: RunSpec }[]): string[] {
+function cautions(
+  ctx: AppContext,
+  settings: TraceSettings,
+  schedule: TracePulse[],
+  runs: { id: string; spec: RunSpec }[],
+): string[] {
   const notes: string[] = [];
   const thetas = new Set<string>();
   const windows = new Set<string>();
@@ -60,15 +82,24 @@ function cautions(ctx: AppContext, settings: TraceSettings, schedule: TracePulse
   }
   const own = settings.thresholdMolecules.toPrecision(4);
   if ([...thetas].some((t) => Math.abs(Number(t) - settings.thresholdMolecules) > 0.01 * settings.thresholdMolecules)) {
-    notes.push(`The simulations used threshold ${[...thetas].join(", ")} molecules; the traces use ${own}. Pass, delay and width depend on it: set the same value on both sides.`);
+    notes.push(
+      `The simulations used threshold ${[...thetas].join(", ")} molecules; the traces use ${own}. Pass, delay and width depend on it: set the same value on both sides.`,
+    );
   }
   if ([...windows].some((w) => Math.abs(Number(w) - settings.windowMinutes) > 0.01 * settings.windowMinutes)) {
-    notes.push(`The simulations used a response window of ${[...windows].join(", ")} min; the traces use ${settings.windowMinutes} min.`);
+    notes.push(
+      `The simulations used a response window of ${[...windows].join(", ")} min; the traces use ${settings.windowMinutes} min.`,
+    );
   }
   if (runs.length > 0) {
     const sim = runPulses(ctx, runs[0].id);
-    const same = sim.length === schedule.length && sim.every((p, i) => Math.abs(p.on - schedule[i].on) < 0.5 && Math.abs(p.off - schedule[i].off) < 0.5);
-    if (!same) notes.push(`The simulated input (${sim.length} pulses) differs from the traces' schedule (${schedule.length} pulses); pass rates are compared per pulse duration.`);
+    const same =
+      sim.length === schedule.length &&
+      sim.every((p, i) => Math.abs(p.on - schedule[i].on) < 0.5 && Math.abs(p.off - schedule[i].off) < 0.5);
+    if (!same)
+      notes.push(
+        `The simulated input (${sim.length} pulses) differs from the traces' schedule (${schedule.length} pulses); pass rates are compared per pulse duration.`,
+      );
   }
   return notes;
 }
@@ -76,7 +107,11 @@ function cautions(ctx: AppContext, settings: TraceSettings, schedule: TracePulse
 export function runMatch(ctx: AppContext, userId: string, traceSetId: string, req: MatchRequest): string {
   const { row, settings, analysis } = analyseStored(ctx, traceSetId);
   const observed = summarizeFigures(pooledPulses(analysis));
-  if (observed.pulses === 0) throw conflict("The trace set has no scored pulse (check its schedule and settings) so there is nothing to match.", "nothing_to_match");
+  if (observed.pulses === 0)
+    throw conflict(
+      "The trace set has no scored pulse (check its schedule and settings) so there is nothing to match.",
+      "nothing_to_match",
+    );
 
   const candidates: CandidatePoint[] = [];
   const skipped: MatchResult["skippedRuns"] = [];
@@ -84,17 +119,31 @@ export function runMatch(ctx: AppContext, userId: string, traceSetId: string, re
   let axes: string[] = [];
   const r = schema.runs;
   if ("runId" in req) {
-    const run = ctx.db.select().from(r).where(and(eq(r.id, req.runId), isNull(r.deletedAt))).get();
+    const run = ctx.db
+      .select()
+      .from(r)
+      .where(and(eq(r.id, req.runId), isNull(r.deletedAt)))
+      .get();
     if (!run || run.labId !== row.labId) throw notFound("That run");
-    if (!DONE.has(run.status)) throw conflict(`That run is ${run.status}; match against a finished run.`, "run_not_finished");
+    if (!DONE.has(run.status))
+      throw conflict(`That run is ${run.status}; match against a finished run.`, "run_not_finished");
     const spec = RunSpecSchema.parse(run.spec);
     used.push({ id: run.id, spec });
     candidates.push({ runId: run.id, sweepPoint: null, parameters: {}, figures: runFigures(ctx, run.id) });
   } else {
-    const sweep = ctx.db.select().from(schema.sweeps).where(and(eq(schema.sweeps.id, req.sweepId), isNull(schema.sweeps.deletedAt))).get();
+    const sweep = ctx.db
+      .select()
+      .from(schema.sweeps)
+      .where(and(eq(schema.sweeps.id, req.sweepId), isNull(schema.sweeps.deletedAt)))
+      .get();
     if (!sweep || sweep.labId !== row.labId) throw notFound("That sweep");
     axes = (sweep.axes as { parameter: string }[]).map((a) => a.parameter);
-    const points = ctx.db.select().from(r).where(and(eq(r.sweepId, sweep.id), isNull(r.deletedAt))).orderBy(asc(r.sweepPoint)).all();
+    const points = ctx.db
+      .select()
+      .from(r)
+      .where(and(eq(r.sweepId, sweep.id), isNull(r.deletedAt)))
+      .orderBy(asc(r.sweepPoint))
+      .all();
     for (const p of points) {
       if (!DONE.has(p.status)) {
         skipped.push({ runId: p.id, reason: `point ${p.sweepPoint} is ${p.status}` });
@@ -112,7 +161,8 @@ export function runMatch(ctx: AppContext, userId: string, traceSetId: string, re
       used.push({ id: p.id, spec });
       candidates.push({ runId: p.id, sweepPoint: p.sweepPoint, parameters, figures: runFigures(ctx, p.id) });
     }
-    if (candidates.length === 0) throw conflict("No point of that sweep has finished yet; match when some have.", "sweep_not_finished");
+    if (candidates.length === 0)
+      throw conflict("No point of that sweep has finished yet; match when some have.", "sweep_not_finished");
   }
 
   const result = matchPoints(observed, candidates, req.tolerance, axes, skipped);
@@ -134,7 +184,14 @@ export function runMatch(ctx: AppContext, userId: string, traceSetId: string, re
         createdAt: new Date(),
       })
       .run();
-    recordAudit(ctx, { labId: row.labId, userId, action: "traces.matched", targetType: "match", targetId: id, detail: { traceSetId, points: result.pointCount } });
+    recordAudit(ctx, {
+      labId: row.labId,
+      userId,
+      action: "traces.matched",
+      targetType: "match",
+      targetId: id,
+      detail: { traceSetId, points: result.pointCount },
+    });
   })();
   return id;
 }
@@ -143,7 +200,11 @@ export function matchDetail(ctx: AppContext, id: string): MatchDetail {
   const m = ctx.db.select().from(schema.matches).where(eq(schema.matches.id, id)).get();
   if (!m) throw notFound("That match");
   // A match goes with its trace set: hidden while the set is deleted (restorable), gone when it is purged.
-  const set = ctx.db.select({ deletedAt: schema.traceSets.deletedAt }).from(schema.traceSets).where(eq(schema.traceSets.id, m.traceSetId)).get();
+  const set = ctx.db
+    .select({ deletedAt: schema.traceSets.deletedAt })
+    .from(schema.traceSets)
+    .where(eq(schema.traceSets.id, m.traceSetId))
+    .get();
   if (!set || set.deletedAt) throw notFound("That match");
   const parsed = MatchResultSchema.safeParse(m.result);
   if (!parsed.success) throw new HttpError(409, "bad_match", "This match was stored in an older form; run it again.");
@@ -157,4 +218,3 @@ export function matchDetail(ctx: AppContext, id: string): MatchDetail {
     result: parsed.data,
   };
 }
-

@@ -4,8 +4,8 @@
  * logged, never thrown (a run's outcome does not depend on mail).
  */
 import { and, eq } from "drizzle-orm";
-import type { AppContext } from "../context";
-import { schema } from "../../db/client";
+import type { AppContext } from "@/server/context";
+import { schema } from "@/db/client";
 
 export interface EndedRun {
   id: string;

@@ -17,6 +17,11 @@ export async function verifyPassword(password: string, stored: string | null | u
   const [kind, n, r, p, saltB64, keyB64] = stored.split("$");
   if (kind !== "scrypt" || !saltB64 || !keyB64) return false;
   const expected = Buffer.from(keyB64, "base64");
-  const key = await scrypt(password, Buffer.from(saltB64, "base64"), expected.length, { N: Number(n), r: Number(r), p: Number(p), maxmem: 64 * 1024 * 1024 });
+  const key = await scrypt(password, Buffer.from(saltB64, "base64"), expected.length, {
+    N: Number(n),
+    r: Number(r),
+    p: Number(p),
+    maxmem: 64 * 1024 * 1024,
+  });
   return key.length === expected.length && timingSafeEqual(key, expected);
 }

@@ -4,15 +4,15 @@
  * lab among non-archived programs (case-insensitive).
  */
 import { and, desc, eq, isNotNull, isNull, ne, sql } from "drizzle-orm";
-import type { AppContext } from "../context";
-import { schema } from "../../db/client";
-import { newId } from "../ids";
-import { badRequest, conflict, notFound } from "../http-error";
+import type { AppContext } from "@/server/context";
+import { schema } from "@/db/client";
+import { newId } from "@/server/ids";
+import { badRequest, conflict, notFound } from "@/server/http-error";
 import { recordAudit } from "./audit.service";
-import { compileProgram } from "../../sim";
-import { InputProgramSchema, type DurationDistribution, type InputProgram } from "../../shared/schemas/input-program";
-import type { FieldError } from "../../shared/schemas/api-circuits";
-import type { PreviewProgramResponse, ProgramDetailResponse, ProgramSummary } from "../../shared/schemas/api-programs";
+import { compileProgram } from "@/sim";
+import { InputProgramSchema, type DurationDistribution, type InputProgram } from "@/shared/schemas/input-program";
+import type { FieldError } from "@/shared/schemas/api-circuits";
+import type { PreviewProgramResponse, ProgramDetailResponse, ProgramSummary } from "@/shared/schemas/api-programs";
 import type { Actor } from "./circuits.service";
 
 const p = schema.inputPrograms;
@@ -24,14 +24,19 @@ type ProgramRow = typeof p.$inferSelect;
 export function programFieldErrors(program: InputProgram, prefix: string): FieldError[] {
   const errors: FieldError[] = [];
   const at = (path: string) => [prefix, path].filter(Boolean).join(".");
-  if (program.kind === "random" && program.durations.dist === "uniform" && program.durations.min > program.durations.max)
+  if (
+    program.kind === "random" &&
+    program.durations.dist === "uniform" &&
+    program.durations.min > program.durations.max
+  )
     errors.push({ path: at("durations.max"), message: "the longest duration must not be shorter than the shortest" });
   return errors;
 }
 
 function assertProgramValid(program: InputProgram, prefix: string): void {
   const errors = programFieldErrors(program, prefix);
-  if (errors.length) throw badRequest(`Invalid program: ${errors.map((e) => `${e.path}: ${e.message}`).join("; ")}`, errors, "invalid");
+  if (errors.length)
+    throw badRequest(`Invalid program: ${errors.map((e) => `${e.path}: ${e.message}`).join("; ")}`, errors, "invalid");
 }
 
 const fmt = (x: number) => (Number.isInteger(x) ? String(x) : String(Number(x.toPrecision(3))));
@@ -56,7 +61,9 @@ export function describeProgram(b: InputProgram): string {
     case "ladder":
       return `ladder of ${b.durations.length} duration${b.durations.length === 1 ? "" : "s"} (${range(b.durations)})${b.repeats > 1 ? ` x${b.repeats}` : ""}, gap ${fmt(b.gap)} min`;
     case "random": {
-      const extra = b.extraPulses.length ? `, plus ${b.extraPulses.length} set pulse${b.extraPulses.length === 1 ? "" : "s"}` : "";
+      const extra = b.extraPulses.length
+        ? `, plus ${b.extraPulses.length} set pulse${b.extraPulses.length === 1 ? "" : "s"}`
+        : "";
       return `random pulses about every ${fmt(b.meanInterval)} min, ${describeDurations(b.durations)}${extra}${b.perReplicate ? ", drawn per replicate" : ""}`;
     }
   }
@@ -87,7 +94,10 @@ function getRow(ctx: AppContext, id: string): ProgramRow {
 
 function userName(ctx: AppContext, userId: string | null): string | null {
   if (!userId) return null;
-  return ctx.db.select({ n: schema.users.displayName }).from(schema.users).where(eq(schema.users.id, userId)).get()?.n ?? null;
+  return (
+    ctx.db.select({ n: schema.users.displayName }).from(schema.users).where(eq(schema.users.id, userId)).get()?.n ??
+    null
+  );
 }
 
 export function listPrograms(ctx: AppContext, labId: string, opts: { archived?: boolean } = {}): ProgramSummary[] {
@@ -113,14 +123,25 @@ function assertNameFree(ctx: AppContext, labId: string, name: string, exceptId?:
   const clash = ctx.db
     .select({ id: p.id })
     .from(p)
-    .where(and(eq(p.labId, labId), isNull(p.archivedAt), sql`lower(${p.name}) = lower(${name})`, exceptId ? ne(p.id, exceptId) : undefined))
+    .where(
+      and(
+        eq(p.labId, labId),
+        isNull(p.archivedAt),
+        sql`lower(${p.name}) = lower(${name})`,
+        exceptId ? ne(p.id, exceptId) : undefined,
+      ),
+    )
     .get();
   if (clash) throw conflict(`The lab already has an input program named "${name}". Choose another name.`, "name_taken");
 }
 
 function freeName(ctx: AppContext, labId: string, base: string): string {
   const taken = (n: string) =>
-    !!ctx.db.select({ id: p.id }).from(p).where(and(eq(p.labId, labId), isNull(p.archivedAt), sql`lower(${p.name}) = lower(${n})`)).get();
+    !!ctx.db
+      .select({ id: p.id })
+      .from(p)
+      .where(and(eq(p.labId, labId), isNull(p.archivedAt), sql`lower(${p.name}) = lower(${n})`))
+      .get();
   const stem = base.length > 100 ? base.slice(0, 100) : base;
   for (let i = 1; ; i++) {
     const n = i === 1 ? `${stem} (copy)` : `${stem} (copy ${i})`;
@@ -142,7 +163,19 @@ export function createProgram(
   const now = new Date();
   ctx.db.transaction((tx) => {
     assertNameFree(txCtx(ctx, tx), labId, name);
-    tx.insert(p).values({ id, labId, name, body: input.body, createdBy: actor.userId, createdAt: now, updatedAt: now, archivedAt: null, demoKey: input.demoKey ?? null }).run();
+    tx.insert(p)
+      .values({
+        id,
+        labId,
+        name,
+        body: input.body,
+        createdBy: actor.userId,
+        createdAt: now,
+        updatedAt: now,
+        archivedAt: null,
+        demoKey: input.demoKey ?? null,
+      })
+      .run();
     recordAudit(txCtx(ctx, tx), {
       labId,
       userId: actor.userId,
@@ -155,7 +188,12 @@ export function createProgram(
   return id;
 }
 
-export function updateProgram(ctx: AppContext, actor: Actor, id: string, input: { name?: string; body?: InputProgram }): void {
+export function updateProgram(
+  ctx: AppContext,
+  actor: Actor,
+  id: string,
+  input: { name?: string; body?: InputProgram },
+): void {
   ctx.db.transaction((tx) => {
     const t = txCtx(ctx, tx);
     const row = getRow(t, id);
@@ -173,7 +211,10 @@ export function updateProgram(ctx: AppContext, actor: Actor, id: string, input: 
       action: "program.saved",
       targetType: "program",
       targetId: id,
-      detail: { ...(input.body ? { kind: input.body.kind } : {}), ...(name !== row.name ? { renamedFrom: row.name, name } : {}) },
+      detail: {
+        ...(input.body ? { kind: input.body.kind } : {}),
+        ...(name !== row.name ? { renamedFrom: row.name, name } : {}),
+      },
     });
   });
 }
@@ -191,8 +232,18 @@ export function setProgramArchived(ctx: AppContext, actor: Actor, id: string, ar
     const row = getRow(t, id);
     if (!!row.archivedAt === archived) return;
     if (!archived) assertNameFree(t, row.labId, row.name, id);
-    tx.update(p).set({ archivedAt: archived ? new Date() : null }).where(eq(p.id, id)).run();
-    recordAudit(t, { labId: row.labId, userId: actor.userId, action: archived ? "program.archived" : "program.unarchived", targetType: "program", targetId: id, detail: { name: row.name } });
+    tx.update(p)
+      .set({ archivedAt: archived ? new Date() : null })
+      .where(eq(p.id, id))
+      .run();
+    recordAudit(t, {
+      labId: row.labId,
+      userId: actor.userId,
+      action: archived ? "program.archived" : "program.unarchived",
+      targetType: "program",
+      targetId: id,
+      detail: { name: row.name },
+    });
   });
   return getProgramDetail(ctx, id).program;
 }
@@ -202,7 +253,11 @@ export function setProgramArchived(ctx: AppContext, actor: Actor, id: string, ar
 /** Compiles a program for the live preview plot (one realisation for random programs). */
 export function previewProgram(program: InputProgram, endTimeMinutes: number): PreviewProgramResponse {
   assertProgramValid(program, "program");
-  let compiled: { pulses: { on: number; off: number; level: number; durationBin: number }[]; switchTimes: ArrayLike<number>; levels: ArrayLike<number> };
+  let compiled: {
+    pulses: { on: number; off: number; level: number; durationBin: number }[];
+    switchTimes: ArrayLike<number>;
+    levels: ArrayLike<number>;
+  };
   try {
     compiled = compileProgram(program, endTimeMinutes);
   } catch (e) {

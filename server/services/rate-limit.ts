@@ -3,8 +3,8 @@
  * password reset. One set of limiters per app context, so tests are
  * independent; tests may replace or reset them.
  */
-import type { AppContext } from "../context";
-import { tooMany } from "../http-error";
+import type { AppContext } from "@/server/context";
+import { tooMany } from "@/server/http-error";
 
 export class RateLimiter {
   private readonly hits = new Map<string, { count: number; windowStart: number }>();

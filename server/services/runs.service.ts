@@ -5,18 +5,32 @@
  */
 import { randomBytes } from "node:crypto";
 import { and, asc, count, desc, eq, inArray, isNotNull, isNull, lt, sql } from "drizzle-orm";
-import type { AppContext } from "../context";
-import { schema } from "../../db/client";
-import { RunSpecSchema, type RunSpec } from "../../shared/schemas/run-spec";
-import { API_LIMITS, type LaunchRun, type RunDetail, type RunListItem, type RunSeries, type RunSettings } from "../../shared/schemas/api-runs";
-import type { Circuit } from "../../shared/schemas/circuit";
-import type { InputProgram } from "../../shared/schemas/input-program";
-import type { RunSummary } from "../../shared/schemas/analysis";
-import { ENGINE_VERSION, chunkLayout, compileProgram, estimateEvents, gridTimes, resolveThreshold, validateCircuit } from "../../sim";
-import { badRequest, conflict, notFound, tooMany } from "../http-error";
-import { parseOr400 } from "../middleware/validate";
-import { newId } from "../ids";
-import { fromBlob } from "./run-store";
+import type { AppContext } from "@/server/context";
+import { schema } from "@/db/client";
+import { RunSpecSchema, type RunSpec } from "@/shared/schemas/run-spec";
+import {
+  API_LIMITS,
+  type LaunchRun,
+  type RunDetail,
+  type RunListItem,
+  type RunSeries,
+  type RunSettings,
+} from "@/shared/schemas/api-runs";
+import type { Circuit } from "@/shared/schemas/circuit";
+import type { InputProgram } from "@/shared/schemas/input-program";
+import type { RunSummary } from "@/shared/schemas/analysis";
+import {
+  ENGINE_VERSION,
+  chunkLayout,
+  compileProgram,
+  estimateEvents,
+  gridTimes,
+  resolveThreshold,
+  validateCircuit,
+} from "@/sim";
+import { badRequest, conflict, notFound, tooMany, parseOr400 } from "@/server/http-error";
+import { newId } from "@/server/ids";
+import { fromBlob } from "@/server/compute/run-store";
 import { purgeDeletedTraceSets } from "./traces.service";
 import { assertRestorable } from "./undo";
 
@@ -34,36 +48,86 @@ export interface ResolvedInputs {
 }
 
 /** Load the circuit (a given or the current version) and program of a lab. 404 for another lab's items. */
-export function resolveInputs(ctx: AppContext, labId: string, b: { circuitId?: string; circuitVersion?: number; circuit?: Circuit; programId?: string; program?: InputProgram; inputSignal?: string }): ResolvedInputs {
+export function resolveInputs(
+  ctx: AppContext,
+  labId: string,
+  b: {
+    circuitId?: string;
+    circuitVersion?: number;
+    circuit?: Circuit;
+    programId?: string;
+    program?: InputProgram;
+    inputSignal?: string;
+  },
+): ResolvedInputs {
   let circuit = b.circuit ?? null;
   let circuitVersion: number | null = null;
   if (b.circuitId) {
-    const c = ctx.db.select().from(schema.circuits).where(and(eq(schema.circuits.id, b.circuitId), eq(schema.circuits.labId, labId))).get();
+    const c = ctx.db
+      .select()
+      .from(schema.circuits)
+      .where(and(eq(schema.circuits.id, b.circuitId), eq(schema.circuits.labId, labId)))
+      .get();
     if (!c) throw notFound("That circuit");
     circuitVersion = b.circuitVersion ?? c.currentVersion;
-    const v = ctx.db.select().from(schema.circuitVersions).where(and(eq(schema.circuitVersions.circuitId, c.id), eq(schema.circuitVersions.version, circuitVersion))).get();
+    const v = ctx.db
+      .select()
+      .from(schema.circuitVersions)
+      .where(and(eq(schema.circuitVersions.circuitId, c.id), eq(schema.circuitVersions.version, circuitVersion)))
+      .get();
     if (!v) throw notFound(`Version ${circuitVersion} of that circuit`);
     circuit = v.body as Circuit;
   }
   let program = b.program ?? null;
   if (b.programId) {
-    const p = ctx.db.select().from(schema.inputPrograms).where(and(eq(schema.inputPrograms.id, b.programId), eq(schema.inputPrograms.labId, labId))).get();
+    const p = ctx.db
+      .select()
+      .from(schema.inputPrograms)
+      .where(and(eq(schema.inputPrograms.id, b.programId), eq(schema.inputPrograms.labId, labId)))
+      .get();
     if (!p) throw notFound("That input program");
     program = p.body as InputProgram;
   }
-  return { circuit: circuit!, circuitId: b.circuitId ?? null, circuitVersion, program: program!, programId: b.programId ?? null, inputSignal: b.inputSignal };
+  return {
+    circuit: circuit!,
+    circuitId: b.circuitId ?? null,
+    circuitVersion,
+    program: program!,
+    programId: b.programId ?? null,
+    inputSignal: b.inputSignal,
+  };
 }
 
 /** A complete, validated RunSpec, or a 400 naming the field. */
 export function buildSpec(inputs: ResolvedInputs, settings: RunSettings): RunSpec {
   const signal = inputs.inputSignal ?? inputs.circuit.signals?.[0]?.name;
-  if (!signal) throw badRequest("The circuit has no input signal for the program to drive; add a signal to the circuit.", [{ path: "inputSignal", message: "the circuit has no signal" }]);
+  if (!signal)
+    throw badRequest("The circuit has no input signal for the program to drive; add a signal to the circuit.", [
+      { path: "inputSignal", message: "the circuit has no signal" },
+    ]);
   if (!inputs.circuit.signals?.some((s) => s.name === signal)) {
-    throw badRequest(`The circuit has no signal "${signal}".`, [{ path: "inputSignal", message: `no signal "${signal}" in the circuit` }]);
+    throw badRequest(`The circuit has no signal "${signal}".`, [
+      { path: "inputSignal", message: `no signal "${signal}" in the circuit` },
+    ]);
   }
-  const spec = parseOr400(RunSpecSchema, { ...settings, seed: settings.seed ?? randomSeed(), circuit: inputs.circuit, program: inputs.program, inputSignal: signal }, "run");
+  const spec = parseOr400(
+    RunSpecSchema,
+    {
+      ...settings,
+      seed: settings.seed ?? randomSeed(),
+      circuit: inputs.circuit,
+      program: inputs.program,
+      inputSignal: signal,
+    },
+    "run",
+  );
   const v = validateCircuit(spec.circuit);
-  if (!v.ok) throw badRequest(`The circuit is not valid: ${v.errors.map((e) => `${e.path}: ${e.message}`).join("; ")}`, v.errors.map((e) => ({ path: `circuit.${e.path}`, message: e.message })), "invalid_circuit");
+  if (!v.ok)
+    throw badRequest(
+      `The circuit is not valid: ${v.errors.map((e) => `${e.path}: ${e.message}`).join("; ")}`,
+      v.errors.map((e) => ({ path: `circuit.${e.path}`, message: e.message })),
+      "invalid_circuit",
+    );
   checkLimits(spec);
   return spec;
 }
@@ -71,22 +135,34 @@ export function buildSpec(inputs: ResolvedInputs, settings: RunSettings): RunSpe
 export function checkLimits(spec: RunSpec) {
   const gridPoints = Math.floor(spec.endTimeMinutes / spec.gridStepMinutes + 1e-9) + 1;
   if (gridPoints > 20_001) {
-    throw badRequest(`The grid has ${gridPoints} points; at most 20,001 are stored. Use a larger grid step.`, [{ path: "settings.gridStepMinutes", message: "too many grid points" }], "limit");
+    throw badRequest(
+      `The grid has ${gridPoints} points; at most 20,001 are stored. Use a larger grid step.`,
+      [{ path: "settings.gridStepMinutes", message: "too many grid points" }],
+      "limit",
+    );
   }
   let pulses = 0;
   try {
     pulses = compileProgram(spec.program, spec.endTimeMinutes).pulses.length;
   } catch (e) {
-    throw badRequest(`The input program cannot be compiled: ${(e as Error).message}`, [{ path: "program", message: (e as Error).message }]);
+    throw badRequest(`The input program cannot be compiled: ${(e as Error).message}`, [
+      { path: "program", message: (e as Error).message },
+    ]);
   }
   const rows = pulses * spec.replicates;
   if (rows > API_LIMITS.maxPulseRowsPerRun) {
-    throw badRequest(`${spec.replicates} replicates x ${pulses} pulses = ${rows} stored rows; the limit is ${API_LIMITS.maxPulseRowsPerRun}. Use fewer replicates or a shorter program.`, [{ path: "settings.replicates", message: "too many stored rows" }], "limit");
+    throw badRequest(
+      `${spec.replicates} replicates x ${pulses} pulses = ${rows} stored rows; the limit is ${API_LIMITS.maxPulseRowsPerRun}. Use fewer replicates or a shorter program.`,
+      [{ path: "settings.replicates", message: "too many stored rows" }],
+      "limit",
+    );
   }
   try {
     resolveThreshold(spec);
   } catch (e) {
-    throw badRequest(`The threshold cannot be set: ${(e as Error).message}`, [{ path: "settings.threshold", message: (e as Error).message }]);
+    throw badRequest(`The threshold cannot be set: ${(e as Error).message}`, [
+      { path: "settings.threshold", message: (e as Error).message },
+    ]);
   }
 }
 
@@ -107,42 +183,65 @@ export function activeRunCount(ctx: AppContext, labId: string): number {
   return ctx.db
     .select({ n: count() })
     .from(schema.runs)
-    .where(and(eq(schema.runs.labId, labId), inArray(schema.runs.status, ["queued", "running"]), isNull(schema.runs.sweepId), isNull(schema.runs.deletedAt)))
+    .where(
+      and(
+        eq(schema.runs.labId, labId),
+        inArray(schema.runs.status, ["queued", "running"]),
+        isNull(schema.runs.sweepId),
+        isNull(schema.runs.deletedAt),
+      ),
+    )
     .get()!.n;
 }
 
 export function insertRun(
   ctx: AppContext,
-  v: { labId: string; name: string; notes?: string; spec: RunSpec; inputs?: Partial<ResolvedInputs>; userId: string | null; sweepId?: string; sweepPoint?: number; controlOf?: string; demoKey?: string },
+  v: {
+    labId: string;
+    name: string;
+    notes?: string;
+    spec: RunSpec;
+    inputs?: Partial<ResolvedInputs>;
+    userId: string | null;
+    sweepId?: string;
+    sweepPoint?: number;
+    controlOf?: string;
+    demoKey?: string;
+  },
 ): string {
   const id = newId("run_");
-  ctx.db.insert(schema.runs).values({
-    id,
-    labId: v.labId,
-    name: v.name,
-    notes: v.notes ?? "",
-    status: "queued",
-    spec: v.spec,
-    seed: v.spec.seed,
-    replicates: v.spec.replicates,
-    chunkSize: chunkLayout(v.spec).chunkSize,
-    engineVersion: ENGINE_VERSION,
-    circuitId: v.inputs?.circuitId ?? null,
-    circuitVersion: v.inputs?.circuitVersion ?? null,
-    programId: v.inputs?.programId ?? null,
-    sweepId: v.sweepId ?? null,
-    sweepPoint: v.sweepPoint ?? null,
-    controlOf: v.controlOf ?? null,
-    createdBy: v.userId,
-    createdAt: new Date(),
-    demoKey: v.demoKey ?? null,
-  }).run();
+  ctx.db
+    .insert(schema.runs)
+    .values({
+      id,
+      labId: v.labId,
+      name: v.name,
+      notes: v.notes ?? "",
+      status: "queued",
+      spec: v.spec,
+      seed: v.spec.seed,
+      replicates: v.spec.replicates,
+      chunkSize: chunkLayout(v.spec).chunkSize,
+      engineVersion: ENGINE_VERSION,
+      circuitId: v.inputs?.circuitId ?? null,
+      circuitVersion: v.inputs?.circuitVersion ?? null,
+      programId: v.inputs?.programId ?? null,
+      sweepId: v.sweepId ?? null,
+      sweepPoint: v.sweepPoint ?? null,
+      controlOf: v.controlOf ?? null,
+      createdBy: v.userId,
+      createdAt: new Date(),
+      demoKey: v.demoKey ?? null,
+    })
+    .run();
   return id;
 }
 
 export function launchRun(ctx: AppContext, labId: string, userId: string, body: LaunchRun): string {
   if (activeRunCount(ctx, labId) >= API_LIMITS.maxActiveRunsPerLab) {
-    throw tooMany(`This lab already has ${API_LIMITS.maxActiveRunsPerLab} runs queued or running; wait for some to finish or cancel one.`);
+    throw tooMany(
+      `This lab already has ${API_LIMITS.maxActiveRunsPerLab} runs queued or running; wait for some to finish or cancel one.`,
+    );
   }
   const inputs = resolveInputs(ctx, labId, body);
   const spec = buildSpec(inputs, body.settings);
@@ -174,7 +273,14 @@ const iso = (d: Date | null | undefined) => (d ? d.toISOString() : null);
 function userNames(ctx: AppContext, ids: (string | null)[]): Map<string, string> {
   const want = [...new Set(ids.filter((x): x is string => !!x))];
   if (!want.length) return new Map();
-  return new Map(ctx.db.select({ id: schema.users.id, name: schema.users.displayName }).from(schema.users).where(inArray(schema.users.id, want)).all().map((u) => [u.id, u.name]));
+  return new Map(
+    ctx.db
+      .select({ id: schema.users.id, name: schema.users.displayName })
+      .from(schema.users)
+      .where(inArray(schema.users.id, want))
+      .all()
+      .map((u) => [u.id, u.name]),
+  );
 }
 
 function progressView(ctx: AppContext, row: RunRow) {
@@ -192,12 +298,29 @@ function progressView(ctx: AppContext, row: RunRow) {
 function programNames(ctx: AppContext, ids: (string | null)[]): Map<string, string> {
   const want = [...new Set(ids.filter((x): x is string => !!x))];
   if (!want.length) return new Map();
-  return new Map(ctx.db.select({ id: schema.inputPrograms.id, name: schema.inputPrograms.name }).from(schema.inputPrograms).where(inArray(schema.inputPrograms.id, want)).all().map((p) => [p.id, p.name]));
+  return new Map(
+    ctx.db
+      .select({ id: schema.inputPrograms.id, name: schema.inputPrograms.name })
+      .from(schema.inputPrograms)
+      .where(inArray(schema.inputPrograms.id, want))
+      .all()
+      .map((p) => [p.id, p.name]),
+  );
 }
 
-const PROGRAM_KIND_LABEL: Record<string, string> = { pulses: "pulse list", periodic: "periodic train", ladder: "duration ladder", random: "random train" };
+const PROGRAM_KIND_LABEL: Record<string, string> = {
+  pulses: "pulse list",
+  periodic: "periodic train",
+  ladder: "duration ladder",
+  random: "random train",
+};
 
-export function toListItem(ctx: AppContext, row: RunRow, names: Map<string, string>, programs: Map<string, string> = programNames(ctx, [row.programId])): RunListItem {
+export function toListItem(
+  ctx: AppContext,
+  row: RunRow,
+  names: Map<string, string>,
+  programs: Map<string, string> = programNames(ctx, [row.programId]),
+): RunListItem {
   const spec = row.spec as RunSpec;
   const s = row.summary as RunSummary | null;
   return {
@@ -209,20 +332,30 @@ export function toListItem(ctx: AppContext, row: RunRow, names: Map<string, stri
     replicates: row.replicates,
     seed: row.seed,
     circuitName: spec.circuit.name,
-    programName: (row.programId && programs.get(row.programId)) || `inline ${PROGRAM_KIND_LABEL[spec.program.kind] ?? spec.program.kind}`,
+    programName:
+      (row.programId && programs.get(row.programId)) ||
+      `inline ${PROGRAM_KIND_LABEL[spec.program.kind] ?? spec.program.kind}`,
     sweepId: row.sweepId,
     controlOf: row.controlOf,
     progress: progressView(ctx, row),
     createdAt: row.createdAt.toISOString(),
     finishedAt: iso(row.finishedAt),
     archived: !!row.archivedAt,
-    createdBy: row.createdBy ? names.get(row.createdBy) ?? null : null,
+    createdBy: row.createdBy ? (names.get(row.createdBy) ?? null) : null,
     headline: s ? headlineOf(s) : null,
   };
 }
 
-export function listRuns(ctx: AppContext, labId: string, q: { archived?: boolean; status?: string; includeSweepPoints?: boolean; limit?: number }): RunListItem[] {
-  const conds = [eq(schema.runs.labId, labId), isNull(schema.runs.deletedAt), q.archived ? isNotNull(schema.runs.archivedAt) : isNull(schema.runs.archivedAt)];
+export function listRuns(
+  ctx: AppContext,
+  labId: string,
+  q: { archived?: boolean; status?: string; includeSweepPoints?: boolean; limit?: number },
+): RunListItem[] {
+  const conds = [
+    eq(schema.runs.labId, labId),
+    isNull(schema.runs.deletedAt),
+    q.archived ? isNotNull(schema.runs.archivedAt) : isNull(schema.runs.archivedAt),
+  ];
   if (!q.includeSweepPoints) conds.push(isNull(schema.runs.sweepId));
   if (q.status) conds.push(eq(schema.runs.status, q.status as any));
   const rows = ctx.db
@@ -230,11 +363,20 @@ export function listRuns(ctx: AppContext, labId: string, q: { archived?: boolean
     .from(schema.runs)
     .where(and(...conds))
     // running and queued first, then newest
-    .orderBy(sql`CASE ${schema.runs.status} WHEN 'running' THEN 0 WHEN 'queued' THEN 1 ELSE 2 END`, desc(schema.runs.createdAt))
+    .orderBy(
+      sql`CASE ${schema.runs.status} WHEN 'running' THEN 0 WHEN 'queued' THEN 1 ELSE 2 END`,
+      desc(schema.runs.createdAt),
+    )
     .limit(Math.min(q.limit ?? 200, 500))
     .all();
-  const names = userNames(ctx, rows.map((r) => r.createdBy));
-  const programs = programNames(ctx, rows.map((r) => r.programId));
+  const names = userNames(
+    ctx,
+    rows.map((r) => r.createdBy),
+  );
+  const programs = programNames(
+    ctx,
+    rows.map((r) => r.programId),
+  );
   return rows.map((r) => toListItem(ctx, r, names, programs));
 }
 
@@ -245,7 +387,13 @@ export function runDetail(ctx: AppContext, id: string): RunDetail {
   let threshold: RunDetail["threshold"] = null;
   try {
     const t = resolveThreshold(spec);
-    threshold = { theta: t.theta, downTheta: t.downTheta, hysteresis: t.hysteresis, windowMinutes: t.windowMinutes, outputLifetimeMinutes: t.outputLifetimeMinutes };
+    threshold = {
+      theta: t.theta,
+      downTheta: t.downTheta,
+      hysteresis: t.hysteresis,
+      windowMinutes: t.windowMinutes,
+      outputLifetimeMinutes: t.outputLifetimeMinutes,
+    };
   } catch {
     threshold = null;
   }
@@ -302,9 +450,17 @@ export function runSeries(ctx: AppContext, id: string, opts: { maxTrajectories?:
   const compiled = compileProgram(spec.program, spec.endTimeMinutes);
   return {
     times: Array.from(times),
-    input: { signal: spec.inputSignal, pulses: compiled.pulses.map((p: any) => ({ on: p.on, off: p.off, level: p.level })) },
+    input: {
+      signal: spec.inputSignal,
+      pulses: compiled.pulses.map((p: any) => ({ on: p.on, off: p.off, level: p.level })),
+    },
     outputSpecies: spec.circuit.outputSpecies,
-    species: names.map((name) => ({ name, mean: pick(name, "mean") ?? [], sd: pick(name, "sd") ?? [], ode: pick(name, "ode") })),
+    species: names.map((name) => ({
+      name,
+      mean: pick(name, "mean") ?? [],
+      sd: pick(name, "sd") ?? [],
+      ode: pick(name, "ode"),
+    })),
     trajectories: [...byRep.entries()].map(([replicate, values]) => ({ replicate, values })),
     threshold,
   };
@@ -322,7 +478,11 @@ const SORT_COLUMNS = {
   fwhm: schema.pulseStats.fwhm,
 } as const;
 
-export function replicatePage(ctx: AppContext, id: string, q: { sort: keyof typeof SORT_COLUMNS; dir: "asc" | "desc"; page: number; pageSize: number; durationBin?: number }) {
+export function replicatePage(
+  ctx: AppContext,
+  id: string,
+  q: { sort: keyof typeof SORT_COLUMNS; dir: "asc" | "desc"; page: number; pageSize: number; durationBin?: number },
+) {
   const conds = [eq(schema.pulseStats.runId, id)];
   if (q.durationBin !== undefined) conds.push(eq(schema.pulseStats.durationBin, q.durationBin));
   const where = and(...conds);
@@ -333,7 +493,12 @@ export function replicatePage(ctx: AppContext, id: string, q: { sort: keyof type
     .from(schema.pulseStats)
     .where(where)
     // nulls (censored) last either way, then a stable tie-break
-    .orderBy(sql`${col} IS NULL`, q.dir === "asc" ? asc(col) : desc(col), asc(schema.pulseStats.replicate), asc(schema.pulseStats.pulseIndex))
+    .orderBy(
+      sql`${col} IS NULL`,
+      q.dir === "asc" ? asc(col) : desc(col),
+      asc(schema.pulseStats.replicate),
+      asc(schema.pulseStats.pulseIndex),
+    )
     .limit(q.pageSize)
     .offset((q.page - 1) * q.pageSize)
     .all();
@@ -342,8 +507,19 @@ export function replicatePage(ctx: AppContext, id: string, q: { sort: keyof type
     page: q.page,
     pageSize: q.pageSize,
     rows: rows.map((r) => ({
-      replicate: r.replicate, pulseIndex: r.pulseIndex, on: r.on, off: r.off, durationBin: r.durationBin, excluded: r.excluded, passed: r.passed,
-      delay: r.delay, offDelay: r.offDelay, width: r.width, peak: r.peak, timeToPeak: r.timeToPeak, fwhm: r.fwhm,
+      replicate: r.replicate,
+      pulseIndex: r.pulseIndex,
+      on: r.on,
+      off: r.off,
+      durationBin: r.durationBin,
+      excluded: r.excluded,
+      passed: r.passed,
+      delay: r.delay,
+      offDelay: r.offDelay,
+      width: r.width,
+      peak: r.peak,
+      timeToPeak: r.timeToPeak,
+      fwhm: r.fwhm,
     })),
   };
 }
@@ -364,7 +540,13 @@ export function restore(ctx: AppContext, id: string) {
 /** Remove runs, sweeps and trace sets deleted longer ago than the undo period. */
 export function purgeDeleted(ctx: AppContext, now = Date.now()) {
   const cutoff = new Date(now - API_LIMITS.undoDays * 86400_000);
-  ctx.db.delete(schema.runs).where(and(isNotNull(schema.runs.deletedAt), lt(schema.runs.deletedAt, cutoff))).run();
-  ctx.db.delete(schema.sweeps).where(and(isNotNull(schema.sweeps.deletedAt), lt(schema.sweeps.deletedAt, cutoff))).run();
+  ctx.db
+    .delete(schema.runs)
+    .where(and(isNotNull(schema.runs.deletedAt), lt(schema.runs.deletedAt, cutoff)))
+    .run();
+  ctx.db
+    .delete(schema.sweeps)
+    .where(and(isNotNull(schema.sweeps.deletedAt), lt(schema.sweeps.deletedAt, cutoff)))
+    .run();
   purgeDeletedTraceSets(ctx, now);
 }

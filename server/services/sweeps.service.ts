@@ -5,13 +5,13 @@
  * A cancelled or interrupted sweep resumes from the points (and chunks) it has.
  */
 import { and, asc, count, eq, inArray, isNull } from "drizzle-orm";
-import type { AppContext } from "../context";
-import { schema } from "../../db/client";
-import { API_LIMITS, type LaunchSweep, type SweepDetail, type SweepListItem } from "../../shared/schemas/api-runs";
-import type { RunSpec } from "../../shared/schemas/run-spec";
-import { listParameters, setParameter } from "../../sim";
-import { badRequest, conflict, notFound, tooMany } from "../http-error";
-import { newId } from "../ids";
+import type { AppContext } from "@/server/context";
+import { schema } from "@/db/client";
+import { API_LIMITS, type LaunchSweep, type SweepDetail, type SweepListItem } from "@/shared/schemas/api-runs";
+import type { RunSpec } from "@/shared/schemas/run-spec";
+import { listParameters, setParameter } from "@/sim";
+import { badRequest, conflict, notFound, tooMany } from "@/server/http-error";
+import { newId } from "@/server/ids";
 import { buildSpec, insertRun, resolveInputs } from "./runs.service";
 import { assertRestorable } from "./undo";
 
@@ -21,7 +21,11 @@ export function axisValues(axis: LaunchSweep["axes"][number]): number[] {
   const out: number[] = [];
   for (let i = 0; i < g.count; i++) {
     const f = i / (g.count - 1);
-    out.push(g.scale === "log" ? Math.exp(Math.log(g.from) + f * (Math.log(g.to) - Math.log(g.from))) : g.from + f * (g.to - g.from));
+    out.push(
+      g.scale === "log"
+        ? Math.exp(Math.log(g.from) + f * (Math.log(g.to) - Math.log(g.from)))
+        : g.from + f * (g.to - g.from),
+    );
   }
   return out;
 }
@@ -30,24 +34,52 @@ export function axisValues(axis: LaunchSweep["axes"][number]): number[] {
 export const pointSeed = (base: string, i: number) => `${base}.p${i}`;
 
 export function launchSweep(ctx: AppContext, labId: string, userId: string, body: LaunchSweep): string {
-  const active = ctx.db.select({ n: count() }).from(schema.sweeps).where(and(eq(schema.sweeps.labId, labId), inArray(schema.sweeps.status, ["queued", "running"]), isNull(schema.sweeps.deletedAt))).get()!.n;
-  if (active >= API_LIMITS.maxActiveSweepsPerLab) throw tooMany(`This lab already has ${API_LIMITS.maxActiveSweepsPerLab} sweeps running; wait for one to finish or cancel one.`);
+  const active = ctx.db
+    .select({ n: count() })
+    .from(schema.sweeps)
+    .where(
+      and(
+        eq(schema.sweeps.labId, labId),
+        inArray(schema.sweeps.status, ["queued", "running"]),
+        isNull(schema.sweeps.deletedAt),
+      ),
+    )
+    .get()!.n;
+  if (active >= API_LIMITS.maxActiveSweepsPerLab)
+    throw tooMany(
+      `This lab already has ${API_LIMITS.maxActiveSweepsPerLab} sweeps running; wait for one to finish or cancel one.`,
+    );
   const inputs = resolveInputs(ctx, labId, body.base);
   const base = buildSpec(inputs, body.base.settings);
   const known = new Set(listParameters(base.circuit).map((p: { ref: string }) => p.ref));
   const axes = body.axes.map((a, i) => {
-    if (!known.has(a.parameter)) throw badRequest(`The circuit has no parameter ${a.parameter}.`, [{ path: `axes.${i}.parameter`, message: "unknown parameter" }]);
+    if (!known.has(a.parameter))
+      throw badRequest(`The circuit has no parameter ${a.parameter}.`, [
+        { path: `axes.${i}.parameter`, message: "unknown parameter" },
+      ]);
     return { parameter: a.parameter, values: axisValues(a) };
   });
-  if (axes.length === 2 && axes[0].parameter === axes[1].parameter) throw badRequest("Sweep two different parameters.", [{ path: "axes.1.parameter", message: "same as the first axis" }]);
+  if (axes.length === 2 && axes[0].parameter === axes[1].parameter)
+    throw badRequest("Sweep two different parameters.", [
+      { path: "axes.1.parameter", message: "same as the first axis" },
+    ]);
   const points: Record<string, number>[] = [];
   for (const v0 of axes[0].values) {
     if (axes.length === 1) points.push({ [axes[0].parameter]: v0 });
     else for (const v1 of axes[1].values) points.push({ [axes[0].parameter]: v0, [axes[1].parameter]: v1 });
   }
-  if (points.length > API_LIMITS.maxSweepPoints) throw badRequest(`The sweep has ${points.length} points; the limit is ${API_LIMITS.maxSweepPoints}.`, [{ path: "axes", message: "too many points" }], "limit");
+  if (points.length > API_LIMITS.maxSweepPoints)
+    throw badRequest(
+      `The sweep has ${points.length} points; the limit is ${API_LIMITS.maxSweepPoints}.`,
+      [{ path: "axes", message: "too many points" }],
+      "limit",
+    );
   if (points.length * base.replicates > API_LIMITS.maxSweepReplicates) {
-    throw badRequest(`${points.length} points x ${base.replicates} replicates exceeds ${API_LIMITS.maxSweepReplicates}; use fewer replicates per point.`, [{ path: "base.settings.replicates", message: "too many replicates in all" }], "limit");
+    throw badRequest(
+      `${points.length} points x ${base.replicates} replicates exceeds ${API_LIMITS.maxSweepReplicates}; use fewer replicates per point.`,
+      [{ path: "base.settings.replicates", message: "too many replicates in all" }],
+      "limit",
+    );
   }
   // Build and check every point before storing anything.
   const specs: RunSpec[] = points.map((p, i) => {
@@ -63,11 +95,24 @@ export function launchSweep(ctx: AppContext, labId: string, userId: string, body
   });
   const id = newId("swp_");
   ctx.sqlite.transaction(() => {
-    ctx.db.insert(schema.sweeps).values({
-      id, labId, name: body.name, baseSpec: base, axes, status: "queued", pointCount: points.length, createdBy: userId, createdAt: new Date(),
-    }).run();
+    ctx.db
+      .insert(schema.sweeps)
+      .values({
+        id,
+        labId,
+        name: body.name,
+        baseSpec: base,
+        axes,
+        status: "queued",
+        pointCount: points.length,
+        createdBy: userId,
+        createdAt: new Date(),
+      })
+      .run();
     specs.forEach((spec, i) => {
-      const label = Object.entries(points[i]).map(([k, v]) => `${k}=${formatNumber(v)}`).join(", ");
+      const label = Object.entries(points[i])
+        .map(([k, v]) => `${k}=${formatNumber(v)}`)
+        .join(", ");
       insertRun(ctx, { labId, name: `${body.name} · ${label}`, spec, userId, sweepId: id, sweepPoint: i, inputs });
     });
   })();
@@ -75,13 +120,18 @@ export function launchSweep(ctx: AppContext, labId: string, userId: string, body
   return id;
 }
 
-export const formatNumber = (v: number) => (Math.abs(v) >= 1000 || Math.abs(v) < 0.01 ? v.toPrecision(3) : String(Math.round(v * 1000) / 1000));
+export const formatNumber = (v: number) =>
+  Math.abs(v) >= 1000 || Math.abs(v) < 0.01 ? v.toPrecision(3) : String(Math.round(v * 1000) / 1000);
 
 /** Derive the sweep's status from its points and store it; returns the new status when it changed. */
 export function refreshSweepStatus(ctx: AppContext, sweepId: string): string | null {
   const sweep = ctx.db.select().from(schema.sweeps).where(eq(schema.sweeps.id, sweepId)).get();
   if (!sweep) return null;
-  const rows = ctx.db.select({ status: schema.runs.status }).from(schema.runs).where(eq(schema.runs.sweepId, sweepId)).all();
+  const rows = ctx.db
+    .select({ status: schema.runs.status })
+    .from(schema.runs)
+    .where(eq(schema.runs.sweepId, sweepId))
+    .all();
   const st = rows.map((r) => r.status);
   let status: typeof sweep.status;
   if (st.some((s) => s === "running")) status = "running";
@@ -92,12 +142,20 @@ export function refreshSweepStatus(ctx: AppContext, sweepId: string): string | n
   else status = "finished";
   if (status === sweep.status) return null;
   const ended = !["queued", "running"].includes(status);
-  ctx.db.update(schema.sweeps).set({ status, finishedAt: ended ? new Date() : null }).where(eq(schema.sweeps.id, sweepId)).run();
+  ctx.db
+    .update(schema.sweeps)
+    .set({ status, finishedAt: ended ? new Date() : null })
+    .where(eq(schema.sweeps.id, sweepId))
+    .run();
   return status;
 }
 
 export function cancelSweep(ctx: AppContext, sweepId: string) {
-  const rows = ctx.db.select({ id: schema.runs.id }).from(schema.runs).where(and(eq(schema.runs.sweepId, sweepId), inArray(schema.runs.status, ["queued", "running"]))).all();
+  const rows = ctx.db
+    .select({ id: schema.runs.id })
+    .from(schema.runs)
+    .where(and(eq(schema.runs.sweepId, sweepId), inArray(schema.runs.status, ["queued", "running"])))
+    .all();
   if (!rows.length) throw conflict("The sweep has no queued or running points.", "not_running");
   for (const r of rows) ctx.queue.cancel(r.id);
   refreshSweepStatus(ctx, sweepId);
@@ -110,17 +168,26 @@ export function resumeSweep(ctx: AppContext, sweepId: string) {
     .set({ status: "queued", statusReason: "Resumed.", finishedAt: null })
     .where(and(eq(schema.runs.sweepId, sweepId), inArray(schema.runs.status, ["cancelled", "failed"])))
     .run();
-  if (res.changes === 0) throw conflict("Nothing to resume: every point is finished, queued or running.", "nothing_to_resume");
+  if (res.changes === 0)
+    throw conflict("Nothing to resume: every point is finished, queued or running.", "nothing_to_resume");
   ctx.db.update(schema.sweeps).set({ status: "running", finishedAt: null }).where(eq(schema.sweeps.id, sweepId)).run();
   ctx.queue.kick();
 }
 
 /** Delete a sweep and hide its points (cancelling any still computing); restorable for the undo period. */
 export function deleteSweep(ctx: AppContext, sweepId: string) {
-  const sweep = ctx.db.select({ deletedAt: schema.sweeps.deletedAt }).from(schema.sweeps).where(eq(schema.sweeps.id, sweepId)).get();
+  const sweep = ctx.db
+    .select({ deletedAt: schema.sweeps.deletedAt })
+    .from(schema.sweeps)
+    .where(eq(schema.sweeps.id, sweepId))
+    .get();
   if (!sweep) throw notFound("That sweep");
   if (sweep.deletedAt) throw conflict("That sweep is already deleted.", "already_deleted");
-  const active = ctx.db.select({ id: schema.runs.id }).from(schema.runs).where(and(eq(schema.runs.sweepId, sweepId), inArray(schema.runs.status, ["queued", "running"]))).all();
+  const active = ctx.db
+    .select({ id: schema.runs.id })
+    .from(schema.runs)
+    .where(and(eq(schema.runs.sweepId, sweepId), inArray(schema.runs.status, ["queued", "running"])))
+    .all();
   for (const r of active) ctx.queue.cancel(r.id);
   const now = new Date();
   ctx.sqlite.transaction(() => {
@@ -131,7 +198,11 @@ export function deleteSweep(ctx: AppContext, sweepId: string) {
 
 /** Undo a sweep delete (409 when it is not deleted or the undo period has passed). */
 export function restoreSweep(ctx: AppContext, sweepId: string) {
-  const sweep = ctx.db.select({ deletedAt: schema.sweeps.deletedAt }).from(schema.sweeps).where(eq(schema.sweeps.id, sweepId)).get();
+  const sweep = ctx.db
+    .select({ deletedAt: schema.sweeps.deletedAt })
+    .from(schema.sweeps)
+    .where(eq(schema.sweeps.id, sweepId))
+    .get();
   if (!sweep) throw notFound("That sweep");
   assertRestorable("sweep", sweep.deletedAt);
   ctx.sqlite.transaction(() => {
@@ -143,7 +214,12 @@ export function restoreSweep(ctx: AppContext, sweepId: string) {
 export function sweepDetail(ctx: AppContext, sweepId: string): SweepDetail {
   const sweep = ctx.db.select().from(schema.sweeps).where(eq(schema.sweeps.id, sweepId)).get();
   if (!sweep) throw notFound("That sweep");
-  const runs = ctx.db.select().from(schema.runs).where(eq(schema.runs.sweepId, sweepId)).orderBy(asc(schema.runs.sweepPoint)).all();
+  const runs = ctx.db
+    .select()
+    .from(schema.runs)
+    .where(eq(schema.runs.sweepId, sweepId))
+    .orderBy(asc(schema.runs.sweepPoint))
+    .all();
   const axes = sweep.axes as { parameter: string; values: number[] }[];
   const points = runs.map((r) => {
     const i = r.sweepPoint ?? 0;
@@ -165,7 +241,9 @@ export function sweepDetail(ctx: AppContext, sweepId: string): SweepDetail {
             d50: s.d50 ?? null,
             falsePassRate: s.falsePassRate ?? null,
             medianDelay: s.delay?.median ?? null,
-            passByDuration: Object.fromEntries((s.byDuration ?? []).map((b: any) => [String(b.duration), b.passProbability])),
+            passByDuration: Object.fromEntries(
+              (s.byDuration ?? []).map((b: any) => [String(b.duration), b.passProbability]),
+            ),
             peak: s.pulseGeneration?.peak?.median ?? null,
             fano: s.noise?.fano ?? null,
           }
@@ -191,9 +269,28 @@ export function sweepDetail(ctx: AppContext, sweepId: string): SweepDetail {
 }
 
 export function listSweeps(ctx: AppContext, labId: string): SweepListItem[] {
-  const rows = ctx.db.select().from(schema.sweeps).where(and(eq(schema.sweeps.labId, labId), isNull(schema.sweeps.deletedAt))).orderBy(asc(schema.sweeps.createdAt)).all();
+  const rows = ctx.db
+    .select()
+    .from(schema.sweeps)
+    .where(and(eq(schema.sweeps.labId, labId), isNull(schema.sweeps.deletedAt)))
+    .orderBy(asc(schema.sweeps.createdAt))
+    .all();
   return rows.reverse().map((s) => {
-    const done = ctx.db.select({ n: count() }).from(schema.runs).where(and(eq(schema.runs.sweepId, s.id), inArray(schema.runs.status, ["finished", "capped", "failed", "cancelled"]))).get()!.n;
-    return { id: s.id, name: s.name, status: s.status, pointCount: s.pointCount, pointsDone: done, axes: (s.axes as any[]).map((a) => a.parameter), createdAt: s.createdAt.toISOString() };
+    const done = ctx.db
+      .select({ n: count() })
+      .from(schema.runs)
+      .where(
+        and(eq(schema.runs.sweepId, s.id), inArray(schema.runs.status, ["finished", "capped", "failed", "cancelled"])),
+      )
+      .get()!.n;
+    return {
+      id: s.id,
+      name: s.name,
+      status: s.status,
+      pointCount: s.pointCount,
+      pointsDone: done,
+      axes: (s.axes as any[]).map((a) => a.parameter),
+      createdAt: s.createdAt.toISOString(),
+    };
   });
 }

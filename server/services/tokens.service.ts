@@ -5,8 +5,8 @@
  */
 import { createHash, randomBytes } from "node:crypto";
 import { and, eq, isNull, gt } from "drizzle-orm";
-import type { AppContext } from "../context";
-import { schema } from "../../db/client";
+import type { AppContext } from "@/server/context";
+import { schema } from "@/db/client";
 
 export type TokenPurpose = "reset" | "invite" | "setup";
 export type TokenRow = typeof schema.tokens.$inferSelect;
@@ -23,7 +23,15 @@ export function hashToken(raw: string): string {
 
 export function createToken(
   ctx: Pick<AppContext, "db">,
-  t: { purpose: TokenPurpose; userId?: string | null; labId?: string | null; email?: string | null; role?: "owner" | "editor" | "viewer" | null; createdBy?: string | null; ttlMs?: number },
+  t: {
+    purpose: TokenPurpose;
+    userId?: string | null;
+    labId?: string | null;
+    email?: string | null;
+    role?: "owner" | "editor" | "viewer" | null;
+    createdBy?: string | null;
+    ttlMs?: number;
+  },
 ): { token: string; expiresAt: Date } {
   const token = randomBytes(32).toString("base64url");
   const now = new Date();
@@ -60,6 +68,10 @@ export function findValidToken(ctx: Pick<AppContext, "db">, raw: string, purpose
 /** Marks a token used; false when it was used meanwhile (so a race cannot use it twice). */
 export function markTokenUsed(ctx: Pick<AppContext, "db">, tokenHash: string): boolean {
   const t = schema.tokens;
-  const r = ctx.db.update(t).set({ usedAt: new Date() }).where(and(eq(t.tokenHash, tokenHash), isNull(t.usedAt))).run();
+  const r = ctx.db
+    .update(t)
+    .set({ usedAt: new Date() })
+    .where(and(eq(t.tokenHash, tokenHash), isNull(t.usedAt)))
+    .run();
   return r.changes === 1;
 }

@@ -7,15 +7,14 @@
 import type { NextFunction, Request, Response } from "express";
 import multer from "multer";
 import { and, desc, eq, isNotNull, isNull, lt, sql } from "drizzle-orm";
-import type { AppContext } from "../context";
-import { schema } from "../../db/client";
-import { newId } from "../ids";
-import { HttpError, badRequest, notFound } from "../http-error";
-import { parseOr400 } from "../middleware/validate";
+import type { AppContext } from "@/server/context";
+import { schema } from "@/db/client";
+import { newId } from "@/server/ids";
+import { HttpError, badRequest, notFound, parseOr400 } from "@/server/http-error";
 import { recordAudit } from "./audit.service";
-import { compileProgram } from "../../sim/inputs/compile-program";
-import { InputProgramSchema } from "../../shared/schemas/input-program";
-import { API_LIMITS } from "../../shared/schemas/api-runs";
+import { compileProgram } from "@/sim/inputs/compile-program";
+import { InputProgramSchema } from "@/shared/schemas/input-program";
+import { API_LIMITS } from "@/shared/schemas/api-runs";
 import {
   TRACE_LIMITS,
   TraceSettingsSchema,
@@ -28,10 +27,10 @@ import {
   type TraceSetListItem,
   type TraceSettings,
   type TraceUploadOptions,
-} from "../../shared/schemas/api-traces";
-import { parseTraces, type ParsedCell } from "../../sim/traces/parse-traces";
-import { analyseTraces, chartCells } from "../../sim/traces/trace-metrics";
-import type { RawCell } from "../../sim/traces/preprocess";
+} from "@/shared/schemas/api-traces";
+import { parseTraces, type ParsedCell } from "@/sim/traces/parse-traces";
+import { analyseTraces, chartCells } from "@/sim/traces/trace-metrics";
+import type { RawCell } from "@/sim/traces/preprocess";
 import { assertRestorable } from "./undo";
 
 export const toBlob = (a: Float64Array) => Buffer.from(a.buffer, a.byteOffset, a.byteLength);
@@ -54,13 +53,25 @@ export function traceUpload(req: Request, res: Response, next: NextFunction): vo
     if (!err) return next();
     if (err instanceof multer.MulterError) {
       if (err.code === "LIMIT_FILE_SIZE") {
-        return next(new HttpError(413, "file_too_large", `The file is larger than ${TRACE_LIMITS.maxFileBytes / (1024 * 1024)} MB; split it or drop columns you do not need.`));
+        return next(
+          new HttpError(
+            413,
+            "file_too_large",
+            `The file is larger than ${TRACE_LIMITS.maxFileBytes / (1024 * 1024)} MB; split it or drop columns you do not need.`,
+          ),
+        );
       }
-      if (err.code === "LIMIT_UNEXPECTED_FILE") return next(badRequest(`Send one file, in the form field "file" (got "${err.field}").`, undefined, "bad_upload"));
+      if (err.code === "LIMIT_UNEXPECTED_FILE")
+        return next(
+          badRequest(`Send one file, in the form field "file" (got "${err.field}").`, undefined, "bad_upload"),
+        );
       return next(badRequest(`The upload was refused: ${err.message}.`, undefined, "bad_upload"));
     }
     const e = err as { status?: number; message?: string };
-    if (typeof e.status === "number" && e.status < 500) return next(badRequest(`The upload could not be read: ${e.message ?? "bad multipart body"}.`, undefined, "bad_upload"));
+    if (typeof e.status === "number" && e.status < 500)
+      return next(
+        badRequest(`The upload could not be read: ${e.message ?? "bad multipart body"}.`, undefined, "bad_upload"),
+      );
     next(badRequest("The upload could not be read as a multipart form.", undefined, "bad_upload"));
   });
 }
@@ -68,21 +79,39 @@ export function traceUpload(req: Request, res: Response, next: NextFunction): vo
 /** The upload's file text and options, or a 400. */
 export function readUpload(req: Request): { fileName: string | null; text: string; options: TraceUploadOptions } {
   const file = (req as Request & { file?: Express.Multer.File }).file;
-  if (!file) throw badRequest('Attach the traces file (CSV or TSV) in the form field "file".', [{ path: "file", message: "missing" }], "bad_upload");
+  if (!file)
+    throw badRequest(
+      'Attach the traces file (CSV or TSV) in the form field "file".',
+      [{ path: "file", message: "missing" }],
+      "bad_upload",
+    );
   const raw = (req.body as Record<string, unknown> | undefined)?.options;
   let json: unknown = {};
   if (typeof raw === "string" && raw.trim() !== "") {
     try {
       json = JSON.parse(raw);
     } catch {
-      throw badRequest('The form field "options" is not valid JSON.', [{ path: "options", message: "not JSON" }], "invalid");
+      throw badRequest(
+        'The form field "options" is not valid JSON.',
+        [{ path: "options", message: "not JSON" }],
+        "invalid",
+      );
     }
   } else if (raw !== undefined && typeof raw !== "string") {
-    throw badRequest('The form field "options" must be JSON text.', [{ path: "options", message: "not text" }], "invalid");
+    throw badRequest(
+      'The form field "options" must be JSON text.',
+      [{ path: "options", message: "not text" }],
+      "invalid",
+    );
   }
   const options = parseOr400(TraceUploadOptionsSchema, json, "options");
   const buf = file.buffer;
-  if (buf.includes(0)) throw badRequest("The file is not text (CSV or TSV expected).", [{ path: "file", message: "binary" }], "invalid_traces");
+  if (buf.includes(0))
+    throw badRequest(
+      "The file is not text (CSV or TSV expected).",
+      [{ path: "file", message: "binary" }],
+      "invalid_traces",
+    );
   return { fileName: file.originalname || null, text: buf.toString("utf8"), options };
 }
 
@@ -107,7 +136,10 @@ export class TraceFileError extends HttpError {
     super(
       400,
       "invalid_traces",
-      `The file was not accepted: ${lines.slice(0, 3).map((e) => `line ${e.line}${e.column ? `, column ${e.column}` : ""}: ${e.message}`).join("; ")}${lines.length > 3 ? `; and ${lines.length - 3} more` : ""}.`,
+      `The file was not accepted: ${lines
+        .slice(0, 3)
+        .map((e) => `line ${e.line}${e.column ? `, column ${e.column}` : ""}: ${e.message}`)
+        .join("; ")}${lines.length > 3 ? `; and ${lines.length - 3} more` : ""}.`,
       lines.map((e) => ({ path: `line ${e.line}${e.column ? `, column ${e.column}` : ""}`, message: e.message })),
     );
   }
@@ -126,10 +158,15 @@ function scheduleFromProgram(ctx: AppContext, labId: string, programId: string, 
     .from(schema.inputPrograms)
     .where(and(eq(schema.inputPrograms.id, programId), eq(schema.inputPrograms.labId, labId)))
     .get();
-  if (!row) throw badRequest("That input program was not found in this lab.", [{ path: "schedule.programId", message: "not found" }]);
+  if (!row)
+    throw badRequest("That input program was not found in this lab.", [
+      { path: "schedule.programId", message: "not found" },
+    ]);
   const program = InputProgramSchema.parse(row.body);
   if (program.kind === "random" && program.perReplicate) {
-    throw badRequest("That program draws a new schedule per replicate; traces need one schedule for every cell.", [{ path: "schedule.programId", message: "per-replicate program" }]);
+    throw badRequest("That program draws a new schedule per replicate; traces need one schedule for every cell.", [
+      { path: "schedule.programId", message: "per-replicate program" },
+    ]);
   }
   return compileProgram(program, endMinutes).pulses.map((p) => ({ on: p.on, off: p.off, durationBin: p.durationBin }));
 }
@@ -138,13 +175,18 @@ function analyse(cells: RawCell[], schedule: TracePulse[], settings: TraceSettin
   try {
     return analyseTraces(cells, schedule, settings);
   } catch (e) {
-    if (e instanceof RangeError) throw badRequest(`Preprocessing: ${e.message}.`, [{ path: "settings.scale", message: e.message }], "invalid");
+    if (e instanceof RangeError)
+      throw badRequest(`Preprocessing: ${e.message}.`, [{ path: "settings.scale", message: e.message }], "invalid");
     throw e;
   }
 }
 
 /** Parses, checks and analyses an upload without storing anything. */
-export function buildTraceSet(ctx: AppContext, labId: string, up: { fileName: string | null; text: string; options: TraceUploadOptions }): BuiltTraceSet {
+export function buildTraceSet(
+  ctx: AppContext,
+  labId: string,
+  up: { fileName: string | null; text: string; options: TraceUploadOptions },
+): BuiltTraceSet {
   const { options } = up;
   const parsed = parseTraces(up.text, {
     layout: options.layout,
@@ -157,11 +199,25 @@ export function buildTraceSet(ctx: AppContext, labId: string, up: { fileName: st
   if (!parsed.ok) throw new TraceFileError(parsed.errors);
   let end = 0;
   for (const c of parsed.cells) end = Math.max(end, c.times[c.times.length - 1]);
-  const schedule = options.schedule.source === "column" ? parsed.schedule ?? [] : scheduleFromProgram(ctx, labId, options.schedule.programId, end);
+  const schedule =
+    options.schedule.source === "column"
+      ? (parsed.schedule ?? [])
+      : scheduleFromProgram(ctx, labId, options.schedule.programId, end);
   const { analysis, prepared } = analyse(parsed.cells, schedule, options.settings);
   const warnings = [...parsed.warnings];
   if (schedule.length === 0) warnings.push("No input pulse: there is nothing to score; check the schedule.");
-  return { fileName: up.fileName, options, layout: parsed.layout, delimiter: parsed.delimiter, rows: parsed.rows, cells: parsed.cells, schedule, warnings, analysis, prepared };
+  return {
+    fileName: up.fileName,
+    options,
+    layout: parsed.layout,
+    delimiter: parsed.delimiter,
+    rows: parsed.rows,
+    cells: parsed.cells,
+    schedule,
+    warnings,
+    analysis,
+    prepared,
+  };
 }
 
 export function previewOf(b: BuiltTraceSet): TracePreview {
@@ -191,7 +247,11 @@ export function saveTraceSet(
   ctx: AppContext,
   labId: string,
   userId: string | null,
-  b: Pick<BuiltTraceSet, "fileName" | "layout" | "cells" | "schedule"> & { timeUnit: "s" | "min" | "h"; settings: TraceSettings; name: string },
+  b: Pick<BuiltTraceSet, "fileName" | "layout" | "cells" | "schedule"> & {
+    timeUnit: "s" | "min" | "h";
+    settings: TraceSettings;
+    name: string;
+  },
   extra: { synthetic?: boolean; demoKey?: string } = {},
 ): string {
   const id = newId("trs_");
@@ -215,9 +275,19 @@ export function saveTraceSet(
       })
       .run();
     for (const c of b.cells) {
-      ctx.db.insert(schema.traceCells).values({ traceSetId: id, cell: c.cell, times: toBlob(c.times), values: toBlob(c.values) }).run();
+      ctx.db
+        .insert(schema.traceCells)
+        .values({ traceSetId: id, cell: c.cell, times: toBlob(c.times), values: toBlob(c.values) })
+        .run();
     }
-    recordAudit(ctx, { labId, userId, action: "traces.uploaded", targetType: "traceSet", targetId: id, detail: { name: b.name, cells: b.cells.length } });
+    recordAudit(ctx, {
+      labId,
+      userId,
+      action: "traces.uploaded",
+      targetType: "traceSet",
+      targetId: id,
+      detail: { name: b.name, cells: b.cells.length },
+    });
   })();
   return id;
 }
@@ -231,14 +301,20 @@ type TraceSetRow = typeof schema.traceSets.$inferSelect;
  * this: the access check finds deleted sets too (so restore can reach them).
  */
 function getRow(ctx: AppContext, id: string): TraceSetRow {
-  const row = ctx.db.select().from(schema.traceSets).where(and(eq(schema.traceSets.id, id), isNull(schema.traceSets.deletedAt))).get();
+  const row = ctx.db
+    .select()
+    .from(schema.traceSets)
+    .where(and(eq(schema.traceSets.id, id), isNull(schema.traceSets.deletedAt)))
+    .get();
   if (!row) throw notFound("That traceSet");
   return row;
 }
 
 function userName(ctx: AppContext, id: string | null): string | null {
   if (!id) return null;
-  return ctx.db.select({ n: schema.users.displayName }).from(schema.users).where(eq(schema.users.id, id)).get()?.n ?? null;
+  return (
+    ctx.db.select({ n: schema.users.displayName }).from(schema.users).where(eq(schema.users.id, id)).get()?.n ?? null
+  );
 }
 
 function listItem(row: TraceSetRow, name: string | null): TraceSetListItem {
@@ -267,24 +343,31 @@ export function listTraceSets(ctx: AppContext, labId: string): TraceSetListItem[
   const names = new Map<string, string | null>();
   return rows.map((r) => {
     if (r.uploadedBy && !names.has(r.uploadedBy)) names.set(r.uploadedBy, userName(ctx, r.uploadedBy));
-    return listItem(r, r.uploadedBy ? names.get(r.uploadedBy) ?? null : null);
+    return listItem(r, r.uploadedBy ? (names.get(r.uploadedBy) ?? null) : null);
   });
 }
 
 export function readCells(ctx: AppContext, id: string): RawCell[] {
-  return ctx.db
-    .select()
-    .from(schema.traceCells)
-    .where(eq(schema.traceCells.traceSetId, id))
-    // upload order
-    .orderBy(sql`rowid`)
-    .all()
-    .map((c) => ({ cell: c.cell, times: fromBlob(c.times), values: fromBlob(c.values) }));
+  return (
+    ctx.db
+      .select()
+      .from(schema.traceCells)
+      .where(eq(schema.traceCells.traceSetId, id))
+      // upload order
+      .orderBy(sql`rowid`)
+      .all()
+      .map((c) => ({ cell: c.cell, times: fromBlob(c.times), values: fromBlob(c.values) }))
+  );
 }
 
 function settingsOf(row: TraceSetRow): TraceSettings {
   const r = TraceSettingsSchema.safeParse(row.settings);
-  if (!r.success) throw new HttpError(409, "bad_settings", "This trace set's stored settings are incomplete; save new settings (PATCH) to analyse it.");
+  if (!r.success)
+    throw new HttpError(
+      409,
+      "bad_settings",
+      "This trace set's stored settings are incomplete; save new settings (PATCH) to analyse it.",
+    );
   return r.data;
 }
 
@@ -300,7 +383,12 @@ export function analyseStored(ctx: AppContext, id: string) {
 export function traceSetDetail(ctx: AppContext, id: string): TraceSetDetail {
   const { row, settings, analysis, prepared } = analyseStored(ctx, id);
   const matches = ctx.db
-    .select({ id: schema.matches.id, runId: schema.matches.runId, sweepId: schema.matches.sweepId, createdAt: schema.matches.createdAt })
+    .select({
+      id: schema.matches.id,
+      runId: schema.matches.runId,
+      sweepId: schema.matches.sweepId,
+      createdAt: schema.matches.createdAt,
+    })
     .from(schema.matches)
     .where(eq(schema.matches.traceSetId, id))
     .orderBy(desc(schema.matches.createdAt))
@@ -315,7 +403,12 @@ export function traceSetDetail(ctx: AppContext, id: string): TraceSetDetail {
   };
 }
 
-export function updateTraceSet(ctx: AppContext, userId: string, id: string, patch: { name?: string; settings?: TraceSettings }): void {
+export function updateTraceSet(
+  ctx: AppContext,
+  userId: string,
+  id: string,
+  patch: { name?: string; settings?: TraceSettings },
+): void {
   const row = getRow(ctx, id);
   if (patch.settings) {
     // Check the new settings analyse before storing them (a fitted scale may fail).
@@ -326,7 +419,14 @@ export function updateTraceSet(ctx: AppContext, userId: string, id: string, patc
   if (patch.settings !== undefined) set.settings = patch.settings;
   if (Object.keys(set).length === 0) return;
   ctx.db.update(schema.traceSets).set(set).where(eq(schema.traceSets.id, id)).run();
-  recordAudit(ctx, { labId: row.labId, userId, action: "traces.updated", targetType: "traceSet", targetId: id, detail: { fields: Object.keys(set) } });
+  recordAudit(ctx, {
+    labId: row.labId,
+    userId,
+    action: "traces.updated",
+    targetType: "traceSet",
+    targetId: id,
+    detail: { fields: Object.keys(set) },
+  });
 }
 
 /** Soft delete: the set disappears from every route but restore, and is purged after the undo period. */
@@ -334,7 +434,14 @@ export function deleteTraceSet(ctx: AppContext, userId: string, id: string): voi
   const row = getRow(ctx, id);
   ctx.sqlite.transaction(() => {
     ctx.db.update(schema.traceSets).set({ deletedAt: new Date() }).where(eq(schema.traceSets.id, id)).run();
-    recordAudit(ctx, { labId: row.labId, userId, action: "traces.deleted", targetType: "traceSet", targetId: id, detail: { name: row.name } });
+    recordAudit(ctx, {
+      labId: row.labId,
+      userId,
+      action: "traces.deleted",
+      targetType: "traceSet",
+      targetId: id,
+      detail: { name: row.name },
+    });
   })();
 }
 
@@ -345,7 +452,14 @@ export function restoreTraceSet(ctx: AppContext, userId: string, id: string): Tr
   assertRestorable("trace set", row.deletedAt);
   ctx.sqlite.transaction(() => {
     ctx.db.update(schema.traceSets).set({ deletedAt: null }).where(eq(schema.traceSets.id, id)).run();
-    recordAudit(ctx, { labId: row.labId, userId, action: "traces.restored", targetType: "traceSet", targetId: id, detail: { name: row.name } });
+    recordAudit(ctx, {
+      labId: row.labId,
+      userId,
+      action: "traces.restored",
+      targetType: "traceSet",
+      targetId: id,
+      detail: { name: row.name },
+    });
   })();
   return listItem({ ...row, deletedAt: null }, userName(ctx, row.uploadedBy));
 }
@@ -354,26 +468,45 @@ export function restoreTraceSet(ctx: AppContext, userId: string, id: string): Tr
 export function purgeDeletedTraceSets(ctx: Pick<AppContext, "db">, now = Date.now()): number {
   const cutoff = new Date(now - API_LIMITS.undoDays * 86400_000);
   const t = schema.traceSets;
-  return ctx.db.delete(t).where(and(isNotNull(t.deletedAt), lt(t.deletedAt, cutoff))).run().changes;
+  return ctx.db
+    .delete(t)
+    .where(and(isNotNull(t.deletedAt), lt(t.deletedAt, cutoff)))
+    .run().changes;
 }
 
 // ---------------------------------------------------------------- CSV export
 
 const csvField = (s: string) => (/[",\n\r]/.test(s) ? `"${s.replace(/"/g, '""')}"` : s);
-const num = (x: number | null | undefined) => (x === null || x === undefined || !Number.isFinite(x) ? "" : String(Number(x.toPrecision(10))));
+const num = (x: number | null | undefined) =>
+  x === null || x === undefined || !Number.isFinite(x) ? "" : String(Number(x.toPrecision(10)));
 
 /** One row per cell and analysed pulse: the section-5 figures (times in minutes, levels in trace units). */
 export function metricsCsv(analysis: TraceAnalysis, synthetic: boolean): string {
   const lines: string[] = [];
   if (synthetic) lines.push("# SYNTHETIC traces made by Linger from hidden parameters (demo data, not measurements)");
-  lines.push("cell,pulse_index,on_min,off_min,duration_bin_min,excluded,passed,delay_min,off_delay_min,widths_min,peak,time_to_peak_min,fwhm_min,baseline,threshold_trace_units,longest_gap_min");
+  lines.push(
+    "cell,pulse_index,on_min,off_min,duration_bin_min,excluded,passed,delay_min,off_delay_min,widths_min,peak,time_to_peak_min,fwhm_min,baseline,threshold_trace_units,longest_gap_min",
+  );
   for (const c of analysis.cells) {
     for (const p of c.pulses) {
       lines.push(
         [
-          csvField(c.cell), p.pulseIndex, num(p.on), num(p.off), num(p.durationBin), p.excluded ? 1 : 0, p.passed ? 1 : 0,
-          num(p.delay), num(p.offDelay), p.widths.map(num).join(";"), num(p.peak), num(p.timeToPeak), num(p.fwhm), num(p.baseline),
-          num(c.thresholdTraceUnits), num(p.longestGapMinutes),
+          csvField(c.cell),
+          p.pulseIndex,
+          num(p.on),
+          num(p.off),
+          num(p.durationBin),
+          p.excluded ? 1 : 0,
+          p.passed ? 1 : 0,
+          num(p.delay),
+          num(p.offDelay),
+          p.widths.map(num).join(";"),
+          num(p.peak),
+          num(p.timeToPeak),
+          num(p.fwhm),
+          num(p.baseline),
+          num(c.thresholdTraceUnits),
+          num(p.longestGapMinutes),
         ].join(","),
       );
     }

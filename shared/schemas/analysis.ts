@@ -260,7 +260,9 @@ export const ComparisonSchema = z.object({
     z.object({
       duration: num,
       runs: z.array(
-        z.object({ pulses: count, passed: count, passProbability: nnum, ci: interval.nullable(), fitted: nnum }).nullable(),
+        z
+          .object({ pulses: count, passed: count, passProbability: nnum, ci: interval.nullable(), fitted: nnum })
+          .nullable(),
       ),
     }),
   ),

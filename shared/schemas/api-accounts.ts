@@ -14,6 +14,17 @@ import { PASSWORD_MAX_LENGTH, PASSWORD_MIN_LENGTH } from "./auth";
 export const LAB_ROLES = ["owner", "editor", "viewer"] as const;
 export const LabRoleSchema = z.enum(LAB_ROLES);
 export type LabRole = z.infer<typeof LabRoleSchema>;
+const ROLE_RANK: Record<LabRole, number> = { viewer: 1, editor: 2, owner: 3 };
+/** The signed-in user as the server's session knows it. */
+export interface SessionUser {
+  id: string;
+  email: string;
+  displayName: string;
+  isSiteAdmin: boolean;
+}
+
+/** True when a member with role `have` (null: not a member) may act as `need`. */
+export const roleAtLeast = (have: LabRole | null, need: LabRole) => have !== null && ROLE_RANK[have] >= ROLE_RANK[need];
 
 const EmailSchema = z.string().trim().max(254).pipe(z.email("must be an e-mail address"));
 const PasswordSchema = z
@@ -28,18 +39,33 @@ const TokenSchema = z.string().min(1).max(200);
 
 export const SignInBodySchema = z.object({ email: z.string().max(254), password: z.string().max(PASSWORD_MAX_LENGTH) });
 export type SignInBody = z.input<typeof SignInBodySchema>;
-export const SignUpBodySchema = z.object({ email: EmailSchema, password: PasswordSchema, displayName: DisplayNameSchema, invitationToken: z.string().max(200).optional() });
+export const SignUpBodySchema = z.object({
+  email: EmailSchema,
+  password: PasswordSchema,
+  displayName: DisplayNameSchema,
+  invitationToken: z.string().max(200).optional(),
+});
 export type SignUpBody = z.input<typeof SignUpBodySchema>;
 export const ResetRequestBodySchema = z.object({ email: z.string().trim().max(254) });
 export type ResetRequestBody = z.input<typeof ResetRequestBodySchema>;
 export const ResetConfirmBodySchema = z.object({ token: TokenSchema, password: PasswordSchema });
 export type ResetConfirmBody = z.input<typeof ResetConfirmBodySchema>;
-export const ChangePasswordBodySchema = z.object({ currentPassword: z.string().max(PASSWORD_MAX_LENGTH), newPassword: PasswordSchema });
+export const ChangePasswordBodySchema = z.object({
+  currentPassword: z.string().max(PASSWORD_MAX_LENGTH),
+  newPassword: PasswordSchema,
+});
 export type ChangePasswordBody = z.input<typeof ChangePasswordBodySchema>;
-export const MePatchBodySchema = z.object({ displayName: DisplayNameSchema.optional(), notifyOnRunEnd: z.boolean().optional() });
+export const MePatchBodySchema = z.object({
+  displayName: DisplayNameSchema.optional(),
+  notifyOnRunEnd: z.boolean().optional(),
+});
 export type MePatchBody = z.input<typeof MePatchBodySchema>;
 /** Signed in: the token alone. Signed out: password and displayName create the invited account. */
-export const AcceptInvitationBodySchema = z.object({ token: TokenSchema, password: PasswordSchema.optional(), displayName: DisplayNameSchema.optional() });
+export const AcceptInvitationBodySchema = z.object({
+  token: TokenSchema,
+  password: PasswordSchema.optional(),
+  displayName: DisplayNameSchema.optional(),
+});
 export type AcceptInvitationBody = z.input<typeof AcceptInvitationBodySchema>;
 
 export const LabCreateBodySchema = z.object({ name: LabNameSchema });
@@ -86,7 +112,12 @@ export type Ok = z.infer<typeof OkSchema>;
 // ---------------------------------------------------------------- labs and members
 
 /** One of the caller's labs (GET /api/labs, POST /api/labs). */
-export const LabSummarySchema = z.object({ id: z.string(), name: z.string(), role: LabRoleSchema, memberCount: z.number().int() });
+export const LabSummarySchema = z.object({
+  id: z.string(),
+  name: z.string(),
+  role: LabRoleSchema,
+  memberCount: z.number().int(),
+});
 export type LabSummary = z.infer<typeof LabSummarySchema>;
 export const LabListSchema = z.object({ labs: z.array(LabSummarySchema) });
 export type LabList = z.infer<typeof LabListSchema>;

@@ -84,7 +84,12 @@ export type Template = z.infer<typeof TemplateSchema>;
 export const TemplatesResponseSchema = z.object({ templates: z.array(TemplateSchema) });
 export type TemplatesResponse = z.infer<typeof TemplatesResponseSchema>;
 
-export const ParameterInfoSchema = z.object({ ref: z.string(), label: z.string(), value: z.number(), unit: z.string() });
+export const ParameterInfoSchema = z.object({
+  ref: z.string(),
+  label: z.string(),
+  value: z.number(),
+  unit: z.string(),
+});
 export type ParameterInfoWire = z.infer<typeof ParameterInfoSchema>;
 
 // ---------------------------------------------------------------- circuits

@@ -63,7 +63,10 @@ export const UpdateProgramRequestSchema = z
     name: ItemNameSchema.optional(),
     body: InputProgramSchema.optional(),
   })
-  .refine((v) => v.name !== undefined || v.body !== undefined, { message: "give a new name or a new body", path: ["body"] });
+  .refine((v) => v.name !== undefined || v.body !== undefined, {
+    message: "give a new name or a new body",
+    path: ["body"],
+  });
 export type UpdateProgramRequest = z.input<typeof UpdateProgramRequestSchema>;
 
 export const DuplicateProgramRequestSchema = z.object({

@@ -114,7 +114,15 @@ export const RunDetailSchema = RunListItemSchema.extend({
   statsHash: z.string().nullable(),
   /** RunSummary (shared/schemas/analysis.ts) when finished. */
   summary: z.any().nullable(),
-  threshold: z.object({ theta: z.number(), downTheta: z.number(), hysteresis: z.number(), windowMinutes: z.number(), outputLifetimeMinutes: z.number() }).nullable(),
+  threshold: z
+    .object({
+      theta: z.number(),
+      downTheta: z.number(),
+      hysteresis: z.number(),
+      windowMinutes: z.number(),
+      outputLifetimeMinutes: z.number(),
+    })
+    .nullable(),
   /** For a reproduction: identical statistics or the first difference. */
   reproduction: z
     .object({
@@ -135,16 +143,28 @@ export type RunDetail = z.infer<typeof RunDetailSchema>;
 
 export const RunSeriesSchema = z.object({
   times: z.array(z.number()),
-  input: z.object({ signal: z.string(), pulses: z.array(z.object({ on: z.number(), off: z.number(), level: z.number() })) }),
+  input: z.object({
+    signal: z.string(),
+    pulses: z.array(z.object({ on: z.number(), off: z.number(), level: z.number() })),
+  }),
   outputSpecies: z.string(),
-  species: z.array(z.object({ name: z.string(), mean: z.array(z.number()), sd: z.array(z.number()), ode: z.array(z.number()).nullable() })),
+  species: z.array(
+    z.object({
+      name: z.string(),
+      mean: z.array(z.number()),
+      sd: z.array(z.number()),
+      ode: z.array(z.number()).nullable(),
+    }),
+  ),
   trajectories: z.array(z.object({ replicate: z.number(), values: z.record(z.string(), z.array(z.number())) })),
   threshold: z.object({ theta: z.number(), downTheta: z.number() }).nullable(),
 });
 export type RunSeries = z.infer<typeof RunSeriesSchema>;
 
 export const ReplicateQuerySchema = z.object({
-  sort: z.enum(["replicate", "pulseIndex", "durationBin", "delay", "offDelay", "width", "peak", "timeToPeak", "fwhm"]).default("replicate"),
+  sort: z
+    .enum(["replicate", "pulseIndex", "durationBin", "delay", "offDelay", "width", "peak", "timeToPeak", "fwhm"])
+    .default("replicate"),
   dir: z.enum(["asc", "desc"]).default("asc"),
   page: z.coerce.number().int().min(1).default(1),
   pageSize: z.coerce.number().int().min(1).max(500).default(50),
@@ -156,30 +176,61 @@ export const ReplicatePageSchema = z.object({
   pageSize: z.number(),
   rows: z.array(
     z.object({
-      replicate: z.number(), pulseIndex: z.number(), on: z.number(), off: z.number(), durationBin: z.number(),
-      excluded: z.boolean(), passed: z.boolean(), delay: z.number().nullable(), offDelay: z.number().nullable(),
-      width: z.number().nullable(), peak: z.number(), timeToPeak: z.number(), fwhm: z.number().nullable(),
+      replicate: z.number(),
+      pulseIndex: z.number(),
+      on: z.number(),
+      off: z.number(),
+      durationBin: z.number(),
+      excluded: z.boolean(),
+      passed: z.boolean(),
+      delay: z.number().nullable(),
+      offDelay: z.number().nullable(),
+      width: z.number().nullable(),
+      peak: z.number(),
+      timeToPeak: z.number(),
+      fwhm: z.number().nullable(),
     }),
   ),
 });
 export type ReplicatePage = z.infer<typeof ReplicatePageSchema>;
 
-export const PatchRunSchema = z.object({ name: z.string().trim().min(1).max(120).optional(), notes: z.string().max(5000).optional() });
+export const PatchRunSchema = z.object({
+  name: z.string().trim().min(1).max(120).optional(),
+  notes: z.string().max(5000).optional(),
+});
 
-export const EstimateSchema = z.object({ estimatedEvents: z.number(), estimatedSeconds: z.number(), gridPoints: z.number(), pulses: z.number(), storedPulseRows: z.number() });
+export const EstimateSchema = z.object({
+  estimatedEvents: z.number(),
+  estimatedSeconds: z.number(),
+  gridPoints: z.number(),
+  pulses: z.number(),
+  storedPulseRows: z.number(),
+});
 export type Estimate = z.infer<typeof EstimateSchema>;
 
-export const CompareRequestSchema = z.object({ runIds: z.array(z.string()).min(2, "choose at least two runs").max(4, "choose at most four runs") });
+export const CompareRequestSchema = z.object({
+  runIds: z.array(z.string()).min(2, "choose at least two runs").max(4, "choose at most four runs"),
+});
 
 // ---- sweeps
 export const SweepAxisSchema = z
   .object({
     parameter: ParameterRefSchema,
     values: z.array(z.number().finite()).min(1).max(400).optional(),
-    grid: z.object({ from: z.number().finite(), to: z.number().finite(), count: z.number().int().min(2).max(400), scale: z.enum(["linear", "log"]).default("linear") }).optional(),
+    grid: z
+      .object({
+        from: z.number().finite(),
+        to: z.number().finite(),
+        count: z.number().int().min(2).max(400),
+        scale: z.enum(["linear", "log"]).default("linear"),
+      })
+      .optional(),
   })
   .refine((a) => !!a.values !== !!a.grid, { message: "give either values or grid", path: ["values"] })
-  .refine((a) => !a.grid || a.grid.scale !== "log" || (a.grid.from > 0 && a.grid.to > 0), { message: "a log grid needs positive ends", path: ["grid"] });
+  .refine((a) => !a.grid || a.grid.scale !== "log" || (a.grid.from > 0 && a.grid.to > 0), {
+    message: "a log grid needs positive ends",
+    path: ["grid"],
+  });
 
 export const LaunchSweepSchema = z.object({
   name: z.string().trim().min(1).max(120),

@@ -82,7 +82,15 @@ export type Scale = z.infer<typeof ScaleSchema>;
 export const SmoothingSchema = z.discriminatedUnion("mode", [
   z.object({ mode: z.literal("none") }),
   /** Centred moving average over `widthFrames` frames (odd), never across a gap. */
-  z.object({ mode: z.literal("movingAverage"), widthFrames: z.number().int().min(3).max(51).refine((w) => w % 2 === 1, "width must be odd") }),
+  z.object({
+    mode: z.literal("movingAverage"),
+    widthFrames: z
+      .number()
+      .int()
+      .min(3)
+      .max(51)
+      .refine((w) => w % 2 === 1, "width must be odd"),
+  }),
 ]);
 export type Smoothing = z.infer<typeof SmoothingSchema>;
 
@@ -211,7 +219,9 @@ export const TraceSetDetailSchema = TraceSetListItemSchema.extend({
   /** Cells for charts: the first TRACE_LIMITS.maxChartCells, downsampled when long (figures cover every cell). */
   cells: z.array(ChartCellSchema),
   analysis: TraceAnalysisSchema,
-  matches: z.array(z.object({ id: z.string(), runId: z.string().nullable(), sweepId: z.string().nullable(), createdAt: z.number() })),
+  matches: z.array(
+    z.object({ id: z.string(), runId: z.string().nullable(), sweepId: z.string().nullable(), createdAt: z.number() }),
+  ),
 });
 export type TraceSetDetail = z.infer<typeof TraceSetDetailSchema>;
 
@@ -231,8 +241,12 @@ export const ToleranceSchema = z.discriminatedUnion("kind", [
 export type Tolerance = z.infer<typeof ToleranceSchema>;
 
 export const MatchRequestSchema = z.union([
-  z.object({ runId: z.string().min(1), tolerance: ToleranceSchema.default({ kind: "fraction", fraction: 0.05 }) }).strict(),
-  z.object({ sweepId: z.string().min(1), tolerance: ToleranceSchema.default({ kind: "fraction", fraction: 0.05 }) }).strict(),
+  z
+    .object({ runId: z.string().min(1), tolerance: ToleranceSchema.default({ kind: "fraction", fraction: 0.05 }) })
+    .strict(),
+  z
+    .object({ sweepId: z.string().min(1), tolerance: ToleranceSchema.default({ kind: "fraction", fraction: 0.05 }) })
+    .strict(),
 ]);
 export type MatchRequest = z.infer<typeof MatchRequestSchema>;
 
@@ -277,7 +291,15 @@ export const MatchResultSchema = z.object({
   /** Ranked, closest first. */
   points: z.array(MatchPointSchema),
   /** Parameter ranges of the accept set, and of the whole sweep for context. */
-  ranges: z.array(z.object({ parameter: z.string(), acceptedMin: z.number().nullable(), acceptedMax: z.number().nullable(), sweptMin: z.number().nullable(), sweptMax: z.number().nullable() })),
+  ranges: z.array(
+    z.object({
+      parameter: z.string(),
+      acceptedMin: z.number().nullable(),
+      acceptedMax: z.number().nullable(),
+      sweptMin: z.number().nullable(),
+      sweptMax: z.number().nullable(),
+    }),
+  ),
   observed: DistributionSetSchema,
   /** Simulated distributions of the closest point (overlay). */
   bestSimulated: DistributionSetSchema.nullable(),

@@ -28,13 +28,23 @@ export const NameSchema = z
   .regex(/^[A-Za-z][A-Za-z0-9_]*$/, "letters, digits and _ only, starting with a letter");
 
 const nonNegative = (what: string) =>
-  z.number({ error: `${what} must be a number` }).finite(`${what} must be finite`).min(0, `${what} must not be negative`);
+  z
+    .number({ error: `${what} must be a number` })
+    .finite(`${what} must be finite`)
+    .min(0, `${what} must not be negative`);
 const positive = (what: string) =>
-  z.number({ error: `${what} must be a number` }).finite(`${what} must be finite`).gt(0, `${what} must be positive`);
+  z
+    .number({ error: `${what} must be a number` })
+    .finite(`${what} must be finite`)
+    .gt(0, `${what} must be positive`);
 
 export const SpeciesSchema = z.object({
   name: NameSchema,
-  initialCount: z.number().int("initial count must be a whole number").min(0, "initial count must not be negative").max(1e9),
+  initialCount: z
+    .number()
+    .int("initial count must be a whole number")
+    .min(0, "initial count must not be negative")
+    .max(1e9),
   description: z.string().max(200).optional(),
 });
 export type Species = z.infer<typeof SpeciesSchema>;
@@ -88,7 +98,10 @@ export const RateLawSchema = z.discriminatedUnion("kind", [
     maxRatePerMinute: nonNegative("maximal rate"),
     logic: z.enum(["and", "or"]).default("and"),
     leakFraction: z.number().min(0, "leak must be between 0 and 1").max(1, "leak must be between 0 and 1").default(0),
-    regulators: z.array(RegulatorSchema).min(1, "needs at least one regulator").max(CIRCUIT_LIMITS.maxRegulatorsPerReaction),
+    regulators: z
+      .array(RegulatorSchema)
+      .min(1, "needs at least one regulator")
+      .max(CIRCUIT_LIMITS.maxRegulatorsPerReaction),
   }),
 ]);
 export type RateLaw = z.infer<typeof RateLawSchema>;
@@ -131,6 +144,8 @@ export type CircuitInput = z.input<typeof CircuitSchema>;
  */
 export const ParameterRefSchema = z
   .string()
-  .regex(/^(rate|leak)\([A-Za-z][A-Za-z0-9_]*\)$|^(K|n)\([A-Za-z][A-Za-z0-9_]*,[A-Za-z][A-Za-z0-9_]*\)$|^init\([A-Za-z][A-Za-z0-9_]*\)$/,
-    "parameter must look like rate(R), leak(R), K(R,S), n(R,S) or init(X)");
+  .regex(
+    /^(rate|leak)\([A-Za-z][A-Za-z0-9_]*\)$|^(K|n)\([A-Za-z][A-Za-z0-9_]*,[A-Za-z][A-Za-z0-9_]*\)$|^init\([A-Za-z][A-Za-z0-9_]*\)$/,
+    "parameter must look like rate(R), leak(R), K(R,S), n(R,S) or init(X)",
+  );
 export type ParameterRef = z.infer<typeof ParameterRefSchema>;

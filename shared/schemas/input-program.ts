@@ -7,8 +7,16 @@ import { z } from "zod";
 
 export const PROGRAM_LIMITS = { maxPulses: 5000, maxLadderSteps: 50 } as const;
 
-const time = (what: string) => z.number({ error: `${what} must be a number` }).finite().min(0, `${what} must not be negative`);
-const duration = (what: string) => z.number({ error: `${what} must be a number` }).finite().gt(0, `${what} must be positive`);
+const time = (what: string) =>
+  z
+    .number({ error: `${what} must be a number` })
+    .finite()
+    .min(0, `${what} must not be negative`);
+const duration = (what: string) =>
+  z
+    .number({ error: `${what} must be a number` })
+    .finite()
+    .gt(0, `${what} must be positive`);
 
 export const PulseSchema = z.object({
   start: time("pulse start"),

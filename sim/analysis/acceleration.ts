@@ -16,11 +16,11 @@
  *
  * @example accelerationFigures({ circuitSpec, circuitSummary, controlSpec, controlSummary }).halfRiseRatio
  */
-import type { Acceleration, RunSummary } from "../../shared/schemas/analysis";
-import { RUN_LIMITS, RunSpecSchema, type RunSpec } from "../../shared/schemas/run-spec";
-import { resolveThreshold } from "../engine/resolve-threshold";
-import { solveOde } from "../ode/solve-ode";
-import { runSetup } from "../engine/run-setup";
+import type { Acceleration, RunSummary } from "@/shared/schemas/analysis";
+import { RUN_LIMITS, RunSpecSchema, type RunSpec } from "@/shared/schemas/run-spec";
+import { resolveThreshold } from "@/sim/engine/resolve-threshold";
+import { solveOde } from "@/sim/ode/solve-ode";
+import { runSetup } from "@/sim/engine/run-setup";
 import { outputSteadyStates } from "./matched-control";
 
 export function halfRiseTime(specInput: RunSpec): number | null {

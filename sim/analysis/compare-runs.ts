@@ -15,14 +15,14 @@
  *
  * @example compareRuns([{ id: "a", name: "hold", summary, delays, widths }, { ... }]).flags
  */
-import type { Comparison, ComparisonPair, RunSummary, TwoSample } from "../../shared/schemas/analysis";
-import { describe } from "../stats/describe";
-import { fisherExact } from "../stats/fisher-exact";
-import { histogram, sturgesBinCount } from "../stats/histogram";
-import { holm } from "../stats/holm";
-import { ks2 } from "../stats/ks-two-sample";
-import { mannWhitney } from "../stats/mann-whitney";
-import { wasserstein1 } from "../stats/wasserstein-1";
+import type { Comparison, ComparisonPair, RunSummary, TwoSample } from "@/shared/schemas/analysis";
+import { describe } from "@/sim/stats/describe";
+import { fisherExact } from "@/sim/stats/fisher-exact";
+import { histogram, sturgesBinCount } from "@/sim/stats/histogram";
+import { holm } from "@/sim/stats/holm";
+import { ks2 } from "@/sim/stats/ks-two-sample";
+import { mannWhitney } from "@/sim/stats/mann-whitney";
+import { wasserstein1 } from "@/sim/stats/wasserstein-1";
 
 export interface RunToCompare {
   id: string;
@@ -98,14 +98,22 @@ export function compareRuns(runs: readonly RunToCompare[]): Comparison {
   });
 
   // ---- filter curves on the union of durations
-  const durations = [...new Set(runs.flatMap((r) => r.summary.byDuration.map((e) => e.duration)))].sort((a, b) => a - b);
+  const durations = [...new Set(runs.flatMap((r) => r.summary.byDuration.map((e) => e.duration)))].sort(
+    (a, b) => a - b,
+  );
   const filterCurves = durations.map((duration) => ({
     duration,
     runs: runs.map((r) => {
       const e = r.summary.byDuration.find((x) => x.duration === duration);
       if (!e) return null;
       const f = r.summary.logistic.fitted.find((x) => x.duration === duration);
-      return { pulses: e.pulses, passed: e.passed, passProbability: e.passProbability, ci: e.ci, fitted: f ? f.passProbability : null };
+      return {
+        pulses: e.pulses,
+        passed: e.passed,
+        passProbability: e.passProbability,
+        ci: e.ci,
+        fitted: f ? f.passProbability : null,
+      };
     }),
   }));
 
@@ -126,7 +134,10 @@ export function compareRuns(runs: readonly RunToCompare[]): Comparison {
   const dh = sharedHistogram(observedDelays);
   const wh = sharedHistogram(runs.map((r) => r.widths.filter((x) => Number.isFinite(x))));
   const distributions = {
-    delays: { edges: dh.edges, runs: runs.map((r, i) => ({ counts: dh.counts[i], censored: r.delays.filter((x) => x === null).length })) },
+    delays: {
+      edges: dh.edges,
+      runs: runs.map((r, i) => ({ counts: dh.counts[i], censored: r.delays.filter((x) => x === null).length })),
+    },
     widths: { edges: wh.edges, runs: runs.map((_, i) => ({ counts: wh.counts[i] })) },
   };
 
@@ -157,10 +168,20 @@ export function compareRuns(runs: readonly RunToCompare[]): Comparison {
       nB: t.raw.b.length,
       medianA: medianWithCensoring(t.raw.a),
       medianB: medianWithCensoring(t.raw.b),
-      ks: t.ks && Number.isFinite(t.ks.pValue) ? { d: t.ks.d, pValue: t.ks.pValue, pHolm: ksHolm, critical05: t.ks.critical05 } : null,
+      ks:
+        t.ks && Number.isFinite(t.ks.pValue)
+          ? { d: t.ks.d, pValue: t.ks.pValue, pHolm: ksHolm, critical05: t.ks.critical05 }
+          : null,
       mannWhitney:
         t.mw && Number.isFinite(t.mw.pValue)
-          ? { u: t.mw.u, z: t.mw.z, pValue: t.mw.pValue, pHolm: mwHolm, rankBiserial: t.mw.rankBiserial, probabilityAGreater: t.mw.probabilityAGreater }
+          ? {
+              u: t.mw.u,
+              z: t.mw.z,
+              pValue: t.mw.pValue,
+              pHolm: mwHolm,
+              rankBiserial: t.mw.rankBiserial,
+              probabilityAGreater: t.mw.probabilityAGreater,
+            }
           : null,
       wasserstein1: t.w1,
       withinNoise,
@@ -225,7 +246,9 @@ export function compareRuns(runs: readonly RunToCompare[]): Comparison {
     if (passDifferences.length === 0) {
       pairFlags.push(`${A} and ${B} share no input pulse duration: pass probabilities cannot be compared.`);
     } else if (beyond.length === 0) {
-      pairFlags.push(`Pass probabilities of ${A} and ${B} agree within noise at every shared duration (Fisher's exact test, Holm-adjusted).`);
+      pairFlags.push(
+        `Pass probabilities of ${A} and ${B} agree within noise at every shared duration (Fisher's exact test, Holm-adjusted).`,
+      );
     } else {
       for (const d of beyond) {
         pairFlags.push(

@@ -5,9 +5,9 @@
  * at full precision; rows in a fixed order so the same input gives the same bytes.
  */
 import Papa from "papaparse";
-import type { RunSummary } from "../../shared/schemas/analysis";
-import type { PulseStat } from "../../shared/schemas/run-spec";
-import { describe } from "../stats/describe";
+import type { RunSummary } from "@/shared/schemas/analysis";
+import type { PulseStat } from "@/shared/schemas/run-spec";
+import { describe } from "@/sim/stats/describe";
 import type { ReplicateTotals } from "./summarize-run";
 
 type Cell = string | number | boolean | null;
@@ -19,18 +19,60 @@ function toCsv(fields: string[], rows: Cell[][]): string {
 
 /** One row per (replicate, input pulse); widths joined with ";". */
 export function pulseStatsCsv(pulses: readonly PulseStat[]): string {
-  const fields = ["replicate", "pulseIndex", "on", "off", "durationBin", "excluded", "passed", "delay", "offDelay", "widths", "peak", "timeToPeak", "fwhm", "baseline"];
+  const fields = [
+    "replicate",
+    "pulseIndex",
+    "on",
+    "off",
+    "durationBin",
+    "excluded",
+    "passed",
+    "delay",
+    "offDelay",
+    "widths",
+    "peak",
+    "timeToPeak",
+    "fwhm",
+    "baseline",
+  ];
   const rows = [...pulses]
     .sort((a, b) => a.replicate - b.replicate || a.pulseIndex - b.pulseIndex)
-    .map((p) => [p.replicate, p.pulseIndex, p.on, p.off, p.durationBin, p.excluded, p.passed, p.delay, p.offDelay, p.widths.join(";"), p.peak, p.timeToPeak, p.fwhm, p.baseline]);
+    .map((p) => [
+      p.replicate,
+      p.pulseIndex,
+      p.on,
+      p.off,
+      p.durationBin,
+      p.excluded,
+      p.passed,
+      p.delay,
+      p.offDelay,
+      p.widths.join(";"),
+      p.peak,
+      p.timeToPeak,
+      p.fwhm,
+      p.baseline,
+    ]);
   return toCsv(fields, rows);
 }
 
 /** One row per replicate: simulation totals, output moments and its pulse figures. */
 export function replicateStatsCsv(pulses: readonly PulseStat[], replicates: readonly ReplicateTotals[]): string {
   const fields = [
-    "replicate", "events", "capped", "outputMean", "outputVar", "fano",
-    "pulses", "evaluable", "excluded", "passed", "passFraction", "medianObservedDelay", "outputPulses", "medianWidth",
+    "replicate",
+    "events",
+    "capped",
+    "outputMean",
+    "outputVar",
+    "fano",
+    "pulses",
+    "evaluable",
+    "excluded",
+    "passed",
+    "passFraction",
+    "medianObservedDelay",
+    "outputPulses",
+    "medianWidth",
   ];
   const byRep = new Map<number, PulseStat[]>();
   for (const p of pulses) {
@@ -45,9 +87,20 @@ export function replicateStatsCsv(pulses: readonly PulseStat[], replicates: read
     const delays = ev.map((p) => p.delay).filter((d): d is number => d !== null);
     const widths = ev.flatMap((p) => p.widths);
     return [
-      r.replicate, r.events, r.capped, r.outputMean, r.outputVar, r.outputMean > 0 ? r.outputVar / r.outputMean : null,
-      ps.length, ev.length, ps.length - ev.length, passed, ev.length ? passed / ev.length : null,
-      describe(delays).median, widths.length, describe(widths).median,
+      r.replicate,
+      r.events,
+      r.capped,
+      r.outputMean,
+      r.outputVar,
+      r.outputMean > 0 ? r.outputVar / r.outputMean : null,
+      ps.length,
+      ev.length,
+      ps.length - ev.length,
+      passed,
+      ev.length ? passed / ev.length : null,
+      describe(delays).median,
+      widths.length,
+      describe(widths).median,
     ];
   });
   return toCsv(fields, rows);
@@ -56,13 +109,38 @@ export function replicateStatsCsv(pulses: readonly PulseStat[], replicates: read
 /** The filter curve and per-duration figures, one row per duration. */
 export function byDurationCsv(summary: RunSummary): string {
   const fields = [
-    "duration", "pulses", "passed", "passProbability", "ciLow", "ciHigh", "fittedPassProbability",
-    "medianDelay", "medianDelayCiLow", "medianDelayCiHigh", "censored", "excluded", "medianWidth", "medianPeak", "medianOffDelay",
+    "duration",
+    "pulses",
+    "passed",
+    "passProbability",
+    "ciLow",
+    "ciHigh",
+    "fittedPassProbability",
+    "medianDelay",
+    "medianDelayCiLow",
+    "medianDelayCiHigh",
+    "censored",
+    "excluded",
+    "medianWidth",
+    "medianPeak",
+    "medianOffDelay",
   ];
   const rows = summary.byDuration.map((e) => [
-    e.duration, e.pulses, e.passed, e.passProbability, e.ci ? e.ci[0] : null, e.ci ? e.ci[1] : null,
+    e.duration,
+    e.pulses,
+    e.passed,
+    e.passProbability,
+    e.ci ? e.ci[0] : null,
+    e.ci ? e.ci[1] : null,
     summary.logistic.fitted.find((f) => f.duration === e.duration)?.passProbability ?? null,
-    e.medianDelay, e.medianDelayCi[0], e.medianDelayCi[1], e.censored, e.excluded, e.medianWidth, e.medianPeak, e.medianOffDelay,
+    e.medianDelay,
+    e.medianDelayCi[0],
+    e.medianDelayCi[1],
+    e.censored,
+    e.excluded,
+    e.medianWidth,
+    e.medianPeak,
+    e.medianOffDelay,
   ]);
   return toCsv(fields, rows);
 }

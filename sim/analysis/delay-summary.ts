@@ -4,10 +4,10 @@
  * description and histogram of the observed delays, and the thinned
  * survival curve.
  */
-import type { DelaySummary } from "../../shared/schemas/analysis";
-import { describe } from "../stats/describe";
-import { histogram } from "../stats/histogram";
-import { kaplanMeier, kmQuantile, kmQuantileInterval, type SurvivalObservation } from "../stats/kaplan-meier";
+import type { DelaySummary } from "@/shared/schemas/analysis";
+import { describe } from "@/sim/stats/describe";
+import { histogram } from "@/sim/stats/histogram";
+import { kaplanMeier, kmQuantile, kmQuantileInterval, type SurvivalObservation } from "@/sim/stats/kaplan-meier";
 
 /** Smallest drop in survival between two kept points of the reported curve. */
 const CURVE_STEP = 0.005;

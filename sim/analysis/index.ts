@@ -2,7 +2,7 @@
 export { summarizeRun, type SummarizeRunInput, type ReplicateTotals } from "./summarize-run";
 export { summarizeDelays } from "./delay-summary";
 export { evaluablePulses, delaysOf, widthsOf, windowEnds } from "./pulse-selection";
-export { ks2, wasserstein1, wilson } from "../stats";
+export { ks2, wasserstein1, wilson } from "@/sim/stats";
 export { compareRuns, type RunToCompare } from "./compare-runs";
 export { pulseStatsCsv, replicateStatsCsv, byDurationCsv, summaryCsv } from "./csv-export";
 export { makeMatchedControl, outputSteadyStates, type MatchedControlLevels } from "./matched-control";

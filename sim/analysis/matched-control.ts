@@ -25,11 +25,11 @@
  *
  * @example makeMatchedControl(holdSensorSpec).circuit.reactions.map((r) => r.name) // ["driveZ", "basalZ", "decayZ"]
  */
-import { CircuitSchema, type Circuit } from "../../shared/schemas/circuit";
-import { RunSpecSchema, type RunSpec } from "../../shared/schemas/run-spec";
-import { runSetup } from "../engine/run-setup";
-import { resolveThreshold } from "../engine/resolve-threshold";
-import { odeStartState, odeSteadyState } from "../ode/solve-ode";
+import { CircuitSchema, type Circuit } from "@/shared/schemas/circuit";
+import { RunSpecSchema, type RunSpec } from "@/shared/schemas/run-spec";
+import { runSetup } from "@/sim/engine/run-setup";
+import { resolveThreshold } from "@/sim/engine/resolve-threshold";
+import { odeStartState, odeSteadyState } from "@/sim/ode/solve-ode";
 
 export interface MatchedControlLevels {
   /** Output ON / OFF steady states of the circuit's mean-field model, molecules. */

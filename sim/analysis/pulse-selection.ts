@@ -7,7 +7,7 @@
  * closes at min(off + window, next pulse's on, end of the path), so a pulse
  * with no response is right-censored at that time minus on.
  */
-import type { PulseStat } from "../../shared/schemas/run-spec";
+import type { PulseStat } from "@/shared/schemas/run-spec";
 
 export function evaluablePulses(pulses: readonly PulseStat[]): PulseStat[] {
   return pulses.filter((p) => !p.excluded);

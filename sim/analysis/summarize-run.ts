@@ -11,13 +11,13 @@
  *
  * @example summarizeRun({ pulses, replicates, threshold, noiseDurationMinutes: 10 }).byDuration
  */
-import type { PulseStat } from "../../shared/schemas/run-spec";
-import type { ByDurationEntry, RunSummary, ThresholdUsed } from "../../shared/schemas/analysis";
-import { describe, mean } from "../stats/describe";
-import { histogram } from "../stats/histogram";
-import { kaplanMeier, kmQuantile, kmQuantileInterval, type SurvivalObservation } from "../stats/kaplan-meier";
-import { fitLogisticPass } from "../stats/logistic-fit";
-import { wilson } from "../stats/wilson-interval";
+import type { PulseStat } from "@/shared/schemas/run-spec";
+import type { ByDurationEntry, RunSummary, ThresholdUsed } from "@/shared/schemas/analysis";
+import { describe, mean } from "@/sim/stats/describe";
+import { histogram } from "@/sim/stats/histogram";
+import { kaplanMeier, kmQuantile, kmQuantileInterval, type SurvivalObservation } from "@/sim/stats/kaplan-meier";
+import { fitLogisticPass } from "@/sim/stats/logistic-fit";
+import { wilson } from "@/sim/stats/wilson-interval";
 import { summarizeDelays } from "./delay-summary";
 import { windowEnds } from "./pulse-selection";
 import { durationNormalizer } from "./normalize-duration";
@@ -54,7 +54,8 @@ export interface SummarizeRunInput {
   measuredTraces?: boolean;
 }
 
-const finite = (x: number | null | undefined): number | null => (x !== null && x !== undefined && Number.isFinite(x) ? x : null);
+const finite = (x: number | null | undefined): number | null =>
+  x !== null && x !== undefined && Number.isFinite(x) ? x : null;
 const medianOf = (xs: number[]): number | null => describe(xs).median;
 
 export function summarizeRun(input: SummarizeRunInput): RunSummary {
@@ -147,7 +148,9 @@ export function summarizeRun(input: SummarizeRunInput): RunSummary {
   let longMin = input.longPulseMinutes ?? 3 * noiseDurationMinutes;
   if (withPulses.length > 0 && !withPulses.some((e) => e.duration >= longMin)) {
     longMin = withPulses[withPulses.length - 1].duration;
-    notes.push(`No pulse was at least ${fmt(input.longPulseMinutes ?? 3 * noiseDurationMinutes)} min long; the delay cost uses the longest duration, ${fmt(longMin)} min.`);
+    notes.push(
+      `No pulse was at least ${fmt(input.longPulseMinutes ?? 3 * noiseDurationMinutes)} min long; the delay cost uses the longest duration, ${fmt(longMin)} min.`,
+    );
   }
   const longRows = rows.filter((r) => normalizeDuration(r.p.durationBin) >= longMin);
   let delayCost: RunSummary["delayCost"] = null;
@@ -200,12 +203,17 @@ export function summarizeRun(input: SummarizeRunInput): RunSummary {
   // ---- counts and notes
   const capped = replicates.filter((r) => r.capped).length;
   const events = replicates.reduce((s, r) => s + r.events, 0);
-  if (capped > 0) notes.push(`${capped} of ${replicates.length} replicates stopped at the event cap; their figures end at the cap.`);
+  if (capped > 0)
+    notes.push(`${capped} of ${replicates.length} replicates stopped at the event cap; their figures end at the cap.`);
   if (excludedTotal > 0) {
-    notes.push(`${excludedTotal} of ${pulses.length} pulses started with the output already above threshold and are left out of pass and delay figures.`);
+    notes.push(
+      `${excludedTotal} of ${pulses.length} pulses started with the output already above threshold and are left out of pass and delay figures.`,
+    );
   }
   if (replicates.length > moments.length && !input.measuredTraces) {
-    notes.push(`${replicates.length - moments.length} replicates had no steady-state output moments and are left out of the noise figures.`);
+    notes.push(
+      `${replicates.length - moments.length} replicates had no steady-state output moments and are left out of the noise figures.`,
+    );
   }
 
   return {

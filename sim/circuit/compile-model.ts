@@ -14,7 +14,7 @@
  * rate slot, then for regulated reactions a leak slot and per regulator K, n and
  * K^n (derived by deriveParams).
  */
-import type { Circuit } from "../../shared/schemas/circuit";
+import type { Circuit } from "@/shared/schemas/circuit";
 import { semanticErrors } from "./validate-circuit";
 
 export interface CompiledRegulator {
@@ -109,7 +109,14 @@ export function compileModel(circuit: Circuit, systemSize = 1): CompiledModel {
         const kSlot = add(`K(${r.name},${g.source})`, g.halfMax, isSignal ? 1 : omega);
         const nSlot = add(`n(${r.name},${g.source})`, g.hill, 1);
         params.push(0);
-        regulators.push({ source, isSignal, activates: g.effect === "activates", kSlot, nSlot, knSlot: params.length - 1 });
+        regulators.push({
+          source,
+          isSignal,
+          activates: g.effect === "activates",
+          kSlot,
+          nSlot,
+          knSlot: params.length - 1,
+        });
       }
     } else {
       const scale = r.rate.kind === "constant" || order === 0 ? omega : order === 2 ? 1 / omega : 1;

@@ -5,7 +5,7 @@
  * getParameter / setParameter read and write one by reference (setParameter
  * returns a new circuit and never mutates its argument).
  */
-import type { Circuit, Reaction } from "../../shared/schemas/circuit";
+import type { Circuit, Reaction } from "@/shared/schemas/circuit";
 
 export interface ParameterInfo {
   ref: string;
@@ -25,7 +25,12 @@ export function listParameters(circuit: Circuit): ParameterInfo[] {
   const signals = new Set(circuit.signals.map((s) => s.name));
   for (const r of circuit.reactions) {
     if (r.rate.kind === "regulated") {
-      out.push({ ref: `rate(${r.name})`, label: `${r.name}: maximal rate`, value: r.rate.maxRatePerMinute, unit: "molecules/min" });
+      out.push({
+        ref: `rate(${r.name})`,
+        label: `${r.name}: maximal rate`,
+        value: r.rate.maxRatePerMinute,
+        unit: "molecules/min",
+      });
       out.push({ ref: `leak(${r.name})`, label: `${r.name}: leak fraction`, value: r.rate.leakFraction, unit: "" });
       for (const g of r.rate.regulators) {
         out.push({
@@ -34,10 +39,20 @@ export function listParameters(circuit: Circuit): ParameterInfo[] {
           value: g.halfMax,
           unit: signals.has(g.source) ? "signal units" : "molecules",
         });
-        out.push({ ref: `n(${r.name},${g.source})`, label: `${r.name}: Hill coefficient of ${g.source}`, value: g.hill, unit: "" });
+        out.push({
+          ref: `n(${r.name},${g.source})`,
+          label: `${r.name}: Hill coefficient of ${g.source}`,
+          value: g.hill,
+          unit: "",
+        });
       }
     } else {
-      out.push({ ref: `rate(${r.name})`, label: `${r.name}: rate constant`, value: r.rate.ratePerMinute, unit: rateUnit(r) });
+      out.push({
+        ref: `rate(${r.name})`,
+        label: `${r.name}: rate constant`,
+        value: r.rate.ratePerMinute,
+        unit: rateUnit(r),
+      });
     }
   }
   for (const s of circuit.species)
@@ -72,7 +87,8 @@ export function hasParameter(circuit: Circuit, ref: string): boolean {
 }
 
 export function setParameter(circuit: Circuit, ref: string, value: number): Circuit {
-  if (!Number.isFinite(value) || value < 0) throw new Error(`parameter "${ref}": value must be finite and not negative`);
+  if (!Number.isFinite(value) || value < 0)
+    throw new Error(`parameter "${ref}": value must be finite and not negative`);
   const p = parseParameterRef(ref);
   const c: Circuit = structuredClone(circuit);
   if (p.kind === "init") {

@@ -6,7 +6,7 @@
  * amounts in molecules: X is made at 10/min while Q is on and lives 10 min
  * (about 100 copies when on); Hill K of 50-100 copies, n = 2.
  */
-import { CircuitSchema, type Circuit, type CircuitInput } from "../../shared/schemas/circuit";
+import { CircuitSchema, type Circuit, type CircuitInput } from "@/shared/schemas/circuit";
 
 export type TemplateKey = "simple" | "c1ffl-and" | "c1ffl-or" | "i1ffl";
 
@@ -19,7 +19,12 @@ export interface CircuitTemplate {
 
 const signalQ = { name: "Q", offLevel: 0, onLevel: 1, description: "inducer (compound Q) present" };
 const sensor = [
-  { name: "makeX", products: [{ species: "qsaA", count: 1 }], rate: { kind: "constant", ratePerMinute: 10 }, scaledBy: "Q" },
+  {
+    name: "makeX",
+    products: [{ species: "qsaA", count: 1 }],
+    rate: { kind: "constant", ratePerMinute: 10 },
+    scaledBy: "Q",
+  },
   { name: "degX", reactants: [{ species: "qsaA", count: 1 }], rate: { kind: "massAction", ratePerMinute: 0.1 } },
 ] as const;
 const act = (source: string, halfMax: number) => ({ source, effect: "activates" as const, halfMax, hill: 2 });
@@ -41,7 +46,11 @@ function ffl(name: string, description: string, logic: "and" | "or"): Circuit {
     signals: [signalQ],
     reactions: [
       ...sensor.map((r) => structuredClone(r) as never),
-      { name: "makeY", products: [{ species: "hldB", count: 1 }], rate: { kind: "regulated", maxRatePerMinute: 10, regulators: [act("qsaA", 50)] } },
+      {
+        name: "makeY",
+        products: [{ species: "hldB", count: 1 }],
+        rate: { kind: "regulated", maxRatePerMinute: 10, regulators: [act("qsaA", 50)] },
+      },
       { name: "degY", reactants: [{ species: "hldB", count: 1 }], rate: { kind: "massAction", ratePerMinute: 0.05 } },
       {
         name: "makeZ",
@@ -57,7 +66,8 @@ function ffl(name: string, description: string, logic: "and" | "or"): Circuit {
 export const templates: Record<TemplateKey, CircuitTemplate> = {
   simple: {
     title: "Simple regulation",
-    description: "The control: the sensor activator qsaA drives the reporter rptC directly. Step response time ln 2 / 0.1 min.",
+    description:
+      "The control: the sensor activator qsaA drives the reporter rptC directly. Step response time ln 2 / 0.1 min.",
     inputSignal: "Q",
     circuit: build({
       name: "Tank sensor, direct",
@@ -69,7 +79,11 @@ export const templates: Record<TemplateKey, CircuitTemplate> = {
       signals: [signalQ],
       reactions: [
         ...sensor.map((r) => structuredClone(r) as never),
-        { name: "makeZ", products: [{ species: "rptC", count: 1 }], rate: { kind: "regulated", maxRatePerMinute: 20, regulators: [act("qsaA", 50)] } },
+        {
+          name: "makeZ",
+          products: [{ species: "rptC", count: 1 }],
+          rate: { kind: "regulated", maxRatePerMinute: 20, regulators: [act("qsaA", 50)] },
+        },
         { name: "degZ", reactants: [{ species: "rptC", count: 1 }], rate: { kind: "massAction", ratePerMinute: 0.1 } },
       ],
       outputSpecies: "rptC",
@@ -77,7 +91,8 @@ export const templates: Record<TemplateKey, CircuitTemplate> = {
   },
   "c1ffl-and": {
     title: "Coherent feed-forward (AND)",
-    description: "Persistence detector: rptC needs both qsaA and the slow hold factor hldB, so brief Q spikes are filtered; delay at ON, none at OFF.",
+    description:
+      "Persistence detector: rptC needs both qsaA and the slow hold factor hldB, so brief Q spikes are filtered; delay at ON, none at OFF.",
     inputSignal: "Q",
     circuit: ffl("Tank sensor, hold", "Coherent type-1 feed-forward circuit with AND logic.", "and"),
   },
@@ -89,7 +104,8 @@ export const templates: Record<TemplateKey, CircuitTemplate> = {
   },
   i1ffl: {
     title: "Incoherent feed-forward",
-    description: "qsaA activates rptC and the repressor hldB, which later shuts rptC down: a timed pulse and a faster rise.",
+    description:
+      "qsaA activates rptC and the repressor hldB, which later shuts rptC down: a timed pulse and a faster rise.",
     inputSignal: "Q",
     circuit: build({
       name: "Dosing pulse",
@@ -102,12 +118,21 @@ export const templates: Record<TemplateKey, CircuitTemplate> = {
       signals: [signalQ],
       reactions: [
         ...sensor.map((r) => structuredClone(r) as never),
-        { name: "makeY", products: [{ species: "hldB", count: 1 }], rate: { kind: "regulated", maxRatePerMinute: 10, regulators: [act("qsaA", 50)] } },
+        {
+          name: "makeY",
+          products: [{ species: "hldB", count: 1 }],
+          rate: { kind: "regulated", maxRatePerMinute: 10, regulators: [act("qsaA", 50)] },
+        },
         { name: "degY", reactants: [{ species: "hldB", count: 1 }], rate: { kind: "massAction", ratePerMinute: 0.05 } },
         {
           name: "makeZ",
           products: [{ species: "rptC", count: 1 }],
-          rate: { kind: "regulated", maxRatePerMinute: 20, leakFraction: 0.02, regulators: [act("qsaA", 50), rep("hldB", 40)] },
+          rate: {
+            kind: "regulated",
+            maxRatePerMinute: 20,
+            leakFraction: 0.02,
+            regulators: [act("qsaA", 50), rep("hldB", 40)],
+          },
         },
         { name: "degZ", reactants: [{ species: "rptC", count: 1 }], rate: { kind: "massAction", ratePerMinute: 0.1 } },
       ],

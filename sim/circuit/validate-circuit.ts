@@ -6,7 +6,7 @@
  * Size limits are CIRCUIT_LIMITS in shared/schemas/circuit.ts (50 species,
  * 8 signals, 200 reactions, 6 regulators per reaction), enforced by the schema.
  */
-import { CircuitSchema, type Circuit } from "../../shared/schemas/circuit";
+import { CircuitSchema, type Circuit } from "@/shared/schemas/circuit";
 
 export interface ValidationError {
   path: string;
@@ -29,7 +29,11 @@ export function validateCircuit(input: unknown): ValidationResult {
       const m = /^reactions\[(\d+)\]/.exec(path);
       const raw = input as { reactions?: { name?: unknown }[] } | null;
       const rname = m && raw && Array.isArray(raw.reactions) ? raw.reactions[Number(m[1])]?.name : undefined;
-      const prefix = m ? `reactions[${m[1]}]${typeof rname === "string" ? ` "${rname}"` : ""}: ` : path ? `${path}: ` : "";
+      const prefix = m
+        ? `reactions[${m[1]}]${typeof rname === "string" ? ` "${rname}"` : ""}: `
+        : path
+          ? `${path}: `
+          : "";
       return { path, message: `${prefix}${i.message}` };
     });
     return { ok: false, errors };
@@ -43,11 +47,13 @@ export function semanticErrors(c: Circuit): ValidationError[] {
   const species = new Set<string>();
   const signals = new Set<string>();
   c.species.forEach((s, i) => {
-    if (species.has(s.name)) errors.push({ path: `species[${i}].name`, message: `species[${i}]: duplicate species name "${s.name}"` });
+    if (species.has(s.name))
+      errors.push({ path: `species[${i}].name`, message: `species[${i}]: duplicate species name "${s.name}"` });
     species.add(s.name);
   });
   c.signals.forEach((s, i) => {
-    if (signals.has(s.name)) errors.push({ path: `signals[${i}].name`, message: `signals[${i}]: duplicate signal name "${s.name}"` });
+    if (signals.has(s.name))
+      errors.push({ path: `signals[${i}].name`, message: `signals[${i}]: duplicate signal name "${s.name}"` });
     if (species.has(s.name))
       errors.push({ path: `signals[${i}].name`, message: `signals[${i}]: "${s.name}" is already a species name` });
     signals.add(s.name);
@@ -63,7 +69,10 @@ export function semanticErrors(c: Circuit): ValidationError[] {
     const seen = new Set<string>();
     r.reactants.forEach((e, k) => {
       if (!species.has(e.species))
-        errors.push({ path: `${at}.reactants[${k}].species`, message: `${who}: reactant "${e.species}" is not a species` });
+        errors.push({
+          path: `${at}.reactants[${k}].species`,
+          message: `${who}: reactant "${e.species}" is not a species`,
+        });
       if (seen.has(e.species))
         errors.push({
           path: `${at}.reactants[${k}].species`,
@@ -72,10 +81,14 @@ export function semanticErrors(c: Circuit): ValidationError[] {
       seen.add(e.species);
     });
     const order = r.reactants.reduce((s, e) => s + e.count, 0);
-    if (order > 2) errors.push({ path: `${at}.reactants`, message: `${who}: reactants: at most order 2 (two molecules in total)` });
+    if (order > 2)
+      errors.push({ path: `${at}.reactants`, message: `${who}: reactants: at most order 2 (two molecules in total)` });
     r.products.forEach((e, k) => {
       if (!species.has(e.species))
-        errors.push({ path: `${at}.products[${k}].species`, message: `${who}: product "${e.species}" is not a species` });
+        errors.push({
+          path: `${at}.products[${k}].species`,
+          message: `${who}: product "${e.species}" is not a species`,
+        });
     });
     r.modifiers.forEach((m, k) => {
       if (!species.has(m) && !signals.has(m))
@@ -97,7 +110,10 @@ export function semanticErrors(c: Circuit): ValidationError[] {
             message: `${who}: regulator "${g.source}" is not a species or signal`,
           });
         if (regs.has(g.source))
-          errors.push({ path: `${at}.rate.regulators[${k}].source`, message: `${who}: regulator "${g.source}" is listed twice` });
+          errors.push({
+            path: `${at}.rate.regulators[${k}].source`,
+            message: `${who}: regulator "${g.source}" is listed twice`,
+          });
         regs.add(g.source);
       });
     }

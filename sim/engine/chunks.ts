@@ -4,7 +4,7 @@
  * partial sums in chunk order, so the aggregates are bit-identical for any
  * number of threads.
  */
-import type { RunSpec } from "../../shared/schemas/run-spec";
+import type { RunSpec } from "@/shared/schemas/run-spec";
 import { gridTimes } from "./run-setup";
 
 /** Replicates per chunk: about 0.1 s of work on the benchmark circuit at 20M events/s. */

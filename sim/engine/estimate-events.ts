@@ -4,8 +4,8 @@
  * times the number of replicates. Exact in expectation for linear circuits;
  * within a factor 2 on the templates (tested).
  */
-import type { RunSpec } from "../../shared/schemas/run-spec";
-import { solveOde } from "../ode/solve-ode";
+import type { RunSpec } from "@/shared/schemas/run-spec";
+import { solveOde } from "@/sim/ode/solve-ode";
 import { runSetup } from "./run-setup";
 
 export function estimateEvents(spec: RunSpec): number {

@@ -39,6 +39,10 @@ export class EventRecorder {
 
   /** Trimmed copies of the recorded arrays. */
   snapshot(): { times: Float64Array; reactions: Int32Array; truncated: boolean } {
-    return { times: this.times.slice(0, this.count), reactions: this.reactions.slice(0, this.count), truncated: this.truncated };
+    return {
+      times: this.times.slice(0, this.count),
+      reactions: this.reactions.slice(0, this.count),
+      truncated: this.truncated,
+    };
   }
 }

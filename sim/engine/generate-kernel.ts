@@ -21,8 +21,8 @@
  * Parameter values are read from the parameter vector at entry, so one kernel
  * serves every replicate and extrinsic draw.
  */
-import type { PulseTracker } from "../metrics/pulse-tracker";
-import type { CompiledModel } from "../circuit/compile-model";
+import type { PulseTracker } from "@/sim/metrics/pulse-tracker";
+import type { CompiledModel } from "@/sim/circuit/compile-model";
 import type { EventRecorder } from "./event-recorder";
 
 /** In/out state of one kernel call. */
@@ -49,7 +49,13 @@ export const KERNEL_FINISHED = 0;
 export const KERNEL_CAPPED = 1;
 export const KERNEL_ABORTED = 2;
 
-export type Kernel = (x: Float64Array, p: Float64Array, sig: Float64Array, rs: Float64Array, ctx: KernelContext) => void;
+export type Kernel = (
+  x: Float64Array,
+  p: Float64Array,
+  sig: Float64Array,
+  rs: Float64Array,
+  ctx: KernelContext,
+) => void;
 
 export interface KernelOptions {
   /** Index of the signal the program drives, or -1. */
@@ -156,7 +162,8 @@ export function kernelSource(model: CompiledModel, opts: KernelOptions): string 
     return `j = ${j}; ${upd} ${deps}${trk}`;
   });
   // selection and firing in one chain; the round-off fallback (last non-zero propensity) via a switch
-  for (let j = 0; j < nR; j++) L.push(`  ${j === 0 ? "if" : "else if"} (r < (cum ${j === 0 ? "=" : "+="} a${j})) { ${fire[j]} }`);
+  for (let j = 0; j < nR; j++)
+    L.push(`  ${j === 0 ? "if" : "else if"} (r < (cum ${j === 0 ? "=" : "+="} a${j})) { ${fire[j]} }`);
   let fallback = "0";
   for (let j = 0; j < nR; j++) fallback = `a${j} > 0 ? ${j} : ${fallback}`;
   L.push(`  else {`);
@@ -177,6 +184,5 @@ export function kernelSource(model: CompiledModel, opts: KernelOptions): string 
 
 /** Compiles the kernel for a model (new Function over kernelSource). */
 export function generateKernel(model: CompiledModel, opts: KernelOptions): Kernel {
-  // eslint-disable-next-line @typescript-eslint/no-implied-eval
   return new Function("x", "p", "sig", "rs", "ctx", kernelSource(model, opts)) as Kernel;
 }

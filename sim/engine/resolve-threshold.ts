@@ -9,10 +9,10 @@
  * - window: the user's value, else 3 output lifetimes.
  * Throws a clear error when a needed value cannot be determined.
  */
-import type { RunSpec } from "../../shared/schemas/run-spec";
+import type { RunSpec } from "@/shared/schemas/run-spec";
 import { runSetup } from "./run-setup";
-import { odeStartState, odeSteadyState } from "../ode/solve-ode";
-import type { CompiledModel } from "../circuit/compile-model";
+import { odeStartState, odeSteadyState } from "@/sim/ode/solve-ode";
+import type { CompiledModel } from "@/sim/circuit/compile-model";
 
 export interface ResolvedThreshold {
   theta: number;
@@ -62,7 +62,9 @@ export function resolveThreshold(spec: RunSpec): ResolvedThreshold {
     onSteadyState = ss[model.outputIndex];
     theta = onSteadyState / 2;
     if (!(theta > 0))
-      throw new Error(`cannot determine the default threshold: the ON steady state of "${output}" is 0; set threshold.value`);
+      throw new Error(
+        `cannot determine the default threshold: the ON steady state of "${output}" is 0; set threshold.value`,
+      );
   } else {
     try {
       const sig = Float64Array.from(model.signalOff);

@@ -4,11 +4,11 @@
  * compiled model at the spec's system size, the driven signal, the shared
  * input program, the output grid and the extrinsic-variation slots.
  */
-import { RunSpecSchema, RUN_LIMITS, type RunSpec } from "../../shared/schemas/run-spec";
-import { compileModel, type CompiledModel } from "../circuit/compile-model";
-import { semanticErrors, type ValidationError } from "../circuit/validate-circuit";
-import { hasParameter, parseParameterRef } from "../circuit/parameters";
-import { compileProgram, type CompiledProgram } from "../inputs/compile-program";
+import { RunSpecSchema, RUN_LIMITS, type RunSpec } from "@/shared/schemas/run-spec";
+import { compileModel, type CompiledModel } from "@/sim/circuit/compile-model";
+import { semanticErrors, type ValidationError } from "@/sim/circuit/validate-circuit";
+import { hasParameter, parseParameterRef } from "@/sim/circuit/parameters";
+import { compileProgram, type CompiledProgram } from "@/sim/inputs/compile-program";
 
 export interface VariedParameter {
   ref: string;
@@ -35,12 +35,18 @@ export interface RunSetup {
 
 /** Semantic checks of a run spec beyond zod (circuit, driven signal, parameters, grid size). */
 export function runSpecErrors(spec: RunSpec): ValidationError[] {
-  const errors: ValidationError[] = semanticErrors(spec.circuit).map((e) => ({ path: `circuit.${e.path}`, message: e.message }));
+  const errors: ValidationError[] = semanticErrors(spec.circuit).map((e) => ({
+    path: `circuit.${e.path}`,
+    message: e.message,
+  }));
   if (!spec.circuit.signals.some((s) => s.name === spec.inputSignal))
     errors.push({ path: "inputSignal", message: `input signal "${spec.inputSignal}" is not a signal of the circuit` });
   spec.extrinsic.forEach((v, i) => {
     if (!hasParameter(spec.circuit, v.parameter))
-      errors.push({ path: `extrinsic[${i}].parameter`, message: `extrinsic[${i}]: unknown parameter "${v.parameter}"` });
+      errors.push({
+        path: `extrinsic[${i}].parameter`,
+        message: `extrinsic[${i}]: unknown parameter "${v.parameter}"`,
+      });
   });
   const n = Math.floor(spec.endTimeMinutes / spec.gridStepMinutes + 1e-9) + 1;
   if (n > RUN_LIMITS.maxGridPoints)
@@ -76,7 +82,8 @@ export function runSetup(specInput: RunSpec): RunSetup {
   const sharedProgram = perReplicate ? null : compileProgram(spec.program, spec.endTimeMinutes, undefined, signal);
   const varied: VariedParameter[] = spec.extrinsic.map((v) => {
     const p = parseParameterRef(v.parameter);
-    if (p.kind === "init") return { ref: v.parameter, cv: v.cv, slot: -1, species: model.speciesNames.indexOf(p.a), kind: p.kind };
+    if (p.kind === "init")
+      return { ref: v.parameter, cv: v.cv, slot: -1, species: model.speciesNames.indexOf(p.a), kind: p.kind };
     return { ref: v.parameter, cv: v.cv, slot: model.slots.get(v.parameter)!.slot, species: -1, kind: p.kind };
   });
   const firstLevel = sharedProgram?.pulses[0]?.level;

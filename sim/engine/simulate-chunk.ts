@@ -21,16 +21,16 @@
  * stop, is left out of the grid sums there (gridCount), and its open pulse
  * windows are closed at the stop time.
  */
-import type { RunSpec, PulseStat } from "../../shared/schemas/run-spec";
+import type { RunSpec, PulseStat } from "@/shared/schemas/run-spec";
 import { runSetup, type RunSetup } from "./run-setup";
 import { generateKernel, KernelContext, KERNEL_ABORTED, KERNEL_CAPPED, type Kernel } from "./generate-kernel";
 import { EventRecorder } from "./event-recorder";
-import { AleaStream, replicateSeed } from "../random/alea-stream";
-import { sampleLognormalFactor } from "../random/distributions";
-import { compileProgram, type CompiledProgram } from "../inputs/compile-program";
-import { PulseTracker } from "../metrics/pulse-tracker";
+import { AleaStream, replicateSeed } from "@/sim/random/alea-stream";
+import { sampleLognormalFactor } from "@/sim/random/distributions";
+import { compileProgram, type CompiledProgram } from "@/sim/inputs/compile-program";
+import { PulseTracker } from "@/sim/metrics/pulse-tracker";
 import { resolveThreshold } from "./resolve-threshold";
-import { deriveParams } from "../circuit/compile-model";
+import { deriveParams } from "@/sim/circuit/compile-model";
 import { ENGINE_VERSION } from "./version";
 import { tauLeapRun } from "./tau-leap";
 

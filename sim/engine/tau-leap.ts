@@ -16,10 +16,10 @@
  * leaps stop exactly at switch times; `events` counts reaction firings (sum of
  * the Poisson counts).
  */
-import { reactionRate, type CompiledModel } from "../circuit/compile-model";
+import { reactionRate, type CompiledModel } from "@/sim/circuit/compile-model";
 import type { KernelContext } from "./generate-kernel";
-import { AleaStream } from "../random/alea-stream";
-import { samplePoisson } from "../random/poisson";
+import { AleaStream } from "@/sim/random/alea-stream";
+import { samplePoisson } from "@/sim/random/poisson";
 
 const EPS = 0.03;
 const N_CRITICAL = 10;
@@ -143,7 +143,12 @@ export function tauLeapRun(
           break;
         }
       }
-      if (j < 0) for (let q = nR - 1; q >= 0; q--) if (a[q] > 0) { j = q; break; }
+      if (j < 0)
+        for (let q = nR - 1; q >= 0; q--)
+          if (a[q] > 0) {
+            j = q;
+            break;
+          }
       const before = x[out];
       apply(j, 1);
       if (ctx.recorder) ctx.recorder.push(t, j);

@@ -24,9 +24,9 @@ import {
   PROGRAM_LIMITS,
   type DurationDistribution,
   type InputProgram,
-} from "../../shared/schemas/input-program";
-import { AleaStream, type UniformSource } from "../random/alea-stream";
-import { sampleExponential, sampleGamma } from "../random/distributions";
+} from "@/shared/schemas/input-program";
+import { AleaStream, type UniformSource } from "@/sim/random/alea-stream";
+import { sampleExponential, sampleGamma } from "@/sim/random/distributions";
 
 export interface CompiledPulse {
   on: number;
@@ -72,14 +72,21 @@ export function compileProgram(
   const lvl = (l: number | undefined) => l ?? signal.onLevel;
   switch (program.kind) {
     case "pulses":
-      for (const p of program.pulses) raw.push({ on: p.start, off: p.start + p.duration, level: lvl(p.level), binned: false, duration: p.duration });
+      for (const p of program.pulses)
+        raw.push({ on: p.start, off: p.start + p.duration, level: lvl(p.level), binned: false, duration: p.duration });
       break;
     case "periodic": {
       const max = program.count ?? PROGRAM_LIMITS.maxPulses;
       for (let i = 0; i < max; i++) {
         const on = program.start + i * (program.onDuration + program.offDuration);
         if (on >= end) break;
-        raw.push({ on, off: on + program.onDuration, level: lvl(program.level), binned: false, duration: program.onDuration });
+        raw.push({
+          on,
+          off: on + program.onDuration,
+          level: lvl(program.level),
+          binned: false,
+          duration: program.onDuration,
+        });
       }
       break;
     }
@@ -105,7 +112,8 @@ export function compileProgram(
         if (d > 0) raw.push({ on: t, off: t + d, level: lvl(program.level), binned: true });
         t += sampleExponential(u, program.meanInterval);
       }
-      for (const p of program.extraPulses) raw.push({ on: p.start, off: p.start + p.duration, level: lvl(p.level), binned: false, duration: p.duration });
+      for (const p of program.extraPulses)
+        raw.push({ on: p.start, off: p.start + p.duration, level: lvl(p.level), binned: false, duration: p.duration });
       break;
     }
   }
@@ -125,7 +133,12 @@ export function compileProgram(
   const pulses: CompiledPulse[] = merged.slice(0, PROGRAM_LIMITS.maxPulses).map((p) => {
     const d = p.off - p.on;
     const w = DURATION_BIN_MINUTES;
-    return { on: p.on, off: p.off, level: p.level, durationBin: p.binned ? (Math.floor(d / w) + 0.5) * w : p.duration ?? d };
+    return {
+      on: p.on,
+      off: p.off,
+      level: p.level,
+      durationBin: p.binned ? (Math.floor(d / w) + 0.5) * w : (p.duration ?? d),
+    };
   });
   const times: number[] = [];
   const levels: number[] = [];

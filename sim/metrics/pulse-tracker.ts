@@ -38,7 +38,7 @@
  * Allocation: none per event (a reused growable Float64Array holds the window's
  * path for FWHM); one PulseStat per pulse.
  */
-import type { PulseStat } from "../../shared/schemas/run-spec";
+import type { PulseStat } from "@/shared/schemas/run-spec";
 
 /** An input pulse as the tracker needs it. */
 export interface TrackedPulse {

@@ -16,14 +16,36 @@ export interface DopriOptions {
   maxSteps: number;
 }
 
-const C2 = 1 / 5, C3 = 3 / 10, C4 = 4 / 5, C5 = 8 / 9;
+const C2 = 1 / 5,
+  C3 = 3 / 10,
+  C4 = 4 / 5,
+  C5 = 8 / 9;
 const A21 = 1 / 5;
-const A31 = 3 / 40, A32 = 9 / 40;
-const A41 = 44 / 45, A42 = -56 / 15, A43 = 32 / 9;
-const A51 = 19372 / 6561, A52 = -25360 / 2187, A53 = 64448 / 6561, A54 = -212 / 729;
-const A61 = 9017 / 3168, A62 = -355 / 33, A63 = 46732 / 5247, A64 = 49 / 176, A65 = -5103 / 18656;
-const A71 = 35 / 384, A73 = 500 / 1113, A74 = 125 / 192, A75 = -2187 / 6784, A76 = 11 / 84;
-const E1 = 71 / 57600, E3 = -71 / 16695, E4 = 71 / 1920, E5 = -17253 / 339200, E6 = 22 / 525, E7 = -1 / 40;
+const A31 = 3 / 40,
+  A32 = 9 / 40;
+const A41 = 44 / 45,
+  A42 = -56 / 15,
+  A43 = 32 / 9;
+const A51 = 19372 / 6561,
+  A52 = -25360 / 2187,
+  A53 = 64448 / 6561,
+  A54 = -212 / 729;
+const A61 = 9017 / 3168,
+  A62 = -355 / 33,
+  A63 = 46732 / 5247,
+  A64 = 49 / 176,
+  A65 = -5103 / 18656;
+const A71 = 35 / 384,
+  A73 = 500 / 1113,
+  A74 = 125 / 192,
+  A75 = -2187 / 6784,
+  A76 = 11 / 84;
+const E1 = 71 / 57600,
+  E3 = -71 / 16695,
+  E4 = 71 / 1920,
+  E5 = -17253 / 339200,
+  E6 = 22 / 525,
+  E7 = -1 / 40;
 
 /** Reusable work space and the step size carried between calls. */
 export class DopriIntegrator {
@@ -89,9 +111,11 @@ export class DopriIntegrator {
       f(t + C4 * h, yt, k4);
       for (let i = 0; i < n; i++) yt[i] = y[i] + h * (A51 * k1[i] + A52 * k2[i] + A53 * k3[i] + A54 * k4[i]);
       f(t + C5 * h, yt, k5);
-      for (let i = 0; i < n; i++) yt[i] = y[i] + h * (A61 * k1[i] + A62 * k2[i] + A63 * k3[i] + A64 * k4[i] + A65 * k5[i]);
+      for (let i = 0; i < n; i++)
+        yt[i] = y[i] + h * (A61 * k1[i] + A62 * k2[i] + A63 * k3[i] + A64 * k4[i] + A65 * k5[i]);
       f(t + h, yt, k6);
-      for (let i = 0; i < n; i++) yn[i] = y[i] + h * (A71 * k1[i] + A73 * k3[i] + A74 * k4[i] + A75 * k5[i] + A76 * k6[i]);
+      for (let i = 0; i < n; i++)
+        yn[i] = y[i] + h * (A71 * k1[i] + A73 * k3[i] + A74 * k4[i] + A75 * k5[i] + A76 * k6[i]);
       f(t + h, yn, k7);
       let err = 0;
       for (let i = 0; i < n; i++) {
@@ -101,7 +125,8 @@ export class DopriIntegrator {
       }
       err = Math.sqrt(err / n);
       this.steps++;
-      if (++localSteps > maxSteps) throw new Error(`ODE solver: more than ${maxSteps} steps between t=${t0} and t=${t1}`);
+      if (++localSteps > maxSteps)
+        throw new Error(`ODE solver: more than ${maxSteps} steps between t=${t0} and t=${t1}`);
       if (err <= 1 || h < 1e-12) {
         y.set(yn);
         k1.set(k7);

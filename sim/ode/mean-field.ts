@@ -5,10 +5,15 @@
  * as in the stochastic model. Optionally a last component accumulates the total
  * rate sum_j rate_j (the expected number of firings, for cost estimates).
  */
-import { reactionRate, type CompiledModel } from "../circuit/compile-model";
+import { reactionRate, type CompiledModel } from "@/sim/circuit/compile-model";
 import type { OdeRhs } from "./dormand-prince";
 
-export function meanFieldRhs(model: CompiledModel, p: Float64Array, sig: Float64Array, accumulateTotal = false): OdeRhs {
+export function meanFieldRhs(
+  model: CompiledModel,
+  p: Float64Array,
+  sig: Float64Array,
+  accumulateTotal = false,
+): OdeRhs {
   const nS = model.nSpecies;
   const nR = model.nReactions;
   const clamped = new Float64Array(nS);

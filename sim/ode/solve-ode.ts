@@ -6,11 +6,11 @@
  * stochastic run (start = offSteadyState: burn-in of burnInMinutes with the
  * input off, from the given counts); no extrinsic variation.
  */
-import type { RunSpec } from "../../shared/schemas/run-spec";
+import type { RunSpec } from "@/shared/schemas/run-spec";
 import { DopriIntegrator } from "./dormand-prince";
 import { meanFieldRhs } from "./mean-field";
-import { runSetup } from "../engine/run-setup";
-import type { CompiledModel } from "../circuit/compile-model";
+import { runSetup } from "@/sim/engine/run-setup";
+import type { CompiledModel } from "@/sim/circuit/compile-model";
 
 export interface OdeSolveOptions {
   relTol?: number;
@@ -38,7 +38,10 @@ function integrator(model: CompiledModel, p: Float64Array, sig: Float64Array, op
 }
 
 /** Mean-field state after the run's burn-in (or the given counts), from `init`. */
-export function odeStartState(spec: RunSpec, opts: OdeSolveOptions = {}): { y: Float64Array; burnInRateIntegral: number } {
+export function odeStartState(
+  spec: RunSpec,
+  opts: OdeSolveOptions = {},
+): { y: Float64Array; burnInRateIntegral: number } {
   const setup = runSetup(spec);
   const { model } = setup;
   const p = opts.params ?? model.baseParams;
@@ -100,7 +103,11 @@ export function odeSteadyState(
   const n = model.nSpecies;
   const y = new Float64Array(n + 1);
   y.set(y0.subarray(0, n));
-  const ode = new DopriIntegrator(n + 1, meanFieldRhs(model, p, sig, false), { relTol: 1e-10, absTol: 1e-10, maxSteps: 5_000_000 });
+  const ode = new DopriIntegrator(n + 1, meanFieldRhs(model, p, sig, false), {
+    relTol: 1e-10,
+    absTol: 1e-10,
+    maxSteps: 5_000_000,
+  });
   const prev = new Float64Array(n + 1);
   let block = 10;
   let t = 0;

@@ -51,7 +51,19 @@ export function describe(values: readonly number[]): Description {
   const sorted = sortedCopy(values);
   const n = sorted.length;
   if (n === 0) {
-    return { n: 0, mean: null, sd: null, cv: null, min: null, q10: null, q25: null, median: null, q75: null, q90: null, max: null };
+    return {
+      n: 0,
+      mean: null,
+      sd: null,
+      cv: null,
+      min: null,
+      q10: null,
+      q25: null,
+      median: null,
+      q75: null,
+      q90: null,
+      max: null,
+    };
   }
   const m = mean(sorted);
   const sd = n >= 2 ? Math.sqrt(Math.max(0, sampleVariance(sorted))) : NaN;

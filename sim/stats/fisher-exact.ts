@@ -19,8 +19,15 @@ export function fisherExact(passedA: number, trialsA: number, passedB: number, t
   const lf: number[] = [0];
   for (let i = 1; i <= total; i++) lf[i] = lf[i - 1] + Math.log(i);
   const logP = (x: number) =>
-    lf[passedTotal] + lf[total - passedTotal] + lf[trialsA] + lf[trialsB] -
-    lf[total] - lf[x] - lf[trialsA - x] - lf[passedTotal - x] - lf[trialsB - passedTotal + x];
+    lf[passedTotal] +
+    lf[total - passedTotal] +
+    lf[trialsA] +
+    lf[trialsB] -
+    lf[total] -
+    lf[x] -
+    lf[trialsA - x] -
+    lf[passedTotal - x] -
+    lf[trialsB - passedTotal + x];
   const lo = Math.max(0, passedTotal - trialsB);
   const hi = Math.min(trialsA, passedTotal);
   const observed = logP(passedA);

@@ -7,8 +7,12 @@ export { mannWhitney, type MannWhitneyResult } from "./mann-whitney";
 export { holm } from "./holm";
 export { fisherExact } from "./fisher-exact";
 export {
-  kaplanMeier, kmQuantile, kmQuantileInterval,
-  type SurvivalObservation, type SurvivalStep, type KaplanMeierResult,
+  kaplanMeier,
+  kmQuantile,
+  kmQuantileInterval,
+  type SurvivalObservation,
+  type SurvivalStep,
+  type KaplanMeierResult,
 } from "./kaplan-meier";
 export { fitLogisticPass, type PassCount, type LogisticPassFit } from "./logistic-fit";
 export { quantileSorted } from "./quantile";

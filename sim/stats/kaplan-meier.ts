@@ -89,7 +89,12 @@ export function kaplanMeier(observations: readonly SurvivalObservation[], z: num
 }
 
 /** First event time at which `curve` (S, lower or upper) is <= level (midpoint rule on exact ties); null if never. */
-function firstTimeAtOrBelow(km: KaplanMeierResult, pick: (s: SurvivalStep) => number, level: number, strict: boolean): number | null {
+function firstTimeAtOrBelow(
+  km: KaplanMeierResult,
+  pick: (s: SurvivalStep) => number,
+  level: number,
+  strict: boolean,
+): number | null {
   const eventSteps = km.steps.filter((st) => st.events > 0);
   for (let k = 0; k < eventSteps.length; k++) {
     const v = pick(eventSteps[k]);

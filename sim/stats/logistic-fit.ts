@@ -52,11 +52,24 @@ function fmt(x: number): string {
 }
 
 function empty(note: string, iterations = 0): LogisticPassFit {
-  return { d50: null, d50Ci: null, d50Note: note, intercept: null, slopePerLogMinute: null, slopeAtD50PerMinute: null, converged: false, iterations, fitted: [] };
+  return {
+    d50: null,
+    d50Ci: null,
+    d50Note: note,
+    intercept: null,
+    slopePerLogMinute: null,
+    slopeAtD50PerMinute: null,
+    converged: false,
+    iterations,
+    fitted: [],
+  };
 }
 
 export function fitLogisticPass(counts: readonly PassCount[], z: number = Z_95): LogisticPassFit {
-  const groups = counts.filter((c) => c.trials > 0).slice().sort((a, b) => a.duration - b.duration);
+  const groups = counts
+    .filter((c) => c.trials > 0)
+    .slice()
+    .sort((a, b) => a.duration - b.duration);
   for (const g of groups) {
     if (!(g.duration > 0)) throw new RangeError("fitLogisticPass: durations must be positive");
   }
@@ -64,7 +77,8 @@ export function fitLogisticPass(counts: readonly PassCount[], z: number = Z_95):
   const totalTrials = groups.reduce((s, g) => s + g.trials, 0);
   const totalPassed = groups.reduce((s, g) => s + g.passed, 0);
   if (totalPassed === 0) return empty("No pulse passed at any duration: d50 lies above the longest duration measured.");
-  if (totalPassed === totalTrials) return empty("Every pulse passed at every duration: d50 lies below the shortest duration measured.");
+  if (totalPassed === totalTrials)
+    return empty("Every pulse passed at every duration: d50 lies below the shortest duration measured.");
   const fractions = groups.map((g) => g.passed / g.trials);
   const minP = Math.min(...fractions);
   const maxP = Math.max(...fractions);
@@ -111,13 +125,20 @@ export function fitLogisticPass(counts: readonly PassCount[], z: number = Z_95):
   let iterations = 0;
   let info = [0, 0, 0]; // [I00, I01, I11]
   for (iterations = 1; iterations <= MAX_ITER; iterations++) {
-    let g0 = 0, g1 = 0, i00 = 0, i01 = 0, i11 = 0;
+    let g0 = 0,
+      g1 = 0,
+      i00 = 0,
+      i01 = 0,
+      i11 = 0;
     groups.forEach((g, i) => {
       const p = 1 / (1 + Math.exp(-(b0 + b1 * xs[i])));
       const r = g.passed - g.trials * p;
       const w = g.trials * p * (1 - p);
-      g0 += r; g1 += r * xs[i];
-      i00 += w; i01 += w * xs[i]; i11 += w * xs[i] * xs[i];
+      g0 += r;
+      g1 += r * xs[i];
+      i00 += w;
+      i01 += w * xs[i];
+      i11 += w * xs[i] * xs[i];
     });
     info = [i00, i01, i11];
     const det = i00 * i11 - i01 * i01;
@@ -125,29 +146,51 @@ export function fitLogisticPass(counts: readonly PassCount[], z: number = Z_95):
     const d0 = (i11 * g0 - i01 * g1) / det;
     const d1 = (-i01 * g0 + i00 * g1) / det;
     let step = 1;
-    let nb0 = b0 + d0, nb1 = b1 + d1, nll = logLik(nb0, nb1);
+    let nb0 = b0 + d0,
+      nb1 = b1 + d1,
+      nll = logLik(nb0, nb1);
     while (nll < ll - 1e-12 && step > 1e-6) {
       step /= 2;
-      nb0 = b0 + step * d0; nb1 = b1 + step * d1; nll = logLik(nb0, nb1);
+      nb0 = b0 + step * d0;
+      nb1 = b1 + step * d1;
+      nll = logLik(nb0, nb1);
     }
     const change = Math.abs(nb0 - b0) + Math.abs(nb1 - b1);
-    b0 = nb0; b1 = nb1; ll = nll;
-    if (change < 1e-10 * (1 + Math.abs(b0) + Math.abs(b1))) { converged = true; break; }
+    b0 = nb0;
+    b1 = nb1;
+    ll = nll;
+    if (change < 1e-10 * (1 + Math.abs(b0) + Math.abs(b1))) {
+      converged = true;
+      break;
+    }
   }
   // information at the final estimate, for the interval
   {
-    let i00 = 0, i01 = 0, i11 = 0;
+    let i00 = 0,
+      i01 = 0,
+      i11 = 0;
     groups.forEach((g, i) => {
       const p = 1 / (1 + Math.exp(-(b0 + b1 * xs[i])));
       const w = g.trials * p * (1 - p);
-      i00 += w; i01 += w * xs[i]; i11 += w * xs[i] * xs[i];
+      i00 += w;
+      i01 += w * xs[i];
+      i11 += w * xs[i] * xs[i];
     });
     info = [i00, i01, i11];
   }
-  const fitted = groups.map((g, i) => ({ duration: g.duration, passProbability: 1 / (1 + Math.exp(-(b0 + b1 * xs[i]))) }));
+  const fitted = groups.map((g, i) => ({
+    duration: g.duration,
+    passProbability: 1 / (1 + Math.exp(-(b0 + b1 * xs[i]))),
+  }));
   const base = { intercept: b0, slopePerLogMinute: b1, converged, iterations, fitted };
   if (!converged || !(Math.abs(b1) > 1e-12)) {
-    return { ...base, d50: null, d50Ci: null, d50Note: "The logistic fit did not converge to a finite slope.", slopeAtD50PerMinute: null };
+    return {
+      ...base,
+      d50: null,
+      d50Ci: null,
+      d50Note: "The logistic fit did not converge to a finite slope.",
+      slopeAtD50PerMinute: null,
+    };
   }
   const logD50 = -b0 / b1;
   const d50 = Math.exp(logD50);
@@ -155,15 +198,21 @@ export function fitLogisticPass(counts: readonly PassCount[], z: number = Z_95):
   const hi = groups[groups.length - 1].duration;
   if (d50 < lo || d50 > hi) {
     return {
-      ...base, d50: null, d50Ci: null, slopeAtD50PerMinute: null,
+      ...base,
+      d50: null,
+      d50Ci: null,
+      slopeAtD50PerMinute: null,
       d50Note: `The fitted d50 (${fmt(d50)} min) lies outside the measured durations (${fmt(lo)} to ${fmt(hi)} min).`,
     };
   }
   const [i00, i01, i11] = info;
   const det = i00 * i11 - i01 * i01;
   // covariance = inverse information
-  const c00 = i11 / det, c01 = -i01 / det, c11 = i00 / det;
-  const g0 = -1 / b1, g1 = b0 / (b1 * b1);
+  const c00 = i11 / det,
+    c01 = -i01 / det,
+    c11 = i00 / det;
+  const g0 = -1 / b1,
+    g1 = b0 / (b1 * b1);
   const varLog = g0 * g0 * c00 + 2 * g0 * g1 * c01 + g1 * g1 * c11;
   const se = Math.sqrt(Math.max(0, varLog));
   const d50Ci: [number, number] = [Math.exp(logD50 - z * se), Math.exp(logD50 + z * se)];

@@ -25,10 +25,10 @@
  * set's parameter ranges approximate the region of parameter space consistent
  * with the data under the flat prior the sweep grid represents.
  */
-import type { PulseStat } from "../../shared/schemas/run-spec";
-import type { Distances, MatchPoint, MatchResult, Tolerance } from "../../shared/schemas/api-traces";
-import { ks2 } from "../stats/ks-two-sample";
-import { wasserstein1 } from "../stats/wasserstein-1";
+import type { PulseStat } from "@/shared/schemas/run-spec";
+import type { Distances, MatchPoint, MatchResult, Tolerance } from "@/shared/schemas/api-traces";
+import { ks2 } from "@/sim/stats/ks-two-sample";
+import { wasserstein1 } from "@/sim/stats/wasserstein-1";
 
 export interface FigureSummary {
   /** durationBin -> [pulses, passed] */
@@ -47,7 +47,10 @@ export function summarizeFigures(records: Iterable<PulseStat>): FigureSummary {
 }
 
 /** Adds one record to a summary (for streaming over database rows). */
-export function addRecord(s: FigureSummary, p: Pick<PulseStat, "excluded" | "passed" | "delay" | "widths" | "durationBin">): void {
+export function addRecord(
+  s: FigureSummary,
+  p: Pick<PulseStat, "excluded" | "passed" | "delay" | "widths" | "durationBin">,
+): void {
   if (p.excluded) return;
   s.pulses++;
   let b = s.bins.get(p.durationBin);
@@ -131,7 +134,12 @@ export function distributionOf(s: FigureSummary, maxValues = 2000) {
     for (let i = 0; i < maxValues; i++) out.push(sorted[Math.floor((i * (sorted.length - 1)) / (maxValues - 1))]);
     return out;
   };
-  return { passRate: s.pulses ? s.passed / s.pulses : null, delays: thin(s.delays), widths: thin(s.widths), n: s.pulses };
+  return {
+    passRate: s.pulses ? s.passed / s.pulses : null,
+    delays: thin(s.delays),
+    widths: thin(s.widths),
+    n: s.pulses,
+  };
 }
 
 /** How many points a fraction tolerance accepts out of n. */
@@ -176,7 +184,10 @@ export function matchPoints(
   }));
   const ranges = axes.map((parameter) => {
     const all = points.map((p) => p.parameters[parameter]).filter((x) => Number.isFinite(x));
-    const acc = points.filter((p) => p.accepted).map((p) => p.parameters[parameter]).filter((x) => Number.isFinite(x));
+    const acc = points
+      .filter((p) => p.accepted)
+      .map((p) => p.parameters[parameter])
+      .filter((x) => Number.isFinite(x));
     return {
       parameter,
       acceptedMin: acc.length ? Math.min(...acc) : null,

@@ -21,7 +21,14 @@
  * @example parseTraces("cell,time,value\na,0,1\na,1,2\na,2,3", { timeUnit: "min" })
  */
 import Papa from "papaparse";
-import { TRACE_LIMITS, type Delimiter, type TimeUnit, type TraceLayout, type TraceParseError, type TracePulse } from "../../shared/schemas/api-traces";
+import {
+  TRACE_LIMITS,
+  type Delimiter,
+  type TimeUnit,
+  type TraceLayout,
+  type TraceParseError,
+  type TracePulse,
+} from "@/shared/schemas/api-traces";
 
 export interface ParseTraceOptions {
   layout?: "auto" | TraceLayout;
@@ -112,7 +119,12 @@ interface Row {
 }
 
 /** Splits text into rows with their 1-based line numbers (blank lines dropped). */
-function readRows(text: string, delimiter: string, maxRows: number, errors: ErrorList): { rows: Row[]; tooMany: boolean } {
+function readRows(
+  text: string,
+  delimiter: string,
+  maxRows: number,
+  errors: ErrorList,
+): { rows: Row[]; tooMany: boolean } {
   const rows: Row[] = [];
   let line = 1;
   let prevCursor = 0;
@@ -163,11 +175,15 @@ export function pulsesFromLevels(times: ArrayLike<number>, levels: ArrayLike<num
 }
 
 export function parseTraces(text: string, options: ParseTraceOptions): ParsedTraces | ParseFailure {
-  const limits: Record<"maxRows" | "maxCells" | "minPointsPerCell" | "maxErrors", number> = { ...TRACE_LIMITS, ...options.limits };
+  const limits: Record<"maxRows" | "maxCells" | "minPointsPerCell" | "maxErrors", number> = {
+    ...TRACE_LIMITS,
+    ...options.limits,
+  };
   const errors = new ErrorList(limits.maxErrors);
   const warnings: string[] = [];
   if (text.charCodeAt(0) === 0xfeff) text = text.slice(1);
-  const delimiter: Delimiter = !options.delimiter || options.delimiter === "auto" ? detectDelimiter(text) : options.delimiter;
+  const delimiter: Delimiter =
+    !options.delimiter || options.delimiter === "auto" ? detectDelimiter(text) : options.delimiter;
   const { rows, tooMany } = readRows(text, DELIMS[delimiter], limits.maxRows, errors);
   if (rows.length === 0) return { ok: false, errors: [{ line: 1, column: 0, message: "the file is empty" }] };
   if (tooMany) {
@@ -194,13 +210,21 @@ export function parseTraces(text: string, options: ParseTraceOptions): ParsedTra
     const missing = [iCell < 0 && "cell", iTime < 0 && "time", iValue < 0 && "value"].filter(Boolean).join(", ");
     errors.add(1, 0, `long layout needs columns cell, time and value; missing: ${missing}`);
   }
-  if (layout === "wide" && header.length < 2) errors.add(1, 0, "wide layout needs a time column and at least one cell column");
+  if (layout === "wide" && header.length < 2)
+    errors.add(1, 0, "wide layout needs a time column and at least one cell column");
   const dupHeader = header.findIndex((h, i) => h !== "" && header.indexOf(h) !== i);
   if (dupHeader >= 0) errors.add(1, dupHeader + 1, `column name "${header[dupHeader]}" appears twice`);
   if (errors.list.length) return { ok: false, errors: errors.list };
 
   // Per-cell accumulation
-  interface Acc { cell: string; times: number[]; values: number[]; lastTime: number; firstLine: number; column: number }
+  interface Acc {
+    cell: string;
+    times: number[];
+    values: number[];
+    lastTime: number;
+    firstLine: number;
+    column: number;
+  }
   const cells = new Map<string, Acc>();
   const schedule = new Map<number, { level: number; line: number }>();
   const addScheduleLevel = (row: Row, t: number) => {
@@ -212,7 +236,12 @@ export function parseTraces(text: string, options: ParseTraceOptions): ParsedTra
       return;
     }
     const prev = schedule.get(t);
-    if (prev && prev.level !== lv) errors.add(row.line, scheduleCol + 1, `input level ${lv} at time ${row.fields[iTimeUsed]} disagrees with ${prev.level} on line ${prev.line}`);
+    if (prev && prev.level !== lv)
+      errors.add(
+        row.line,
+        scheduleCol + 1,
+        `input level ${lv} at time ${row.fields[iTimeUsed]} disagrees with ${prev.level} on line ${prev.line}`,
+      );
     else if (!prev) schedule.set(t, { level: lv, line: row.line });
   };
   const pushValue = (acc: Acc, row: Row, col: number, t: number, raw: string | undefined, timeCol: number) => {
@@ -223,11 +252,19 @@ export function parseTraces(text: string, options: ParseTraceOptions): ParsedTra
     }
     if (acc.times.length > 0 || Number.isFinite(acc.lastTime)) {
       if (t === acc.lastTime) {
-        errors.add(row.line, timeCol + 1, `duplicate cell and time: cell "${acc.cell}" already has time ${row.fields[timeCol].trim()}`);
+        errors.add(
+          row.line,
+          timeCol + 1,
+          `duplicate cell and time: cell "${acc.cell}" already has time ${row.fields[timeCol].trim()}`,
+        );
         return;
       }
       if (t < acc.lastTime) {
-        errors.add(row.line, timeCol + 1, `time goes backwards within cell "${acc.cell}" (${row.fields[timeCol].trim()} after ${+(acc.lastTime / unit).toPrecision(12)})`);
+        errors.add(
+          row.line,
+          timeCol + 1,
+          `time goes backwards within cell "${acc.cell}" (${row.fields[timeCol].trim()} after ${+(acc.lastTime / unit).toPrecision(12)})`,
+        );
         return;
       }
     }
@@ -246,7 +283,11 @@ export function parseTraces(text: string, options: ParseTraceOptions): ParsedTra
       const seen = new Set<string>();
       for (let r = 1; r < rows.length && seen.size < 50; r++) seen.add((rows[r].fields[iChannel] ?? "").trim());
       if (seen.size > 1) {
-        errors.add(1, iChannel + 1, `the file has several channels (${[...seen].slice(0, 5).join(", ")}): choose the reporter channel`);
+        errors.add(
+          1,
+          iChannel + 1,
+          `the file has several channels (${[...seen].slice(0, 5).join(", ")}): choose the reporter channel`,
+        );
         return { ok: false, errors: errors.list };
       }
     }
@@ -255,7 +296,11 @@ export function parseTraces(text: string, options: ParseTraceOptions): ParsedTra
     for (let r = 1; r < rows.length && !errors.full; r++) {
       const row = rows[r];
       if (row.fields.length < header.length) {
-        errors.add(row.line, row.fields.length + 1, `line has ${row.fields.length} fields, the header has ${header.length}`);
+        errors.add(
+          row.line,
+          row.fields.length + 1,
+          `line has ${row.fields.length} fields, the header has ${header.length}`,
+        );
         continue;
       }
       if (channel && iChannel >= 0 && row.fields[iChannel].trim() !== channel) continue;
@@ -299,13 +344,24 @@ export function parseTraces(text: string, options: ParseTraceOptions): ParsedTra
       return { ok: false, errors: errors.list };
     }
     if (cellCols.length === 0) errors.add(1, 0, "wide layout needs at least one cell column");
-    const accs = cellCols.map((c) => ({ cell: header[c], times: [] as number[], values: [] as number[], lastTime: -Infinity, firstLine: 1, column: c + 1 }));
+    const accs = cellCols.map((c) => ({
+      cell: header[c],
+      times: [] as number[],
+      values: [] as number[],
+      lastTime: -Infinity,
+      firstLine: 1,
+      column: c + 1,
+    }));
     for (const a of accs) cells.set(a.cell, a);
     let lastTime = -Infinity;
     for (let r = 1; r < rows.length && !errors.full; r++) {
       const row = rows[r];
       if (row.fields.length < header.length) {
-        errors.add(row.line, row.fields.length + 1, `line has ${row.fields.length} fields, the header has ${header.length}`);
+        errors.add(
+          row.line,
+          row.fields.length + 1,
+          `line has ${row.fields.length} fields, the header has ${header.length}`,
+        );
         continue;
       }
       const tRaw = readNumber(row.fields[timeCol]);
@@ -316,15 +372,24 @@ export function parseTraces(text: string, options: ParseTraceOptions): ParsedTra
       const t = tRaw * unit;
       // One time column for every cell: report its order problems once, not per cell.
       if (t === lastTime) {
-        errors.add(row.line, timeCol + 1, `duplicate time ${row.fields[timeCol].trim()} (every cell would have it twice)`);
+        errors.add(
+          row.line,
+          timeCol + 1,
+          `duplicate time ${row.fields[timeCol].trim()} (every cell would have it twice)`,
+        );
         continue;
       }
       if (t < lastTime) {
-        errors.add(row.line, timeCol + 1, `time goes backwards (${row.fields[timeCol].trim()} after ${+(lastTime / unit).toPrecision(12)})`);
+        errors.add(
+          row.line,
+          timeCol + 1,
+          `time goes backwards (${row.fields[timeCol].trim()} after ${+(lastTime / unit).toPrecision(12)})`,
+        );
         continue;
       }
       lastTime = t;
-      for (let k = 0; k < cellCols.length; k++) pushValue(accs[k], row, cellCols[k], t, row.fields[cellCols[k]], timeCol);
+      for (let k = 0; k < cellCols.length; k++)
+        pushValue(accs[k], row, cellCols[k], t, row.fields[cellCols[k]], timeCol);
       addScheduleLevel(row, t);
     }
   }
@@ -332,7 +397,11 @@ export function parseTraces(text: string, options: ParseTraceOptions): ParsedTra
   if (!errors.full) {
     for (const acc of cells.values()) {
       if (acc.times.length < limits.minPointsPerCell) {
-        errors.add(acc.firstLine, acc.column, `cell "${acc.cell}" has ${acc.times.length} value${acc.times.length === 1 ? "" : "s"}; at least ${limits.minPointsPerCell} are needed`);
+        errors.add(
+          acc.firstLine,
+          acc.column,
+          `cell "${acc.cell}" has ${acc.times.length} value${acc.times.length === 1 ? "" : "s"}; at least ${limits.minPointsPerCell} are needed`,
+        );
       }
     }
   }
@@ -342,7 +411,11 @@ export function parseTraces(text: string, options: ParseTraceOptions): ParsedTra
   let pulses: TracePulse[] | null = null;
   if (scheduleCol >= 0) {
     const ts = [...schedule.keys()].sort((a, b) => a - b);
-    pulses = pulsesFromLevels(ts, ts.map((t) => schedule.get(t)!.level), options.onAbove ?? 0);
+    pulses = pulsesFromLevels(
+      ts,
+      ts.map((t) => schedule.get(t)!.level),
+      options.onAbove ?? 0,
+    );
     if (pulses.length === 0) warnings.push("the input column never switches on: no pulses to analyse");
   }
 
@@ -351,7 +424,11 @@ export function parseTraces(text: string, options: ParseTraceOptions): ParsedTra
     layout,
     delimiter,
     rows: dataRows,
-    cells: [...cells.values()].map((a) => ({ cell: a.cell, times: Float64Array.from(a.times), values: Float64Array.from(a.values) })),
+    cells: [...cells.values()].map((a) => ({
+      cell: a.cell,
+      times: Float64Array.from(a.times),
+      values: Float64Array.from(a.values),
+    })),
     schedule: pulses,
     warnings,
   };

@@ -22,7 +22,7 @@
  *
  * Pure and deterministic.
  */
-import type { Background, Scale, Smoothing, TracePulse } from "../../shared/schemas/api-traces";
+import type { Background, Scale, Smoothing, TracePulse } from "@/shared/schemas/api-traces";
 
 export interface RawCell {
   cell: string;
@@ -62,7 +62,8 @@ function median(xs: number[]): number {
 /** Median of all positive spacings between consecutive frames (minutes); 1 when there are none. */
 export function typicalFrameInterval(cells: readonly RawCell[]): number {
   const d: number[] = [];
-  for (const c of cells) for (let i = 1; i < c.times.length; i++) if (c.times[i] > c.times[i - 1]) d.push(c.times[i] - c.times[i - 1]);
+  for (const c of cells)
+    for (let i = 1; i < c.times.length; i++) if (c.times[i] > c.times[i - 1]) d.push(c.times[i] - c.times[i - 1]);
   const m = median(d);
   return Number.isFinite(m) && m > 0 ? m : 1;
 }
@@ -82,7 +83,13 @@ export function segmentsOf(times: ArrayLike<number>, maxSpacing: number): [numbe
 }
 
 /** Centred moving average of odd width w within [start, end), truncated at the ends. */
-export function movingAverage(values: ArrayLike<number>, start: number, end: number, w: number, out: Float64Array): void {
+export function movingAverage(
+  values: ArrayLike<number>,
+  start: number,
+  end: number,
+  w: number,
+  out: Float64Array,
+): void {
   const half = (w - 1) >> 1;
   for (let i = start; i < end; i++) {
     const a = Math.max(start, i - half);
@@ -93,7 +100,11 @@ export function movingAverage(values: ArrayLike<number>, start: number, end: num
   }
 }
 
-export function prepareCells(cells: readonly RawCell[], firstPulseOn: number | null, opts: PrepareOptions): PreparedSet {
+export function prepareCells(
+  cells: readonly RawCell[],
+  firstPulseOn: number | null,
+  opts: PrepareOptions,
+): PreparedSet {
   const frame = typicalFrameInterval(cells);
   const maxSpacing = opts.gapFactor * frame;
   const smoothed = cells.map((c) => {
@@ -114,7 +125,8 @@ export function prepareCells(cells: readonly RawCell[], firstPulseOn: number | n
   else {
     const own = cells.map((c, k) => {
       const pre: number[] = [];
-      for (let i = 0; i < c.times.length; i++) if (firstPulseOn === null || c.times[i] < firstPulseOn) pre.push(smoothed[k].v[i]);
+      for (let i = 0; i < c.times.length; i++)
+        if (firstPulseOn === null || c.times[i] < firstPulseOn) pre.push(smoothed[k].v[i]);
       return median(pre);
     });
     const fallback = median(own.filter(Number.isFinite));
@@ -150,10 +162,18 @@ export function prepareCells(cells: readonly RawCell[], firstPulseOn: number | n
  * fitPlateau: see the file comment; throws a RangeError when no pulse is long
  * enough or the plateau is not above background.
  */
-export function resolveScale(scale: Scale, cells: readonly PreparedCell[], pulses: readonly TracePulse[]): { unitsPerMolecule: number; note: string } {
-  if (scale.mode === "entered") return { unitsPerMolecule: scale.unitsPerMolecule, note: `entered: ${scale.unitsPerMolecule} units per molecule` };
+export function resolveScale(
+  scale: Scale,
+  cells: readonly PreparedCell[],
+  pulses: readonly TracePulse[],
+): { unitsPerMolecule: number; note: string } {
+  if (scale.mode === "entered")
+    return { unitsPerMolecule: scale.unitsPerMolecule, note: `entered: ${scale.unitsPerMolecule} units per molecule` };
   const long = pulses.filter((p) => p.off - p.on >= scale.minPulseMinutes);
-  if (long.length === 0) throw new RangeError(`no input pulse is at least ${scale.minPulseMinutes} min long to fit the scale from its plateau`);
+  if (long.length === 0)
+    throw new RangeError(
+      `no input pulse is at least ${scale.minPulseMinutes} min long to fit the scale from its plateau`,
+    );
   const perCell: number[] = [];
   for (const c of cells) {
     const xs: number[] = [];
@@ -167,7 +187,8 @@ export function resolveScale(scale: Scale, cells: readonly PreparedCell[], pulse
     if (xs.length) perCell.push(median(xs));
   }
   const plateau = median(perCell);
-  if (!(plateau > 0)) throw new RangeError("the plateau of long pulses is not above background; enter the scale instead");
+  if (!(plateau > 0))
+    throw new RangeError("the plateau of long pulses is not above background; enter the scale instead");
   const s = plateau / scale.onSteadyStateMolecules;
   return {
     unitsPerMolecule: s,

@@ -12,13 +12,13 @@
  * 4. drop frames at random with probability missingFraction (missing frames).
  * Noise streams: seedrandom.alea(`${seed}/measure/${cell}`) via AleaStream.
  */
-import type { RunSpec } from "../../shared/schemas/run-spec";
-import type { TracePulse } from "../../shared/schemas/api-traces";
-import { simulateChunk } from "../engine/simulate-chunk";
-import { runSetup, gridTimes } from "../engine/run-setup";
-import { compileProgram } from "../inputs/compile-program";
-import { AleaStream } from "../random/alea-stream";
-import { sampleNormal } from "../random/distributions";
+import type { RunSpec } from "@/shared/schemas/run-spec";
+import type { TracePulse } from "@/shared/schemas/api-traces";
+import { simulateChunk } from "@/sim/engine/simulate-chunk";
+import { runSetup, gridTimes } from "@/sim/engine/run-setup";
+import { compileProgram } from "@/sim/inputs/compile-program";
+import { AleaStream } from "@/sim/random/alea-stream";
+import { sampleNormal } from "@/sim/random/distributions";
 import type { RawCell } from "./preprocess";
 
 export interface MeasurementModel {
@@ -49,8 +49,12 @@ export interface SyntheticTraceSet {
 /** The pulses a run spec's program makes over its end time (minutes). */
 export function scheduleOf(spec: RunSpec): TracePulse[] {
   const setup = runSetup(spec);
-  if (spec.program.kind === "random" && spec.program.perReplicate) throw new RangeError("synthetic traces need one schedule shared by every cell (perReplicate off)");
-  const compiled = compileProgram(spec.program, spec.endTimeMinutes, undefined, { offLevel: 0, onLevel: setup.onLevel });
+  if (spec.program.kind === "random" && spec.program.perReplicate)
+    throw new RangeError("synthetic traces need one schedule shared by every cell (perReplicate off)");
+  const compiled = compileProgram(spec.program, spec.endTimeMinutes, undefined, {
+    offLevel: 0,
+    onLevel: setup.onLevel,
+  });
   return compiled.pulses.map((p) => ({ on: p.on, off: p.off, durationBin: p.durationBin }));
 }
 
@@ -84,7 +88,11 @@ export function makeSyntheticTraces(spec: RunSpec, measure: MeasurementModel, se
       times.push(grid[g]);
       values.push(measure.background + signal + z * (measure.noiseSdUnits + measure.noiseCv * signal));
     }
-    return { cell: `cell-${String(tr.replicate + 1).padStart(3, "0")}`, times: Float64Array.from(times), values: Float64Array.from(values) };
+    return {
+      cell: `cell-${String(tr.replicate + 1).padStart(3, "0")}`,
+      times: Float64Array.from(times),
+      values: Float64Array.from(values),
+    };
   });
   return { cells, schedule, frameTimes: grid, inputLevels, synthetic: true };
 }

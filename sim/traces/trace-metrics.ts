@@ -18,10 +18,10 @@
  *
  * @example analyseTraces(cells, [{ on: 30, off: 90 }], { thresholdMolecules: 50, ... })
  */
-import type { PulseStat } from "../../shared/schemas/run-spec";
-import type { CellMetrics, TraceAnalysis, TracePulse, TraceSettings } from "../../shared/schemas/api-traces";
-import { pulseStatsFromSampledTrace, type TrackedPulse } from "../metrics/pulse-tracker";
-import { summarizeRun } from "../analysis/summarize-run";
+import type { PulseStat } from "@/shared/schemas/run-spec";
+import type { CellMetrics, TraceAnalysis, TracePulse, TraceSettings } from "@/shared/schemas/api-traces";
+import { pulseStatsFromSampledTrace, type TrackedPulse } from "@/sim/metrics/pulse-tracker";
+import { summarizeRun } from "@/sim/analysis/summarize-run";
 import { prepareCells, resolveScale, type PreparedCell, type RawCell } from "./preprocess";
 
 export type TracePulseStat = PulseStat & { longestGapMinutes: number };
@@ -55,7 +55,13 @@ function longestGap(c: PreparedCell, from: number, to: number): number {
 }
 
 /** Pulse figures of one prepared cell (records of covered pulses only) and the skipped pulses. */
-export function cellMetrics(c: PreparedCell, index: number, pulses: readonly TrackedPulse[], settings: TraceSettings, unitsPerMolecule: number): CellMetrics {
+export function cellMetrics(
+  c: PreparedCell,
+  index: number,
+  pulses: readonly TrackedPulse[],
+  settings: TraceSettings,
+  unitsPerMolecule: number,
+): CellMetrics {
   const theta = c.background + unitsPerMolecule * settings.thresholdMolecules;
   const downTheta = c.background + unitsPerMolecule * settings.thresholdMolecules * (1 - settings.hysteresis);
   let first = NaN;
@@ -66,7 +72,13 @@ export function cellMetrics(c: PreparedCell, index: number, pulses: readonly Tra
     last = c.times[i];
   }
   const ends = pulseWindowEnds(pulses, settings.windowMinutes);
-  const records = pulseStatsFromSampledTrace(c.times, c.values, pulses, { theta, downTheta, windowMinutes: settings.windowMinutes }, index);
+  const records = pulseStatsFromSampledTrace(
+    c.times,
+    c.values,
+    pulses,
+    { theta, downTheta, windowMinutes: settings.windowMinutes },
+    index,
+  );
   const byIndex = new Map(records.map((r) => [r.pulseIndex, r]));
   const kept: TracePulseStat[] = [];
   const skipped: CellMetrics["skipped"] = [];
@@ -97,7 +109,11 @@ export function cellMetrics(c: PreparedCell, index: number, pulses: readonly Tra
 }
 
 /** Full analysis of a trace set: preprocessing, per-cell figures and the pooled summary. */
-export function analyseTraces(cells: readonly RawCell[], schedule: readonly TracePulse[], settings: TraceSettings): { analysis: TraceAnalysis; prepared: PreparedCell[] } {
+export function analyseTraces(
+  cells: readonly RawCell[],
+  schedule: readonly TracePulse[],
+  settings: TraceSettings,
+): { analysis: TraceAnalysis; prepared: PreparedCell[] } {
   const pulses = trackedPulses(schedule);
   const prepared = prepareCells(cells, pulses.length ? pulses[0].on : null, {
     background: settings.background,
@@ -145,7 +161,10 @@ export function pooledPulses(analysis: TraceAnalysis): PulseStat[] {
 }
 
 /** Cells for charts: at most maxPoints samples per cell (every k-th), gaps as null. */
-export function chartCells(cells: readonly PreparedCell[], maxPoints: number): { cell: string; times: number[]; values: (number | null)[] }[] {
+export function chartCells(
+  cells: readonly PreparedCell[],
+  maxPoints: number,
+): { cell: string; times: number[]; values: (number | null)[] }[] {
   return cells.map((c) => {
     const n = c.times.length;
     const step = Math.max(1, Math.ceil(n / maxPoints));

@@ -1,7 +1,7 @@
 import React from "react";
 import { fireEvent, screen } from "@testing-library/react-native";
-import { ChangePasswordForm, validateChangePassword } from "../../components/account/change-password-form";
-import { ApiError } from "../../components/data/api";
+import { ChangePasswordForm, validateChangePassword } from "@/components/account/change-password-form";
+import { ApiError } from "@/components/data/api";
 import { renderWithProviders } from "./render";
 
 function fill(current: string, next: string, again: string) {
@@ -33,8 +33,13 @@ describe("ChangePasswordForm validation", () => {
   });
 
   test("7 characters is too short, 8 is enough; a valid form submits both passwords", () => {
-    expect(validateChangePassword({ currentPassword: "old-one", newPassword: "1234567", repeatPassword: "1234567" }).newPassword).toBe("Use at least 8 characters.");
-    expect(validateChangePassword({ currentPassword: "old-one", newPassword: "12345678", repeatPassword: "12345678" })).toEqual({});
+    expect(
+      validateChangePassword({ currentPassword: "old-one", newPassword: "1234567", repeatPassword: "1234567" })
+        .newPassword,
+    ).toBe("Use at least 8 characters.");
+    expect(
+      validateChangePassword({ currentPassword: "old-one", newPassword: "12345678", repeatPassword: "12345678" }),
+    ).toEqual({});
     const onSubmit = jest.fn();
     renderWithProviders(<ChangePasswordForm onSubmit={onSubmit} />);
     fill("old-password", "a-new-password", "a-new-password");
@@ -47,7 +52,13 @@ describe("ChangePasswordForm validation", () => {
       return (
         <ChangePasswordForm
           error={error}
-          onSubmit={() => setError(new ApiError(400, "wrong_password", "The current password is not right.", [{ path: "currentPassword", message: "Not right." }]))}
+          onSubmit={() =>
+            setError(
+              new ApiError(400, "wrong_password", "The current password is not right.", [
+                { path: "currentPassword", message: "Not right." },
+              ]),
+            )
+          }
         />
       );
     }

@@ -1,9 +1,9 @@
 import React from "react";
 import { screen } from "@testing-library/react-native";
 import { Dimensions } from "react-native";
-import { AppShell } from "../../components/ui/app-shell";
-import { Text } from "../../components/ui/text";
-import { breakpointsFor } from "../../components/theme/use-breakpoints";
+import { AppShell } from "@/components/ui/app-shell";
+import { Text } from "@/components/ui/text";
+import { breakpointsFor } from "@/components/theme/use-breakpoints";
 import { renderWithProviders } from "./render";
 
 function setWidth(width: number) {
@@ -11,11 +11,14 @@ function setWidth(width: number) {
   Dimensions.set({ window, screen: window });
 }
 
-
 describe("AppShell chooses its layout from the window width at run time", () => {
   test("phone width (390 px) gets bottom tabs with More", () => {
     setWidth(390);
-    renderWithProviders(<AppShell pathname="/" onNavigate={() => {}}><Text>content</Text></AppShell>);
+    renderWithProviders(
+      <AppShell pathname="/" onNavigate={() => {}}>
+        <Text>content</Text>
+      </AppShell>,
+    );
     expect(screen.getByTestId("layout-phone")).toBeTruthy();
     expect(screen.queryByTestId("layout-wide")).toBeNull();
     expect(screen.getByLabelText("More")).toBeTruthy();
@@ -24,7 +27,11 @@ describe("AppShell chooses its layout from the window width at run time", () => 
 
   test("wide width (1280 px) gets the side navigation with every section", () => {
     setWidth(1280);
-    renderWithProviders(<AppShell pathname="/runs/abc" onNavigate={() => {}} labName="Tank Sensor Group"><Text>content</Text></AppShell>);
+    renderWithProviders(
+      <AppShell pathname="/runs/abc" onNavigate={() => {}} labName="Tank Sensor Group">
+        <Text>content</Text>
+      </AppShell>,
+    );
     expect(screen.getByTestId("layout-wide")).toBeTruthy();
     for (const label of ["Home", "Circuits", "Inputs", "Runs", "Compare", "Sweeps", "Traces", "Lab", "Settings"]) {
       expect(screen.getByLabelText(label)).toBeTruthy();

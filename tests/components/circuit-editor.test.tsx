@@ -1,7 +1,7 @@
 import React from "react";
 import { fireEvent, screen } from "@testing-library/react-native";
-import { CircuitEditor } from "../../components/forms/circuit-editor";
-import type { CircuitInput } from "../../shared/schemas/circuit";
+import { CircuitEditor } from "@/components/forms/circuit-editor";
+import type { CircuitInput } from "@/shared/schemas/circuit";
 import { renderWithProviders } from "./render";
 
 const BODY: CircuitInput = {
@@ -10,8 +10,26 @@ const BODY: CircuitInput = {
   species: [{ name: "rptC", initialCount: 0 }],
   signals: [{ name: "Q", offLevel: 0, onLevel: 1 }],
   reactions: [
-    { name: "make", reactants: [], products: [{ species: "rptC", count: 1 }], modifiers: [], rate: { kind: "regulated", maxRatePerMinute: 5, logic: "and", leakFraction: 0, regulators: [{ source: "Q", effect: "activates", halfMax: 0.5, hill: 2 }] } },
-    { name: "lose", reactants: [{ species: "rptC", count: 1 }], products: [], modifiers: [], rate: { kind: "massAction", ratePerMinute: 0.1 } },
+    {
+      name: "make",
+      reactants: [],
+      products: [{ species: "rptC", count: 1 }],
+      modifiers: [],
+      rate: {
+        kind: "regulated",
+        maxRatePerMinute: 5,
+        logic: "and",
+        leakFraction: 0,
+        regulators: [{ source: "Q", effect: "activates", halfMax: 0.5, hill: 2 }],
+      },
+    },
+    {
+      name: "lose",
+      reactants: [{ species: "rptC", count: 1 }],
+      products: [],
+      modifiers: [],
+      rate: { kind: "massAction", ratePerMinute: 0.1 },
+    },
   ],
   outputSpecies: "rptC",
 };
@@ -43,7 +61,13 @@ describe("CircuitEditor", () => {
   test("shows server field errors at their fields and submits a valid body", () => {
     const onSubmit = jest.fn();
     renderWithProviders(
-      <CircuitEditor initial={BODY} submitLabel="Save" onSubmit={onSubmit} serverErrors={{ "reactions.1.name": "reaction names must be unique" }} serverMessage="The circuit was not saved." />,
+      <CircuitEditor
+        initial={BODY}
+        submitLabel="Save"
+        onSubmit={onSubmit}
+        serverErrors={{ "reactions.1.name": "reaction names must be unique" }}
+        serverMessage="The circuit was not saved."
+      />,
     );
     expect(screen.getByText("The circuit was not saved.")).toBeTruthy();
     expect(screen.getByText("reaction names must be unique")).toBeTruthy();

@@ -1,7 +1,7 @@
 import React from "react";
 import { fireEvent, screen } from "@testing-library/react-native";
-import { InviteForm, validateInvite } from "../../components/lab/invite-form";
-import { ApiError } from "../../components/data/api";
+import { InviteForm, validateInvite } from "@/components/lab/invite-form";
+import { ApiError } from "@/components/data/api";
 import { renderWithProviders } from "./render";
 
 describe("InviteForm", () => {
@@ -31,7 +31,16 @@ describe("InviteForm", () => {
   test("keeps what was typed and shows the server's reason when it refuses", () => {
     function Harness() {
       const [error, setError] = React.useState<unknown>(undefined);
-      return <InviteForm onSubmit={() => setError(new ApiError(409, "already_member", "viewer@example.org is already a member of this lab (viewer)."))} error={error} />;
+      return (
+        <InviteForm
+          onSubmit={() =>
+            setError(
+              new ApiError(409, "already_member", "viewer@example.org is already a member of this lab (viewer)."),
+            )
+          }
+          error={error}
+        />
+      );
     }
     renderWithProviders(<Harness />);
     fireEvent.changeText(screen.getByLabelText("E-mail address"), "viewer@example.org");
@@ -44,7 +53,9 @@ describe("InviteForm", () => {
   });
 
   test("a server field error appears under the address field, not as a banner", () => {
-    const error = new ApiError(400, "invalid", "Invalid body", [{ path: "body.email", message: "must be an e-mail address" }]);
+    const error = new ApiError(400, "invalid", "Invalid body", [
+      { path: "body.email", message: "must be an e-mail address" },
+    ]);
     renderWithProviders(<InviteForm onSubmit={() => {}} error={error} />);
     expect(screen.getByText("must be an e-mail address")).toBeTruthy();
     expect(screen.queryByTestId("invite-error")).toBeNull();

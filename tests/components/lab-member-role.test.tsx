@@ -1,13 +1,25 @@
 import React from "react";
 import { fireEvent, screen } from "@testing-library/react-native";
-import { MemberList } from "../../components/lab/member-list";
-import { ApiError } from "../../components/data/api";
-import type { LabMember, LabRole } from "../../components/data/labs";
+import { MemberList } from "@/components/lab/member-list";
+import { ApiError } from "@/components/data/api";
+import type { LabMember, LabRole } from "@/components/data/labs";
 import { renderWithProviders } from "./render";
 
 const MEMBERS: LabMember[] = [
-  { userId: "u-owner", email: "owner@example.org", displayName: "Demo owner", role: "owner", joinedAt: "2025-01-01T00:00:00.000Z" },
-  { userId: "u-editor", email: "editor@example.org", displayName: "Demo editor", role: "editor", joinedAt: "2025-01-01T00:00:00.000Z" },
+  {
+    userId: "u-owner",
+    email: "owner@example.org",
+    displayName: "Demo owner",
+    role: "owner",
+    joinedAt: "2025-01-01T00:00:00.000Z",
+  },
+  {
+    userId: "u-editor",
+    email: "editor@example.org",
+    displayName: "Demo editor",
+    role: "editor",
+    joinedAt: "2025-01-01T00:00:00.000Z",
+  },
 ];
 const LAST_OWNER = "A lab needs at least one owner. Make someone else an owner first.";
 
@@ -54,7 +66,9 @@ describe("Member role change", () => {
 
   test("removing a member asks first and can be backed out of", () => {
     const onRemove = jest.fn();
-    renderWithProviders(<MemberList members={MEMBERS} myUserId="u-owner" canManage onChangeRole={() => {}} onRemove={onRemove} />);
+    renderWithProviders(
+      <MemberList members={MEMBERS} myUserId="u-owner" canManage onChangeRole={() => {}} onRemove={onRemove} />,
+    );
     expect(screen.queryByLabelText("Remove Demo owner")).toBeNull();
     fireEvent.press(screen.getByLabelText("Remove Demo editor"));
     expect(onRemove).not.toHaveBeenCalled();
@@ -65,7 +79,15 @@ describe("Member role change", () => {
   });
 
   test("members who do not manage the lab see roles in words, with no controls", () => {
-    renderWithProviders(<MemberList members={MEMBERS} myUserId="u-editor" canManage={false} onChangeRole={() => {}} onRemove={() => {}} />);
+    renderWithProviders(
+      <MemberList
+        members={MEMBERS}
+        myUserId="u-editor"
+        canManage={false}
+        onChangeRole={() => {}}
+        onRemove={() => {}}
+      />,
+    );
     expect(screen.getByText("Owner: manages members and the lab, and runs studies")).toBeTruthy();
     expect(screen.queryByTestId("role-owner@example.org-viewer")).toBeNull();
     expect(screen.queryByLabelText("Remove Demo owner")).toBeNull();

@@ -1,13 +1,20 @@
 import React from "react";
 import { fireEvent, screen } from "@testing-library/react-native";
-import { ProgramEditor, PROGRAM_DEFAULTS, suggestedEndTime } from "../../components/forms/program-editor";
-import { validateRunForm, toLaunchRequest, type RunFormValues } from "../../components/forms/run-settings";
+import { ProgramEditor, PROGRAM_DEFAULTS, suggestedEndTime } from "@/components/forms/program-editor";
+import { validateRunForm, toLaunchRequest, type RunFormValues } from "@/components/forms/run-settings";
 import { renderWithProviders } from "./render";
 
 describe("ProgramEditor", () => {
   test("ladder durations are checked inline and the form is not submitted while invalid", () => {
     const onSubmit = jest.fn();
-    renderWithProviders(<ProgramEditor initialName="Duration ladder" initial={PROGRAM_DEFAULTS.ladder} submitLabel="Create" onSubmit={onSubmit} />);
+    renderWithProviders(
+      <ProgramEditor
+        initialName="Duration ladder"
+        initial={PROGRAM_DEFAULTS.ladder}
+        submitLabel="Create"
+        onSubmit={onSubmit}
+      />,
+    );
     fireEvent.changeText(screen.getByLabelText("Pulse durations (min, separated by commas)"), "5, 0, 10");
     expect(screen.getByText("ladder duration must be positive")).toBeTruthy();
     fireEvent.changeText(screen.getByLabelText("Recovery gap (min)"), "");
@@ -19,7 +26,9 @@ describe("ProgramEditor", () => {
 
   test("switching kind shows that kind's fields; a valid program is submitted", () => {
     const onSubmit = jest.fn();
-    renderWithProviders(<ProgramEditor initialName="Spikes" initial={PROGRAM_DEFAULTS.ladder} submitLabel="Create" onSubmit={onSubmit} />);
+    renderWithProviders(
+      <ProgramEditor initialName="Spikes" initial={PROGRAM_DEFAULTS.ladder} submitLabel="Create" onSubmit={onSubmit} />,
+    );
     fireEvent.press(screen.getByLabelText("Periodic train"));
     expect(screen.getByLabelText("On for (min)")).toBeTruthy();
     fireEvent.press(screen.getByLabelText("Create"));
@@ -34,8 +43,18 @@ describe("ProgramEditor", () => {
 
 describe("run form validation", () => {
   const ok: RunFormValues = {
-    name: "Hold on ladder", circuitId: "c1", programId: "p1", inputSignal: "Q", replicates: "200", seed: "abc123",
-    endTimeMinutes: "1900", gridStepMinutes: "1", thresholdValue: "", hysteresis: "0.2", windowMinutes: "", noiseDurationMinutes: "10",
+    name: "Hold on ladder",
+    circuitId: "c1",
+    programId: "p1",
+    inputSignal: "Q",
+    replicates: "200",
+    seed: "abc123",
+    endTimeMinutes: "1900",
+    gridStepMinutes: "1",
+    thresholdValue: "",
+    hysteresis: "0.2",
+    windowMinutes: "",
+    noiseDurationMinutes: "10",
   };
   test("accepts defaults and builds the launch request with optional fields left out", () => {
     expect(validateRunForm(ok)).toEqual({});
@@ -44,7 +63,13 @@ describe("run form validation", () => {
     expect(req.settings.threshold.value).toBeUndefined();
   });
   test("explains each bad field", () => {
-    const e = validateRunForm({ ...ok, replicates: "2.5", seed: "has space", gridStepMinutes: "0.01", hysteresis: "1.5" });
+    const e = validateRunForm({
+      ...ok,
+      replicates: "2.5",
+      seed: "has space",
+      gridStepMinutes: "0.01",
+      hysteresis: "1.5",
+    });
     expect(e.replicates).toBe("Replicates must be a whole number of at least 1.");
     expect(e.seed).toBe("seed uses letters, digits and _ . : - only");
     expect(e.gridStepMinutes).toBe("At most 20,000 grid points: use a larger step.");

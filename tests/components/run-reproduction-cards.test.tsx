@@ -1,29 +1,58 @@
 import React from "react";
 import { fireEvent, screen } from "@testing-library/react-native";
-import { ReproductionCard, reproductionVerdict, type Reproduction } from "../../components/runs/reproduction-card";
-import { AccelerationCard, delayWords, halfRiseWords, type AccelerationView } from "../../components/runs/acceleration-card";
-import { importProblemOf } from "../../components/runs/import-bundle";
-import { ApiError } from "../../components/data/api";
+import { ReproductionCard, reproductionVerdict, type Reproduction } from "@/components/runs/reproduction-card";
+import {
+  AccelerationCard,
+  delayWords,
+  halfRiseWords,
+  type AccelerationView,
+} from "@/components/runs/acceleration-card";
+import { importProblemOf } from "@/components/runs/import-bundle";
+import { ApiError } from "@/components/data/api";
 import { renderWithProviders } from "./render";
 
 const repro = (over: Partial<Reproduction>): Reproduction => ({
-  of: "run_0", expectedHash: "a", actualHash: "a", identical: true, firstDifference: null, engineMatches: true, message: "Identical: every stored statistic matches the original.", ...over,
+  of: "run_0",
+  expectedHash: "a",
+  actualHash: "a",
+  identical: true,
+  firstDifference: null,
+  engineMatches: true,
+  message: "Identical: every stored statistic matches the original.",
+  ...over,
 });
 const acc = (over: Partial<AccelerationView>): AccelerationView => ({
-  halfRiseCircuitMinutes: 10, halfRiseControlMinutes: 20, halfRiseRatio: 2, medianDelayCircuit: 12, medianDelayControl: 5, medianDelayDifference: 7,
-  longPulseDelayCircuit: null, longPulseDelayControl: null, longPulseDelayDifference: null, circuitRunId: "run_c", controlRunId: "run_k", ...over,
+  halfRiseCircuitMinutes: 10,
+  halfRiseControlMinutes: 20,
+  halfRiseRatio: 2,
+  medianDelayCircuit: 12,
+  medianDelayControl: 5,
+  medianDelayDifference: 7,
+  longPulseDelayCircuit: null,
+  longPulseDelayControl: null,
+  longPulseDelayDifference: null,
+  circuitRunId: "run_c",
+  controlRunId: "run_k",
+  ...over,
 });
 
 describe("reproduction card", () => {
   test("identical, first difference, still computing", () => {
     expect(reproductionVerdict(repro({})).text).toBe("Identical: every stored statistic matches the original");
-    expect(reproductionVerdict(repro({ identical: false, firstDifference: "replicate 3, pulse 2, delay" })).text).toBe("Differs: first difference at replicate 3, pulse 2, delay");
-    expect(reproductionVerdict(repro({ identical: null, actualHash: null, message: "The reproduction is still computing." })).tone).toBe("pending");
+    expect(reproductionVerdict(repro({ identical: false, firstDifference: "replicate 3, pulse 2, delay" })).text).toBe(
+      "Differs: first difference at replicate 3, pulse 2, delay",
+    );
+    expect(
+      reproductionVerdict(repro({ identical: null, actualHash: null, message: "The reproduction is still computing." }))
+        .tone,
+    ).toBe("pending");
   });
 
   test("says whether the engine matches and links to the original run (not for bundles)", () => {
     const open = jest.fn();
-    const { unmount } = renderWithProviders(<ReproductionCard reproduction={repro({ engineMatches: false })} onOpenOriginal={open} />);
+    const { unmount } = renderWithProviders(
+      <ReproductionCard reproduction={repro({ engineMatches: false })} onOpenOriginal={open} />,
+    );
     expect(screen.getByText(/Engine version: different from the original's/)).toBeTruthy();
     fireEvent.press(screen.getByLabelText("Open the original run"));
     expect(open).toHaveBeenCalledWith("run_0");
@@ -55,7 +84,12 @@ describe("acceleration card", () => {
 });
 
 test("a refused bundle import lists each field the server named", () => {
-  const p = importProblemOf(new ApiError(400, "invalid", "Invalid bundle: ...", [{ path: "spec.replicates", message: "Too big: expected number to be <=100000" }]), "bundle.json");
+  const p = importProblemOf(
+    new ApiError(400, "invalid", "Invalid bundle: ...", [
+      { path: "spec.replicates", message: "Too big: expected number to be <=100000" },
+    ]),
+    "bundle.json",
+  );
   expect(p.message).toBe("This file is not a run bundle Linger can re-run.");
   expect(p.fields).toEqual([{ path: "spec.replicates", message: "Too big: expected number to be <=100000" }]);
 });

@@ -1,7 +1,7 @@
 import React from "react";
 import { fireEvent, screen } from "@testing-library/react-native";
-import { SignInForm, validateSignIn } from "../../components/forms/sign-in-form";
-import { ApiError } from "../../components/data/api";
+import { SignInForm, validateSignIn } from "@/components/forms/sign-in-form";
+import { ApiError } from "@/components/data/api";
 import { renderWithProviders } from "./render";
 
 describe("SignInForm", () => {
@@ -31,7 +31,9 @@ describe("SignInForm", () => {
     // The parent passes the server's 401 back after the submit, as the sign-in screen does.
     function Harness() {
       const [error, setError] = React.useState<unknown>(undefined);
-      return <SignInForm onSubmit={() => setError(new ApiError(401, "unauthorized", "bad credentials"))} error={error} />;
+      return (
+        <SignInForm onSubmit={() => setError(new ApiError(401, "unauthorized", "bad credentials"))} error={error} />
+      );
     }
     renderWithProviders(<Harness />);
     fireEvent.changeText(screen.getByLabelText("Email"), "editor@example.org");

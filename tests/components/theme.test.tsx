@@ -1,5 +1,5 @@
-import { contrastRatio } from "../../components/theme/contrast";
-import { darkPalette, lightPalette, type Palette } from "../../components/theme/tokens";
+import { contrastRatio } from "@/components/theme/contrast";
+import { darkPalette, lightPalette, type Palette } from "@/components/theme/tokens";
 
 // WCAG 2.1 SC 1.4.3: 4.5:1 for normal text; SC 1.4.11: 3:1 for UI component boundaries.
 describe("theme colours meet WCAG 2.1 AA", () => {
@@ -9,7 +9,10 @@ describe("theme colours meet WCAG 2.1 AA", () => {
     expect(contrastRatio("#777777", "#777777")).toBeCloseTo(1, 5);
   });
 
-  for (const [name, p] of [["light", lightPalette], ["dark", darkPalette]] as [string, Palette][]) {
+  for (const [name, p] of [
+    ["light", lightPalette],
+    ["dark", darkPalette],
+  ] as [string, Palette][]) {
     test(`${name}: text pairs >= 4.5:1`, () => {
       const pairs: [string, string, string][] = [
         ["text/background", p.text, p.background],

@@ -1,9 +1,14 @@
 import React from "react";
 import { act, fireEvent, screen, waitFor } from "@testing-library/react-native";
-import { TraceUploadForm } from "../../components/traces/upload-form";
-import { TraceUploadError, type TraceFile } from "../../components/data/traces";
-import { ApiError } from "../../components/data/api";
-import { UPLOAD_DEFAULTS, toUploadOptions, uploadServerErrors, validateUpload } from "../../components/traces/settings-form";
+import { TraceUploadForm } from "@/components/traces/upload-form";
+import { TraceUploadError, type TraceFile } from "@/components/data/traces";
+import { ApiError } from "@/components/data/api";
+import {
+  UPLOAD_DEFAULTS,
+  toUploadOptions,
+  uploadServerErrors,
+  validateUpload,
+} from "@/components/traces/settings-form";
 import { renderWithProviders } from "./render";
 
 const FILE: TraceFile = { name: "cells.csv", size: 1200, mimeType: "text/csv", uri: "file:///cells.csv" };
@@ -13,7 +18,9 @@ function setup(props: Partial<React.ComponentProps<typeof TraceUploadForm>> = {}
   const onPreview = jest.fn();
   const onSave = jest.fn();
   const pickFile = jest.fn(async () => FILE);
-  const utils = renderWithProviders(<TraceUploadForm programs={PROGRAMS} pickFile={pickFile} onPreview={onPreview} onSave={onSave} {...props} />);
+  const utils = renderWithProviders(
+    <TraceUploadForm programs={PROGRAMS} pickFile={pickFile} onPreview={onPreview} onSave={onSave} {...props} />,
+  );
   return { onPreview, onSave, pickFile, ...utils };
 }
 
@@ -82,17 +89,27 @@ describe("TraceUploadForm", () => {
       layout: "long",
       timeUnit: "min",
       schedule: { source: "column", column: "input", onAbove: 0 },
-      settings: { background: { mode: "preInput" }, scale: { mode: "entered", unitsPerMolecule: 2.5 }, thresholdMolecules: 50 },
+      settings: {
+        background: { mode: "preInput" },
+        scale: { mode: "entered", unitsPerMolecule: 2.5 },
+        thresholdMolecules: 50,
+      },
     });
     fireEvent.press(screen.getByLabelText("Save trace set"));
     expect(onSave).toHaveBeenCalledTimes(1);
   });
 
   test("a rejected file lists its problems by line and column, and the form keeps what was typed", async () => {
-    const error = new TraceUploadError(400, "invalid_traces", "The file was not accepted: line 4, column 3: value is not a number.", [{ path: "line 4, column 3", message: "value is not a number" }], [
-      { line: 4, column: 3, message: 'value "abc" is not a number' },
-      { line: 9, column: 0, message: "line is shorter than the header" },
-    ]);
+    const error = new TraceUploadError(
+      400,
+      "invalid_traces",
+      "The file was not accepted: line 4, column 3: value is not a number.",
+      [{ path: "line 4, column 3", message: "value is not a number" }],
+      [
+        { line: 4, column: 3, message: 'value "abc" is not a number' },
+        { line: 9, column: 0, message: "line is shorter than the header" },
+      ],
+    );
     const onPreview = jest.fn();
     renderWithProviders(<Harness answer={error} onPreview={onPreview} />);
     await chooseFile();
@@ -115,7 +132,9 @@ describe("TraceUploadForm", () => {
   });
 
   test("server field errors on the options appear under their fields; other errors in a banner", async () => {
-    const fieldError = new ApiError(400, "invalid", "Invalid options", [{ path: "schedule.programId", message: "That input program was not found in this lab." }]);
+    const fieldError = new ApiError(400, "invalid", "Invalid options", [
+      { path: "schedule.programId", message: "That input program was not found in this lab." },
+    ]);
     const first = renderWithProviders(<Harness answer={fieldError} onPreview={jest.fn()} />);
     await chooseFile();
     fireEvent.changeText(screen.getByLabelText("Threshold (molecules)"), "50");
@@ -126,7 +145,13 @@ describe("TraceUploadForm", () => {
     expect(screen.getByTestId("upload-error")).toBeTruthy();
     first.unmount();
 
-    const tooLarge = new TraceUploadError(413, "file_too_large", "The file is larger than 5 MB; split it or drop columns you do not need.", [], []);
+    const tooLarge = new TraceUploadError(
+      413,
+      "file_too_large",
+      "The file is larger than 5 MB; split it or drop columns you do not need.",
+      [],
+      [],
+    );
     renderWithProviders(<Harness answer={tooLarge} onPreview={jest.fn()} />);
     await chooseFile();
     fireEvent.changeText(screen.getByLabelText("Threshold (molecules)"), "50");

@@ -22,10 +22,10 @@ import { mkdtempSync, rmSync, writeFileSync } from "node:fs";
 import { tmpdir } from "node:os";
 import { join, resolve } from "node:path";
 import type { Page } from "playwright-core";
-import { startTestServer, DEMO_PASSWORD, type TestServer } from "../helpers/test-server";
+import { startTestServer, DEMO_PASSWORD, type TestServer } from "@/tests/helpers/test-server";
 import { launchBrowser, screenshot, PHONE, type BrowserSession, assertAccessible } from "./browser";
 import { signIn, DEMO_EDITOR } from "./flows";
-import { ensureWebBuild } from "../../scripts/build-web";
+import { ensureWebBuild } from "@/scripts/build-web";
 
 const ROOT = resolve(__dirname, "..", "..");
 const DEMO_OWNER = "owner@example.org";
@@ -50,7 +50,11 @@ after(async () => {
 
 /** Signs in through the API; returns the session cookie. */
 async function apiSignIn(email: string, password: string): Promise<string> {
-  const r = await fetch(server.url + "/api/auth/sign-in", { method: "POST", headers: { "content-type": "application/json" }, body: JSON.stringify({ email, password }) });
+  const r = await fetch(server.url + "/api/auth/sign-in", {
+    method: "POST",
+    headers: { "content-type": "application/json" },
+    body: JSON.stringify({ email, password }),
+  });
   assert.equal(r.status, 200, `API sign-in as ${email}`);
   return r.headers.get("set-cookie")!.split(";")[0];
 }
@@ -70,7 +74,11 @@ async function createSiteAdmin(): Promise<string> {
   });
   const token = /reset\?token=([\w-]+)/.exec(out)?.[1];
   assert.ok(token, `the admin CLI prints a set-up link:\n${out}`);
-  const r = await fetch(server.url + "/api/auth/reset-confirm", { method: "POST", headers: { "content-type": "application/json" }, body: JSON.stringify({ token, password: ADMIN_PASSWORD }) });
+  const r = await fetch(server.url + "/api/auth/reset-confirm", {
+    method: "POST",
+    headers: { "content-type": "application/json" },
+    body: JSON.stringify({ token, password: ADMIN_PASSWORD }),
+  });
   assert.equal(r.status, 200, "setting the admin's password");
   return apiSignIn(ADMIN, ADMIN_PASSWORD);
 }
@@ -97,7 +105,11 @@ describe("accounts, labs, admin and reproduction at phone size (390x844)", { tim
       await signIn(page, server.url, DEMO_OWNER, DEMO_PASSWORD);
       await page.goto(server.url + "/more");
       await page.getByRole("link", { name: "Lab", exact: true }).waitFor();
-      assert.equal(await page.getByRole("link", { name: "Admin", exact: true }).count(), 0, "Admin is hidden from a lab owner who is not a site admin");
+      assert.equal(
+        await page.getByRole("link", { name: "Admin", exact: true }).count(),
+        0,
+        "Admin is hidden from a lab owner who is not a site admin",
+      );
       await page.getByRole("link", { name: "Lab", exact: true }).click();
       await page.getByTestId("lab-screen").waitFor();
       await page.getByTestId("member-editor@example.org").waitFor();
@@ -116,7 +128,11 @@ describe("accounts, labs, admin and reproduction at phone size (390x844)", { tim
 
       await page.goto(server.url + "/settings");
       await page.getByTestId("settings-screen").waitFor();
-      assert.equal(await page.getByRole("checkbox", { name: /E-mail me when my lab's runs/ }).getAttribute("aria-checked"), "true", "run e-mails are on by default");
+      assert.equal(
+        await page.getByRole("checkbox", { name: /E-mail me when my lab's runs/ }).getAttribute("aria-checked"),
+        "true",
+        "run e-mails are on by default",
+      );
       await assertAccessible(page, "settings");
       await shot(page, "03-settings");
       assert.deepEqual(owner.errors, [], "no uncaught page errors (owner)");
@@ -127,7 +143,10 @@ describe("accounts, labs, admin and reproduction at phone size (390x844)", { tim
 
     // ---- a site admin reads the invitation link from the outbox (API)
     const adminCookie = await createSiteAdmin();
-    const outbox = await apiGet<{ messages: { to: string; subject: string; text: string }[] }>(`/api/admin/outbox?to=${encodeURIComponent(INVITED)}`, adminCookie);
+    const outbox = await apiGet<{ messages: { to: string; subject: string; text: string }[] }>(
+      `/api/admin/outbox?to=${encodeURIComponent(INVITED)}`,
+      adminCookie,
+    );
     const mail = outbox.messages.find((m) => m.subject.includes(LAB));
     assert.ok(mail, "the invitation mail is in the outbox");
     const link = /https?:\/\/\S+\/invite\?token=\S+/.exec(mail.text)?.[0];
@@ -175,7 +194,10 @@ describe("accounts, labs, admin and reproduction at phone size (390x844)", { tim
       await page.getByTestId("outbox-list").getByText(`You are invited to ${LAB} on Linger`).first().waitFor();
       await page.getByTestId("user-list").getByText(INVITED).waitFor();
       await page.getByRole("button", { name: "Back up the database now" }).click();
-      await page.getByTestId("backup-result").getByText(/Backup written: linger-.+\.db/).waitFor();
+      await page
+        .getByTestId("backup-result")
+        .getByText(/Backup written: linger-.+\.db/)
+        .waitFor();
       await assertAccessible(page, "admin");
       await shot(page, "06-admin");
       assert.deepEqual(admin.errors, [], "no uncaught page errors (admin)");
@@ -208,14 +230,19 @@ describe("accounts, labs, admin and reproduction at phone size (390x844)", { tim
       await page.getByTestId("reproduce-run").click();
       await page.waitForURL((u) => /\/runs\/[^/]+$/.test(u.pathname) && !u.pathname.endsWith(original!.id));
       await page.getByTestId("reproduction-card").waitFor();
-      await page.getByTestId("reproduction-verdict").getByText(/^Identical: every stored statistic matches the original/).waitFor({ timeout: 300_000 });
+      await page
+        .getByTestId("reproduction-verdict")
+        .getByText(/^Identical: every stored statistic matches the original/)
+        .waitFor({ timeout: 300_000 });
       assert.match(await page.getByTestId("reproduction-engine").innerText(), /same as the original/);
       await page.getByTestId("headline-cards").waitFor();
       await assertAccessible(page, "reproduced run");
       await shot(page, "07-reproduced");
 
       // Import the original's bundle from the runs list (expo-document-picker's file input).
-      const bundle = await fetch(`${server.url}/api/runs/${original!.id}/export/bundle.json`, { headers: { cookie } }).then((r) => r.text());
+      const bundle = await fetch(`${server.url}/api/runs/${original!.id}/export/bundle.json`, {
+        headers: { cookie },
+      }).then((r) => r.text());
       const file = join(bundleDir, "bundle.json");
       writeFileSync(file, bundle);
       await page.goto(server.url + "/runs");

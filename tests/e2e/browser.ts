@@ -106,20 +106,37 @@ export async function interLoaded(page: Page): Promise<boolean> {
     await document.fonts.ready;
     const faces: { family: string; status: string }[] = [];
     document.fonts.forEach((f) => faces.push({ family: f.family.replace(/["']/g, ""), status: f.status }));
-    return faces.some((f) => f.family.startsWith("Inter") && f.status === "loaded") && document.fonts.check('16px "Inter_400Regular"');
+    return (
+      faces.some((f) => f.family.startsWith("Inter") && f.status === "loaded") &&
+      document.fonts.check('16px "Inter_400Regular"')
+    );
   });
 }
 
-export type AxeViolation = { id: string; impact: string | null; help: string; nodes: { target: string[]; html: string }[] };
+export type AxeViolation = {
+  id: string;
+  impact: string | null;
+  help: string;
+  nodes: { target: string[]; html: string }[];
+};
 
 /** Runs axe-core in the page; returns the serious and critical violations. */
 export async function axeSeriousViolations(page: Page): Promise<AxeViolation[]> {
   const source = readFileSync(require.resolve("axe-core/axe.min.js"), "utf8");
   await page.evaluate(source);
   const result = await page.evaluate(async () => {
-    const axe = (window as unknown as { axe: { run: (ctx: unknown, opts: unknown) => Promise<{ violations: AxeViolation[] }> } }).axe;
-    const r = await axe.run(document, { runOnly: { type: "tag", values: ["wcag2a", "wcag2aa", "wcag21a", "wcag21aa", "best-practice"] } });
-    return r.violations.map((v) => ({ id: v.id, impact: v.impact, help: v.help, nodes: v.nodes.slice(0, 5).map((n) => ({ target: n.target, html: n.html.slice(0, 200) })) }));
+    const axe = (
+      window as unknown as { axe: { run: (ctx: unknown, opts: unknown) => Promise<{ violations: AxeViolation[] }> } }
+    ).axe;
+    const r = await axe.run(document, {
+      runOnly: { type: "tag", values: ["wcag2a", "wcag2aa", "wcag21a", "wcag21aa", "best-practice"] },
+    });
+    return r.violations.map((v) => ({
+      id: v.id,
+      impact: v.impact,
+      help: v.help,
+      nodes: v.nodes.slice(0, 5).map((n) => ({ target: n.target, html: n.html.slice(0, 200) })),
+    }));
   });
   return result.filter((v) => v.impact === "serious" || v.impact === "critical");
 }
@@ -128,14 +145,18 @@ export async function axeSeriousViolations(page: Page): Promise<AxeViolation[]> 
 export async function smallTouchTargets(page: Page): Promise<string[]> {
   return page.evaluate(() => {
     const out: string[] = [];
-    const els = document.querySelectorAll('button, a[href], input, select, textarea, [role="button"], [role="link"], [role="radio"], [role="checkbox"], [role="switch"], [role="tab"]');
+    const els = document.querySelectorAll(
+      'button, a[href], input, select, textarea, [role="button"], [role="link"], [role="radio"], [role="checkbox"], [role="switch"], [role="tab"]',
+    );
     els.forEach((el) => {
       const r = (el as HTMLElement).getBoundingClientRect();
       const style = getComputedStyle(el as HTMLElement);
       if (r.width === 0 || r.height === 0 || style.visibility === "hidden" || style.display === "none") return;
       if (el.closest('[aria-hidden="true"]')) return;
       if (r.width < 44 - 0.5 || r.height < 44 - 0.5) {
-        out.push(`${el.tagName.toLowerCase()}[${el.getAttribute("aria-label") ?? (el.textContent ?? "").trim().slice(0, 30)}] ${Math.round(r.width)}x${Math.round(r.height)}`);
+        out.push(
+          `${el.tagName.toLowerCase()}[${el.getAttribute("aria-label") ?? (el.textContent ?? "").trim().slice(0, 30)}] ${Math.round(r.width)}x${Math.round(r.height)}`,
+        );
       }
     });
     return out;
@@ -146,11 +167,19 @@ export async function smallTouchTargets(page: Page): Promise<string[]> {
 export async function unlabelledControls(page: Page): Promise<string[]> {
   return page.evaluate(() => {
     const out: string[] = [];
-    document.querySelectorAll('button, a[href], input, select, textarea, [role="button"], [role="link"], [role="radio"], [role="checkbox"], [role="switch"]').forEach((el) => {
-      const name = el.getAttribute("aria-label") || el.getAttribute("aria-labelledby") || (el.textContent ?? "").trim() || el.getAttribute("title");
-      const r = (el as HTMLElement).getBoundingClientRect();
-      if (!name && r.width > 0) out.push(el.outerHTML.slice(0, 120));
-    });
+    document
+      .querySelectorAll(
+        'button, a[href], input, select, textarea, [role="button"], [role="link"], [role="radio"], [role="checkbox"], [role="switch"]',
+      )
+      .forEach((el) => {
+        const name =
+          el.getAttribute("aria-label") ||
+          el.getAttribute("aria-labelledby") ||
+          (el.textContent ?? "").trim() ||
+          el.getAttribute("title");
+        const r = (el as HTMLElement).getBoundingClientRect();
+        if (!name && r.width > 0) out.push(el.outerHTML.slice(0, 120));
+      });
     return out;
   });
 }

@@ -10,10 +10,10 @@
  */
 import { after, before, describe, test } from "node:test";
 import assert from "node:assert/strict";
-import { startTestServer, DEMO_PASSWORD, type TestServer } from "../helpers/test-server";
+import { startTestServer, DEMO_PASSWORD, type TestServer } from "@/tests/helpers/test-server";
 import { launchBrowser, screenshot, PHONE, WIDE, type Viewport, assertAccessible } from "./browser";
 import { signIn, DEMO_EDITOR } from "./flows";
-import { ensureWebBuild } from "../../scripts/build-web";
+import { ensureWebBuild } from "@/scripts/build-web";
 
 const DEMO_CONTROL_RUN = "Tank sensor, direct on Duration ladder";
 let server: TestServer;
@@ -72,7 +72,10 @@ for (const vp of [PHONE, WIDE] as Viewport[]) {
         await page.waitForURL(/\/runs\/new/);
         await page.getByRole("radio", { name: programName }).click();
         await page.getByTestId("run-replicates").fill("40");
-        await page.getByTestId("run-estimate").getByText(/of compute/).waitFor({ timeout: 30_000 });
+        await page
+          .getByTestId("run-estimate")
+          .getByText(/of compute/)
+          .waitFor({ timeout: 30_000 });
         assert.ok((await page.getByTestId("run-seed").inputValue()).length > 0, "a seed is shown");
         await assertAccessible(page, "new run");
         await screenshot(page, `main-${tag}-05-new-run`);

@@ -5,10 +5,10 @@
  */
 import { after, before, describe, test } from "node:test";
 import assert from "node:assert/strict";
-import { startTestServer, DEMO_PASSWORD, type TestServer } from "../helpers/test-server";
+import { startTestServer, DEMO_PASSWORD, type TestServer } from "@/tests/helpers/test-server";
 import { launchBrowser, screenshot, interLoaded, PHONE, WIDE, axeSeriousViolations, type Viewport } from "./browser";
 import { signIn, DEMO_EDITOR } from "./flows";
-import { ensureWebBuild } from "../../scripts/build-web";
+import { ensureWebBuild } from "@/scripts/build-web";
 
 let server: TestServer;
 

@@ -14,11 +14,11 @@
 import { after, before, describe, test } from "node:test";
 import assert from "node:assert/strict";
 import type { Page } from "playwright-core";
-import { startTestServer, DEMO_PASSWORD, type TestServer } from "../helpers/test-server";
+import { startTestServer, DEMO_PASSWORD, type TestServer } from "@/tests/helpers/test-server";
 import { launchBrowser, screenshot, PHONE, WIDE, type Viewport, assertAccessible } from "./browser";
 import { signIn, DEMO_EDITOR } from "./flows";
-import { ensureWebBuild } from "../../scripts/build-web";
-import { DEMO_SWEEP_NAME } from "../../server/services/demo-runs";
+import { ensureWebBuild } from "@/scripts/build-web";
+import { DEMO_SWEEP_NAME } from "@/server/demo/runs";
 
 const DEMO_PARAMETER = "K(makeZ,hldB)";
 const DEMO_CIRCUIT = "Tank sensor, hold";
@@ -76,7 +76,11 @@ for (const vp of [PHONE, WIDE] as Viewport[]) {
         // The list polls while a sweep is active; wait for all nine points (the demo runs may be ahead in the queue).
         await demoCard.getByText("9 of 9 points").waitFor({ timeout: 180_000 });
         await demoCard.getByText("Finished", { exact: true }).waitFor({ timeout: 10_000 });
-        assert.match(await demoCard.innerText(), new RegExp(DEMO_PARAMETER.replace(/[()]/g, "\\$&")), "the card names the swept parameter");
+        assert.match(
+          await demoCard.innerText(),
+          new RegExp(DEMO_PARAMETER.replace(/[()]/g, "\\$&")),
+          "the card names the swept parameter",
+        );
         await assertAccessible(page, "sweeps list");
         await screenshot(page, `sweeps-${tag}-01-list`);
 
@@ -95,21 +99,25 @@ for (const vp of [PHONE, WIDE] as Viewport[]) {
         assert.equal(d50Pairs[0].x, "40");
         assert.equal(d50Pairs[8].x, "400");
         assert.ok(d50Pairs.filter((p) => p.y !== "–").length >= 2, `at least two points with a d50: ${d50Label}`);
-        assert.equal((await page.getByRole("radio", { name: "d50 (min)" }).getAttribute("aria-checked")), "true");
+        assert.equal(await page.getByRole("radio", { name: "d50 (min)" }).getAttribute("aria-checked"), "true");
         await page.waitForTimeout(500);
         await assertAccessible(page, "demo sweep detail");
         await screenshot(page, `sweeps-${tag}-02-demo-d50`);
 
         await page.getByRole("radio", { name: "False-pass rate" }).click();
         await page.waitForFunction(
-          (want) => document.querySelector('[data-testid="sweep-chart-canvas"]')?.getAttribute("aria-label")?.startsWith(want),
+          (want) =>
+            document.querySelector('[data-testid="sweep-chart-canvas"]')?.getAttribute("aria-label")?.startsWith(want),
           `False-pass rate over ${DEMO_PARAMETER}.`,
         );
-        assert.equal((await page.getByRole("radio", { name: "False-pass rate" }).getAttribute("aria-checked")), "true");
+        assert.equal(await page.getByRole("radio", { name: "False-pass rate" }).getAttribute("aria-checked"), "true");
         await waitForChart(page);
         const fpPairs = describedPairs(await chartLabel(page));
         assert.equal(fpPairs.length, 9);
-        assert.ok(fpPairs.every((p) => p.y !== "–" && Number(p.y) >= 0 && Number(p.y) <= 1), `a false-pass rate in [0, 1] at each point: ${JSON.stringify(fpPairs)}`);
+        assert.ok(
+          fpPairs.every((p) => p.y !== "–" && Number(p.y) >= 0 && Number(p.y) <= 1),
+          `a false-pass rate in [0, 1] at each point: ${JSON.stringify(fpPairs)}`,
+        );
         await page.waitForTimeout(500);
         await screenshot(page, `sweeps-${tag}-03-demo-false-pass`);
 
@@ -130,8 +138,14 @@ for (const vp of [PHONE, WIDE] as Viewport[]) {
         await page.waitForURL(/\/sweeps\/new$/);
         const newName = `Hold scan ${tag}`;
         await page.getByLabel("Sweep name", { exact: true }).fill(newName);
-        await page.getByRole("radiogroup", { name: "Circuit" }).getByRole("radio", { name: DEMO_CIRCUIT, exact: true }).click();
-        await page.getByRole("radiogroup", { name: "Input program" }).getByRole("radio", { name: DEMO_PROGRAM, exact: true }).click();
+        await page
+          .getByRole("radiogroup", { name: "Circuit" })
+          .getByRole("radio", { name: DEMO_CIRCUIT, exact: true })
+          .click();
+        await page
+          .getByRole("radiogroup", { name: "Input program" })
+          .getByRole("radio", { name: DEMO_PROGRAM, exact: true })
+          .click();
         const paramGroup = page.getByRole("radiogroup", { name: "Parameter" });
         await paramGroup.waitFor();
         await paramGroup.getByRole("radio", { name: /^makeZ: half-max K of hldB \(now / }).click();
@@ -160,18 +174,37 @@ for (const vp of [PHONE, WIDE] as Viewport[]) {
         await page.getByText("Finished", { exact: true }).first().waitFor({ timeout: 10_000 });
         // With the default threshold a figure may be missing at every point: the screen then says so instead of a blank.
         const sweepId = new URL(page.url()).pathname.split("/").pop()!;
-        const detail = (await (await page.request.get(`${server.url}/api/sweeps/${sweepId}`)).json()) as { points: { figures: { d50: number | null } | null }[] };
+        const detail = (await (await page.request.get(`${server.url}/api/sweeps/${sweepId}`)).json()) as {
+          points: { figures: { d50: number | null } | null }[];
+        };
         assert.equal(detail.points.length, 3);
         if (detail.points.every((p) => p.figures?.d50 === null)) {
-          await page.getByTestId("sweep-chart-empty").getByText(/No point has a d50 \(min\) value\./).waitFor();
+          await page
+            .getByTestId("sweep-chart-empty")
+            .getByText(/No point has a d50 \(min\) value\./)
+            .waitFor();
           await screenshot(page, `sweeps-${tag}-06-new-no-d50`, 1);
         } else await waitForChart(page);
         await page.getByRole("radio", { name: "Median peak" }).click();
         await waitForChart(page);
         const peakPairs = describedPairs(await chartLabel(page));
-        assert.deepEqual(peakPairs.map((p) => p.x), ["50", "100", "200"], "3 values from 50 to 200 on a log grid");
-        assert.ok(peakPairs.every((p) => Number(p.y) > 0), `a median peak at each point: ${JSON.stringify(peakPairs)}`);
-        assert.equal(await page.getByRole("link").filter({ hasText: `${DEMO_PARAMETER} = ` }).count(), 3, "one row per value");
+        assert.deepEqual(
+          peakPairs.map((p) => p.x),
+          ["50", "100", "200"],
+          "3 values from 50 to 200 on a log grid",
+        );
+        assert.ok(
+          peakPairs.every((p) => Number(p.y) > 0),
+          `a median peak at each point: ${JSON.stringify(peakPairs)}`,
+        );
+        assert.equal(
+          await page
+            .getByRole("link")
+            .filter({ hasText: `${DEMO_PARAMETER} = ` })
+            .count(),
+          3,
+          "one row per value",
+        );
         await page.waitForTimeout(500);
         await assertAccessible(page, "new sweep detail");
         await screenshot(page, `sweeps-${tag}-07-new-finished`);

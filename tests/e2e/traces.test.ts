@@ -17,11 +17,11 @@ import { mkdtempSync, rmSync, writeFileSync } from "node:fs";
 import { tmpdir } from "node:os";
 import { join, resolve } from "node:path";
 import type { Page } from "playwright-core";
-import { startTestServer, DEMO_PASSWORD, type TestServer } from "../helpers/test-server";
+import { startTestServer, DEMO_PASSWORD, type TestServer } from "@/tests/helpers/test-server";
 import { launchBrowser, screenshot, PHONE, WIDE, type Viewport, assertAccessible } from "./browser";
 import { signIn, DEMO_EDITOR } from "./flows";
-import { ensureWebBuild } from "../../scripts/build-web";
-import { DEMO_TRACES_NAME, DEMO_UPLOAD_OPTIONS } from "../../server/services/demo-traces";
+import { ensureWebBuild } from "@/scripts/build-web";
+import { DEMO_TRACES_NAME, DEMO_UPLOAD_OPTIONS } from "@/server/demo/traces";
 
 const ROOT = resolve(__dirname, "..", "..");
 const DEMO_FILE = join(ROOT, "docs", "examples", "demo-traces.csv");
@@ -75,11 +75,18 @@ for (const vp of [PHONE, WIDE] as Viewport[]) {
         }
         await page.waitForURL(/\/traces$/);
         await page.getByTestId("traces-screen").getByText(DEMO_TRACES_NAME).first().waitFor();
-        assert.ok((await page.locator('[data-testid^="synthetic-badge-"]').count()) >= 1, "the demo set carries the synthetic badge");
+        assert.ok(
+          (await page.locator('[data-testid^="synthetic-badge-"]').count()) >= 1,
+          "the demo set carries the synthetic badge",
+        );
         await assertAccessible(page, "traces list");
         await screenshot(page, `traces-${tag}-01-list`);
 
-        await page.getByRole("link", { name: new RegExp(`^${DEMO_TRACES_NAME.replace(/[()]/g, "\\$&")}.*Synthetic, not measured`) }).click();
+        await page
+          .getByRole("link", {
+            name: new RegExp(`^${DEMO_TRACES_NAME.replace(/[()]/g, "\\$&")}.*Synthetic, not measured`),
+          })
+          .click();
         await page.getByTestId("synthetic-note").waitFor();
         await page.getByTestId("headline-cards").waitFor();
         await page.getByTestId("chart-cells-canvas").locator("canvas").first().waitFor({ timeout: 60_000 });
@@ -94,7 +101,10 @@ for (const vp of [PHONE, WIDE] as Viewport[]) {
         await page.getByTestId("upload-layout-long").click();
         await fill(page, "upload-threshold", String(s.thresholdMolecules));
         await pickFile(page, badFile);
-        await page.getByTestId("upload-file-name").getByText(/broken-cells\.csv/).waitFor();
+        await page
+          .getByTestId("upload-file-name")
+          .getByText(/broken-cells\.csv/)
+          .waitFor();
         await page.getByTestId("upload-preview").click();
         const problems = page.getByTestId("upload-problems");
         await problems.waitFor();
@@ -109,10 +119,17 @@ for (const vp of [PHONE, WIDE] as Viewport[]) {
         // The demo file with the options that fit it.
         const name = `Tank cells upload ${tag}`;
         await pickFile(page, DEMO_FILE);
-        await page.getByTestId("upload-file-name").getByText(/demo-traces\.csv/).waitFor();
+        await page
+          .getByTestId("upload-file-name")
+          .getByText(/demo-traces\.csv/)
+          .waitFor();
         await fill(page, "upload-name", name);
         assert.equal(DEMO_UPLOAD_OPTIONS.schedule.source, "column");
-        await fill(page, "upload-schedule-column", DEMO_UPLOAD_OPTIONS.schedule.source === "column" ? DEMO_UPLOAD_OPTIONS.schedule.column : "input");
+        await fill(
+          page,
+          "upload-schedule-column",
+          DEMO_UPLOAD_OPTIONS.schedule.source === "column" ? DEMO_UPLOAD_OPTIONS.schedule.column : "input",
+        );
         await page.getByTestId("upload-background-preInput").click();
         await page.getByTestId("upload-scale-entered").click();
         await fill(page, "upload-scale-value", String(s.scale?.mode === "entered" ? s.scale.unitsPerMolecule : 1));
@@ -124,7 +141,11 @@ for (const vp of [PHONE, WIDE] as Viewport[]) {
         await fill(page, "upload-hysteresis", String(s.hysteresis));
         await page.getByTestId("upload-preview").click();
         await page.getByTestId("upload-preview-result").waitFor({ timeout: 60_000 });
-        assert.equal(await page.getByTestId("upload-problems").count(), 0, "the problem list is gone after a good preview");
+        assert.equal(
+          await page.getByTestId("upload-problems").count(),
+          0,
+          "the problem list is gone after a good preview",
+        );
         assert.match(await page.getByTestId("preview-cells").innerText(), /\b40\b/);
         await page.getByTestId("chart-preview-canvas").locator("canvas").first().waitFor({ timeout: 60_000 });
         await page.waitForTimeout(300);
@@ -164,13 +185,24 @@ for (const vp of [PHONE, WIDE] as Viewport[]) {
         await page.getByTestId("delete-trace-set").click();
         await page.getByTestId("trace-deleted").waitFor();
         const notice = await page.getByTestId("trace-deleted").boundingBox();
-        assert.ok(notice && notice.y >= 0 && notice.y + notice.height <= vp.height, `the notice with Undo is in view where Delete was pressed (${JSON.stringify(notice)})`);
-        assert.equal((await page.request.get(`${server.url}/api/traces/${setId}`)).status(), 404, "deleted on the server at once");
+        assert.ok(
+          notice && notice.y >= 0 && notice.y + notice.height <= vp.height,
+          `the notice with Undo is in view where Delete was pressed (${JSON.stringify(notice)})`,
+        );
+        assert.equal(
+          (await page.request.get(`${server.url}/api/traces/${setId}`)).status(),
+          404,
+          "deleted on the server at once",
+        );
         await assertAccessible(page, "deleted set with undo");
         await screenshot(page, `traces-${tag}-07-deleted`);
         await page.getByTestId("undo-delete").click();
         await page.getByTestId("trace-deleted").waitFor({ state: "detached" });
-        assert.equal((await page.request.get(`${server.url}/api/traces/${setId}`)).status(), 200, "restored on the server");
+        assert.equal(
+          (await page.request.get(`${server.url}/api/traces/${setId}`)).status(),
+          200,
+          "restored on the server",
+        );
         await page.reload();
         await page.getByTestId("trace-detail-screen").getByText(name).first().waitFor();
         await page.getByTestId("match-panel").waitFor();

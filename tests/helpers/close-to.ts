@@ -15,8 +15,5 @@ export function assertCloseTo(
   if (abs === 0 && rel === 0) throw new Error("assertCloseTo needs abs or rel tolerance");
   const allowed = Math.max(abs, rel * Math.abs(expected));
   const ok = Number.isFinite(actual) ? Math.abs(actual - expected) <= allowed : actual === expected;
-  assert.ok(
-    ok,
-    `${message ? message + ": " : ""}expected ${expected} (+/- ${allowed}), got ${actual}`,
-  );
+  assert.ok(ok, `${message ? message + ": " : ""}expected ${expected} (+/- ${allowed}), got ${actual}`);
 }

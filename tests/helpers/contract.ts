@@ -9,7 +9,10 @@ import type { z } from "zod";
 
 export function assertContract<T>(schema: z.ZodType<T>, body: unknown, what: string): T {
   const r = schema.safeParse(body);
-  if (!r.success) assert.fail(`${what} does not match its shared schema: ${r.error.issues.map((i) => `${i.path.join(".") || "(root)"}: ${i.message}`).join("; ")}`);
+  if (!r.success)
+    assert.fail(
+      `${what} does not match its shared schema: ${r.error.issues.map((i) => `${i.path.join(".") || "(root)"}: ${i.message}`).join("; ")}`,
+    );
   assert.deepEqual(r.data, body, `${what} carries fields its shared schema does not declare`);
   return r.data;
 }

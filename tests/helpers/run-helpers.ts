@@ -4,12 +4,12 @@
  */
 import assert from "node:assert/strict";
 import type { Agent } from "supertest";
-import type { AppContext } from "../../server/context";
-import { createRunQueue, type RunQueue } from "../../server/services/run-queue";
-import { createSimPool } from "../../server/workers/pool";
-import { onRunEnded } from "../../server/services/run-events";
-import { templates } from "../../sim";
-import type { InputProgramInput } from "../../shared/schemas/input-program";
+import type { AppContext } from "@/server/context";
+import { createRunQueue, type RunQueue } from "@/server/compute/run-queue";
+import { createSimPool } from "@/server/compute/pool";
+import { onRunEnded } from "@/server/compute/run-events";
+import { templates } from "@/sim";
+import type { InputProgramInput } from "@/shared/schemas/input-program";
 
 /** A queue factory for makeTestContext({ queue }) with a real worker pool. */
 export function realQueue(threads = 1, opts: { chunkWallMs?: number } = {}) {
@@ -27,14 +27,27 @@ export function realQueue(threads = 1, opts: { chunkWallMs?: number } = {}) {
 /** A short duration ladder: 5 and 60 min pulses, recovery gaps of 150 min. */
 export const shortLadder: InputProgramInput = { kind: "ladder", start: 20, durations: [5, 60], repeats: 1, gap: 150 };
 
-export function launchBody(opts: { template?: keyof typeof templates; replicates?: number; seed?: string; endTimeMinutes?: number; name?: string } = {}) {
+export function launchBody(
+  opts: {
+    template?: keyof typeof templates;
+    replicates?: number;
+    seed?: string;
+    endTimeMinutes?: number;
+    name?: string;
+  } = {},
+) {
   const t = templates[opts.template ?? "c1ffl-and"];
   return {
     name: opts.name ?? `test run ${opts.template ?? "c1ffl-and"}`,
     circuit: t.circuit,
     program: shortLadder,
     inputSignal: t.inputSignal,
-    settings: { endTimeMinutes: opts.endTimeMinutes ?? 450, gridStepMinutes: 1, replicates: opts.replicates ?? 200, seed: opts.seed ?? "test-seed-1" },
+    settings: {
+      endTimeMinutes: opts.endTimeMinutes ?? 450,
+      gridStepMinutes: 1,
+      replicates: opts.replicates ?? 200,
+      seed: opts.seed ?? "test-seed-1",
+    },
   };
 }
 

@@ -17,15 +17,15 @@ import assert from "node:assert/strict";
 import request from "supertest";
 import { asc, eq } from "drizzle-orm";
 import type { Express } from "express";
-import { openDatabase, schema } from "../../db/client";
-import { createApp } from "../../server/app";
-import type { AppContext } from "../../server/context";
-import { parseEnv } from "../../server/env";
-import { APP_VERSION } from "../../server/version";
-import { createMailer, nullMailer, type Mailer } from "../../server/services/mail.service";
-import { createIdleQueue, type RunQueue } from "../../server/services/run-queue";
-import { seedDemo, seedDemoAccounts } from "../../server/services/demo-seed";
-import "../../server/services/demo-content";
+import { openDatabase, schema } from "@/db/client";
+import { createApp } from "@/server/app";
+import type { AppContext } from "@/server/context";
+import { parseEnv } from "@/server/env";
+import { APP_VERSION } from "@/server/version";
+import { createMailer, nullMailer, type Mailer } from "@/server/services/mail.service";
+import { createIdleQueue, type RunQueue } from "@/server/compute/run-queue";
+import { seedDemo, seedDemoAccounts } from "@/server/demo/seed";
+import "@/server/demo/content";
 import { DEMO_PASSWORD } from "./test-server";
 
 export { DEMO_PASSWORD };
@@ -69,8 +69,21 @@ export async function makeTestContext(opts: TestContextOptions = {}): Promise<Te
     ...opts.env,
   } as unknown as NodeJS.ProcessEnv);
   const handle = openDatabase(dbPath);
-  const mailer = opts.mailer === "null" ? nullMailer : opts.mailer && typeof opts.mailer === "object" ? opts.mailer : await createMailer(env, { db: handle.db });
-  const ctx: AppContext = { db: handle.db, sqlite: handle.sqlite, env, version: APP_VERSION, mailer, queue: createIdleQueue(), poolSize: env.poolSize };
+  const mailer =
+    opts.mailer === "null"
+      ? nullMailer
+      : opts.mailer && typeof opts.mailer === "object"
+        ? opts.mailer
+        : await createMailer(env, { db: handle.db });
+  const ctx: AppContext = {
+    db: handle.db,
+    sqlite: handle.sqlite,
+    env,
+    version: APP_VERSION,
+    mailer,
+    queue: createIdleQueue(),
+    poolSize: env.poolSize,
+  };
   if (opts.queue) ctx.queue = await opts.queue(ctx);
   let demoLab: TestApp["demoLab"] = null;
   if (seed === "accounts") demoLab = await seedDemoAccounts(ctx);

@@ -9,12 +9,19 @@ import { describe, test, before, after } from "node:test";
 import assert from "node:assert/strict";
 import request from "supertest";
 import { eq } from "drizzle-orm";
-import { makeTestContext, signIn, tokenFromMail, DEMO_PASSWORD, TEST_BASE_URL, type TestApp } from "../helpers/test-app";
-import { schema } from "../../db/client";
-import { defaultAuthLimiters, resetAuthLimiters, setAuthLimiters } from "../../server/services/rate-limit";
-import { createSiteAdmin } from "../../server/services/auth.service";
-import { assertContract } from "../helpers/contract";
-import { AdminUsersSchema, MeSchema, OkSchema, SignedInSchema } from "../../shared/schemas/api-accounts";
+import {
+  makeTestContext,
+  signIn,
+  tokenFromMail,
+  DEMO_PASSWORD,
+  TEST_BASE_URL,
+  type TestApp,
+} from "@/tests/helpers/test-app";
+import { schema } from "@/db/client";
+import { defaultAuthLimiters, resetAuthLimiters, setAuthLimiters } from "@/server/services/rate-limit";
+import { createSiteAdmin } from "@/server/services/auth.service";
+import { assertContract } from "@/tests/helpers/contract";
+import { AdminUsersSchema, MeSchema, OkSchema, SignedInSchema } from "@/shared/schemas/api-accounts";
 
 const OWNER = "owner@example.org";
 const VIEWER = "viewer@example.org";
@@ -41,12 +48,21 @@ describe("sign-in, session and sign-out", () => {
   });
 
   test("the e-mail is matched case-insensitively", async () => {
-    await request(t.app).post("/api/auth/sign-in").send({ email: "  Owner@Example.ORG ", password: DEMO_PASSWORD }).expect(200);
+    await request(t.app)
+      .post("/api/auth/sign-in")
+      .send({ email: "  Owner@Example.ORG ", password: DEMO_PASSWORD })
+      .expect(200);
   });
 
   test("a wrong password and an unknown e-mail answer the same 401", async () => {
-    const wrong = await request(t.app).post("/api/auth/sign-in").send({ email: OWNER, password: "not-the-password" }).expect(401);
-    const unknown = await request(t.app).post("/api/auth/sign-in").send({ email: "nobody@example.org", password: "whatever-123" }).expect(401);
+    const wrong = await request(t.app)
+      .post("/api/auth/sign-in")
+      .send({ email: OWNER, password: "not-the-password" })
+      .expect(401);
+    const unknown = await request(t.app)
+      .post("/api/auth/sign-in")
+      .send({ email: "nobody@example.org", password: "whatever-123" })
+      .expect(401);
     assert.equal(wrong.body.error.message, unknown.body.error.message);
     assert.equal(wrong.body.error.code, "unauthorized");
     assert.doesNotMatch(wrong.body.error.message, /unknown|no account|not found/i);
@@ -63,7 +79,8 @@ describe("sign-in, session and sign-out", () => {
 
   test("sign-out ends the session (the old cookie no longer works) and clears the cookie", async () => {
     const agent = await signIn(t.app, OWNER);
-    const cookie = (await request(t.app).post("/api/auth/sign-in").send({ email: OWNER, password: DEMO_PASSWORD })).headers["set-cookie"];
+    const cookie = (await request(t.app).post("/api/auth/sign-in").send({ email: OWNER, password: DEMO_PASSWORD }))
+      .headers["set-cookie"];
     const out = await agent.post("/api/auth/sign-out").expect(204);
     assert.match(String(out.headers["set-cookie"]), /linger\.sid=;/);
     await agent.get("/api/me").expect(401);
@@ -78,7 +95,10 @@ describe("sign-in, session and sign-out", () => {
   });
 
   test("the session cookie is HttpOnly and SameSite=Lax, without Secure over plain HTTP", async () => {
-    const r = await request(t.app).post("/api/auth/sign-in").send({ email: OWNER, password: DEMO_PASSWORD }).expect(200);
+    const r = await request(t.app)
+      .post("/api/auth/sign-in")
+      .send({ email: OWNER, password: DEMO_PASSWORD })
+      .expect(200);
     const c = String(r.headers["set-cookie"]);
     assert.match(c, /linger\.sid=/);
     assert.match(c, /HttpOnly/);
@@ -87,12 +107,22 @@ describe("sign-in, session and sign-out", () => {
   });
 
   test("a cross-site Origin or Sec-Fetch-Site gets 403; same-origin passes without a token", async () => {
-    const evil = await request(t.app).post("/api/auth/sign-in").set("Origin", "https://evil.example").send({ email: OWNER, password: DEMO_PASSWORD });
+    const evil = await request(t.app)
+      .post("/api/auth/sign-in")
+      .set("Origin", "https://evil.example")
+      .send({ email: OWNER, password: DEMO_PASSWORD });
     assert.equal(evil.status, 403);
     assert.equal(evil.body.error.code, "cross_site");
-    await request(t.app).post("/api/auth/sign-in").set("Sec-Fetch-Site", "cross-site").send({ email: OWNER, password: DEMO_PASSWORD }).expect(403);
+    await request(t.app)
+      .post("/api/auth/sign-in")
+      .set("Sec-Fetch-Site", "cross-site")
+      .send({ email: OWNER, password: DEMO_PASSWORD })
+      .expect(403);
     const agent = request.agent(t.app);
-    const ok = await agent.post("/api/auth/sign-in").set("Sec-Fetch-Site", "same-origin").send({ email: OWNER, password: DEMO_PASSWORD });
+    const ok = await agent
+      .post("/api/auth/sign-in")
+      .set("Sec-Fetch-Site", "same-origin")
+      .send({ email: OWNER, password: DEMO_PASSWORD });
     assert.equal(ok.status, 200);
     await agent.post("/api/auth/sign-out").set("Host", "linger.test").set("Origin", "http://linger.test").expect(204);
   });
@@ -102,7 +132,11 @@ describe("secure cookies", () => {
   test("with LINGER_SECURE_COOKIES the cookie is Secure (behind an HTTPS proxy on loopback)", async () => {
     const t = await makeTestContext({ env: { LINGER_SECURE_COOKIES: "1" } });
     try {
-      const r = await request(t.app).post("/api/auth/sign-in").set("X-Forwarded-Proto", "https").send({ email: OWNER, password: DEMO_PASSWORD }).expect(200);
+      const r = await request(t.app)
+        .post("/api/auth/sign-in")
+        .set("X-Forwarded-Proto", "https")
+        .send({ email: OWNER, password: DEMO_PASSWORD })
+        .expect(200);
       assert.match(String(r.headers["set-cookie"]), /; Secure/);
     } finally {
       await t.close();
@@ -117,9 +151,19 @@ describe("rate limiting", () => {
 
   test("after 10 failed sign-ins for one address, even the right password gets 429 until the window passes", async () => {
     let now = 1_000_000;
-    setAuthLimiters(t.ctx, defaultAuthLimiters(() => now));
-    for (let i = 0; i < 10; i++) await request(t.app).post("/api/auth/sign-in").send({ email: VIEWER, password: `wrong-${i}-password` }).expect(401);
-    const blocked = await request(t.app).post("/api/auth/sign-in").send({ email: VIEWER, password: DEMO_PASSWORD }).expect(429);
+    setAuthLimiters(
+      t.ctx,
+      defaultAuthLimiters(() => now),
+    );
+    for (let i = 0; i < 10; i++)
+      await request(t.app)
+        .post("/api/auth/sign-in")
+        .send({ email: VIEWER, password: `wrong-${i}-password` })
+        .expect(401);
+    const blocked = await request(t.app)
+      .post("/api/auth/sign-in")
+      .send({ email: VIEWER, password: DEMO_PASSWORD })
+      .expect(429);
     assert.match(blocked.body.error.message, /Too many sign-in attempts.*15 minutes/);
     // Another address from the same client is not blocked (the per-client limit is higher).
     await request(t.app).post("/api/auth/sign-in").send({ email: OWNER, password: DEMO_PASSWORD }).expect(200);
@@ -129,7 +173,8 @@ describe("rate limiting", () => {
 
   test("reset requests are limited per address; resetting the limiters lifts it", async () => {
     resetAuthLimiters(t.ctx);
-    for (let i = 0; i < 5; i++) await request(t.app).post("/api/auth/reset-request").send({ email: "nobody@example.org" }).expect(200);
+    for (let i = 0; i < 5; i++)
+      await request(t.app).post("/api/auth/reset-request").send({ email: "nobody@example.org" }).expect(200);
     await request(t.app).post("/api/auth/reset-request").send({ email: "nobody@example.org" }).expect(429);
     resetAuthLimiters(t.ctx);
     await request(t.app).post("/api/auth/reset-request").send({ email: "nobody@example.org" }).expect(200);
@@ -141,18 +186,33 @@ describe("sign-up", () => {
     const t = await makeTestContext();
     try {
       const agent = request.agent(t.app);
-      const r = await agent.post("/api/auth/sign-up").send({ email: "Ada@Example.org", password: "a-long-password", displayName: "Ada" }).expect(201);
+      const r = await agent
+        .post("/api/auth/sign-up")
+        .send({ email: "Ada@Example.org", password: "a-long-password", displayName: "Ada" })
+        .expect(201);
       assertContract(SignedInSchema, r.body, "POST /api/auth/sign-up");
       assert.equal(r.body.user.email, "ada@example.org");
       assert.equal(r.body.user.isSiteAdmin, false);
       const me = await agent.get("/api/me").expect(200);
-      assert.deepEqual(me.body.labs.map((l: any) => [l.name, l.role]), [["Ada's lab", "owner"]]);
+      assert.deepEqual(
+        me.body.labs.map((l: any) => [l.name, l.role]),
+        [["Ada's lab", "owner"]],
+      );
       // the same address again, in another case
-      const dup = await request(t.app).post("/api/auth/sign-up").send({ email: "ada@example.ORG", password: "another-password", displayName: "Ada 2" }).expect(409);
+      const dup = await request(t.app)
+        .post("/api/auth/sign-up")
+        .send({ email: "ada@example.ORG", password: "another-password", displayName: "Ada 2" })
+        .expect(409);
       assert.equal(dup.body.error.code, "email_taken");
-      const short = await request(t.app).post("/api/auth/sign-up").send({ email: "bo@example.org", password: "short", displayName: "Bo" }).expect(400);
+      const short = await request(t.app)
+        .post("/api/auth/sign-up")
+        .send({ email: "bo@example.org", password: "short", displayName: "Bo" })
+        .expect(400);
       assert.ok(short.body.error.fields.some((f: any) => f.path === "password"));
-      await request(t.app).post("/api/auth/sign-up").send({ email: "not-an-address", password: "a-long-password", displayName: "X" }).expect(400);
+      await request(t.app)
+        .post("/api/auth/sign-up")
+        .send({ email: "not-an-address", password: "a-long-password", displayName: "X" })
+        .expect(400);
     } finally {
       await t.close();
     }
@@ -161,9 +221,15 @@ describe("sign-up", () => {
   test("on an instance without demo data, the first account becomes site admin and the second does not", async () => {
     const t = await makeTestContext({ seed: "none" });
     try {
-      const first = await request(t.app).post("/api/auth/sign-up").send({ email: "first@example.org", password: "first-password", displayName: "First" }).expect(201);
+      const first = await request(t.app)
+        .post("/api/auth/sign-up")
+        .send({ email: "first@example.org", password: "first-password", displayName: "First" })
+        .expect(201);
       assert.equal(first.body.user.isSiteAdmin, true);
-      const second = await request(t.app).post("/api/auth/sign-up").send({ email: "second@example.org", password: "second-password", displayName: "Second" }).expect(201);
+      const second = await request(t.app)
+        .post("/api/auth/sign-up")
+        .send({ email: "second@example.org", password: "second-password", displayName: "Second" })
+        .expect(201);
       assert.equal(second.body.user.isSiteAdmin, false);
     } finally {
       await t.close();
@@ -187,16 +253,29 @@ describe("password reset through the outbox, and change password", () => {
     assert.ok(mail[0].text.includes(`${TEST_BASE_URL}/reset?token=`));
     const token = tokenFromMail(mail[0].text, "/reset");
     // Only the hash is stored.
-    assert.equal(t.ctx.db.select().from(schema.tokens).all().some((row) => row.tokenHash === token), false);
+    assert.equal(
+      t.ctx.db
+        .select()
+        .from(schema.tokens)
+        .all()
+        .some((row) => row.tokenHash === token),
+      false,
+    );
 
     await request(t.app).post("/api/auth/reset-confirm").send({ token, password: "short" }).expect(400);
-    const confirmed = await request(t.app).post("/api/auth/reset-confirm").send({ token, password: "brand-new-password" }).expect(200);
+    const confirmed = await request(t.app)
+      .post("/api/auth/reset-confirm")
+      .send({ token, password: "brand-new-password" })
+      .expect(200);
     assertContract(OkSchema, confirmed.body, "POST /api/auth/reset-confirm");
     await request(t.app).post("/api/auth/sign-in").send({ email: VIEWER, password: DEMO_PASSWORD }).expect(401);
     await signIn(t.app, VIEWER, "brand-new-password");
     await oldSession.get("/api/me").expect(401);
     // One-time.
-    const again = await request(t.app).post("/api/auth/reset-confirm").send({ token, password: "another-new-password" }).expect(400);
+    const again = await request(t.app)
+      .post("/api/auth/reset-confirm")
+      .send({ token, password: "another-new-password" })
+      .expect(400);
     assert.equal(again.body.error.code, "invalid_token");
   });
 
@@ -210,7 +289,11 @@ describe("password reset through the outbox, and change password", () => {
   test("an expired reset link is refused", async () => {
     await request(t.app).post("/api/auth/reset-request").send({ email: OWNER }).expect(200);
     const token = tokenFromMail(t.outbox(OWNER).at(-1)!.text, "/reset");
-    t.ctx.db.update(schema.tokens).set({ expiresAt: new Date(Date.now() - 1000) }).where(eq(schema.tokens.purpose, "reset")).run();
+    t.ctx.db
+      .update(schema.tokens)
+      .set({ expiresAt: new Date(Date.now() - 1000) })
+      .where(eq(schema.tokens.purpose, "reset"))
+      .run();
     await request(t.app).post("/api/auth/reset-confirm").send({ token, password: "brand-new-password" }).expect(400);
     await signIn(t.app, OWNER);
   });
@@ -218,13 +301,22 @@ describe("password reset through the outbox, and change password", () => {
   test("change password needs the current one, keeps this session and ends the others", async () => {
     const other = await signIn(t.app, "editor@example.org");
     const agent = await signIn(t.app, "editor@example.org");
-    await agent.post("/api/auth/change-password").send({ currentPassword: "wrong-password", newPassword: "editor-new-password" }).expect(400);
-    const changed = await agent.post("/api/auth/change-password").send({ currentPassword: DEMO_PASSWORD, newPassword: "editor-new-password" }).expect(200);
+    await agent
+      .post("/api/auth/change-password")
+      .send({ currentPassword: "wrong-password", newPassword: "editor-new-password" })
+      .expect(400);
+    const changed = await agent
+      .post("/api/auth/change-password")
+      .send({ currentPassword: DEMO_PASSWORD, newPassword: "editor-new-password" })
+      .expect(200);
     assertContract(OkSchema, changed.body, "POST /api/auth/change-password");
     await agent.get("/api/me").expect(200);
     await other.get("/api/me").expect(401);
     await signIn(t.app, "editor@example.org", "editor-new-password");
-    await request(t.app).post("/api/auth/change-password").send({ currentPassword: "x", newPassword: "yyyyyyyyyy" }).expect(401);
+    await request(t.app)
+      .post("/api/auth/change-password")
+      .send({ currentPassword: "x", newPassword: "yyyyyyyyyy" })
+      .expect(401);
   });
 
   test("PATCH /api/me changes the display name and the run-notification setting", async () => {
@@ -246,7 +338,10 @@ describe("first site admin by set-up link", () => {
       assert.ok(r.link.startsWith(`${TEST_BASE_URL}/reset?token=`));
       const token = tokenFromMail(r.link, "/reset");
       // no password yet: cannot sign in
-      await request(t.app).post("/api/auth/sign-in").send({ email: "boss@example.org", password: "anything-at-all" }).expect(401);
+      await request(t.app)
+        .post("/api/auth/sign-in")
+        .send({ email: "boss@example.org", password: "anything-at-all" })
+        .expect(401);
       await request(t.app).post("/api/auth/reset-confirm").send({ token, password: "boss-password" }).expect(200);
       const agent = await signIn(t.app, "boss@example.org", "boss-password");
       const me = await agent.get("/api/me").expect(200);

@@ -22,18 +22,18 @@ import { describe, test, before, after } from "node:test";
 import assert from "node:assert/strict";
 import type { AddressInfo } from "node:net";
 import type { Server } from "node:http";
-import { allRoutes } from "../../server/routes";
-import type { Access, LabRole, RouteDef } from "../../server/routes/route-table";
-import { roleAtLeast } from "../../server/routes/route-table";
-import type { ResourceKind } from "../../server/services/access.service";
-import { resourceLab } from "../../server/services/access.service";
-import { schema } from "../../db/client";
-import { newId } from "../../server/ids";
-import { hashPassword } from "../../server/services/password";
-import { CircuitSchema } from "../../shared/schemas/circuit";
-import { InputProgramSchema } from "../../shared/schemas/input-program";
-import { RunSpecSchema } from "../../shared/schemas/run-spec";
-import { makeTestContext, type TestApp } from "../helpers/test-app";
+import { allRoutes } from "@/server/routes";
+import type { Access, LabRole, RouteDef } from "@/server/routes/route-table";
+import { roleAtLeast } from "@/server/routes/route-table";
+import type { ResourceKind } from "@/server/services/access.service";
+import { resourceLab } from "@/server/services/access.service";
+import { schema } from "@/db/client";
+import { newId } from "@/server/ids";
+import { hashPassword } from "@/server/services/password";
+import { CircuitSchema } from "@/shared/schemas/circuit";
+import { InputProgramSchema } from "@/shared/schemas/input-program";
+import { RunSpecSchema } from "@/shared/schemas/run-spec";
+import { makeTestContext, type TestApp } from "@/tests/helpers/test-app";
 
 const PASSWORD = "persona-password";
 const ACCESS_KINDS = new Set<Access["kind"]>(["public", "signedIn", "siteAdmin", "lab", "object"]);
@@ -56,13 +56,26 @@ const circuit = CircuitSchema.parse({
   species: [{ name: "Sensor", initialCount: 0 }],
   signals: [{ name: "Inducer" }],
   reactions: [
-    { name: "make", products: [{ species: "Sensor" }], rate: { kind: "constant", ratePerMinute: 1 }, scaledBy: "Inducer" },
+    {
+      name: "make",
+      products: [{ species: "Sensor" }],
+      rate: { kind: "constant", ratePerMinute: 1 },
+      scaledBy: "Inducer",
+    },
     { name: "decay", reactants: [{ species: "Sensor" }], rate: { kind: "massAction", ratePerMinute: 0.1 } },
   ],
   outputSpecies: "Sensor",
 });
 const program = InputProgramSchema.parse({ kind: "periodic", start: 10, onDuration: 20, offDuration: 40, count: 2 });
-const spec = RunSpecSchema.parse({ circuit, program, inputSignal: "Inducer", endTimeMinutes: 100, gridStepMinutes: 1, replicates: 2, seed: "fixture" });
+const spec = RunSpecSchema.parse({
+  circuit,
+  program,
+  inputSignal: "Inducer",
+  endTimeMinutes: 100,
+  gridStepMinutes: 1,
+  replicates: 2,
+  seed: "fixture",
+});
 
 type Fixture = Record<ResourceKind, string>;
 
@@ -75,14 +88,23 @@ const BUILDERS: Record<string, (t: TestApp, labId: string, made: Partial<Fixture
   circuit: (t, labId, _m, who) => {
     const id = newId("cir_");
     const now = new Date();
-    t.ctx.db.insert(schema.circuits).values({ id, labId, name: "Fixture circuit", currentVersion: 1, createdBy: who, createdAt: now, updatedAt: now }).run();
-    t.ctx.db.insert(schema.circuitVersions).values({ circuitId: id, version: 1, body: circuit, createdBy: who, createdAt: now }).run();
+    t.ctx.db
+      .insert(schema.circuits)
+      .values({ id, labId, name: "Fixture circuit", currentVersion: 1, createdBy: who, createdAt: now, updatedAt: now })
+      .run();
+    t.ctx.db
+      .insert(schema.circuitVersions)
+      .values({ circuitId: id, version: 1, body: circuit, createdBy: who, createdAt: now })
+      .run();
     return id;
   },
   program: (t, labId, _m, who) => {
     const id = newId("prg_");
     const now = new Date();
-    t.ctx.db.insert(schema.inputPrograms).values({ id, labId, name: "Fixture program", body: program, createdBy: who, createdAt: now, updatedAt: now }).run();
+    t.ctx.db
+      .insert(schema.inputPrograms)
+      .values({ id, labId, name: "Fixture program", body: program, createdBy: who, createdAt: now, updatedAt: now })
+      .run();
     return id;
   },
   run: (t, labId, made, who) => {
@@ -91,9 +113,23 @@ const BUILDERS: Record<string, (t: TestApp, labId: string, made: Partial<Fixture
     t.ctx.db
       .insert(schema.runs)
       .values({
-        id, labId, name: "Fixture run", status: "finished", spec, seed: spec.seed, replicates: spec.replicates, chunkSize: spec.replicates,
-        engineVersion: "fixture", circuitId: made.circuit ?? null, circuitVersion: 1, programId: made.program ?? null,
-        replicatesDone: spec.replicates, createdBy: who, createdAt: now, startedAt: now, finishedAt: now,
+        id,
+        labId,
+        name: "Fixture run",
+        status: "finished",
+        spec,
+        seed: spec.seed,
+        replicates: spec.replicates,
+        chunkSize: spec.replicates,
+        engineVersion: "fixture",
+        circuitId: made.circuit ?? null,
+        circuitVersion: 1,
+        programId: made.program ?? null,
+        replicatesDone: spec.replicates,
+        createdBy: who,
+        createdAt: now,
+        startedAt: now,
+        finishedAt: now,
       })
       .run();
     return id;
@@ -102,7 +138,18 @@ const BUILDERS: Record<string, (t: TestApp, labId: string, made: Partial<Fixture
     const id = newId("swp_");
     t.ctx.db
       .insert(schema.sweeps)
-      .values({ id, labId, name: "Fixture sweep", baseSpec: spec, axes: [{ parameter: "rate(make)", values: [1, 2] }], status: "finished", pointCount: 2, createdBy: who, createdAt: new Date(), finishedAt: new Date() })
+      .values({
+        id,
+        labId,
+        name: "Fixture sweep",
+        baseSpec: spec,
+        axes: [{ parameter: "rate(make)", values: [1, 2] }],
+        status: "finished",
+        pointCount: 2,
+        createdBy: who,
+        createdAt: new Date(),
+        finishedAt: new Date(),
+      })
       .run();
     return id;
   },
@@ -110,7 +157,19 @@ const BUILDERS: Record<string, (t: TestApp, labId: string, made: Partial<Fixture
     const id = newId("trs_");
     t.ctx.db
       .insert(schema.traceSets)
-      .values({ id, labId, name: "Fixture traces", synthetic: true, layout: "long", timeUnit: "min", schedule: [{ on: 10, off: 30 }], settings: {}, cellCount: 0, uploadedBy: who, createdAt: new Date() })
+      .values({
+        id,
+        labId,
+        name: "Fixture traces",
+        synthetic: true,
+        layout: "long",
+        timeUnit: "min",
+        schedule: [{ on: 10, off: 30 }],
+        settings: {},
+        cellCount: 0,
+        uploadedBy: who,
+        createdAt: new Date(),
+      })
       .run();
     return id;
   },
@@ -118,7 +177,16 @@ const BUILDERS: Record<string, (t: TestApp, labId: string, made: Partial<Fixture
     const id = newId("mat_");
     t.ctx.db
       .insert(schema.matches)
-      .values({ id, labId, traceSetId: made.traceSet!, runId: made.run ?? null, tolerance: 0.1, result: {}, createdBy: who, createdAt: new Date() })
+      .values({
+        id,
+        labId,
+        traceSetId: made.traceSet!,
+        runId: made.run ?? null,
+        tolerance: 0.1,
+        result: {},
+        createdBy: who,
+        createdAt: new Date(),
+      })
       .run();
     return id;
   },
@@ -137,7 +205,9 @@ function buildLab(t: TestApp, personas: Persona[]): { labId: string; objects: Pa
   const labId = newId("lab_");
   const now = new Date();
   t.ctx.db.insert(schema.labs).values({ id: labId, name: "Fixture lab", createdAt: now }).run();
-  for (const p of personas) if (p.role) t.ctx.db.insert(schema.memberships).values({ labId, userId: p.userId, role: p.role, createdAt: now }).run();
+  for (const p of personas)
+    if (p.role)
+      t.ctx.db.insert(schema.memberships).values({ labId, userId: p.userId, role: p.role, createdAt: now }).run();
   const owner = personas.find((p) => p.role === "owner")!.userId;
   const objects: Partial<Fixture> = {};
   for (const kind of BUILD_ORDER) objects[kind as ResourceKind] = BUILDERS[kind](t, labId, objects, owner);
@@ -146,14 +216,23 @@ function buildLab(t: TestApp, personas: Persona[]): { labId: string; objects: Pa
 
 // ---------------------------------------------------------------- requests
 
-function fillPath(route: RouteDef, labId: string, objects: Partial<Fixture>, persona: Persona, ownerId: string): string {
+function fillPath(
+  route: RouteDef,
+  labId: string,
+  objects: Partial<Fixture>,
+  persona: Persona,
+  ownerId: string,
+): string {
   let path = route.path.replace(/[{}]/g, "");
   path = path.replace(/[:*]([A-Za-z_][A-Za-z0-9_]*)/g, (_m, name: string) => {
     if (name === "labId") return labId;
     if (name === "id") {
       if (route.access.kind === "object") {
         const id = objects[route.access.resource];
-        if (!id) throw new Error(`${route.method.toUpperCase()} ${route.path}: no fixture for resource kind "${route.access.resource}"`);
+        if (!id)
+          throw new Error(
+            `${route.method.toUpperCase()} ${route.path}: no fixture for resource kind "${route.access.resource}"`,
+          );
         return id;
       }
       return "fixture-id";
@@ -176,8 +255,24 @@ const MALFORMED_BODIES = [
   "[]",
   '"text"',
   "null",
-  JSON.stringify({ name: 123, notes: [], settings: "x", circuit: [], program: null, bundle: 5, body: { reactions: [null] }, axes: [{}], runIds: "a", email: {}, role: "emperor" }),
-  JSON.stringify({ name: "x".repeat(5000), settings: { replicates: 1e12, endTimeMinutes: -1, gridStepMinutes: 0 }, circuit: { species: [{ name: "1bad" }] } }),
+  JSON.stringify({
+    name: 123,
+    notes: [],
+    settings: "x",
+    circuit: [],
+    program: null,
+    bundle: 5,
+    body: { reactions: [null] },
+    axes: [{}],
+    runIds: "a",
+    email: {},
+    role: "emperor",
+  }),
+  JSON.stringify({
+    name: "x".repeat(5000),
+    settings: { replicates: 1e12, endTimeMinutes: -1, gridStepMinutes: 0 },
+    circuit: { species: [{ name: "1bad" }] },
+  }),
 ];
 
 async function call(base: string, method: string, path: string, cookie: string, rawBody = "{}"): Promise<Answer> {
@@ -206,7 +301,11 @@ async function call(base: string, method: string, path: string, cookie: string, 
 }
 
 async function signInCookie(base: string, email: string): Promise<string> {
-  const res = await fetch(`${base}/api/auth/sign-in`, { method: "POST", headers: { "Content-Type": "application/json" }, body: JSON.stringify({ email, password: PASSWORD }) });
+  const res = await fetch(`${base}/api/auth/sign-in`, {
+    method: "POST",
+    headers: { "Content-Type": "application/json" },
+    body: JSON.stringify({ email, password: PASSWORD }),
+  });
   assert.equal(res.status, 200, `sign-in as ${email}`);
   const set = res.headers.getSetCookie().find((c) => c.startsWith("linger.sid="));
   assert.ok(set, "session cookie");
@@ -234,7 +333,13 @@ function accessNotFoundMessage(access: Access): string {
 function isAccessDenial(access: Access, a: Answer): boolean {
   if (a.status === 401) return true;
   if (a.status === 403 && (a.code === "forbidden" || a.code === "cross_site")) return true;
-  if (a.status === 404 && a.code === "not_found" && access.kind !== "public" && a.message === accessNotFoundMessage(access)) return true;
+  if (
+    a.status === 404 &&
+    a.code === "not_found" &&
+    access.kind !== "public" &&
+    a.message === accessNotFoundMessage(access)
+  )
+    return true;
   return false;
 }
 
@@ -254,17 +359,39 @@ describe("authorization of every API route (generated from the route table)", ()
     const hash = await hashPassword(PASSWORD);
     const now = new Date();
     const make = (name: PersonaName, role: LabRole | null, isSiteAdmin = false): Persona => {
-      if (name === "anonymous") return { name, email: null, userId: "usr_anonymous", role: null, isSiteAdmin: false, cookie: "" };
+      if (name === "anonymous")
+        return { name, email: null, userId: "usr_anonymous", role: null, isSiteAdmin: false, cookie: "" };
       const id = newId("usr_");
       const email = `${name.toLowerCase()}@authz.example.org`;
-      t.ctx.db.insert(schema.users).values({ id, email, displayName: name, passwordHash: hash, isSiteAdmin, notifyOnRunEnd: false, createdAt: now }).run();
+      t.ctx.db
+        .insert(schema.users)
+        .values({
+          id,
+          email,
+          displayName: name,
+          passwordHash: hash,
+          isSiteAdmin,
+          notifyOnRunEnd: false,
+          createdAt: now,
+        })
+        .run();
       return { name, email, userId: id, role, isSiteAdmin, cookie: "" };
     };
-    personas.push(make("anonymous", null), make("otherLab", null), make("viewer", "viewer"), make("editor", "editor"), make("owner", "owner"), make("siteAdmin", null, true));
+    personas.push(
+      make("anonymous", null),
+      make("otherLab", null),
+      make("viewer", "viewer"),
+      make("editor", "editor"),
+      make("owner", "owner"),
+      make("siteAdmin", null, true),
+    );
     // Lab B, where the other-lab persona is the owner (with objects of its own).
     const labB = newId("lab_");
     t.ctx.db.insert(schema.labs).values({ id: labB, name: "Lab B", createdAt: now }).run();
-    t.ctx.db.insert(schema.memberships).values({ labId: labB, userId: personas[1].userId, role: "owner", createdAt: now }).run();
+    t.ctx.db
+      .insert(schema.memberships)
+      .values({ labId: labB, userId: personas[1].userId, role: "owner", createdAt: now })
+      .run();
     for (const p of personas) if (p.email) p.cookie = await signInCookie(base, p.email);
   });
 
@@ -282,24 +409,41 @@ describe("authorization of every API route (generated from the route table)", ()
       assert.ok(!seen.has(key), `${key} is declared twice`);
       seen.add(key);
       if (r.access.kind === "lab") assert.match(r.path, /:labId\b/, `${key}: lab access needs a :labId path parameter`);
-      if (r.access.kind === "object") assert.match(r.path, /:id\b/, `${key}: object access needs an :id path parameter`);
+      if (r.access.kind === "object")
+        assert.match(r.path, /:id\b/, `${key}: object access needs an :id path parameter`);
     }
     assert.ok(allRoutes.length >= 20, "the route table looks incomplete");
   });
 
   test("every resource kind used by a route has a fixture builder, and resourceLab finds it", () => {
     const missing = resourceKindsUsed().filter((k) => !BUILDERS[k]);
-    assert.deepEqual(missing, [], `no fixture builder for resource kind(s) ${missing.join(", ")}: add one to BUILDERS in this file`);
+    assert.deepEqual(
+      missing,
+      [],
+      `no fixture builder for resource kind(s) ${missing.join(", ")}: add one to BUILDERS in this file`,
+    );
     const { labId, objects } = buildLab(t, personas);
-    for (const kind of BUILD_ORDER) assert.equal(resourceLab(t.ctx, kind as ResourceKind, objects[kind as ResourceKind]!), labId, `resourceLab(${kind})`);
+    for (const kind of BUILD_ORDER)
+      assert.equal(
+        resourceLab(t.ctx, kind as ResourceKind, objects[kind as ResourceKind]!),
+        labId,
+        `resourceLab(${kind})`,
+      );
   });
 
   for (const route of allRoutes) {
     const key = `${route.method.toUpperCase()} /api${route.path}`;
     const access = route.access;
-    const rule = access.kind === "lab" || access.kind === "object" ? `${access.kind}${access.kind === "object" ? `(${access.resource})` : ""} >= ${access.role}` : access.kind;
+    const rule =
+      access.kind === "lab" || access.kind === "object"
+        ? `${access.kind}${access.kind === "object" ? `(${access.resource})` : ""} >= ${access.role}`
+        : access.kind;
     test(`${key} [${rule}]`, async () => {
-      if (access.kind === "object") assert.ok(BUILDERS[access.resource], `${key}: the test cannot build a "${access.resource}" object; add a builder`);
+      if (access.kind === "object")
+        assert.ok(
+          BUILDERS[access.resource],
+          `${key}: the test cannot build a "${access.resource}" object; add a builder`,
+        );
       const problems: string[] = [];
       for (const p of personas) {
         const { labId, objects } = buildLab(t, personas);
@@ -313,18 +457,30 @@ describe("authorization of every API route (generated from the route table)", ()
         } else if (want.kind === "deny") {
           const ok =
             a.status === want.status &&
-            (want.status === 401 ? a.code === "unauthorized" : want.status === 403 ? a.code === "forbidden" : a.message === accessNotFoundMessage(access));
+            (want.status === 401
+              ? a.code === "unauthorized"
+              : want.status === 403
+                ? a.code === "forbidden"
+                : a.message === accessNotFoundMessage(access));
           if (!ok) problems.push(`${p.name}: expected access denial ${want.status}, got ${got}`);
         } else {
           if (isAccessDenial(access, a)) problems.push(`${p.name}: expected access, got denial ${got}`);
           if (a.status >= 500) problems.push(`${p.name}: an empty body got a server error ${got}`);
           // Wrong-shaped bodies: a clear 4xx, never a 5xx (checked once per route, by the most privileged persona allowed).
-          const probe = route.method !== "get" && (p.name === "owner" || (p.name === "siteAdmin" && access.kind === "siteAdmin"));
+          const probe =
+            route.method !== "get" && (p.name === "owner" || (p.name === "siteAdmin" && access.kind === "siteAdmin"));
           if (probe) {
             for (const raw of MALFORMED_BODIES) {
               const fresh = buildLab(t, personas);
-              const b = await call(base, route.method.toUpperCase(), fillPath(route, fresh.labId, fresh.objects, p, ownerId), p.cookie, raw);
-              if (b.status >= 500) problems.push(`${p.name}: body ${raw.slice(0, 60)} got a server error ${b.status} ${b.message ?? ""}`);
+              const b = await call(
+                base,
+                route.method.toUpperCase(),
+                fillPath(route, fresh.labId, fresh.objects, p, ownerId),
+                p.cookie,
+                raw,
+              );
+              if (b.status >= 500)
+                problems.push(`${p.name}: body ${raw.slice(0, 60)} got a server error ${b.status} ${b.message ?? ""}`);
             }
           }
         }

@@ -1,10 +1,10 @@
 import { test } from "node:test";
 import assert from "node:assert/strict";
-import { makeTestContext, signIn } from "../helpers/test-app";
-import { launchBody, realQueue, waitForRun } from "../helpers/run-helpers";
-import { schema } from "../../db/client";
+import { makeTestContext, signIn } from "@/tests/helpers/test-app";
+import { launchBody, realQueue, waitForRun } from "@/tests/helpers/run-helpers";
+import { schema } from "@/db/client";
 import { eq } from "drizzle-orm";
-import { RunDetailSchema } from "../../shared/schemas/api-runs";
+import { RunDetailSchema } from "@/shared/schemas/api-runs";
 
 test("bundle export, import into another lab and verified reproduction", async () => {
   const t = await makeTestContext({ queue: realQueue(1) });
@@ -46,7 +46,11 @@ test("bundle export, import into another lab and verified reproduction", async (
     assert.match(differs.reproduction.message, /linger-engine 0\.9\.0/);
 
     // Re-running inside the lab reports the first difference when there is one.
-    t.ctx.db.update(schema.runs).set({ expectedStatsHash: "0".repeat(64) }).where(eq(schema.runs.id, r.body.id)).run();
+    t.ctx.db
+      .update(schema.runs)
+      .set({ expectedStatsHash: "0".repeat(64) })
+      .where(eq(schema.runs.id, r.body.id))
+      .run();
     const again = await editor.post(`/api/runs/${r.body.id}/reproduce`);
     assert.equal(again.status, 201);
     const rerun = await waitForRun(editor, again.body.id);
@@ -54,12 +58,19 @@ test("bundle export, import into another lab and verified reproduction", async (
 
     // Bad bundles get a 400 naming the field; nothing is stored.
     const before = t.ctx.db.select().from(schema.runs).all().length;
-    const bad = await other.post(`/api/labs/${lab2.body.lab.id}/bundles/import`).send({ bundle: { ...bundle, format: "something-else" } });
+    const bad = await other
+      .post(`/api/labs/${lab2.body.lab.id}/bundles/import`)
+      .send({ bundle: { ...bundle, format: "something-else" } });
     assert.equal(bad.status, 400);
     assert.match(bad.body.error.message, /format/);
-    const bad2 = await other.post(`/api/labs/${lab2.body.lab.id}/bundles/import`).send({ bundle: { ...bundle, spec: { ...bundle.spec, replicates: -1 } } });
+    const bad2 = await other
+      .post(`/api/labs/${lab2.body.lab.id}/bundles/import`)
+      .send({ bundle: { ...bundle, spec: { ...bundle.spec, replicates: -1 } } });
     assert.equal(bad2.status, 400);
-    assert.ok(bad2.body.error.fields.some((f: any) => f.path === "spec.replicates"), JSON.stringify(bad2.body.error));
+    assert.ok(
+      bad2.body.error.fields.some((f: any) => f.path === "spec.replicates"),
+      JSON.stringify(bad2.body.error),
+    );
     assert.equal(t.ctx.db.select().from(schema.runs).all().length, before);
   } finally {
     await t.close();

@@ -10,16 +10,12 @@ import { test, describe, before, after } from "node:test";
 import assert from "node:assert/strict";
 import request from "supertest";
 import { and, eq } from "drizzle-orm";
-import { makeTestContext, signIn, type TestApp } from "../helpers/test-app";
-import { schema } from "../../db/client";
-import { seedDemo } from "../../server/services/demo-seed";
-import {
-  DEMO_CIRCUIT_KEYS,
-  DEMO_PROGRAM_KEYS,
-  seedDemoCircuitsAndPrograms,
-} from "../../server/services/demo-circuits";
-import { feedForwardType, findFeedForwardLoops, wiringOf } from "../../server/services/feed-forward";
-import { templates } from "../../sim";
+import { makeTestContext, signIn, type TestApp } from "@/tests/helpers/test-app";
+import { schema } from "@/db/client";
+import { seedDemo } from "@/server/demo/seed";
+import { DEMO_CIRCUIT_KEYS, DEMO_PROGRAM_KEYS, seedDemoCircuitsAndPrograms } from "@/server/demo/circuits";
+import { feedForwardType, findFeedForwardLoops, wiringOf } from "@/sim/circuit/feed-forward";
+import { templates } from "@/sim";
 import {
   CheckCircuitResponseSchema,
   CircuitDetailResponseSchema,
@@ -27,9 +23,9 @@ import {
   CircuitSummarySchema,
   CircuitVersionResponseSchema,
   TemplatesResponseSchema,
-} from "../../shared/schemas/api-circuits";
-import { ApiErrorSchema } from "../../shared/schemas/errors";
-import type { CircuitInput } from "../../shared/schemas/circuit";
+} from "@/shared/schemas/api-circuits";
+import { ApiErrorSchema } from "@/shared/schemas/errors";
+import type { CircuitInput } from "@/shared/schemas/circuit";
 
 type Agent = Awaited<ReturnType<typeof signIn>>;
 
@@ -67,7 +63,11 @@ function scratchCircuit(): CircuitInput {
       {
         name: "makeZ",
         products: [{ species: "Z" }],
-        rate: { kind: "regulated", maxRatePerMinute: 8, regulators: [{ source: "X", effect: "activates", halfMax: 20, hill: 2 }] },
+        rate: {
+          kind: "regulated",
+          maxRatePerMinute: 8,
+          regulators: [{ source: "X", effect: "activates", halfMax: 20, hill: 2 }],
+        },
       },
       { name: "degZ", reactants: [{ species: "Z" }], rate: { kind: "massAction", ratePerMinute: 0.2 } },
     ],
@@ -89,7 +89,10 @@ describe("templates", () => {
   test("signed-in users get the four templates with titles, descriptions and bodies", async () => {
     const r = await viewer.get("/api/templates").expect(200);
     const { templates: list } = TemplatesResponseSchema.parse(r.body);
-    assert.deepEqual(list.map((x) => x.key), ["simple", "c1ffl-and", "c1ffl-or", "i1ffl"]);
+    assert.deepEqual(
+      list.map((x) => x.key),
+      ["simple", "c1ffl-and", "c1ffl-or", "i1ffl"],
+    );
     for (const x of list) {
       assert.ok(x.title.length > 0 && x.description.length > 0);
       assert.ok(x.circuit.signals.some((s) => s.name === x.inputSignal));
@@ -146,7 +149,12 @@ describe("feed-forward sign type", () => {
   test("the detail gives the wiring edges for the diagram", async () => {
     const d = await createFromTemplate("Wiring check", "i1ffl");
     const edges = d.wiring.edges.map((e) => `${e.from}->${e.to}:${e.sign}`).sort();
-    assert.deepEqual(edges, ["Q->qsaA:activates", "hldB->rptC:represses", "qsaA->hldB:activates", "qsaA->rptC:activates"]);
+    assert.deepEqual(edges, [
+      "Q->qsaA:activates",
+      "hldB->rptC:represses",
+      "qsaA->hldB:activates",
+      "qsaA->rptC:activates",
+    ]);
     assert.equal(d.feedForward?.label, "incoherent type 1");
     assert.ok(d.wiring.nodes.find((n) => n.name === "rptC")?.isOutput);
     assert.equal(d.wiring.nodes.find((n) => n.name === "Q")?.kind, "signal");
@@ -159,7 +167,13 @@ describe("feed-forward sign type", () => {
       reactants: [],
       products: [{ species: "rptC", count: 1 }],
       modifiers: [],
-      rate: { kind: "regulated", maxRatePerMinute: 1, logic: "and", leakFraction: 0, regulators: [{ source: "hldB", effect: "represses", halfMax: 10, hill: 1 }] },
+      rate: {
+        kind: "regulated",
+        maxRatePerMinute: 1,
+        logic: "and",
+        leakFraction: 0,
+        regulators: [{ source: "hldB", effect: "represses", halfMax: 10, hill: 1 }],
+      },
     });
     assert.deepEqual(findFeedForwardLoops(c), []);
     assert.equal(wiringOf(c).edges.filter((e) => e.from === "hldB" && e.to === "rptC").length, 2);
@@ -181,7 +195,10 @@ describe("create", () => {
   });
 
   test("from scratch", async () => {
-    const r = await editor.post(`/api/labs/${lab}/circuits`).send({ name: "Scratch one", body: scratchCircuit(), note: "first draft" }).expect(201);
+    const r = await editor
+      .post(`/api/labs/${lab}/circuits`)
+      .send({ name: "Scratch one", body: scratchCircuit(), note: "first draft" })
+      .expect(201);
     const d = CircuitDetailResponseSchema.parse(r.body);
     assert.equal(d.body.name, "Scratch one");
     assert.equal(d.body.reactions.length, 4);
@@ -194,7 +211,10 @@ describe("create", () => {
   test("an audit event is recorded", async () => {
     const d = await createFromTemplate("Audited circuit", "simple");
     const rows = t.ctx.db.select().from(schema.auditEvents).where(eq(schema.auditEvents.targetId, d.circuit.id)).all();
-    assert.deepEqual(rows.map((r) => r.action), ["circuit.created"]);
+    assert.deepEqual(
+      rows.map((r) => r.action),
+      ["circuit.created"],
+    );
   });
 
   test("neither body nor template: 400 naming body", async () => {
@@ -217,7 +237,10 @@ describe("create", () => {
     body.reactions[3].reactants[0].species = "Nope";
     const r = await editor.post(`/api/labs/${lab}/circuits`).send({ name: "Bad species", body }).expect(400);
     const fields = fieldsOf(r.body);
-    assert.ok(fields.some((x) => x.path.startsWith("body.reactions.3") && /Nope/.test(x.message)), JSON.stringify(fields));
+    assert.ok(
+      fields.some((x) => x.path.startsWith("body.reactions.3") && /Nope/.test(x.message)),
+      JSON.stringify(fields),
+    );
   });
 
   test("an unknown template key: 400 naming template", async () => {
@@ -227,7 +250,10 @@ describe("create", () => {
 
   test("names are unique per lab among active circuits (case-insensitive): 409", async () => {
     await createFromTemplate("Unique name");
-    const r = await editor.post(`/api/labs/${lab}/circuits`).send({ name: "unique NAME", template: "simple" }).expect(409);
+    const r = await editor
+      .post(`/api/labs/${lab}/circuits`)
+      .send({ name: "unique NAME", template: "simple" })
+      .expect(409);
     assert.equal(r.body.error.code, "name_taken");
     assert.match(r.body.error.message, /already has a circuit named/);
   });
@@ -240,7 +266,10 @@ describe("check (live validation)", () => {
     let r = await viewer.post(`/api/labs/${lab}/circuits/check`).send({ body: bad }).expect(200);
     let c = CheckCircuitResponseSchema.parse(r.body);
     assert.equal(c.ok, false);
-    assert.ok(c.errors.some((e) => e.path === "body.reactions.1.rate.ratePerMinute" && /degX/.test(e.message)), JSON.stringify(c.errors));
+    assert.ok(
+      c.errors.some((e) => e.path === "body.reactions.1.rate.ratePerMinute" && /degX/.test(e.message)),
+      JSON.stringify(c.errors),
+    );
 
     r = await viewer.post(`/api/labs/${lab}/circuits/check`).send({ body: templates.i1ffl.circuit }).expect(200);
     c = CheckCircuitResponseSchema.parse(r.body);
@@ -253,7 +282,10 @@ describe("check (live validation)", () => {
     const r = await viewer.post(`/api/labs/${lab}/circuits/check`).send({ body: bad }).expect(200);
     const c = CheckCircuitResponseSchema.parse(r.body);
     assert.equal(c.ok, false);
-    assert.ok(c.errors.some((e) => e.path === "body.outputSpecies"), JSON.stringify(c.errors));
+    assert.ok(
+      c.errors.some((e) => e.path === "body.outputSpecies"),
+      JSON.stringify(c.errors),
+    );
   });
 });
 
@@ -262,18 +294,38 @@ describe("versions", () => {
     const d1 = await createFromTemplate("Versioned");
     const body = structuredClone(d1.body);
     body.reactions.find((r) => r.name === "degZ")!.rate = { kind: "massAction", ratePerMinute: 0.2 };
-    const r = await editor.put(`/api/circuits/${d1.circuit.id}`).send({ body, note: "faster reporter decay", baseVersion: 1 }).expect(200);
+    const r = await editor
+      .put(`/api/circuits/${d1.circuit.id}`)
+      .send({ body, note: "faster reporter decay", baseVersion: 1 })
+      .expect(200);
     const d2 = CircuitDetailResponseSchema.parse(r.body);
     assert.equal(d2.circuit.currentVersion, 2);
-    assert.deepEqual(d2.versions.map((v) => [v.version, v.note]), [[2, "faster reporter decay"], [1, d1.versions[0].note]]);
-    assert.deepEqual(d2.body.reactions.find((x) => x.name === "degZ")!.rate, { kind: "massAction", ratePerMinute: 0.2 });
+    assert.deepEqual(
+      d2.versions.map((v) => [v.version, v.note]),
+      [
+        [2, "faster reporter decay"],
+        [1, d1.versions[0].note],
+      ],
+    );
+    assert.deepEqual(d2.body.reactions.find((x) => x.name === "degZ")!.rate, {
+      kind: "massAction",
+      ratePerMinute: 0.2,
+    });
 
-    const v1 = CircuitVersionResponseSchema.parse((await viewer.get(`/api/circuits/${d1.circuit.id}/versions/1`).expect(200)).body);
+    const v1 = CircuitVersionResponseSchema.parse(
+      (await viewer.get(`/api/circuits/${d1.circuit.id}/versions/1`).expect(200)).body,
+    );
     assert.deepEqual(v1.body, d1.body);
     assert.equal(v1.isCurrent, false);
-    const v2 = CircuitVersionResponseSchema.parse((await viewer.get(`/api/circuits/${d1.circuit.id}/versions/2`).expect(200)).body);
+    const v2 = CircuitVersionResponseSchema.parse(
+      (await viewer.get(`/api/circuits/${d1.circuit.id}/versions/2`).expect(200)).body,
+    );
     assert.equal(v2.isCurrent, true);
-    const rows = t.ctx.db.select().from(schema.circuitVersions).where(eq(schema.circuitVersions.circuitId, d1.circuit.id)).all();
+    const rows = t.ctx.db
+      .select()
+      .from(schema.circuitVersions)
+      .where(eq(schema.circuitVersions.circuitId, d1.circuit.id))
+      .all();
     assert.equal(rows.length, 2);
   });
 
@@ -291,14 +343,20 @@ describe("versions", () => {
     const body = structuredClone(d1.body) as any;
     body.reactions[4].rate.leakFraction = 2;
     const r = await editor.put(`/api/circuits/${d1.circuit.id}`).send({ body }).expect(400);
-    assert.ok(fieldsOf(r.body).some((f) => f.path === "body.reactions.4.rate.leakFraction" && /makeZ/.test(f.message)), JSON.stringify(r.body));
+    assert.ok(
+      fieldsOf(r.body).some((f) => f.path === "body.reactions.4.rate.leakFraction" && /makeZ/.test(f.message)),
+      JSON.stringify(r.body),
+    );
     const d = CircuitDetailResponseSchema.parse((await viewer.get(`/api/circuits/${d1.circuit.id}`).expect(200)).body);
     assert.equal(d.circuit.currentVersion, 1);
   });
 
   test("PUT may rename; a missing version is 404, a malformed one 400", async () => {
     const d1 = await createFromTemplate("Before rename");
-    const r = await editor.put(`/api/circuits/${d1.circuit.id}`).send({ body: d1.body, name: "After rename" }).expect(200);
+    const r = await editor
+      .put(`/api/circuits/${d1.circuit.id}`)
+      .send({ body: d1.body, name: "After rename" })
+      .expect(200);
     const d = CircuitDetailResponseSchema.parse(r.body);
     assert.equal(d.circuit.name, "After rename");
     assert.equal(d.body.name, "After rename");
@@ -316,9 +374,13 @@ describe("duplicate and archive", () => {
     assert.equal(copy.circuit.name, "Original (copy)");
     assert.equal(copy.circuit.currentVersion, 1);
     assert.deepEqual({ ...copy.body, name: "" }, { ...d1.body, name: "" });
-    const again = CircuitDetailResponseSchema.parse((await editor.post(`/api/circuits/${d1.circuit.id}/duplicate`).send({}).expect(201)).body);
+    const again = CircuitDetailResponseSchema.parse(
+      (await editor.post(`/api/circuits/${d1.circuit.id}/duplicate`).send({}).expect(201)).body,
+    );
     assert.equal(again.circuit.name, "Original (copy 2)");
-    const named = CircuitDetailResponseSchema.parse((await editor.post(`/api/circuits/${d1.circuit.id}/duplicate`).send({ name: "Variant B" }).expect(201)).body);
+    const named = CircuitDetailResponseSchema.parse(
+      (await editor.post(`/api/circuits/${d1.circuit.id}/duplicate`).send({ name: "Variant B" }).expect(201)).body,
+    );
     assert.equal(named.circuit.name, "Variant B");
   });
 
@@ -334,7 +396,9 @@ describe("duplicate and archive", () => {
     await viewer.get(`/api/circuits/${d.circuit.id}`).expect(200);
     const r = await editor.put(`/api/circuits/${d.circuit.id}`).send({ body: d.body }).expect(409);
     assert.equal(r.body.error.code, "archived");
-    const u = CircuitSummarySchema.parse((await editor.post(`/api/circuits/${d.circuit.id}/unarchive`).expect(200)).body);
+    const u = CircuitSummarySchema.parse(
+      (await editor.post(`/api/circuits/${d.circuit.id}/unarchive`).expect(200)).body,
+    );
     assert.equal(u.archivedAt, null);
   });
 
@@ -365,7 +429,10 @@ describe("access", () => {
     const created = await viewer.post("/api/labs").send({ name: "Viewer's own lab" }).expect(201);
     const otherLab = created.body.lab.id as string;
     // the viewer owns this lab, so may create there
-    const r = await viewer.post(`/api/labs/${otherLab}/circuits`).send({ name: "Private", template: "simple" }).expect(201);
+    const r = await viewer
+      .post(`/api/labs/${otherLab}/circuits`)
+      .send({ name: "Private", template: "simple" })
+      .expect(201);
     const id = r.body.circuit.id as string;
     await editor.get(`/api/circuits/${id}`).expect(404);
     await editor.get(`/api/circuits/${id}/versions/1`).expect(404);
@@ -400,14 +467,23 @@ describe("demo seeding", () => {
 
       const o = await signIn(ctx.app, "owner@example.org");
       const byName = new Map(
-        CircuitListResponseSchema.parse((await o.get(`/api/labs/${labRow.id}/circuits`).expect(200)).body).circuits.map((c) => [c.name, c]),
+        CircuitListResponseSchema.parse((await o.get(`/api/labs/${labRow.id}/circuits`).expect(200)).body).circuits.map(
+          (c) => [c.name, c],
+        ),
       );
       assert.equal(byName.get("Tank sensor, direct")?.feedForwardLabel, null);
       assert.equal(byName.get("Tank sensor, hold")?.feedForwardLabel, "coherent type 1");
       assert.equal(byName.get("Dosing pulse")?.feedForwardLabel, "incoherent type 1");
-      const hold = ctx.ctx.db.select().from(schema.circuits).where(and(eq(schema.circuits.labId, labRow.id), eq(schema.circuits.demoKey, DEMO_CIRCUIT_KEYS.hold))).get();
+      const hold = ctx.ctx.db
+        .select()
+        .from(schema.circuits)
+        .where(and(eq(schema.circuits.labId, labRow.id), eq(schema.circuits.demoKey, DEMO_CIRCUIT_KEYS.hold)))
+        .get();
       const d = CircuitDetailResponseSchema.parse((await o.get(`/api/circuits/${hold!.id}`).expect(200)).body);
-      assert.deepEqual(d.body.species.map((s) => s.name), ["qsaA", "hldB", "rptC"]);
+      assert.deepEqual(
+        d.body.species.map((s) => s.name),
+        ["qsaA", "hldB", "rptC"],
+      );
       assert.equal(d.feedForward?.logic, "and");
     } finally {
       await ctx.close();
@@ -421,11 +497,19 @@ describe("demo seeding", () => {
       const e = await signIn(ctx.app, "editor@example.org");
       await e.post(`/api/labs/${labRow.id}/circuits`).send({ name: "Dosing pulse", template: "simple" }).expect(201);
       seedDemoCircuitsAndPrograms(ctx.ctx, labRow);
-      const dosing = ctx.ctx.db.select().from(schema.circuits).where(eq(schema.circuits.demoKey, DEMO_CIRCUIT_KEYS.dosingPulse)).get()!;
+      const dosing = ctx.ctx.db
+        .select()
+        .from(schema.circuits)
+        .where(eq(schema.circuits.demoKey, DEMO_CIRCUIT_KEYS.dosingPulse))
+        .get()!;
       assert.equal(dosing.name, "Dosing pulse (demo)");
       await e.post(`/api/circuits/${dosing.id}/archive`).expect(200);
       seedDemoCircuitsAndPrograms(ctx.ctx, labRow);
-      const rows = ctx.ctx.db.select().from(schema.circuits).where(eq(schema.circuits.demoKey, DEMO_CIRCUIT_KEYS.dosingPulse)).all();
+      const rows = ctx.ctx.db
+        .select()
+        .from(schema.circuits)
+        .where(eq(schema.circuits.demoKey, DEMO_CIRCUIT_KEYS.dosingPulse))
+        .all();
       assert.equal(rows.length, 1);
       assert.ok(rows[0].archivedAt);
     } finally {

@@ -1,15 +1,19 @@
 import { test } from "node:test";
 import assert from "node:assert/strict";
-import { makeTestContext, signIn } from "../helpers/test-app";
-import { realQueue, waitForRun } from "../helpers/run-helpers";
-import { seedDemo } from "../../server/services/demo-seed";
-import { schema } from "../../db/client";
+import { makeTestContext, signIn } from "@/tests/helpers/test-app";
+import { realQueue, waitForRun } from "@/tests/helpers/run-helpers";
+import { seedDemo } from "@/server/demo/seed";
+import { schema } from "@/db/client";
 
 test("demo seeding queues the two demo runs and the demo sweep once; they finish and can be compared", async () => {
   const t = await makeTestContext({ seed: "full", queue: realQueue(1) });
   try {
     await seedDemo(t.ctx); // a second start must not add runs
-    const runs = t.ctx.db.select().from(schema.runs).all().filter((r) => !r.sweepId);
+    const runs = t.ctx.db
+      .select()
+      .from(schema.runs)
+      .all()
+      .filter((r) => !r.sweepId);
     const sweeps = t.ctx.db.select().from(schema.sweeps).all();
     assert.equal(sweeps.length, 1);
     assert.equal(sweeps[0].pointCount, 9);
@@ -18,7 +22,11 @@ test("demo seeding queues the two demo runs and the demo sweep once; they finish
     const done = await Promise.all(runs.map((r) => waitForRun(viewer, r.id, 180_000)));
     for (const d of done) assert.equal(d.status, "finished", d.statusReason);
     // the ladder's seven durations appear in both runs' filter curves
-    for (const d of done) assert.deepEqual(d.summary.byDuration.map((b: any) => b.duration), [1, 2, 5, 10, 20, 40, 80]);
+    for (const d of done)
+      assert.deepEqual(
+        d.summary.byDuration.map((b: any) => b.duration),
+        [1, 2, 5, 10, 20, 40, 80],
+      );
     const list = (await viewer.get(`/api/labs/${t.demoLab!.id}/runs`)).body;
     for (const item of list) {
       assert.equal(item.programName, "Duration ladder");

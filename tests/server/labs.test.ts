@@ -12,11 +12,11 @@ import Database from "better-sqlite3";
 import { existsSync } from "node:fs";
 import { join } from "node:path";
 import { eq } from "drizzle-orm";
-import { makeTestContext, signIn, tokenFromMail, TEST_BASE_URL, type TestApp } from "../helpers/test-app";
-import { schema } from "../../db/client";
-import { recordAudit, listAudit } from "../../server/services/audit.service";
-import { backupDir } from "../../server/routes/admin.routes";
-import { assertContract } from "../helpers/contract";
+import { makeTestContext, signIn, tokenFromMail, TEST_BASE_URL, type TestApp } from "@/tests/helpers/test-app";
+import { schema } from "@/db/client";
+import { recordAudit, listAudit } from "@/server/services/audit.service";
+import { backupDir } from "@/server/routes/admin.routes";
+import { assertContract } from "@/tests/helpers/contract";
 import {
   AcceptInvitationResponseSchema,
   AdminUsersSchema,
@@ -31,7 +31,7 @@ import {
   LabResponseSchema,
   MeSchema,
   OutboxSchema,
-} from "../../shared/schemas/api-accounts";
+} from "@/shared/schemas/api-accounts";
 
 const OWNER = "owner@example.org";
 const EDITOR = "editor@example.org";
@@ -54,10 +54,16 @@ describe("labs", () => {
     assert.equal(r.body.lab.role, "owner");
     const list = await editor.get("/api/labs").expect(200);
     assertContract(LabListSchema, list.body, "GET /api/labs");
-    assert.deepEqual(list.body.labs.map((l: any) => [l.name, l.role]).sort(), [["Batch reactor", "owner"], ["Tank Sensor Group", "editor"]]);
+    assert.deepEqual(list.body.labs.map((l: any) => [l.name, l.role]).sort(), [
+      ["Batch reactor", "owner"],
+      ["Tank Sensor Group", "editor"],
+    ]);
     const detail = await editor.get(`/api/labs/${r.body.lab.id}`).expect(200);
     assertContract(LabResponseSchema, detail.body, "GET /api/labs/:labId");
-    assert.deepEqual(detail.body.lab.members.map((m: any) => [m.email, m.role]), [[EDITOR, "owner"]]);
+    assert.deepEqual(
+      detail.body.lab.members.map((m: any) => [m.email, m.role]),
+      [[EDITOR, "owner"]],
+    );
     const owner = await signIn(t.app, OWNER);
     await owner.get(`/api/labs/${r.body.lab.id}`).expect(404);
     await owner.patch(`/api/labs/${r.body.lab.id}`).send({ name: "Mine now" }).expect(404);
@@ -82,7 +88,10 @@ describe("labs", () => {
     const scratch = (await owner.post("/api/labs").send({ name: "Scratch" }).expect(201)).body.lab.id;
     await owner.delete(`/api/labs/${scratch}`).expect(204);
     await owner.get(`/api/labs/${scratch}`).expect(404);
-    assert.equal(t.ctx.db.select().from(schema.memberships).where(eq(schema.memberships.labId, scratch)).all().length, 0);
+    assert.equal(
+      t.ctx.db.select().from(schema.memberships).where(eq(schema.memberships.labId, scratch)).all().length,
+      0,
+    );
   });
 });
 
@@ -128,7 +137,9 @@ describe("members and roles", () => {
     assertContract(AuditPageSchema, r.body, "GET /api/labs/:labId/audit");
     const actions = r.body.events.map((e: any) => e.action);
     assert.deepEqual(actions, ["member.left", "member.role_changed", "member.role_changed", "member.role_changed"]);
-    const change = r.body.events.find((e: any) => e.action === "member.role_changed" && e.detail.to === "editor" && e.targetId === userId(t, OWNER));
+    const change = r.body.events.find(
+      (e: any) => e.action === "member.role_changed" && e.detail.to === "editor" && e.targetId === userId(t, OWNER),
+    );
     assert.equal(change.userName, "Demo owner");
     assert.deepEqual(change.detail, { from: "owner", to: "editor" });
     const formerOwner = await signIn(t.app, OWNER); // now an editor
@@ -140,7 +151,14 @@ describe("members and roles", () => {
 
   test("recordAudit (used by the run queue) writes an event the lab's owners see", async () => {
     const lab = t.demoLab!.id;
-    recordAudit(t.ctx, { labId: lab, userId: userId(t, OWNER), action: "run.launched", targetType: "run", targetId: "run_x", detail: { replicates: 100 } });
+    recordAudit(t.ctx, {
+      labId: lab,
+      userId: userId(t, OWNER),
+      action: "run.launched",
+      targetType: "run",
+      targetId: "run_x",
+      detail: { replicates: 100 },
+    });
     const [e] = listAudit(t.ctx, lab, { limit: 1 });
     assert.equal(e.action, "run.launched");
     assert.equal(e.targetId, "run_x");
@@ -172,44 +190,71 @@ describe("invitations", () => {
 
     const pending = await owner.get(`/api/labs/${t.demoLab!.id}/invitations`).expect(200);
     assertContract(InvitationListSchema, pending.body, "GET /api/labs/:labId/invitations");
-    assert.deepEqual(pending.body.invitations.map((i: any) => [i.email, i.role, i.invitedBy]), [["newcomer@example.org", "editor", "Demo owner"]]);
+    assert.deepEqual(
+      pending.body.invitations.map((i: any) => [i.email, i.role, i.invitedBy]),
+      [["newcomer@example.org", "editor", "Demo owner"]],
+    );
     assert.equal(pending.body.invitations[0].tokenHash, undefined);
 
     const info = await request(t.app).get(`/api/invitations/${token}`).expect(200);
     assertContract(InvitationOfferResponseSchema, info.body, "GET /api/invitations/:token");
     assert.deepEqual(
       { ...info.body.invitation, expiresAt: undefined },
-      { labName: "Tank Sensor Group", role: "editor", email: "newcomer@example.org", hasAccount: false, expiresAt: undefined },
+      {
+        labName: "Tank Sensor Group",
+        role: "editor",
+        email: "newcomer@example.org",
+        hasAccount: false,
+        expiresAt: undefined,
+      },
     );
 
     const agent = request.agent(t.app);
     const missing = await agent.post("/api/invitations/accept").send({ token }).expect(400);
     assert.deepEqual(missing.body.error.fields.map((f: any) => f.path).sort(), ["displayName", "password"]);
-    const ok = await agent.post("/api/invitations/accept").send({ token, password: "newcomer-password", displayName: "Newcomer" }).expect(200);
+    const ok = await agent
+      .post("/api/invitations/accept")
+      .send({ token, password: "newcomer-password", displayName: "Newcomer" })
+      .expect(200);
     assertContract(AcceptInvitationResponseSchema, ok.body, "POST /api/invitations/accept (new account)");
     assert.equal(ok.body.role, "editor");
     assert.equal(ok.body.user.email, "newcomer@example.org");
     const me = await agent.get("/api/me").expect(200);
     assertContract(MeSchema, me.body, "GET /api/me");
-    assert.deepEqual(me.body.labs.map((l: any) => [l.name, l.role]), [["Tank Sensor Group", "editor"]]);
+    assert.deepEqual(
+      me.body.labs.map((l: any) => [l.name, l.role]),
+      [["Tank Sensor Group", "editor"]],
+    );
 
     // One-time.
     await request(t.app).get(`/api/invitations/${token}`).expect(404);
-    await request(t.app).post("/api/invitations/accept").send({ token, password: "other-password", displayName: "Other" }).expect(404);
+    await request(t.app)
+      .post("/api/invitations/accept")
+      .send({ token, password: "other-password", displayName: "Other" })
+      .expect(404);
     const after = await owner.get(`/api/labs/${t.demoLab!.id}/invitations`).expect(200);
     assert.equal(after.body.invitations.length, 0);
 
     const audit = await owner.get(`/api/labs/${t.demoLab!.id}/audit`).expect(200);
-    assert.deepEqual(audit.body.events.slice(0, 2).map((e: any) => e.action), ["member.joined", "member.invited"]);
+    assert.deepEqual(
+      audit.body.events.slice(0, 2).map((e: any) => e.action),
+      ["member.joined", "member.invited"],
+    );
   });
 
   test("someone with an account must sign in first; signed in, accepting adds the lab", async () => {
     const other = await signIn(t.app, "newcomer@example.org", "newcomer-password");
     const lab2 = (await other.post("/api/labs").send({ name: "Second lab" }).expect(201)).body.lab.id;
-    const r = await other.post(`/api/labs/${lab2}/invitations`).send({ email: "viewer@example.org", role: "viewer" }).expect(201);
+    const r = await other
+      .post(`/api/labs/${lab2}/invitations`)
+      .send({ email: "viewer@example.org", role: "viewer" })
+      .expect(201);
     assert.equal(r.body.invitation.role, "viewer");
     const token = tokenFromMail(t.outbox(VIEWER).at(-1)!.text, "/invite");
-    const anon = await request(t.app).post("/api/invitations/accept").send({ token, password: "whatever-pass", displayName: "V" }).expect(409);
+    const anon = await request(t.app)
+      .post("/api/invitations/accept")
+      .send({ token, password: "whatever-pass", displayName: "V" })
+      .expect(409);
     assert.equal(anon.body.error.code, "sign_in_required");
     const viewer = await signIn(t.app, VIEWER);
     const ok = await viewer.post("/api/invitations/accept").send({ token }).expect(200);
@@ -220,18 +265,39 @@ describe("invitations", () => {
 
   test("sign-up with an invitation joins its lab instead of making a lab of one's own", async () => {
     const { token } = await invite("third@example.org", "viewer");
-    await request(t.app).post("/api/auth/sign-up").send({ email: "someone-else@example.org", password: "third-password", displayName: "Third", invitationToken: token }).expect(400);
+    await request(t.app)
+      .post("/api/auth/sign-up")
+      .send({
+        email: "someone-else@example.org",
+        password: "third-password",
+        displayName: "Third",
+        invitationToken: token,
+      })
+      .expect(400);
     const agent = request.agent(t.app);
-    await agent.post("/api/auth/sign-up").send({ email: "third@example.org", password: "third-password", displayName: "Third", invitationToken: token }).expect(201);
+    await agent
+      .post("/api/auth/sign-up")
+      .send({ email: "third@example.org", password: "third-password", displayName: "Third", invitationToken: token })
+      .expect(201);
     const me = await agent.get("/api/me").expect(200);
-    assert.deepEqual(me.body.labs.map((l: any) => [l.name, l.role]), [["Tank Sensor Group", "viewer"]]);
+    assert.deepEqual(
+      me.body.labs.map((l: any) => [l.name, l.role]),
+      [["Tank Sensor Group", "viewer"]],
+    );
   });
 
   test("an expired invitation is refused", async () => {
     const { token } = await invite("late@example.org", "viewer");
-    t.ctx.db.update(schema.tokens).set({ expiresAt: new Date(Date.now() - 1000) }).where(eq(schema.tokens.email, "late@example.org")).run();
+    t.ctx.db
+      .update(schema.tokens)
+      .set({ expiresAt: new Date(Date.now() - 1000) })
+      .where(eq(schema.tokens.email, "late@example.org"))
+      .run();
     await request(t.app).get(`/api/invitations/${token}`).expect(404);
-    await request(t.app).post("/api/invitations/accept").send({ token, password: "late-password", displayName: "Late" }).expect(404);
+    await request(t.app)
+      .post("/api/invitations/accept")
+      .send({ token, password: "late-password", displayName: "Late" })
+      .expect(404);
   });
 
   test("the owner withdraws a pending invitation; its link stops working", async () => {
@@ -250,11 +316,20 @@ describe("invitations", () => {
 
   test("only owners invite; inviting a member again is a 409", async () => {
     const editor = await signIn(t.app, EDITOR);
-    await editor.post(`/api/labs/${t.demoLab!.id}/invitations`).send({ email: "x@example.org", role: "viewer" }).expect(403);
+    await editor
+      .post(`/api/labs/${t.demoLab!.id}/invitations`)
+      .send({ email: "x@example.org", role: "viewer" })
+      .expect(403);
     const owner = await signIn(t.app, OWNER);
-    const dup = await owner.post(`/api/labs/${t.demoLab!.id}/invitations`).send({ email: EDITOR, role: "viewer" }).expect(409);
+    const dup = await owner
+      .post(`/api/labs/${t.demoLab!.id}/invitations`)
+      .send({ email: EDITOR, role: "viewer" })
+      .expect(409);
     assert.equal(dup.body.error.code, "already_member");
-    await owner.post(`/api/labs/${t.demoLab!.id}/invitations`).send({ email: "not-an-address", role: "viewer" }).expect(400);
+    await owner
+      .post(`/api/labs/${t.demoLab!.id}/invitations`)
+      .send({ email: "not-an-address", role: "viewer" })
+      .expect(400);
   });
 });
 
@@ -275,7 +350,14 @@ describe("site admin routes", () => {
     const admin = await signIn(t.app, VIEWER);
     const users = await admin.get("/api/admin/users").expect(200);
     assertContract(AdminUsersSchema, users.body, "GET /api/admin/users");
-    assert.deepEqual(users.body.users.map((u: any) => [u.email, u.labCount]), [[EDITOR, 1], [OWNER, 1], [VIEWER, 1]]);
+    assert.deepEqual(
+      users.body.users.map((u: any) => [u.email, u.labCount]),
+      [
+        [EDITOR, 1],
+        [OWNER, 1],
+        [VIEWER, 1],
+      ],
+    );
     const box = await admin.get(`/api/admin/outbox?to=${EDITOR}`).expect(200);
     assertContract(OutboxSchema, box.body, "GET /api/admin/outbox");
     assert.equal(box.body.mailer, "fake");
@@ -294,7 +376,9 @@ describe("site admin routes", () => {
     const copy = new Database(path, { readonly: true });
     try {
       assert.equal(copy.pragma("integrity_check", { simple: true }), "ok");
-      const emails = (copy.prepare("select email from users order by email").all() as { email: string }[]).map((u) => u.email);
+      const emails = (copy.prepare("select email from users order by email").all() as { email: string }[]).map(
+        (u) => u.email,
+      );
       assert.deepEqual(emails, [EDITOR, OWNER, VIEWER]);
       const n = (copy.prepare("select count(*) as n from outbox").get() as { n: number }).n;
       assert.ok(n >= 0);

@@ -5,18 +5,24 @@
 import { describe, test, before, after } from "node:test";
 import assert from "node:assert/strict";
 import { eq } from "drizzle-orm";
-import { makeTestContext, TEST_BASE_URL, type TestApp } from "../helpers/test-app";
-import { openDatabase, schema } from "../../db/client";
-import { createMailer, parseMailMessage, startFakeSmtpServer } from "../../server/services/mail.service";
-import { notifyRunEnded } from "../../server/services/notify.service";
+import { makeTestContext, TEST_BASE_URL, type TestApp } from "@/tests/helpers/test-app";
+import { openDatabase, schema } from "@/db/client";
+import { createMailer, parseMailMessage, startFakeSmtpServer } from "@/server/services/mail.service";
+import { notifyRunEnded } from "@/server/services/notify.service";
 import { mkdtempSync, rmSync } from "node:fs";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
 
 describe("parseMailMessage", () => {
   test("plain 7bit message with folded headers", () => {
-    const raw = "From: A <a@example.org>\r\nTo: b@example.org\r\nSubject: Hello\r\n there\r\nContent-Type: text/plain; charset=utf-8\r\n\r\nLine 1\r\nLine 2\r\n";
-    assert.deepEqual(parseMailMessage(raw), { from: "A <a@example.org>", to: "b@example.org", subject: "Hello there", text: "Line 1\nLine 2" });
+    const raw =
+      "From: A <a@example.org>\r\nTo: b@example.org\r\nSubject: Hello\r\n there\r\nContent-Type: text/plain; charset=utf-8\r\n\r\nLine 1\r\nLine 2\r\n";
+    assert.deepEqual(parseMailMessage(raw), {
+      from: "A <a@example.org>",
+      to: "b@example.org",
+      subject: "Hello there",
+      text: "Line 1\nLine 2",
+    });
   });
 
   test("quoted-printable body with soft line breaks and UTF-8 bytes; RFC 2047 subject", () => {
@@ -80,13 +86,19 @@ describe("configured SMTP server", () => {
     const remote = openDatabase(join(dir, "remote.db"));
     const server = await startFakeSmtpServer(remote.db);
     const local = openDatabase(join(dir, "local.db"));
-    const mailer = await createMailer({ LINGER_SMTP_URL: `smtp://127.0.0.1:${server.port}`, LINGER_MAIL_FROM: "Lab <lab@example.org>" }, { db: local.db });
+    const mailer = await createMailer(
+      { LINGER_SMTP_URL: `smtp://127.0.0.1:${server.port}`, LINGER_MAIL_FROM: "Lab <lab@example.org>" },
+      { db: local.db },
+    );
     try {
       assert.equal(mailer.kind, "smtp");
       await mailer.send({ to: "r@example.org", subject: "Via the configured server", text: "hi" });
       assert.equal(local.db.select().from(schema.outbox).all().length, 0);
       const got = remote.db.select().from(schema.outbox).all();
-      assert.deepEqual(got.map((m) => [m.to, m.from, m.subject, m.text]), [["r@example.org", "Lab <lab@example.org>", "Via the configured server", "hi"]]);
+      assert.deepEqual(
+        got.map((m) => [m.to, m.from, m.subject, m.text]),
+        [["r@example.org", "Lab <lab@example.org>", "Via the configured server", "hi"]],
+      );
     } finally {
       await mailer.close();
       await server.close();
@@ -103,8 +115,17 @@ describe("run-finished notification", () => {
   after(async () => t.close());
 
   test("finished: mail to every lab member who opted in, with a link under LINGER_BASE_URL; opted-out members get none", async () => {
-    t.ctx.db.update(schema.users).set({ notifyOnRunEnd: false }).where(eq(schema.users.email, "viewer@example.org")).run();
-    const sent = await notifyRunEnded(t.ctx, { id: "run_abc", labId: t.demoLab!.id, name: "Night pulses", status: "finished" });
+    t.ctx.db
+      .update(schema.users)
+      .set({ notifyOnRunEnd: false })
+      .where(eq(schema.users.email, "viewer@example.org"))
+      .run();
+    const sent = await notifyRunEnded(t.ctx, {
+      id: "run_abc",
+      labId: t.demoLab!.id,
+      name: "Night pulses",
+      status: "finished",
+    });
     assert.deepEqual(sent.sort(), ["editor@example.org", "owner@example.org"]);
     const [m] = t.outbox("owner@example.org");
     assert.equal(m.subject, 'Run "Night pulses" finished');
@@ -115,15 +136,28 @@ describe("run-finished notification", () => {
 
   test("failed sweeps say so with the reason; cancelled runs send nothing; an unknown lab sends nothing", async () => {
     const before = t.outbox().length;
-    await notifyRunEnded(t.ctx, { id: "swp_1", labId: t.demoLab!.id, name: "Hill sweep", status: "failed", statusReason: "worker crashed", kind: "sweep" });
+    await notifyRunEnded(t.ctx, {
+      id: "swp_1",
+      labId: t.demoLab!.id,
+      name: "Hill sweep",
+      status: "failed",
+      statusReason: "worker crashed",
+      kind: "sweep",
+    });
     const last = t.outbox("editor@example.org").at(-1)!;
     assert.equal(last.subject, 'Sweep "Hill sweep" failed');
     assert.match(last.text, /Reason: worker crashed/);
     assert.ok(last.text.includes(`${TEST_BASE_URL}/sweeps/swp_1`));
     const afterFailed = t.outbox().length;
     assert.equal(afterFailed - before, 2);
-    assert.deepEqual(await notifyRunEnded(t.ctx, { id: "run_c", labId: t.demoLab!.id, name: "Stopped", status: "cancelled" }), []);
-    assert.deepEqual(await notifyRunEnded(t.ctx, { id: "run_d", labId: "lab_none", name: "Nowhere", status: "finished" }), []);
+    assert.deepEqual(
+      await notifyRunEnded(t.ctx, { id: "run_c", labId: t.demoLab!.id, name: "Stopped", status: "cancelled" }),
+      [],
+    );
+    assert.deepEqual(
+      await notifyRunEnded(t.ctx, { id: "run_d", labId: "lab_none", name: "Nowhere", status: "finished" }),
+      [],
+    );
     assert.equal(t.outbox().length, afterFailed);
   });
 });

@@ -9,8 +9,8 @@
 import { test, describe, before, after } from "node:test";
 import assert from "node:assert/strict";
 import { eq } from "drizzle-orm";
-import { makeTestContext, signIn, type TestApp } from "../helpers/test-app";
-import { schema } from "../../db/client";
+import { makeTestContext, signIn, type TestApp } from "@/tests/helpers/test-app";
+import { schema } from "@/db/client";
 import {
   demoCircuitBody,
   demoPrograms,
@@ -18,17 +18,17 @@ import {
   DEMO_PROGRAM_KEYS,
   FEED_SPIKES_TRUE_EXPOSURE,
   LADDER_DURATIONS_MINUTES,
-} from "../../server/services/demo-circuits";
-import { solveOde } from "../../sim";
-import { RunSpecSchema } from "../../shared/schemas/run-spec";
+} from "@/server/demo/circuits";
+import { solveOde } from "@/sim";
+import { RunSpecSchema } from "@/shared/schemas/run-spec";
 import {
   PreviewProgramResponseSchema,
   ProgramDetailResponseSchema,
   ProgramListResponseSchema,
   ProgramSummarySchema,
-} from "../../shared/schemas/api-programs";
-import { ApiErrorSchema } from "../../shared/schemas/errors";
-import type { InputProgram, InputProgramInput } from "../../shared/schemas/input-program";
+} from "@/shared/schemas/api-programs";
+import { ApiErrorSchema } from "@/shared/schemas/errors";
+import type { InputProgram, InputProgramInput } from "@/shared/schemas/input-program";
 
 type Agent = Awaited<ReturnType<typeof signIn>>;
 
@@ -71,16 +71,30 @@ describe("create and edit", () => {
     assert.deepEqual(d.body, { ...LADDER, repeats: 1 });
     const list = ProgramListResponseSchema.parse((await viewer.get(`/api/labs/${lab}/programs`).expect(200)).body);
     assert.ok(list.programs.some((p) => p.id === d.program.id));
-    const again = ProgramDetailResponseSchema.parse((await viewer.get(`/api/programs/${d.program.id}`).expect(200)).body);
+    const again = ProgramDetailResponseSchema.parse(
+      (await viewer.get(`/api/programs/${d.program.id}`).expect(200)).body,
+    );
     assert.deepEqual(again, d);
     const audit = t.ctx.db.select().from(schema.auditEvents).where(eq(schema.auditEvents.targetId, d.program.id)).all();
-    assert.deepEqual(audit.map((a) => a.action), ["program.created"]);
+    assert.deepEqual(
+      audit.map((a) => a.action),
+      ["program.created"],
+    );
   });
 
   test("a schema error names the field", async () => {
     const r = await editor
       .post(`/api/labs/${lab}/programs`)
-      .send({ name: "Bad pulse", body: { kind: "pulses", pulses: [{ start: 0, duration: 5 }, { start: 10, duration: -1 }] } })
+      .send({
+        name: "Bad pulse",
+        body: {
+          kind: "pulses",
+          pulses: [
+            { start: 0, duration: 5 },
+            { start: 10, duration: -1 },
+          ],
+        },
+      })
       .expect(400);
     const f = fieldsOf(r.body).find((x) => x.path === "body.pulses.1.duration");
     assert.ok(f, JSON.stringify(r.body));
@@ -90,7 +104,10 @@ describe("create and edit", () => {
   test("a uniform duration range upside down is a 400 naming durations.max", async () => {
     const body = { kind: "random", start: 0, meanInterval: 30, durations: { dist: "uniform", min: 8, max: 3 } };
     const r = await editor.post(`/api/labs/${lab}/programs`).send({ name: "Upside down", body }).expect(400);
-    assert.ok(fieldsOf(r.body).some((f) => f.path === "body.durations.max"), JSON.stringify(r.body));
+    assert.ok(
+      fieldsOf(r.body).some((f) => f.path === "body.durations.max"),
+      JSON.stringify(r.body),
+    );
   });
 
   test("PUT replaces the body and may rename; names stay unique (409)", async () => {
@@ -111,7 +128,9 @@ describe("create and edit", () => {
 
   test("duplicate, archive and unarchive", async () => {
     const d = await create("Copy me");
-    const copy = ProgramDetailResponseSchema.parse((await editor.post(`/api/programs/${d.program.id}/duplicate`).send({}).expect(201)).body);
+    const copy = ProgramDetailResponseSchema.parse(
+      (await editor.post(`/api/programs/${d.program.id}/duplicate`).send({}).expect(201)).body,
+    );
     assert.equal(copy.program.name, "Copy me (copy)");
     assert.notEqual(copy.program.id, d.program.id);
     assert.deepEqual(copy.body, d.body);
@@ -121,8 +140,13 @@ describe("create and edit", () => {
     assert.ok(!list.programs.some((p) => p.id === d.program.id));
     list = ProgramListResponseSchema.parse((await viewer.get(`/api/labs/${lab}/programs?archived=1`).expect(200)).body);
     assert.ok(list.programs.some((p) => p.id === d.program.id));
-    assert.equal((await editor.put(`/api/programs/${d.program.id}`).send({ name: "Nope" }).expect(409)).body.error.code, "archived");
-    const u = ProgramSummarySchema.parse((await editor.post(`/api/programs/${d.program.id}/unarchive`).expect(200)).body);
+    assert.equal(
+      (await editor.put(`/api/programs/${d.program.id}`).send({ name: "Nope" }).expect(409)).body.error.code,
+      "archived",
+    );
+    const u = ProgramSummarySchema.parse(
+      (await editor.post(`/api/programs/${d.program.id}/unarchive`).expect(200)).body,
+    );
     assert.equal(u.archivedAt, null);
   });
 });
@@ -142,8 +166,12 @@ describe("access", () => {
   });
 
   test("another lab's program answers 404 to non-members", async () => {
-    const other = (await viewer.post("/api/labs").send({ name: "Viewer's program lab" }).expect(201)).body.lab.id as string;
-    const r = await viewer.post(`/api/labs/${other}/programs`).send({ name: "Private program", body: LADDER }).expect(201);
+    const other = (await viewer.post("/api/labs").send({ name: "Viewer's program lab" }).expect(201)).body.lab
+      .id as string;
+    const r = await viewer
+      .post(`/api/labs/${other}/programs`)
+      .send({ name: "Private program", body: LADDER })
+      .expect(201);
     const id = r.body.program.id as string;
     await editor.get(`/api/programs/${id}`).expect(404);
     await editor.put(`/api/programs/${id}`).send({ name: "Mine now" }).expect(404);
@@ -156,10 +184,23 @@ describe("access", () => {
 describe("preview", () => {
   test("pulses: sorted, overlaps merged at the larger level, switch times and levels", async () => {
     const p = await preview(
-      { kind: "pulses", pulses: [{ start: 50, duration: 5 }, { start: 10, duration: 5 }, { start: 12, duration: 10, level: 3 }] },
+      {
+        kind: "pulses",
+        pulses: [
+          { start: 50, duration: 5 },
+          { start: 10, duration: 5 },
+          { start: 12, duration: 10, level: 3 },
+        ],
+      },
       100,
     );
-    assert.deepEqual(p.pulses.map((x) => [x.on, x.off, x.level, x.durationBin]), [[10, 22, 3, 12], [50, 55, 1, 5]]);
+    assert.deepEqual(
+      p.pulses.map((x) => [x.on, x.off, x.level, x.durationBin]),
+      [
+        [10, 22, 3, 12],
+        [50, 55, 1, 5],
+      ],
+    );
     assert.deepEqual(p.switchTimes, [10, 22, 50, 55]);
     assert.deepEqual(p.levels, [3, 0, 1, 0]);
     assert.equal(p.note, null);
@@ -167,16 +208,36 @@ describe("preview", () => {
 
   test("periodic: pulses start every on+off minutes until the count or the end", async () => {
     const counted = await preview({ kind: "periodic", start: 5, onDuration: 10, offDuration: 20, count: 3 }, 1000);
-    assert.deepEqual(counted.pulses.map((x) => [x.on, x.off]), [[5, 15], [35, 45], [65, 75]]);
+    assert.deepEqual(
+      counted.pulses.map((x) => [x.on, x.off]),
+      [
+        [5, 15],
+        [35, 45],
+        [65, 75],
+      ],
+    );
     const toEnd = await preview({ kind: "periodic", start: 5, onDuration: 10, offDuration: 20 }, 100);
-    assert.deepEqual(toEnd.pulses.map((x) => x.on), [5, 35, 65, 95]);
+    assert.deepEqual(
+      toEnd.pulses.map((x) => x.on),
+      [5, 35, 65, 95],
+    );
     // the last pulse runs past the end: its switch-off is not listed
     assert.deepEqual(toEnd.switchTimes, [5, 15, 35, 45, 65, 75, 95]);
   });
 
   test("ladder: each duration, then the recovery gap", async () => {
     const p = await preview({ ...LADDER, repeats: 2 }, 1000);
-    assert.deepEqual(p.pulses.map((x) => [x.on, x.off]), [[10, 11], [41, 42], [72, 77], [107, 112], [142, 162], [192, 212]]);
+    assert.deepEqual(
+      p.pulses.map((x) => [x.on, x.off]),
+      [
+        [10, 11],
+        [41, 42],
+        [72, 77],
+        [107, 112],
+        [142, 162],
+        [192, 212],
+      ],
+    );
   });
 
   test("random: reproducible from its seed, durations from the distribution, extra pulses added", async () => {
@@ -207,17 +268,41 @@ describe("preview", () => {
   });
 
   test("invalid programs and end times are a 400 naming the field", async () => {
-    let r = await viewer.post(`/api/labs/${lab}/programs/preview`).send({ program: LADDER, endTimeMinutes: 0 }).expect(400);
-    assert.ok(fieldsOf(r.body).some((f) => f.path === "endTimeMinutes"), JSON.stringify(r.body));
-    r = await viewer.post(`/api/labs/${lab}/programs/preview`).send({ program: { kind: "ladder", start: 0, durations: [], gap: 5 }, endTimeMinutes: 100 }).expect(400);
-    assert.ok(fieldsOf(r.body).some((f) => f.path === "program.durations"), JSON.stringify(r.body));
-    r = await viewer.post(`/api/labs/${lab}/programs/preview`).send({ program: { kind: "steps" }, endTimeMinutes: 100 }).expect(400);
-    assert.ok(fieldsOf(r.body).some((f) => f.path.startsWith("program")), JSON.stringify(r.body));
+    let r = await viewer
+      .post(`/api/labs/${lab}/programs/preview`)
+      .send({ program: LADDER, endTimeMinutes: 0 })
+      .expect(400);
+    assert.ok(
+      fieldsOf(r.body).some((f) => f.path === "endTimeMinutes"),
+      JSON.stringify(r.body),
+    );
     r = await viewer
       .post(`/api/labs/${lab}/programs/preview`)
-      .send({ program: { kind: "random", start: 0, meanInterval: 30, durations: { dist: "uniform", min: 8, max: 3 } }, endTimeMinutes: 100 })
+      .send({ program: { kind: "ladder", start: 0, durations: [], gap: 5 }, endTimeMinutes: 100 })
       .expect(400);
-    assert.ok(fieldsOf(r.body).some((f) => f.path === "program.durations.max"), JSON.stringify(r.body));
+    assert.ok(
+      fieldsOf(r.body).some((f) => f.path === "program.durations"),
+      JSON.stringify(r.body),
+    );
+    r = await viewer
+      .post(`/api/labs/${lab}/programs/preview`)
+      .send({ program: { kind: "steps" }, endTimeMinutes: 100 })
+      .expect(400);
+    assert.ok(
+      fieldsOf(r.body).some((f) => f.path.startsWith("program")),
+      JSON.stringify(r.body),
+    );
+    r = await viewer
+      .post(`/api/labs/${lab}/programs/preview`)
+      .send({
+        program: { kind: "random", start: 0, meanInterval: 30, durations: { dist: "uniform", min: 8, max: 3 } },
+        endTimeMinutes: 100,
+      })
+      .expect(400);
+    assert.ok(
+      fieldsOf(r.body).some((f) => f.path === "program.durations.max"),
+      JSON.stringify(r.body),
+    );
     assert.match(r.body.error.message, /longest duration/);
   });
 });
@@ -231,7 +316,9 @@ describe("demo programs", () => {
     assert.equal(body.kind, "random");
     const end = 10_000;
     const p = await preview(body, end);
-    const exposure = p.pulses.filter((x) => x.on <= FEED_SPIKES_TRUE_EXPOSURE.start && x.off >= FEED_SPIKES_TRUE_EXPOSURE.start + 60);
+    const exposure = p.pulses.filter(
+      (x) => x.on <= FEED_SPIKES_TRUE_EXPOSURE.start && x.off >= FEED_SPIKES_TRUE_EXPOSURE.start + 60,
+    );
     assert.equal(exposure.length, 1);
     const spikes = p.pulses.filter((x) => x !== exposure[0]);
     // Poisson arrivals, mean 45 min: 10000/45 = 222 expected, sd 14.9; overlapping
@@ -249,7 +336,10 @@ describe("demo programs", () => {
     assert.deepEqual(body.durations, [...LADDER_DURATIONS_MINUTES]);
     const end = body.start + body.durations.reduce((s, d) => s + d + body.gap, 0);
     const p = await preview(body, end);
-    assert.deepEqual(p.pulses.map((x) => x.off - x.on), [1, 2, 5, 10, 20, 40, 80]);
+    assert.deepEqual(
+      p.pulses.map((x) => x.off - x.on),
+      [1, 2, 5, 10, 20, 40, 80],
+    );
     // Check on the mean-field (ODE) solution of each demo circuit from its OFF
     // steady state: just before each next pulse (and at the end) the output is
     // within 1 % of its largest excursion from baseline. "Back to baseline" is a
@@ -278,7 +368,10 @@ describe("demo programs", () => {
       const checks = [...p.pulses.slice(1).map((x) => x.on - 1), end];
       for (const tc of checks) {
         const g = Math.round(tc);
-        assert.ok(Math.abs(z(g) - baseline) <= 0.01 * excursion, `${d.name}: at ${tc} min output ${z(g).toFixed(2)} vs baseline ${baseline.toFixed(2)}`);
+        assert.ok(
+          Math.abs(z(g) - baseline) <= 0.01 * excursion,
+          `${d.name}: at ${tc} min output ${z(g).toFixed(2)} vs baseline ${baseline.toFixed(2)}`,
+        );
       }
     }
   });

@@ -1,8 +1,8 @@
 import { test } from "node:test";
 import assert from "node:assert/strict";
-import { makeTestContext, signIn } from "../helpers/test-app";
-import { launchBody, realQueue, waitForRun } from "../helpers/run-helpers";
-import { firstDifference } from "../../server/services/run-store";
+import { makeTestContext, signIn } from "@/tests/helpers/test-app";
+import { launchBody, realQueue, waitForRun } from "@/tests/helpers/run-helpers";
+import { firstDifference } from "@/server/compute/run-store";
 
 test("pool sizes 1 and 2 store identical statistics for the same spec and seed", async () => {
   const hashes: string[] = [];
@@ -10,7 +10,9 @@ test("pool sizes 1 and 2 store identical statistics for the same spec and seed",
     const t = await makeTestContext({ queue: realQueue(threads) });
     try {
       const editor = await signIn(t.app, "editor@example.org");
-      const r = await editor.post(`/api/labs/${t.demoLab!.id}/runs`).send(launchBody({ replicates: 450, seed: "same-seed" }));
+      const r = await editor
+        .post(`/api/labs/${t.demoLab!.id}/runs`)
+        .send(launchBody({ replicates: 450, seed: "same-seed" }));
       const done = await waitForRun(editor, r.body.id);
       assert.equal(done.status, "finished");
       hashes.push(done.statsHash);
@@ -25,8 +27,12 @@ test("a different seed changes the statistics, and firstDifference names where",
   const t = await makeTestContext({ queue: realQueue(1) });
   try {
     const editor = await signIn(t.app, "editor@example.org");
-    const a = await editor.post(`/api/labs/${t.demoLab!.id}/runs`).send(launchBody({ replicates: 100, seed: "seed-a" }));
-    const b = await editor.post(`/api/labs/${t.demoLab!.id}/runs`).send(launchBody({ replicates: 100, seed: "seed-b" }));
+    const a = await editor
+      .post(`/api/labs/${t.demoLab!.id}/runs`)
+      .send(launchBody({ replicates: 100, seed: "seed-a" }));
+    const b = await editor
+      .post(`/api/labs/${t.demoLab!.id}/runs`)
+      .send(launchBody({ replicates: 100, seed: "seed-b" }));
     const da = await waitForRun(editor, a.body.id);
     const db = await waitForRun(editor, b.body.id);
     assert.notEqual(da.statsHash, db.statsHash);

@@ -1,10 +1,10 @@
 import { test, describe } from "node:test";
 import assert from "node:assert/strict";
 import { eq } from "drizzle-orm";
-import { makeTestContext, signIn } from "../helpers/test-app";
-import { launchBody, realQueue, waitForRun } from "../helpers/run-helpers";
-import { schema } from "../../db/client";
-import { ReplicatePageSchema, RunDetailSchema, RunListItemSchema, RunSeriesSchema } from "../../shared/schemas/api-runs";
+import { makeTestContext, signIn } from "@/tests/helpers/test-app";
+import { launchBody, realQueue, waitForRun } from "@/tests/helpers/run-helpers";
+import { schema } from "@/db/client";
+import { ReplicatePageSchema, RunDetailSchema, RunListItemSchema, RunSeriesSchema } from "@/shared/schemas/api-runs";
 
 describe("runs through the real queue and pool", () => {
   test("launch, progress, finish: statistics, series and exports are stored", async () => {
@@ -23,7 +23,10 @@ describe("runs through the real queue and pool", () => {
       // responses keep the shared contract the web app parses them with
       RunDetailSchema.parse(done);
       // the 5 and 60 min pulses appear in the per-duration figures
-      assert.deepEqual(done.summary.byDuration.map((b: any) => b.duration), [5, 60]);
+      assert.deepEqual(
+        done.summary.byDuration.map((b: any) => b.duration),
+        [5, 60],
+      );
       const rows = t.ctx.db.select().from(schema.pulseStats).where(eq(schema.pulseStats.runId, r.body.id)).all();
       assert.equal(rows.length, 150 * 2);
       const series = await editor.get(`/api/runs/${r.body.id}/series`);
@@ -61,11 +64,16 @@ describe("runs through the real queue and pool", () => {
       const bad = { ...body, settings: { ...body.settings, replicates: 0 } };
       const r = await editor.post(`/api/labs/${t.demoLab!.id}/runs`).send(bad);
       assert.equal(r.status, 400);
-      assert.ok(r.body.error.fields.some((f: any) => f.path === "settings.replicates"), JSON.stringify(r.body));
+      assert.ok(
+        r.body.error.fields.some((f: any) => f.path === "settings.replicates"),
+        JSON.stringify(r.body),
+      );
       const r2 = await editor.post(`/api/labs/${t.demoLab!.id}/runs`).send({ ...body, inputSignal: "Nope" });
       assert.equal(r2.status, 400);
       assert.match(r2.body.error.message, /no signal "Nope"/);
-      const tooBig = await editor.post(`/api/labs/${t.demoLab!.id}/runs`).send({ ...body, settings: { ...body.settings, gridStepMinutes: 0.001 } });
+      const tooBig = await editor
+        .post(`/api/labs/${t.demoLab!.id}/runs`)
+        .send({ ...body, settings: { ...body.settings, gridStepMinutes: 0.001 } });
       assert.equal(tooBig.status, 400);
       assert.match(tooBig.body.error.message, /grid/);
       assert.equal(t.ctx.db.select().from(schema.runs).all().length, 0);
@@ -81,7 +89,9 @@ describe("runs through the real queue and pool", () => {
       const labId = t.demoLab!.id;
       // A large system size makes each replicate fire ~10^5 events, so the engine's checkpoint is reached past the 1 ms cap.
       const body = launchBody({ replicates: 100 });
-      const failing = await editor.post(`/api/labs/${labId}/runs`).send({ ...body, settings: { ...body.settings, systemSize: 50 } });
+      const failing = await editor
+        .post(`/api/labs/${labId}/runs`)
+        .send({ ...body, settings: { ...body.settings, systemSize: 50 } });
       assert.equal(failing.status, 201, JSON.stringify(failing.body));
       const failed = await waitForRun(editor, failing.body.id);
       assert.equal(failed.status, "failed");
@@ -118,7 +128,9 @@ describe("runs through the real queue and pool", () => {
       // Round-robin by chunk (100 replicates): count the big run's chunks stored before the small run's only chunk
       // (chunks are stored in completion order). First come, first served would make it 1,000.
       const before = t.ctx.sqlite
-        .prepare(`SELECT count(*) AS n FROM run_chunks WHERE run_id = ? AND rowid < (SELECT rowid FROM run_chunks WHERE run_id = ?)`)
+        .prepare(
+          `SELECT count(*) AS n FROM run_chunks WHERE run_id = ? AND rowid < (SELECT rowid FROM run_chunks WHERE run_id = ?)`,
+        )
         .get(big.body.id, small.body.id) as { n: number };
       assert.ok(before.n <= 2, `${before.n} chunks of the big run were stored before the small run's chunk`);
       await editor.post(`/api/runs/${big.body.id}/cancel`).expect(200);
@@ -154,12 +166,16 @@ test("deleted runs are purged after the undo period, not before", async () => {
     const editor = await signIn(t.app, "editor@example.org");
     const r = await editor.post(`/api/labs/${t.demoLab!.id}/runs`).send(launchBody({ replicates: 10 }));
     await editor.delete(`/api/runs/${r.body.id}`).expect(200);
-    const { purgeDeleted } = await import("../../server/services/runs.service");
+    const { purgeDeleted } = await import("@/server/services/runs.service");
     const day = 86400_000;
     purgeDeleted(t.ctx, Date.now() + 6 * day);
     assert.equal(t.ctx.db.select().from(schema.runs).all().length, 1, "still restorable within 7 days");
     // Past the undo period a restore is refused even before the purge has run.
-    t.ctx.db.update(schema.runs).set({ deletedAt: new Date(Date.now() - 8 * day) }).where(eq(schema.runs.id, r.body.id)).run();
+    t.ctx.db
+      .update(schema.runs)
+      .set({ deletedAt: new Date(Date.now() - 8 * day) })
+      .where(eq(schema.runs.id, r.body.id))
+      .run();
     const late = await editor.post(`/api/runs/${r.body.id}/restore`);
     assert.equal(late.status, 409);
     assert.equal(late.body.error.code, "undo_expired");

@@ -1,6 +1,6 @@
 import { test, before, after } from "node:test";
 import assert from "node:assert/strict";
-import { startTestServer, type TestServer } from "../helpers/test-server";
+import { startTestServer, type TestServer } from "@/tests/helpers/test-server";
 
 let server: TestServer;
 before(async () => {
@@ -36,7 +36,11 @@ test("unknown API routes answer a JSON 404", async () => {
 });
 
 test("malformed JSON gets a 400 with a clear message, not a 500", async () => {
-  const r = await fetch(`${server.url}/api/auth/sign-in`, { method: "POST", headers: { "content-type": "application/json" }, body: "{not json" });
+  const r = await fetch(`${server.url}/api/auth/sign-in`, {
+    method: "POST",
+    headers: { "content-type": "application/json" },
+    body: "{not json",
+  });
   assert.equal(r.status, 400);
   const body = await r.json();
   assert.match(body.error.message, /not valid JSON/);

@@ -1,8 +1,8 @@
 import { test } from "node:test";
 import assert from "node:assert/strict";
-import { makeTestContext, signIn } from "../helpers/test-app";
-import { launchBody, realQueue } from "../helpers/run-helpers";
-import { SweepDetailSchema, SweepListItemSchema } from "../../shared/schemas/api-runs";
+import { makeTestContext, signIn } from "@/tests/helpers/test-app";
+import { launchBody, realQueue } from "@/tests/helpers/run-helpers";
+import { SweepDetailSchema, SweepListItemSchema } from "@/shared/schemas/api-runs";
 
 async function waitSweep(agent: any, id: string, timeoutMs = 180_000) {
   const t0 = Date.now();
@@ -28,7 +28,10 @@ test("a one-parameter sweep computes every point with its own seed and stores pe
     });
     assert.equal(r.status, 201, JSON.stringify(r.body));
     assert.equal(r.body.pointCount, 3);
-    assert.deepEqual(r.body.axes[0].values.map((v: number) => Math.round(v)), [25, 100, 400]);
+    assert.deepEqual(
+      r.body.axes[0].values.map((v: number) => Math.round(v)),
+      [25, 100, 400],
+    );
     const done = await waitSweep(editor, r.body.id);
     assert.equal(done.status, "finished");
     SweepDetailSchema.parse(done);
@@ -39,7 +42,9 @@ test("a one-parameter sweep computes every point with its own seed and stores pe
     const pass60 = done.points.map((p: any) => p.figures.passByDuration["60"]);
     assert.ok(pass60[0] >= pass60[2], `pass at 60 min by point: ${pass60}`);
     // each point has its own derived seed
-    const seeds = await Promise.all(done.points.map(async (p: any) => (await editor.get(`/api/runs/${p.runId}`)).body.seed));
+    const seeds = await Promise.all(
+      done.points.map(async (p: any) => (await editor.get(`/api/runs/${p.runId}`)).body.seed),
+    );
     assert.deepEqual(seeds, ["sweep-seed.p0", "sweep-seed.p1", "sweep-seed.p2"]);
     // sweep points are not in the run list by default
     assert.equal((await editor.get(`/api/labs/${labId}/runs`)).body.length, 0);
@@ -54,11 +59,25 @@ test("a cancelled sweep resumes and finishes; bad axes get a 400 naming the fiel
     const editor = await signIn(t.app, "editor@example.org");
     const labId = t.demoLab!.id;
     const base = launchBody({ replicates: 100 });
-    const baseBody = { circuit: base.circuit, program: base.program, inputSignal: base.inputSignal, settings: base.settings };
-    const bad = await editor.post(`/api/labs/${labId}/sweeps`).send({ name: "x", base: baseBody, axes: [{ parameter: "K(noSuch,hldB)", values: [1, 2] }] });
+    const baseBody = {
+      circuit: base.circuit,
+      program: base.program,
+      inputSignal: base.inputSignal,
+      settings: base.settings,
+    };
+    const bad = await editor
+      .post(`/api/labs/${labId}/sweeps`)
+      .send({ name: "x", base: baseBody, axes: [{ parameter: "K(noSuch,hldB)", values: [1, 2] }] });
     assert.equal(bad.status, 400);
     assert.equal(bad.body.error.fields[0].path, "axes.0.parameter");
-    const r = await editor.post(`/api/labs/${labId}/sweeps`).send({ name: "two axes", base: baseBody, axes: [{ parameter: "rate(makeZ)", values: [10, 20] }, { parameter: "rate(degY)", values: [0.05, 0.1] }] });
+    const r = await editor.post(`/api/labs/${labId}/sweeps`).send({
+      name: "two axes",
+      base: baseBody,
+      axes: [
+        { parameter: "rate(makeZ)", values: [10, 20] },
+        { parameter: "rate(degY)", values: [0.05, 0.1] },
+      ],
+    });
     assert.equal(r.status, 201, JSON.stringify(r.body));
     assert.equal(r.body.pointCount, 4);
     await editor.post(`/api/sweeps/${r.body.id}/cancel`).expect(200);

@@ -12,24 +12,37 @@
 import { test, describe, before, after } from "node:test";
 import assert from "node:assert/strict";
 import { count, eq } from "drizzle-orm";
-import { makeTestContext, signIn, type TestApp } from "../helpers/test-app";
-import { schema } from "../../db/client";
-import { newId } from "../../server/ids";
-import { hashPassword } from "../../server/services/password";
-import "../../server/services/demo-traces";
-import { DEMO_TRACES_FILE, DEMO_TRACES_KEY, DEMO_TRACES_NAME, DEMO_UPLOAD_OPTIONS, demoTracesCsv, seedDemoTraces } from "../../server/services/demo-traces";
+import { makeTestContext, signIn, type TestApp } from "@/tests/helpers/test-app";
+import { schema } from "@/db/client";
+import { newId } from "@/server/ids";
+import { hashPassword } from "@/server/services/password";
+import {
+  DEMO_TRACES_FILE,
+  DEMO_TRACES_KEY,
+  DEMO_TRACES_NAME,
+  DEMO_UPLOAD_OPTIONS,
+  demoTracesCsv,
+  seedDemoTraces,
+} from "@/server/demo/traces";
 import { readFileSync } from "node:fs";
 import { join } from "node:path";
-import { templates } from "../../sim/circuit/templates";
-import { setParameter } from "../../sim/circuit/parameters";
-import { simulateChunk } from "../../sim/engine/simulate-chunk";
-import { RunSpecSchema, type RunSpec } from "../../shared/schemas/run-spec";
-import { MatchDetailSchema, TRACE_LIMITS, TracePreviewSchema, TraceSetDetailSchema, TraceSetListItemSchema, type TraceUploadOptionsInput } from "../../shared/schemas/api-traces";
-import { ApiErrorSchema } from "../../shared/schemas/errors";
-import { API_LIMITS } from "../../shared/schemas/api-runs";
-import { purgeDeletedTraceSets } from "../../server/services/traces.service";
-import { purgeDeleted } from "../../server/services/runs.service";
-import { listAudit } from "../../server/services/audit.service";
+import { templates } from "@/sim/circuit/templates";
+import { setParameter } from "@/sim/circuit/parameters";
+import { simulateChunk } from "@/sim/engine/simulate-chunk";
+import { RunSpecSchema, type RunSpec } from "@/shared/schemas/run-spec";
+import {
+  MatchDetailSchema,
+  TRACE_LIMITS,
+  TracePreviewSchema,
+  TraceSetDetailSchema,
+  TraceSetListItemSchema,
+  type TraceUploadOptionsInput,
+} from "@/shared/schemas/api-traces";
+import { ApiErrorSchema } from "@/shared/schemas/errors";
+import { API_LIMITS } from "@/shared/schemas/api-runs";
+import { purgeDeletedTraceSets } from "@/server/services/traces.service";
+import { purgeDeleted } from "@/server/services/runs.service";
+import { listAudit } from "@/server/services/audit.service";
 
 type Agent = Awaited<ReturnType<typeof signIn>>;
 let t: TestApp;
@@ -41,8 +54,17 @@ let otherLab: string;
 
 const PROGRAM = { kind: "ladder", start: 20, durations: [5, 60], repeats: 2, gap: 120 } as const;
 // 2 pulses of 5 and 2 of 60 min: on at 20, 145, 270, 455 (ladder: duration then gap)
-const SETTINGS = { thresholdMolecules: 50, windowMinutes: 30, background: { mode: "value", value: 100 }, scale: { mode: "entered", unitsPerMolecule: 2 } };
-const OPTIONS: TraceUploadOptionsInput = { timeUnit: "min", schedule: { source: "column", column: "input" }, settings: SETTINGS as never };
+const SETTINGS = {
+  thresholdMolecules: 50,
+  windowMinutes: 30,
+  background: { mode: "value", value: 100 },
+  scale: { mode: "entered", unitsPerMolecule: 2 },
+};
+const OPTIONS: TraceUploadOptionsInput = {
+  timeUnit: "min",
+  schedule: { source: "column", column: "input" },
+  settings: SETTINGS as never,
+};
 
 /** A small long-layout file: cell "a" responds to the 60-min pulse (delay 10), cell "b" never does. */
 function smallCsv(): string {
@@ -74,27 +96,69 @@ function post(agent: Agent, path: string, text: string | Buffer, options: unknow
 function spec(k: number, seed: string, replicates = 30): RunSpec {
   const circuit = setParameter(templates["c1ffl-and"].circuit, "K(makeZ,hldB)", k);
   return RunSpecSchema.parse({
-    circuit, program: PROGRAM, inputSignal: "Q", endTimeMinutes: 700, gridStepMinutes: 1, replicates, seed,
+    circuit,
+    program: PROGRAM,
+    inputSignal: "Q",
+    endTimeMinutes: 700,
+    gridStepMinutes: 1,
+    replicates,
+    seed,
     threshold: { value: 50, windowMinutes: 30 },
   });
 }
 
 /** Inserts a finished run with its pulse_stats rows, computed directly with the engine. */
-function insertRun(labId: string, s: RunSpec, status: "finished" | "running" = "finished", sweep?: { id: string; point: number }): string {
+function insertRun(
+  labId: string,
+  s: RunSpec,
+  status: "finished" | "running" = "finished",
+  sweep?: { id: string; point: number },
+): string {
   const id = newId("run_");
   const now = new Date();
-  t.ctx.db.insert(schema.runs).values({
-    id, labId, name: `run ${id}`, status, spec: s, seed: s.seed, replicates: s.replicates, chunkSize: s.replicates, engineVersion: "test",
-    sweepId: sweep?.id ?? null, sweepPoint: sweep?.point ?? null, replicatesDone: s.replicates, createdAt: now, finishedAt: now,
-  }).run();
+  t.ctx.db
+    .insert(schema.runs)
+    .values({
+      id,
+      labId,
+      name: `run ${id}`,
+      status,
+      spec: s,
+      seed: s.seed,
+      replicates: s.replicates,
+      chunkSize: s.replicates,
+      engineVersion: "test",
+      sweepId: sweep?.id ?? null,
+      sweepPoint: sweep?.point ?? null,
+      replicatesDone: s.replicates,
+      createdAt: now,
+      finishedAt: now,
+    })
+    .run();
   if (status !== "finished") return id;
   const r = simulateChunk(s, 0, s.replicates, { trajectoryReplicates: 0 });
   for (const p of r.pulses) {
-    t.ctx.db.insert(schema.pulseStats).values({
-      runId: id, replicate: p.replicate, pulseIndex: p.pulseIndex, on: p.on, off: p.off, durationBin: p.durationBin, excluded: p.excluded,
-      passed: p.passed, delay: p.delay, offDelay: p.offDelay, width: p.widths[0] ?? null, widths: p.widths, peak: p.peak,
-      timeToPeak: p.timeToPeak, fwhm: p.fwhm, baseline: p.baseline,
-    }).run();
+    t.ctx.db
+      .insert(schema.pulseStats)
+      .values({
+        runId: id,
+        replicate: p.replicate,
+        pulseIndex: p.pulseIndex,
+        on: p.on,
+        off: p.off,
+        durationBin: p.durationBin,
+        excluded: p.excluded,
+        passed: p.passed,
+        delay: p.delay,
+        offDelay: p.offDelay,
+        width: p.widths[0] ?? null,
+        widths: p.widths,
+        peak: p.peak,
+        timeToPeak: p.timeToPeak,
+        fwhm: p.fwhm,
+        baseline: p.baseline,
+      })
+      .run();
   }
   return id;
 }
@@ -107,7 +171,18 @@ before(async () => {
   const uid = newId("usr_");
   otherLab = newId("lab_");
   const now = new Date();
-  t.ctx.db.insert(schema.users).values({ id: uid, email: "outsider@example.org", displayName: "Outsider", passwordHash: await hashPassword("outsider-pass-1"), isSiteAdmin: false, notifyOnRunEnd: false, createdAt: now }).run();
+  t.ctx.db
+    .insert(schema.users)
+    .values({
+      id: uid,
+      email: "outsider@example.org",
+      displayName: "Outsider",
+      passwordHash: await hashPassword("outsider-pass-1"),
+      isSiteAdmin: false,
+      notifyOnRunEnd: false,
+      createdAt: now,
+    })
+    .run();
   t.ctx.db.insert(schema.labs).values({ id: otherLab, name: "Other lab", createdAt: now }).run();
   t.ctx.db.insert(schema.memberships).values({ labId: otherLab, userId: uid, role: "owner", createdAt: now }).run();
   outsider = await signIn(t.app, "outsider@example.org", "outsider-pass-1");
@@ -181,7 +256,10 @@ describe("upload limits and bad requests (4xx, never 500; nothing stored)", () =
     r = await post(editor, `/api/labs/${lab}/traces`, smallCsv(), { ...OPTIONS, timeUnit: "days" });
     assert.equal(r.status, 400);
     assert.match(r.body.error.message, /timeUnit/);
-    r = await editor.post(`/api/labs/${lab}/traces`).field("options", JSON.stringify(OPTIONS)).attach("data", Buffer.from(smallCsv()), "x.csv");
+    r = await editor
+      .post(`/api/labs/${lab}/traces`)
+      .field("options", JSON.stringify(OPTIONS))
+      .attach("data", Buffer.from(smallCsv()), "x.csv");
     assert.equal(r.status, 400);
     assert.equal(r.body.error.code, "bad_upload");
   });
@@ -200,23 +278,61 @@ describe("other layouts and schedule sources", () => {
   test("wide TSV in seconds, schedule from a saved input program", async () => {
     const programId = newId("prg_");
     const now = new Date();
-    t.ctx.db.insert(schema.inputPrograms).values({ id: programId, labId: lab, name: "One pulse", body: { kind: "pulses", pulses: [{ start: 1, duration: 2 }] }, createdAt: now, updatedAt: now }).run();
+    t.ctx.db
+      .insert(schema.inputPrograms)
+      .values({
+        id: programId,
+        labId: lab,
+        name: "One pulse",
+        body: { kind: "pulses", pulses: [{ start: 1, duration: 2 }] },
+        createdAt: now,
+        updatedAt: now,
+      })
+      .run();
     const rows = ["time\tc1\tc2"];
     for (let s = 0; s <= 600; s += 30) rows.push(`${s}\t${s >= 90 ? 300 : 100}\t${s >= 400 ? "" : 100}`);
-    const r = await post(editor, `/api/labs/${lab}/traces/preview`, rows.join("\n"), { ...OPTIONS, timeUnit: "s", schedule: { source: "program", programId }, settings: { ...SETTINGS, windowMinutes: 5 } }, "cells.tsv");
+    const r = await post(
+      editor,
+      `/api/labs/${lab}/traces/preview`,
+      rows.join("\n"),
+      {
+        ...OPTIONS,
+        timeUnit: "s",
+        schedule: { source: "program", programId },
+        settings: { ...SETTINGS, windowMinutes: 5 },
+      },
+      "cells.tsv",
+    );
     assert.equal(r.status, 200, JSON.stringify(r.body));
     const p = TracePreviewSchema.parse(r.body);
     assert.equal(p.layout, "wide");
     assert.equal(p.delimiter, "tab");
     assert.deepEqual(p.timeRangeMinutes, [0, 10]);
-    assert.deepEqual(p.schedule.map((x) => [x.on, x.off]), [[1, 3]]);
+    assert.deepEqual(
+      p.schedule.map((x) => [x.on, x.off]),
+      [[1, 3]],
+    );
     // c1 jumps 100 -> 300 between 1 and 1.5 min: crossing of 200 at 1.25 min
     assert.equal(p.analysis.cells[0].pulses[0].delay, 0.25);
     // c2 ends at 6.5 min, before the window of the pulse closes (3 + 5 = 8 min): not scored
     assert.deepEqual(p.analysis.cells[1].skipped, [{ pulseIndex: 0, reason: "notCovered" }]);
     const other = newId("prg_");
-    t.ctx.db.insert(schema.inputPrograms).values({ id: other, labId: otherLab, name: "Foreign", body: { kind: "pulses", pulses: [{ start: 1, duration: 2 }] }, createdAt: now, updatedAt: now }).run();
-    const bad = await post(editor, `/api/labs/${lab}/traces/preview`, rows.join("\n"), { ...OPTIONS, timeUnit: "s", schedule: { source: "program", programId: other } });
+    t.ctx.db
+      .insert(schema.inputPrograms)
+      .values({
+        id: other,
+        labId: otherLab,
+        name: "Foreign",
+        body: { kind: "pulses", pulses: [{ start: 1, duration: 2 }] },
+        createdAt: now,
+        updatedAt: now,
+      })
+      .run();
+    const bad = await post(editor, `/api/labs/${lab}/traces/preview`, rows.join("\n"), {
+      ...OPTIONS,
+      timeUnit: "s",
+      schedule: { source: "program", programId: other },
+    });
     assert.equal(bad.status, 400);
     assert.match(bad.body.error.message, /program was not found/);
   });
@@ -234,7 +350,10 @@ describe("stored trace sets", () => {
     const row = t.ctx.db.select().from(schema.traceSets).where(eq(schema.traceSets.id, id)).get()!;
     assert.equal(row.cellCount, 2);
     assert.equal(row.synthetic, false);
-    assert.equal(t.ctx.db.select({ n: count() }).from(schema.traceCells).where(eq(schema.traceCells.traceSetId, id)).get()!.n, 2);
+    assert.equal(
+      t.ctx.db.select({ n: count() }).from(schema.traceCells).where(eq(schema.traceCells.traceSetId, id)).get()!.n,
+      2,
+    );
     const list = await viewer.get(`/api/labs/${lab}/traces`).expect(200);
     const item = list.body.traceSets.find((x: { id: string }) => x.id === id);
     assert.equal(item.uploadedByName, "Demo editor");
@@ -309,22 +428,37 @@ describe("stored trace sets", () => {
     assert.equal(item.name, "To delete");
     const back = TraceSetDetailSchema.parse((await viewer.get(`/api/traces/${delId}`).expect(200)).body);
     assert.equal(back.cells.length, 2);
-    assert.ok((await viewer.get(`/api/labs/${lab}/traces`).expect(200)).body.traceSets.some((x: { id: string }) => x.id === delId), "listed again");
+    assert.ok(
+      (await viewer.get(`/api/labs/${lab}/traces`).expect(200)).body.traceSets.some(
+        (x: { id: string }) => x.id === delId,
+      ),
+      "listed again",
+    );
     assert.equal((await editor.post(`/api/traces/${delId}/restore`)).status, 409, "restoring twice");
 
-    const events = listAudit(t.ctx, lab, { limit: 20 }).filter((e) => e.targetId === delId).map((e) => e.action);
+    const events = listAudit(t.ctx, lab, { limit: 20 })
+      .filter((e) => e.targetId === delId)
+      .map((e) => e.action);
     assert.deepEqual(events.slice(0, 2), ["traces.restored", "traces.deleted"]);
   });
 
   test(`a deleted set is purged after the undo period (${API_LIMITS.undoDays} days), not before`, async () => {
     const r = await post(editor, `/api/labs/${lab}/traces`, smallCsv(), { ...OPTIONS, name: "To purge" });
     const purgeId = TraceSetDetailSchema.parse(r.body).id;
-    const keepId = TraceSetDetailSchema.parse((await post(editor, `/api/labs/${lab}/traces`, smallCsv(), { ...OPTIONS, name: "Kept" })).body).id;
+    const keepId = TraceSetDetailSchema.parse(
+      (await post(editor, `/api/labs/${lab}/traces`, smallCsv(), { ...OPTIONS, name: "Kept" })).body,
+    ).id;
     await editor.delete(`/api/traces/${purgeId}`).expect(204);
-    const deletedAt = t.ctx.db.select().from(schema.traceSets).where(eq(schema.traceSets.id, purgeId)).get()!.deletedAt!.getTime();
+    const deletedAt = t.ctx.db
+      .select()
+      .from(schema.traceSets)
+      .where(eq(schema.traceSets.id, purgeId))
+      .get()!
+      .deletedAt!.getTime();
     const day = 86_400_000;
     const exists = (id: string) => !!t.ctx.db.select().from(schema.traceSets).where(eq(schema.traceSets.id, id)).get();
-    const cells = (id: string) => t.ctx.db.select({ n: count() }).from(schema.traceCells).where(eq(schema.traceCells.traceSetId, id)).get()!.n;
+    const cells = (id: string) =>
+      t.ctx.db.select({ n: count() }).from(schema.traceCells).where(eq(schema.traceCells.traceSetId, id)).get()!.n;
 
     purgeDeletedTraceSets(t.ctx, deletedAt + API_LIMITS.undoDays * day - 60_000);
     assert.ok(exists(purgeId), "one minute before the end of the undo period the set is still there");
@@ -365,7 +499,11 @@ describe("matching and the demo set", () => {
 
   test("the committed demo file is what the recipe makes, and uploads with the demo options", async () => {
     const text = readFileSync(join(__dirname, "..", "..", "docs", "examples", DEMO_TRACES_FILE), "utf8");
-    assert.equal(text.replace(/^#.*\n/, ""), demoTracesCsv(), "docs/examples/demo-traces.csv is stale: run npx tsx scripts/make-demo-traces.ts");
+    assert.equal(
+      text.replace(/^#.*\n/, ""),
+      demoTracesCsv(),
+      "docs/examples/demo-traces.csv is stale: run npx tsx scripts/make-demo-traces.ts",
+    );
     const r = await post(editor, `/api/labs/${lab}/traces/preview`, text, DEMO_UPLOAD_OPTIONS, DEMO_TRACES_FILE);
     assert.equal(r.status, 200, JSON.stringify(r.body).slice(0, 500));
     const p = TracePreviewSchema.parse(r.body);
@@ -374,7 +512,8 @@ describe("matching and the demo set", () => {
   });
 
   test("match a run: one ranked point, stored, readable by a viewer; notes name a schedule difference", async () => {
-    const traces = (await post(editor, `/api/labs/${lab}/traces`, smallCsv(), { ...OPTIONS, name: "For run match" })).body.id;
+    const traces = (await post(editor, `/api/labs/${lab}/traces`, smallCsv(), { ...OPTIONS, name: "For run match" }))
+      .body.id;
     const runId = insertRun(lab, spec(100, "one-run"));
     const r = await editor.post(`/api/traces/${traces}/match`).send({ runId });
     assert.equal(r.status, 201, JSON.stringify(r.body));
@@ -395,20 +534,36 @@ describe("matching and the demo set", () => {
   test("match a sweep: ranked points with parameters, 5% tolerance by default, unfinished points skipped", async () => {
     const sweepId = newId("swp_");
     const ks = [40, 100, 250];
-    t.ctx.db.insert(schema.sweeps).values({
-      id: sweepId, labId: lab, name: "K sweep", baseSpec: spec(100, "base"), axes: [{ parameter: "K(makeZ,hldB)", values: [...ks, 600] }],
-      status: "running", pointCount: 4, createdAt: new Date(),
-    }).run();
+    t.ctx.db
+      .insert(schema.sweeps)
+      .values({
+        id: sweepId,
+        labId: lab,
+        name: "K sweep",
+        baseSpec: spec(100, "base"),
+        axes: [{ parameter: "K(makeZ,hldB)", values: [...ks, 600] }],
+        status: "running",
+        pointCount: 4,
+        createdAt: new Date(),
+      })
+      .run();
     ks.forEach((k, i) => insertRun(lab, spec(k, `pt-${i}`), "finished", { id: sweepId, point: i }));
     insertRun(lab, spec(600, "pt-3"), "running", { id: sweepId, point: 3 });
-    const traces = (await post(editor, `/api/labs/${lab}/traces`, smallCsv(), { ...OPTIONS, name: "For sweep match" })).body.id;
+    const traces = (await post(editor, `/api/labs/${lab}/traces`, smallCsv(), { ...OPTIONS, name: "For sweep match" }))
+      .body.id;
     const r = await editor.post(`/api/traces/${traces}/match`).send({ sweepId });
     assert.equal(r.status, 201, JSON.stringify(r.body));
     const m = MatchDetailSchema.parse(r.body).result;
     assert.equal(m.pointCount, 3);
     assert.equal(m.acceptedCount, 1, "ceil(5% of 3) = 1");
-    assert.deepEqual(m.points.map((p) => p.rank), [1, 2, 3]);
-    assert.deepEqual(m.points.map((p) => p.parameters["K(makeZ,hldB)"]).sort((a, b) => a - b), ks);
+    assert.deepEqual(
+      m.points.map((p) => p.rank),
+      [1, 2, 3],
+    );
+    assert.deepEqual(
+      m.points.map((p) => p.parameters["K(makeZ,hldB)"]).sort((a, b) => a - b),
+      ks,
+    );
     assert.equal(m.skippedRuns.length, 1);
     assert.deepEqual(m.ranges[0].sweptMin, 40);
     const d = await viewer.get(`/api/traces/${traces}`).expect(200);

@@ -1,14 +1,14 @@
 import React from "react";
-import { Screen } from "../../../components/ui/screen";
-import { Card } from "../../../components/ui/card";
-import { Text } from "../../../components/ui/text";
-import { Button } from "../../../components/ui/button";
-import { EmptyState, ErrorState, LoadingState } from "../../../components/ui/states";
-import { OutboxList } from "../../../components/admin/outbox-list";
-import { UserList } from "../../../components/admin/user-list";
-import { BackupCard } from "../../../components/admin/backup-card";
-import { useMe } from "../../../components/data/use-me";
-import { useAdminUsers, useBackup, useOutbox } from "../../../components/data/admin";
+import { Screen } from "@/components/ui/screen";
+import { Card } from "@/components/ui/card";
+import { Text } from "@/components/ui/text";
+import { Button } from "@/components/ui/button";
+import { EmptyState, ErrorState, LoadingState } from "@/components/ui/states";
+import { OutboxList } from "@/components/admin/outbox-list";
+import { UserList } from "@/components/admin/user-list";
+import { BackupCard } from "@/components/admin/backup-card";
+import { useMe } from "@/components/data/use-me";
+import { useAdminUsers, useBackup, useOutbox } from "@/components/data/admin";
 
 /** Site administration (site admins only; others see a short note and the API answers 403). */
 export default function AdminScreen() {
@@ -34,14 +34,28 @@ export default function AdminScreen() {
         ) : outbox.error ? (
           <ErrorState title="The outbox could not be loaded" error={outbox.error} onRetry={() => outbox.refetch()} />
         ) : outbox.data.messages.length === 0 ? (
-          <Text tone="muted">{outbox.data.mailer === "smtp" ? "Mail goes to a real mail server, so nothing is kept here." : "No mail yet."}</Text>
+          <Text tone="muted">
+            {outbox.data.mailer === "smtp"
+              ? "Mail goes to a real mail server, so nothing is kept here."
+              : "No mail yet."}
+          </Text>
         ) : (
           <>
-            <Text variant="caption" tone="muted">Mail caught by the local mail catcher (nothing leaves this machine), newest first.</Text>
+            <Text variant="caption" tone="muted">
+              Mail caught by the local mail catcher (nothing leaves this machine), newest first.
+            </Text>
             <OutboxList messages={outbox.data.messages} />
           </>
         )}
-        <Button label="Refresh the outbox" variant="secondary" icon="refresh-cw" compact onPress={() => outbox.refetch()} busy={outbox.isFetching && !outbox.isPending} style={{ alignSelf: "flex-start" }} />
+        <Button
+          label="Refresh the outbox"
+          variant="secondary"
+          icon="refresh-cw"
+          compact
+          onPress={() => outbox.refetch()}
+          busy={outbox.isFetching && !outbox.isPending}
+          style={{ alignSelf: "flex-start" }}
+        />
       </Card>
       <Card testID="users-card">
         <Text variant="heading">Accounts</Text>

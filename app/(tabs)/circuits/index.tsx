@@ -1,16 +1,16 @@
 import React, { useState } from "react";
 import { View } from "react-native";
 import { useRouter } from "expo-router";
-import { Screen } from "../../../components/ui/screen";
-import { Card } from "../../../components/ui/card";
-import { Text } from "../../../components/ui/text";
-import { Button } from "../../../components/ui/button";
-import { Choice } from "../../../components/ui/choice";
-import { EmptyState, ErrorState, LoadingState } from "../../../components/ui/states";
-import { useCircuits } from "../../../components/data/circuits";
-import { useCurrentLab } from "../../../components/data/current-lab";
-import { useTheme } from "../../../components/theme/use-theme";
-import { useBreakpoints } from "../../../components/theme/use-breakpoints";
+import { Screen } from "@/components/ui/screen";
+import { Card } from "@/components/ui/card";
+import { Text } from "@/components/ui/text";
+import { Button } from "@/components/ui/button";
+import { Choice } from "@/components/ui/choice";
+import { EmptyState, ErrorState, LoadingState } from "@/components/ui/states";
+import { useCircuits } from "@/components/data/circuits";
+import { useCurrentLab } from "@/components/data/current-lab";
+import { useTheme } from "@/components/theme/use-theme";
+import { useBreakpoints } from "@/components/theme/use-breakpoints";
 
 export default function CircuitsScreen() {
   const t = useTheme();
@@ -23,15 +23,33 @@ export default function CircuitsScreen() {
     <Screen
       title="Circuits"
       subtitle="Species, reactions and rate laws your lab simulates."
-      actions={canEdit ? <Button label="New circuit" icon="plus" onPress={() => router.push("/circuits/new")} testID="new-circuit" /> : null}
+      actions={
+        canEdit ? (
+          <Button label="New circuit" icon="plus" onPress={() => router.push("/circuits/new")} testID="new-circuit" />
+        ) : null
+      }
     >
-      <Choice label="Show" value={show} options={[{ value: "active", label: "Active" }, { value: "archived", label: "Archived" }]} onChange={setShow} />
+      <Choice
+        label="Show"
+        value={show}
+        options={[
+          { value: "active", label: "Active" },
+          { value: "archived", label: "Archived" },
+        ]}
+        onChange={setShow}
+      />
       {circuits.isPending ? (
         <LoadingState label="Loading circuits" />
       ) : circuits.error ? (
         <ErrorState title="Circuits could not be loaded" error={circuits.error} onRetry={() => circuits.refetch()} />
       ) : circuits.data.length === 0 ? (
-        <EmptyState icon="share-2" title={show === "archived" ? "No archived circuits" : "No circuits yet"} message="Start from a template such as the coherent feed-forward AND circuit, or from scratch." actionLabel={canEdit && show === "active" ? "New circuit" : undefined} onAction={() => router.push("/circuits/new")} />
+        <EmptyState
+          icon="share-2"
+          title={show === "archived" ? "No archived circuits" : "No circuits yet"}
+          message="Start from a template such as the coherent feed-forward AND circuit, or from scratch."
+          actionLabel={canEdit && show === "active" ? "New circuit" : undefined}
+          onAction={() => router.push("/circuits/new")}
+        />
       ) : (
         <View style={isWide ? { flexDirection: "row", flexWrap: "wrap", gap: t.spacing.md } : { gap: t.spacing.md }}>
           {circuits.data.map((c) => (
@@ -39,9 +57,14 @@ export default function CircuitsScreen() {
               <Card onPress={() => router.push(`/circuits/${c.id}`)} testID={`circuit-row-${c.id}`}>
                 <Text variant="bodyStrong">{c.name}</Text>
                 <Text variant="caption" tone="muted">
-                  {c.speciesCount} species · {c.reactionCount} reactions · output {c.outputSpecies} · version {c.currentVersion}
+                  {c.speciesCount} species · {c.reactionCount} reactions · output {c.outputSpecies} · version{" "}
+                  {c.currentVersion}
                 </Text>
-                {c.feedForwardLabel ? <Text variant="caption" tone="primary">Feed-forward: {c.feedForwardLabel}</Text> : null}
+                {c.feedForwardLabel ? (
+                  <Text variant="caption" tone="primary">
+                    Feed-forward: {c.feedForwardLabel}
+                  </Text>
+                ) : null}
               </Card>
             </View>
           ))}

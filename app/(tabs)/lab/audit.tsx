@@ -1,13 +1,13 @@
 import React from "react";
 import { View } from "react-native";
-import { Screen } from "../../../components/ui/screen";
-import { Card } from "../../../components/ui/card";
-import { Button } from "../../../components/ui/button";
-import { EmptyState, ErrorState, LoadingState } from "../../../components/ui/states";
-import { AuditList } from "../../../components/lab/audit-list";
-import { useCurrentLab } from "../../../components/data/current-lab";
-import { useAudit, useLab } from "../../../components/data/labs";
-import { useRuns } from "../../../components/data/runs";
+import { Screen } from "@/components/ui/screen";
+import { Card } from "@/components/ui/card";
+import { Button } from "@/components/ui/button";
+import { EmptyState, ErrorState, LoadingState } from "@/components/ui/states";
+import { AuditList } from "@/components/lab/audit-list";
+import { useCurrentLab } from "@/components/data/current-lab";
+import { useAudit, useLab } from "@/components/data/labs";
+import { useRuns } from "@/components/data/runs";
 
 /** The lab's audit trail (owners), newest first, paged back. */
 export default function AuditScreen() {
@@ -21,12 +21,26 @@ export default function AuditScreen() {
   if (!lab || !isOwner) {
     return (
       <Screen title={title}>
-        <EmptyState icon="lock" title="Only lab owners read the history" message="Ask an owner of this lab if you need to know who did what." />
+        <EmptyState
+          icon="lock"
+          title="Only lab owners read the history"
+          message="Ask an owner of this lab if you need to know who did what."
+        />
       </Screen>
     );
   }
-  if (audit.isPending) return <Screen title={title} subtitle={lab.name}><LoadingState label="Loading the history" /></Screen>;
-  if (audit.error) return <Screen title={title} subtitle={lab.name}><ErrorState title="The history could not be loaded" error={audit.error} onRetry={() => audit.refetch()} /></Screen>;
+  if (audit.isPending)
+    return (
+      <Screen title={title} subtitle={lab.name}>
+        <LoadingState label="Loading the history" />
+      </Screen>
+    );
+  if (audit.error)
+    return (
+      <Screen title={title} subtitle={lab.name}>
+        <ErrorState title="The history could not be loaded" error={audit.error} onRetry={() => audit.refetch()} />
+      </Screen>
+    );
   const events = audit.data.pages.flat();
   const names = {
     user: (id: string) => detail.data?.lab.members.find((m) => m.userId === id)?.displayName,
@@ -41,7 +55,13 @@ export default function AuditScreen() {
           <AuditList events={events} names={names} />
           {audit.hasNextPage ? (
             <View style={{ flexDirection: "row" }}>
-              <Button label="Show older events" variant="secondary" busy={audit.isFetchingNextPage} onPress={() => audit.fetchNextPage()} testID="audit-older" />
+              <Button
+                label="Show older events"
+                variant="secondary"
+                busy={audit.isFetchingNextPage}
+                onPress={() => audit.fetchNextPage()}
+                testID="audit-older"
+              />
             </View>
           ) : null}
         </Card>

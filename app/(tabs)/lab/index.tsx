@@ -1,25 +1,32 @@
 import React, { useState } from "react";
 import { View } from "react-native";
 import { useRouter } from "expo-router";
-import { Screen } from "../../../components/ui/screen";
-import { Card } from "../../../components/ui/card";
-import { Text } from "../../../components/ui/text";
-import { Button } from "../../../components/ui/button";
-import { LabSwitcher } from "../../../components/ui/lab-switcher";
-import { Banner, EmptyState, ErrorState, LoadingState } from "../../../components/ui/states";
-import { MemberList, memberErrorMessage } from "../../../components/lab/member-list";
-import { InviteForm } from "../../../components/lab/invite-form";
-import { InvitationList } from "../../../components/lab/invitation-list";
-import { CreateLabForm } from "../../../components/lab/create-lab-form";
-import { ConfirmAction } from "../../../components/lab/confirm-action";
-import { AuditList } from "../../../components/lab/audit-list";
-import { ROLE_WORDS, withArticle } from "../../../components/lab/roles";
-import { useCurrentLab } from "../../../components/data/current-lab";
-import { useMe } from "../../../components/data/use-me";
-import { useRuns } from "../../../components/data/runs";
+import { Screen } from "@/components/ui/screen";
+import { Card } from "@/components/ui/card";
+import { Text } from "@/components/ui/text";
+import { Button } from "@/components/ui/button";
+import { LabSwitcher } from "@/components/ui/lab-switcher";
+import { Banner, EmptyState, ErrorState, LoadingState } from "@/components/ui/states";
+import { MemberList, memberErrorMessage } from "@/components/lab/member-list";
+import { InviteForm } from "@/components/lab/invite-form";
+import { InvitationList } from "@/components/lab/invitation-list";
+import { CreateLabForm } from "@/components/lab/create-lab-form";
+import { ConfirmAction } from "@/components/lab/confirm-action";
+import { AuditList } from "@/components/lab/audit-list";
+import { ROLE_WORDS, withArticle } from "@/components/lab/roles";
+import { useCurrentLab } from "@/components/data/current-lab";
+import { useMe } from "@/components/data/use-me";
+import { useRuns } from "@/components/data/runs";
 import {
-  useAudit, useChangeRole, useCreateLab, useInvitations, useInvite, useLab, useRemoveMember, useWithdrawInvitation,
-} from "../../../components/data/labs";
+  useAudit,
+  useChangeRole,
+  useCreateLab,
+  useInvitations,
+  useInvite,
+  useLab,
+  useRemoveMember,
+  useWithdrawInvitation,
+} from "@/components/data/labs";
 
 function CreateLabCard() {
   const create = useCreateLab();
@@ -27,8 +34,14 @@ function CreateLabCard() {
   return (
     <Card>
       <Text variant="heading">Start another lab</Text>
-      <Text tone="muted">You become its owner and can invite others. Circuits, programs and runs stay in the lab they were made in.</Text>
-      <CreateLabForm busy={create.isPending} error={create.error} onSubmit={(name) => create.mutate({ name }, { onSuccess: (lab) => choose(lab.id) })} />
+      <Text tone="muted">
+        You become its owner and can invite others. Circuits, programs and runs stay in the lab they were made in.
+      </Text>
+      <CreateLabForm
+        busy={create.isPending}
+        error={create.error}
+        onSubmit={(name) => create.mutate({ name }, { onSuccess: (lab) => choose(lab.id) })}
+      />
     </Card>
   );
 }
@@ -55,7 +68,11 @@ export default function LabScreen() {
   if (!current) {
     return (
       <Screen title="Lab">
-        <EmptyState icon="users" title="You are not in a lab yet" message="Open an invitation link from a lab owner, or start a lab of your own." />
+        <EmptyState
+          icon="users"
+          title="You are not in a lab yet"
+          message="Open an invitation link from a lab owner, or start a lab of your own."
+        />
         <CreateLabCard />
       </Screen>
     );
@@ -63,10 +80,15 @@ export default function LabScreen() {
   const members = lab.data?.lab.members ?? [];
   const memberName = (id: string) => members.find((m) => m.userId === id)?.displayName;
   const runName = (id: string) => runs.data?.find((r) => r.id === id)?.name;
-  const roleError = changeRole.error && changeRole.variables ? { userId: changeRole.variables.userId, error: changeRole.error } : null;
+  const roleError =
+    changeRole.error && changeRole.variables ? { userId: changeRole.variables.userId, error: changeRole.error } : null;
   const removeError = remove.error && remove.variables ? { userId: remove.variables, error: remove.error } : null;
   return (
-    <Screen title={current.name} subtitle={`As ${withArticle(current.role)} you ${ROLE_WORDS[current.role].youCan}.`} testID="lab-screen">
+    <Screen
+      title={current.name}
+      subtitle={`As ${withArticle(current.role)} you ${ROLE_WORDS[current.role].youCan}.`}
+      testID="lab-screen"
+    >
       <Card>
         <Text variant="heading">Current lab</Text>
         <LabSwitcher />
@@ -82,7 +104,9 @@ export default function LabScreen() {
             members={members}
             myUserId={myId}
             canManage={isOwner}
-            busyUserId={remove.isPending ? remove.variables : changeRole.isPending ? changeRole.variables?.userId : null}
+            busyUserId={
+              remove.isPending ? remove.variables : changeRole.isPending ? changeRole.variables?.userId : null
+            }
             error={roleError ?? removeError}
             onChangeRole={(userId, role) => changeRole.mutate({ userId, role })}
             onRemove={(userId) => remove.mutate(userId)}
@@ -109,9 +133,18 @@ export default function LabScreen() {
           {invitations.isPending ? (
             <LoadingState label="Loading invitations" />
           ) : invitations.error ? (
-            <ErrorState title="Invitations could not be loaded" error={invitations.error} onRetry={() => invitations.refetch()} />
+            <ErrorState
+              title="Invitations could not be loaded"
+              error={invitations.error}
+              onRetry={() => invitations.refetch()}
+            />
           ) : (
-            <InvitationList invitations={invitations.data} busyId={withdraw.isPending ? withdraw.variables : null} error={withdraw.error} onWithdraw={(id) => withdraw.mutate(id)} />
+            <InvitationList
+              invitations={invitations.data}
+              busyId={withdraw.isPending ? withdraw.variables : null}
+              error={withdraw.error}
+              onWithdraw={(id) => withdraw.mutate(id)}
+            />
           )}
         </Card>
       ) : null}
@@ -128,14 +161,24 @@ export default function LabScreen() {
             <AuditList events={audit.data.pages[0] ?? []} names={{ user: memberName, run: runName }} />
           )}
           <View style={{ flexDirection: "row" }}>
-            <Button label="See the whole history" variant="secondary" icon="clock" onPress={() => router.push("/lab/audit")} testID="open-audit" />
+            <Button
+              label="See the whole history"
+              variant="secondary"
+              icon="clock"
+              onPress={() => router.push("/lab/audit")}
+              testID="open-audit"
+            />
           </View>
         </Card>
       ) : null}
       <Card>
         <Text variant="heading">Leave this lab</Text>
         <Text tone="muted">You lose access to its circuits, programs and runs until someone invites you again.</Text>
-        {leave.error ? <Banner tone="danger" testID="leave-error">{memberErrorMessage(leave.error)}</Banner> : null}
+        {leave.error ? (
+          <Banner tone="danger" testID="leave-error">
+            {memberErrorMessage(leave.error)}
+          </Banner>
+        ) : null}
         <View style={{ flexDirection: "row" }}>
           <ConfirmAction
             label="Leave lab"

@@ -1,11 +1,11 @@
 import React from "react";
 import { useRouter } from "expo-router";
-import { Screen } from "../../../components/ui/screen";
-import { ProgramEditor, PROGRAM_DEFAULTS } from "../../../components/forms/program-editor";
-import { ProgramPreview } from "../../../components/charts/program-preview";
-import { stripPrefix } from "../../../components/forms/zod-errors";
-import { useCreateProgram } from "../../../components/data/programs";
-import { ApiError } from "../../../components/data/api";
+import { Screen } from "@/components/ui/screen";
+import { ProgramEditor, PROGRAM_DEFAULTS } from "@/components/forms/program-editor";
+import { ProgramPreview } from "@/components/charts/program-preview";
+import { stripPrefix } from "@/components/forms/zod-errors";
+import { useCreateProgram } from "@/components/data/programs";
+import { ApiError } from "@/components/data/api";
 
 export default function NewProgram() {
   const router = useRouter();
@@ -21,7 +21,9 @@ export default function NewProgram() {
         serverErrors={server ? stripPrefix(server.fieldMap(), "body.") : {}}
         serverMessage={server?.message}
         renderPreview={(program, end) => <ProgramPreview program={program} endTimeMinutes={end} />}
-        onSubmit={(name, body) => create.mutate({ name, body }, { onSuccess: (d) => router.replace(`/programs/${d.program.id}`) })}
+        onSubmit={(name, body) =>
+          create.mutate({ name, body }, { onSuccess: (d) => router.replace(`/programs/${d.program.id}`) })
+        }
       />
     </Screen>
   );

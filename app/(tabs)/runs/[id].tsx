@@ -1,31 +1,42 @@
 import React, { useState } from "react";
 import { Linking, View } from "react-native";
 import { useLocalSearchParams, useRouter } from "expo-router";
-import { Screen } from "../../../components/ui/screen";
-import { Card } from "../../../components/ui/card";
-import { Text } from "../../../components/ui/text";
-import { Button } from "../../../components/ui/button";
-import { ProgressBar } from "../../../components/ui/progress-bar";
-import { StatusBadge } from "../../../components/ui/status-badge";
-import { SafetyNote } from "../../../components/ui/safety-note";
-import { DataTable, type Column } from "../../../components/ui/data-table";
-import { Banner, ErrorState, LoadingState } from "../../../components/ui/states";
-import { HeadlineCards } from "../../../components/runs/headline-cards";
-import { ReproductionCard } from "../../../components/runs/reproduction-card";
-import { AccelerationCard } from "../../../components/runs/acceleration-card";
-import { ShareLinkCard } from "../../../components/runs/share-link";
-import { useReproduceRun } from "../../../components/data/bundles";
-import { LazyChart } from "../../../components/charts/lazy-chart";
-import { delayHistogramSpec, filterCurveSpec, meanBandSpec, trajectoriesSpec } from "../../../components/charts/specs";
-import { formatNumber } from "../../../components/charts/chart-spec";
+import { Screen } from "@/components/ui/screen";
+import { Card } from "@/components/ui/card";
+import { Text } from "@/components/ui/text";
+import { Button } from "@/components/ui/button";
+import { ProgressBar } from "@/components/ui/progress-bar";
+import { StatusBadge } from "@/components/ui/status-badge";
+import { SafetyNote } from "@/components/ui/safety-note";
+import { DataTable, type Column } from "@/components/ui/data-table";
+import { Banner, ErrorState, LoadingState } from "@/components/ui/states";
+import { HeadlineCards } from "@/components/runs/headline-cards";
+import { ReproductionCard } from "@/components/runs/reproduction-card";
+import { AccelerationCard } from "@/components/runs/acceleration-card";
+import { ShareLinkCard } from "@/components/runs/share-link";
+import { useReproduceRun } from "@/components/data/bundles";
+import { LazyChart } from "@/components/charts/lazy-chart";
+import { delayHistogramSpec, filterCurveSpec, meanBandSpec, trajectoriesSpec } from "@/components/charts/specs";
+import { formatNumber } from "@/components/charts/chart-spec";
 import {
-  ACTIVE_STATUSES, exportUrl, runSummary, useArchiveRun, useCancelRun, useDeleteRun, useLaunchControl, useReplicates, useRestoreRun, useRun, useRunSeries, useRuns,
+  ACTIVE_STATUSES,
+  exportUrl,
+  runSummary,
+  useArchiveRun,
+  useCancelRun,
+  useDeleteRun,
+  useLaunchControl,
+  useReplicates,
+  useRestoreRun,
+  useRun,
+  useRunSeries,
+  useRuns,
   type ReplicateQuery,
-} from "../../../components/data/runs";
-import { useCurrentLab } from "../../../components/data/current-lab";
-import { useTheme } from "../../../components/theme/use-theme";
-import { useBreakpoints } from "../../../components/theme/use-breakpoints";
-import type { ReplicatePage } from "../../../shared/schemas/api-runs";
+} from "@/components/data/runs";
+import { useCurrentLab } from "@/components/data/current-lab";
+import { useTheme } from "@/components/theme/use-theme";
+import { useBreakpoints } from "@/components/theme/use-breakpoints";
+import type { ReplicatePage } from "@/shared/schemas/api-runs";
 
 type Row = ReplicatePage["rows"][number];
 const fmt = (v: number | null) => (v === null ? "–" : formatNumber(v));
@@ -34,7 +45,13 @@ const COLUMNS: Column<Row>[] = [
   { key: "pulseIndex", label: "Pulse", width: 72, sortable: true, render: (r) => String(r.pulseIndex) },
   { key: "durationBin", label: "Duration (min)", width: 120, sortable: true, render: (r) => fmt(r.durationBin) },
   { key: "passed", label: "Passed", width: 80, render: (r) => (r.excluded ? "excluded" : r.passed ? "yes" : "no") },
-  { key: "delay", label: "Delay (min)", width: 104, sortable: true, render: (r) => (r.delay === null ? "none" : fmt(r.delay)) },
+  {
+    key: "delay",
+    label: "Delay (min)",
+    width: 104,
+    sortable: true,
+    render: (r) => (r.delay === null ? "none" : fmt(r.delay)),
+  },
   { key: "offDelay", label: "OFF delay (min)", width: 124, sortable: true, render: (r) => fmt(r.offDelay) },
   { key: "width", label: "Width (min)", width: 104, sortable: true, render: (r) => fmt(r.width) },
   { key: "peak", label: "Peak", width: 88, sortable: true, render: (r) => fmt(r.peak) },
@@ -54,7 +71,9 @@ function ReplicateTable({ runId }: { runId: string }) {
       rows={rows.data.rows}
       sort={q.sort}
       dir={q.dir}
-      onSort={(key) => setQ((s) => ({ ...s, sort: key, dir: s.sort === key && s.dir === "asc" ? "desc" : "asc", page: 1 }))}
+      onSort={(key) =>
+        setQ((s) => ({ ...s, sort: key, dir: s.sort === key && s.dir === "asc" ? "desc" : "asc", page: 1 }))
+      }
       page={q.page}
       pageCount={Math.ceil(rows.data.total / q.pageSize)}
       onPage={(page) => setQ((s) => ({ ...s, page }))}
@@ -70,13 +89,19 @@ function RunCharts({ runId, finished }: { runId: string; finished: boolean }) {
   const summary = runSummary(run.data);
   const specs = [
     summary ? { key: "filter", title: "Filter curve", spec: filterCurveSpec(summary, t.colors) } : null,
-    series.data ? { key: "trajectories", title: "Sample trajectories", spec: trajectoriesSpec(series.data, t.colors) } : null,
+    series.data
+      ? { key: "trajectories", title: "Sample trajectories", spec: trajectoriesSpec(series.data, t.colors) }
+      : null,
     series.data ? { key: "mean", title: "Mean and spread", spec: meanBandSpec(series.data, t.colors) } : null,
     summary ? { key: "delays", title: "Response delays", spec: delayHistogramSpec(summary, t.colors) } : null,
-  ].filter((s): s is { key: string; title: string; spec: NonNullable<ReturnType<typeof trajectoriesSpec>> } => !!s && !!s.spec);
+  ].filter(
+    (s): s is { key: string; title: string; spec: NonNullable<ReturnType<typeof trajectoriesSpec>> } => !!s && !!s.spec,
+  );
   return (
     <View style={isWide ? { flexDirection: "row", flexWrap: "wrap", gap: t.spacing.lg } : { gap: t.spacing.lg }}>
-      {series.error ? <ErrorState title="Time series could not be loaded" error={series.error} onRetry={() => series.refetch()} /> : null}
+      {series.error ? (
+        <ErrorState title="Time series could not be loaded" error={series.error} onRetry={() => series.refetch()} />
+      ) : null}
       {specs.map((s) => (
         <View key={s.key} style={isWide ? { width: "48%", flexGrow: 1 } : undefined}>
           <Card testID={`chart-card-${s.key}`}>
@@ -103,8 +128,18 @@ export default function RunDetailScreen() {
   const restore = useRestoreRun();
   const control = useLaunchControl();
   const labRuns = useRuns();
-  if (q.isPending) return <Screen title="Run"><LoadingState label="Loading run" /></Screen>;
-  if (q.error) return <Screen title="Run"><ErrorState title="This run could not be loaded" error={q.error} onRetry={() => q.refetch()} /></Screen>;
+  if (q.isPending)
+    return (
+      <Screen title="Run">
+        <LoadingState label="Loading run" />
+      </Screen>
+    );
+  if (q.error)
+    return (
+      <Screen title="Run">
+        <ErrorState title="This run could not be loaded" error={q.error} onRetry={() => q.refetch()} />
+      </Screen>
+    );
   const run = q.data;
   const summary = runSummary(run);
   const active = ACTIVE_STATUSES.has(run.status);
@@ -117,10 +152,34 @@ export default function RunDetailScreen() {
       subtitle={`${run.circuitName} · ${run.programName}`}
       actions={
         <>
-          {active && canEdit ? <Button label="Cancel run" variant="danger" icon="x-circle" busy={cancel.isPending} onPress={() => cancel.mutate(run.id)} testID="cancel-run" /> : null}
-          {hasResults ? <Button label="Compare" variant="secondary" icon="columns" onPress={() => router.push(`/compare?ids=${[run.id, controlRun?.id].filter(Boolean).join(",")}`)} testID="compare-run" /> : null}
+          {active && canEdit ? (
+            <Button
+              label="Cancel run"
+              variant="danger"
+              icon="x-circle"
+              busy={cancel.isPending}
+              onPress={() => cancel.mutate(run.id)}
+              testID="cancel-run"
+            />
+          ) : null}
+          {hasResults ? (
+            <Button
+              label="Compare"
+              variant="secondary"
+              icon="columns"
+              onPress={() => router.push(`/compare?ids=${[run.id, controlRun?.id].filter(Boolean).join(",")}`)}
+              testID="compare-run"
+            />
+          ) : null}
           {hasResults && canEdit ? (
-            <Button label="Reproduce" variant="secondary" icon="repeat" busy={reproduce.isPending} onPress={() => reproduce.mutate(run.id, { onSuccess: (r) => router.push(`/runs/${r.id}`) })} testID="reproduce-run" />
+            <Button
+              label="Reproduce"
+              variant="secondary"
+              icon="repeat"
+              busy={reproduce.isPending}
+              onPress={() => reproduce.mutate(run.id, { onSuccess: (r) => router.push(`/runs/${r.id}`) })}
+              testID="reproduce-run"
+            />
           ) : null}
         </>
       }
@@ -129,23 +188,45 @@ export default function RunDetailScreen() {
         <Banner tone="notice">
           <View style={{ gap: t.spacing.sm }}>
             <Text style={{ color: t.colors.onNoticeSoft }}>This run is deleted and will be purged after 7 days.</Text>
-            <Button label="Undo delete" variant="secondary" onPress={() => restore.mutate(run.id)} busy={restore.isPending} style={{ alignSelf: "flex-start" }} />
+            <Button
+              label="Undo delete"
+              variant="secondary"
+              onPress={() => restore.mutate(run.id)}
+              busy={restore.isPending}
+              style={{ alignSelf: "flex-start" }}
+            />
           </View>
         </Banner>
       ) : null}
       <Card testID="run-status">
-        <View style={{ flexDirection: "row", justifyContent: "space-between", alignItems: "center", gap: t.spacing.sm, flexWrap: "wrap" }}>
+        <View
+          style={{
+            flexDirection: "row",
+            justifyContent: "space-between",
+            alignItems: "center",
+            gap: t.spacing.sm,
+            flexWrap: "wrap",
+          }}
+        >
           <StatusBadge status={run.status} />
-          <Text variant="caption" tone="muted">seed {run.seed} · engine {run.engineVersion}</Text>
+          <Text variant="caption" tone="muted">
+            seed {run.seed} · engine {run.engineVersion}
+          </Text>
         </View>
-        <ProgressBar value={run.status === "finished" ? 1 : p.fraction} label={`Progress of ${run.name}`} color={t.colors.status[run.status]} />
+        <ProgressBar
+          value={run.status === "finished" ? 1 : p.fraction}
+          label={`Progress of ${run.name}`}
+          color={t.colors.status[run.status]}
+        />
         <Text variant="caption" tone="muted">
           {p.replicatesDone.toLocaleString("en")} of {p.replicates.toLocaleString("en")} replicates
           {active && p.secondsLeft !== null ? ` · about ${Math.ceil(p.secondsLeft)} s left` : ""}
           {run.statusReason ? ` · ${run.statusReason}` : ""}
         </Text>
       </Card>
-      {run.reproduction ? <ReproductionCard reproduction={run.reproduction} onOpenOriginal={(of) => router.push(`/runs/${of}`)} /> : null}
+      {run.reproduction ? (
+        <ReproductionCard reproduction={run.reproduction} onOpenOriginal={(of) => router.push(`/runs/${of}`)} />
+      ) : null}
       {reproduce.error ? <ErrorState title="The reproduction could not be started" error={reproduce.error} /> : null}
       <SafetyNote />
       {summary ? (
@@ -156,7 +237,13 @@ export default function RunDetailScreen() {
       ) : active ? (
         <Text tone="muted">Figures appear when the run finishes.</Text>
       ) : null}
-      {run.acceleration ? <AccelerationCard acceleration={run.acceleration} runId={run.id} onOpen={(other) => router.push(`/runs/${other}`)} /> : null}
+      {run.acceleration ? (
+        <AccelerationCard
+          acceleration={run.acceleration}
+          runId={run.id}
+          onOpen={(other) => router.push(`/runs/${other}`)}
+        />
+      ) : null}
       {hasResults ? <RunCharts runId={run.id} finished={hasResults} /> : null}
       {hasResults ? (
         <Card>
@@ -169,10 +256,19 @@ export default function RunDetailScreen() {
           <Text variant="heading">Export</Text>
           <View style={{ flexDirection: "row", flexWrap: "wrap", gap: t.spacing.sm }}>
             {(["replicates.csv", "aggregates.csv", "summary.json", "bundle.json"] as const).map((f) => (
-              <Button key={f} label={`Download ${f}`} variant="secondary" icon="download" compact onPress={() => Linking.openURL(exportUrl(run.id, f))} />
+              <Button
+                key={f}
+                label={`Download ${f}`}
+                variant="secondary"
+                icon="download"
+                compact
+                onPress={() => Linking.openURL(exportUrl(run.id, f))}
+              />
             ))}
           </View>
-          <Text variant="caption" tone="muted">The bundle holds the circuit version, program, settings and seed, so anyone can reproduce the run exactly.</Text>
+          <Text variant="caption" tone="muted">
+            The bundle holds the circuit version, program, settings and seed, so anyone can reproduce the run exactly.
+          </Text>
         </Card>
       ) : null}
       <ShareLinkCard runId={run.id} labName={lab?.name} canEdit={canEdit} />
@@ -182,15 +278,45 @@ export default function RunDetailScreen() {
           <View style={{ flexDirection: "row", flexWrap: "wrap", gap: t.spacing.sm }}>
             {hasResults && !run.controlOf ? (
               controlRun ? (
-                <Button label="Open the matched control" variant="secondary" icon="git-branch" onPress={() => router.push(`/runs/${controlRun.id}`)} />
+                <Button
+                  label="Open the matched control"
+                  variant="secondary"
+                  icon="git-branch"
+                  onPress={() => router.push(`/runs/${controlRun.id}`)}
+                />
               ) : (
-                <Button label="Run a matched simple-regulation control" variant="secondary" icon="git-branch" busy={control.isPending} onPress={() => control.mutate(run.id, { onSuccess: (c) => router.push(`/runs/${c.id}`) })} />
+                <Button
+                  label="Run a matched simple-regulation control"
+                  variant="secondary"
+                  icon="git-branch"
+                  busy={control.isPending}
+                  onPress={() => control.mutate(run.id, { onSuccess: (c) => router.push(`/runs/${c.id}`) })}
+                />
               )
             ) : null}
-            {!active ? <Button label={run.archived ? "Archived" : "Archive"} variant="secondary" icon="archive" disabled={run.archived} busy={archive.isPending} onPress={() => archive.mutate(run.id)} /> : null}
-            {!active && !run.deletedAt ? <Button label="Delete" variant="secondary" icon="trash-2" busy={del.isPending} onPress={() => del.mutate(run.id)} /> : null}
+            {!active ? (
+              <Button
+                label={run.archived ? "Archived" : "Archive"}
+                variant="secondary"
+                icon="archive"
+                disabled={run.archived}
+                busy={archive.isPending}
+                onPress={() => archive.mutate(run.id)}
+              />
+            ) : null}
+            {!active && !run.deletedAt ? (
+              <Button
+                label="Delete"
+                variant="secondary"
+                icon="trash-2"
+                busy={del.isPending}
+                onPress={() => del.mutate(run.id)}
+              />
+            ) : null}
           </View>
-          {control.error || archive.error || del.error || cancel.error ? <ErrorState error={control.error ?? archive.error ?? del.error ?? cancel.error} /> : null}
+          {control.error || archive.error || del.error || cancel.error ? (
+            <ErrorState error={control.error ?? archive.error ?? del.error ?? cancel.error} />
+          ) : null}
         </Card>
       ) : null}
     </Screen>

@@ -1,15 +1,15 @@
 import React, { useState } from "react";
 import { View } from "react-native";
 import { useRouter } from "expo-router";
-import { Screen } from "../../../components/ui/screen";
-import { Button } from "../../../components/ui/button";
-import { Choice } from "../../../components/ui/choice";
-import { RunRow } from "../../../components/ui/run-row";
-import { EmptyState, ErrorState, LoadingState } from "../../../components/ui/states";
-import { useRuns, sortRunsForHome } from "../../../components/data/runs";
-import { useCurrentLab } from "../../../components/data/current-lab";
-import { useTheme } from "../../../components/theme/use-theme";
-import { ImportProblems, useBundleImportFlow } from "../../../components/runs/import-bundle";
+import { Screen } from "@/components/ui/screen";
+import { Button } from "@/components/ui/button";
+import { Choice } from "@/components/ui/choice";
+import { RunRow } from "@/components/ui/run-row";
+import { EmptyState, ErrorState, LoadingState } from "@/components/ui/states";
+import { useRuns, sortRunsForHome } from "@/components/data/runs";
+import { useCurrentLab } from "@/components/data/current-lab";
+import { useTheme } from "@/components/theme/use-theme";
+import { ImportProblems, useBundleImportFlow } from "@/components/runs/import-bundle";
 
 export default function RunsScreen() {
   const t = useTheme();
@@ -24,23 +24,49 @@ export default function RunsScreen() {
       actions={
         <>
           <Button label="Compare runs" variant="secondary" icon="columns" onPress={() => router.push("/compare")} />
-          {canEdit ? <Button label="Import bundle" variant="secondary" icon="upload" busy={importer.busy} onPress={importer.start} testID="import-bundle" /> : null}
+          {canEdit ? (
+            <Button
+              label="Import bundle"
+              variant="secondary"
+              icon="upload"
+              busy={importer.busy}
+              onPress={importer.start}
+              testID="import-bundle"
+            />
+          ) : null}
           {canEdit ? <Button label="Start a study" icon="play" onPress={() => router.push("/runs/new")} /> : null}
         </>
       }
     >
       {importer.problem ? <ImportProblems problem={importer.problem} /> : null}
-      <Choice label="Show" value={show} options={[{ value: "active", label: "Current" }, { value: "archived", label: "Archived" }]} onChange={setShow} />
+      <Choice
+        label="Show"
+        value={show}
+        options={[
+          { value: "active", label: "Current" },
+          { value: "archived", label: "Archived" },
+        ]}
+        onChange={setShow}
+      />
       {runs.isPending ? (
         <LoadingState label="Loading runs" />
       ) : runs.error ? (
         <ErrorState title="Runs could not be loaded" error={runs.error} onRetry={() => runs.refetch()} />
       ) : runs.data.length === 0 ? (
-        <EmptyState icon="play-circle" title={show === "archived" ? "No archived runs" : "No runs yet"} actionLabel={canEdit && show === "active" ? "Start a study" : undefined} onAction={() => router.push("/runs/new")} />
+        <EmptyState
+          icon="play-circle"
+          title={show === "archived" ? "No archived runs" : "No runs yet"}
+          actionLabel={canEdit && show === "active" ? "Start a study" : undefined}
+          onAction={() => router.push("/runs/new")}
+        />
       ) : (
         <View style={{ gap: t.spacing.sm }}>
           {sortRunsForHome(runs.data).map((r) => (
-            <RunRow key={r.id} run={{ ...r, replicatesDone: r.progress.replicatesDone }} onPress={() => router.push(`/runs/${r.id}`)} />
+            <RunRow
+              key={r.id}
+              run={{ ...r, replicatesDone: r.progress.replicatesDone }}
+              onPress={() => router.push(`/runs/${r.id}`)}
+            />
           ))}
         </View>
       )}

@@ -1,22 +1,22 @@
 import React, { useEffect, useState } from "react";
 import { View } from "react-native";
 import { useLocalSearchParams, useRouter } from "expo-router";
-import { Screen } from "../../../components/ui/screen";
-import { Card } from "../../../components/ui/card";
-import { Text } from "../../../components/ui/text";
-import { Field } from "../../../components/ui/field";
-import { Button } from "../../../components/ui/button";
-import { Choice } from "../../../components/ui/choice";
-import { Banner, EmptyState, ErrorState, LoadingState } from "../../../components/ui/states";
-import { useCircuit, useCircuits } from "../../../components/data/circuits";
-import { useProgram, usePrograms } from "../../../components/data/programs";
-import { useLaunchRun, useRunEstimate } from "../../../components/data/runs";
-import { ApiError } from "../../../components/data/api";
-import { randomSeed, toLaunchRequest, validateRunForm, type RunFormValues } from "../../../components/forms/run-settings";
-import { suggestedEndTime } from "../../../components/forms/program-editor";
-import { formatNumber } from "../../../components/charts/chart-spec";
-import { useTheme } from "../../../components/theme/use-theme";
-import { useBreakpoints } from "../../../components/theme/use-breakpoints";
+import { Screen } from "@/components/ui/screen";
+import { Card } from "@/components/ui/card";
+import { Text } from "@/components/ui/text";
+import { Field } from "@/components/ui/field";
+import { Button } from "@/components/ui/button";
+import { Choice } from "@/components/ui/choice";
+import { Banner, EmptyState, ErrorState, LoadingState } from "@/components/ui/states";
+import { useCircuit, useCircuits } from "@/components/data/circuits";
+import { useProgram, usePrograms } from "@/components/data/programs";
+import { useLaunchRun, useRunEstimate } from "@/components/data/runs";
+import { ApiError } from "@/components/data/api";
+import { randomSeed, toLaunchRequest, validateRunForm, type RunFormValues } from "@/components/forms/run-settings";
+import { suggestedEndTime } from "@/components/forms/program-editor";
+import { formatNumber } from "@/components/charts/chart-spec";
+import { useTheme } from "@/components/theme/use-theme";
+import { useBreakpoints } from "@/components/theme/use-breakpoints";
 
 function formatSeconds(s: number): string {
   if (s < 60) return `about ${Math.max(1, Math.round(s))} s`;
@@ -58,13 +58,16 @@ export default function NewRun() {
   // Defaults that follow the choices: the first signal, an end time covering the program, a name.
   useEffect(() => {
     const signals = circuit.data?.body.signals ?? [];
-    if (signals.length && !signals.some((s) => s.name === v.inputSignal)) setV((s) => ({ ...s, inputSignal: signals[0].name }));
+    if (signals.length && !signals.some((s) => s.name === v.inputSignal))
+      setV((s) => ({ ...s, inputSignal: signals[0].name }));
   }, [circuit.data, v.inputSignal]);
   useEffect(() => {
-    if (program.data && !touched.has("endTimeMinutes")) setV((s) => ({ ...s, endTimeMinutes: String(suggestedEndTime(program.data.body)) }));
+    if (program.data && !touched.has("endTimeMinutes"))
+      setV((s) => ({ ...s, endTimeMinutes: String(suggestedEndTime(program.data.body)) }));
   }, [program.data, touched]);
   useEffect(() => {
-    if (!touched.has("name") && circuit.data && program.data) setV((s) => ({ ...s, name: `${circuit.data.circuit.name} · ${program.data.program.name}` }));
+    if (!touched.has("name") && circuit.data && program.data)
+      setV((s) => ({ ...s, name: `${circuit.data.circuit.name} · ${program.data.program.name}` }));
   }, [circuit.data, program.data, touched]);
 
   const errors = validateRunForm(v);
@@ -81,8 +84,24 @@ export default function NewRun() {
   const err = (k: keyof RunFormValues, serverKey?: string) =>
     (showAll || touched.has(k) ? errors[k] : undefined) ?? (serverKey ? serverFields[serverKey] : undefined);
 
-  if (circuits.isPending || programs.isPending) return <Screen title="Start a study"><LoadingState /></Screen>;
-  if (circuits.error || programs.error) return <Screen title="Start a study"><ErrorState error={circuits.error ?? programs.error} onRetry={() => { circuits.refetch(); programs.refetch(); }} /></Screen>;
+  if (circuits.isPending || programs.isPending)
+    return (
+      <Screen title="Start a study">
+        <LoadingState />
+      </Screen>
+    );
+  if (circuits.error || programs.error)
+    return (
+      <Screen title="Start a study">
+        <ErrorState
+          error={circuits.error ?? programs.error}
+          onRetry={() => {
+            circuits.refetch();
+            programs.refetch();
+          }}
+        />
+      </Screen>
+    );
   if (!circuits.data.length || !programs.data.length) {
     return (
       <Screen title="Start a study">
@@ -95,47 +114,163 @@ export default function NewRun() {
       </Screen>
     );
   }
-  const row = (children: React.ReactNode) => <View style={{ flexDirection: isWide ? "row" : "column", gap: t.spacing.md, flexWrap: "wrap" }}>{children}</View>;
+  const row = (children: React.ReactNode) => (
+    <View style={{ flexDirection: isWide ? "row" : "column", gap: t.spacing.md, flexWrap: "wrap" }}>{children}</View>
+  );
   const signals = circuit.data?.body.signals ?? [];
   return (
     <Screen title="Start a study" subtitle="One circuit, one input program, many stochastic replicates.">
-      {server && !server.fields.length ? <Banner tone="danger" testID="launch-error">{server.message}</Banner> : null}
+      {server && !server.fields.length ? (
+        <Banner tone="danger" testID="launch-error">
+          {server.message}
+        </Banner>
+      ) : null}
       <Card>
         <Text variant="heading">What to simulate</Text>
-        <Choice label="Circuit" testID="run-circuit" value={v.circuitId} options={circuits.data.map((c) => ({ value: c.id, label: c.name }))} onChange={(id) => set("circuitId", id)} />
-        {err("circuitId", "circuitId") ? <Text variant="caption" tone="danger" role="alert">{err("circuitId", "circuitId")}</Text> : null}
-        <Choice label="Input program" testID="run-program" value={v.programId} options={programs.data.map((p) => ({ value: p.id, label: p.name }))} onChange={(id) => set("programId", id)} />
-        {err("programId", "programId") ? <Text variant="caption" tone="danger" role="alert">{err("programId", "programId")}</Text> : null}
-        {signals.length > 1 ? <Choice label="Signal the program drives" value={v.inputSignal} options={signals.map((s) => ({ value: s.name, label: s.name }))} onChange={(s) => set("inputSignal", s)} /> : null}
-        <Field label="Run name" value={v.name} onChangeText={(x) => set("name", x)} error={err("name", "name")} testID="run-name" />
+        <Choice
+          label="Circuit"
+          testID="run-circuit"
+          value={v.circuitId}
+          options={circuits.data.map((c) => ({ value: c.id, label: c.name }))}
+          onChange={(id) => set("circuitId", id)}
+        />
+        {err("circuitId", "circuitId") ? (
+          <Text variant="caption" tone="danger" role="alert">
+            {err("circuitId", "circuitId")}
+          </Text>
+        ) : null}
+        <Choice
+          label="Input program"
+          testID="run-program"
+          value={v.programId}
+          options={programs.data.map((p) => ({ value: p.id, label: p.name }))}
+          onChange={(id) => set("programId", id)}
+        />
+        {err("programId", "programId") ? (
+          <Text variant="caption" tone="danger" role="alert">
+            {err("programId", "programId")}
+          </Text>
+        ) : null}
+        {signals.length > 1 ? (
+          <Choice
+            label="Signal the program drives"
+            value={v.inputSignal}
+            options={signals.map((s) => ({ value: s.name, label: s.name }))}
+            onChange={(s) => set("inputSignal", s)}
+          />
+        ) : null}
+        <Field
+          label="Run name"
+          value={v.name}
+          onChangeText={(x) => set("name", x)}
+          error={err("name", "name")}
+          testID="run-name"
+        />
       </Card>
       <Card>
         <Text variant="heading">Settings</Text>
         {row(
           <>
-            <Field label="Replicates" value={v.replicates} onChangeText={(x) => set("replicates", x)} error={err("replicates", "settings.replicates")} keyboardType="number-pad" testID="run-replicates" style={{ flexGrow: 1, flexBasis: 150 }} />
-            <Field label="End time" unit="min" value={v.endTimeMinutes} onChangeText={(x) => set("endTimeMinutes", x)} error={err("endTimeMinutes", "settings.endTimeMinutes")} keyboardType="decimal-pad" testID="run-end-time" style={{ flexGrow: 1, flexBasis: 150 }} />
-            <Field label="Grid step" unit="min" value={v.gridStepMinutes} onChangeText={(x) => set("gridStepMinutes", x)} error={err("gridStepMinutes", "settings.gridStepMinutes")} keyboardType="decimal-pad" testID="run-grid" style={{ flexGrow: 1, flexBasis: 150 }} />
+            <Field
+              label="Replicates"
+              value={v.replicates}
+              onChangeText={(x) => set("replicates", x)}
+              error={err("replicates", "settings.replicates")}
+              keyboardType="number-pad"
+              testID="run-replicates"
+              style={{ flexGrow: 1, flexBasis: 150 }}
+            />
+            <Field
+              label="End time"
+              unit="min"
+              value={v.endTimeMinutes}
+              onChangeText={(x) => set("endTimeMinutes", x)}
+              error={err("endTimeMinutes", "settings.endTimeMinutes")}
+              keyboardType="decimal-pad"
+              testID="run-end-time"
+              style={{ flexGrow: 1, flexBasis: 150 }}
+            />
+            <Field
+              label="Grid step"
+              unit="min"
+              value={v.gridStepMinutes}
+              onChangeText={(x) => set("gridStepMinutes", x)}
+              error={err("gridStepMinutes", "settings.gridStepMinutes")}
+              keyboardType="decimal-pad"
+              testID="run-grid"
+              style={{ flexGrow: 1, flexBasis: 150 }}
+            />
           </>,
         )}
         <View style={{ flexDirection: "row", gap: t.spacing.sm, alignItems: "flex-end", flexWrap: "wrap" }}>
-          <Field label="Seed" value={v.seed} onChangeText={(x) => set("seed", x)} error={err("seed", "settings.seed")} autoCapitalize="none" hint="Random by default; the same seed reproduces the run exactly." testID="run-seed" style={{ flexGrow: 1, flexBasis: 200 }} />
-          <Button label="New random seed" variant="secondary" icon="refresh-cw" onPress={() => set("seed", randomSeed())} />
+          <Field
+            label="Seed"
+            value={v.seed}
+            onChangeText={(x) => set("seed", x)}
+            error={err("seed", "settings.seed")}
+            autoCapitalize="none"
+            hint="Random by default; the same seed reproduces the run exactly."
+            testID="run-seed"
+            style={{ flexGrow: 1, flexBasis: 200 }}
+          />
+          <Button
+            label="New random seed"
+            variant="secondary"
+            icon="refresh-cw"
+            onPress={() => set("seed", randomSeed())}
+          />
         </View>
       </Card>
       <Card>
         <Text variant="heading">Threshold</Text>
-        <Text variant="caption" tone="muted">A pulse passes when the output crosses the threshold within the window. Leave a field empty for its default.</Text>
+        <Text variant="caption" tone="muted">
+          A pulse passes when the output crosses the threshold within the window. Leave a field empty for its default.
+        </Text>
         {row(
           <>
-            <Field label="Threshold" unit="molecules" value={v.thresholdValue} onChangeText={(x) => set("thresholdValue", x)} error={err("thresholdValue", "settings.threshold.value")} keyboardType="decimal-pad" hint="Default: half the ODE steady state when on." style={{ flexGrow: 1, flexBasis: 150 }} />
-            <Field label="Hysteresis" unit="fraction" value={v.hysteresis} onChangeText={(x) => set("hysteresis", x)} error={err("hysteresis", "settings.threshold.hysteresis")} keyboardType="decimal-pad" style={{ flexGrow: 1, flexBasis: 150 }} />
+            <Field
+              label="Threshold"
+              unit="molecules"
+              value={v.thresholdValue}
+              onChangeText={(x) => set("thresholdValue", x)}
+              error={err("thresholdValue", "settings.threshold.value")}
+              keyboardType="decimal-pad"
+              hint="Default: half the ODE steady state when on."
+              style={{ flexGrow: 1, flexBasis: 150 }}
+            />
+            <Field
+              label="Hysteresis"
+              unit="fraction"
+              value={v.hysteresis}
+              onChangeText={(x) => set("hysteresis", x)}
+              error={err("hysteresis", "settings.threshold.hysteresis")}
+              keyboardType="decimal-pad"
+              style={{ flexGrow: 1, flexBasis: 150 }}
+            />
           </>,
         )}
         {row(
           <>
-            <Field label="Response window" unit="min" value={v.windowMinutes} onChangeText={(x) => set("windowMinutes", x)} error={err("windowMinutes", "settings.threshold.windowMinutes")} keyboardType="decimal-pad" hint="Default: 3 output lifetimes." style={{ flexGrow: 1, flexBasis: 150 }} />
-            <Field label="Noise duration" unit="min" value={v.noiseDurationMinutes} onChangeText={(x) => set("noiseDurationMinutes", x)} error={err("noiseDurationMinutes", "settings.threshold.noiseDurationMinutes")} keyboardType="decimal-pad" hint="Shorter pulses count as noise for the false-pass rate." style={{ flexGrow: 1, flexBasis: 150 }} />
+            <Field
+              label="Response window"
+              unit="min"
+              value={v.windowMinutes}
+              onChangeText={(x) => set("windowMinutes", x)}
+              error={err("windowMinutes", "settings.threshold.windowMinutes")}
+              keyboardType="decimal-pad"
+              hint="Default: 3 output lifetimes."
+              style={{ flexGrow: 1, flexBasis: 150 }}
+            />
+            <Field
+              label="Noise duration"
+              unit="min"
+              value={v.noiseDurationMinutes}
+              onChangeText={(x) => set("noiseDurationMinutes", x)}
+              error={err("noiseDurationMinutes", "settings.threshold.noiseDurationMinutes")}
+              keyboardType="decimal-pad"
+              hint="Shorter pulses count as noise for the false-pass rate."
+              style={{ flexGrow: 1, flexBasis: 150 }}
+            />
           </>,
         )}
       </Card>
@@ -151,7 +286,9 @@ export default function NewRun() {
           <>
             <Text variant="bodyStrong">{formatSeconds(estimate.data.estimatedSeconds)} of compute</Text>
             <Text variant="caption" tone="muted">
-              {formatNumber(estimate.data.estimatedEvents)} reaction events · {estimate.data.pulses} input pulses · {formatNumber(estimate.data.gridPoints)} grid points · {formatNumber(estimate.data.storedPulseRows)} stored pulse records
+              {formatNumber(estimate.data.estimatedEvents)} reaction events · {estimate.data.pulses} input pulses ·{" "}
+              {formatNumber(estimate.data.gridPoints)} grid points · {formatNumber(estimate.data.storedPulseRows)}{" "}
+              stored pulse records
             </Text>
           </>
         )}

@@ -1,20 +1,20 @@
 import React, { useState } from "react";
 import { Pressable, View } from "react-native";
 import { useLocalSearchParams, useRouter } from "expo-router";
-import { Screen } from "../../../components/ui/screen";
-import { Card } from "../../../components/ui/card";
-import { Text } from "../../../components/ui/text";
-import { Button } from "../../../components/ui/button";
-import { Choice } from "../../../components/ui/choice";
-import { ProgressBar } from "../../../components/ui/progress-bar";
-import { StatusBadge, statusLabel } from "../../../components/ui/status-badge";
-import { SafetyNote } from "../../../components/ui/safety-note";
-import { ErrorState, LoadingState } from "../../../components/ui/states";
-import { LazyChart } from "../../../components/charts/lazy-chart";
-import { formatNumber, type ChartSpec } from "../../../components/charts/chart-spec";
-import { useCancelSweep, useSweep, type SweepDetail } from "../../../components/data/sweeps";
-import { useTheme } from "../../../components/theme/use-theme";
-import { MIN_TOUCH } from "../../../components/theme/tokens";
+import { Screen } from "@/components/ui/screen";
+import { Card } from "@/components/ui/card";
+import { Text } from "@/components/ui/text";
+import { Button } from "@/components/ui/button";
+import { Choice } from "@/components/ui/choice";
+import { ProgressBar } from "@/components/ui/progress-bar";
+import { StatusBadge, statusLabel } from "@/components/ui/status-badge";
+import { SafetyNote } from "@/components/ui/safety-note";
+import { ErrorState, LoadingState } from "@/components/ui/states";
+import { LazyChart } from "@/components/charts/lazy-chart";
+import { formatNumber, type ChartSpec } from "@/components/charts/chart-spec";
+import { useCancelSweep, useSweep, type SweepDetail } from "@/components/data/sweeps";
+import { useTheme } from "@/components/theme/use-theme";
+import { MIN_TOUCH } from "@/components/theme/tokens";
 
 type Figure = "d50" | "falsePassRate" | "medianDelay" | "peak" | "fano";
 const FIGURES: { value: Figure; label: string }[] = [
@@ -36,8 +36,18 @@ export default function SweepDetailScreen() {
   const q = useSweep(id);
   const cancel = useCancelSweep();
   const [figure, setFigure] = useState<Figure>("d50");
-  if (q.isPending) return <Screen title="Sweep"><LoadingState /></Screen>;
-  if (q.error) return <Screen title="Sweep"><ErrorState error={q.error} onRetry={() => q.refetch()} /></Screen>;
+  if (q.isPending)
+    return (
+      <Screen title="Sweep">
+        <LoadingState />
+      </Screen>
+    );
+  if (q.error)
+    return (
+      <Screen title="Sweep">
+        <ErrorState error={q.error} onRetry={() => q.refetch()} />
+      </Screen>
+    );
   const s = q.data;
   const active = s.status === "queued" || s.status === "running";
   const figLabel = FIGURES.find((f) => f.value === figure)!.label;
@@ -50,7 +60,8 @@ export default function SweepDetailScreen() {
     // Scale and range come from the swept grid, not from the points that have this figure, so they stay put when
     // the figure changes and a point without a value shows as a gap at its place rather than being cut off.
     const xs = ax.values;
-    const xMin = Math.min(...xs), xMax = Math.max(...xs);
+    const xMin = Math.min(...xs),
+      xMax = Math.max(...xs);
     const logX = xs.length > 1 && xMin > 0 && xMax / xMin >= 8;
     chartEmpty = rows.length === 0;
     if (rows.length) {
@@ -60,7 +71,10 @@ export default function SweepDetailScreen() {
         xLabel: ax.parameter,
         yLabel: figLabel,
         rows,
-        layers: [{ type: "line", key: "y", color: t.colors.series[0], width: 2 }, { type: "points", key: "y", color: t.colors.series[0], radius: 4 }],
+        layers: [
+          { type: "line", key: "y", color: t.colors.series[0], width: 2 },
+          { type: "points", key: "y", color: t.colors.series[0], radius: 4 },
+        ],
         legend: [{ label: figLabel, color: t.colors.series[0] }],
         logX,
         xDomain: xMax > xMin ? [xMin, xMax] : undefined,
@@ -68,20 +82,31 @@ export default function SweepDetailScreen() {
     }
   }
   const vals = s.points.map((p) => figureOf(p, figure)).filter((v): v is number => v !== null);
-  const lo = Math.min(...vals), hi = Math.max(...vals);
+  const lo = Math.min(...vals),
+    hi = Math.max(...vals);
   const shade = (v: number | null) => {
     if (v === null || !vals.length) return t.colors.surfaceAlt;
     // Blend from the soft tint half-way to the primary colour, so dark text stays above 4.5:1 on every cell.
     const f = 0.5 * (hi > lo ? (v - lo) / (hi - lo) : 0.5);
-    const a = [0xd4, 0xed, 0xe5], b = [0x0a, 0x65, 0x52];
+    const a = [0xd4, 0xed, 0xe5],
+      b = [0x0a, 0x65, 0x52];
     return `rgb(${a.map((c, i) => Math.round(c + (b[i] - c) * f)).join(",")})`;
   };
   return (
-    <Screen title={s.name} actions={active ? <Button label="Cancel sweep" variant="danger" onPress={() => cancel.mutate(s.id)} busy={cancel.isPending} /> : null}>
+    <Screen
+      title={s.name}
+      actions={
+        active ? (
+          <Button label="Cancel sweep" variant="danger" onPress={() => cancel.mutate(s.id)} busy={cancel.isPending} />
+        ) : null
+      }
+    >
       <Card>
         <StatusBadge status={s.status} />
         <ProgressBar value={s.pointCount ? s.pointsDone / s.pointCount : 0} label={`Progress of ${s.name}`} />
-        <Text variant="caption" tone="muted">{s.pointsDone} of {s.pointCount} points · {s.replicatesPerPoint} replicates each</Text>
+        <Text variant="caption" tone="muted">
+          {s.pointsDone} of {s.pointCount} points · {s.replicatesPerPoint} replicates each
+        </Text>
       </Card>
       <SafetyNote />
       <Choice label="Figure" value={figure} options={FIGURES} onChange={setFigure} />
@@ -91,16 +116,24 @@ export default function SweepDetailScreen() {
         </Card>
       ) : chartEmpty ? (
         <Card testID="sweep-chart-empty">
-          <Text tone="muted">No point has a {figLabel} value{active ? " yet" : ""}. Choose another figure.</Text>
+          <Text tone="muted">
+            No point has a {figLabel} value{active ? " yet" : ""}. Choose another figure.
+          </Text>
         </Card>
       ) : null}
       {s.axes.length === 2 ? (
         <Card>
-          <Text variant="heading">{figLabel}: {ax.parameter} (rows) × {ay.parameter} (columns)</Text>
-          <Text variant="caption" tone="muted">Darker is higher ({formatNumber(lo)} to {formatNumber(hi)}). Tap a cell to open its run.</Text>
+          <Text variant="heading">
+            {figLabel}: {ax.parameter} (rows) × {ay.parameter} (columns)
+          </Text>
+          <Text variant="caption" tone="muted">
+            Darker is higher ({formatNumber(lo)} to {formatNumber(hi)}). Tap a cell to open its run.
+          </Text>
           {ax.values.map((xv, i) => (
             <View key={i} style={{ flexDirection: "row", gap: 2, alignItems: "center" }}>
-              <Text variant="caption" style={{ width: 64 }}>{formatNumber(xv)}</Text>
+              <Text variant="caption" style={{ width: 64 }}>
+                {formatNumber(xv)}
+              </Text>
               {ay.values.map((yv, j) => {
                 const p = s.points.find((pt) => pt.index === i * ay.values.length + j);
                 const v = p ? figureOf(p, figure) : null;
@@ -110,9 +143,19 @@ export default function SweepDetailScreen() {
                     role="link"
                     accessibilityLabel={`${ax.parameter} ${formatNumber(xv)}, ${ay.parameter} ${formatNumber(yv)}: ${formatNumber(v)}`}
                     onPress={() => p && router.push(`/runs/${p.runId}`)}
-                    style={{ flex: 1, minWidth: MIN_TOUCH, minHeight: MIN_TOUCH, backgroundColor: shade(v), alignItems: "center", justifyContent: "center", borderRadius: 4 }}
+                    style={{
+                      flex: 1,
+                      minWidth: MIN_TOUCH,
+                      minHeight: MIN_TOUCH,
+                      backgroundColor: shade(v),
+                      alignItems: "center",
+                      justifyContent: "center",
+                      borderRadius: 4,
+                    }}
                   >
-                    <Text variant="caption" style={{ color: "#17211D" }}>{formatNumber(v, 2)}</Text>
+                    <Text variant="caption" style={{ color: "#17211D" }}>
+                      {formatNumber(v, 2)}
+                    </Text>
                   </Pressable>
                 );
               })}
@@ -124,8 +167,14 @@ export default function SweepDetailScreen() {
         <Text variant="heading">Points</Text>
         {s.points.map((p) => (
           <Card key={p.index} onPress={() => router.push(`/runs/${p.runId}`)} style={{ padding: t.spacing.md }}>
-            <Text variant="bodyStrong">{Object.entries(p.values).map(([k, v]) => `${k} = ${formatNumber(v)}`).join(", ")}</Text>
-            <Text variant="caption" tone="muted">{statusLabel(p.status)} · {figLabel}: {formatNumber(figureOf(p, figure))}</Text>
+            <Text variant="bodyStrong">
+              {Object.entries(p.values)
+                .map(([k, v]) => `${k} = ${formatNumber(v)}`)
+                .join(", ")}
+            </Text>
+            <Text variant="caption" tone="muted">
+              {statusLabel(p.status)} · {figLabel}: {formatNumber(figureOf(p, figure))}
+            </Text>
           </Card>
         ))}
       </Card>

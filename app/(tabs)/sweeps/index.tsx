@@ -1,16 +1,16 @@
 import React from "react";
 import { View } from "react-native";
 import { useRouter } from "expo-router";
-import { Screen } from "../../../components/ui/screen";
-import { Card } from "../../../components/ui/card";
-import { Text } from "../../../components/ui/text";
-import { Button } from "../../../components/ui/button";
-import { ProgressBar } from "../../../components/ui/progress-bar";
-import { StatusBadge } from "../../../components/ui/status-badge";
-import { EmptyState, ErrorState, LoadingState } from "../../../components/ui/states";
-import { useSweeps } from "../../../components/data/sweeps";
-import { useCurrentLab } from "../../../components/data/current-lab";
-import { useTheme } from "../../../components/theme/use-theme";
+import { Screen } from "@/components/ui/screen";
+import { Card } from "@/components/ui/card";
+import { Text } from "@/components/ui/text";
+import { Button } from "@/components/ui/button";
+import { ProgressBar } from "@/components/ui/progress-bar";
+import { StatusBadge } from "@/components/ui/status-badge";
+import { EmptyState, ErrorState, LoadingState } from "@/components/ui/states";
+import { useSweeps } from "@/components/data/sweeps";
+import { useCurrentLab } from "@/components/data/current-lab";
+import { useTheme } from "@/components/theme/use-theme";
 
 export default function SweepsScreen() {
   const t = useTheme();
@@ -18,24 +18,40 @@ export default function SweepsScreen() {
   const { canEdit } = useCurrentLab();
   const sweeps = useSweeps();
   return (
-    <Screen title="Sweeps" subtitle="One run per parameter value: see where a circuit filters and where it does not." actions={canEdit ? <Button label="New sweep" icon="plus" onPress={() => router.push("/sweeps/new")} /> : null}>
+    <Screen
+      title="Sweeps"
+      subtitle="One run per parameter value: see where a circuit filters and where it does not."
+      actions={canEdit ? <Button label="New sweep" icon="plus" onPress={() => router.push("/sweeps/new")} /> : null}
+    >
       {sweeps.isPending ? (
         <LoadingState label="Loading sweeps" />
       ) : sweeps.error ? (
         <ErrorState error={sweeps.error} onRetry={() => sweeps.refetch()} />
       ) : sweeps.data.length === 0 ? (
-        <EmptyState icon="grid" title="No sweeps yet" message="Sweep one or two parameters, such as a half-max K or a rate, over a grid of values." actionLabel={canEdit ? "New sweep" : undefined} onAction={() => router.push("/sweeps/new")} />
+        <EmptyState
+          icon="grid"
+          title="No sweeps yet"
+          message="Sweep one or two parameters, such as a half-max K or a rate, over a grid of values."
+          actionLabel={canEdit ? "New sweep" : undefined}
+          onAction={() => router.push("/sweeps/new")}
+        />
       ) : (
         <View style={{ gap: t.spacing.sm }}>
           {sweeps.data.map((s) => (
             <Card key={s.id} onPress={() => router.push(`/sweeps/${s.id}`)}>
               <View style={{ flexDirection: "row", justifyContent: "space-between", gap: t.spacing.sm }}>
-                <Text variant="bodyStrong" style={{ flex: 1 }}>{s.name}</Text>
+                <Text variant="bodyStrong" style={{ flex: 1 }}>
+                  {s.name}
+                </Text>
                 <StatusBadge status={s.status} />
               </View>
-              <Text variant="caption" tone="muted">{s.axes.join(" × ")}</Text>
+              <Text variant="caption" tone="muted">
+                {s.axes.join(" × ")}
+              </Text>
               <ProgressBar value={s.pointCount ? s.pointsDone / s.pointCount : 0} label={`Progress of ${s.name}`} />
-              <Text variant="caption" tone="muted">{s.pointsDone} of {s.pointCount} points</Text>
+              <Text variant="caption" tone="muted">
+                {s.pointsDone} of {s.pointCount} points
+              </Text>
             </Card>
           ))}
         </View>

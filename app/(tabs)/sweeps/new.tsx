@@ -1,21 +1,21 @@
 import React, { useState } from "react";
 import { View } from "react-native";
 import { useRouter } from "expo-router";
-import { Screen } from "../../../components/ui/screen";
-import { Card } from "../../../components/ui/card";
-import { Text } from "../../../components/ui/text";
-import { Field } from "../../../components/ui/field";
-import { Button } from "../../../components/ui/button";
-import { Choice } from "../../../components/ui/choice";
-import { Banner, LoadingState } from "../../../components/ui/states";
-import { useCircuit, useCircuits } from "../../../components/data/circuits";
-import { usePrograms, useProgram } from "../../../components/data/programs";
-import { useLaunchSweep } from "../../../components/data/sweeps";
-import { ApiError } from "../../../components/data/api";
-import { randomSeed } from "../../../components/forms/run-settings";
-import { parseNumber } from "../../../components/forms/zod-errors";
-import { suggestedEndTime } from "../../../components/forms/program-editor";
-import { useTheme } from "../../../components/theme/use-theme";
+import { Screen } from "@/components/ui/screen";
+import { Card } from "@/components/ui/card";
+import { Text } from "@/components/ui/text";
+import { Field } from "@/components/ui/field";
+import { Button } from "@/components/ui/button";
+import { Choice } from "@/components/ui/choice";
+import { Banner, LoadingState } from "@/components/ui/states";
+import { useCircuit, useCircuits } from "@/components/data/circuits";
+import { usePrograms, useProgram } from "@/components/data/programs";
+import { useLaunchSweep } from "@/components/data/sweeps";
+import { ApiError } from "@/components/data/api";
+import { randomSeed } from "@/components/forms/run-settings";
+import { parseNumber } from "@/components/forms/zod-errors";
+import { suggestedEndTime } from "@/components/forms/program-editor";
+import { useTheme } from "@/components/theme/use-theme";
 
 export default function NewSweep() {
   const t = useTheme();
@@ -39,14 +39,22 @@ export default function NewSweep() {
   const [errors, setErrors] = useState<Record<string, string>>({});
   const launch = useLaunchSweep();
   const server = launch.error instanceof ApiError ? launch.error : null;
-  if (circuits.isPending || programs.isPending) return <Screen title="New sweep"><LoadingState /></Screen>;
+  if (circuits.isPending || programs.isPending)
+    return (
+      <Screen title="New sweep">
+        <LoadingState />
+      </Screen>
+    );
   const params = circuit.data?.parameters ?? [];
   const submit = () => {
     const e: Record<string, string> = {};
     if (!circuitId) e.circuit = "Choose a circuit.";
     if (!programId) e.program = "Choose an input program.";
     if (!parameter) e.parameter = "Choose a parameter to sweep.";
-    const f = parseNumber(from), tt = parseNumber(to), n = parseNumber(count), reps = parseNumber(replicates);
+    const f = parseNumber(from),
+      tt = parseNumber(to),
+      n = parseNumber(count),
+      reps = parseNumber(replicates);
     if (!Number.isFinite(f)) e.from = "Enter a number.";
     if (!Number.isFinite(tt)) e.to = "Enter a number.";
     if (scale === "log" && (f <= 0 || tt <= 0)) e.from = "A log grid needs positive ends.";
@@ -62,7 +70,10 @@ export default function NewSweep() {
     launch.mutate(
       {
         name: name.trim(),
-        base: { circuitId, programId, settings: {
+        base: {
+          circuitId,
+          programId,
+          settings: {
             endTimeMinutes: suggestedEndTime(program.data.body),
             gridStepMinutes: 1,
             replicates: reps,
@@ -81,34 +92,102 @@ export default function NewSweep() {
       {server ? <Banner tone="danger">{server.message}</Banner> : null}
       <Card>
         <Field label="Sweep name" value={name} onChangeText={setName} error={errors.name} />
-        <Choice label="Circuit" value={circuitId} options={(circuits.data ?? []).map((c) => ({ value: c.id, label: c.name }))} onChange={(id) => { setCircuitId(id); setParameter(""); }} />
-        {errors.circuit ? <Text variant="caption" tone="danger" role="alert">{errors.circuit}</Text> : null}
-        <Choice label="Input program" value={programId} options={(programs.data ?? []).map((p) => ({ value: p.id, label: p.name }))} onChange={setProgramId} />
-        {errors.program ? <Text variant="caption" tone="danger" role="alert">{errors.program}</Text> : null}
+        <Choice
+          label="Circuit"
+          value={circuitId}
+          options={(circuits.data ?? []).map((c) => ({ value: c.id, label: c.name }))}
+          onChange={(id) => {
+            setCircuitId(id);
+            setParameter("");
+          }}
+        />
+        {errors.circuit ? (
+          <Text variant="caption" tone="danger" role="alert">
+            {errors.circuit}
+          </Text>
+        ) : null}
+        <Choice
+          label="Input program"
+          value={programId}
+          options={(programs.data ?? []).map((p) => ({ value: p.id, label: p.name }))}
+          onChange={setProgramId}
+        />
+        {errors.program ? (
+          <Text variant="caption" tone="danger" role="alert">
+            {errors.program}
+          </Text>
+        ) : null}
       </Card>
       {params.length ? (
         <Card>
           <Choice
             label="Parameter"
             value={parameter}
-            options={params.map((p) => ({ value: p.ref, label: `${p.label} (now ${p.value}${p.unit ? ` ${p.unit}` : ""})` }))}
+            options={params.map((p) => ({
+              value: p.ref,
+              label: `${p.label} (now ${p.value}${p.unit ? ` ${p.unit}` : ""})`,
+            }))}
             onChange={(ref) => {
               setParameter(ref);
               const p = params.find((x) => x.ref === ref);
-              if (p && p.value > 0) { setFrom(String(p.value / 4)); setTo(String(p.value * 4)); }
+              if (p && p.value > 0) {
+                setFrom(String(p.value / 4));
+                setTo(String(p.value * 4));
+              }
             }}
           />
-          {errors.parameter ? <Text variant="caption" tone="danger" role="alert">{errors.parameter}</Text> : null}
+          {errors.parameter ? (
+            <Text variant="caption" tone="danger" role="alert">
+              {errors.parameter}
+            </Text>
+          ) : null}
           <View style={{ flexDirection: "row", flexWrap: "wrap", gap: t.spacing.md }}>
-            <Field label="From" value={from} onChangeText={setFrom} error={errors.from} keyboardType="decimal-pad" style={{ flexGrow: 1, flexBasis: 120 }} />
-            <Field label="To" value={to} onChangeText={setTo} error={errors.to} keyboardType="decimal-pad" style={{ flexGrow: 1, flexBasis: 120 }} />
-            <Field label="Number of values" value={count} onChangeText={setCount} error={errors.count} keyboardType="number-pad" style={{ flexGrow: 1, flexBasis: 120 }} />
+            <Field
+              label="From"
+              value={from}
+              onChangeText={setFrom}
+              error={errors.from}
+              keyboardType="decimal-pad"
+              style={{ flexGrow: 1, flexBasis: 120 }}
+            />
+            <Field
+              label="To"
+              value={to}
+              onChangeText={setTo}
+              error={errors.to}
+              keyboardType="decimal-pad"
+              style={{ flexGrow: 1, flexBasis: 120 }}
+            />
+            <Field
+              label="Number of values"
+              value={count}
+              onChangeText={setCount}
+              error={errors.count}
+              keyboardType="number-pad"
+              style={{ flexGrow: 1, flexBasis: 120 }}
+            />
           </View>
-          <Choice label="Spacing" value={scale} options={[{ value: "log", label: "Logarithmic" }, { value: "linear", label: "Even" }]} onChange={setScale} />
+          <Choice
+            label="Spacing"
+            value={scale}
+            options={[
+              { value: "log", label: "Logarithmic" },
+              { value: "linear", label: "Even" },
+            ]}
+            onChange={setScale}
+          />
         </Card>
-      ) : circuitId ? <LoadingState label="Loading parameters" /> : null}
+      ) : circuitId ? (
+        <LoadingState label="Loading parameters" />
+      ) : null}
       <Card>
-        <Field label="Replicates per value" value={replicates} onChangeText={setReplicates} error={errors.replicates} keyboardType="number-pad" />
+        <Field
+          label="Replicates per value"
+          value={replicates}
+          onChangeText={setReplicates}
+          error={errors.replicates}
+          keyboardType="number-pad"
+        />
         <View style={{ flexDirection: "row", flexWrap: "wrap", gap: t.spacing.md }}>
           <Field
             label="Threshold"
@@ -132,7 +211,13 @@ export default function NewSweep() {
           />
         </View>
         <View style={{ flexDirection: "row", gap: t.spacing.sm, alignItems: "flex-end", flexWrap: "wrap" }}>
-          <Field label="Seed" value={seed} onChangeText={setSeed} autoCapitalize="none" style={{ flexGrow: 1, flexBasis: 200 }} />
+          <Field
+            label="Seed"
+            value={seed}
+            onChangeText={setSeed}
+            autoCapitalize="none"
+            style={{ flexGrow: 1, flexBasis: 200 }}
+          />
           <Button label="New random seed" variant="secondary" icon="refresh-cw" onPress={() => setSeed(randomSeed())} />
         </View>
       </Card>

@@ -1,25 +1,31 @@
 import React, { useState } from "react";
 import { Linking, View } from "react-native";
 import { useLocalSearchParams, useRouter } from "expo-router";
-import { Screen } from "../../../components/ui/screen";
-import { Card } from "../../../components/ui/card";
-import { Text } from "../../../components/ui/text";
-import { Button } from "../../../components/ui/button";
-import { SafetyNote } from "../../../components/ui/safety-note";
-import { Banner, ErrorState, LoadingState } from "../../../components/ui/states";
-import { HeadlineCards } from "../../../components/runs/headline-cards";
-import { LazyChart } from "../../../components/charts/lazy-chart";
-import { formatNumber } from "../../../components/charts/chart-spec";
-import { cellsOverScheduleSpec } from "../../../components/traces/trace-specs";
-import { median } from "../../../components/traces/median";
-import { CellTable } from "../../../components/traces/cell-table";
-import { MatchPanel } from "../../../components/traces/match-panel";
-import { EditTraceSet } from "../../../components/traces/edit-trace-set";
-import { SyntheticBadge, SYNTHETIC_NOTE } from "../../../components/traces/synthetic-badge";
-import { metricsCsvUrl, useDeleteTraceSet, usePatchTraceSet, useRestoreTraceSet, useTraceSet } from "../../../components/data/traces";
-import { useCurrentLab } from "../../../components/data/current-lab";
-import { useTheme } from "../../../components/theme/use-theme";
-import { API_LIMITS } from "../../../shared/schemas/api-runs";
+import { Screen } from "@/components/ui/screen";
+import { Card } from "@/components/ui/card";
+import { Text } from "@/components/ui/text";
+import { Button } from "@/components/ui/button";
+import { SafetyNote } from "@/components/ui/safety-note";
+import { Banner, ErrorState, LoadingState } from "@/components/ui/states";
+import { HeadlineCards } from "@/components/runs/headline-cards";
+import { LazyChart } from "@/components/charts/lazy-chart";
+import { formatNumber } from "@/components/charts/chart-spec";
+import { cellsOverScheduleSpec } from "@/components/traces/trace-specs";
+import { median } from "@/components/traces/median";
+import { CellTable } from "@/components/traces/cell-table";
+import { MatchPanel } from "@/components/traces/match-panel";
+import { EditTraceSet } from "@/components/traces/edit-trace-set";
+import { SyntheticBadge, SYNTHETIC_NOTE } from "@/components/traces/synthetic-badge";
+import {
+  metricsCsvUrl,
+  useDeleteTraceSet,
+  usePatchTraceSet,
+  useRestoreTraceSet,
+  useTraceSet,
+} from "@/components/data/traces";
+import { useCurrentLab } from "@/components/data/current-lab";
+import { useTheme } from "@/components/theme/use-theme";
+import { API_LIMITS } from "@/shared/schemas/api-runs";
 
 export default function TraceSetScreen() {
   const t = useTheme();
@@ -33,26 +39,50 @@ export default function TraceSetScreen() {
   const del = useDeleteTraceSet();
   const restore = useRestoreTraceSet();
   const [editing, setEditing] = useState(false);
-  if (q.isPending) return <Screen title="Trace set"><LoadingState label="Loading the trace set" /></Screen>;
-  if (q.error && !q.data) return <Screen title="Trace set"><ErrorState title="This trace set could not be loaded" error={q.error} onRetry={() => q.refetch()} /></Screen>;
+  if (q.isPending)
+    return (
+      <Screen title="Trace set">
+        <LoadingState label="Loading the trace set" />
+      </Screen>
+    );
+  if (q.error && !q.data)
+    return (
+      <Screen title="Trace set">
+        <ErrorState title="This trace set could not be loaded" error={q.error} onRetry={() => q.refetch()} />
+      </Screen>
+    );
   const s = q.data;
   const a = s.analysis;
   const sum = a.summary;
-  const chart = cellsOverScheduleSpec(s.cells, s.schedule, t.colors, { thresholdTraceUnits: median(a.cells.map((c) => c.thresholdTraceUnits)) });
-  const uploaded = new Date(s.createdAt).toLocaleDateString("en-GB", { day: "numeric", month: "short", year: "numeric" });
+  const chart = cellsOverScheduleSpec(s.cells, s.schedule, t.colors, {
+    thresholdTraceUnits: median(a.cells.map((c) => c.thresholdTraceUnits)),
+  });
+  const uploaded = new Date(s.createdAt).toLocaleDateString("en-GB", {
+    day: "numeric",
+    month: "short",
+    year: "numeric",
+  });
   return (
-    <Screen title={s.name} subtitle={`${s.cellCount.toLocaleString("en")} cells · uploaded by ${s.uploadedByName ?? "Linger (demo data)"} · ${uploaded}`} testID="trace-detail-screen">
+    <Screen
+      title={s.name}
+      subtitle={`${s.cellCount.toLocaleString("en")} cells · uploaded by ${s.uploadedByName ?? "Linger (demo data)"} · ${uploaded}`}
+      testID="trace-detail-screen"
+    >
       {s.synthetic ? (
         <View style={{ gap: t.spacing.sm }}>
           <SyntheticBadge />
-          <Banner tone="notice" testID="synthetic-note">{SYNTHETIC_NOTE}</Banner>
+          <Banner tone="notice" testID="synthetic-note">
+            {SYNTHETIC_NOTE}
+          </Banner>
         </View>
       ) : null}
       <SafetyNote />
 
       <Text variant="heading">Headline figures</Text>
       <Text variant="caption" tone="muted">
-        Each cell counts as a replicate: {sum.pulsesAnalysed.toLocaleString("en")} cell × pulse records scored; {sum.skippedNotCovered} not watched whole{sum.skippedGap ? `, ${sum.skippedGap} left out for gaps` : ""}. Frame interval {formatNumber(a.frameIntervalMinutes)} min. Scale: {a.scaleNote}
+        Each cell counts as a replicate: {sum.pulsesAnalysed.toLocaleString("en")} cell × pulse records scored;{" "}
+        {sum.skippedNotCovered} not watched whole{sum.skippedGap ? `, ${sum.skippedGap} left out for gaps` : ""}. Frame
+        interval {formatNumber(a.frameIntervalMinutes)} min. Scale: {a.scaleNote}
       </Text>
       <HeadlineCards summary={sum.analysis} peakUnit="trace units" />
 
@@ -60,7 +90,11 @@ export default function TraceSetScreen() {
         <Card testID="chart-card-cells">
           <Text variant="heading">Sample cells</Text>
           <LazyChart spec={chart} testID="chart-cells" />
-          {s.cells.length < s.cellCount ? <Text variant="caption" tone="muted">Charts hold the first {s.cells.length} cells; the figures cover all {s.cellCount}.</Text> : null}
+          {s.cells.length < s.cellCount ? (
+            <Text variant="caption" tone="muted">
+              Charts hold the first {s.cells.length} cells; the figures cover all {s.cellCount}.
+            </Text>
+          ) : null}
         </Card>
       ) : null}
 
@@ -74,8 +108,18 @@ export default function TraceSetScreen() {
       {!deleted ? (
         <Card>
           <Text variant="heading">Export</Text>
-          <Button label="Download metrics.csv" variant="secondary" icon="download" compact onPress={() => Linking.openURL(metricsCsvUrl(s.id))} style={{ alignSelf: "flex-start" }} testID="export-metrics" />
-          <Text variant="caption" tone="muted">One row per cell and scored pulse{s.synthetic ? "; the file starts with a line marking it synthetic" : ""}.</Text>
+          <Button
+            label="Download metrics.csv"
+            variant="secondary"
+            icon="download"
+            compact
+            onPress={() => Linking.openURL(metricsCsvUrl(s.id))}
+            style={{ alignSelf: "flex-start" }}
+            testID="export-metrics"
+          />
+          <Text variant="caption" tone="muted">
+            One row per cell and scored pulse{s.synthetic ? "; the file starts with a line marking it synthetic" : ""}.
+          </Text>
         </Card>
       ) : null}
 
@@ -83,10 +127,24 @@ export default function TraceSetScreen() {
       {deleted ? (
         <Banner tone="notice" testID="trace-deleted">
           <View style={{ gap: t.spacing.sm }}>
-            <Text style={{ color: t.colors.onNoticeSoft }}>This trace set is deleted and will be purged after {API_LIMITS.undoDays} days.</Text>
+            <Text style={{ color: t.colors.onNoticeSoft }}>
+              This trace set is deleted and will be purged after {API_LIMITS.undoDays} days.
+            </Text>
             <View style={{ flexDirection: "row", flexWrap: "wrap", gap: t.spacing.sm }}>
-              <Button label="Undo delete" variant="secondary" busy={restore.isPending} onPress={() => restore.mutate(s.id, { onSuccess: () => setDeleted(false) })} testID="undo-delete" />
-              <Button label="Back to trace sets" variant="secondary" icon="arrow-left" onPress={() => router.replace("/traces")} testID="deleted-back" />
+              <Button
+                label="Undo delete"
+                variant="secondary"
+                busy={restore.isPending}
+                onPress={() => restore.mutate(s.id, { onSuccess: () => setDeleted(false) })}
+                testID="undo-delete"
+              />
+              <Button
+                label="Back to trace sets"
+                variant="secondary"
+                icon="arrow-left"
+                onPress={() => router.replace("/traces")}
+                testID="deleted-back"
+              />
             </View>
           </View>
         </Banner>
@@ -113,10 +171,24 @@ export default function TraceSetScreen() {
           ) : (
             <>
               <Text variant="caption" tone="muted">
-                Threshold {formatNumber(s.settings.thresholdMolecules)} molecules · background {s.settings.background.mode === "preInput" ? "before first pulse" : s.settings.background.mode === "value" ? `${formatNumber(s.settings.background.value)} units` : "none"} · scale {formatNumber(a.scaleUnitsPerMolecule)} units per molecule · smoothing {s.settings.smoothing.mode === "movingAverage" ? `${s.settings.smoothing.widthFrames} frames` : "none"} · window {formatNumber(s.settings.windowMinutes)} min
+                Threshold {formatNumber(s.settings.thresholdMolecules)} molecules · background{" "}
+                {s.settings.background.mode === "preInput"
+                  ? "before first pulse"
+                  : s.settings.background.mode === "value"
+                    ? `${formatNumber(s.settings.background.value)} units`
+                    : "none"}{" "}
+                · scale {formatNumber(a.scaleUnitsPerMolecule)} units per molecule · smoothing{" "}
+                {s.settings.smoothing.mode === "movingAverage" ? `${s.settings.smoothing.widthFrames} frames` : "none"}{" "}
+                · window {formatNumber(s.settings.windowMinutes)} min
               </Text>
               <View style={{ flexDirection: "row", flexWrap: "wrap", gap: t.spacing.sm }}>
-                <Button label="Edit name and preprocessing" variant="secondary" icon="sliders" onPress={() => setEditing(true)} testID="edit-trace-open" />
+                <Button
+                  label="Edit name and preprocessing"
+                  variant="secondary"
+                  icon="sliders"
+                  onPress={() => setEditing(true)}
+                  testID="edit-trace-open"
+                />
                 <Button
                   label="Delete trace set"
                   variant="secondary"

@@ -1,17 +1,18 @@
 import React from "react";
 import { View } from "react-native";
 import { useRouter } from "expo-router";
-import { Screen } from "../../../components/ui/screen";
-import { Card } from "../../../components/ui/card";
-import { Text } from "../../../components/ui/text";
-import { Button } from "../../../components/ui/button";
-import { EmptyState, ErrorState, LoadingState } from "../../../components/ui/states";
-import { SyntheticBadge } from "../../../components/traces/synthetic-badge";
-import { useTraceSets } from "../../../components/data/traces";
-import { useCurrentLab } from "../../../components/data/current-lab";
-import { useTheme } from "../../../components/theme/use-theme";
+import { Screen } from "@/components/ui/screen";
+import { Card } from "@/components/ui/card";
+import { Text } from "@/components/ui/text";
+import { Button } from "@/components/ui/button";
+import { EmptyState, ErrorState, LoadingState } from "@/components/ui/states";
+import { SyntheticBadge } from "@/components/traces/synthetic-badge";
+import { useTraceSets } from "@/components/data/traces";
+import { useCurrentLab } from "@/components/data/current-lab";
+import { useTheme } from "@/components/theme/use-theme";
 
-const date = (ms: number) => new Date(ms).toLocaleDateString("en-GB", { day: "numeric", month: "short", year: "numeric" });
+const date = (ms: number) =>
+  new Date(ms).toLocaleDateString("en-GB", { day: "numeric", month: "short", year: "numeric" });
 
 export default function TracesScreen() {
   const t = useTheme();
@@ -22,7 +23,16 @@ export default function TracesScreen() {
     <Screen
       title="Traces"
       subtitle="Single-cell time-lapse traces, scored like simulations and matched against runs and sweeps."
-      actions={canEdit ? <Button label="Upload traces" icon="upload" onPress={() => router.push("/traces/upload")} testID="traces-upload" /> : null}
+      actions={
+        canEdit ? (
+          <Button
+            label="Upload traces"
+            icon="upload"
+            onPress={() => router.push("/traces/upload")}
+            testID="traces-upload"
+          />
+        ) : null
+      }
       testID="traces-screen"
     >
       {sets.isPending ? (
@@ -40,19 +50,30 @@ export default function TracesScreen() {
       ) : (
         <View style={{ gap: t.spacing.sm }}>
           {sets.data.map((s) => (
-            <Card
-              key={s.id}
-              onPress={() => router.push(`/traces/${s.id}`)}
-              testID={`trace-row-${s.id}`}
-            >
-              <View style={{ flexDirection: "row", justifyContent: "space-between", alignItems: "flex-start", gap: t.spacing.sm, flexWrap: "wrap" }}>
-                <Text variant="bodyStrong" style={{ flexShrink: 1 }}>{s.name}</Text>
+            <Card key={s.id} onPress={() => router.push(`/traces/${s.id}`)} testID={`trace-row-${s.id}`}>
+              <View
+                style={{
+                  flexDirection: "row",
+                  justifyContent: "space-between",
+                  alignItems: "flex-start",
+                  gap: t.spacing.sm,
+                  flexWrap: "wrap",
+                }}
+              >
+                <Text variant="bodyStrong" style={{ flexShrink: 1 }}>
+                  {s.name}
+                </Text>
                 {s.synthetic ? <SyntheticBadge testID={`synthetic-badge-${s.id}`} /> : null}
               </View>
               <Text variant="caption" tone="muted">
-                {s.cellCount.toLocaleString("en")} cells · uploaded by {s.uploadedByName ?? "Linger (demo data)"} · {date(s.createdAt)}
+                {s.cellCount.toLocaleString("en")} cells · uploaded by {s.uploadedByName ?? "Linger (demo data)"} ·{" "}
+                {date(s.createdAt)}
               </Text>
-              {s.fileName ? <Text variant="caption" tone="muted" numberOfLines={1}>{s.fileName}</Text> : null}
+              {s.fileName ? (
+                <Text variant="caption" tone="muted" numberOfLines={1}>
+                  {s.fileName}
+                </Text>
+              ) : null}
             </Card>
           ))}
         </View>

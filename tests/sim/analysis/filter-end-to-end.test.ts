@@ -11,20 +11,32 @@
  */
 import { test, describe } from "node:test";
 import assert from "node:assert/strict";
-import { templates, simulateChunk, resolveThreshold, solveOde, runSetup } from "../../../sim/index";
+import { templates, simulateChunk, resolveThreshold, solveOde, runSetup } from "@/sim";
 import {
-  halfRiseTime, makeMatchedControl, outputSteadyStates, summarizeRun, compareRuns, delaysOf, widthsOf, accelerationFigures,
-} from "../../../sim/analysis";
-import { RunSpecSchema, type RunSpec } from "../../../shared/schemas/run-spec";
-import { AccelerationSchema } from "../../../shared/schemas/analysis";
-import { assertCloseTo } from "../../helpers/close-to";
+  halfRiseTime,
+  makeMatchedControl,
+  outputSteadyStates,
+  summarizeRun,
+  compareRuns,
+  delaysOf,
+  widthsOf,
+  accelerationFigures,
+} from "@/sim/analysis";
+import { RunSpecSchema, type RunSpec } from "@/shared/schemas/run-spec";
+import { AccelerationSchema } from "@/shared/schemas/analysis";
+import { assertCloseTo } from "@/tests/helpers/close-to";
 
 const REPLICATES = 12;
 const REPEATS = 3;
 
 function run(spec: RunSpec) {
   const r = simulateChunk(spec, 0, spec.replicates, { trajectoryReplicates: 0 });
-  const summary = summarizeRun({ pulses: r.pulses, replicates: r.replicates, threshold: resolveThreshold(spec), noiseDurationMinutes: 10 });
+  const summary = summarizeRun({
+    pulses: r.pulses,
+    replicates: r.replicates,
+    threshold: resolveThreshold(spec),
+    noiseDurationMinutes: 10,
+  });
   return { pulses: r.pulses, summary };
 }
 
@@ -75,7 +87,10 @@ describe("C1-FFL AND against its matched simple-regulation control", () => {
     const circuit = run(spec);
     const ctl = run(control);
     const at = (s: typeof circuit.summary, d: number) => s.byDuration.find((e) => e.duration === d)!;
-    assert.deepEqual(circuit.summary.byDuration.map((e) => e.duration), [short, long]);
+    assert.deepEqual(
+      circuit.summary.byDuration.map((e) => e.duration),
+      [short, long],
+    );
     assert.equal(at(circuit.summary, short).pulses, REPLICATES * REPEATS);
     assert.ok(at(circuit.summary, short).ci![1] < 0.2, `circuit short: ${JSON.stringify(at(circuit.summary, short))}`);
     assert.ok(at(circuit.summary, long).ci![0] > 0.8, `circuit long: ${JSON.stringify(at(circuit.summary, long))}`);
@@ -83,7 +98,13 @@ describe("C1-FFL AND against its matched simple-regulation control", () => {
     assert.ok(at(ctl.summary, long).ci![0] > 0.8, `control long: ${JSON.stringify(at(ctl.summary, long))}`);
 
     const cmp = compareRuns([
-      { id: "ffl", name: "Tank sensor, hold", summary: circuit.summary, delays: delaysOf(circuit.pulses), widths: widthsOf(circuit.pulses) },
+      {
+        id: "ffl",
+        name: "Tank sensor, hold",
+        summary: circuit.summary,
+        delays: delaysOf(circuit.pulses),
+        widths: widthsOf(circuit.pulses),
+      },
       { id: "ctl", name: "Control", summary: ctl.summary, delays: delaysOf(ctl.pulses), widths: widthsOf(ctl.pulses) },
     ]);
     const diffShort = cmp.pairs[0].passDifferences.find((d) => d.duration === short)!;
@@ -94,7 +115,12 @@ describe("C1-FFL AND against its matched simple-regulation control", () => {
     assert.ok(cmp.pairs[0].delays.mannWhitney!.rankBiserial > 0);
 
     const acc = AccelerationSchema.parse(
-      accelerationFigures({ circuitSpec: spec, circuitSummary: circuit.summary, controlSpec: control, controlSummary: ctl.summary }),
+      accelerationFigures({
+        circuitSpec: spec,
+        circuitSummary: circuit.summary,
+        controlSpec: control,
+        controlSummary: ctl.summary,
+      }),
     );
     assert.ok(acc.halfRiseRatio! < 1, "the C1-FFL AND responds more slowly than simple regulation");
     assert.ok(acc.longPulseDelayDifference! > 0);

@@ -10,9 +10,9 @@
  */
 import { test, describe } from "node:test";
 import assert from "node:assert/strict";
-import { simulateChunk, runSetup } from "../../../sim/index";
-import { pulseStatsFromSampledTrace } from "../../../sim/metrics/pulse-tracker";
-import { RunSpecSchema } from "../../../shared/schemas/run-spec";
+import { simulateChunk, runSetup } from "@/sim";
+import { pulseStatsFromSampledTrace } from "@/sim/metrics/pulse-tracker";
+import { RunSpecSchema } from "@/shared/schemas/run-spec";
 
 const spec = RunSpecSchema.parse({
   circuit: {
@@ -20,7 +20,12 @@ const spec = RunSpecSchema.parse({
     species: [{ name: "rptC", initialCount: 0 }],
     signals: [{ name: "Q", offLevel: 0, onLevel: 1 }],
     reactions: [
-      { name: "driveZ", products: [{ species: "rptC", count: 1 }], rate: { kind: "constant", ratePerMinute: 1.2 }, scaledBy: "Q" },
+      {
+        name: "driveZ",
+        products: [{ species: "rptC", count: 1 }],
+        rate: { kind: "constant", ratePerMinute: 1.2 },
+        scaledBy: "Q",
+      },
       { name: "decayZ", reactants: [{ species: "rptC", count: 1 }], rate: { kind: "massAction", ratePerMinute: 0.1 } },
     ],
     outputSpecies: "rptC",
@@ -47,7 +52,15 @@ describe("grid-based against event-based pulse figures", () => {
     assert.equal(recorded.length, 5);
     assert.ok(recorded.every((r) => !r.truncated));
 
-    const rows: { h: number; total: number; passEvent: number; passGrid: number; disagree: number; delayWithinH: number; bothPassed: number }[] = [];
+    const rows: {
+      h: number;
+      total: number;
+      passEvent: number;
+      passGrid: number;
+      disagree: number;
+      delayWithinH: number;
+      bothPassed: number;
+    }[] = [];
     for (const h of [1, 0.1, 0.01]) {
       const row = { h, total: 0, passEvent: 0, passGrid: 0, disagree: 0, delayWithinH: 0, bothPassed: 0 };
       for (const rec of recorded) {
@@ -90,9 +103,15 @@ describe("grid-based against event-based pulse figures", () => {
     assert.ok(coarse.total >= 900, `evaluable pulses ${coarse.total}`);
     // the point of event-path detection: a 1-min grid misses passes in this circuit
     assert.ok(coarse.disagree > 0, "a 1-min grid missed no pass");
-    assert.ok(coarse.disagree >= mid.disagree && mid.disagree >= fine.disagree, `disagreements ${rows.map((r) => r.disagree)}`);
+    assert.ok(
+      coarse.disagree >= mid.disagree && mid.disagree >= fine.disagree,
+      `disagreements ${rows.map((r) => r.disagree)}`,
+    );
     // at 0.01 min an excursion shorter than the step (mean dwell above threshold is ~1/(1.2 + 0.6) min) is rare
     assert.ok(fine.disagree <= 0.005 * fine.total, `fine grid disagrees on ${fine.disagree} of ${fine.total}`);
-    assert.ok(fine.delayWithinH >= 0.99 * fine.bothPassed, `delays within h: ${fine.delayWithinH} of ${fine.bothPassed}`);
+    assert.ok(
+      fine.delayWithinH >= 0.99 * fine.bothPassed,
+      `delays within h: ${fine.delayWithinH} of ${fine.bothPassed}`,
+    );
   });
 });

@@ -1,9 +1,9 @@
 import { test, describe } from "node:test";
 import assert from "node:assert/strict";
-import { templates } from "../../../sim/index";
-import { makeMatchedControl, outputSteadyStates, halfRiseTime } from "../../../sim/analysis";
-import { RunSpecSchema } from "../../../shared/schemas/run-spec";
-import { assertCloseTo } from "../../helpers/close-to";
+import { templates } from "@/sim";
+import { makeMatchedControl, outputSteadyStates, halfRiseTime } from "@/sim/analysis";
+import { RunSpecSchema } from "@/shared/schemas/run-spec";
+import { assertCloseTo } from "@/tests/helpers/close-to";
 
 const specFor = (circuit: unknown, extra: Record<string, unknown> = {}) =>
   RunSpecSchema.parse({
@@ -27,7 +27,10 @@ describe("makeMatchedControl", () => {
       assert.ok(a.offSteadyState > 0);
       assertCloseTo(b.onSteadyState, a.onSteadyState, { rel: 1e-6 });
       assertCloseTo(b.offSteadyState, a.offSteadyState, { rel: 1e-6 });
-      assert.deepEqual(control.circuit.reactions.map((r) => r.name), ["driveZ", "basalZ", "decayZ"]);
+      assert.deepEqual(
+        control.circuit.reactions.map((r) => r.name),
+        ["driveZ", "basalZ", "decayZ"],
+      );
       assert.equal(control.systemSize, systemSize);
     }
     // the incoherent circuit accelerates the response: T1/2 below the control's ln 2 / a (closed form of the
@@ -44,11 +47,22 @@ describe("makeMatchedControl", () => {
       species: [{ name: "rptC", initialCount: 0 }],
       signals: [{ name: "Q", offLevel: 0, onLevel: 1 }],
       reactions: [
-        { name: "makeZ", products: [{ species: "rptC", count: 1 }], rate: { kind: "regulated", maxRatePerMinute: 10, regulators: [{ source: "Q", effect: "represses", halfMax: 0.5, hill: 2 }] } },
+        {
+          name: "makeZ",
+          products: [{ species: "rptC", count: 1 }],
+          rate: {
+            kind: "regulated",
+            maxRatePerMinute: 10,
+            regulators: [{ source: "Q", effect: "represses", halfMax: 0.5, hill: 2 }],
+          },
+        },
         { name: "degZ", reactants: [{ species: "rptC", count: 1 }], rate: { kind: "massAction", ratePerMinute: 0.1 } },
       ],
       outputSpecies: "rptC",
     };
-    assert.throws(() => makeMatchedControl(specFor(repressed, { threshold: { value: 10 } })), /not above its OFF steady state/);
+    assert.throws(
+      () => makeMatchedControl(specFor(repressed, { threshold: { value: 10 } })),
+      /not above its OFF steady state/,
+    );
   });
 });

@@ -5,8 +5,8 @@
  */
 import { test, describe } from "node:test";
 import assert from "node:assert/strict";
-import { pulseStatsFromSampledTrace } from "../../../sim/metrics/pulse-tracker";
-import { assertCloseTo } from "../../helpers/close-to";
+import { pulseStatsFromSampledTrace } from "@/sim/metrics/pulse-tracker";
+import { assertCloseTo } from "@/tests/helpers/close-to";
 
 const EPS = 1e-9;
 
@@ -21,7 +21,11 @@ describe("sampled trace: known answers", () => {
     // ramps 10->11 (0 to 100) and 30->31 (100 to 0); theta 50, down 40
     const times = [0, 10, 11, 30, 31, 60];
     const values = [0, 0, 100, 100, 0, 0];
-    const [s] = pulseStatsFromSampledTrace(times, values, [{ on: 8, off: 28, durationBin: 20 }], { theta: 50, downTheta: 40, windowMinutes: 20 });
+    const [s] = pulseStatsFromSampledTrace(times, values, [{ on: 8, off: 28, durationBin: 20 }], {
+      theta: 50,
+      downTheta: 40,
+      windowMinutes: 20,
+    });
     assert.equal(s.excluded, false);
     assert.equal(s.passed, true);
     assertCloseTo(s.delay!, 2.5, { abs: EPS }, "up-crossing at 10.5");
@@ -42,7 +46,11 @@ describe("sampled trace: known answers", () => {
     const errors: number[] = [];
     for (const h of [1, 0.1]) {
       const { times, values } = sample(f, 0, 200, h);
-      const [s] = pulseStatsFromSampledTrace(times, values, [{ on: 5, off: 55, durationBin: 50 }], { theta: 50, downTheta: 40, windowMinutes: 30 });
+      const [s] = pulseStatsFromSampledTrace(times, values, [{ on: 5, off: 55, durationBin: 50 }], {
+        theta: 50,
+        downTheta: 40,
+        windowMinutes: 30,
+      });
       const err = s.delay! - exact;
       // concave rise: the chord lies below the curve, so the interpolated crossing is late, by at most
       // h^2 max|x''| / (8 x'(t*)) = h^2 * 1 / (8 * 5) (|x''| <= 100/tau^2 = 1 over the step, x' = 5 at t*)
@@ -55,7 +63,11 @@ describe("sampled trace: known answers", () => {
       const x55 = 100 * (1 - Math.exp(-5));
       const fOff = (t: number) => (t <= 55 ? f(t) : x55 * Math.exp(-(t - 55) / tau));
       const off = sample(fOff, 0, 200, h);
-      const [so] = pulseStatsFromSampledTrace(off.times, off.values, [{ on: 5, off: 55, durationBin: 50 }], { theta: 50, downTheta: 40, windowMinutes: 30 });
+      const [so] = pulseStatsFromSampledTrace(off.times, off.values, [{ on: 5, off: 55, durationBin: 50 }], {
+        theta: 50,
+        downTheta: 40,
+        windowMinutes: 30,
+      });
       // convex decay: chord above the curve, interpolated crossing late by at most h^2 (|x''| <= x55/tau^2) / (8 * 40/tau)
       const offExact = tau * Math.log(x55 / 40);
       const offErr = so.offDelay! - offExact;
@@ -76,7 +88,11 @@ describe("sampled trace: known answers", () => {
     times.push(41, 80);
     values.push(0, 0);
     const pulse = [{ on: 5, off: 45, durationBin: 40 }];
-    const [withBand] = pulseStatsFromSampledTrace(times, values, pulse, { theta: 50, downTheta: 40, windowMinutes: 30 });
+    const [withBand] = pulseStatsFromSampledTrace(times, values, pulse, {
+      theta: 50,
+      downTheta: 40,
+      windowMinutes: 30,
+    });
     assert.equal(withBand.widths.length, 1);
     // up at 9 + 50/55 ; down (40) between 40 (55) and 41 (0): 40 + 15/55
     assertCloseTo(withBand.widths[0], 40 + 15 / 55 - (9 + 50 / 55), { abs: EPS });

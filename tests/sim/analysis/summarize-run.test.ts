@@ -1,14 +1,22 @@
 import { test, describe } from "node:test";
 import assert from "node:assert/strict";
 import Papa from "papaparse";
-import type { PulseStat } from "../../../shared/schemas/run-spec";
-import { RunSummarySchema, ComparisonSchema } from "../../../shared/schemas/analysis";
+import type { PulseStat } from "@/shared/schemas/run-spec";
+import { RunSummarySchema, ComparisonSchema } from "@/shared/schemas/analysis";
 import {
-  summarizeRun, compareRuns, delaysOf, widthsOf, windowEnds,
-  pulseStatsCsv, replicateStatsCsv, byDurationCsv, summaryCsv, wilson,
-} from "../../../sim/analysis";
-import { kaplanMeier, kmQuantile } from "../../../sim/stats";
-import { assertCloseTo } from "../../helpers/close-to";
+  summarizeRun,
+  compareRuns,
+  delaysOf,
+  widthsOf,
+  windowEnds,
+  pulseStatsCsv,
+  replicateStatsCsv,
+  byDurationCsv,
+  summaryCsv,
+  wilson,
+} from "@/sim/analysis";
+import { kaplanMeier, kmQuantile } from "@/sim/stats";
+import { assertCloseTo } from "@/tests/helpers/close-to";
 
 const threshold = { theta: 20, downTheta: 16, hysteresis: 0.2, windowMinutes: 30, outputLifetimeMinutes: 10 };
 
@@ -20,16 +28,32 @@ function records(shift = 0): PulseStat[] {
       const on = i * 200;
       const pass = d >= 10 || (d === 5 && r % 2 === 0) || (d === 2 && r % 7 === 0);
       out.push({
-        replicate: r, pulseIndex: i, on, off: on + d, durationBin: d,
+        replicate: r,
+        pulseIndex: i,
+        on,
+        off: on + d,
+        durationBin: d,
         excluded: r === 3 && i === 2,
-        passed: pass, delay: pass ? 4 + (r % 5) + shift : null, offDelay: pass ? 1 : null,
-        widths: pass ? [d + shift] : [], peak: pass ? 50 : 10, timeToPeak: d, fwhm: pass ? d : null, baseline: 2,
+        passed: pass,
+        delay: pass ? 4 + (r % 5) + shift : null,
+        offDelay: pass ? 1 : null,
+        widths: pass ? [d + shift] : [],
+        peak: pass ? 50 : 10,
+        timeToPeak: d,
+        fwhm: pass ? d : null,
+        baseline: 2,
       });
     });
   }
   return out;
 }
-const replicates = Array.from({ length: 20 }, (_, r) => ({ replicate: r, events: 1000 + r, capped: r === 0, outputMean: 40 + (r % 2), outputVar: 60 }));
+const replicates = Array.from({ length: 20 }, (_, r) => ({
+  replicate: r,
+  events: 1000 + r,
+  capped: r === 0,
+  outputMean: 40 + (r % 2),
+  outputVar: 60,
+}));
 
 describe("summarizeRun", () => {
   const pulses = records();
@@ -38,7 +62,10 @@ describe("summarizeRun", () => {
   test("the result parses with the shared schema and the CLI fields are present", () => {
     RunSummarySchema.parse(s);
     for (const key of ["byDuration", "d50", "d50Note", "falsePassRate", "threshold"]) assert.ok(key in s, key);
-    assert.deepEqual(s.byDuration.map((e) => e.duration), [1, 2, 5, 10, 20, 40]);
+    assert.deepEqual(
+      s.byDuration.map((e) => e.duration),
+      [1, 2, 5, 10, 20, 40],
+    );
   });
 
   test("byDuration counts evaluable pairs, Wilson intervals, excluded apart", () => {
@@ -74,7 +101,12 @@ describe("summarizeRun", () => {
     assert.deepEqual(s.falsePass!.ci, wilson(13, 59));
     assert.ok(s.d50! > 2 && s.d50! < 10, `d50 ${s.d50}`);
     assert.equal(s.d50Note, null);
-    const none = summarizeRun({ pulses: pulses.filter((p) => p.durationBin >= 10), replicates, threshold, noiseDurationMinutes: 10 });
+    const none = summarizeRun({
+      pulses: pulses.filter((p) => p.durationBin >= 10),
+      replicates,
+      threshold,
+      noiseDurationMinutes: 10,
+    });
     assert.equal(none.falsePassRate, null);
     assert.equal(none.falsePass, null);
     assert.equal(none.d50, null);
@@ -114,7 +146,14 @@ describe("compareRuns", () => {
   test("schema, pairs, Holm within families", () => {
     ComparisonSchema.parse(cmp);
     assert.equal(cmp.pairs.length, 3);
-    assert.deepEqual(cmp.pairs.map((p) => [p.a, p.b]), [["a", "b"], ["a", "c"], ["b", "c"]]);
+    assert.deepEqual(
+      cmp.pairs.map((p) => [p.a, p.b]),
+      [
+        ["a", "b"],
+        ["a", "c"],
+        ["b", "c"],
+      ],
+    );
     for (const p of cmp.pairs) assert.ok(p.delays.ks!.pHolm >= p.delays.ks!.pValue);
   });
 
@@ -149,11 +188,17 @@ describe("CSV exports", () => {
     const per = Papa.parse<Record<string, string>>(pulseStatsCsv(pulses), { header: true, skipEmptyLines: true }).data;
     assert.equal(per.length, pulses.length);
     assert.equal(per[0].delay, "");
-    const reps = Papa.parse<Record<string, string>>(replicateStatsCsv(pulses, replicates), { header: true, skipEmptyLines: true }).data;
+    const reps = Papa.parse<Record<string, string>>(replicateStatsCsv(pulses, replicates), {
+      header: true,
+      skipEmptyLines: true,
+    }).data;
     assert.equal(reps.length, 20);
     assert.equal(Number(reps[3].excluded), 1);
     const agg = Papa.parse<Record<string, string>>(byDurationCsv(s), { header: true, skipEmptyLines: true }).data;
-    assert.deepEqual(agg.map((r) => Number(r.duration)), [1, 2, 5, 10, 20, 40]);
+    assert.deepEqual(
+      agg.map((r) => Number(r.duration)),
+      [1, 2, 5, 10, 20, 40],
+    );
     assert.equal(Number(agg[2].passed), 10);
     const head = Papa.parse<string[]>(summaryCsv(s), { skipEmptyLines: true }).data;
     assert.deepEqual(head[0], ["metric", "value"]);
@@ -166,6 +211,12 @@ test("replicates without output moments are remarked on, except for measured tra
   const simulated = summarizeRun({ pulses: records(), replicates: noMoments, threshold, noiseDurationMinutes: 10 });
   assert.ok(simulated.notes.some((n) => /no steady-state output moments/.test(n)));
   assert.equal(simulated.noise.fano, null);
-  const traces = summarizeRun({ pulses: records(), replicates: noMoments, threshold, noiseDurationMinutes: 10, measuredTraces: true });
+  const traces = summarizeRun({
+    pulses: records(),
+    replicates: noMoments,
+    threshold,
+    noiseDurationMinutes: 10,
+    measuredTraces: true,
+  });
   assert.ok(!traces.notes.some((n) => /output moments/.test(n)));
 });

@@ -8,22 +8,36 @@
  */
 import { test, describe } from "node:test";
 import assert from "node:assert/strict";
-import { simulateChunk, solveOde, pulseStatsFromSampledTrace } from "../../../sim/index";
+import { simulateChunk, solveOde, pulseStatsFromSampledTrace } from "@/sim";
 import { makeSpec, meanVar } from "./spec-helpers";
 
 const omega = 1000;
-const by = 0.1, ay = 0.05, kyz = 1; // concentration units per minute
+const by = 0.1,
+  ay = 0.05,
+  kyz = 1; // concentration units per minute
 const circuit = (output: "Y" | "Z") => ({
   name: "c1ffl-and",
-  species: [{ name: "Y", initialCount: 0 }, { name: "Z", initialCount: 0 }],
+  species: [
+    { name: "Y", initialCount: 0 },
+    { name: "Z", initialCount: 0 },
+  ],
   signals: [{ name: "X", offLevel: 0, onLevel: 1 }],
   reactions: [
-    { name: "makeY", products: [{ species: "Y" }], rate: { kind: "constant" as const, ratePerMinute: by }, scaledBy: "X" },
+    {
+      name: "makeY",
+      products: [{ species: "Y" }],
+      rate: { kind: "constant" as const, ratePerMinute: by },
+      scaledBy: "X",
+    },
     { name: "degY", reactants: [{ species: "Y" }], rate: { kind: "massAction" as const, ratePerMinute: ay } },
     {
       name: "makeZ",
       products: [{ species: "Z" }],
-      rate: { kind: "regulated" as const, maxRatePerMinute: 0.5, regulators: [{ source: "Y", effect: "activates" as const, halfMax: kyz, hill: 4 }] },
+      rate: {
+        kind: "regulated" as const,
+        maxRatePerMinute: 0.5,
+        regulators: [{ source: "Y", effect: "activates" as const, halfMax: kyz, hill: 4 }],
+      },
       scaledBy: "X",
     },
     { name: "degZ", reactants: [{ species: "Z" }], rate: { kind: "massAction" as const, ratePerMinute: 0.1 } },
@@ -50,7 +64,11 @@ function delays(spec: ReturnType<typeof makeSpec>): Float64Array {
 describe("C1-FFL AND, SSA in the large-system limit", () => {
   test("mean first time Y reaches Kyz -> T_on", () => {
     const tOn = (1 / ay) * Math.log(1 / (1 - kyz / (by / ay)));
-    const spec = makeSpec(circuit("Y"), { ...common, seed: "ffl-y", threshold: { value: kyz * omega, windowMinutes: 10 } });
+    const spec = makeSpec(circuit("Y"), {
+      ...common,
+      seed: "ffl-y",
+      threshold: { value: kyz * omega, windowMinutes: 10 },
+    });
     const s = meanVar(delays(spec));
     const se = Math.sqrt(s.variance / 200);
     assert.ok(Math.abs(s.mean - tOn) < 4 * se + tOn / omega, `mean ${s.mean} vs T_on ${tOn} (SE ${se})`);
@@ -60,7 +78,11 @@ describe("C1-FFL AND, SSA in the large-system limit", () => {
     const theta = 1 * omega;
     const spec = makeSpec(circuit("Z"), { ...common, seed: "ffl-z", threshold: { value: theta, windowMinutes: 10 } });
     // ODE crossing on a fine grid, linear interpolation (error O(h^2) ~ 1e-5 min)
-    const fine = makeSpec(circuit("Z"), { ...common, gridStepMinutes: 0.01, threshold: { value: theta, windowMinutes: 10 } });
+    const fine = makeSpec(circuit("Z"), {
+      ...common,
+      gridStepMinutes: 0.01,
+      threshold: { value: theta, windowMinutes: 10 },
+    });
     const ode = solveOde(fine);
     const ng = ode.times.length;
     const z = ode.values.subarray(ng, 2 * ng);

@@ -11,9 +11,9 @@ import {
   simulateChunk,
   compileModel,
   reactionRate,
-} from "../../../sim/index";
-import { RunSpecSchema } from "../../../shared/schemas/run-spec";
-import { assertCloseTo } from "../../helpers/close-to";
+} from "@/sim";
+import { RunSpecSchema } from "@/shared/schemas/run-spec";
+import { assertCloseTo } from "@/tests/helpers/close-to";
 import { makeSpec } from "./spec-helpers";
 
 const base = () => structuredClone(templates["c1ffl-and"].circuit);
@@ -42,7 +42,9 @@ describe("validateCircuit", () => {
     assert.equal(r.ok, false);
     if (!r.ok) {
       assert.ok(r.errors.some((e) => e.message.startsWith('reactions[1] "degX":') && /negative/.test(e.message)));
-      assert.ok(r.errors.some((e) => e.message.startsWith('reactions[2] "makeY":') && /finite|a number/.test(e.message)));
+      assert.ok(
+        r.errors.some((e) => e.message.startsWith('reactions[2] "makeY":') && /finite|a number/.test(e.message)),
+      );
     }
   });
 
@@ -60,7 +62,11 @@ describe("validateCircuit", () => {
       assert.match(msgs, /reactions\[6\] "leaky": reactants: .*could drive a count negative/);
     }
     const big = base() as any;
-    big.reactions = Array.from({ length: 201 }, (_, i) => ({ name: `r${i}`, products: [{ species: "qsaA" }], rate: { kind: "constant", ratePerMinute: 1 } }));
+    big.reactions = Array.from({ length: 201 }, (_, i) => ({
+      name: `r${i}`,
+      products: [{ species: "qsaA" }],
+      rate: { kind: "constant", ratePerMinute: 1 },
+    }));
     assert.equal(validateCircuit(big).ok, false);
   });
 });
@@ -69,7 +75,8 @@ describe("parameters", () => {
   test("listParameters and setParameter by reference", () => {
     const c = base();
     const refs = listParameters(c).map((p) => p.ref);
-    for (const r of ["rate(makeX)", "rate(degY)", "leak(makeZ)", "K(makeZ,hldB)", "n(makeZ,qsaA)", "init(rptC)"]) assert.ok(refs.includes(r), r);
+    for (const r of ["rate(makeX)", "rate(degY)", "leak(makeZ)", "K(makeZ,hldB)", "n(makeZ,qsaA)", "init(rptC)"])
+      assert.ok(refs.includes(r), r);
     const d = setParameter(c, "K(makeZ,hldB)", 80);
     assert.equal(listParameters(d).find((p) => p.ref === "K(makeZ,hldB)")!.value, 80);
     assert.equal(listParameters(c).find((p) => p.ref === "K(makeZ,hldB)")!.value, 100, "original unchanged");
@@ -82,10 +89,19 @@ describe("parameters", () => {
       {
         name: "t",
         description: "",
-        species: [{ name: "A", initialCount: 5 }, { name: "B", initialCount: 0 }],
+        species: [
+          { name: "A", initialCount: 5 },
+          { name: "B", initialCount: 0 },
+        ],
         signals: [],
         reactions: [
-          { name: "pair", reactants: [{ species: "A", count: 2 }], products: [{ species: "B", count: 1 }], modifiers: [], rate: { kind: "massAction", ratePerMinute: 0.3 } },
+          {
+            name: "pair",
+            reactants: [{ species: "A", count: 2 }],
+            products: [{ species: "B", count: 1 }],
+            modifiers: [],
+            rate: { kind: "massAction", ratePerMinute: 0.3 },
+          },
           {
             name: "or",
             reactants: [],
@@ -110,8 +126,11 @@ describe("parameters", () => {
     const x = [5, 1];
     assertCloseTo(reactionRate(m, m.baseParams, x, [], 0, false), (0.3 * 5 * 4) / 2, { rel: 1e-15 });
     assertCloseTo(reactionRate(m, m.baseParams, x, [], 0, true), (0.3 * 25) / 2, { rel: 1e-15 });
-    const h1 = 25 / (25 + 25), h2 = 1 / (1 + 1);
-    assertCloseTo(reactionRate(m, m.baseParams, x, [], 1, false), 2 * (0.1 + 0.9 * (1 - (1 - h1) * (1 - h2))), { rel: 1e-15 });
+    const h1 = 25 / (25 + 25),
+      h2 = 1 / (1 + 1);
+    assertCloseTo(reactionRate(m, m.baseParams, x, [], 1, false), 2 * (0.1 + 0.9 * (1 - (1 - h1) * (1 - h2))), {
+      rel: 1e-15,
+    });
   });
 });
 
@@ -139,7 +158,12 @@ describe("run-level helpers", () => {
 
   test("resolveThreshold refuses when the output has no first-order removal and no window is set", () => {
     const spec = makeSpec(
-      { name: "x", species: [{ name: "A", initialCount: 0 }], reactions: [{ name: "m", products: [{ species: "A" }], rate: { kind: "constant", ratePerMinute: 1 } }], outputSpecies: "A" },
+      {
+        name: "x",
+        species: [{ name: "A", initialCount: 0 }],
+        reactions: [{ name: "m", products: [{ species: "A" }], rate: { kind: "constant", ratePerMinute: 1 } }],
+        outputSpecies: "A",
+      },
       { threshold: { value: 3 } },
     );
     assert.throws(() => resolveThreshold(spec), /no first-order removal; set threshold\.outputLifetimeMinutes/);

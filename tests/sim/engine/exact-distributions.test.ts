@@ -13,7 +13,12 @@ const birthDeath = (k: number, g: number, scaledBy?: string) => ({
   species: [{ name: "A", initialCount: 0 }],
   signals: [{ name: "S", offLevel: scaledBy ? 0 : 1, onLevel: 1 }],
   reactions: [
-    { name: "make", products: [{ species: "A" }], rate: { kind: "constant" as const, ratePerMinute: k }, ...(scaledBy ? { scaledBy } : {}) },
+    {
+      name: "make",
+      products: [{ species: "A" }],
+      rate: { kind: "constant" as const, ratePerMinute: k },
+      ...(scaledBy ? { scaledBy } : {}),
+    },
     { name: "decay", reactants: [{ species: "A" }], rate: { kind: "massAction" as const, ratePerMinute: g } },
   ],
   outputSpecies: "A",
@@ -21,7 +26,9 @@ const birthDeath = (k: number, g: number, scaledBy?: string) => ({
 
 describe("monomolecular systems (Jahnke & Huisinga 2007, J Math Biol 54:1)", () => {
   test("birth-death from 0: A(t) ~ Poisson((k/g)(1 - e^{-gt}))", () => {
-    const k = 10, g = 0.1, t = 5;
+    const k = 10,
+      g = 0.1,
+      t = 5;
     const spec = makeSpec(birthDeath(k, g), { endTimeMinutes: t, gridStepMinutes: t, replicates: 2000, seed: "bd-1" });
     const [a] = samplesAtEnd(spec);
     const m = (k / g) * (1 - Math.exp(-g * t));
@@ -34,7 +41,13 @@ describe("monomolecular systems (Jahnke & Huisinga 2007, J Math Biol 54:1)", () 
     // k = 10 on [0,2), 30 on [2,4) (pulse levels 1 and 3 of signal S), 0 after; g = 0.5; sample at t = 6
     const g = 0.5;
     const spec = makeSpec(birthDeath(10, g, "S"), {
-      program: { kind: "pulses", pulses: [{ start: 0, duration: 2, level: 1 }, { start: 2, duration: 2, level: 3 }] },
+      program: {
+        kind: "pulses",
+        pulses: [
+          { start: 0, duration: 2, level: 1 },
+          { start: 2, duration: 2, level: 3 },
+        ],
+      },
       endTimeMinutes: 6,
       gridStepMinutes: 6,
       replicates: 2000,
@@ -51,7 +64,9 @@ describe("monomolecular systems (Jahnke & Huisinga 2007, J Math Biol 54:1)", () 
   });
 
   test("pure decay: A(t) ~ Binomial(N, e^{-gt})", () => {
-    const N = 50, g = 0.2, t = 3;
+    const N = 50,
+      g = 0.2,
+      t = 3;
     const spec = makeSpec(
       {
         name: "decay",
@@ -66,14 +81,29 @@ describe("monomolecular systems (Jahnke & Huisinga 2007, J Math Biol 54:1)", () 
   });
 
   test("isomerisation A <-> B: stationary A ~ Binomial(N, k_back/(k_fwd + k_back))", () => {
-    const N = 30, kf = 1, kb = 0.5;
+    const N = 30,
+      kf = 1,
+      kb = 0.5;
     const spec = makeSpec(
       {
         name: "isomerisation",
-        species: [{ name: "A", initialCount: N }, { name: "B", initialCount: 0 }],
+        species: [
+          { name: "A", initialCount: N },
+          { name: "B", initialCount: 0 },
+        ],
         reactions: [
-          { name: "fwd", reactants: [{ species: "A" }], products: [{ species: "B" }], rate: { kind: "massAction", ratePerMinute: kf } },
-          { name: "back", reactants: [{ species: "B" }], products: [{ species: "A" }], rate: { kind: "massAction", ratePerMinute: kb } },
+          {
+            name: "fwd",
+            reactants: [{ species: "A" }],
+            products: [{ species: "B" }],
+            rate: { kind: "massAction", ratePerMinute: kf },
+          },
+          {
+            name: "back",
+            reactants: [{ species: "B" }],
+            products: [{ species: "A" }],
+            rate: { kind: "massAction", ratePerMinute: kb },
+          },
         ],
         outputSpecies: "A",
       },
@@ -100,16 +130,27 @@ function assertFano(samples: Float64Array, mean: number, fano: number, label: st
 
 describe("stationary noise of gene expression", () => {
   test("two-stage mRNA/protein: mean P = km kp/(gm gp), Fano = 1 + kp/(gm + gp) (Thattai & van Oudenaarden 2001, PNAS 98:8614)", () => {
-    const km = 1, gm = 0.5, kp = 3, gp = 0.1;
+    const km = 1,
+      gm = 0.5,
+      kp = 3,
+      gp = 0.1;
     const meanP = (km * kp) / (gm * gp);
     const spec = makeSpec(
       {
         name: "two-stage",
-        species: [{ name: "M", initialCount: 2 }, { name: "P", initialCount: 60 }],
+        species: [
+          { name: "M", initialCount: 2 },
+          { name: "P", initialCount: 60 },
+        ],
         reactions: [
           { name: "tx", products: [{ species: "M" }], rate: { kind: "constant", ratePerMinute: km } },
           { name: "mdeg", reactants: [{ species: "M" }], rate: { kind: "massAction", ratePerMinute: gm } },
-          { name: "tl", reactants: [{ species: "M" }], products: [{ species: "M" }, { species: "P" }], rate: { kind: "massAction", ratePerMinute: kp } },
+          {
+            name: "tl",
+            reactants: [{ species: "M" }],
+            products: [{ species: "M" }, { species: "P" }],
+            rate: { kind: "massAction", ratePerMinute: kp },
+          },
           { name: "pdeg", reactants: [{ species: "P" }], rate: { kind: "massAction", ratePerMinute: gp } },
         ],
         outputSpecies: "P",
@@ -122,15 +163,37 @@ describe("stationary noise of gene expression", () => {
   });
 
   test("telegraph gene: mean M = v kon/(d(kon+koff)), Fano = 1 + v koff/((kon+koff)(kon+koff+d)) (Peccoud & Ycart 1995, Theor Popul Biol 48:222)", () => {
-    const kon = 0.2, koff = 0.3, v = 20, d = 1;
+    const kon = 0.2,
+      koff = 0.3,
+      v = 20,
+      d = 1;
     const spec = makeSpec(
       {
         name: "telegraph",
-        species: [{ name: "Goff", initialCount: 1 }, { name: "Gon", initialCount: 0 }, { name: "M", initialCount: 0 }],
+        species: [
+          { name: "Goff", initialCount: 1 },
+          { name: "Gon", initialCount: 0 },
+          { name: "M", initialCount: 0 },
+        ],
         reactions: [
-          { name: "on", reactants: [{ species: "Goff" }], products: [{ species: "Gon" }], rate: { kind: "massAction", ratePerMinute: kon } },
-          { name: "off", reactants: [{ species: "Gon" }], products: [{ species: "Goff" }], rate: { kind: "massAction", ratePerMinute: koff } },
-          { name: "tx", reactants: [{ species: "Gon" }], products: [{ species: "Gon" }, { species: "M" }], rate: { kind: "massAction", ratePerMinute: v } },
+          {
+            name: "on",
+            reactants: [{ species: "Goff" }],
+            products: [{ species: "Gon" }],
+            rate: { kind: "massAction", ratePerMinute: kon },
+          },
+          {
+            name: "off",
+            reactants: [{ species: "Gon" }],
+            products: [{ species: "Goff" }],
+            rate: { kind: "massAction", ratePerMinute: koff },
+          },
+          {
+            name: "tx",
+            reactants: [{ species: "Gon" }],
+            products: [{ species: "Gon" }, { species: "M" }],
+            rate: { kind: "massAction", ratePerMinute: v },
+          },
           { name: "deg", reactants: [{ species: "M" }], rate: { kind: "massAction", ratePerMinute: d } },
         ],
         outputSpecies: "M",

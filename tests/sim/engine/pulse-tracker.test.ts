@@ -4,8 +4,8 @@
  */
 import { test, describe } from "node:test";
 import assert from "node:assert/strict";
-import { PulseTracker, pulseStatsFromSampledTrace } from "../../../sim/metrics/pulse-tracker";
-import { assertCloseTo } from "../../helpers/close-to";
+import { PulseTracker, pulseStatsFromSampledTrace } from "@/sim/metrics/pulse-tracker";
+import { assertCloseTo } from "@/tests/helpers/close-to";
 
 const thr = { theta: 10, downTheta: 8, windowMinutes: 5 };
 

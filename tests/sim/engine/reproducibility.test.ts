@@ -7,8 +7,8 @@
 import { test, describe } from "node:test";
 import assert from "node:assert/strict";
 import fc from "fast-check";
-import { simulateChunk, reduceChunks, chunkLayout, templates, compileModel } from "../../../sim/index";
-import { RunSpecSchema } from "../../../shared/schemas/run-spec";
+import { simulateChunk, reduceChunks, chunkLayout, templates, compileModel } from "@/sim";
+import { RunSpecSchema } from "@/shared/schemas/run-spec";
 import { makeSpec, meanVar } from "./spec-helpers";
 
 /** A random small circuit over species A, B, C with first- and second-order reactions. */
@@ -28,15 +28,39 @@ const circuitArb = fc
     ],
     signals: [{ name: "S", offLevel: 0, onLevel: 1 }],
     reactions: [
-      { name: "makeA", products: [{ species: "A" }], rate: { kind: "constant" as const, ratePerMinute: 5 * k[0] }, scaledBy: "S" },
-      { name: "dimer", reactants: [{ species: "A", count: 2 }], products: [{ species: "B" }], rate: { kind: "massAction" as const, ratePerMinute: 0.05 * k[1] } },
-      { name: "bind", reactants: [{ species: "A" }, { species: "B" }], products: [{ species: "C" }], rate: { kind: "massAction" as const, ratePerMinute: 0.05 * k[2] } },
-      { name: "split", reactants: [{ species: "C" }], products: [{ species: "A" }, { species: "B" }], rate: { kind: "massAction" as const, ratePerMinute: k[3] } },
+      {
+        name: "makeA",
+        products: [{ species: "A" }],
+        rate: { kind: "constant" as const, ratePerMinute: 5 * k[0] },
+        scaledBy: "S",
+      },
+      {
+        name: "dimer",
+        reactants: [{ species: "A", count: 2 }],
+        products: [{ species: "B" }],
+        rate: { kind: "massAction" as const, ratePerMinute: 0.05 * k[1] },
+      },
+      {
+        name: "bind",
+        reactants: [{ species: "A" }, { species: "B" }],
+        products: [{ species: "C" }],
+        rate: { kind: "massAction" as const, ratePerMinute: 0.05 * k[2] },
+      },
+      {
+        name: "split",
+        reactants: [{ species: "C" }],
+        products: [{ species: "A" }, { species: "B" }],
+        rate: { kind: "massAction" as const, ratePerMinute: k[3] },
+      },
       { name: "degB", reactants: [{ species: "B" }], rate: { kind: "massAction" as const, ratePerMinute: 0.2 * k[4] } },
       {
         name: "makeC",
         products: [{ species: "C", count: 2 }],
-        rate: { kind: "regulated" as const, maxRatePerMinute: k[5], regulators: [{ source: "B", effect: "represses" as const, halfMax: K, hill: n }] },
+        rate: {
+          kind: "regulated" as const,
+          maxRatePerMinute: k[5],
+          regulators: [{ source: "B", effect: "represses" as const, halfMax: K, hill: n }],
+        },
       },
       { name: "degC", reactants: [{ species: "C" }], rate: { kind: "massAction" as const, ratePerMinute: 0.3 * k[6] } },
     ],
@@ -46,27 +70,31 @@ const circuitArb = fc
 describe("properties", () => {
   test("counts never go negative (replaying every recorded event)", () => {
     fc.assert(
-      fc.property(circuitArb, fc.string({ minLength: 1, maxLength: 8 }).filter((s) => /^[A-Za-z0-9]+$/.test(s)), (circuit, seed) => {
-        const spec = makeSpec(circuit, {
-          program: { kind: "periodic", start: 2, onDuration: 3, offDuration: 4 },
-          endTimeMinutes: 20,
-          gridStepMinutes: 0.5,
-          replicates: 3,
-          seed,
-          recordEventsFor: 3,
-        });
-        const r = simulateChunk(spec, 0, 3);
-        const model = compileModel(spec.circuit);
-        for (const rec of r.recordedEvents!) {
-          const x = Float64Array.from(rec.initial);
-          for (let e = 0; e < rec.reactions.length; e++) {
-            for (const d of model.reactions[rec.reactions[e]].delta) x[d.species] += d.change;
-            for (let i = 0; i < x.length; i++) if (x[i] < 0) return false;
+      fc.property(
+        circuitArb,
+        fc.string({ minLength: 1, maxLength: 8 }).filter((s) => /^[A-Za-z0-9]+$/.test(s)),
+        (circuit, seed) => {
+          const spec = makeSpec(circuit, {
+            program: { kind: "periodic", start: 2, onDuration: 3, offDuration: 4 },
+            endTimeMinutes: 20,
+            gridStepMinutes: 0.5,
+            replicates: 3,
+            seed,
+            recordEventsFor: 3,
+          });
+          const r = simulateChunk(spec, 0, 3);
+          const model = compileModel(spec.circuit);
+          for (const rec of r.recordedEvents!) {
+            const x = Float64Array.from(rec.initial);
+            for (let e = 0; e < rec.reactions.length; e++) {
+              for (const d of model.reactions[rec.reactions[e]].delta) x[d.species] += d.change;
+              for (let i = 0; i < x.length; i++) if (x[i] < 0) return false;
+            }
           }
-        }
-        for (const t of r.trajectories) for (const v of t.values) if (!(v >= 0)) return false;
-        return true;
-      }),
+          for (const t of r.trajectories) for (const v of t.values) if (!(v >= 0)) return false;
+          return true;
+        },
+      ),
       { numRuns: 40, seed: 7 },
     );
   });
@@ -121,7 +149,10 @@ describe("run mechanics", () => {
   test("chunk layout depends only on the spec and reduceChunks matches a single-chunk reduction", () => {
     const s = spec({ replicates: 250 });
     const layout = chunkLayout(s);
-    assert.deepEqual(layout.chunks.map((c) => c.count), [100, 100, 50]);
+    assert.deepEqual(
+      layout.chunks.map((c) => c.count),
+      [100, 100, 50],
+    );
     const s2 = spec({ replicates: 12, endTimeMinutes: 50 });
     const parts = [simulateChunk(s2, 0, 5), simulateChunk(s2, 5, 7)];
     const one = simulateChunk(s2, 0, 12);
@@ -157,7 +188,7 @@ describe("run mechanics", () => {
     const s = spec({ replicates: 400, endTimeMinutes: 1, extrinsic: [{ parameter: "rate(makeZ)", cv: 0.25 }] });
     const f = Float64Array.from(simulateChunk(s, 0, 400).replicates.map((r) => r.factors["rate(makeZ)"]));
     const m = meanVar(f);
-    assert.ok(Math.abs(m.mean - 1) < 4 * 0.25 / Math.sqrt(400), `mean ${m.mean}`);
+    assert.ok(Math.abs(m.mean - 1) < (4 * 0.25) / Math.sqrt(400), `mean ${m.mean}`);
     const seVar = Math.sqrt((m.m4 - m.variance ** 2) / 400);
     assert.ok(Math.abs(m.variance - 0.0625) < 4 * seVar, `variance ${m.variance}`);
   });
@@ -178,13 +209,20 @@ describe("run mechanics", () => {
     assert.equal(rec.times.length, r.events);
     const model = compileModel(s.circuit);
     const x = Float64Array.from(rec.initial);
-    for (let e = 0; e < rec.reactions.length; e++) for (const d of model.reactions[rec.reactions[e]].delta) x[d.species] += d.change;
+    for (let e = 0; e < rec.reactions.length; e++)
+      for (const d of model.reactions[rec.reactions[e]].delta) x[d.species] += d.change;
     const ng = 101;
     for (let i = 0; i < 3; i++) assert.equal(x[i], r.trajectories[0].values[i * ng + ng - 1]);
   });
 
   test("random program: one shared realisation by default, one per replicate on request (chunk-independent)", () => {
-    const program = { kind: "random", start: 0, meanInterval: 20, durations: { dist: "exponential", mean: 3 }, seed: "spikes" };
+    const program = {
+      kind: "random",
+      start: 0,
+      meanInterval: 20,
+      durations: { dist: "exponential", mean: 3 },
+      seed: "spikes",
+    };
     const shared = simulateChunk(spec({ program, replicates: 3 }), 0, 3);
     const ons = (r: typeof shared, rep: number) => r.pulses.filter((p) => p.replicate === rep).map((p) => p.on);
     assert.deepEqual(ons(shared, 0), ons(shared, 2));

@@ -3,9 +3,9 @@
  * the end time, and a chi-square goodness-of-fit test against an exact pmf.
  */
 import assert from "node:assert/strict";
-import { RunSpecSchema, type RunSpec, type RunSpecInput } from "../../../shared/schemas/run-spec";
-import type { CircuitInput } from "../../../shared/schemas/circuit";
-import { simulateChunk } from "../../../sim/index";
+import { RunSpecSchema, type RunSpec, type RunSpecInput } from "@/shared/schemas/run-spec";
+import type { CircuitInput } from "@/shared/schemas/circuit";
+import { simulateChunk } from "@/sim";
 
 /** A spec around a circuit; adds a dummy signal "S" when the circuit has none. */
 export function makeSpec(circuit: CircuitInput, extra: Partial<RunSpecInput> = {}): RunSpec {
@@ -40,7 +40,10 @@ export function poissonPmf(mean: number): (k: number) => number {
 }
 
 export function binomialPmf(n: number, p: number): (k: number) => number {
-  return (k) => (k < 0 || k > n ? 0 : Math.exp(lnFactorial(n) - lnFactorial(k) - lnFactorial(n - k) + k * Math.log(p) + (n - k) * Math.log(1 - p)));
+  return (k) =>
+    k < 0 || k > n
+      ? 0
+      : Math.exp(lnFactorial(n) - lnFactorial(k) - lnFactorial(n - k) + k * Math.log(p) + (n - k) * Math.log(1 - p));
 }
 
 function lnFactorial(k: number): number {
@@ -56,7 +59,12 @@ function lnFactorial(k: number): number {
  * from the Wilson-Hilferty approximation (Wilson & Hilferty 1931, PNAS 17:684),
  * z(0.999) = 3.0902.
  */
-export function assertChiSquareFits(samples: ArrayLike<number>, pmf: (k: number) => number, maxK: number, label: string): void {
+export function assertChiSquareFits(
+  samples: ArrayLike<number>,
+  pmf: (k: number) => number,
+  maxK: number,
+  label: string,
+): void {
   const n = samples.length;
   const observed = new Float64Array(maxK + 1);
   for (let i = 0; i < n; i++) {

@@ -7,11 +7,13 @@
  */
 import { test } from "node:test";
 import assert from "node:assert/strict";
-import { simulateChunk } from "../../../sim/index";
+import { simulateChunk } from "@/sim";
 import { makeSpec, samplesAtEnd, meanVar } from "./spec-helpers";
 
 test("tau-leap birth-death: mean and variance close to the exact Poisson(k/g (1 - e^{-gt}))", () => {
-  const k = 2000, g = 0.5, t = 6;
+  const k = 2000,
+    g = 0.5,
+    t = 6;
   const spec = makeSpec(
     {
       name: "bd",
@@ -29,7 +31,10 @@ test("tau-leap birth-death: mean and variance close to the exact Poisson(k/g (1 
   const s = meanVar(a);
   assert.ok(Math.abs(s.mean - m) < 4 * Math.sqrt(m / a.length) + 0.02 * m, `mean ${s.mean} vs ${m}`);
   // variance of the sample variance of a Poisson: ~2 m^2 / N
-  assert.ok(Math.abs(s.variance - m) < 4 * Math.sqrt((2 * m * m) / a.length) + 0.1 * m, `variance ${s.variance} vs ${m}`);
+  assert.ok(
+    Math.abs(s.variance - m) < 4 * Math.sqrt((2 * m * m) / a.length) + 0.1 * m,
+    `variance ${s.variance} vs ${m}`,
+  );
   const r = simulateChunk(spec, 0, 5);
   assert.equal(r.method, "tauLeap");
   // far fewer steps than firings is the point of leaping; events still count firings

@@ -2,10 +2,10 @@ import { test, describe as suite } from "node:test";
 import assert from "node:assert/strict";
 import * as ss from "simple-statistics";
 import seedrandom from "seedrandom";
-import { quantileSorted } from "../../../sim/stats/quantile";
-import { describe, mean, sampleVariance } from "../../../sim/stats/describe";
-import { histogram, sturgesBinCount } from "../../../sim/stats/histogram";
-import { assertCloseTo } from "../../helpers/close-to";
+import { quantileSorted } from "@/sim/stats/quantile";
+import { describe, mean, sampleVariance } from "@/sim/stats/describe";
+import { histogram, sturgesBinCount } from "@/sim/stats/histogram";
+import { assertCloseTo } from "@/tests/helpers/close-to";
 
 suite("quantiles and descriptive summary", () => {
   test("definition 7 of Hyndman & Fan 1996 on 1..10: 3.25, 5.5, 7.75 (worked by hand)", () => {
@@ -26,7 +26,13 @@ suite("quantiles and descriptive summary", () => {
       assertCloseTo(d.mean!, ss.mean(xs), { rel: 1e-12 });
       assertCloseTo(d.sd!, ss.sampleStandardDeviation(xs), { rel: 1e-10 });
       assertCloseTo(sampleVariance(xs), ss.sampleVariance(xs), { rel: 1e-10 });
-      for (const [p, key] of [[0.1, "q10"], [0.25, "q25"], [0.5, "median"], [0.75, "q75"], [0.9, "q90"]] as const) {
+      for (const [p, key] of [
+        [0.1, "q10"],
+        [0.25, "q25"],
+        [0.5, "median"],
+        [0.75, "q75"],
+        [0.9, "q90"],
+      ] as const) {
         assertCloseTo(d[key]!, ss.quantile(xs, p), { abs: 1e-9 }, `${key}`);
       }
     }
@@ -51,6 +57,9 @@ suite("histogram", () => {
     assert.equal(fixed.below, 1);
     assert.equal(fixed.above, 1);
     assert.equal(sturgesBinCount(100), 8);
-    assert.equal(histogram([5, 5, 5]).counts.reduce((s, c) => s + c, 0), 3);
+    assert.equal(
+      histogram([5, 5, 5]).counts.reduce((s, c) => s + c, 0),
+      3,
+    );
   });
 });

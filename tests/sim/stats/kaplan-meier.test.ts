@@ -1,8 +1,8 @@
 import { test, describe } from "node:test";
 import assert from "node:assert/strict";
 import * as ss from "simple-statistics";
-import { kaplanMeier, kmQuantile, kmQuantileInterval } from "../../../sim/stats/kaplan-meier";
-import { assertCloseTo } from "../../helpers/close-to";
+import { kaplanMeier, kmQuantile, kmQuantileInterval } from "@/sim/stats/kaplan-meier";
+import { assertCloseTo } from "@/tests/helpers/close-to";
 
 /**
  * Worked example: remission times (weeks) of the 6-MP arm of the leukaemia
@@ -50,12 +50,19 @@ describe("Kaplan-Meier", () => {
   });
 
   test("without censoring the median is the sample median (simple-statistics as an independent reference)", () => {
-    for (const xs of [[5, 1, 3], [4, 1, 2, 3], [2, 2, 7, 9, 9, 9, 10, 11]]) {
+    for (const xs of [
+      [5, 1, 3],
+      [4, 1, 2, 3],
+      [2, 2, 7, 9, 9, 9, 10, 11],
+    ]) {
       const km = kaplanMeier(xs.map((time) => ({ time, event: true })));
       assert.equal(kmQuantile(km, 0.5), ss.median(xs));
     }
     // all censored: no median, no interval
-    const none = kaplanMeier([{ time: 3, event: false }, { time: 4, event: false }]);
+    const none = kaplanMeier([
+      { time: 3, event: false },
+      { time: 4, event: false },
+    ]);
     assert.equal(kmQuantile(none, 0.5), null);
     assert.deepEqual(kmQuantileInterval(none, 0.5), [null, null]);
   });

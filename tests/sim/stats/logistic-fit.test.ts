@@ -1,11 +1,13 @@
 import { test, describe } from "node:test";
 import assert from "node:assert/strict";
-import { fitLogisticPass } from "../../../sim/stats/logistic-fit";
-import { assertCloseTo } from "../../helpers/close-to";
+import { fitLogisticPass } from "@/sim/stats/logistic-fit";
+import { assertCloseTo } from "@/tests/helpers/close-to";
 
 describe("logistic fit of pass against log duration", () => {
   test("data symmetric about 4 min on the log scale give d50 = 4 exactly (symmetry of the likelihood)", () => {
-    const fit = fitLogisticPass([1, 2, 4, 8, 16].map((duration, i) => ({ duration, trials: 20, passed: [2, 5, 10, 15, 18][i] })));
+    const fit = fitLogisticPass(
+      [1, 2, 4, 8, 16].map((duration, i) => ({ duration, trials: 20, passed: [2, 5, 10, 15, 18][i] })),
+    );
     assert.ok(fit.converged);
     assertCloseTo(fit.d50!, 4, { rel: 1e-9 });
     assert.ok(fit.d50Ci![0] < 4 && fit.d50Ci![1] > 4);
@@ -22,7 +24,8 @@ describe("logistic fit of pass against log duration", () => {
       { duration: 30, trials: 10, passed: 10 },
     ];
     const fit = fitLogisticPass(data);
-    let s0 = 0, s1 = 0;
+    let s0 = 0,
+      s1 = 0;
     for (const g of data) {
       const x = Math.log(g.duration);
       const p = 1 / (1 + Math.exp(-(fit.intercept! + fit.slopePerLogMinute! * x)));
@@ -49,7 +52,10 @@ describe("logistic fit of pass against log duration", () => {
     const g = (duration: number, trials: number, passed: number) => ({ duration, trials, passed });
     const sep = fitLogisticPass([g(1, 10, 0), g(2, 10, 0), g(10, 10, 10)]);
     assert.equal(sep.d50, null);
-    assert.match(sep.d50Note!, /separate completely: every pulse of 2 min or shorter failed and every pulse of 10 min or longer passed/);
+    assert.match(
+      sep.d50Note!,
+      /separate completely: every pulse of 2 min or shorter failed and every pulse of 10 min or longer passed/,
+    );
     const quasi = fitLogisticPass([g(1, 10, 0), g(5, 10, 4), g(10, 10, 10)]);
     assert.equal(quasi.d50, null);
     assert.match(quasi.d50Note!, /except at 5 min \(4 of 10 passed\)/);

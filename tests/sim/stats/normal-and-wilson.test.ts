@@ -1,8 +1,8 @@
 import { test, describe } from "node:test";
 import * as ss from "simple-statistics";
-import { normalCdf, normalUpperTail, normalTwoSidedP, erfc, Z_95 } from "../../../sim/stats/normal-distribution";
-import { wilson } from "../../../sim/stats/wilson-interval";
-import { assertCloseTo } from "../../helpers/close-to";
+import { normalCdf, normalUpperTail, normalTwoSidedP, erfc, Z_95 } from "@/sim/stats/normal-distribution";
+import { wilson } from "@/sim/stats/wilson-interval";
+import { assertCloseTo } from "@/tests/helpers/close-to";
 import assert from "node:assert/strict";
 
 describe("normal distribution", () => {

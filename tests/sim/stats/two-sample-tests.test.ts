@@ -2,13 +2,13 @@ import { test, describe } from "node:test";
 import assert from "node:assert/strict";
 import * as ss from "simple-statistics";
 import seedrandom from "seedrandom";
-import { ks2, ksCritical05 } from "../../../sim/stats/ks-two-sample";
-import { kolmogorovUpperTail, kolmogorovQuantile } from "../../../sim/stats/kolmogorov-distribution";
-import { mannWhitney } from "../../../sim/stats/mann-whitney";
-import { holm } from "../../../sim/stats/holm";
-import { fisherExact } from "../../../sim/stats/fisher-exact";
-import { wasserstein1 } from "../../../sim/stats/wasserstein-1";
-import { assertCloseTo } from "../../helpers/close-to";
+import { ks2, ksCritical05 } from "@/sim/stats/ks-two-sample";
+import { kolmogorovUpperTail, kolmogorovQuantile } from "@/sim/stats/kolmogorov-distribution";
+import { mannWhitney } from "@/sim/stats/mann-whitney";
+import { holm } from "@/sim/stats/holm";
+import { fisherExact } from "@/sim/stats/fisher-exact";
+import { wasserstein1 } from "@/sim/stats/wasserstein-1";
+import { assertCloseTo } from "@/tests/helpers/close-to";
 
 /** Brute-force D: maximum ECDF difference evaluated at every pooled value (independent of ks2's merge walk). */
 function bruteD(a: number[], b: number[]): number {
@@ -30,7 +30,11 @@ describe("two-sample Kolmogorov-Smirnov", () => {
   });
 
   test("5% critical value is 1.358 sqrt((n+m)/(nm)) (domain notes section 4)", () => {
-    for (const [n, m] of [[50, 50], [100, 40], [1000, 1000]]) {
+    for (const [n, m] of [
+      [50, 50],
+      [100, 40],
+      [1000, 1000],
+    ]) {
       assertCloseTo(ksCritical05(n, m), 1.358 * Math.sqrt((n + m) / (n * m)), { rel: 2e-4 });
     }
   });
@@ -43,7 +47,9 @@ describe("two-sample Kolmogorov-Smirnov", () => {
     const rng = seedrandom("ks-brute");
     for (let rep = 0; rep < 30; rep++) {
       const x = Array.from({ length: 5 + Math.floor(rng() * 20) }, () => Math.floor(rng() * 8));
-      const y = Array.from({ length: 5 + Math.floor(rng() * 20) }, () => (rng() < 0.2 ? Infinity : Math.floor(rng() * 8)));
+      const y = Array.from({ length: 5 + Math.floor(rng() * 20) }, () =>
+        rng() < 0.2 ? Infinity : Math.floor(rng() * 8),
+      );
       assertCloseTo(ks2(x, y).d, bruteD(x, y), { abs: 1e-12 });
     }
     assert.equal(ks2([1, 2], [1, 2]).d, 0);
@@ -148,7 +154,14 @@ describe("Wasserstein-1", () => {
     const sb = [...b].sort((x, y) => x - y);
     const pairs = sa.reduce((s, v, i) => s + Math.abs(v - sb[i]), 0) / 50;
     assertCloseTo(wasserstein1(a, b), pairs, { rel: 1e-12 });
-    assertCloseTo(wasserstein1(a, a.map((v) => v + 3.5)), 3.5, { rel: 1e-12 });
+    assertCloseTo(
+      wasserstein1(
+        a,
+        a.map((v) => v + 3.5),
+      ),
+      3.5,
+      { rel: 1e-12 },
+    );
     assert.throws(() => wasserstein1([Infinity], [1]));
   });
 });

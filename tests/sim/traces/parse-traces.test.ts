@@ -1,6 +1,12 @@
 import { test, describe } from "node:test";
 import assert from "node:assert/strict";
-import { parseTraces, pulsesFromLevels, detectDelimiter, type ParsedTraces, type ParseFailure } from "../../../sim/traces/parse-traces";
+import {
+  parseTraces,
+  pulsesFromLevels,
+  detectDelimiter,
+  type ParsedTraces,
+  type ParseFailure,
+} from "@/sim/traces/parse-traces";
 
 function ok(r: ParsedTraces | ParseFailure): ParsedTraces {
   if (!r.ok) assert.fail(`expected a parse, got errors: ${JSON.stringify(r.errors)}`);
@@ -23,7 +29,10 @@ describe("parseTraces: long layout", () => {
     assert.equal(r.layout, "long");
     assert.equal(r.delimiter, "comma");
     assert.equal(r.rows, 6);
-    assert.deepEqual(r.cells.map((c) => c.cell), ["A", "B"]);
+    assert.deepEqual(
+      r.cells.map((c) => c.cell),
+      ["A", "B"],
+    );
     assert.deepEqual(cell(r, "A"), { times: [0, 1, 2], values: [1.5, 2, 3] });
     assert.deepEqual(cell(r, "B"), { times: [0.5, 1.5, 2.5], values: [7, 8, 9] });
   });
@@ -82,7 +91,10 @@ describe("parseTraces: wide layout", () => {
     const text = "minute;a;b;q\n0;1;4;0\n10;2;5;1\n20;3;6;0\n";
     const r = ok(parseTraces(text, { timeUnit: "min", scheduleColumn: "Q" }));
     assert.equal(r.delimiter, "semicolon");
-    assert.deepEqual(r.cells.map((c) => c.cell), ["a", "b"]);
+    assert.deepEqual(
+      r.cells.map((c) => c.cell),
+      ["a", "b"],
+    );
     assert.deepEqual(r.schedule, [{ on: 10, off: 20 }]);
   });
 
@@ -107,7 +119,9 @@ describe("parseTraces: validation names the line and column of the first problem
   });
 
   test("time going backwards within a cell (long)", () => {
-    const errs = fail(parseTraces("cell,time,value\nA,0,1\nB,0,1\nA,5,2\nB,1,2\nA,3,3\nA,6,4\nB,2,3\n", { timeUnit: "min" }));
+    const errs = fail(
+      parseTraces("cell,time,value\nA,0,1\nB,0,1\nA,5,2\nB,1,2\nA,3,3\nA,6,4\nB,2,3\n", { timeUnit: "min" }),
+    );
     assert.equal(errs.length, 1);
     assert.deepEqual({ line: errs[0].line, column: errs[0].column }, { line: 6, column: 2 });
     assert.match(errs[0].message, /time goes backwards within cell "A" \(3 after 5\)/);
@@ -156,7 +170,10 @@ describe("parseTraces: validation names the line and column of the first problem
     for (let i = 0; i < 50; i++) rows.push(`A,${i},x${i}`);
     const errs = fail(parseTraces(rows.join("\n"), { timeUnit: "min" }));
     assert.equal(errs.length, 20);
-    assert.deepEqual(errs.map((e) => e.line), Array.from({ length: 20 }, (_, i) => i + 2));
+    assert.deepEqual(
+      errs.map((e) => e.line),
+      Array.from({ length: 20 }, (_, i) => i + 2),
+    );
   });
 
   test("row and cell limits", () => {
@@ -180,7 +197,10 @@ describe("parseTraces: validation names the line and column of the first problem
 });
 
 test("pulsesFromLevels: ON from the first frame above onAbove to the first frame not above", () => {
-  assert.deepEqual(pulsesFromLevels([0, 1, 2, 3, 4, 5], [0, 1, 1, 0, 2, 2], 0), [{ on: 1, off: 3 }, { on: 4, off: 5 }]);
+  assert.deepEqual(pulsesFromLevels([0, 1, 2, 3, 4, 5], [0, 1, 1, 0, 2, 2], 0), [
+    { on: 1, off: 3 },
+    { on: 4, off: 5 },
+  ]);
   assert.deepEqual(pulsesFromLevels([0, 1, 2], [0.4, 0.6, 0.2], 0.5), [{ on: 1, off: 2 }]);
 });
 

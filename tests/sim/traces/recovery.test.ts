@@ -14,14 +14,14 @@
  */
 import { test } from "node:test";
 import assert from "node:assert/strict";
-import { RunSpecSchema, type RunSpec } from "../../../shared/schemas/run-spec";
-import { TraceSettingsSchema } from "../../../shared/schemas/api-traces";
-import { templates } from "../../../sim/circuit/templates";
-import { setParameter } from "../../../sim/circuit/parameters";
-import { simulateChunk } from "../../../sim/engine/simulate-chunk";
-import { makeSyntheticTraces } from "../../../sim/traces/synthetic";
-import { analyseTraces, pooledPulses } from "../../../sim/traces/trace-metrics";
-import { matchPoints, summarizeFigures, type CandidatePoint } from "../../../sim/traces/match";
+import { RunSpecSchema, type RunSpec } from "@/shared/schemas/run-spec";
+import { TraceSettingsSchema } from "@/shared/schemas/api-traces";
+import { templates } from "@/sim/circuit/templates";
+import { setParameter } from "@/sim/circuit/parameters";
+import { simulateChunk } from "@/sim/engine/simulate-chunk";
+import { makeSyntheticTraces } from "@/sim/traces/synthetic";
+import { analyseTraces, pooledPulses } from "@/sim/traces/trace-metrics";
+import { matchPoints, summarizeFigures, type CandidatePoint } from "@/sim/traces/match";
 
 const K_VALUES = [40, 55, 75, 100, 135, 180, 240];
 const DEG_VALUES = [0.05, 0.07, 0.1, 0.14, 0.2];
@@ -49,7 +49,14 @@ test("matching recovers the hidden parameters: true point accepted, accept set a
   const truth = spec(TRUE_K, TRUE_DEG, 40, "hidden-truth");
   const set = makeSyntheticTraces(
     truth,
-    { background: 120, unitsPerMolecule: 2.5, noiseSdUnits: 10, noiseCv: 0.05, missingFraction: 0.03, staggerMinutes: 20 },
+    {
+      background: 120,
+      unitsPerMolecule: 2.5,
+      noiseSdUnits: 10,
+      noiseCv: 0.05,
+      missingFraction: 0.03,
+      staggerMinutes: 20,
+    },
     "hidden-noise",
   );
   const settings = TraceSettingsSchema.parse({
@@ -69,7 +76,12 @@ test("matching recovers the hidden parameters: true point accepted, accept set a
     for (const deg of DEG_VALUES) {
       const s = spec(k, deg, 100, `sweep-point-${i}`);
       const r = simulateChunk(s, 0, s.replicates, { trajectoryReplicates: 0 });
-      candidates.push({ runId: `point-${i}`, sweepPoint: i, parameters: { "K(makeZ,hldB)": k, "rate(degZ)": deg }, figures: summarizeFigures(r.pulses) });
+      candidates.push({
+        runId: `point-${i}`,
+        sweepPoint: i,
+        parameters: { "K(makeZ,hldB)": k, "rate(degZ)": deg },
+        figures: summarizeFigures(r.pulses),
+      });
       i++;
     }
   }

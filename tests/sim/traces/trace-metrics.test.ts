@@ -1,9 +1,9 @@
 import { test, describe } from "node:test";
 import assert from "node:assert/strict";
-import { analyseTraces, chartCells } from "../../../sim/traces/trace-metrics";
-import { pulseStatsFromSampledTrace } from "../../../sim/metrics/pulse-tracker";
-import { TraceSettingsSchema } from "../../../shared/schemas/api-traces";
-import { assertCloseTo } from "../../helpers/close-to";
+import { analyseTraces, chartCells } from "@/sim/traces/trace-metrics";
+import { pulseStatsFromSampledTrace } from "@/sim/metrics/pulse-tracker";
+import { TraceSettingsSchema } from "@/shared/schemas/api-traces";
+import { assertCloseTo } from "@/tests/helpers/close-to";
 
 /** Piecewise-linear test trace: flat at `low`, rises 4 units/min from `on`, holds `high`, falls 4 units/min from `off`. */
 function ramp(times: number[], on: number, off: number, low: number, high: number): number[] {
@@ -14,7 +14,8 @@ function ramp(times: number[], on: number, off: number, low: number, high: numbe
     return Math.max(low, up - 4 * (t - off));
   });
 }
-const range = (a: number, b: number, step = 1) => Array.from({ length: Math.floor((b - a) / step) + 1 }, (_, i) => a + i * step);
+const range = (a: number, b: number, step = 1) =>
+  Array.from({ length: Math.floor((b - a) / step) + 1 }, (_, i) => a + i * step);
 
 const settings = TraceSettingsSchema.parse({
   background: { mode: "value", value: 100 },
@@ -37,7 +38,10 @@ describe("analyseTraces", () => {
     assert.equal(p.passed, true);
     assertCloseTo(p.delay!, 5, { abs: 1e-9 });
     assertCloseTo(p.offDelay!, 11, { abs: 1e-9 });
-    assert.deepEqual(p.widths.map((w) => Math.round(w * 1e9) / 1e9), [26]);
+    assert.deepEqual(
+      p.widths.map((w) => Math.round(w * 1e9) / 1e9),
+      [26],
+    );
     assert.equal(p.peak, 160);
     assert.equal(analysis.summary.analysis.counts.passed, 1);
   });
@@ -45,8 +49,17 @@ describe("analyseTraces", () => {
   test("the same crossings as the tracker on the trace in molecules (the same function the simulations use)", () => {
     const t = range(0, 300, 2);
     const molecules = t.map((x) => 10 + 8 * Math.sin(x / 9) + (x > 100 && x < 160 ? 6 : 0));
-    const pulses = [{ on: 30, off: 40 }, { on: 100, off: 160 }, { on: 200, off: 205 }];
-    const direct = pulseStatsFromSampledTrace(t, molecules, pulses.map((p) => ({ ...p, durationBin: p.off - p.on })), { theta: 10, downTheta: 8, windowMinutes: 20 });
+    const pulses = [
+      { on: 30, off: 40 },
+      { on: 100, off: 160 },
+      { on: 200, off: 205 },
+    ];
+    const direct = pulseStatsFromSampledTrace(
+      t,
+      molecules,
+      pulses.map((p) => ({ ...p, durationBin: p.off - p.on })),
+      { theta: 10, downTheta: 8, windowMinutes: 20 },
+    );
     const traceUnits = molecules.map((m) => 100 + 2 * m);
     const { analysis } = analyseTraces([{ cell: "a", times: t, values: traceUnits }], pulses, settings);
     const got = analysis.cells[0].pulses;
@@ -62,7 +75,10 @@ describe("analyseTraces", () => {
 
   test("cells are scored only on pulses they watched whole (late start, early end)", () => {
     const t = range(0, 200);
-    const pulses = [{ on: 20, off: 40 }, { on: 100, off: 120 }];
+    const pulses = [
+      { on: 20, off: 40 },
+      { on: 100, off: 120 },
+    ];
     const late = t.filter((x) => x >= 50);
     const early = t.filter((x) => x <= 130);
     const { analysis } = analyseTraces(
@@ -74,10 +90,16 @@ describe("analyseTraces", () => {
       settings,
     );
     const [a, b] = analysis.cells;
-    assert.deepEqual(a.pulses.map((p) => p.pulseIndex), [1]);
+    assert.deepEqual(
+      a.pulses.map((p) => p.pulseIndex),
+      [1],
+    );
     assert.deepEqual(a.skipped, [{ pulseIndex: 0, reason: "notCovered" }]);
     // window of pulse 1 ends at 120 + 20 = 140 > 130
-    assert.deepEqual(b.pulses.map((p) => p.pulseIndex), [0]);
+    assert.deepEqual(
+      b.pulses.map((p) => p.pulseIndex),
+      [0],
+    );
     assert.deepEqual(b.skipped, [{ pulseIndex: 1, reason: "notCovered" }]);
     assert.equal(analysis.summary.skippedNotCovered, 2);
     assert.equal(analysis.summary.pulsesAnalysed, 2);

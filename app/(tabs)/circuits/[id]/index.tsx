@@ -1,17 +1,17 @@
 import React from "react";
 import { View } from "react-native";
 import { useLocalSearchParams, useRouter } from "expo-router";
-import { Screen } from "../../../../components/ui/screen";
-import { Card } from "../../../../components/ui/card";
-import { Text } from "../../../../components/ui/text";
-import { Button } from "../../../../components/ui/button";
-import { Banner, ErrorState, LoadingState } from "../../../../components/ui/states";
-import { WiringDiagram } from "../../../../components/circuits/wiring-diagram";
-import { CircuitView, FeedForwardBadge } from "../../../../components/circuits/circuit-view";
-import { useArchiveCircuit, useCircuit, useDuplicateCircuit } from "../../../../components/data/circuits";
-import { useCurrentLab } from "../../../../components/data/current-lab";
-import { useTheme } from "../../../../components/theme/use-theme";
-import { useBreakpoints } from "../../../../components/theme/use-breakpoints";
+import { Screen } from "@/components/ui/screen";
+import { Card } from "@/components/ui/card";
+import { Text } from "@/components/ui/text";
+import { Button } from "@/components/ui/button";
+import { Banner, ErrorState, LoadingState } from "@/components/ui/states";
+import { WiringDiagram } from "@/components/circuits/wiring-diagram";
+import { CircuitView, FeedForwardBadge } from "@/components/circuits/circuit-view";
+import { useArchiveCircuit, useCircuit, useDuplicateCircuit } from "@/components/data/circuits";
+import { useCurrentLab } from "@/components/data/current-lab";
+import { useTheme } from "@/components/theme/use-theme";
+import { useBreakpoints } from "@/components/theme/use-breakpoints";
 
 export default function CircuitDetail() {
   const t = useTheme();
@@ -22,8 +22,18 @@ export default function CircuitDetail() {
   const q = useCircuit(id);
   const duplicate = useDuplicateCircuit();
   const archive = useArchiveCircuit();
-  if (q.isPending) return <Screen title="Circuit"><LoadingState label="Loading circuit" /></Screen>;
-  if (q.error) return <Screen title="Circuit"><ErrorState title="This circuit could not be loaded" error={q.error} onRetry={() => q.refetch()} /></Screen>;
+  if (q.isPending)
+    return (
+      <Screen title="Circuit">
+        <LoadingState label="Loading circuit" />
+      </Screen>
+    );
+  if (q.error)
+    return (
+      <Screen title="Circuit">
+        <ErrorState title="This circuit could not be loaded" error={q.error} onRetry={() => q.refetch()} />
+      </Screen>
+    );
   const { circuit, body, versions, wiring, feedForward } = q.data;
   const archived = !!circuit.archivedAt;
   return (
@@ -33,8 +43,18 @@ export default function CircuitDetail() {
       actions={
         canEdit ? (
           <>
-            <Button label="Edit" icon="edit-2" onPress={() => router.push(`/circuits/${circuit.id}/edit`)} testID="edit-circuit" />
-            <Button label="Start a study" variant="secondary" icon="play" onPress={() => router.push(`/runs/new?circuitId=${circuit.id}`)} />
+            <Button
+              label="Edit"
+              icon="edit-2"
+              onPress={() => router.push(`/circuits/${circuit.id}/edit`)}
+              testID="edit-circuit"
+            />
+            <Button
+              label="Start a study"
+              variant="secondary"
+              icon="play"
+              onPress={() => router.push(`/runs/new?circuitId=${circuit.id}`)}
+            />
           </>
         ) : null
       }
@@ -55,20 +75,45 @@ export default function CircuitDetail() {
       </View>
       <Card>
         <Text variant="heading">Version history</Text>
-        <Text variant="caption" tone="muted">Saving makes a new version; a run keeps the version it used.</Text>
+        <Text variant="caption" tone="muted">
+          Saving makes a new version; a run keeps the version it used.
+        </Text>
         {versions.map((v) => (
-          <Card key={v.version} onPress={() => router.push(`/circuits/${circuit.id}/versions/${v.version}`)} style={{ padding: t.spacing.md }}>
-            <Text variant="bodyStrong">Version {v.version}{v.version === circuit.currentVersion ? " (current)" : ""}</Text>
+          <Card
+            key={v.version}
+            onPress={() => router.push(`/circuits/${circuit.id}/versions/${v.version}`)}
+            style={{ padding: t.spacing.md }}
+          >
+            <Text variant="bodyStrong">
+              Version {v.version}
+              {v.version === circuit.currentVersion ? " (current)" : ""}
+            </Text>
             <Text variant="caption" tone="muted">
-              {new Date(v.createdAt).toLocaleString("en-GB")}{v.createdByName ? ` · ${v.createdByName}` : ""}{v.note ? ` · ${v.note}` : ""}
+              {new Date(v.createdAt).toLocaleString("en-GB")}
+              {v.createdByName ? ` · ${v.createdByName}` : ""}
+              {v.note ? ` · ${v.note}` : ""}
             </Text>
           </Card>
         ))}
       </Card>
       {canEdit ? (
         <View style={{ flexDirection: "row", flexWrap: "wrap", gap: t.spacing.sm }}>
-          <Button label="Duplicate" variant="secondary" icon="copy" busy={duplicate.isPending} onPress={() => duplicate.mutate({ id: circuit.id }, { onSuccess: (d) => router.push(`/circuits/${d.circuit.id}`) })} />
-          <Button label={archived ? "Restore from archive" : "Archive"} variant="secondary" icon="archive" busy={archive.isPending} onPress={() => archive.mutate({ id: circuit.id, archived: !archived })} />
+          <Button
+            label="Duplicate"
+            variant="secondary"
+            icon="copy"
+            busy={duplicate.isPending}
+            onPress={() =>
+              duplicate.mutate({ id: circuit.id }, { onSuccess: (d) => router.push(`/circuits/${d.circuit.id}`) })
+            }
+          />
+          <Button
+            label={archived ? "Restore from archive" : "Archive"}
+            variant="secondary"
+            icon="archive"
+            busy={archive.isPending}
+            onPress={() => archive.mutate({ id: circuit.id, archived: !archived })}
+          />
         </View>
       ) : null}
       {duplicate.error || archive.error ? <ErrorState error={duplicate.error ?? archive.error} /> : null}

@@ -5,8 +5,8 @@
  */
 import path from "node:path";
 import { Piscina } from "piscina";
-import type { ChunkResult } from "../../sim/index";
-import type { RunSpec } from "../../shared/schemas/run-spec";
+import type { ChunkResult } from "@/sim";
+import type { RunSpec } from "@/shared/schemas/run-spec";
 import type { SimTask } from "./sim-task";
 
 export type { SimTask } from "./sim-task";
@@ -34,7 +34,14 @@ export function createSimPool(opts: { threads: number; idleTimeoutMs?: number })
     async warmUp(spec, warmOpts = {}) {
       const tasks: Promise<unknown>[] = [];
       for (let i = 0; i < threads; i++)
-        tasks.push(piscina.run({ spec, replicateStart: 0, count: 0, warmUp: { holdMs: threads > 1 ? 100 : 0, replicates: warmOpts.replicates ?? 3 } } satisfies SimTask));
+        tasks.push(
+          piscina.run({
+            spec,
+            replicateStart: 0,
+            count: 0,
+            warmUp: { holdMs: threads > 1 ? 100 : 0, replicates: warmOpts.replicates ?? 3 },
+          } satisfies SimTask),
+        );
       await Promise.all(tasks);
     },
     destroy: () => piscina.destroy(),

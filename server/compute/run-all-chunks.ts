@@ -4,8 +4,8 @@
  * results to `onChunk` strictly in chunk order (later chunks that finish early
  * wait), so anything reduced from them is identical for any thread count.
  */
-import { chunkLayout, simulateChunk, type ChunkResult } from "../../sim/index";
-import type { RunSpec } from "../../shared/schemas/run-spec";
+import { chunkLayout, simulateChunk, type ChunkResult } from "@/sim";
+import type { RunSpec } from "@/shared/schemas/run-spec";
 import type { SimPool } from "./pool";
 
 export interface RunAllOptions {
@@ -18,7 +18,10 @@ export interface RunAllOptions {
   onProgress?: (replicatesDone: number, total: number) => void;
 }
 
-export async function runAllChunks(spec: RunSpec, opts: RunAllOptions = {}): Promise<{ events: number; chunks: number }> {
+export async function runAllChunks(
+  spec: RunSpec,
+  opts: RunAllOptions = {},
+): Promise<{ events: number; chunks: number }> {
   const layout = chunkLayout(spec);
   const options = { keepAllGrid: opts.keepAllGrid, trajectoryReplicates: opts.trajectoryReplicates };
   let done = 0;

@@ -10,14 +10,14 @@
 import { EventEmitter } from "node:events";
 import { and, eq, inArray, isNull } from "drizzle-orm";
 import type Database from "better-sqlite3";
-import type { Db } from "../../db/client";
-import { schema } from "../../db/client";
-import type { RunSpec } from "../../shared/schemas/run-spec";
+import type { Db } from "@/db/client";
+import { schema } from "@/db/client";
+import type { RunSpec } from "@/shared/schemas/run-spec";
 import { resolve } from "node:path";
 import { Piscina } from "piscina";
-import { chunkLayout, gridTimes } from "../../sim";
-import type { SimPool } from "../workers/pool";
-import type { FinaliseResult, FinaliseTask } from "../workers/finalise-worker";
+import { chunkLayout, gridTimes } from "@/sim";
+import type { SimPool } from "@/server/compute/pool";
+import type { FinaliseResult, FinaliseTask } from "@/server/compute/finalise-worker";
 import { createChunkWriter, readChunks, speciesNames } from "./run-store";
 
 export interface RunQueueStats {
@@ -100,7 +100,7 @@ export function createRunQueue(opts: RunQueueOptions): RunQueue {
   const writer = createChunkWriter(sqlite);
   const dbPath = opts.dbPath ?? sqlite.name;
   const finaliser = new Piscina({
-    filename: resolve(__dirname, "..", "workers", "finalise-worker.ts"),
+    filename: resolve(__dirname, "finalise-worker.ts"),
     execArgv: ["--import", "tsx"],
     // kept warm: a cold thread (loading tsx) would delay small runs' results by a second
     minThreads: 1,
@@ -147,7 +147,10 @@ export function createRunQueue(opts: RunQueueOptions): RunQueue {
       return;
     }
     if (layout.chunkSize !== row.chunkSize) {
-      markFailed(row.id, `The stored chunk size (${row.chunkSize}) differs from this engine's (${layout.chunkSize}); the run cannot resume identically.`);
+      markFailed(
+        row.id,
+        `The stored chunk size (${row.chunkSize}) differs from this engine's (${layout.chunkSize}); the run cannot resume identically.`,
+      );
       return;
     }
     const stored = new Set(readChunks(db, row.id).map((c) => c.chunkIndex));
@@ -155,7 +158,7 @@ export function createRunQueue(opts: RunQueueOptions): RunQueue {
     const run: ActiveRun = {
       id: row.id,
       group: row.sweepId ?? row.id,
-      order: (row.sweepPoint ?? 0) + (orderCounter++) * 1e-9,
+      order: (row.sweepPoint ?? 0) + orderCounter++ * 1e-9,
       spec,
       species: speciesNames(spec),
       gridLength: gridTimes(spec).length,
@@ -172,7 +175,11 @@ export function createRunQueue(opts: RunQueueOptions): RunQueue {
     };
     active.set(row.id, run);
     db.update(schema.runs)
-      .set({ status: "running", startedAt: row.startedAt ?? new Date(), statusReason: stored.size ? `resumed with ${stored.size} of ${layout.chunks.length} chunks stored` : null })
+      .set({
+        status: "running",
+        startedAt: row.startedAt ?? new Date(),
+        statusReason: stored.size ? `resumed with ${stored.size} of ${layout.chunks.length} chunks stored` : null,
+      })
       .where(eq(schema.runs.id, row.id))
       .run();
     if (pending.length === 0) void finalise(run);
@@ -224,7 +231,13 @@ export function createRunQueue(opts: RunQueueOptions): RunQueue {
     run.inFlight++;
     const t0 = performance.now();
     pool
-      .runChunk({ spec: run.spec, replicateStart: chunk.replicateStart, count: chunk.count, options: { trajectoryReplicates: 20 }, wallTimeLimitMs: opts.chunkWallMs })
+      .runChunk({
+        spec: run.spec,
+        replicateStart: chunk.replicateStart,
+        count: chunk.count,
+        options: { trajectoryReplicates: 20 },
+        wallTimeLimitMs: opts.chunkWallMs,
+      })
       .then(
         (result: any) => {
           inFlight--;
@@ -232,7 +245,10 @@ export function createRunQueue(opts: RunQueueOptions): RunQueue {
           pump();
           if (run.stopped || closed) return;
           if (result.aborted) {
-            fail(run, `A chunk of ${chunk.count} replicates ran past the wall-time cap of ${Math.round((opts.chunkWallMs ?? 0) / 1000)} s; lower the replicates or the end time, or raise LINGER_CHUNK_WALL_SECONDS.`);
+            fail(
+              run,
+              `A chunk of ${chunk.count} replicates ran past the wall-time cap of ${Math.round((opts.chunkWallMs ?? 0) / 1000)} s; lower the replicates or the end time, or raise LINGER_CHUNK_WALL_SECONDS.`,
+            );
             return;
           }
           const seconds = (performance.now() - t0) / 1000;
@@ -272,7 +288,10 @@ export function createRunQueue(opts: RunQueueOptions): RunQueue {
   }
 
   function markFailed(runId: string, reason: string) {
-    db.update(schema.runs).set({ status: "failed", statusReason: reason, finishedAt: new Date() }).where(eq(schema.runs.id, runId)).run();
+    db.update(schema.runs)
+      .set({ status: "failed", statusReason: reason, finishedAt: new Date() })
+      .where(eq(schema.runs.id, runId))
+      .run();
     events.emit("ended", { runId, status: "failed" });
     notify(runId, "failed");
   }
@@ -299,18 +318,31 @@ export function createRunQueue(opts: RunQueueOptions): RunQueue {
         const cur = db.select({ status: schema.runs.status }).from(schema.runs).where(eq(schema.runs.id, run.id)).get();
         if (!cur || cur.status !== "running") return false;
         db.delete(schema.runSeries).where(eq(schema.runSeries.runId, run.id)).run();
-        for (const s of r.series) db.insert(schema.runSeries).values({ runId: run.id, species: s.species, kind: s.kind, values: Buffer.from(s.values.buffer, s.values.byteOffset, s.values.byteLength) }).run();
+        for (const s of r.series)
+          db.insert(schema.runSeries)
+            .values({
+              runId: run.id,
+              species: s.species,
+              kind: s.kind,
+              values: Buffer.from(s.values.buffer, s.values.byteOffset, s.values.byteLength),
+            })
+            .run();
         db.update(schema.runs)
           .set({
             status,
-            statusReason: r.capped ? `Some replicates stopped at the event cap of ${spec.eventCapPerReplicate}; their figures end at the cap.` : null,
+            statusReason: r.capped
+              ? `Some replicates stopped at the event cap of ${spec.eventCapPerReplicate}; their figures end at the cap.`
+              : null,
             summary: r.summary,
             statsHash: r.statsHash,
             finishedAt: new Date(),
           })
           .where(eq(schema.runs.id, run.id))
           .run();
-        db.update(schema.runChunks).set({ gridSum: null, gridSumSq: null, gridCount: null }).where(eq(schema.runChunks.runId, run.id)).run();
+        db.update(schema.runChunks)
+          .set({ gridSum: null, gridSumSq: null, gridCount: null })
+          .where(eq(schema.runChunks.runId, run.id))
+          .run();
         return true;
       })();
       active.delete(run.id);
@@ -346,7 +378,7 @@ export function createRunQueue(opts: RunQueueOptions): RunQueue {
     stats() {
       let queued = 0;
       let running = 0;
-      for (const r of active.values()) (r.replicatesDone > 0 || r.inFlight > 0 ? running++ : queued++);
+      for (const r of active.values()) r.replicatesDone > 0 || r.inFlight > 0 ? running++ : queued++;
       return { queuedRuns: queued, runningRuns: running, busyThreads: Math.min(inFlight, capacity()) };
     },
     kick,

@@ -7,15 +7,15 @@
  * signal Q = compound Q). Importing this module registers the seeder.
  */
 import { and, eq, isNull, sql } from "drizzle-orm";
-import type { AppContext } from "../context";
-import { schema } from "../../db/client";
-import { templates } from "../../sim";
-import { CircuitSchema, type Circuit } from "../../shared/schemas/circuit";
-import type { InputProgram } from "../../shared/schemas/input-program";
-import type { TemplateKey } from "../../shared/schemas/api-circuits";
-import { registerDemoSeeder } from "./demo-seed";
-import { createCircuit } from "./circuits.service";
-import { createProgram } from "./programs.service";
+import type { AppContext } from "@/server/context";
+import { schema } from "@/db/client";
+import { templates } from "@/sim";
+import { CircuitSchema, type Circuit } from "@/shared/schemas/circuit";
+import type { InputProgram } from "@/shared/schemas/input-program";
+import type { TemplateKey } from "@/shared/schemas/api-circuits";
+import { registerDemoSeeder } from "./seed";
+import { createCircuit } from "@/server/services/circuits.service";
+import { createProgram } from "@/server/services/programs.service";
 
 /** Stable keys of the demo circuits (for demo runs). */
 export const DEMO_CIRCUIT_KEYS = {
@@ -145,7 +145,12 @@ export function demoPrograms(): DemoProgram[] {
 }
 
 /** A name for a seeded item: its own, or with " (demo)" when a user item already has it. */
-function seedName<T extends typeof schema.circuits | typeof schema.inputPrograms>(ctx: AppContext, table: T, labId: string, name: string): string {
+function seedName<T extends typeof schema.circuits | typeof schema.inputPrograms>(
+  ctx: AppContext,
+  table: T,
+  labId: string,
+  name: string,
+): string {
   const taken = (n: string) =>
     !!ctx.db
       .select({ id: table.id })
@@ -183,7 +188,11 @@ export function seedDemoCircuitsAndPrograms(ctx: AppContext, lab: { id: string; 
       .where(and(eq(schema.inputPrograms.labId, lab.id), eq(schema.inputPrograms.demoKey, d.demoKey)))
       .get();
     if (exists) continue;
-    createProgram(ctx, actor, lab.id, { name: seedName(ctx, schema.inputPrograms, lab.id, d.name), body: d.body, demoKey: d.demoKey });
+    createProgram(ctx, actor, lab.id, {
+      name: seedName(ctx, schema.inputPrograms, lab.id, d.name),
+      body: d.body,
+      demoKey: d.demoKey,
+    });
   }
 }
 

@@ -7,9 +7,9 @@
 import { createHash } from "node:crypto";
 import { asc, eq } from "drizzle-orm";
 import type Database from "better-sqlite3";
-import type { Db } from "../../db/client";
-import { schema } from "../../db/client";
-import type { PulseStat, RunSpec } from "../../shared/schemas/run-spec";
+import type { Db } from "@/db/client";
+import { schema } from "@/db/client";
+import type { PulseStat, RunSpec } from "@/shared/schemas/run-spec";
 
 export const toBlob = (a: Float64Array) => Buffer.from(a.buffer, a.byteOffset, a.byteLength);
 export const fromBlob = (b: Buffer | Uint8Array | null | undefined): Float64Array => {
@@ -28,7 +28,14 @@ export interface StoredChunk {
   gridSum: Float64Array;
   gridSumSq: Float64Array;
   gridCount: Float64Array;
-  replicates: { replicate: number; events: number; capped: boolean; outputMean: number | null; outputVar: number | null; factors: Record<string, number> }[];
+  replicates: {
+    replicate: number;
+    events: number;
+    capped: boolean;
+    outputMean: number | null;
+    outputVar: number | null;
+    factors: Record<string, number>;
+  }[];
   pulses: PulseStat[];
   trajectories: { replicate: number; values: Float64Array }[];
 }
@@ -42,37 +49,75 @@ export function createChunkWriter(sqlite: Database.Database) {
   const insChunk = sqlite.prepare(
     `INSERT INTO run_chunks (run_id, chunk_index, replicate_start, count, events, grid_sum, grid_sum_sq, grid_count, seconds) VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?)`,
   );
-  const insRep = sqlite.prepare(`INSERT INTO replicate_stats (run_id, replicate, events, capped, output_mean, output_var, factors) VALUES (?, ?, ?, ?, ?, ?, ?)`);
+  const insRep = sqlite.prepare(
+    `INSERT INTO replicate_stats (run_id, replicate, events, capped, output_mean, output_var, factors) VALUES (?, ?, ?, ?, ?, ?, ?)`,
+  );
   const insPulse = sqlite.prepare(
     `INSERT INTO pulse_stats (run_id, replicate, pulse_index, "on", off, duration_bin, excluded, passed, delay, off_delay, width, widths, peak, time_to_peak, fwhm, baseline) VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)`,
   );
-  const insTraj = sqlite.prepare(`INSERT INTO run_trajectories (run_id, replicate, species, "values") VALUES (?, ?, ?, ?)`);
+  const insTraj = sqlite.prepare(
+    `INSERT INTO run_trajectories (run_id, replicate, species, "values") VALUES (?, ?, ?, ?)`,
+  );
   const updRun = sqlite.prepare(
     `UPDATE runs SET replicates_done = replicates_done + ?, events_total = events_total + ?, capped_replicates = capped_replicates + ?, compute_seconds = compute_seconds + ? WHERE id = ?`,
   );
   const write = sqlite.transaction((runId: string, species: string[], gridLength: number, c: StoredChunk) => {
-    insChunk.run(runId, c.chunkIndex, c.replicateStart, c.count, c.events, toBlob(c.gridSum), toBlob(c.gridSumSq), toBlob(c.gridCount), c.seconds);
+    insChunk.run(
+      runId,
+      c.chunkIndex,
+      c.replicateStart,
+      c.count,
+      c.events,
+      toBlob(c.gridSum),
+      toBlob(c.gridSumSq),
+      toBlob(c.gridCount),
+      c.seconds,
+    );
     let capped = 0;
     for (const r of c.replicates) {
       if (r.capped) capped++;
-      insRep.run(runId, r.replicate, r.events, r.capped ? 1 : 0, finiteOrNull(r.outputMean), finiteOrNull(r.outputVar), JSON.stringify(r.factors ?? {}));
+      insRep.run(
+        runId,
+        r.replicate,
+        r.events,
+        r.capped ? 1 : 0,
+        finiteOrNull(r.outputMean),
+        finiteOrNull(r.outputVar),
+        JSON.stringify(r.factors ?? {}),
+      );
     }
     for (const p of c.pulses) {
       insPulse.run(
-        runId, p.replicate, p.pulseIndex, p.on, p.off, p.durationBin, p.excluded ? 1 : 0, p.passed ? 1 : 0,
-        p.delay, p.offDelay, p.widths.length ? p.widths[0] : null, p.widths.length ? JSON.stringify(p.widths) : null,
-        p.peak, p.timeToPeak, p.fwhm, p.baseline,
+        runId,
+        p.replicate,
+        p.pulseIndex,
+        p.on,
+        p.off,
+        p.durationBin,
+        p.excluded ? 1 : 0,
+        p.passed ? 1 : 0,
+        p.delay,
+        p.offDelay,
+        p.widths.length ? p.widths[0] : null,
+        p.widths.length ? JSON.stringify(p.widths) : null,
+        p.peak,
+        p.timeToPeak,
+        p.fwhm,
+        p.baseline,
       );
     }
     for (const t of c.trajectories) {
-      species.forEach((name, s) => insTraj.run(runId, t.replicate, name, toBlob(t.values.slice(s * gridLength, (s + 1) * gridLength))));
+      species.forEach((name, s) =>
+        insTraj.run(runId, t.replicate, name, toBlob(t.values.slice(s * gridLength, (s + 1) * gridLength))),
+      );
     }
     updRun.run(c.count, c.events, capped, c.seconds, runId);
   });
   return { write };
 }
 
-const finiteOrNull = (x: number | null | undefined) => (x === null || x === undefined || !Number.isFinite(x) ? null : x);
+const finiteOrNull = (x: number | null | undefined) =>
+  x === null || x === undefined || !Number.isFinite(x) ? null : x;
 
 /**
  * Pulse statistics in (replicate, pulse) order. A raw prepared statement
@@ -85,24 +130,61 @@ export function readPulseStats(db: Db, runId: string): PulseStat[] {
          FROM pulse_stats WHERE run_id = ? ORDER BY replicate, pulse_index`,
     )
     .raw()
-    .all(runId) as [number, number, number, number, number, number, number, number | null, number | null, string | null, number, number, number | null, number][];
+    .all(runId) as [
+    number,
+    number,
+    number,
+    number,
+    number,
+    number,
+    number,
+    number | null,
+    number | null,
+    string | null,
+    number,
+    number,
+    number | null,
+    number,
+  ][];
   const out: PulseStat[] = new Array(rows.length);
   for (let i = 0; i < rows.length; i++) {
     const r = rows[i];
     out[i] = {
-      replicate: r[0], pulseIndex: r[1], on: r[2], off: r[3], durationBin: r[4], excluded: r[5] === 1, passed: r[6] === 1,
-      delay: r[7], offDelay: r[8], widths: r[9] === null ? [] : (JSON.parse(r[9]) as number[]), peak: r[10], timeToPeak: r[11], fwhm: r[12], baseline: r[13],
+      replicate: r[0],
+      pulseIndex: r[1],
+      on: r[2],
+      off: r[3],
+      durationBin: r[4],
+      excluded: r[5] === 1,
+      passed: r[6] === 1,
+      delay: r[7],
+      offDelay: r[8],
+      widths: r[9] === null ? [] : (JSON.parse(r[9]) as number[]),
+      peak: r[10],
+      timeToPeak: r[11],
+      fwhm: r[12],
+      baseline: r[13],
     };
   }
   return out;
 }
 
 export function readReplicateRows(db: Db, runId: string) {
-  return db.select().from(schema.replicateStats).where(eq(schema.replicateStats.runId, runId)).orderBy(asc(schema.replicateStats.replicate)).all();
+  return db
+    .select()
+    .from(schema.replicateStats)
+    .where(eq(schema.replicateStats.runId, runId))
+    .orderBy(asc(schema.replicateStats.replicate))
+    .all();
 }
 
 export function readChunks(db: Db, runId: string) {
-  return db.select().from(schema.runChunks).where(eq(schema.runChunks.runId, runId)).orderBy(asc(schema.runChunks.chunkIndex)).all();
+  return db
+    .select()
+    .from(schema.runChunks)
+    .where(eq(schema.runChunks.runId, runId))
+    .orderBy(asc(schema.runChunks.chunkIndex))
+    .all();
 }
 
 /**
@@ -111,14 +193,24 @@ export function readChunks(db: Db, runId: string) {
  * canonical text. Two runs with the same hash stored the same numbers.
  */
 export function computeStatsHash(
-  replicates: { replicate: number; events: number; capped: boolean; outputMean: number | null; outputVar: number | null }[],
+  replicates: {
+    replicate: number;
+    events: number;
+    capped: boolean;
+    outputMean: number | null;
+    outputVar: number | null;
+  }[],
   pulses: PulseStat[],
   series: { species: string; kind: string; values: Uint8Array }[],
 ): string {
   const h = createHash("sha256");
   for (const r of replicates) h.update(canonicalReplicate(r) + "\n");
   for (const p of pulses) h.update(canonicalPulse(p) + "\n");
-  const sorted = series.filter((s) => s.kind !== "ode").sort((a, b) => (a.species < b.species ? -1 : a.species > b.species ? 1 : a.kind < b.kind ? -1 : a.kind > b.kind ? 1 : 0));
+  const sorted = series
+    .filter((s) => s.kind !== "ode")
+    .sort((a, b) =>
+      a.species < b.species ? -1 : a.species > b.species ? 1 : a.kind < b.kind ? -1 : a.kind > b.kind ? 1 : 0,
+    );
   for (const s of sorted) h.update(`${s.species}/${s.kind}:`).update(s.values);
   return h.digest("hex");
 }
@@ -126,28 +218,54 @@ export function computeStatsHash(
 /** The hash of a run's stored statistics as they are in the database. */
 export function statsHash(db: Db, runId: string): string {
   const series = db.select().from(schema.runSeries).where(eq(schema.runSeries.runId, runId)).all();
-  return computeStatsHash(readReplicateRows(db, runId), readPulseStats(db, runId), series.map((s) => ({ species: s.species, kind: s.kind, values: s.values as Buffer })));
+  return computeStatsHash(
+    readReplicateRows(db, runId),
+    readPulseStats(db, runId),
+    series.map((s) => ({ species: s.species, kind: s.kind, values: s.values as Buffer })),
+  );
 }
 
-export const canonicalReplicate = (r: { replicate: number; events: number; capped: boolean; outputMean: number | null; outputVar: number | null }) =>
-  `r ${r.replicate} ${r.events} ${r.capped ? 1 : 0} ${r.outputMean} ${r.outputVar}`;
+export const canonicalReplicate = (r: {
+  replicate: number;
+  events: number;
+  capped: boolean;
+  outputMean: number | null;
+  outputVar: number | null;
+}) => `r ${r.replicate} ${r.events} ${r.capped ? 1 : 0} ${r.outputMean} ${r.outputVar}`;
 export const canonicalPulse = (p: PulseStat) =>
   `p ${p.replicate} ${p.pulseIndex} ${p.on} ${p.off} ${p.durationBin} ${p.excluded ? 1 : 0} ${p.passed ? 1 : 0} ${p.delay} ${p.offDelay} ${JSON.stringify(p.widths)} ${p.peak} ${p.timeToPeak} ${p.fwhm} ${p.baseline}`;
 
 /** The first difference between two runs' stored statistics, or null when identical. */
 export function firstDifference(db: Db, a: string, b: string): string | null {
-  const ra = readReplicateRows(db, a), rb = readReplicateRows(db, b);
+  const ra = readReplicateRows(db, a),
+    rb = readReplicateRows(db, b);
   if (ra.length !== rb.length) return `replicate count differs: ${ra.length} vs ${rb.length}`;
   for (let i = 0; i < ra.length; i++) {
-    const x = canonicalReplicate(ra[i]), y = canonicalReplicate(rb[i]);
+    const x = canonicalReplicate(ra[i]),
+      y = canonicalReplicate(rb[i]);
     if (x !== y) return `replicate ${ra[i].replicate}: events/output differ (${x.slice(2)} vs ${y.slice(2)})`;
   }
-  const pa = readPulseStats(db, a), pb = readPulseStats(db, b);
+  const pa = readPulseStats(db, a),
+    pb = readPulseStats(db, b);
   if (pa.length !== pb.length) return `pulse row count differs: ${pa.length} vs ${pb.length}`;
-  const fields: (keyof PulseStat)[] = ["on", "off", "durationBin", "excluded", "passed", "delay", "offDelay", "widths", "peak", "timeToPeak", "fwhm", "baseline"];
+  const fields: (keyof PulseStat)[] = [
+    "on",
+    "off",
+    "durationBin",
+    "excluded",
+    "passed",
+    "delay",
+    "offDelay",
+    "widths",
+    "peak",
+    "timeToPeak",
+    "fwhm",
+    "baseline",
+  ];
   for (let i = 0; i < pa.length; i++) {
     for (const f of fields) {
-      const x = JSON.stringify(pa[i][f]), y = JSON.stringify(pb[i][f]);
+      const x = JSON.stringify(pa[i][f]),
+        y = JSON.stringify(pb[i][f]);
       if (x !== y) return `replicate ${pa[i].replicate}, pulse ${pa[i].pulseIndex}: ${f} is ${x} vs ${y}`;
     }
   }

@@ -1,10 +1,10 @@
 /** The piscina pool gives the same chunk results as the engine in-process, for 1 and 2 threads, and enforces the wall-time cap. */
 import { test, describe, after } from "node:test";
 import assert from "node:assert/strict";
-import { createSimPool } from "../../server/workers/pool";
-import { runAllChunks } from "../../server/workers/run-all-chunks";
-import { reduceChunks, simulateChunk, templates, type ChunkResult } from "../../sim/index";
-import { RunSpecSchema } from "../../shared/schemas/run-spec";
+import { createSimPool } from "@/server/compute/pool";
+import { runAllChunks } from "@/server/compute/run-all-chunks";
+import { reduceChunks, simulateChunk, templates, type ChunkResult } from "@/sim";
+import { RunSpecSchema } from "@/shared/schemas/run-spec";
 
 const tpl = templates["c1ffl-and"];
 const spec = RunSpecSchema.parse({
@@ -33,8 +33,14 @@ describe("sim pool", () => {
     for (const pool of pools) {
       const got = await collect(pool);
       assert.equal(got.length, 3);
-      assert.deepEqual(got.map((c) => c.replicates), inProcess.map((c) => c.replicates));
-      assert.deepEqual(got.map((c) => c.pulses), inProcess.map((c) => c.pulses));
+      assert.deepEqual(
+        got.map((c) => c.replicates),
+        inProcess.map((c) => c.replicates),
+      );
+      assert.deepEqual(
+        got.map((c) => c.pulses),
+        inProcess.map((c) => c.pulses),
+      );
       const a = reduceChunks(spec, got);
       const b = reduceChunks(spec, inProcess);
       assert.deepEqual(a.mean, b.mean);

@@ -8,7 +8,10 @@ import path from "node:path";
 
 const root = path.resolve(__dirname, "../../..");
 const run = (args: string[]) =>
-  execFileSync(process.execPath, ["--import", "tsx", path.join(root, "sim/cli/main.ts"), ...args], { cwd: root, stdio: "pipe" });
+  execFileSync(process.execPath, ["--import", "tsx", path.join(root, "server/cli/sim.ts"), ...args], {
+    cwd: root,
+    stdio: "pipe",
+  });
 
 describe("npm run sim", () => {
   test("same spec and seed: identical files for 1 thread in-process and --threads 2", () => {
@@ -18,7 +21,15 @@ describe("npm run sim", () => {
       run([spec, "--out", path.join(dir, "a"), "--replicates", "120", "--quiet"]);
       run([spec, "--out", path.join(dir, "b", "nested"), "--replicates", "120", "--threads", "2", "--quiet"]);
       const files = readdirSync(path.join(dir, "a")).sort();
-      assert.deepEqual(files, ["analysis.json", "grid-mean.csv", "grid-replicates.csv", "ode.csv", "pulses.csv", "replicates.csv", "summary.json"]);
+      assert.deepEqual(files, [
+        "analysis.json",
+        "grid-mean.csv",
+        "grid-replicates.csv",
+        "ode.csv",
+        "pulses.csv",
+        "replicates.csv",
+        "summary.json",
+      ]);
       for (const f of files) {
         const a = readFileSync(path.join(dir, "a", f), "utf8");
         const b = readFileSync(path.join(dir, "b", "nested", f), "utf8");
@@ -41,8 +52,9 @@ describe("npm run sim", () => {
   });
 
   test("an invalid spec fails with a message naming the field", () => {
-    assert.throws(() => run([path.join(root, "package.json"), "--out", os.tmpdir()]), (e: { stderr: Buffer }) =>
-      /not a valid run spec/.test(e.stderr.toString()),
+    assert.throws(
+      () => run([path.join(root, "package.json"), "--out", os.tmpdir()]),
+      (e: { stderr: Buffer }) => /not a valid run spec/.test(e.stderr.toString()),
     );
   });
 });

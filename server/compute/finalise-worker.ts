@@ -8,13 +8,20 @@
 import Database from "better-sqlite3";
 import { drizzle } from "drizzle-orm/better-sqlite3";
 import { eq } from "drizzle-orm";
-import * as schema from "../../db/schema";
-import type { Db } from "../../db/client";
-import type { RunSpec } from "../../shared/schemas/run-spec";
-import type { RunSummary } from "../../shared/schemas/analysis";
-import { reduceChunks, resolveThreshold, solveOde, gridTimes } from "../../sim";
-import { summarizeRun } from "../../sim/analysis";
-import { computeStatsHash, fromBlob, readChunks, readPulseStats, readReplicateRows, toBlob } from "../services/run-store";
+import * as schema from "@/db/schema";
+import type { Db } from "@/db/client";
+import type { RunSpec } from "@/shared/schemas/run-spec";
+import type { RunSummary } from "@/shared/schemas/analysis";
+import { reduceChunks, resolveThreshold, solveOde, gridTimes } from "@/sim";
+import { summarizeRun } from "@/sim/analysis";
+import {
+  computeStatsHash,
+  fromBlob,
+  readChunks,
+  readPulseStats,
+  readReplicateRows,
+  toBlob,
+} from "@/server/compute/run-store";
 
 export interface FinaliseTask {
   dbPath: string;
@@ -40,7 +47,11 @@ export default function finalise(task: FinaliseTask): FinaliseResult {
     const chunks = readChunks(db, task.runId);
     const { mean, sd } = reduceChunks(
       spec,
-      chunks.map((c) => ({ gridSum: fromBlob(c.gridSum as Buffer), gridSumSq: fromBlob(c.gridSumSq as Buffer), gridCount: fromBlob(c.gridCount as Buffer) })),
+      chunks.map((c) => ({
+        gridSum: fromBlob(c.gridSum as Buffer),
+        gridSumSq: fromBlob(c.gridSumSq as Buffer),
+        gridCount: fromBlob(c.gridCount as Buffer),
+      })),
     );
     const n = gridTimes(spec).length;
     let ode: Float64Array | null = null;
@@ -60,7 +71,13 @@ export default function finalise(task: FinaliseTask): FinaliseResult {
     const pulses = readPulseStats(db, task.runId);
     const summary = summarizeRun({
       pulses,
-      replicates: replicates.map((r) => ({ replicate: r.replicate, events: r.events, capped: r.capped, outputMean: r.outputMean ?? NaN, outputVar: r.outputVar ?? NaN })),
+      replicates: replicates.map((r) => ({
+        replicate: r.replicate,
+        events: r.events,
+        capped: r.capped,
+        outputMean: r.outputMean ?? NaN,
+        outputVar: r.outputVar ?? NaN,
+      })),
       threshold: resolveThreshold(spec),
       noiseDurationMinutes: spec.threshold?.noiseDurationMinutes ?? 10,
     });

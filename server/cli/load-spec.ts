@@ -4,8 +4,8 @@
  * semantic checks. Part of the CLI shell, the only place under sim/ with I/O.
  */
 import { readFileSync } from "node:fs";
-import { RunSpecSchema, type RunSpec } from "../../shared/schemas/run-spec";
-import { runSpecErrors } from "../engine/run-setup";
+import { RunSpecSchema, type RunSpec } from "@/shared/schemas/run-spec";
+import { runSpecErrors } from "@/sim/engine/run-setup";
 
 export interface SpecOverrides {
   replicates?: number;
@@ -26,7 +26,15 @@ export function loadSpecFile(file: string, overrides: SpecOverrides = {}): RunSp
   if (!parsed.success)
     throw new Error(
       `${file} is not a valid run spec:\n` +
-        parsed.error.issues.map((i) => `  ${i.path.map((p) => (typeof p === "number" ? `[${p}]` : `.${String(p)}`)).join("").replace(/^\./, "")}: ${i.message}`).join("\n"),
+        parsed.error.issues
+          .map(
+            (i) =>
+              `  ${i.path
+                .map((p) => (typeof p === "number" ? `[${p}]` : `.${String(p)}`))
+                .join("")
+                .replace(/^\./, "")}: ${i.message}`,
+          )
+          .join("\n"),
     );
   const errors = runSpecErrors(parsed.data);
   if (errors.length > 0) throw new Error(`${file}:\n${errors.map((e) => `  ${e.message}`).join("\n")}`);

@@ -21,8 +21,8 @@
  *   C1 + + +   C2 - + -   C3 + - -   C4 - - +
  *   I1 + - +   I2 - - -   I3 + + -   I4 - + +
  */
-import type { Circuit } from "../../shared/schemas/circuit";
-import type { FeedForward, WiringEdge, WiringNode } from "../../shared/schemas/api-circuits";
+import type { Circuit } from "@/shared/schemas/circuit";
+import type { FeedForward, WiringEdge, WiringNode } from "@/shared/schemas/api-circuits";
 
 export type Sign = "activates" | "represses";
 export interface Wiring {
@@ -36,7 +36,11 @@ const flip = (s: Sign): Sign => (s === "activates" ? "represses" : "activates");
 export function wiringOf(circuit: Circuit): Wiring {
   const signalNames = new Set(circuit.signals.map((s) => s.name));
   const nodes: WiringNode[] = [
-    ...circuit.species.map((s) => ({ name: s.name, kind: "species" as const, isOutput: s.name === circuit.outputSpecies })),
+    ...circuit.species.map((s) => ({
+      name: s.name,
+      kind: "species" as const,
+      isOutput: s.name === circuit.outputSpecies,
+    })),
     ...circuit.signals.map((s) => ({ name: s.name, kind: "signal" as const, isOutput: false })),
   ];
   const byKey = new Map<string, WiringEdge>();
@@ -79,7 +83,11 @@ const TYPES: Record<string, { code: FeedForward["code"]; coherent: boolean; type
 };
 
 /** The sign type of a loop from its three edge signs (X->Y, Y->Z, X->Z). */
-export function feedForwardType(xy: Sign, yz: Sign, xz: Sign): { code: FeedForward["code"]; coherent: boolean; typeNumber: number; label: string } {
+export function feedForwardType(
+  xy: Sign,
+  yz: Sign,
+  xz: Sign,
+): { code: FeedForward["code"]; coherent: boolean; typeNumber: number; label: string } {
   const key = [xy, yz, xz].map((s) => (s === "activates" ? "+" : "-")).join("");
   const t = TYPES[key];
   return { ...t, label: `${t.coherent ? "coherent" : "incoherent"} type ${t.typeNumber}` };

@@ -1,4 +1,4 @@
 /** Registers every demo seeder, in order: circuits and programs, runs, traces. */
-import "./demo-circuits";
-import "./demo-runs";
-import "./demo-traces";
+import "./circuits";
+import "./runs";
+import "./traces";

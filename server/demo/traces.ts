@@ -9,17 +9,17 @@
  * the file the browser test uploads. Deterministic: fixed seeds.
  */
 import { and, eq } from "drizzle-orm";
-import type { AppContext } from "../context";
-import { schema } from "../../db/client";
-import { registerDemoSeeder } from "./demo-seed";
-import { demoPrograms, DEMO_PROGRAM_KEYS } from "./demo-circuits";
-import { buildTraceSet, saveTraceSet } from "./traces.service";
-import { templates } from "../../sim/circuit/templates";
-import { setParameter } from "../../sim/circuit/parameters";
-import { compileProgram } from "../../sim/inputs/compile-program";
-import { makeSyntheticTraces, syntheticCsv, type MeasurementModel } from "../../sim/traces/synthetic";
-import { RunSpecSchema, type RunSpec } from "../../shared/schemas/run-spec";
-import { TraceUploadOptionsSchema, type TraceUploadOptionsInput } from "../../shared/schemas/api-traces";
+import type { AppContext } from "@/server/context";
+import { schema } from "@/db/client";
+import { registerDemoSeeder } from "./seed";
+import { demoPrograms, DEMO_PROGRAM_KEYS } from "./circuits";
+import { buildTraceSet, saveTraceSet } from "@/server/services/traces.service";
+import { templates } from "@/sim/circuit/templates";
+import { setParameter } from "@/sim/circuit/parameters";
+import { compileProgram } from "@/sim/inputs/compile-program";
+import { makeSyntheticTraces, syntheticCsv, type MeasurementModel } from "@/sim/traces/synthetic";
+import { RunSpecSchema, type RunSpec } from "@/shared/schemas/run-spec";
+import { TraceUploadOptionsSchema, type TraceUploadOptionsInput } from "@/shared/schemas/api-traces";
 
 export const DEMO_TRACES_KEY = "synthetic-tank-cells";
 export const DEMO_TRACES_NAME = "Synthetic tank cells (demo)";

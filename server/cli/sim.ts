@@ -27,11 +27,11 @@ import {
   solveOde,
   type ChunkResult,
   type GridPartial,
-} from "../index";
-import type { PulseStat } from "../../shared/schemas/run-spec";
-import { createSimPool } from "../../server/workers/pool";
-import { summarizeRun, type ReplicateTotals } from "../analysis";
-import { runAllChunks } from "../../server/workers/run-all-chunks";
+} from "@/sim";
+import type { PulseStat } from "@/shared/schemas/run-spec";
+import { createSimPool } from "@/server/compute/pool";
+import { summarizeRun, type ReplicateTotals } from "@/sim/analysis";
+import { runAllChunks } from "@/server/compute/run-all-chunks";
 
 interface Args {
   spec: string;
@@ -44,7 +44,9 @@ interface Args {
 
 function usage(msg?: string): never {
   if (msg) process.stderr.write(`error: ${msg}\n`);
-  process.stderr.write("usage: npm run sim -- <spec.json> --out <dir> [--threads N] [--replicates N] [--seed S] [--quiet]\n");
+  process.stderr.write(
+    "usage: npm run sim -- <spec.json> --out <dir> [--threads N] [--replicates N] [--seed S] [--quiet]\n",
+  );
   process.exit(2);
 }
 
@@ -118,13 +120,19 @@ export async function runCli(argv: string[]): Promise<void> {
   const pulseCsv = createWriteStream(path.join(args.out, "pulses.csv"));
   const factorRefs = spec.extrinsic.map((v) => v.parameter);
   await write(gridCsv, `replicate,time,${species.join(",")}\n`);
-  await write(repCsv, `replicate,events,capped,endTime,outputMean,outputVar${factorRefs.map((r) => `,"factor ${r}"`).join("")}\n`);
+  await write(
+    repCsv,
+    `replicate,events,capped,endTime,outputMean,outputVar${factorRefs.map((r) => `,"factor ${r}"`).join("")}\n`,
+  );
   await write(
     pulseCsv,
     "replicate,pulseIndex,on,off,durationBin,excluded,passed,delay,offDelay,widths,peak,timeToPeak,fwhm,baseline\n",
   );
   const partials: GridPartial[] = [];
-  const byBin = new Map<number, { pulses: number; excluded: number; passed: number; delaySum: number; delays: number }>();
+  const byBin = new Map<
+    number,
+    { pulses: number; excluded: number; passed: number; delaySum: number; delays: number }
+  >();
   let capped = 0;
   let events = 0;
   const allPulses: PulseStat[] = [];
@@ -145,7 +153,13 @@ export async function runCli(argv: string[]): Promise<void> {
     let s = "";
     for (const rep of r.replicates) {
       if (rep.capped) capped++;
-      allReplicates.push({ replicate: rep.replicate, events: rep.events, capped: rep.capped, outputMean: rep.outputMean, outputVar: rep.outputVar });
+      allReplicates.push({
+        replicate: rep.replicate,
+        events: rep.events,
+        capped: rep.capped,
+        outputMean: rep.outputMean,
+        outputVar: rep.outputVar,
+      });
       s += `${rep.replicate},${rep.events},${rep.capped},${rep.endTime},${fmt(rep.outputMean)},${fmt(rep.outputVar)}${factorRefs.map((f) => `,${fmt(rep.factors[f])}`).join("")}\n`;
     }
     await write(repCsv, s);
@@ -219,9 +233,22 @@ export async function runCli(argv: string[]): Promise<void> {
       passFraction: b.pulses - b.excluded > 0 ? b.passed / (b.pulses - b.excluded) : null,
       meanDelay: b.delays > 0 ? b.delaySum / b.delays : null,
     })),
-    files: ["summary.json", "analysis.json", "grid-mean.csv", "grid-replicates.csv", "replicates.csv", "pulses.csv", "ode.csv"],
+    files: [
+      "summary.json",
+      "analysis.json",
+      "grid-mean.csv",
+      "grid-replicates.csv",
+      "replicates.csv",
+      "pulses.csv",
+      "ode.csv",
+    ],
     spec,
-    timing: { startedAt: started.toISOString(), seconds, threads: args.threads ?? 1, eventsPerSecond: events / seconds },
+    timing: {
+      startedAt: started.toISOString(),
+      seconds,
+      threads: args.threads ?? 1,
+      eventsPerSecond: events / seconds,
+    },
   };
   writeFileSync(path.join(args.out, "summary.json"), JSON.stringify(summary, null, 2) + "\n");
   const analysis = summarizeRun({

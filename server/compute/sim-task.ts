@@ -1,5 +1,5 @@
 /** The task a simulation worker receives (shared by the pool, the server queue and the CLI). */
-import type { RunSpec } from "../../shared/schemas/run-spec";
+import type { RunSpec } from "@/shared/schemas/run-spec";
 
 export interface SimTask {
   spec: RunSpec;

@@ -4,10 +4,10 @@
  * items. LINGER_SEED_DEMO=0 skips it.
  */
 import { and, eq } from "drizzle-orm";
-import type { AppContext } from "../context";
-import { schema } from "../../db/client";
-import { newId } from "../ids";
-import { hashPassword, verifyPassword } from "./password";
+import type { AppContext } from "@/server/context";
+import { schema } from "@/db/client";
+import { newId } from "@/server/ids";
+import { hashPassword, verifyPassword } from "@/server/services/password";
 
 export const DEMO_LAB_KEY = "tank-sensor-group";
 export const DEMO_LAB_NAME = "Tank Sensor Group";
@@ -48,10 +48,18 @@ export async function seedDemoAccounts(ctx: AppContext): Promise<{ id: string; o
       db.insert(schema.users).values(user).run();
     } else if (!(await verifyPassword(ctx.env.LINGER_DEMO_PASSWORD, user.passwordHash))) {
       // The demo password follows LINGER_DEMO_PASSWORD.
-      db.update(schema.users).set({ passwordHash: await hashPassword(ctx.env.LINGER_DEMO_PASSWORD) }).where(eq(schema.users.id, user.id)).run();
+      db.update(schema.users)
+        .set({ passwordHash: await hashPassword(ctx.env.LINGER_DEMO_PASSWORD) })
+        .where(eq(schema.users.id, user.id))
+        .run();
     }
-    const member = db.select().from(schema.memberships).where(and(eq(schema.memberships.labId, lab.id), eq(schema.memberships.userId, user.id))).get();
-    if (!member) db.insert(schema.memberships).values({ labId: lab.id, userId: user.id, role: acct.role, createdAt: now }).run();
+    const member = db
+      .select()
+      .from(schema.memberships)
+      .where(and(eq(schema.memberships.labId, lab.id), eq(schema.memberships.userId, user.id)))
+      .get();
+    if (!member)
+      db.insert(schema.memberships).values({ labId: lab.id, userId: user.id, role: acct.role, createdAt: now }).run();
     if (acct.role === "owner") ownerId = user.id;
   }
   return { id: lab.id, ownerId };

@@ -1,9 +1,9 @@
 /** What happens when a run reaches an end state: sweep status, notification mail. */
 import { eq } from "drizzle-orm";
-import type { AppContext } from "../context";
-import { schema } from "../../db/client";
-import { notifyRunEnded } from "./notify.service";
-import { refreshSweepStatus } from "./sweeps.service";
+import type { AppContext } from "@/server/context";
+import { schema } from "@/db/client";
+import { notifyRunEnded } from "@/server/services/notify.service";
+import { refreshSweepStatus } from "@/server/services/sweeps.service";
 
 export async function onRunEnded(ctx: AppContext, runId: string, status: string): Promise<void> {
   const run = ctx.db.select().from(schema.runs).where(eq(schema.runs.id, runId)).get();
@@ -13,7 +13,14 @@ export async function onRunEnded(ctx: AppContext, runId: string, status: string)
     const sweepStatus = refreshSweepStatus(ctx, run.sweepId);
     if (sweepStatus && !["queued", "running"].includes(sweepStatus)) {
       const sweep = ctx.db.select().from(schema.sweeps).where(eq(schema.sweeps.id, run.sweepId)).get();
-      if (sweep) await notifyRunEnded(ctx, { id: sweep.id, labId: sweep.labId, name: sweep.name, status: sweepStatus, kind: "sweep" });
+      if (sweep)
+        await notifyRunEnded(ctx, {
+          id: sweep.id,
+          labId: sweep.labId,
+          name: sweep.name,
+          status: sweepStatus,
+          kind: "sweep",
+        });
     }
     return;
   }

@@ -5,7 +5,7 @@
  * transferred rather than copied.
  */
 import { Piscina } from "piscina";
-import { simulateChunk, prepareRun, type ChunkResult } from "../../sim/index";
+import { simulateChunk, prepareRun, type ChunkResult } from "@/sim";
 import type { SimTask } from "./sim-task";
 
 export type WorkerChunkResult = ChunkResult & { wallTimeExceeded?: boolean };
@@ -36,7 +36,10 @@ export default function simWorker(task: SimTask): unknown {
   const limit = task.wallTimeLimitMs;
   const deadline = limit !== undefined && limit > 0 ? Date.now() + limit : Infinity;
   const checkpoint = Number.isFinite(deadline) ? () => Date.now() < deadline : undefined;
-  const result: WorkerChunkResult = simulateChunk(task.spec, task.replicateStart, task.count, { ...task.options, checkpoint });
+  const result: WorkerChunkResult = simulateChunk(task.spec, task.replicateStart, task.count, {
+    ...task.options,
+    checkpoint,
+  });
   if (result.aborted) result.wallTimeExceeded = true;
   const movable = {
     get [Piscina.transferableSymbol]() {
