@@ -12,6 +12,7 @@ import { schema } from "@/db/client";
 import { newId } from "@/server/ids";
 import { HttpError, badRequest, notFound, parseOr400 } from "@/server/http-error";
 import { recordAudit } from "./audit.service";
+import { csvCell } from "@/shared/csv-cell";
 import { compileProgram } from "@/sim/inputs/compile-program";
 import { InputProgramSchema } from "@/shared/schemas/input-program";
 import { API_LIMITS } from "@/shared/schemas/api-runs";
@@ -476,7 +477,11 @@ export function purgeDeletedTraceSets(ctx: Pick<AppContext, "db">, now = Date.no
 
 // ---------------------------------------------------------------- CSV export
 
-const csvField = (s: string) => (/[",\n\r]/.test(s) ? `"${s.replace(/"/g, '""')}"` : s);
+/** One text cell: formula-neutralised (shared/csv-cell.ts), then quoted when RFC 4180 needs it. */
+const csvField = (raw: string) => {
+  const s = csvCell(raw);
+  return /[",\n\r]/.test(s) ? `"${s.replace(/"/g, '""')}"` : s;
+};
 const num = (x: number | null | undefined) =>
   x === null || x === undefined || !Number.isFinite(x) ? "" : String(Number(x.toPrecision(10)));
 

@@ -2,9 +2,10 @@
  * CSV exports of a run (RFC 4180 via papaparse's unparse): per-pulse records,
  * per-replicate statistics, the figures by duration, and the headline figures
  * as metric,value rows. Empty cell = not defined (null); numbers are written
- * at full precision; rows in a fixed order so the same input gives the same bytes.
+ * at full precision; text cells pass through csvCell (formula injection); rows in a fixed order so the same input gives the same bytes.
  */
 import Papa from "papaparse";
+import { csvCell } from "@/shared/csv-cell";
 import type { RunSummary } from "@/shared/schemas/analysis";
 import type { PulseStat } from "@/shared/schemas/run-spec";
 import { describe } from "@/sim/stats/describe";
@@ -13,7 +14,11 @@ import type { ReplicateTotals } from "./summarize-run";
 type Cell = string | number | boolean | null;
 
 function toCsv(fields: string[], rows: Cell[][]): string {
-  const clean = rows.map((r) => r.map((c) => (c === null || (typeof c === "number" && !Number.isFinite(c)) ? "" : c)));
+  const clean = rows.map((r) =>
+    r.map((c) =>
+      c === null || (typeof c === "number" && !Number.isFinite(c)) ? "" : typeof c === "string" ? csvCell(c) : c,
+    ),
+  );
   return Papa.unparse({ fields, data: clean }, { newline: "\n" }) + "\n";
 }
 

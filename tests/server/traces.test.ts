@@ -387,6 +387,28 @@ describe("stored trace sets", () => {
     assert.match(lines[1], /^a,0,20,80,60,0,1,9,/);
   });
 
+  test("metrics CSV neutralises formula-like cell ids (OWASP CSV injection) and keeps plain numbers", async () => {
+    const ids = ['=HYPERLINK("http://x.example","y")', "+SUM(1+1)", "@cmd", "-1+2", "-1.5"];
+    const quoted = (c: string) => (/[",]/.test(c) ? `"${c.replace(/"/g, '""')}"` : c);
+    const text = smallCsv().replace(/^a,/gm, "A,").replace(/^b,/gm, "B,");
+    const rows = text.trim().split("\n");
+    const body = ids.flatMap((c) =>
+      rows
+        .slice(1)
+        .filter((l) => l.startsWith("A,"))
+        .map((l) => quoted(c) + l.slice(1)),
+    );
+    const up = await post(editor, `/api/labs/${lab}/traces`, [rows[0], ...body].join("\n") + "\n", OPTIONS);
+    assert.equal(up.status, 201, JSON.stringify(up.body));
+    const csv = await viewer.get(`/api/traces/${up.body.id}/export/metrics.csv`).expect(200);
+    const text2 = csv.text;
+    assert.ok(text2.includes(`"'=HYPERLINK(""http://x.example"",""y"")",0,`), text2);
+    assert.ok(text2.includes("\n'+SUM(1+1),0,"), text2);
+    assert.ok(text2.includes("\n'@cmd,0,"), text2);
+    assert.ok(text2.includes("\n'-1+2,0,"), text2);
+    assert.ok(text2.includes("\n-1.5,0,"), text2);
+  });
+
   test("match against a run from another lab is a 404; unfinished run a 409", async () => {
     const foreign = insertRun(otherLab, spec(100, "foreign", 2));
     assert.equal((await editor.post(`/api/traces/${id}/match`).send({ runId: foreign })).status, 404);
