@@ -17,7 +17,13 @@ import {
   requestPasswordReset,
   updateProfile,
 } from "@/server/services/auth.service";
-import { describeInvitation, invitationEmail, joinWithInvitation, labsOf } from "@/server/services/labs.service";
+import {
+  assertInvitedAddress,
+  describeInvitation,
+  invitationEmail,
+  joinWithInvitation,
+  labsOf,
+} from "@/server/services/labs.service";
 import { assertNotLimited, authLimitersOf } from "@/server/services/rate-limit";
 import type { AppContext } from "@/server/context";
 import {
@@ -102,16 +108,7 @@ export const authRoutes = defineRoutes([
     summary:
       "Create an account (with an invitation: join its lab; otherwise get a lab of one's own) and sign in; 201 {user}.",
     handler: async ({ req, res, ctx, body }): Promise<SignedIn> => {
-      if (body.invitationToken) {
-        const invited = invitationEmail(ctx, body.invitationToken);
-        if (invited !== normalizeEmail(body.email)) {
-          throw badRequest(
-            `This invitation is for ${invited}.`,
-            [{ path: "email", message: "Use the invited address." }],
-            "email_mismatch",
-          );
-        }
-      }
+      if (body.invitationToken) assertInvitedAddress(ctx, body.invitationToken, body.email);
       const user = await createAccount(ctx, {
         email: body.email,
         password: body.password,
@@ -211,9 +208,10 @@ export const authRoutes = defineRoutes([
     access: { kind: "public" },
     body: AcceptInvitationBodySchema,
     summary:
-      "Accept an invitation: adds the signed-in user, or creates the invited account (password, displayName) and signs in.",
+      "Accept an invitation: adds the signed-in user (400 email_mismatch unless it is their address), or creates the invited account (password, displayName) and signs in.",
     handler: async ({ req, ctx, user, body }): Promise<AcceptInvitationResponse> => {
       if (user) {
+        assertInvitedAddress(ctx, body.token, user.email);
         const joined = joinWithInvitation(ctx, body.token, user.id);
         return { ...joined, ...me(ctx, user.id) };
       }

@@ -287,6 +287,18 @@ export function invitationEmail(ctx: AppContext, token: string): string {
   return validInvitation(ctx, token).email;
 }
 
+/** An invitation may only be used by its invited address (sign-up and accept-while-signed-in alike): 400 otherwise. */
+export function assertInvitedAddress(ctx: AppContext, token: string, email: string): void {
+  const invited = invitationEmail(ctx, token);
+  if (invited !== normalizeEmail(email)) {
+    throw badRequest(
+      `This invitation is for ${invited}.`,
+      [{ path: "email", message: "Use the invited address." }],
+      "email_mismatch",
+    );
+  }
+}
+
 // ------------------------------------------------------------ members
 
 function membership(ctx: AppContext, labId: string, userId: string) {

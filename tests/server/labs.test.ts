@@ -263,6 +263,17 @@ describe("invitations", () => {
     assert.deepEqual(ok.body.labs.map((l: any) => l.name).sort(), ["Second lab", "Tank Sensor Group"]);
   });
 
+  test("signed in, an invitation for another address is refused with the sign-up error, and stays usable", async () => {
+    const { token } = await invite("promoted@example.org", "editor");
+    const viewer = await signIn(t.app, VIEWER);
+    const r = await viewer.post("/api/invitations/accept").send({ token }).expect(400);
+    assert.equal(r.body.error.code, "email_mismatch");
+    assert.match(r.body.error.message, /promoted@example\.org/);
+    const me = await viewer.get("/api/me").expect(200);
+    assert.equal(me.body.labs.find((l: any) => l.id === t.demoLab!.id).role, "viewer");
+    await request(t.app).get(`/api/invitations/${token}`).expect(200);
+  });
+
   test("sign-up with an invitation joins its lab instead of making a lab of one's own", async () => {
     const { token } = await invite("third@example.org", "viewer");
     await request(t.app)
