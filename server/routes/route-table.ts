@@ -23,8 +23,11 @@ export type Access =
   | { kind: "siteAdmin" }
   /** A member of the lab named by the :labId path parameter, with at least this role. */
   | { kind: "lab"; role: LabRole }
-  /** A member of the lab that owns the object named by the :id path parameter. */
-  | { kind: "object"; resource: ResourceKind; role: LabRole };
+  /**
+   * A member of the lab that owns the object named by the :id path parameter. A soft-deleted object is
+   * 404 unless `deleted: "reachable"` (only the delete and restore routes: undo until purged).
+   */
+  | { kind: "object"; resource: ResourceKind; role: LabRole; deleted?: "reachable" };
 
 export interface RouteCall<B = any, Q = any> {
   req: Request;
@@ -78,7 +81,9 @@ export function checkAccess(
     labId = String(req.params.labId ?? "");
   } else {
     what = `That ${access.resource}`;
-    labId = resourceLab(ctx, access.resource, String(req.params.id ?? ""));
+    labId = resourceLab(ctx, access.resource, String(req.params.id ?? ""), {
+      includeDeleted: access.deleted === "reachable",
+    });
     if (!labId) throw notFound(what);
   }
   const role = labRoleOf(ctx, user.id, labId);

@@ -223,7 +223,7 @@ export const runRoutes = defineRoutes([
   {
     method: "delete",
     path: "/runs/:id",
-    access: { kind: "object", resource: "run", role: "editor" },
+    access: { kind: "object", resource: "run", role: "editor", deleted: "reachable" },
     summary: "Delete a run; it can be restored for 7 days.",
     handler: ({ ctx, params, user, labId }) => {
       runs.softDelete(ctx, params.id);
@@ -234,7 +234,7 @@ export const runRoutes = defineRoutes([
   {
     method: "post",
     path: "/runs/:id/restore",
-    access: { kind: "object", resource: "run", role: "editor" },
+    access: { kind: "object", resource: "run", role: "editor", deleted: "reachable" },
     summary: "Undo a delete.",
     handler: ({ ctx, params, user, labId }) => {
       runs.restore(ctx, params.id);

@@ -69,7 +69,7 @@ export const sweepRoutes = defineRoutes([
   {
     method: "delete",
     path: "/sweeps/:id",
-    access: { kind: "object", resource: "sweep", role: "editor" },
+    access: { kind: "object", resource: "sweep", role: "editor", deleted: "reachable" },
     summary: "Delete a sweep and hide its points (restorable for 7 days).",
     handler: ({ ctx, params, user, labId }) => {
       sweeps.deleteSweep(ctx, params.id);
@@ -80,7 +80,7 @@ export const sweepRoutes = defineRoutes([
   {
     method: "post",
     path: "/sweeps/:id/restore",
-    access: { kind: "object", resource: "sweep", role: "editor" },
+    access: { kind: "object", resource: "sweep", role: "editor", deleted: "reachable" },
     summary: "Undo a sweep delete.",
     handler: ({ ctx, params, user, labId }) => {
       sweeps.restoreSweep(ctx, params.id);

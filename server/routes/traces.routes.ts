@@ -90,7 +90,7 @@ export const traceRoutes = defineRoutes([
   {
     method: "delete",
     path: "/traces/:id",
-    access: { kind: "object", resource: "traceSet", role: "editor" },
+    access: { kind: "object", resource: "traceSet", role: "editor", deleted: "reachable" },
     summary:
       "Delete a trace set; it can be restored for 7 days, then it is purged. Every other route answers 404 for it meanwhile.",
     handler: ({ ctx, params, user }) => {
@@ -101,7 +101,7 @@ export const traceRoutes = defineRoutes([
   {
     method: "post",
     path: "/traces/:id/restore",
-    access: { kind: "object", resource: "traceSet", role: "editor" },
+    access: { kind: "object", resource: "traceSet", role: "editor", deleted: "reachable" },
     summary: "Undo a delete (within 7 days); answers the list item. 409 when the set is not deleted.",
     handler: ({ ctx, params, user }): TraceSetListItem => restoreTraceSet(ctx, user!.id, params.id),
   },

@@ -1,5 +1,5 @@
 /** Who may see what: lab membership and the lab that owns an object. */
-import { and, eq } from "drizzle-orm";
+import { and, eq, isNull } from "drizzle-orm";
 import type { AppContext } from "@/server/context";
 import { schema } from "@/db/client";
 import type { LabRole } from "@/shared/schemas/api-accounts";
@@ -16,15 +16,28 @@ export function labRoleOf(ctx: AppContext, userId: string, labId: string): LabRo
   return (row?.role as LabRole | undefined) ?? null;
 }
 
-/** The lab that owns an object, or null when there is no such object. */
-export function resourceLab(ctx: AppContext, kind: ResourceKind, id: string): string | null {
+/**
+ * The lab that owns an object, or null when there is no such object. A soft-deleted object (run, sweep,
+ * trace set) counts as absent, so every route answers 404 for it, unless `includeDeleted` is set: only
+ * the delete and restore routes set it (undo until purged; a second delete answers 409).
+ */
+export function resourceLab(
+  ctx: AppContext,
+  kind: ResourceKind,
+  id: string,
+  opts: { includeDeleted?: boolean } = {},
+): string | null {
   if (!id) return null;
   const s = schema;
+  const live = !opts.includeDeleted;
   let row: { labId: string } | undefined;
   switch (kind) {
     case "run":
-      // Soft-deleted runs stay reachable for restore (undo) until purged.
-      row = ctx.db.select({ labId: s.runs.labId }).from(s.runs).where(eq(s.runs.id, id)).get();
+      row = ctx.db
+        .select({ labId: s.runs.labId })
+        .from(s.runs)
+        .where(and(eq(s.runs.id, id), live ? isNull(s.runs.deletedAt) : undefined))
+        .get();
       break;
     case "circuit":
       row = ctx.db.select({ labId: s.circuits.labId }).from(s.circuits).where(eq(s.circuits.id, id)).get();
@@ -37,11 +50,18 @@ export function resourceLab(ctx: AppContext, kind: ResourceKind, id: string): st
         .get();
       break;
     case "sweep":
-      row = ctx.db.select({ labId: s.sweeps.labId }).from(s.sweeps).where(eq(s.sweeps.id, id)).get();
+      row = ctx.db
+        .select({ labId: s.sweeps.labId })
+        .from(s.sweeps)
+        .where(and(eq(s.sweeps.id, id), live ? isNull(s.sweeps.deletedAt) : undefined))
+        .get();
       break;
     case "traceSet":
-      // Like runs: deleted sets stay reachable for restore; traces.service answers 404 for them everywhere else.
-      row = ctx.db.select({ labId: s.traceSets.labId }).from(s.traceSets).where(eq(s.traceSets.id, id)).get();
+      row = ctx.db
+        .select({ labId: s.traceSets.labId })
+        .from(s.traceSets)
+        .where(and(eq(s.traceSets.id, id), live ? isNull(s.traceSets.deletedAt) : undefined))
+        .get();
       break;
     case "match":
       row = ctx.db.select({ labId: s.matches.labId }).from(s.matches).where(eq(s.matches.id, id)).get();

@@ -18,7 +18,7 @@ export function compareLabRuns(ctx: AppContext, labId: string, runIds: string[])
   const rows = ctx.db
     .select()
     .from(schema.runs)
-    .where(and(eq(schema.runs.labId, labId), inArray(schema.runs.id, runIds)))
+    .where(and(eq(schema.runs.labId, labId), inArray(schema.runs.id, runIds), isNull(schema.runs.deletedAt)))
     .all();
   for (const id of runIds) if (!rows.some((r) => r.id === id)) throw notFound(`Run ${id}`);
   const ordered = runIds.map((id) => rows.find((r) => r.id === id)!);
