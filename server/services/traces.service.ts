@@ -45,8 +45,10 @@ export const fromBlob = (b: Buffer | Uint8Array): Float64Array => {
 
 const upload = multer({
   storage: multer.memoryStorage(),
+  // Browsers send the file name as raw UTF-8 bytes; multer's default (Latin-1) would turn 名前.csv into mojibake.
+  defParamCharset: "utf8",
   limits: { fileSize: TRACE_LIMITS.maxFileBytes, files: 1, fields: 8, fieldSize: 64 * 1024, parts: 12 },
-}).single("file");
+} as multer.Options & { defParamCharset: string }).single("file"); // multer 2.x option, not yet in @types/multer
 
 /** multer with its errors turned into clear 4xx answers (never a 500). */
 export function traceUpload(req: Request, res: Response, next: NextFunction): void {
@@ -113,7 +115,17 @@ export function readUpload(req: Request): { fileName: string | null; text: strin
       [{ path: "file", message: "binary" }],
       "invalid_traces",
     );
-  return { fileName: file.originalname || null, text: buf.toString("utf8"), options };
+  return { fileName: cleanFileName(file.originalname), text: buf.toString("utf8"), options };
+}
+
+/** An uploaded file's name as stored: control characters (C0, DEL, C1) and any path removed; null when nothing is left. */
+export function cleanFileName(name: string | undefined): string | null {
+  // eslint-disable-next-line no-control-regex
+  const clean = (name ?? "")
+    .replace(/[\u0000-\u001f\u007f-\u009f]/g, "")
+    .replace(/^.*[\\/]/, "")
+    .trim();
+  return clean ? clean.slice(0, 255) : null;
 }
 
 // ---------------------------------------------------------------- building a set

@@ -40,7 +40,7 @@ import {
 } from "@/shared/schemas/api-traces";
 import { ApiErrorSchema } from "@/shared/schemas/errors";
 import { API_LIMITS } from "@/shared/schemas/api-runs";
-import { purgeDeletedTraceSets } from "@/server/services/traces.service";
+import { cleanFileName, purgeDeletedTraceSets } from "@/server/services/traces.service";
 import { purgeDeleted } from "@/server/services/runs.service";
 import { listAudit } from "@/server/services/audit.service";
 
@@ -358,6 +358,17 @@ describe("stored trace sets", () => {
     const item = list.body.traceSets.find((x: { id: string }) => x.id === id);
     assert.equal(item.uploadedByName, "Demo editor");
     assert.equal(item.fileName, "cells.csv");
+  });
+
+  test("a non-ASCII file name is stored as sent (UTF-8), with control characters removed", async () => {
+    const r = await post(editor, `/api/labs/${lab}/traces`, smallCsv(), OPTIONS, "名前\u0085.csv");
+    assert.equal(r.status, 201, JSON.stringify(r.body));
+    const row = t.ctx.db.select().from(schema.traceSets).where(eq(schema.traceSets.id, r.body.id)).get()!;
+    assert.equal(row.fileName, "名前.csv");
+    assert.equal(row.name, "名前");
+    assert.equal(cleanFileName("a\u0007b\u001b[2J\u007f.csv"), "ab[2J.csv");
+    assert.equal(cleanFileName("../../etc/x.csv"), "x.csv");
+    assert.equal(cleanFileName("\u0001"), null);
   });
 
   test("detail for a viewer; 404 for another lab's member", async () => {
