@@ -25,6 +25,24 @@ const ci = (c: [number | null, number | null] | null | undefined, unit = "") =>
     : undefined;
 
 /** The headline figures of a finished run (or of a trace set, cells as replicates: peaks are then in trace units). */
+/** The d50 card's value when no number is given: the pass-curve verdict in words (sim/analysis/pass-curve-d50.ts). */
+export function d50Refusal(summary: RunSummary): string {
+  const v = summary.passCurveD50;
+  if (!v) return "not estimable";
+  switch (v.kind) {
+    case "not-bracketed":
+      return v.side === "below-shortest"
+        ? `below ${formatNumber(v.bound)} min (shortest tried)`
+        : `above ${formatNumber(v.bound)} min (longest tried)`;
+    case "not-estimable":
+      return `not estimable: no durations between ${formatNumber(v.between[0])} and ${formatNumber(v.between[1])} min`;
+    case "plateau":
+      return "plateau: no single d50";
+    default:
+      return "not estimable";
+  }
+}
+
 export function HeadlineCards({
   summary,
   circuit,
@@ -45,8 +63,8 @@ export function HeadlineCards({
           style={CARD}
           testID="card-d50"
           label="d50 (duration passed half the time)"
-          value={summary.d50 === null ? "not estimable" : `${formatNumber(summary.d50)} min`}
-          detail={summary.d50 === null ? (summary.d50Note ?? undefined) : ci(summary.logistic.d50Ci, " min")}
+          value={summary.d50 === null ? d50Refusal(summary) : `${formatNumber(summary.d50)} min`}
+          detail={summary.d50 === null ? (summary.d50Note ?? undefined) : ci(summary.d50Ci, " min")}
         />
         <StatCard
           style={CARD}

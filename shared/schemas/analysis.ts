@@ -101,6 +101,47 @@ export const DelaySummarySchema = z.object({
 });
 export type DelaySummary = z.infer<typeof DelaySummarySchema>;
 
+/**
+ * d50 read from the observed pass curve without a shape (sim/analysis/pass-curve-d50.ts): either an
+ * estimate with its 95% interval, or the reason in words why no number is given.
+ */
+export const PassCurveD50Schema = z.discriminatedUnion("kind", [
+  z.object({
+    kind: z.literal("estimate"),
+    /** Minutes, interpolated on log duration between the two tried durations whose monotone estimates straddle 50%. */
+    d50: num,
+    /** 95% interval ends, minutes; tried durations (the data say nothing between them). */
+    low: num,
+    high: num,
+    method: z.string(),
+  }),
+  z.object({
+    kind: z.literal("not-bracketed"),
+    side: z.enum(["below-shortest", "above-longest"]),
+    /** The shortest (below) or longest (above) tried duration, minutes. */
+    bound: num,
+    reason: z.string(),
+  }),
+  z.object({
+    kind: z.literal("not-estimable"),
+    /** The tried durations on either side of 50%, minutes. */
+    between: interval,
+    reason: z.string(),
+  }),
+  z.object({ kind: z.literal("plateau"), reason: z.string() }),
+]);
+export type PassCurveD50 = z.infer<typeof PassCurveD50Schema>;
+
+export const LogisticGoodnessOfFitSchema = z.object({
+  /** Pearson chi-square of the fitted against the observed counts. */
+  chiSquare: num,
+  /** Distinct durations minus the two fitted parameters. */
+  df: z.number().int().min(1),
+  pValue: num,
+  /** pValue < 0.05: the logistic shape does not describe the data; do not quote its d50. */
+  poorFit: z.boolean(),
+});
+
 export const LogisticSummarySchema = z.object({
   intercept: nnum,
   slopePerLogMinute: nnum,
@@ -108,6 +149,10 @@ export const LogisticSummarySchema = z.object({
   d50Ci: interval.nullable(),
   converged: z.boolean(),
   fitted: z.array(z.object({ duration: num, passProbability: num })),
+  /** d50 of the logistic smooth (not the headline d50); null when no fit. */
+  d50: nnum,
+  /** Pearson goodness of fit on k-2 df; null with fewer than three durations or no fit. */
+  goodnessOfFit: LogisticGoodnessOfFitSchema.nullable(),
 });
 
 export const FalsePassSchema = z.object({
@@ -171,9 +216,12 @@ export const RunSummarySchema = z.object({
   }),
   /** One entry per distinct input pulse duration, ascending. */
   byDuration: z.array(ByDurationEntrySchema),
-  /** Duration passed half the time, from the logistic fit; null with d50Note when not estimable. */
+  /** Duration passed half the time, from the monotone pass curve (passCurveD50); null with d50Note when no number is given. */
   d50: nnum,
+  /** 95% interval of d50 (passCurveD50's low/high); null when d50 is null. */
+  d50Ci: interval.nullable(),
   d50Note: z.string().nullable(),
+  passCurveD50: PassCurveD50Schema,
   logistic: LogisticSummarySchema,
   /** Pass fraction of pulses shorter than the noise duration; null when there are none. */
   falsePassRate: nnum,

@@ -81,7 +81,7 @@ export function compareRuns(runs: readonly RunToCompare[]): Comparison {
         evaluable: s.counts.evaluable,
         passed: s.counts.passed,
         d50: s.d50,
-        d50Ci: s.logistic.d50Ci,
+        d50Ci: s.d50Ci,
         d50Note: s.d50Note,
         falsePassRate: s.falsePassRate,
         medianDelay: s.delay.median,
@@ -256,8 +256,8 @@ export function compareRuns(runs: readonly RunToCompare[]): Comparison {
         );
       }
     }
-    const ca = runs[i].summary.logistic.d50Ci;
-    const cb = runs[j].summary.logistic.d50Ci;
+    const ca = runs[i].summary.d50Ci;
+    const cb = runs[j].summary.d50Ci;
     if (ca && cb) {
       const overlap = ca[0] <= cb[1] && cb[0] <= ca[1];
       pairFlags.push(

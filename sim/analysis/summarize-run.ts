@@ -1,6 +1,7 @@
 /**
  * The noise-filter figures of one run (docs/metrics.md): filter curve by input
- * pulse duration with Wilson 95% intervals, d50 from a logistic fit, false-pass
+ * pulse duration with Wilson 95% intervals, d50 from the monotone pass curve
+ * (pass-curve-d50.ts; the logistic fit only as a smooth with its goodness of fit), false-pass
  * rate, delay distribution under censoring (Kaplan-Meier), delay cost for long
  * pulses, output pulse widths, pulse-generation figures and output noise.
  *
@@ -17,8 +18,10 @@ import { describe, mean } from "@/sim/stats/describe";
 import { histogram } from "@/sim/stats/histogram";
 import { kaplanMeier, kmQuantile, kmQuantileInterval, type SurvivalObservation } from "@/sim/stats/kaplan-meier";
 import { fitLogisticPass } from "@/sim/stats/logistic-fit";
+import { logisticGoodnessOfFit } from "@/sim/stats/logistic-goodness-of-fit";
 import { wilson } from "@/sim/stats/wilson-interval";
 import { summarizeDelays } from "./delay-summary";
+import { passCurveD50 } from "./pass-curve-d50";
 import { windowEnds } from "./pulse-selection";
 import { durationNormalizer } from "./normalize-duration";
 
@@ -122,10 +125,18 @@ export function summarizeRun(input: SummarizeRunInput): RunSummary {
     };
   });
 
-  // ---- logistic fit and d50
-  const fit = fitLogisticPass(
-    byDuration.filter((e) => e.duration > 0).map((e) => ({ duration: e.duration, trials: e.pulses, passed: e.passed })),
-  );
+  // ---- d50 from the monotone pass curve; the logistic fit is an optional smooth with its goodness of fit
+  const passCounts = byDuration
+    .filter((e) => e.duration > 0)
+    .map((e) => ({ duration: e.duration, trials: e.pulses, passed: e.passed }));
+  const d50Verdict = passCurveD50(passCounts);
+  const fit = fitLogisticPass(passCounts);
+  const goodnessOfFit = logisticGoodnessOfFit(passCounts, fit.fitted);
+  if (goodnessOfFit?.poorFit) {
+    notes.push(
+      `The logistic smooth does not fit the pass curve (Pearson chi-square ${fmt(goodnessOfFit.chiSquare)} on ${goodnessOfFit.df} df, p ${goodnessOfFit.pValue < 0.001 ? "< 0.001" : `= ${fmt(goodnessOfFit.pValue)}`}); do not read d50 from it.`,
+    );
+  }
 
   // ---- false-pass rate
   const noise = byDuration.filter((e) => e.duration < noiseDurationMinutes && e.pulses > 0);
@@ -230,8 +241,10 @@ export function summarizeRun(input: SummarizeRunInput): RunSummary {
       passed: rows.filter((r) => r.p.passed).length,
     },
     byDuration,
-    d50: fit.d50,
-    d50Note: fit.d50Note,
+    d50: d50Verdict.kind === "estimate" ? d50Verdict.d50 : null,
+    d50Ci: d50Verdict.kind === "estimate" ? [d50Verdict.low, d50Verdict.high] : null,
+    d50Note: d50Verdict.kind === "estimate" ? null : d50Verdict.reason,
+    passCurveD50: d50Verdict,
     logistic: {
       intercept: fit.intercept,
       slopePerLogMinute: fit.slopePerLogMinute,
@@ -239,6 +252,8 @@ export function summarizeRun(input: SummarizeRunInput): RunSummary {
       d50Ci: fit.d50Ci,
       converged: fit.converged,
       fitted: fit.fitted,
+      d50: fit.d50,
+      goodnessOfFit,
     },
     falsePassRate: falsePass ? falsePass.rate : null,
     falsePass,

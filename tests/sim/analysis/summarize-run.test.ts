@@ -95,11 +95,16 @@ describe("summarizeRun", () => {
     assert.equal(ends[0], pulses[0].off + 30);
   });
 
-  test("false-pass rate pools durations below the noise duration; d50 from the logistic fit", () => {
+  test("false-pass rate pools durations below the noise duration; d50 from the monotone pass curve", () => {
     // durations 1, 2, 5 < 10: (0 + 3 + 10) of (20 + 20 + 19)
     assertCloseTo(s.falsePassRate!, 13 / 59, { abs: 1e-15 });
     assert.deepEqual(s.falsePass!.ci, wilson(13, 59));
-    assert.ok(s.d50! > 2 && s.d50! < 10, `d50 ${s.d50}`);
+    // monotone curve 0/20, 3/20, 10/19, 1 (already monotone): log interpolation between 2 and 5 min
+    const t = (0.5 - 3 / 20) / (10 / 19 - 3 / 20);
+    assertCloseTo(s.d50!, Math.exp(Math.log(2) + t * Math.log(5 / 2)), { rel: 1e-12 });
+    assert.equal(s.passCurveD50.kind, "estimate");
+    // Wilson 95%: 3/20 is surely below 50%, 20/20 surely above, 10/19 neither: interval [2, 10] min
+    assert.deepEqual(s.d50Ci, [2, 10]);
     assert.equal(s.d50Note, null);
     const none = summarizeRun({
       pulses: pulses.filter((p) => p.durationBin >= 10),
@@ -110,7 +115,8 @@ describe("summarizeRun", () => {
     assert.equal(none.falsePassRate, null);
     assert.equal(none.falsePass, null);
     assert.equal(none.d50, null);
-    assert.match(none.d50Note!, /Every pulse passed/);
+    assert.equal(none.passCurveD50.kind, "not-bracketed");
+    assert.match(none.d50Note!, /Already 100% passed at the shortest tried duration, 10 min/);
   });
 
   test("delay cost, noise (law of total variance), notes", () => {
