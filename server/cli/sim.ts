@@ -1,5 +1,11 @@
 /**
- * npm run sim -- <spec.json> --out <dir> [--threads N] [--replicates N] [--seed S] [--quiet]
+ * npm run sim -- <spec.json | model.xml> --out <dir> [--end-time T] [--grid-step S] [--threads N]
+ *                [--replicates N] [--seed S] [--quiet]
+ *
+ * A spec file is JSON (docs/runs.md) or an SBML model (docs/sbml.md, detected by
+ * content). --end-time and --grid-step are minutes, required for SBML and
+ * overriding a spec's values. A run without an input program writes
+ * "no input pulses" in pulses.csv and analysis.json.
  *
  * Runs a spec and writes flat files in <dir> (created if missing):
  *   summary.json          engine version, spec, threshold, totals, per-duration pass figures;
@@ -39,13 +45,15 @@ interface Args {
   threads?: number;
   replicates?: number;
   seed?: string;
+  endTime?: number;
+  gridStep?: number;
   quiet: boolean;
 }
 
 function usage(msg?: string): never {
   if (msg) process.stderr.write(`error: ${msg}\n`);
   process.stderr.write(
-    "usage: npm run sim -- <spec.json> --out <dir> [--threads N] [--replicates N] [--seed S] [--quiet]\n",
+    "usage: npm run sim -- <spec.json | model.xml> --out <dir> [--end-time T] [--grid-step S] [--threads N] [--replicates N] [--seed S] [--quiet]\n",
   );
   process.exit(2);
 }
@@ -61,7 +69,14 @@ function parseArgs(argv: string[]): Args {
       if (!Number.isInteger(n) || n < 1) usage(`${name} needs a whole number >= 1`);
       return n;
     };
+    const minutes = (name: string) => {
+      const n = Number(argv[++i]);
+      if (!Number.isFinite(n) || n <= 0) usage(`${name} needs a number of minutes > 0`);
+      return n;
+    };
     if (v === "--out") out = argv[++i];
+    else if (v === "--end-time") a.endTime = minutes("--end-time");
+    else if (v === "--grid-step") a.gridStep = minutes("--grid-step");
     else if (v === "--threads") a.threads = num("--threads");
     else if (v === "--replicates") a.replicates = num("--replicates");
     else if (v === "--seed") a.seed = argv[++i];
@@ -105,7 +120,13 @@ function close(stream: WriteStream): Promise<void> {
 
 export async function runCli(argv: string[]): Promise<void> {
   const args = parseArgs(argv);
-  const spec = loadSpecFile(args.spec, { replicates: args.replicates, seed: args.seed });
+  const spec = loadSpecFile(args.spec, {
+    replicates: args.replicates,
+    seed: args.seed,
+    endTimeMinutes: args.endTime,
+    gridStepMinutes: args.gridStep,
+  });
+  const noInput = spec.program === undefined;
   mkdirSync(args.out, { recursive: true });
   const setup = runSetup(spec);
   const species = setup.model.speciesNames;
@@ -124,10 +145,12 @@ export async function runCli(argv: string[]): Promise<void> {
     repCsv,
     `replicate,events,capped,endTime,outputMean,outputVar${factorRefs.map((r) => `,"factor ${r}"`).join("")}\n`,
   );
-  await write(
-    pulseCsv,
-    "replicate,pulseIndex,on,off,durationBin,excluded,passed,delay,offDelay,widths,peak,timeToPeak,fwhm,baseline\n",
-  );
+  if (noInput) await write(pulseCsv, "note\nno input pulses\n");
+  else
+    await write(
+      pulseCsv,
+      "replicate,pulseIndex,on,off,durationBin,excluded,passed,delay,offDelay,widths,peak,timeToPeak,fwhm,baseline\n",
+    );
   const partials: GridPartial[] = [];
   const byBin = new Map<
     number,
@@ -179,7 +202,7 @@ export async function runCli(argv: string[]): Promise<void> {
       }
       byBin.set(p.durationBin, b);
     }
-    await write(pulseCsv, s);
+    if (!noInput) await write(pulseCsv, s);
     for (const e of r.recordedEvents ?? []) {
       const names = setup.model.reactions.map((x) => x.name);
       let es = `time,reaction\n0,initial:${species.map((n, i) => `${n}=${e.initial[i]}`).join(";")}\n`;
@@ -258,7 +281,10 @@ export async function runCli(argv: string[]): Promise<void> {
     noiseDurationMinutes: spec.threshold.noiseDurationMinutes,
     endTimeMinutes: spec.endTimeMinutes,
   });
-  writeFileSync(path.join(args.out, "analysis.json"), JSON.stringify(analysis, null, 2) + "\n");
+  writeFileSync(
+    path.join(args.out, "analysis.json"),
+    JSON.stringify(noInput ? { note: "no input pulses", ...analysis } : analysis, null, 2) + "\n",
+  );
   if (!args.quiet)
     process.stderr.write(
       `${spec.replicates} replicates, ${events} events in ${seconds.toFixed(2)} s${capped > 0 ? `, ${capped} stopped at the event cap` : ""}; wrote ${args.out}\n`,

@@ -334,7 +334,7 @@ export function toListItem(
     circuitName: spec.circuit.name,
     programName:
       (row.programId && programs.get(row.programId)) ||
-      `inline ${PROGRAM_KIND_LABEL[spec.program.kind] ?? spec.program.kind}`,
+      (spec.program ? `inline ${PROGRAM_KIND_LABEL[spec.program.kind] ?? spec.program.kind}` : "no input pulses"),
     sweepId: row.sweepId,
     controlOf: row.controlOf,
     progress: progressView(ctx, row),
@@ -451,7 +451,7 @@ export function runSeries(ctx: AppContext, id: string, opts: { maxTrajectories?:
   return {
     times: Array.from(times),
     input: {
-      signal: spec.inputSignal,
+      signal: spec.inputSignal ?? "", // "" only for a run without input pulses (the CLI's imported models)
       pulses: compiled.pulses.map((p: any) => ({ on: p.on, off: p.off, level: p.level })),
     },
     outputSpecies: spec.circuit.outputSpecies,

@@ -44,9 +44,10 @@ export const SeedSchema = z
 
 export const RunSpecSchema = z.object({
   circuit: CircuitSchema,
-  program: InputProgramSchema,
-  /** The circuit signal the program drives. */
-  inputSignal: NameSchema,
+  /** The input program; absent for a run without input pulses (an imported model run as is). */
+  program: InputProgramSchema.optional(),
+  /** The circuit signal the program drives; absent exactly when the program is. */
+  inputSignal: NameSchema.optional(),
   endTimeMinutes: z.number().finite().gt(0).max(RUN_LIMITS.maxEndTimeMinutes),
   gridStepMinutes: z.number().finite().gt(0),
   replicates: z.number().int().min(1).max(RUN_LIMITS.maxReplicates),

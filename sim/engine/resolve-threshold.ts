@@ -7,7 +7,9 @@
  *   removal rate constants of the output: mass-action reactions whose only
  *   reactant is one output molecule and that consume it);
  * - window: the user's value, else 3 output lifetimes.
- * Throws a clear error when a needed value cannot be determined.
+ * Throws a clear error when a needed value cannot be determined. A run without
+ * an input program and without a threshold value gets theta = Infinity (never
+ * crossed; written as null in JSON).
  */
 import type { RunSpec } from "@/shared/schemas/run-spec";
 import { runSetup } from "./run-setup";
@@ -45,6 +47,19 @@ export function resolveThreshold(spec: RunSpec): ResolvedThreshold {
   const { model } = setup;
   const s = setup.spec.threshold;
   const output = model.speciesNames[model.outputIndex];
+  if (setup.spec.program === undefined && s.value === undefined) {
+    // A run without input pulses has no response to detect: the threshold is never crossed.
+    const removal = outputRemovalRate(model);
+    const lifetime = s.outputLifetimeMinutes ?? (removal > 0 ? 1 / removal : setup.spec.endTimeMinutes);
+    return {
+      theta: Infinity,
+      downTheta: Infinity,
+      hysteresis: s.hysteresis,
+      windowMinutes: s.windowMinutes ?? 3 * lifetime,
+      outputLifetimeMinutes: lifetime,
+      onSteadyState: NaN,
+    };
+  }
   let onSteadyState = NaN;
   let theta = s.value;
   const needOde = theta === undefined;

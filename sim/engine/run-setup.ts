@@ -39,7 +39,12 @@ export function runSpecErrors(spec: RunSpec): ValidationError[] {
     path: `circuit.${e.path}`,
     message: e.message,
   }));
-  if (!spec.circuit.signals.some((s) => s.name === spec.inputSignal))
+  if ((spec.program === undefined) !== (spec.inputSignal === undefined))
+    errors.push({
+      path: spec.program === undefined ? "program" : "inputSignal",
+      message: "program and inputSignal go together: give both, or neither for a run without input pulses",
+    });
+  else if (spec.inputSignal !== undefined && !spec.circuit.signals.some((s) => s.name === spec.inputSignal))
     errors.push({ path: "inputSignal", message: `input signal "${spec.inputSignal}" is not a signal of the circuit` });
   spec.extrinsic.forEach((v, i) => {
     if (!hasParameter(spec.circuit, v.parameter))
@@ -76,9 +81,9 @@ export function runSetup(specInput: RunSpec): RunSetup {
   const errors = runSpecErrors(spec);
   if (errors.length > 0) throw new Error(`invalid run spec: ${errors.map((e) => e.message).join("; ")}`);
   const model = compileModel(spec.circuit, spec.systemSize);
-  const inputSignal = model.signalNames.indexOf(spec.inputSignal);
-  const signal = spec.circuit.signals[inputSignal];
-  const perReplicate = spec.program.kind === "random" && spec.program.perReplicate;
+  const inputSignal = spec.inputSignal === undefined ? -1 : model.signalNames.indexOf(spec.inputSignal);
+  const signal = spec.circuit.signals[inputSignal] ?? { offLevel: 0, onLevel: 1 };
+  const perReplicate = spec.program?.kind === "random" && spec.program.perReplicate;
   const sharedProgram = perReplicate ? null : compileProgram(spec.program, spec.endTimeMinutes, undefined, signal);
   const varied: VariedParameter[] = spec.extrinsic.map((v) => {
     const p = parseParameterRef(v.parameter);
@@ -89,7 +94,7 @@ export function runSetup(specInput: RunSpec): RunSetup {
   const firstLevel = sharedProgram?.pulses[0]?.level;
   const onLevel =
     firstLevel ??
-    ("level" in spec.program && spec.program.level !== undefined ? spec.program.level : undefined) ??
+    (spec.program && "level" in spec.program && spec.program.level !== undefined ? spec.program.level : undefined) ??
     signal.onLevel;
   const setup: RunSetup = { key, spec, model, inputSignal, sharedProgram, grid: gridTimes(spec), varied, onLevel };
   if (cache.size >= CACHE_MAX) cache.delete(cache.keys().next().value!);

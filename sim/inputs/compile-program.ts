@@ -62,7 +62,8 @@ function sampleDuration(u: UniformSource, d: DurationDistribution): number {
 }
 
 export function compileProgram(
-  program: InputProgram,
+  /** Absent for a run without input pulses: no pulses, no switches. */
+  program: InputProgram | undefined,
   endTimeMinutes: number,
   rng?: UniformSource,
   signal: SignalLevels = { offLevel: 0, onLevel: 1 },
@@ -70,6 +71,7 @@ export function compileProgram(
   const raw: RawPulse[] = [];
   const end = endTimeMinutes;
   const lvl = (l: number | undefined) => l ?? signal.onLevel;
+  if (program === undefined) return { pulses: [], switchTimes: new Float64Array(0), levels: new Float64Array(0) };
   switch (program.kind) {
     case "pulses":
       for (const p of program.pulses)

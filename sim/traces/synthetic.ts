@@ -49,7 +49,7 @@ export interface SyntheticTraceSet {
 /** The pulses a run spec's program makes over its end time (minutes). */
 export function scheduleOf(spec: RunSpec): TracePulse[] {
   const setup = runSetup(spec);
-  if (spec.program.kind === "random" && spec.program.perReplicate)
+  if (spec.program?.kind === "random" && spec.program.perReplicate)
     throw new RangeError("synthetic traces need one schedule shared by every cell (perReplicate off)");
   const compiled = compileProgram(spec.program, spec.endTimeMinutes, undefined, {
     offLevel: 0,
