@@ -4,7 +4,7 @@
 import Database from "better-sqlite3";
 import { drizzle, type BetterSQLite3Database } from "drizzle-orm/better-sqlite3";
 import { migrate } from "drizzle-orm/better-sqlite3/migrator";
-import { mkdirSync } from "node:fs";
+import { chmodSync, closeSync, existsSync, mkdirSync, openSync } from "node:fs";
 import { dirname, resolve } from "node:path";
 import * as schema from "./schema";
 
@@ -20,7 +20,10 @@ export const MIGRATIONS_FOLDER = resolve(__dirname, "..", "drizzle");
 
 export function openDatabase(path: string): DbHandle {
   const file = path === ":memory:" ? path : resolve(path);
-  if (file !== ":memory:") mkdirSync(dirname(file), { recursive: true });
+  if (file !== ":memory:") {
+    mkdirSync(dirname(file), { recursive: true, mode: 0o700 });
+    restrictFile(file);
+  }
   const sqlite = new Database(file);
   sqlite.pragma("journal_mode = WAL");
   sqlite.pragma("synchronous = NORMAL");
@@ -29,6 +32,15 @@ export function openDatabase(path: string): DbHandle {
   const db = drizzle(sqlite, { schema });
   migrate(db, { migrationsFolder: MIGRATIONS_FOLDER });
   return { db, sqlite, path: file, close: () => sqlite.close() };
+}
+
+/**
+ * Creates the file owner-only (0600) when absent and tightens it when present: the database holds password
+ * hashes and sign-in tokens. SQLite gives its -wal and -shm files the database file's permissions.
+ */
+export function restrictFile(file: string): void {
+  if (!existsSync(file)) closeSync(openSync(file, "a", 0o600));
+  chmodSync(file, 0o600);
 }
 
 export { schema };

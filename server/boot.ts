@@ -40,6 +40,7 @@ export async function boot(env: Env = parseEnv()): Promise<Booted> {
     log: env.LINGER_TEST ? () => {} : undefined,
   });
   const queue = ctx.queue;
+  if (env.seedRefused) console.warn(`[boot] ${env.seedRefused}`);
   if (env.LINGER_SEED_DEMO) await seedDemo(ctx);
   queue.kick();
   // Deleted runs and trace sets stay restorable for the undo period, then go for good.

@@ -11,14 +11,31 @@ const bool = (fallback: boolean) =>
     .optional()
     .transform((v) => (v === undefined ? fallback : ["1", "true", "yes"].includes(v)));
 
+/** Like bool, but undefined when the variable is not set (so "explicitly on" can be told apart from the default). */
+const optionalBool = z
+  .enum(["0", "1", "true", "false", "yes", "no"])
+  .optional()
+  .transform((v) => (v === undefined ? undefined : ["1", "true", "yes"].includes(v)));
+
+/** True for addresses only this machine can reach: localhost, 127.0.0.0/8, ::1. */
+export function isLoopbackHost(host: string): boolean {
+  const h = host
+    .trim()
+    .toLowerCase()
+    .replace(/^\[|\]$/g, "");
+  return h === "localhost" || h === "::1" || /^127(\.\d{1,3}){3}$/.test(h) || h === "::ffff:127.0.0.1";
+}
+
 export const EnvSchema = z.object({
   PORT: z.coerce.number().int().min(0).max(65535).default(8080),
-  HOST: z.string().default("0.0.0.0"),
+  /** Listen address: only this machine by default; set 0.0.0.0 (or an interface address) to serve others. */
+  HOST: z.string().min(1).default("127.0.0.1"),
   DATABASE_URL: z.string().min(1).default("./data/linger.db"),
   LINGER_BASE_URL: z.string().url().optional(),
   LINGER_SESSION_SECRET: z.string().min(16, "must be at least 16 characters").optional(),
   LINGER_DEMO_PASSWORD: z.string().min(8, "must be at least 8 characters").default("linger-demo-2026"),
-  LINGER_SEED_DEMO: bool(true),
+  /** Demo accounts have published passwords: seeded by default only when HOST is loopback; "1" forces, "0" skips. */
+  LINGER_SEED_DEMO: optionalBool,
   LINGER_SECURE_COOKIES: bool(false),
   LINGER_POOL_SIZE: z.coerce.number().int().min(1).max(64).optional(),
   /** SMTP URL of a real mail server; without it a local fake SMTP server keeps mail in the outbox. */
@@ -33,7 +50,13 @@ export const EnvSchema = z.object({
   LINGER_TEST: bool(false),
 });
 
-export type Env = z.infer<typeof EnvSchema> & { poolSize: number; baseUrl: string };
+export type Env = Omit<z.infer<typeof EnvSchema>, "LINGER_SEED_DEMO"> & {
+  LINGER_SEED_DEMO: boolean;
+  /** Set when demo seeding was skipped because HOST is not loopback and LINGER_SEED_DEMO=1 was not given. */
+  seedRefused: string | null;
+  poolSize: number;
+  baseUrl: string;
+};
 
 export function parseEnv(source: NodeJS.ProcessEnv = process.env): Env {
   const parsed = EnvSchema.safeParse(source);
@@ -44,5 +67,11 @@ export function parseEnv(source: NodeJS.ProcessEnv = process.env): Env {
   const env = parsed.data;
   const poolSize = env.LINGER_POOL_SIZE ?? Math.max(1, availableParallelism() - 1);
   const baseUrl = (env.LINGER_BASE_URL ?? `http://localhost:${env.PORT}`).replace(/\/$/, "");
-  return { ...env, poolSize, baseUrl };
+  const loopback = isLoopbackHost(env.HOST);
+  const seed = env.LINGER_SEED_DEMO ?? loopback;
+  const seedRefused =
+    env.LINGER_SEED_DEMO === undefined && !loopback
+      ? `Demo accounts (published passwords) are not seeded: HOST=${env.HOST} is reachable from other machines. Set LINGER_SEED_DEMO=1 to seed them anyway.`
+      : null;
+  return { ...env, LINGER_SEED_DEMO: seed, seedRefused, poolSize, baseUrl };
 }

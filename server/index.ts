@@ -19,7 +19,7 @@ async function main() {
     const port = typeof addr === "object" && addr ? addr.port : env.PORT;
     // With PORT=0 (tests, benchmarks) the real port is known only now: mail links must use it.
     if (!env.LINGER_BASE_URL && env.PORT === 0) ctx.env.baseUrl = `http://localhost:${port}`;
-    console.log(`Linger is listening on http://localhost:${port}`);
+    console.log(`Linger is listening on http://${env.HOST.includes(":") ? `[${env.HOST}]` : env.HOST}:${port}`);
     if (env.LINGER_SEED_DEMO) {
       console.log(
         `Demo sign-in: ${DEMO_ACCOUNTS.map((a) => a.email).join(", ")} with password from LINGER_DEMO_PASSWORD${process.env.LINGER_DEMO_PASSWORD ? "" : ` (default "${env.LINGER_DEMO_PASSWORD}")`}`,

@@ -3,7 +3,7 @@ import { mkdirSync, statSync } from "node:fs";
 import { dirname, join, resolve } from "node:path";
 import { count, desc, eq } from "drizzle-orm";
 import { defineRoutes } from "./route-table";
-import { schema } from "@/db/client";
+import { restrictFile, schema } from "@/db/client";
 import { recordAudit } from "@/server/services/audit.service";
 import type { AppContext } from "@/server/context";
 import { OutboxQuerySchema, type AdminUsers, type BackupResult, type Outbox } from "@/shared/schemas/api-accounts";
@@ -18,10 +18,11 @@ export function backupDir(ctx: AppContext): string {
 /** A consistent copy of the live database through SQLite's online backup API. */
 export async function backupDatabase(ctx: AppContext): Promise<{ file: string; path: string; bytes: number }> {
   const dir = backupDir(ctx);
-  mkdirSync(dir, { recursive: true });
+  mkdirSync(dir, { recursive: true, mode: 0o700 });
   const stamp = new Date().toISOString().replace(/[:.]/g, "-");
   const file = `linger-${stamp}.db`;
   const path = join(dir, file);
+  restrictFile(path); // owner-only before the first byte is written (the copy holds password hashes)
   await ctx.sqlite.backup(path);
   return { file, path, bytes: statSync(path).size };
 }
