@@ -140,3 +140,148 @@ export const templates: Record<TemplateKey, CircuitTemplate> = {
     }),
   },
 };
+
+/**
+ * Circuits with feedback, in the same scenario's words (invented genes): a
+ * sensor that limits itself, a latch that remembers an exposure, a three-gene
+ * timer ring and the ring with one extra repression. Dimensionless strength of
+ * a repressor a = maxRate / (decay * K); defaults chosen so that each shows its
+ * textbook behaviour (checked in tests/sim/regimes/feedback-templates.test.ts).
+ * Not yet offered by the app's template list (TEMPLATE_KEYS).
+ */
+export type FeedbackTemplateKey = "nar" | "latch" | "ring" | "ring-extra";
+
+const deg = (name: string, species: string, rate = 0.1) => ({
+  name,
+  reactants: [{ species, count: 1 }],
+  rate: { kind: "massAction" as const, ratePerMinute: rate },
+});
+const repN = (source: string, halfMax: number, hill: number) => ({
+  source,
+  effect: "represses" as const,
+  halfMax,
+  hill,
+});
+const ringSpecies = [
+  { name: "tmrA", initialCount: 50, description: "timer repressor A (reporter fused)" },
+  { name: "tmrB", initialCount: 0, description: "timer repressor B" },
+  { name: "tmrC", initialCount: 0, description: "timer repressor C" },
+];
+/**
+ * Ring tmrA -| tmrB -| tmrC -| tmrA, a = 100/(0.1*100) = 10, n = 3 (above the Hopf point a = 3.78).
+ * With the extra edge tmrB -| tmrA (K 100), tmrC represses tmrA only weakly (K 800), so the tmrA/tmrB
+ * pair is a switch: two stable states, tmrA low or high.
+ */
+const ringReactions = (extra: boolean) => [
+  {
+    name: "makeA",
+    products: [{ species: "tmrA", count: 1 }],
+    rate: {
+      kind: "regulated" as const,
+      maxRatePerMinute: 100,
+      regulators: extra ? [repN("tmrC", 800, 3), repN("tmrB", 100, 3)] : [repN("tmrC", 100, 3)],
+    },
+  },
+  {
+    name: "makeB",
+    products: [{ species: "tmrB", count: 1 }],
+    rate: { kind: "regulated" as const, maxRatePerMinute: 100, regulators: [repN("tmrA", 100, 3)] },
+  },
+  {
+    name: "makeC",
+    products: [{ species: "tmrC", count: 1 }],
+    rate: { kind: "regulated" as const, maxRatePerMinute: 100, regulators: [repN("tmrB", 100, 3)] },
+  },
+  deg("degA", "tmrA"),
+  deg("degB", "tmrB"),
+  deg("degC", "tmrC"),
+];
+
+export const feedbackTemplates: Record<FeedbackTemplateKey, CircuitTemplate> = {
+  nar: {
+    title: "Self-limiting sensor",
+    description:
+      "Negative autoregulation: compound Q induces the sensor limA, which represses its own gene; a faster rise to a lower, steadier level.",
+    inputSignal: "Q",
+    circuit: build({
+      name: "Tank sensor, self-limiting",
+      description: "Negative autoregulation: limA represses its own production while Q induces it.",
+      species: [{ name: "limA", initialCount: 0, description: "self-limiting sensor (reporter fused)" }],
+      signals: [signalQ],
+      reactions: [
+        {
+          name: "makeA",
+          products: [{ species: "limA", count: 1 }],
+          rate: { kind: "regulated", maxRatePerMinute: 50, regulators: [repN("limA", 50, 2)] },
+          scaledBy: "Q",
+        },
+        deg("degA", "limA"),
+      ],
+      outputSpecies: "limA",
+    }),
+  },
+  latch: {
+    title: "Exposure latch",
+    description:
+      "Mutual-repression switch: ltcA and ltcB repress each other (a = 4 > 2, bistable); compound Q pushes ltcA on, and it stays on after Q is gone.",
+    inputSignal: "Q",
+    circuit: build({
+      name: "Tank latch",
+      description: "Mutual-repression switch set by compound Q.",
+      species: [
+        { name: "ltcA", initialCount: 0, description: "latch repressor A (reporter fused)" },
+        { name: "ltcB", initialCount: 200, description: "latch repressor B" },
+      ],
+      signals: [signalQ],
+      reactions: [
+        {
+          name: "makeA",
+          products: [{ species: "ltcA", count: 1 }],
+          rate: { kind: "regulated", maxRatePerMinute: 40, regulators: [repN("ltcB", 100, 2)] },
+        },
+        {
+          name: "setA",
+          products: [{ species: "ltcA", count: 1 }],
+          rate: { kind: "constant", ratePerMinute: 40 },
+          scaledBy: "Q",
+        },
+        {
+          name: "makeB",
+          products: [{ species: "ltcB", count: 1 }],
+          rate: { kind: "regulated", maxRatePerMinute: 40, regulators: [repN("ltcA", 100, 2)] },
+        },
+        deg("degA", "ltcA"),
+        deg("degB", "ltcB"),
+      ],
+      outputSpecies: "ltcA",
+    }),
+  },
+  ring: {
+    title: "Timer ring",
+    description:
+      "A ring of three repressors (tmrA -| tmrB -| tmrC -| tmrA, n = 3): at these strengths it oscillates for ever; weaker genes only ring down.",
+    inputSignal: "Q",
+    circuit: build({
+      name: "Tank timer ring",
+      description: "Ring of three repressors.",
+      species: ringSpecies,
+      signals: [signalQ],
+      reactions: ringReactions(false),
+      outputSpecies: "tmrA",
+    }),
+  },
+  "ring-extra": {
+    title: "Timer ring with a cross-link",
+    description:
+      "The timer ring plus one extra repression (tmrB -| tmrA, with tmrC -| tmrA made weak): tmrA and tmrB now form a switch that stops the ring in one of two states.",
+    inputSignal: "Q",
+    circuit: build({
+      name: "Tank timer ring, cross-linked",
+      description: "Ring of three repressors with one extra repression edge tmrB -| tmrA.",
+      species: ringSpecies,
+      signals: [signalQ],
+      reactions: ringReactions(true),
+      outputSpecies: "tmrA",
+    }),
+  },
+};

@@ -11,7 +11,7 @@
  * oscillation > memory > silent > pulse generator > damped oscillation >
  * persistence filter / follower > steady.
  *
- * Example: classifyDeterministic({ model: compileModel(templates.toggle.circuit) }).label === "memory".
+ * Example: classifyDeterministic({ model: compileModel(feedbackTemplates.latch.circuit) }).label === "memory".
  */
 import type { CompiledModel } from "@/sim/circuit/compile-model";
 import { deriveParams } from "@/sim/circuit/compile-model";
