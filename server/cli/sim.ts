@@ -16,6 +16,7 @@
  *   replicates.csv        per replicate: events, capped, end time, output mean/variance, extrinsic factors
  *   pulses.csv            per replicate and input pulse: the figures of docs/metrics.md
  *   ode.csv               the mean-field solution on the grid
+ *   regime.json           behaviour labels, deterministic and stochastic, with evidence (docs/regimes.md)
  *   events-<r>.csv        every firing of replicate r (when recordEventsFor > 0)
  * Same spec and seed give byte-identical files for any --threads (aggregates
  * are reduced in replicate/chunk order). The I/O shell of the engine: the rest
@@ -24,6 +25,7 @@
 import { createWriteStream, mkdirSync, writeFileSync, type WriteStream } from "node:fs";
 import path from "node:path";
 import { loadSpecFile } from "./load-spec";
+import { runRegime } from "@/sim/regimes";
 import {
   ENGINE_VERSION,
   gridTimes,
@@ -264,6 +266,7 @@ export async function runCli(argv: string[]): Promise<void> {
       "replicates.csv",
       "pulses.csv",
       "ode.csv",
+      "regime.json",
     ],
     spec,
     timing: {
@@ -285,6 +288,15 @@ export async function runCli(argv: string[]): Promise<void> {
     path.join(args.out, "analysis.json"),
     JSON.stringify(noInput ? { note: "no input pulses", ...analysis } : analysis, null, 2) + "\n",
   );
+  const passCurve = noInput
+    ? undefined
+    : bins.map(([durationBin, b]) => ({
+        durationMinutes: durationBin,
+        passed: b.passed,
+        counted: b.pulses - b.excluded,
+      }));
+  const regime = runRegime(setup.model, threshold.theta, passCurve);
+  writeFileSync(path.join(args.out, "regime.json"), JSON.stringify(regime, null, 2) + "\n");
   if (!args.quiet)
     process.stderr.write(
       `${spec.replicates} replicates, ${events} events in ${seconds.toFixed(2)} s${capped > 0 ? `, ${capped} stopped at the event cap` : ""}; wrote ${args.out}\n`,

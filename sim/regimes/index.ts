@@ -4,3 +4,4 @@ export { classifyDeterministic, type DeterministicInput } from "./classify-deter
 export { passCurveVerdict, type PassCurvePoint } from "./pass-curve-rule";
 export { eigenvalues, type Eigenvalue } from "./eigenvalues";
 export { findSteadyStates, type SteadyState } from "./steady-states";
+export { runRegime, STOCHASTIC_NOT_YET, type RunRegime } from "./run-regime";
