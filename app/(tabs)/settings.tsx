@@ -64,7 +64,7 @@ export default function Settings() {
       </Card>
       <Card>
         <Text variant="heading">Lab</Text>
-        <Text tone="muted">Members, invitations, roles and the lab's history are on the Lab page.</Text>
+        <Text tone="muted">Members, invitations, roles and the lab&apos;s history are on the Lab page.</Text>
         <View style={{ flexDirection: "row" }}>
           <Button label="Open the Lab page" variant="secondary" icon="users" onPress={() => router.push("/lab")} />
         </View>

@@ -1,4 +1,4 @@
-import React, { useEffect, useState } from "react";
+import React, { useState } from "react";
 import { View } from "react-native";
 import { useTheme } from "@/components/theme/use-theme";
 import { Field } from "@/components/ui/field";
@@ -43,9 +43,12 @@ export function ChangePasswordForm({
   const t = useTheme();
   const [values, setValues] = useState<ChangePasswordValues>(EMPTY);
   const [errors, setErrors] = useState<Errors>({});
-  useEffect(() => {
+  // Empty the fields once the server accepts the change (compared while rendering, not in an effect).
+  const [wasDone, setWasDone] = useState(done);
+  if (done !== wasDone) {
+    setWasDone(done);
     if (done) setValues(EMPTY);
-  }, [done]);
+  }
   const fields = serverFields(error);
   const wrongCurrent = fields.currentPassword ? "That is not your current password." : undefined;
   const message = serverMessage(

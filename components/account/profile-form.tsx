@@ -1,4 +1,4 @@
-import React, { useEffect, useState } from "react";
+import React, { useState } from "react";
 import { View } from "react-native";
 import { useTheme } from "@/components/theme/use-theme";
 import { Field } from "@/components/ui/field";
@@ -25,7 +25,12 @@ export function DisplayNameForm({
   const t = useTheme();
   const [name, setName] = useState(current);
   const [local, setLocal] = useState<string | undefined>();
-  useEffect(() => setName(current), [current]);
+  // A new saved name replaces the field (React's "adjust state when a prop changes": compare while rendering).
+  const [shown, setShown] = useState(current);
+  if (current !== shown) {
+    setShown(current);
+    setName(current);
+  }
   const submit = () => {
     const n = name.trim();
     if (!n) return setLocal("Enter the name your lab will see.");

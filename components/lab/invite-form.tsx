@@ -1,4 +1,4 @@
-import React, { useEffect, useState } from "react";
+import React, { useState } from "react";
 import { View } from "react-native";
 import { useTheme } from "@/components/theme/use-theme";
 import { Field } from "@/components/ui/field";
@@ -41,9 +41,12 @@ export function InviteForm({
   const t = useTheme();
   const [values, setValues] = useState<InviteValues>({ email: "", role: "viewer" });
   const [errors, setErrors] = useState<Partial<Record<keyof InviteValues, string>>>({});
-  useEffect(() => {
+  // Empty the address once an invitation is sent (compared while rendering, not in an effect).
+  const [lastSent, setLastSent] = useState(sentTo);
+  if (sentTo !== lastSent) {
+    setLastSent(sentTo);
     if (sentTo) setValues((v) => ({ ...v, email: "" }));
-  }, [sentTo]);
+  }
   const fields = serverFields(error);
   const message = serverMessage(error, ["email", "role"], "The invitation could not be sent. Try again.");
   const submit = () => {

@@ -135,7 +135,7 @@ export function SettingsFields({
         />
       ) : values.backgroundMode === "preInput" ? (
         <Text variant="caption" tone="muted">
-          Each cell's median before the first input pulse.
+          Each cell&apos;s median before the first input pulse.
         </Text>
       ) : null}
 

@@ -378,7 +378,10 @@ export function createRunQueue(opts: RunQueueOptions): RunQueue {
     stats() {
       let queued = 0;
       let running = 0;
-      for (const r of active.values()) r.replicatesDone > 0 || r.inFlight > 0 ? running++ : queued++;
+      for (const r of active.values()) {
+        if (r.replicatesDone > 0 || r.inFlight > 0) running++;
+        else queued++;
+      }
       return { queuedRuns: queued, runningRuns: running, busyThreads: Math.min(inFlight, capacity()) };
     },
     kick,

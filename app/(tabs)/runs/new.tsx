@@ -1,4 +1,4 @@
-import React, { useEffect, useState } from "react";
+import React, { useEffect, useMemo, useState } from "react";
 import { View } from "react-native";
 import { useLocalSearchParams, useRouter } from "expo-router";
 import { Screen } from "@/components/ui/screen";
@@ -31,7 +31,7 @@ export default function NewRun() {
   const params = useLocalSearchParams<{ circuitId?: string; programId?: string }>();
   const circuits = useCircuits();
   const programs = usePrograms();
-  const [v, setV] = useState<RunFormValues>(() => ({
+  const [typed, setTyped] = useState<RunFormValues>(() => ({
     name: "",
     circuitId: params.circuitId ?? "",
     programId: params.programId ?? "",
@@ -47,28 +47,32 @@ export default function NewRun() {
   }));
   const [showAll, setShowAll] = useState(false);
   const [touched, setTouched] = useState<Set<string>>(new Set());
-  const circuit = useCircuit(v.circuitId || undefined);
-  const program = useProgram(v.programId || undefined);
+  const circuit = useCircuit(typed.circuitId || undefined);
+  const program = useProgram(typed.programId || undefined);
   const launch = useLaunchRun();
   const set = (k: keyof RunFormValues, value: string) => {
-    setV((s) => ({ ...s, [k]: value }));
+    setTyped((s) => ({ ...s, [k]: value }));
     setTouched((s) => new Set(s).add(k));
   };
 
-  // Defaults that follow the choices: the first signal, an end time covering the program, a name.
-  useEffect(() => {
+  // Defaults that follow the choices (derived while rendering, so no effect has to copy them into state):
+  // the first signal, an end time covering the program and a name, until the person types their own.
+  const v = useMemo<RunFormValues>(() => {
     const signals = circuit.data?.body.signals ?? [];
-    if (signals.length && !signals.some((s) => s.name === v.inputSignal))
-      setV((s) => ({ ...s, inputSignal: signals[0].name }));
-  }, [circuit.data, v.inputSignal]);
-  useEffect(() => {
-    if (program.data && !touched.has("endTimeMinutes"))
-      setV((s) => ({ ...s, endTimeMinutes: String(suggestedEndTime(program.data.body)) }));
-  }, [program.data, touched]);
-  useEffect(() => {
-    if (!touched.has("name") && circuit.data && program.data)
-      setV((s) => ({ ...s, name: `${circuit.data.circuit.name} · ${program.data.program.name}` }));
-  }, [circuit.data, program.data, touched]);
+    return {
+      ...typed,
+      inputSignal:
+        signals.length && !signals.some((s) => s.name === typed.inputSignal) ? signals[0].name : typed.inputSignal,
+      endTimeMinutes:
+        program.data && !touched.has("endTimeMinutes")
+          ? String(suggestedEndTime(program.data.body))
+          : typed.endTimeMinutes,
+      name:
+        !touched.has("name") && circuit.data && program.data
+          ? `${circuit.data.circuit.name} · ${program.data.program.name}`
+          : typed.name,
+    };
+  }, [typed, touched, circuit.data, program.data]);
 
   const errors = validateRunForm(v);
   const valid = Object.keys(errors).length === 0;

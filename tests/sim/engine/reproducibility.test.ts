@@ -6,7 +6,7 @@
  */
 import { test, describe } from "node:test";
 import assert from "node:assert/strict";
-import fc from "fast-check";
+import * as fc from "fast-check";
 import { simulateChunk, reduceChunks, chunkLayout, templates, compileModel } from "@/sim";
 import { RunSpecSchema } from "@/shared/schemas/run-spec";
 import { makeSpec, meanVar } from "./spec-helpers";
