@@ -1,6 +1,7 @@
 /**
  * npm run sim -- <spec.json | model.xml> --out <dir> [--end-time T] [--grid-step S] [--threads N]
  *                [--replicates N] [--seed S] [--quiet]
+ * npm run sim -- <spec.json> --export-sbml <out.xml>   (writes the circuit as SBML and exits)
  *
  * A spec file is JSON (docs/runs.md) or an SBML model (docs/sbml.md, detected by
  * content). --end-time and --grid-step are minutes, required for SBML and
@@ -40,6 +41,7 @@ import type { PulseStat } from "@/shared/schemas/run-spec";
 import { createSimPool } from "@/server/compute/pool";
 import { summarizeRun, type ReplicateTotals } from "@/sim/analysis";
 import { runAllChunks } from "@/server/compute/run-all-chunks";
+import { exportSbml } from "@/sim/sbml";
 
 interface Args {
   spec: string;
@@ -48,6 +50,7 @@ interface Args {
   replicates?: number;
   seed?: string;
   endTime?: number;
+  exportSbml?: string;
   gridStep?: number;
   quiet: boolean;
 }
@@ -77,6 +80,7 @@ function parseArgs(argv: string[]): Args {
       return n;
     };
     if (v === "--out") out = argv[++i];
+    else if (v === "--export-sbml") a.exportSbml = argv[++i];
     else if (v === "--end-time") a.endTime = minutes("--end-time");
     else if (v === "--grid-step") a.gridStep = minutes("--grid-step");
     else if (v === "--threads") a.threads = num("--threads");
@@ -89,7 +93,7 @@ function parseArgs(argv: string[]): Args {
     else usage(`unexpected argument ${v}`);
   }
   if (!spec) usage("missing spec file");
-  if (!out) usage("missing --out <dir>");
+  if (!out && !a.exportSbml) usage("missing --out <dir>");
   return { ...a, spec, out } as Args;
 }
 
@@ -128,6 +132,12 @@ export async function runCli(argv: string[]): Promise<void> {
     endTimeMinutes: args.endTime,
     gridStepMinutes: args.gridStep,
   });
+  if (args.exportSbml) {
+    writeFileSync(args.exportSbml, exportSbml(spec.circuit));
+    if (!args.quiet)
+      process.stderr.write(`wrote ${args.exportSbml} (SBML Level 3 Version 2; input program not included)\n`);
+    return;
+  }
   const noInput = spec.program === undefined;
   mkdirSync(args.out, { recursive: true });
   const setup = runSetup(spec);

@@ -89,6 +89,20 @@ describe("npm run sim with SBML", () => {
     }
   });
 
+  test("--export-sbml writes the spec's circuit as an SBML Level 3 Version 2 document with every reaction", () => {
+    const dir = mkdtempSync(path.join(os.tmpdir(), "linger-sbml-"));
+    try {
+      const out = path.join(dir, "c.xml");
+      run([path.join(root, "docs/examples/c1ffl-and.json"), "--export-sbml", out, "--quiet"]);
+      const text = readFileSync(out, "utf8");
+      assert.match(text, /<sbml xmlns="http:\/\/www.sbml.org\/sbml\/level3\/version2\/core" level="3" version="2">/);
+      const spec = JSON.parse(readFileSync(path.join(root, "docs/examples/c1ffl-and.json"), "utf8"));
+      for (const r of spec.circuit.reactions) assert.ok(text.includes(`<reaction id="${r.name}"`), r.name);
+    } finally {
+      rmSync(dir, { recursive: true, force: true });
+    }
+  });
+
   test("--end-time and --grid-step override a JSON spec's values", () => {
     const dir = mkdtempSync(path.join(os.tmpdir(), "linger-sbml-"));
     try {

@@ -1,0 +1,133 @@
+/**
+ * SBML Level 3 Version 2 Core export of a Linger circuit (Hucka et al. 2019,
+ * J Integr Bioinform 16:20190021). One compartment `cell` of size 1; species in
+ * amounts (hasOnlySubstanceUnits="true"); signals as parameters at their off
+ * level; each reaction's constants as local parameters of its kinetic law, the
+ * law in MathML as the propensity in molecules per minute:
+ *   constant: k;  mass action: k, k*A, k*A*B, k*A*(A-1)/2;
+ *   regulated: vmax*(leak + (1-leak)*f), Hill terms x^n/(K^n+x^n) or K^n/(K^n+x^n),
+ *   AND = product, OR = 1 - product(1 - h); times the scaling signal if any.
+ * Linger's own facts (output species, signal on levels) sit only under the
+ * namespaced annotation LINGER_SBML_NS. The input program is not exported.
+ */
+import type { Circuit, Reaction, Regulator } from "@/shared/schemas/circuit";
+
+export const LINGER_SBML_NS = "https://linger.invalid/ns/sbml-annotation/1";
+
+const esc = (s: string) => s.replace(/&/g, "&amp;").replace(/</g, "&lt;").replace(/>/g, "&gt;").replace(/"/g, "&quot;");
+
+const ci = (id: string) => `<ci>${id}</ci>`;
+const cn = (v: number) => `<cn>${v}</cn>`;
+const apply = (op: string, ...args: string[]) => `<apply><${op}/>${args.join("")}</apply>`;
+
+function hill(reg: Regulator, kId: string, nId: string): string {
+  const xn = apply("power", ci(reg.source), ci(nId));
+  const kn = apply("power", ci(kId), ci(nId));
+  return apply("divide", reg.effect === "activates" ? xn : kn, apply("plus", kn, xn));
+}
+
+function kineticLaw(r: Reaction): { math: string; locals: [string, number][] } {
+  const locals: [string, number][] = [];
+  let body: string;
+  if (r.rate.kind === "constant") {
+    locals.push(["k", r.rate.ratePerMinute]);
+    body = ci("k");
+  } else if (r.rate.kind === "massAction") {
+    locals.push(["k", r.rate.ratePerMinute]);
+    const [a, b] = r.reactants;
+    if (!a) body = ci("k");
+    else if (b) body = apply("times", ci("k"), ci(a.species), ci(b.species));
+    else if (a.count === 1) body = apply("times", ci("k"), ci(a.species));
+    else body = apply("divide", apply("times", ci("k"), ci(a.species), apply("minus", ci(a.species), cn(1))), cn(2));
+  } else {
+    const rate = r.rate;
+    locals.push(["vmax", rate.maxRatePerMinute], ["leak", rate.leakFraction]);
+    const terms = rate.regulators.map((g) => {
+      locals.push([`K_${g.source}`, g.halfMax], [`n_${g.source}`, g.hill]);
+      return hill(g, `K_${g.source}`, `n_${g.source}`);
+    });
+    const f =
+      terms.length === 1
+        ? terms[0]
+        : rate.logic === "and"
+          ? apply("times", ...terms)
+          : apply("minus", cn(1), apply("times", ...terms.map((h) => apply("minus", cn(1), h))));
+    body = apply("times", ci("vmax"), apply("plus", ci("leak"), apply("times", apply("minus", cn(1), ci("leak")), f)));
+  }
+  if (r.scaledBy) body = apply("times", body, ci(r.scaledBy));
+  return { math: `<math xmlns="http://www.w3.org/1998/Math/MathML">${body}</math>`, locals };
+}
+
+/** The circuit as an SBML Level 3 Version 2 document. */
+export function exportSbml(circuit: Circuit): string {
+  const L: string[] = [];
+  L.push(`<?xml version="1.0" encoding="UTF-8"?>`);
+  L.push(`<sbml xmlns="http://www.sbml.org/sbml/level3/version2/core" level="3" version="2">`);
+  L.push(
+    `  <model id="linger_circuit" name="${esc(circuit.name)}" substanceUnits="item" timeUnits="minute" extentUnits="item" volumeUnits="litre">`,
+  );
+  L.push(`    <annotation>`);
+  L.push(
+    `      <linger:circuit xmlns:linger="${LINGER_SBML_NS}" linger:outputSpecies="${esc(circuit.outputSpecies)}" linger:description="${esc(circuit.description)}">`,
+  );
+  for (const s of circuit.signals)
+    L.push(
+      `        <linger:signal linger:id="${s.name}" linger:offLevel="${s.offLevel}" linger:onLevel="${s.onLevel}"/>`,
+    );
+  L.push(`      </linger:circuit>`);
+  L.push(`    </annotation>`);
+  L.push(`    <listOfUnitDefinitions>`);
+  L.push(`      <unitDefinition id="minute">`);
+  L.push(`        <listOfUnits><unit kind="second" exponent="1" scale="0" multiplier="60"/></listOfUnits>`);
+  L.push(`      </unitDefinition>`);
+  L.push(`    </listOfUnitDefinitions>`);
+  L.push(`    <listOfCompartments>`);
+  L.push(`      <compartment id="cell" spatialDimensions="3" size="1" constant="true"/>`);
+  L.push(`    </listOfCompartments>`);
+  L.push(`    <listOfSpecies>`);
+  for (const s of circuit.species)
+    L.push(
+      `      <species id="${s.name}" compartment="cell" initialAmount="${s.initialCount}" hasOnlySubstanceUnits="true" boundaryCondition="false" constant="false"/>`,
+    );
+  L.push(`    </listOfSpecies>`);
+  if (circuit.signals.length > 0) {
+    L.push(`    <listOfParameters>`);
+    for (const s of circuit.signals) L.push(`      <parameter id="${s.name}" value="${s.offLevel}" constant="true"/>`);
+    L.push(`    </listOfParameters>`);
+  }
+  L.push(`    <listOfReactions>`);
+  const speciesNames = new Set(circuit.species.map((s) => s.name));
+  for (const r of circuit.reactions) {
+    L.push(`      <reaction id="${r.name}" reversible="false">`);
+    const refs = (list: string, entries: { species: string; count: number }[]) => {
+      if (entries.length === 0) return;
+      L.push(`        <${list}>`);
+      for (const e of entries)
+        L.push(`          <speciesReference species="${e.species}" stoichiometry="${e.count}" constant="true"/>`);
+      L.push(`        </${list}>`);
+    };
+    refs("listOfReactants", r.reactants);
+    refs("listOfProducts", r.products);
+    const reactantNames = new Set(r.reactants.map((e) => e.species));
+    const mods = [
+      ...new Set([...r.modifiers, ...(r.rate.kind === "regulated" ? r.rate.regulators.map((g) => g.source) : [])]),
+    ].filter((m) => speciesNames.has(m) && !reactantNames.has(m));
+    if (mods.length > 0) {
+      L.push(`        <listOfModifiers>`);
+      for (const m of mods) L.push(`          <modifierSpeciesReference species="${m}"/>`);
+      L.push(`        </listOfModifiers>`);
+    }
+    const law = kineticLaw(r);
+    L.push(`        <kineticLaw>`);
+    L.push(`          ${law.math}`);
+    L.push(`          <listOfLocalParameters>`);
+    for (const [id, v] of law.locals) L.push(`            <localParameter id="${id}" value="${v}"/>`);
+    L.push(`          </listOfLocalParameters>`);
+    L.push(`        </kineticLaw>`);
+    L.push(`      </reaction>`);
+  }
+  L.push(`    </listOfReactions>`);
+  L.push(`  </model>`);
+  L.push(`</sbml>`);
+  return L.join("\n") + "\n";
+}
