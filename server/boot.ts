@@ -6,7 +6,7 @@ import { openDatabase } from "@/db/client";
 import type { AppContext } from "./context";
 import { parseEnv, type Env } from "./env";
 import { APP_VERSION } from "./version";
-import { createMailer } from "@/server/services/mail.service";
+import { createMailer, mailSettled } from "@/server/services/mail.service";
 import { createRunQueue } from "@/server/compute/run-queue";
 import { createSimPool } from "@/server/compute/pool";
 import { onRunEnded } from "@/server/compute/run-events";
@@ -52,6 +52,7 @@ export async function boot(env: Env = parseEnv()): Promise<Booted> {
     async shutdown() {
       clearInterval(purge);
       await queue.close();
+      await mailSettled(mailer);
       await mailer.close();
       handle.close();
     },

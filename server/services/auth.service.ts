@@ -2,6 +2,7 @@
  * Accounts: credentials, sign-up, password reset and change. Sessions and
  * passport live in server/middleware/session.ts; routes in auth.routes.ts.
  */
+import { queueMail } from "@/server/services/mail.service";
 import { count, eq } from "drizzle-orm";
 import type { AppContext } from "@/server/context";
 import { schema } from "@/db/client";
@@ -125,7 +126,7 @@ export async function requestPasswordReset(ctx: AppContext, email: string): Prom
   if (!u) return false;
   const { token } = createToken(ctx, { purpose: "reset", userId: u.id, email: u.email });
   const link = `${ctx.env.baseUrl}/reset?token=${encodeURIComponent(token)}`;
-  await ctx.mailer.send({
+  queueMail(ctx.mailer, {
     to: u.email,
     subject: "Reset your Linger password",
     text: [

@@ -26,6 +26,28 @@ export interface Mailer {
   readonly kind?: "fake" | "smtp" | "null";
 }
 
+const pending = new WeakMap<Mailer, Set<Promise<void>>>();
+
+/**
+ * Hands a message to the mailer without making the request wait for it, so an answer takes the same time
+ * whether or not a mail goes out (no account enumeration by timing). A failure is logged, never thrown.
+ */
+export function queueMail(mailer: Mailer, message: MailMessage): void {
+  let set = pending.get(mailer);
+  if (!set) pending.set(mailer, (set = new Set()));
+  const p: Promise<void> = mailer
+    .send(message)
+    .catch((e: unknown) => console.error(`[mail] sending "${message.subject}" failed:`, (e as Error).message))
+    .finally(() => set.delete(p));
+  set.add(p);
+}
+
+/** Resolves once every queued message of this mailer has been handed over (shutdown; tests reading the outbox). */
+export async function mailSettled(mailer: Mailer): Promise<void> {
+  const set = pending.get(mailer);
+  while (set && set.size > 0) await Promise.allSettled([...set]);
+}
+
 /** A mailer that drops mail (used only where no mail is wanted, e.g. benchmarks). */
 export const nullMailer: Mailer = { kind: "null", send: async () => {}, close: async () => {} };
 

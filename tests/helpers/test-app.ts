@@ -22,7 +22,7 @@ import { createApp } from "@/server/app";
 import type { AppContext } from "@/server/context";
 import { parseEnv } from "@/server/env";
 import { APP_VERSION } from "@/server/version";
-import { createMailer, nullMailer, type Mailer } from "@/server/services/mail.service";
+import { createMailer, mailSettled, nullMailer, type Mailer } from "@/server/services/mail.service";
 import { createIdleQueue, type RunQueue } from "@/server/compute/run-queue";
 import { seedDemo, seedDemoAccounts } from "@/server/demo/seed";
 import "@/server/demo/content";
@@ -51,6 +51,8 @@ export interface TestApp {
   demoLab: { id: string; ownerId: string } | null;
   /** Mail in the outbox, oldest first, optionally only to one address. */
   outbox(to?: string): { to: string; from: string; subject: string; text: string }[];
+  /** Waits until queued mail (password reset) has reached the outbox. */
+  settleMail(): Promise<void>;
   close(): Promise<void>;
 }
 
@@ -108,10 +110,12 @@ export async function makeTestContext(opts: TestContextOptions = {}): Promise<Te
         .orderBy(asc(o.id))
         .all();
     },
+    settleMail: () => mailSettled(mailer),
     async close() {
       if (closed) return;
       closed = true;
       await ctx.queue.close();
+      await mailSettled(mailer);
       await mailer.close();
       handle.close();
       rmSync(dir, { recursive: true, force: true });

@@ -237,6 +237,26 @@ describe("sign-up", () => {
   });
 });
 
+test("reset-request answers a known address without waiting for the mail (same answer as an unknown one)", async () => {
+  let release!: () => void;
+  const held = new Promise<void>((r) => (release = r));
+  const sent: string[] = [];
+  const t = await makeTestContext({
+    mailer: { kind: "null", send: async (m) => (sent.push(m.to), held), close: async () => {} },
+  });
+  try {
+    // Before the fix the known address waited for the mail, so this request would not answer until release().
+    const known = await request(t.app).post("/api/auth/reset-request").send({ email: VIEWER }).expect(200);
+    assert.deepEqual(sent, [VIEWER], "the mail was handed to the mailer");
+    const unknown = await request(t.app).post("/api/auth/reset-request").send({ email: "nobody@example.org" });
+    assert.equal(unknown.status, 200);
+    assert.deepEqual(unknown.body, known.body);
+  } finally {
+    release();
+    await t.close();
+  }
+});
+
 describe("password reset through the outbox, and change password", () => {
   let t: TestApp;
   before(async () => (t = await makeTestContext()));
@@ -247,6 +267,7 @@ describe("password reset through the outbox, and change password", () => {
     const r = await request(t.app).post("/api/auth/reset-request").send({ email: "Viewer@example.org" }).expect(200);
     assertContract(OkSchema, r.body, "POST /api/auth/reset-request");
     assert.equal(r.body.ok, true);
+    await t.settleMail();
     const mail = t.outbox(VIEWER);
     assert.equal(mail.length, 1);
     assert.equal(mail[0].subject, "Reset your Linger password");
@@ -283,11 +304,13 @@ describe("password reset through the outbox, and change password", () => {
     const before = t.outbox().length;
     const r = await request(t.app).post("/api/auth/reset-request").send({ email: "nobody@example.org" }).expect(200);
     assert.equal(r.body.ok, true);
+    await t.settleMail();
     assert.equal(t.outbox().length, before);
   });
 
   test("an expired reset link is refused", async () => {
     await request(t.app).post("/api/auth/reset-request").send({ email: OWNER }).expect(200);
+    await t.settleMail();
     const token = tokenFromMail(t.outbox(OWNER).at(-1)!.text, "/reset");
     t.ctx.db
       .update(schema.tokens)

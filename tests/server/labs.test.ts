@@ -358,6 +358,7 @@ describe("site admin routes", () => {
     await owner.get("/api/admin/outbox").expect(403);
     await owner.post("/api/admin/backup").expect(403);
     await request(t.app).post("/api/auth/reset-request").send({ email: EDITOR }).expect(200);
+    await t.settleMail();
     const admin = await signIn(t.app, VIEWER);
     const users = await admin.get("/api/admin/users").expect(200);
     assertContract(AdminUsersSchema, users.body, "GET /api/admin/users");
