@@ -9,7 +9,8 @@
  * "no input pulses" in pulses.csv and analysis.json.
  *
  * Runs a spec and writes flat files in <dir> (created if missing):
- *   summary.json          engine version, spec, threshold, totals, per-duration pass figures;
+ *   summary.json          engine version, spec, threshold, totals, statsHash (as the server stores it),
+ *                         per-duration pass figures;
  *                         only its "timing" field varies between identical runs
  *   analysis.json         the noise-filter figures (RunSummary of docs/metrics.md)
  *   grid-mean.csv         time, then mean and SD of every species per grid time
@@ -42,6 +43,7 @@ import { createSimPool } from "@/server/compute/pool";
 import { summarizeRun, type ReplicateTotals } from "@/sim/analysis";
 import { runAllChunks } from "@/server/compute/run-all-chunks";
 import { exportSbml } from "@/sim/sbml";
+import { gridSeries, statsHashInMemory } from "@/server/compute/run-store";
 
 interface Args {
   spec: string;
@@ -259,6 +261,8 @@ export async function runCli(argv: string[]): Promise<void> {
     seed: spec.seed,
     events,
     cappedReplicates: capped,
+    // The same value the server stores and shows for this spec and seed (docs/runs.md, "Statistics hash").
+    statsHash: statsHashInMemory(allReplicates, allPulses, gridSeries(spec, mean, sd, null)),
     threshold,
     perDuration: bins.map(([durationBin, b]) => ({
       durationBin,

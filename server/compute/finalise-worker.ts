@@ -12,15 +12,15 @@ import * as schema from "@/db/schema";
 import type { Db } from "@/db/client";
 import type { RunSpec } from "@/shared/schemas/run-spec";
 import type { RunSummary } from "@/shared/schemas/analysis";
-import { reduceChunks, resolveThreshold, solveOde, gridTimes } from "@/sim";
+import { reduceChunks, resolveThreshold, solveOde } from "@/sim";
 import { summarizeRun } from "@/sim/analysis";
 import {
   computeStatsHash,
   fromBlob,
+  gridSeries,
   readChunks,
   readPulseStats,
   readReplicateRows,
-  toBlob,
 } from "@/server/compute/run-store";
 
 export interface FinaliseTask {
@@ -53,7 +53,6 @@ export default function finalise(task: FinaliseTask): FinaliseResult {
         gridCount: fromBlob(c.gridCount as Buffer),
       })),
     );
-    const n = gridTimes(spec).length;
     let ode: Float64Array | null = null;
     let odeNote: string | null = null;
     try {
@@ -61,12 +60,7 @@ export default function finalise(task: FinaliseTask): FinaliseResult {
     } catch (e) {
       odeNote = (e as Error).message;
     }
-    const series: FinaliseResult["series"] = [];
-    spec.circuit.species.forEach((sp, s) => {
-      series.push({ species: sp.name, kind: "mean", values: toBlob(mean.slice(s * n, (s + 1) * n)) });
-      series.push({ species: sp.name, kind: "sd", values: toBlob(sd.slice(s * n, (s + 1) * n)) });
-      if (ode) series.push({ species: sp.name, kind: "ode", values: toBlob(ode.slice(s * n, (s + 1) * n)) });
-    });
+    const series = gridSeries(spec, mean, sd, ode);
     const replicates = readReplicateRows(db, task.runId);
     const pulses = readPulseStats(db, task.runId);
     const summary = summarizeRun({
@@ -82,7 +76,7 @@ export default function finalise(task: FinaliseTask): FinaliseResult {
       noiseDurationMinutes: spec.threshold?.noiseDurationMinutes ?? 10,
     });
     return {
-      series: series.map((s) => ({ ...s, values: new Uint8Array(s.values) })),
+      series,
       summary,
       statsHash: computeStatsHash(replicates, pulses, series),
       capped: replicates.some((r) => r.capped),

@@ -215,6 +215,71 @@ export function computeStatsHash(
   return h.digest("hex");
 }
 
+/**
+ * The grid series a finalised run stores: per species (spec order) its mean,
+ * its SD and, when solved, its ODE overlay, each a slice of the reduced grid.
+ * The server's finalisation and the CLI build the hashed series with this.
+ */
+export function gridSeries(
+  spec: RunSpec,
+  mean: Float64Array,
+  sd: Float64Array,
+  ode: Float64Array | null,
+): { species: string; kind: "mean" | "sd" | "ode"; values: Uint8Array }[] {
+  const n = mean.length / Math.max(1, spec.circuit.species.length);
+  const out: { species: string; kind: "mean" | "sd" | "ode"; values: Uint8Array }[] = [];
+  const slice = (a: Float64Array, s: number) => new Uint8Array(toBlob(a.slice(s * n, (s + 1) * n)));
+  spec.circuit.species.forEach((sp, s) => {
+    out.push({ species: sp.name, kind: "mean", values: slice(mean, s) });
+    out.push({ species: sp.name, kind: "sd", values: slice(sd, s) });
+    if (ode) out.push({ species: sp.name, kind: "ode", values: slice(ode, s) });
+  });
+  return out;
+}
+
+const nanToNull = (x: number | null | undefined) => (x === null || x === undefined || Number.isNaN(x) ? null : x);
+
+/**
+ * The statistics hash of results still in memory (the CLI), equal to the hash
+ * the server stores for the same spec and seed: values are normalised the way
+ * SQLite stores them (non-finite output moments and NaN pulse figures become
+ * null) and rows are put in (replicate, pulse) order before computeStatsHash.
+ */
+export function statsHashInMemory(
+  replicates: {
+    replicate: number;
+    events: number;
+    capped: boolean;
+    outputMean: number | null;
+    outputVar: number | null;
+  }[],
+  pulses: PulseStat[],
+  series: { species: string; kind: string; values: Uint8Array }[],
+): string {
+  const reps = replicates
+    .map((r) => ({
+      replicate: r.replicate,
+      events: r.events,
+      capped: r.capped,
+      outputMean: finiteOrNull(r.outputMean),
+      outputVar: finiteOrNull(r.outputVar),
+    }))
+    .sort((a, b) => a.replicate - b.replicate);
+  const ps = pulses
+    .map((p): PulseStat => ({
+      ...p,
+      delay: nanToNull(p.delay),
+      offDelay: nanToNull(p.offDelay),
+      widths: p.widths.length ? (JSON.parse(JSON.stringify(p.widths)) as number[]) : [],
+      peak: nanToNull(p.peak) as number,
+      timeToPeak: nanToNull(p.timeToPeak) as number,
+      fwhm: nanToNull(p.fwhm),
+      baseline: nanToNull(p.baseline) as number,
+    }))
+    .sort((a, b) => a.replicate - b.replicate || a.pulseIndex - b.pulseIndex);
+  return computeStatsHash(reps, ps, series);
+}
+
 /** The hash of a run's stored statistics as they are in the database. */
 export function statsHash(db: Db, runId: string): string {
   const series = db.select().from(schema.runSeries).where(eq(schema.runSeries.runId, runId)).all();
