@@ -1,5 +1,6 @@
 /**
  * npm run bench [-- --json] [--threads N] [--replicates N] [--no-e2e] [--e2e-replicates N]
+ *                 [--no-compare] [--repetitions N] [--js-reference] [--with-100k]
  * Without --threads: measures 1 thread and the pool (all cores). With --json the
  * last line is one JSON object: the last measurement's
  * {model, replicates, events, seconds, eventsPerSecond, threads}, plus, when
@@ -8,9 +9,18 @@
  * replicates through the server's queue with everything stored, against the engine
  * alone on the same pool, and the p95 latencies of /api/health and the run list
  * meanwhile) unless --no-e2e.
+ * Unless --no-compare (scripts/bench-compare.ts): `reference` (Linger on 1 thread
+ * against the C reference kernel, or its JS twin with --js-reference or without
+ * `cc`, alternated --repetitions times, default 3), `replicateScaling` (1,000
+ * and 10,000 replicates; 100,000 with --with-100k) and `sizeScaling` (generated
+ * cascades of 5, 20 and 50 species against the benchmark circuit), printed as a
+ * table of ratios.
  */
 import { runEngineBench, type EngineBenchResult } from "./bench-engine";
 import { runEndToEndBench } from "./bench-e2e";
+import { compareWithReference, replicateScaling, sizeScaling } from "./bench-compare";
+import { loadSpecFile } from "@/server/cli/load-spec";
+import { DEFAULT_BENCH_SPEC } from "./bench-engine";
 
 async function main() {
   const argv = process.argv.slice(2);
@@ -55,6 +65,49 @@ async function main() {
         `end to end (${e2e.threads} thread${e2e.threads > 1 ? "s" : ""}): ${e2e.replicates} replicates stored in ${e2e.seconds.toFixed(2)} s vs engine alone ${e2e.engineSeconds.toFixed(2)} s ` +
           `= ${e2e.overheadRatio.toFixed(3)}x; p95 latency /api/health ${e2e.healthP95Ms.toFixed(1)} ms, run list ${e2e.listP95Ms.toFixed(1)} ms (${e2e.requests} requests)`,
       );
+  }
+  if (!argv.includes("--no-compare")) {
+    const spec = loadSpecFile(DEFAULT_BENCH_SPEC, {});
+    const cmp = await compareWithReference(spec, {
+      repetitions: num("--repetitions"),
+      forceJs: argv.includes("--js-reference"),
+    });
+    const reps = await replicateScaling(spec, argv.includes("--with-100k") ? [1000, 10_000, 100_000] : [1000, 10_000]);
+    const sizes = await sizeScaling(spec, [5, 20, 50], 200);
+    out.reference = cmp;
+    out.replicateScaling = reps;
+    out.sizeScaling = sizes;
+    if (!json) {
+      const f = (x: number, d = 2) => x.toFixed(d);
+      console.log(
+        `\nLinger (pool of 1 thread, ${spec.replicates} replicates) against ${cmp.referenceKind}, same run, ${cmp.repetitions.length} repetitions alternated:`,
+      );
+      console.log(`| repetition | reference M events/s | Linger M events/s | ratio |\n| --- | --- | --- | --- |`);
+      cmp.repetitions.forEach((r, i) =>
+        console.log(
+          `| ${i + 1} | ${f(r.reference.eventsPerSecond / 1e6)} | ${f(r.lingerEventsPerSecond / 1e6)} | ${f(r.ratio)}x |`,
+        ),
+      );
+      console.log(
+        `ratio min/median/max ${f(cmp.ratioMin)} / ${f(cmp.ratioMedian)} / ${f(cmp.ratioMax)}x; event counts ${cmp.sameEvents ? "identical" : "DIFFER"} (${cmp.repetitions[0].lingerEvents})`,
+      );
+      console.log(`\nCost with replicates (1 thread, benchmark circuit):`);
+      console.log(
+        `| replicates | events | seconds | us/replicate | cost per replicate vs first row |\n| --- | --- | --- | --- | --- |`,
+      );
+      for (const r of reps)
+        console.log(
+          `| ${r.replicates} | ${r.events} | ${f(r.seconds)} | ${f(r.microsecondsPerReplicate, 0)} | ${f(r.relativeCostPerReplicate!)}x |`,
+        );
+      console.log(`\nCost with circuit size (1 thread, ${sizes[0].replicates} replicates each, benchmark program):`);
+      console.log(
+        `| circuit | species | reactions | events/replicate | us/replicate | events/s vs benchmark |\n| --- | --- | --- | --- | --- | --- |`,
+      );
+      for (const r of sizes)
+        console.log(
+          `| ${r.label} | ${r.species} | ${r.reactions} | ${Math.round(r.events / r.replicates)} | ${f(r.microsecondsPerReplicate, 0)} | ${f(r.eventsPerSecondRatio!)}x |`,
+        );
+    }
   }
   if (json) console.log(JSON.stringify(out));
   else if (results.length > 1)
