@@ -6,6 +6,8 @@ export class HttpError extends Error {
     readonly code: string,
     message: string,
     readonly fields?: { path: string; message: string }[],
+    /** Extra response headers (e.g. Retry-After on a 429). */
+    readonly headers?: Record<string, string>,
   ) {
     super(message);
   }
@@ -17,7 +19,15 @@ export const unauthorized = (message = "Sign in first.") => new HttpError(401, "
 export const forbidden = (message = "Your role does not allow this.") => new HttpError(403, "forbidden", message);
 export const notFound = (what = "That item") => new HttpError(404, "not_found", `${what} was not found.`);
 export const conflict = (message: string, code = "conflict") => new HttpError(409, code, message);
-export const tooMany = (message: string) => new HttpError(429, "too_many_requests", message);
+/** 429 with Retry-After (seconds) so a client knows when to try again. */
+export const tooMany = (message: string, retryAfterSeconds?: number) =>
+  new HttpError(
+    429,
+    "too_many_requests",
+    message,
+    undefined,
+    retryAfterSeconds ? { "Retry-After": String(Math.ceil(retryAfterSeconds)) } : undefined,
+  );
 
 export function zodFields(err: ZodError): { path: string; message: string }[] {
   return err.issues.map((i) => ({ path: i.path.map(String).join("."), message: i.message }));

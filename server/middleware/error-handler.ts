@@ -18,6 +18,7 @@ export const errorHandler: ErrorRequestHandler = (err, req, res, _next) => {
     return;
   }
   if (err instanceof HttpError) {
+    if (err.headers) res.set(err.headers);
     res
       .status(err.status)
       .json({ error: { code: err.code, message: err.message, ...(err.fields ? { fields: err.fields } : {}) } });

@@ -5,7 +5,7 @@
  */
 import type { Request, Response } from "express";
 import { defineRoutes, type SessionUser } from "./route-table";
-import { unauthorized, badRequest, conflict } from "@/server/http-error";
+import { unauthorized, badRequest, conflict, HttpError } from "@/server/http-error";
 import { authenticatorOf, destroyUserSessions, SESSION_COOKIE } from "@/server/middleware/session";
 import {
   changePassword,
@@ -24,7 +24,7 @@ import {
   joinWithInvitation,
   labsOf,
 } from "@/server/services/labs.service";
-import { assertNotLimited, authLimitersOf } from "@/server/services/rate-limit";
+import { assertNotLimited, authLimitersOf, type RateLimiter, type SlowDown } from "@/server/services/rate-limit";
 import type { AppContext } from "@/server/context";
 import {
   AcceptInvitationBodySchema,
@@ -73,9 +73,12 @@ export const authRoutes = defineRoutes([
     handler: async ({ req, res, ctx, body }): Promise<SignedIn> => {
       const l = authLimitersOf(ctx);
       const email = normalizeEmail(body.email);
-      const keys: [typeof l.signInPerEmail, string][] = [
+      const client = clientKey(req);
+      // Locks only this client out of this account; other clients are slowed (never locked) by the backstop.
+      const keys: [RateLimiter | SlowDown, string][] = [
+        [l.signInPerPair, `${email}\n${client}`],
+        [l.signInPerIp, client],
         [l.signInPerEmail, email],
-        [l.signInPerIp, clientKey(req)],
       ];
       assertNotLimited(keys, "sign-in");
       const user = await authenticateLocal(req, res);
@@ -83,6 +86,7 @@ export const authRoutes = defineRoutes([
         for (const [lim, k] of keys) lim.hit(k);
         throw unauthorized("The e-mail address or the password is not right.");
       }
+      l.signInPerPair.clear(`${email}\n${client}`);
       l.signInPerEmail.clear(email);
       await logIn(req, user);
       return { user: me(ctx, user.id).user };
@@ -170,9 +174,17 @@ export const authRoutes = defineRoutes([
     path: "/auth/change-password",
     access: { kind: "signedIn" },
     body: ChangePasswordBodySchema,
-    summary: "Change one's password (needs the current one); ends the user's other sessions.",
+    summary:
+      "Change one's password (needs the current one; 429 after 5 wrong ones in 15 minutes; common passwords refused); ends the user's other sessions.",
     handler: async ({ req, ctx, user, body }): Promise<Ok> => {
-      await changePassword(ctx, user!.id, body.currentPassword, body.newPassword);
+      const l = authLimitersOf(ctx);
+      assertNotLimited([[l.changePasswordPerUser, user!.id]], "password change");
+      try {
+        await changePassword(ctx, user!.id, body.currentPassword, body.newPassword);
+      } catch (e) {
+        if (e instanceof HttpError && e.code === "wrong_password") l.changePasswordPerUser.hit(user!.id);
+        throw e;
+      }
       destroyUserSessions(ctx, user!.id, req.sessionID);
       return { ok: true };
     },

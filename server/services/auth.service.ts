@@ -10,6 +10,7 @@ import { newId } from "@/server/ids";
 import { badRequest, conflict } from "@/server/http-error";
 import type { SessionUser, MeUser } from "@/shared/schemas/api-accounts";
 import { hashPassword, verifyPassword } from "./password";
+import { assertPasswordAllowed } from "./password-policy";
 import { createToken, findValidToken, markTokenUsed } from "./tokens.service";
 
 /** What the account functions need (the admin CLI has no mailer or queue). */
@@ -78,6 +79,7 @@ export async function createAccount(
   input: { email: string; password: string | null; displayName: string; ownLab: boolean },
 ): Promise<MeUser> {
   const email = normalizeEmail(input.email);
+  if (input.password !== null) assertPasswordAllowed(input.password, "password");
   const passwordHash = input.password === null ? null : await hashPassword(input.password);
   const now = new Date();
   const id = newId("usr_");
@@ -144,6 +146,8 @@ export async function requestPasswordReset(ctx: AppContext, email: string): Prom
 
 /** Sets a new password with a reset or set-up token; returns the user id. */
 export async function confirmPasswordReset(ctx: AccountsCtx, token: string, password: string): Promise<string> {
+  // Before the token is used up, so the same link can be tried with another password.
+  assertPasswordAllowed(password, "password");
   const row = findValidToken(ctx, token, ["reset", "setup"]);
   if (!row || !row.userId)
     throw badRequest("This reset link is not valid or has expired. Ask for a new one.", undefined, "invalid_token");
@@ -167,6 +171,7 @@ export async function changePassword(
       "wrong_password",
     );
   }
+  assertPasswordAllowed(newPassword, "newPassword");
   await setPassword(ctx, userId, newPassword);
 }
 

@@ -18,8 +18,9 @@ import {
   type TestApp,
 } from "@/tests/helpers/test-app";
 import { schema } from "@/db/client";
-import { defaultAuthLimiters, resetAuthLimiters, setAuthLimiters } from "@/server/services/rate-limit";
+import { defaultAuthLimiters, resetAuthLimiters, setAuthLimiters, SlowDown } from "@/server/services/rate-limit";
 import { createSiteAdmin } from "@/server/services/auth.service";
+import { isCommonPassword } from "@/server/services/password-policy";
 import { assertContract } from "@/tests/helpers/contract";
 import { AdminUsersSchema, MeSchema, OkSchema, SignedInSchema } from "@/shared/schemas/api-accounts";
 
@@ -149,26 +150,117 @@ describe("rate limiting", () => {
   before(async () => (t = await makeTestContext()));
   after(async () => t.close());
 
-  test("after 10 failed sign-ins for one address, even the right password gets 429 until the window passes", async () => {
+  test("10 failed sign-ins lock that client out of that address only; the window lifts it", async () => {
     let now = 1_000_000;
     setAuthLimiters(
       t.ctx,
       defaultAuthLimiters(() => now),
     );
+    const from = (ip: string) => ({ "X-Forwarded-For": ip });
     for (let i = 0; i < 10; i++)
       await request(t.app)
         .post("/api/auth/sign-in")
+        .set(from("198.51.100.7"))
         .send({ email: VIEWER, password: `wrong-${i}-password` })
         .expect(401);
     const blocked = await request(t.app)
       .post("/api/auth/sign-in")
+      .set(from("198.51.100.7"))
       .send({ email: VIEWER, password: DEMO_PASSWORD })
       .expect(429);
     assert.match(blocked.body.error.message, /Too many sign-in attempts.*15 minutes/);
+    assert.equal(blocked.headers["retry-after"], String(15 * 60), "Retry-After in seconds");
+    // Before the fix the address was locked for everyone: the owner, on another client, still signs in.
+    await request(t.app)
+      .post("/api/auth/sign-in")
+      .set(from("203.0.113.20"))
+      .send({ email: VIEWER, password: DEMO_PASSWORD })
+      .expect(200);
     // Another address from the same client is not blocked (the per-client limit is higher).
-    await request(t.app).post("/api/auth/sign-in").send({ email: OWNER, password: DEMO_PASSWORD }).expect(200);
+    await request(t.app)
+      .post("/api/auth/sign-in")
+      .set(from("198.51.100.7"))
+      .send({ email: OWNER, password: DEMO_PASSWORD })
+      .expect(200);
     now += 15 * 60 * 1000;
-    await request(t.app).post("/api/auth/sign-in").send({ email: VIEWER, password: DEMO_PASSWORD }).expect(200);
+    await request(t.app)
+      .post("/api/auth/sign-in")
+      .set(from("198.51.100.7"))
+      .send({ email: VIEWER, password: DEMO_PASSWORD })
+      .expect(200);
+  });
+
+  test("guesses from many clients at one address are slowed (429 with a short Retry-After), never locked", async () => {
+    let now = 5_000_000;
+    setAuthLimiters(
+      t.ctx,
+      defaultAuthLimiters(() => now),
+    );
+    // 20 failures from 20 clients (one each): the free allowance of the backstop.
+    for (let i = 0; i < 20; i++)
+      await request(t.app)
+        .post("/api/auth/sign-in")
+        .set({ "X-Forwarded-For": `198.51.100.${i + 1}` })
+        .send({ email: OWNER, password: `guess-${i}-password` })
+        .expect(401);
+    // Now each attempt must wait 1 s after the previous failure, doubling per failure (cap 30 s).
+    now += 1000;
+    await request(t.app)
+      .post("/api/auth/sign-in")
+      .set({ "X-Forwarded-For": "198.51.100.99" })
+      .send({ email: OWNER, password: "guess-x-password" })
+      .expect(401);
+    const slowed = await request(t.app)
+      .post("/api/auth/sign-in")
+      .set({ "X-Forwarded-For": "203.0.113.5" })
+      .send({ email: OWNER, password: DEMO_PASSWORD })
+      .expect(429);
+    assert.equal(slowed.headers["retry-after"], "2");
+    assert.match(slowed.body.error.message, /Try again in 2 seconds/);
+    // After the wait the owner, from a fresh client, gets in: slowed, not locked.
+    now += 2000;
+    await request(t.app)
+      .post("/api/auth/sign-in")
+      .set({ "X-Forwarded-For": "203.0.113.5" })
+      .send({ email: OWNER, password: DEMO_PASSWORD })
+      .expect(200);
+  });
+
+  test("the backstop's spacing doubles per failure and stops at its cap", () => {
+    const now = 0;
+    const s = new SlowDown(3, 60_000, 1000, 8000, () => now);
+    const spacings: number[] = [];
+    for (let i = 0; i < 8; i++) {
+      spacings.push(s.spacingMs("a"));
+      s.hit("a");
+    }
+    assert.deepEqual(spacings, [0, 0, 0, 1000, 2000, 4000, 8000, 8000]);
+    assert.equal(s.spacingMs("b"), 0, "keys are independent");
+  });
+
+  test("password change: 5 wrong current passwords in 15 minutes give 429, even for the right one", async () => {
+    let now = 9_000_000;
+    setAuthLimiters(
+      t.ctx,
+      defaultAuthLimiters(() => now),
+    );
+    const agent = await signIn(t.app, VIEWER);
+    for (let i = 0; i < 5; i++)
+      await agent
+        .post("/api/auth/change-password")
+        .send({ currentPassword: `wrong-${i}-password`, newPassword: "viewer-new-password" })
+        .expect(400);
+    const limited = await agent
+      .post("/api/auth/change-password")
+      .send({ currentPassword: DEMO_PASSWORD, newPassword: "viewer-new-password" })
+      .expect(429);
+    assert.match(limited.body.error.message, /Too many password change attempts/);
+    assert.ok(Number(limited.headers["retry-after"]) > 0);
+    now += 15 * 60 * 1000;
+    await agent
+      .post("/api/auth/change-password")
+      .send({ currentPassword: DEMO_PASSWORD, newPassword: DEMO_PASSWORD })
+      .expect(200);
   });
 
   test("reset requests are limited per address; resetting the limiters lifts it", async () => {
@@ -178,6 +270,57 @@ describe("rate limiting", () => {
     await request(t.app).post("/api/auth/reset-request").send({ email: "nobody@example.org" }).expect(429);
     resetAuthLimiters(t.ctx);
     await request(t.app).post("/api/auth/reset-request").send({ email: "nobody@example.org" }).expect(200);
+  });
+});
+
+describe("common passwords are refused (NIST SP 800-63B section 5.1.1.2: check new passwords against a list of commonly used ones)", () => {
+  let t: TestApp;
+  before(async () => (t = await makeTestContext()));
+  after(async () => t.close());
+
+  test("the shipped list has the well-known ones and not the test passwords", () => {
+    // "12345678" and "password1" are near the top of every published leaked-password ranking (from memory).
+    assert.equal(isCommonPassword("12345678"), true);
+    assert.equal(isCommonPassword("  PassWord1 "), true, "case and surrounding spaces ignored");
+    assert.equal(isCommonPassword(DEMO_PASSWORD), false);
+    assert.equal(isCommonPassword("editor-new-password"), false);
+  });
+
+  test("at sign-up: 400 naming the password field, no account created", async () => {
+    const r = await request(t.app)
+      .post("/api/auth/sign-up")
+      .send({ email: "common@example.org", password: "12345678", displayName: "Common" })
+      .expect(400);
+    assert.equal(r.body.error.code, "common_password");
+    assert.deepEqual(
+      r.body.error.fields.map((f: any) => f.path),
+      ["password"],
+    );
+    assert.equal(
+      t.ctx.db.select().from(schema.users).where(eq(schema.users.email, "common@example.org")).get(),
+      undefined,
+    );
+  });
+
+  test("at password change: 400 naming newPassword, the old password still works", async () => {
+    const agent = await signIn(t.app, VIEWER);
+    const r = await agent
+      .post("/api/auth/change-password")
+      .send({ currentPassword: DEMO_PASSWORD, newPassword: "password1" })
+      .expect(400);
+    assert.equal(r.body.error.code, "common_password");
+    assert.equal(r.body.error.fields[0].path, "newPassword");
+    await signIn(t.app, VIEWER);
+  });
+
+  test("at reset: 400 and the link stays usable for a better password", async () => {
+    await request(t.app).post("/api/auth/reset-request").send({ email: OWNER }).expect(200);
+    await t.settleMail();
+    const token = tokenFromMail(t.outbox(OWNER).at(-1)!.text, "/reset");
+    const r = await request(t.app).post("/api/auth/reset-confirm").send({ token, password: "qwertyuiop" }).expect(400);
+    assert.equal(r.body.error.code, "common_password");
+    await request(t.app).post("/api/auth/reset-confirm").send({ token, password: "owner-fresh-password" }).expect(200);
+    await signIn(t.app, OWNER, "owner-fresh-password");
   });
 });
 
