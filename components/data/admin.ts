@@ -10,8 +10,9 @@ import { AdminUsersSchema, BackupResultSchema, OutboxSchema } from "@/shared/sch
 export type { AdminUser, BackupResult, OutboxMessage } from "@/shared/schemas/api-accounts";
 
 export const adminKeys = {
-  outbox: (limit: number) => ["admin", "outbox", limit] as const,
-  users: ["admin", "users"] as const,
+  all: ["admin"] as const,
+  outbox: (limit: number) => [...adminKeys.all, "outbox", limit] as const,
+  users: () => [...adminKeys.all, "users"] as const,
 };
 
 /** Newest first (the server orders them). */
@@ -25,7 +26,7 @@ export function useOutbox(enabled = true, limit = 50) {
 
 export function useAdminUsers(enabled = true) {
   return useQuery({
-    queryKey: adminKeys.users,
+    queryKey: adminKeys.users(),
     queryFn: ({ signal }) => api("/api/admin/users", { schema: AdminUsersSchema, signal }).then((r) => r.users),
     enabled,
   });

@@ -17,7 +17,7 @@ export function useReproduceRun() {
     mutationFn: (runId: string) => api(`/api/runs/${runId}/reproduce`, { method: "POST", schema: RunDetailSchema }),
     onSuccess: (run) => {
       qc.setQueryData(runKeys.detail(run.id), run);
-      qc.invalidateQueries({ queryKey: ["runs", "list"] });
+      qc.invalidateQueries({ queryKey: runKeys.lists() });
     },
   });
 }
@@ -29,7 +29,7 @@ export function useImportBundle() {
     mutationFn: (bundle: unknown) => api(`/api/labs/${labId}/bundles/import`, { method: "POST", body: { bundle }, schema: RunDetailSchema }),
     onSuccess: (run) => {
       qc.setQueryData(runKeys.detail(run.id), run);
-      qc.invalidateQueries({ queryKey: ["runs", "list"] });
+      qc.invalidateQueries({ queryKey: runKeys.lists() });
     },
   });
 }

@@ -14,11 +14,12 @@ import {
 
 export const circuitKeys = {
   all: ["circuits"] as const,
-  list: (labId: string, archived = false) => ["circuits", "list", labId, archived] as const,
-  detail: (id: string) => ["circuits", "detail", id] as const,
-  version: (id: string, v: number) => ["circuits", "version", id, v] as const,
+  lists: () => [...circuitKeys.all, "list"] as const,
+  list: (labId: string, archived = false) => [...circuitKeys.lists(), labId, archived] as const,
+  detail: (id: string) => [...circuitKeys.all, "detail", id] as const,
+  version: (id: string, v: number) => [...circuitKeys.all, "version", id, v] as const,
   templates: ["templates"] as const,
-  check: (labId: string, body: unknown) => ["circuits", "check", labId, body] as const,
+  check: (labId: string, body: unknown) => [...circuitKeys.all, "check", labId, body] as const,
 };
 
 export function useCircuits(opts: { archived?: boolean } = {}) {
@@ -76,7 +77,7 @@ export function useCreateCircuit() {
     mutationFn: (req: CreateCircuitRequest) => api(`/api/labs/${labId}/circuits`, { method: "POST", body: req, schema: CircuitDetailResponseSchema }),
     onSuccess: (d) => {
       qc.setQueryData(circuitKeys.detail(d.circuit.id), d);
-      qc.invalidateQueries({ queryKey: ["circuits", "list"] });
+      qc.invalidateQueries({ queryKey: circuitKeys.lists() });
     },
   });
 }
@@ -87,7 +88,7 @@ export function useUpdateCircuit(id: string) {
     mutationFn: (req: UpdateCircuitRequest) => api(`/api/circuits/${id}`, { method: "PUT", body: req, schema: CircuitDetailResponseSchema }),
     onSuccess: (d) => {
       qc.setQueryData(circuitKeys.detail(id), d);
-      qc.invalidateQueries({ queryKey: ["circuits", "list"] });
+      qc.invalidateQueries({ queryKey: circuitKeys.lists() });
     },
   });
 }
@@ -98,7 +99,7 @@ export function useDuplicateCircuit() {
     mutationFn: ({ id, name }: { id: string; name?: string }) => api(`/api/circuits/${id}/duplicate`, { method: "POST", body: name ? { name } : {}, schema: CircuitDetailResponseSchema }),
     onSuccess: (d) => {
       qc.setQueryData(circuitKeys.detail(d.circuit.id), d);
-      qc.invalidateQueries({ queryKey: ["circuits", "list"] });
+      qc.invalidateQueries({ queryKey: circuitKeys.lists() });
     },
   });
 }
@@ -110,7 +111,7 @@ export function useArchiveCircuit() {
       api(`/api/circuits/${id}/${archived ? "archive" : "unarchive"}`, { method: "POST", schema: CircuitSummarySchema }),
     onSuccess: (_d, v) => {
       qc.invalidateQueries({ queryKey: circuitKeys.detail(v.id) });
-      qc.invalidateQueries({ queryKey: ["circuits", "list"] });
+      qc.invalidateQueries({ queryKey: circuitKeys.lists() });
     },
   });
 }

@@ -34,9 +34,10 @@ export type {
 
 export const labKeys = {
   all: ["labs"] as const,
-  detail: (labId: string) => ["labs", "detail", labId] as const,
-  invitations: (labId: string) => ["labs", "invitations", labId] as const,
-  audit: (labId: string, pageSize: number) => ["labs", "audit", labId, pageSize] as const,
+  detail: (labId: string) => [...labKeys.all, "detail", labId] as const,
+  invitations: (labId: string) => [...labKeys.all, "invitations", labId] as const,
+  audits: (labId: string) => [...labKeys.all, "audit", labId] as const,
+  audit: (labId: string, pageSize: number) => [...labKeys.audits(labId), pageSize] as const,
   invitation: (token: string) => ["invitations", token] as const,
 };
 
@@ -65,7 +66,7 @@ export function useInvite(labId: string) {
     mutationFn: (body: InviteBody) => api(`/api/labs/${labId}/invitations`, { method: "POST", body, schema: InviteResponseSchema }),
     onSuccess: () => {
       qc.invalidateQueries({ queryKey: labKeys.invitations(labId) });
-      qc.invalidateQueries({ queryKey: ["labs", "audit", labId] });
+      qc.invalidateQueries({ queryKey: labKeys.audits(labId) });
     },
   });
 }
@@ -76,7 +77,7 @@ export function useWithdrawInvitation(labId: string) {
     mutationFn: (invitationId: string) => api(`/api/labs/${labId}/invitations/${encodeURIComponent(invitationId)}`, { method: "DELETE" }),
     onSuccess: () => {
       qc.invalidateQueries({ queryKey: labKeys.invitations(labId) });
-      qc.invalidateQueries({ queryKey: ["labs", "audit", labId] });
+      qc.invalidateQueries({ queryKey: labKeys.audits(labId) });
     },
   });
 }
@@ -88,7 +89,7 @@ export function useChangeRole(labId: string) {
       api(`/api/labs/${labId}/members/${encodeURIComponent(v.userId)}`, { method: "PATCH", body: { role: v.role }, schema: LabMembersResponseSchema }),
     onSuccess: () => {
       qc.invalidateQueries({ queryKey: labKeys.detail(labId) });
-      qc.invalidateQueries({ queryKey: ["labs", "audit", labId] });
+      qc.invalidateQueries({ queryKey: labKeys.audits(labId) });
       // The caller's own role may have changed.
       qc.invalidateQueries({ queryKey: meKeys.all });
     },
@@ -102,7 +103,7 @@ export function useRemoveMember(labId: string) {
     mutationFn: (userId: string) => api(`/api/labs/${labId}/members/${encodeURIComponent(userId)}`, { method: "DELETE" }),
     onSuccess: () => {
       qc.invalidateQueries({ queryKey: labKeys.detail(labId) });
-      qc.invalidateQueries({ queryKey: ["labs", "audit", labId] });
+      qc.invalidateQueries({ queryKey: labKeys.audits(labId) });
       qc.invalidateQueries({ queryKey: meKeys.all });
     },
   });

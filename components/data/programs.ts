@@ -13,9 +13,10 @@ import type { InputProgramInput } from "@/shared/schemas/input-program";
 
 export const programKeys = {
   all: ["programs"] as const,
-  list: (labId: string, archived = false) => ["programs", "list", labId, archived] as const,
-  detail: (id: string) => ["programs", "detail", id] as const,
-  preview: (labId: string, program: unknown, end: number) => ["programs", "preview", labId, program, end] as const,
+  lists: () => [...programKeys.all, "list"] as const,
+  list: (labId: string, archived = false) => [...programKeys.lists(), labId, archived] as const,
+  detail: (id: string) => [...programKeys.all, "detail", id] as const,
+  preview: (labId: string, program: unknown, end: number) => [...programKeys.all, "preview", labId, program, end] as const,
 };
 
 export function usePrograms(opts: { archived?: boolean } = {}) {
@@ -57,7 +58,7 @@ export function useCreateProgram() {
     mutationFn: (req: CreateProgramRequest) => api(`/api/labs/${labId}/programs`, { method: "POST", body: req, schema: ProgramDetailResponseSchema }),
     onSuccess: (d) => {
       qc.setQueryData(programKeys.detail(d.program.id), d);
-      qc.invalidateQueries({ queryKey: ["programs", "list"] });
+      qc.invalidateQueries({ queryKey: programKeys.lists() });
     },
   });
 }
@@ -68,7 +69,7 @@ export function useUpdateProgram(id: string) {
     mutationFn: (req: UpdateProgramRequest) => api(`/api/programs/${id}`, { method: "PUT", body: req, schema: ProgramDetailResponseSchema }),
     onSuccess: (d) => {
       qc.setQueryData(programKeys.detail(id), d);
-      qc.invalidateQueries({ queryKey: ["programs", "list"] });
+      qc.invalidateQueries({ queryKey: programKeys.lists() });
     },
   });
 }
@@ -77,7 +78,7 @@ export function useDuplicateProgram() {
   const qc = useQueryClient();
   return useMutation({
     mutationFn: ({ id }: { id: string }) => api(`/api/programs/${id}/duplicate`, { method: "POST", body: {}, schema: ProgramDetailResponseSchema }),
-    onSuccess: () => qc.invalidateQueries({ queryKey: ["programs", "list"] }),
+    onSuccess: () => qc.invalidateQueries({ queryKey: programKeys.lists() }),
   });
 }
 

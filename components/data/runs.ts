@@ -26,12 +26,13 @@ const ComparisonResponseSchema = ComparisonSchema;
 
 export const runKeys = {
   all: ["runs"] as const,
-  list: (labId: string, archived = false) => ["runs", "list", labId, archived] as const,
-  detail: (id: string) => ["runs", "detail", id] as const,
-  series: (id: string) => ["runs", "series", id] as const,
-  replicates: (id: string, q: object) => ["runs", "replicates", id, q] as const,
-  estimate: (labId: string, req: unknown) => ["runs", "estimate", labId, req] as const,
-  compare: (labId: string, ids: string[]) => ["runs", "compare", labId, ids] as const,
+  lists: () => [...runKeys.all, "list"] as const,
+  list: (labId: string, archived = false) => [...runKeys.lists(), labId, archived] as const,
+  detail: (id: string) => [...runKeys.all, "detail", id] as const,
+  series: (id: string) => [...runKeys.all, "series", id] as const,
+  replicates: (id: string, q: object) => [...runKeys.all, "replicates", id, q] as const,
+  estimate: (labId: string, req: unknown) => [...runKeys.all, "estimate", labId, req] as const,
+  compare: (labId: string, ids: string[]) => [...runKeys.all, "compare", labId, ids] as const,
 };
 
 export const ACTIVE_STATUSES = new Set(["running", "queued"]);
@@ -66,7 +67,7 @@ export function useRun(id: string | undefined) {
   const status = q.data?.status;
   useEffect(() => {
     // A run that has just ended changes the lists (status, headline figures).
-    if (status && !ACTIVE_STATUSES.has(status)) qc.invalidateQueries({ queryKey: ["runs", "list"] });
+    if (status && !ACTIVE_STATUSES.has(status)) qc.invalidateQueries({ queryKey: runKeys.lists() });
   }, [status, qc]);
   useEffect(() => {
     if (!id || !active || Platform.OS !== "web" || typeof EventSource === "undefined") return;
@@ -128,14 +129,14 @@ export function useLaunchRun() {
     mutationFn: (req: LaunchRunInput) => api(`/api/labs/${labId}/runs`, { method: "POST", body: req, schema: RunCreatedSchema }),
     onSuccess: (run) => {
       qc.setQueryData(runKeys.detail(run.id), run);
-      qc.invalidateQueries({ queryKey: ["runs", "list"] });
+      qc.invalidateQueries({ queryKey: runKeys.lists() });
     },
   });
 }
 
 function invalidateRun(qc: ReturnType<typeof useQueryClient>, id: string) {
   qc.invalidateQueries({ queryKey: runKeys.detail(id) });
-  qc.invalidateQueries({ queryKey: ["runs", "list"] });
+  qc.invalidateQueries({ queryKey: runKeys.lists() });
 }
 
 export function useCancelRun() {
@@ -158,20 +159,12 @@ export function useRestoreRun() {
   return useMutation({ mutationFn: (id: string) => api(`/api/runs/${id}/restore`, { method: "POST" }), onSuccess: (_d, id) => invalidateRun(qc, id) });
 }
 
-export function usePatchRun(id: string) {
-  const qc = useQueryClient();
-  return useMutation({
-    mutationFn: (body: { name?: string; notes?: string }) => api(`/api/runs/${id}`, { method: "PATCH", body }),
-    onSuccess: () => invalidateRun(qc, id),
-  });
-}
-
 /** Launches the matched simple-regulation control of a run; resolves with the control run. */
 export function useLaunchControl() {
   const qc = useQueryClient();
   return useMutation({
     mutationFn: (id: string) => api(`/api/runs/${id}/control`, { method: "POST", schema: RunCreatedSchema }),
-    onSuccess: () => qc.invalidateQueries({ queryKey: ["runs", "list"] }),
+    onSuccess: () => qc.invalidateQueries({ queryKey: runKeys.lists() }),
   });
 }
 

@@ -9,8 +9,10 @@ export { SweepDetailSchema, SweepListItemSchema, type SweepDetail };
 const SweepListSchema = z.array(SweepListItemSchema);
 
 export const sweepKeys = {
-  list: (labId: string) => ["sweeps", "list", labId] as const,
-  detail: (id: string) => ["sweeps", "detail", id] as const,
+  all: ["sweeps"] as const,
+  lists: () => [...sweepKeys.all, "list"] as const,
+  list: (labId: string) => [...sweepKeys.lists(), labId] as const,
+  detail: (id: string) => [...sweepKeys.all, "detail", id] as const,
 };
 
 const active = (s: string) => s === "queued" || s === "running";
@@ -41,7 +43,7 @@ export function useLaunchSweep() {
     mutationFn: (req: LaunchSweepInput) => api(`/api/labs/${labId}/sweeps`, { method: "POST", body: req, schema: SweepDetailSchema }),
     onSuccess: (d) => {
       qc.setQueryData(sweepKeys.detail(d.id), d);
-      qc.invalidateQueries({ queryKey: ["sweeps", "list"] });
+      qc.invalidateQueries({ queryKey: sweepKeys.lists() });
     },
   });
 }

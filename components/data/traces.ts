@@ -32,9 +32,10 @@ const TraceSetListSchema = z.object({ traceSets: z.array(TraceSetListItemSchema)
 
 export const traceKeys = {
   all: ["traces"] as const,
-  list: (labId: string) => ["traces", "list", labId] as const,
-  detail: (id: string) => ["traces", "detail", id] as const,
-  match: (id: string) => ["traces", "match", id] as const,
+  lists: () => [...traceKeys.all, "list"] as const,
+  list: (labId: string) => [...traceKeys.lists(), labId] as const,
+  detail: (id: string) => [...traceKeys.all, "detail", id] as const,
+  match: (id: string) => [...traceKeys.all, "match", id] as const,
 };
 
 /** A file chosen for upload: a browser File/Blob on the web, a local uri on a device. */
@@ -143,7 +144,7 @@ export function useUploadTraces() {
     mutationFn: (req: UploadRequest): Promise<TraceSetDetail> => postTraces(`/api/labs/${labId}/traces`, req.file, req.options, TraceSetDetailSchema),
     onSuccess: (d) => {
       qc.setQueryData(traceKeys.detail(d.id), d);
-      qc.invalidateQueries({ queryKey: ["traces", "list"] });
+      qc.invalidateQueries({ queryKey: traceKeys.lists() });
     },
   });
 }
@@ -155,7 +156,7 @@ export function usePatchTraceSet(id: string) {
     mutationFn: (body: TraceSetPatch) => api(`/api/traces/${id}`, { method: "PATCH", body, schema: TraceSetDetailSchema }),
     onSuccess: (d) => {
       qc.setQueryData(traceKeys.detail(id), d);
-      qc.invalidateQueries({ queryKey: ["traces", "list"] });
+      qc.invalidateQueries({ queryKey: traceKeys.lists() });
     },
   });
 }
@@ -170,7 +171,7 @@ export function useDeleteTraceSet() {
     mutationFn: (id: string) => api(`/api/traces/${id}`, { method: "DELETE" }),
     onSuccess: (_d, id) => {
       void qc.cancelQueries({ queryKey: traceKeys.detail(id) });
-      qc.invalidateQueries({ queryKey: ["traces", "list"] });
+      qc.invalidateQueries({ queryKey: traceKeys.lists() });
     },
   });
 }
@@ -182,7 +183,7 @@ export function useRestoreTraceSet() {
     mutationFn: (id: string) => api(`/api/traces/${id}/restore`, { method: "POST", schema: TraceSetListItemSchema }),
     onSuccess: (_d, id) => {
       qc.invalidateQueries({ queryKey: traceKeys.detail(id) });
-      qc.invalidateQueries({ queryKey: ["traces", "list"] });
+      qc.invalidateQueries({ queryKey: traceKeys.lists() });
     },
   });
 }

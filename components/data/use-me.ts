@@ -8,7 +8,6 @@ import {
   MeSchema,
   OkSchema,
   SignedInSchema,
-  type MePatchBody,
   type ResetConfirmBody,
   type ResetRequestBody,
   type SignInBody,
@@ -57,12 +56,4 @@ export function useResetRequest() {
 
 export function useResetConfirm() {
   return useMutation({ mutationFn: (body: ResetConfirmBody) => api("/api/auth/reset-confirm", { method: "POST", body, schema: OkSchema }) });
-}
-
-export function useUpdateMe() {
-  const qc = useQueryClient();
-  return useMutation({
-    mutationFn: (body: MePatchBody) => api("/api/me", { method: "PATCH", body, schema: MeSchema }),
-    onSuccess: () => qc.invalidateQueries({ queryKey: meKeys.all }),
-  });
 }

@@ -18,7 +18,3 @@ export function useTheme(): Theme {
   const scheme = useColorScheme();
   return scheme === "dark" ? dark : light;
 }
-
-export function themeFor(scheme: "light" | "dark"): Theme {
-  return scheme === "dark" ? dark : light;
-}

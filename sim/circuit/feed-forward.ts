@@ -145,8 +145,3 @@ function logicAt(circuit: Circuit, x: string, y: string, z: string): "and" | "or
   }
   return null;
 }
-
-/** The first feed-forward loop (one ending at the output preferred), or null. */
-export function mainFeedForward(circuit: Circuit, wiring?: Wiring): FeedForward | null {
-  return findFeedForwardLoops(circuit, wiring)[0] ?? null;
-}

@@ -73,7 +73,3 @@ export function replicateSeed(runSeed: string, replicateIndex: number): string {
 
 /** Any source of uniforms on [0, 1). */
 export type UniformSource = () => number;
-
-export function uniformSource(stream: AleaStream): UniformSource {
-  return () => stream.next();
-}
