@@ -1,6 +1,6 @@
 /**
  * Demo circuits and input programs of the invented fermentation-tank scenario
- * (domain notes section 7), seeded idempotently by stable demo keys per lab:
+ * (for demos only, never for checks), seeded idempotently by stable demo keys per lab:
  * an item whose key exists is left alone (users may have edited it).
  *
  * Circuits come from the engine templates (genes qsaA = X, hldB = Y, rptC = Z,

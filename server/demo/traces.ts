@@ -1,6 +1,6 @@
 /**
- * The synthetic demo trace set "Synthetic tank cells (demo)" (domain notes
- * section 7): about 40 cells made by Linger itself from hidden parameters of the
+ * The synthetic demo trace set "Synthetic tank cells (demo)" (the invented
+ * fermentation-tank scenario, for demos only): about 40 cells made by Linger itself from hidden parameters of the
  * "Tank sensor, hold" circuit under the "Duration ladder" program, plus
  * cell-to-cell variation, measurement noise, a background, a fluorescence scale
  * factor, missing frames and staggered starts. Labelled synthetic everywhere.

@@ -1,6 +1,7 @@
 /**
  * Acceleration and delay of a circuit against its matched simple-regulation
- * control (docs/metrics.md; domain notes section 5).
+ * control (Linger's own definitions, docs/metrics.md; response acceleration by
+ * the incoherent feed-forward circuit: Mangan & Alon 2003, PNAS 100:11980).
  *
  * halfRiseTime: T1/2 of the mean-field step response: the input is switched
  * ON at t = 0 from the run's start state and held; T1/2 is the first time the

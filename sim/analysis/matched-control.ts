@@ -2,7 +2,8 @@
  * The matched simple-regulation control of a run (docs/metrics.md,
  * "Acceleration and delay against a matched control").
  *
- * Simple regulation (domain notes section 2) with the input signal in the X
+ * Simple regulation (the linear one-step model, whose step response has the
+ * closed form Z(t) = Z_st (1 - e^{-a t})) with the input signal in the X
  * role: 0 -> Z at a rate set by the input, Z -> 0 at a*Z. The control keeps:
  * - the output's name, initial count and lifetime 1/a (a = the circuit's
  *   first-order removal rate of the output, or 1/user lifetime);

@@ -13,7 +13,7 @@
  *
  * Feed-forward loop: three distinct nodes with edges X->Y, Y->Z and X->Z,
  * each with one sign. Coherent when sign(X->Z) = sign(X->Y) * sign(Y->Z)
- * (domain notes section 2). Of the 8 sign patterns, 4 are coherent and 4
+ * (Mangan & Alon 2003, PNAS 100:11980). Of the 8 sign patterns, 4 are coherent and 4
  * incoherent, numbered type 1 to 4 as is common practice; the numbering below
  * (signs of X->Y, Y->Z, X->Z) is from memory of Mangan & Alon 2003, PNAS
  * 100:11980, Fig. 1, where type k incoherent is type k coherent with the Y->Z

@@ -1,6 +1,8 @@
 /**
  * Starting circuits for the app's "create from template" and the CLI examples:
- * the circuits of domain notes section 2, built from the same schema, named
+ * simple regulation and the feed-forward circuits (Mangan & Alon 2003, PNAS
+ * 100:11980; sign-sensitive delay of the coherent type: Mangan, Zaslaver & Alon
+ * 2003, J Mol Biol 334:197; both from memory), built from the same schema, named
  * for the demo scenario (signal Q = inducer "compound Q"; species qsaA in the X
  * role, hldB in the Y role, rptC the reporter in the Z role). Rates per minute,
  * amounts in molecules: X is made at 10/min while Q is on and lives 10 min

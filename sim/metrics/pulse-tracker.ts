@@ -1,6 +1,6 @@
 /**
- * The per-pulse state machine of Linger's noise-filter figures (docs/metrics.md,
- * domain notes section 5): hysteresis threshold crossings, response windows,
+ * The per-pulse state machine of Linger's noise-filter figures (Linger's own
+ * definitions, docs/metrics.md): hysteresis threshold crossings, response windows,
  * exclusion, response delay with censoring, OFF delay, pass, output pulse widths,
  * peak, time to peak and FWHM above the baseline.
  *

@@ -95,7 +95,7 @@ test("matched control and comparison of a filter with its control", async () => 
     assert.ok(detail.acceleration);
     assert.equal(detail.acceleration.controlRunId, c.body.id);
     assert.equal(control.acceleration.circuitRunId, r.body.id);
-    // The coherent AND filter responds more slowly than plain regulation (domain notes, section 2: sign-sensitive delay).
+    // The coherent AND filter responds more slowly than plain regulation (sign-sensitive delay: Mangan, Zaslaver & Alon 2003, J Mol Biol 334:197, from memory).
     assert.ok((detail.acceleration.halfRiseRatio ?? Infinity) < 1, `T1/2 ratio ${detail.acceleration.halfRiseRatio}`);
     const cmp = await editor.post(`/api/labs/${labId}/compare`).send({ runIds: [r.body.id, c.body.id] });
     assert.equal(cmp.status, 200, JSON.stringify(cmp.body));

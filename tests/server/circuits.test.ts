@@ -105,8 +105,8 @@ describe("templates", () => {
 });
 
 describe("feed-forward sign type", () => {
-  // Coherent when sign(X->Z) = sign(X->Y) * sign(Y->Z): domain notes section 2
-  // (the definition). Type numbers 1-4: common practice; the table is from
+  // Coherent when sign(X->Z) = sign(X->Y) * sign(Y->Z) (the definition: Mangan & Alon 2003,
+  // PNAS 100:11980). Type numbers 1-4: common practice; the table is from
   // memory of Mangan & Alon 2003, PNAS 100:11980, Fig. 1.
   test("the C1-FFL templates are coherent type 1 and the I1-FFL template incoherent type 1", async () => {
     const r = await viewer.get("/api/templates").expect(200);

@@ -49,7 +49,7 @@ describe("npm run sim", () => {
       // regime.json: one of the documented labels with its evidence; no stochastic classifier yet (docs/regimes.md)
       const regime = JSON.parse(readFileSync(path.join(dir, "a", "regime.json"), "utf8"));
       assert.ok(REGIME_LABELS.includes(regime.deterministic.label), regime.deterministic.label);
-      // the C1-FFL AND filters brief pulses (persistence detection, domain notes section 2): the example's
+      // the C1-FFL AND filters brief pulses (persistence detection: Mangan, Zaslaver & Alon 2003, J Mol Biol 334:197, from memory): the example's
       // 2-5 min spikes rarely pass, its 60 min exposure almost always does
       assert.equal(regime.deterministic.label, "persistence filter");
       assert.equal(typeof regime.deterministic.evidence, "object");

@@ -72,7 +72,7 @@ describe("C1-FFL AND against its matched simple-regulation control", () => {
     assertCloseTo(b.theta, a.theta, { rel: 1e-12 });
     assert.equal(b.windowMinutes, a.windowMinutes);
     assert.equal(b.outputLifetimeMinutes, a.outputLifetimeMinutes);
-    // simple regulation from zero: T1/2 = ln 2 / a (closed form, domain notes section 2)
+    // simple regulation from zero: T1/2 = ln 2 / a (closed form of the linear ODE)
     assertCloseTo(halfRiseTime(control)!, Math.log(2) / 0.1, { rel: 1e-5 });
     // the ON delay is the mean-field crossing of half the ON steady state (ODE check on the run grid)
     const sol = solveOde(stepSpec);

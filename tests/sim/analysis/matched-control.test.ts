@@ -34,7 +34,7 @@ describe("makeMatchedControl", () => {
       assert.equal(control.systemSize, systemSize);
     }
     // the incoherent circuit accelerates the response: T1/2 below the control's ln 2 / a (closed form of the
-    // linear ODE, domain notes section 2; response acceleration by the I1-FFL: Mangan & Alon 2003, PNAS 100:11980, from memory)
+    // linear ODE; response acceleration by the I1-FFL: Mangan & Alon 2003, PNAS 100:11980, from memory)
     const spec = specFor(templates.i1ffl.circuit);
     assert.ok(halfRiseTime(spec)! < halfRiseTime(makeMatchedControl(spec))!);
   });

@@ -1,8 +1,8 @@
 /**
  * C1-FFL AND in the large-system limit (Kurtz 1972, J Chem Phys 57:2976): with
  * counts, K and zero-order rates scaled by the system size Omega = 1000, the
- * mean first time Y reaches Kyz tends to T_on (closed form, domain notes
- * section 2) and the mean Z-crossing delay to the ODE's crossing time.
+ * mean first time Y reaches Kyz tends to T_on (closed form of the linear ODE
+ * Y(t) = Y_st (1 - e^{-a_y t}) solved for Y = Kyz) and the mean Z-crossing delay to the ODE's crossing time.
  * Tolerance: 4 standard errors of the mean delay (SE from the replicates' SD)
  * plus an O(1/Omega) finite-size allowance of T/Omega.
  */

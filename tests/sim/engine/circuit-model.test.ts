@@ -146,7 +146,7 @@ describe("run-level helpers", () => {
       seed: "tpl",
     });
 
-  test("resolveThreshold: half the ON steady state, window 3 lifetimes of the output (domain notes section 5)", () => {
+  test("resolveThreshold: half the ON steady state, window 3 lifetimes of the output (Linger's own rule, docs/metrics.md)", () => {
     const t = resolveThreshold(specFor("simple"));
     // ON steady state: X = 100, f = 100^2/(50^2+100^2) = 0.8, Z = 20 * 0.8 / 0.1 = 160
     assertCloseTo(t.onSteadyState, 160, { rel: 1e-6 });

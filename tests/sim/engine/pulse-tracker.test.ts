@@ -1,6 +1,6 @@
 /**
- * Pulse tracker: hand-worked paths against the definitions of domain notes
- * section 5 (expected values computed by hand from those definitions).
+ * Pulse tracker: hand-worked paths against Linger's own definitions
+ * (docs/metrics.md; expected values computed by hand from those definitions).
  */
 import { test, describe } from "node:test";
 import assert from "node:assert/strict";

@@ -1,6 +1,6 @@
 /**
- * The mean-field solver against closed forms of linear ODEs (domain notes
- * section 2), to 1e-6 relative.
+ * The mean-field solver against closed forms of linear ODEs (each derived in
+ * its test name from the linear step response), to 1e-6 relative.
  */
 import { test, describe } from "node:test";
 import assert from "node:assert/strict";
@@ -41,7 +41,7 @@ describe("ODE solver (Dormand-Prince 5(4)) against closed forms", () => {
     assertCloseTo(sol.values[ng - 1], b / a / 2, { rel: 1e-6 }, "half of the steady state at T1/2");
   });
 
-  test("C1-FFL AND: Y reaches Kyz at T_on = (1/a_y) ln(1/(1 - Kyz/Y_st)), no delay at OFF (closed form, domain notes section 2)", () => {
+  test("C1-FFL AND: Y reaches Kyz at T_on = (1/a_y) ln(1/(1 - Kyz/Y_st)), no delay at OFF (closed form of the linear ODE; sign-sensitive delay: Mangan, Zaslaver & Alon 2003, J Mol Biol 334:197, from memory)", () => {
     const by = 10,
       ay = 0.05,
       kyz = 100;
@@ -82,7 +82,7 @@ describe("ODE solver (Dormand-Prince 5(4)) against closed forms", () => {
     assertCloseTo(sol.values[1], kyz, { rel: 1e-6 }, "Y(T_on) = Kyz");
   });
 
-  test("I1-FFL: Z reaches half its final level at T1/2 = (1/a_z) ln(2F/(2F-1)) < ln 2 / a_z (closed form, domain notes section 2)", () => {
+  test("I1-FFL: Z reaches half its final level at T1/2 = (1/a_z) ln(2F/(2F-1)) < ln 2 / a_z (closed form of the linear ODE; acceleration: Mangan & Alon 2003, PNAS 100:11980, from memory)", () => {
     // Z made at b while the activator signal X is on (constant here); the repressor Y is a signal
     // stepped on at t_s = 20 > T1/2, dividing production by F = 1 + Y_on (K = 1, n = 1).
     const b = 20,

@@ -1,6 +1,6 @@
 /**
  * The deterministic behaviour label against closed-form stability boundaries
- * of classic circuits (domain notes section 9), in counts with system size
+ * of classic circuits (sources beside each check), in counts with system size
  * Omega = 100.
  */
 import { test, describe } from "node:test";

@@ -1,6 +1,6 @@
 /**
- * The existing feed-forward templates' deterministic labels (domain notes
- * section 2): the incoherent type-1 circuit makes a pulse under a sustained
+ * The existing feed-forward templates' deterministic labels (Mangan &
+ * Alon 2003, PNAS 100:11980): the incoherent type-1 circuit makes a pulse under a sustained
  * input (pulse generation, common practice), and stops doing so when its
  * repressor's K is raised so far that the repression no longer bites; the
  * coherent and simple circuits settle without a pulse (their Jacobians are

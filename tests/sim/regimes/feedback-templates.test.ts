@@ -1,6 +1,6 @@
 /**
  * Each feedback template shows its textbook behaviour at its defaults
- * (domain notes sections 2 and 9): negative autoregulation settles without
+ * (sources beside each check): negative autoregulation settles without
  * ringing (a one-gene loop has a single real eigenvalue), the mutual-repression
  * latch at a = 4 > 2 is bistable (Cherry & Adler 2000, J Theor Biol 203:117), the
  * ring of three at a = 10, n = 3 is past its Hopf point a = 3 * 2^(1/3) and

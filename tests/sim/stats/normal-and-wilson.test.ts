@@ -31,7 +31,7 @@ describe("normal distribution", () => {
 });
 
 describe("Wilson score interval", () => {
-  test("50 of 100 at 95% is [0.4038, 0.5962] (Wilson 1927, JASA 22:209; domain notes section 4)", () => {
+  test("50 of 100 at 95% is [0.4038, 0.5962] (Wilson 1927, JASA 22:209)", () => {
     const [lo, hi] = wilson(50, 100);
     assertCloseTo(lo, 0.4038, { abs: 5e-5 });
     assertCloseTo(hi, 0.5962, { abs: 5e-5 });

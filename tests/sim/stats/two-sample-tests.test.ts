@@ -29,7 +29,7 @@ describe("two-sample Kolmogorov-Smirnov", () => {
     assertCloseTo(kolmogorovUpperTail(1.1799999), kolmogorovUpperTail(1.18), { abs: 1e-6 });
   });
 
-  test("5% critical value is 1.358 sqrt((n+m)/(nm)) (domain notes section 4)", () => {
+  test("5% critical value is 1.358 sqrt((n+m)/(nm)) (asymptotic Kolmogorov distribution, Smirnov 1948, Ann Math Stat 19:279, from memory)", () => {
     for (const [n, m] of [
       [50, 50],
       [100, 40],
