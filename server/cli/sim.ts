@@ -40,7 +40,7 @@ import {
 } from "@/sim";
 import type { PulseStat } from "@/shared/schemas/run-spec";
 import { createSimPool } from "@/server/compute/pool";
-import { summarizeRun, type ReplicateTotals } from "@/sim/analysis";
+import { runSettingsBlock, summarizeRun, type ReplicateTotals } from "@/sim/analysis";
 import { runAllChunks } from "@/server/compute/run-all-chunks";
 import { exportSbml } from "@/sim/sbml";
 import { gridSeries, statsHashInMemory } from "@/server/compute/run-store";
@@ -297,6 +297,7 @@ export async function runCli(argv: string[]): Promise<void> {
     threshold,
     noiseDurationMinutes: spec.threshold.noiseDurationMinutes,
     endTimeMinutes: spec.endTimeMinutes,
+    settings: runSettingsBlock(spec, threshold),
   });
   writeFileSync(
     path.join(args.out, "analysis.json"),

@@ -13,7 +13,7 @@ import type { Db } from "@/db/client";
 import type { RunSpec } from "@/shared/schemas/run-spec";
 import type { RunSummary } from "@/shared/schemas/analysis";
 import { reduceChunks, resolveThreshold, solveOde } from "@/sim";
-import { summarizeRun } from "@/sim/analysis";
+import { runSettingsBlock, summarizeRun } from "@/sim/analysis";
 import {
   computeStatsHash,
   fromBlob,
@@ -63,6 +63,7 @@ export default function finalise(task: FinaliseTask): FinaliseResult {
     const series = gridSeries(spec, mean, sd, ode);
     const replicates = readReplicateRows(db, task.runId);
     const pulses = readPulseStats(db, task.runId);
+    const threshold = resolveThreshold(spec);
     const summary = summarizeRun({
       pulses,
       replicates: replicates.map((r) => ({
@@ -72,8 +73,10 @@ export default function finalise(task: FinaliseTask): FinaliseResult {
         outputMean: r.outputMean ?? NaN,
         outputVar: r.outputVar ?? NaN,
       })),
-      threshold: resolveThreshold(spec),
+      threshold,
       noiseDurationMinutes: spec.threshold?.noiseDurationMinutes ?? 10,
+      endTimeMinutes: spec.endTimeMinutes,
+      settings: runSettingsBlock(spec, threshold),
     });
     return {
       series,

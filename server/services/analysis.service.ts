@@ -7,7 +7,15 @@ import type { AppContext } from "@/server/context";
 import { schema } from "@/db/client";
 import type { RunSpec } from "@/shared/schemas/run-spec";
 import type { RunSummary } from "@/shared/schemas/analysis";
-import { accelerationFigures, compareRuns, delaysOf, widthsOf, makeMatchedControl } from "@/sim/analysis";
+import {
+  accelerationFigures,
+  compareRuns,
+  delaysOf,
+  widthsOf,
+  makeMatchedControl,
+  runSettingsBlock,
+} from "@/sim/analysis";
+import { resolveThreshold } from "@/sim/engine/resolve-threshold";
 import { badRequest, conflict, notFound } from "@/server/http-error";
 import { checkLimits, getRunRow, insertRun } from "./runs.service";
 import { readPulseStats } from "@/server/compute/run-store";
@@ -25,7 +33,7 @@ export function compareLabRuns(ctx: AppContext, labId: string, runIds: string[])
   const unfinished = ordered.filter((r) => !r.summary);
   if (unfinished.length)
     throw conflict(`These runs have no results yet: ${unfinished.map((r) => r.name).join(", ")}.`, "not_finished");
-  return compareRuns(
+  const compared = compareRuns(
     ordered.map((r) => {
       const pulses = readPulseStats(ctx.db, r.id);
       return {
@@ -37,6 +45,23 @@ export function compareLabRuns(ctx: AppContext, labId: string, runIds: string[])
       };
     }),
   );
+  // Each run's settings block, so differences in threshold, window, method, end time or replicates can be told.
+  return {
+    ...compared,
+    runs: compared.runs.map((c, i) => ({ ...c, settings: settingsOf(ordered[i]) })),
+  };
+}
+
+/** The stored summary's settings block, else one resolved from the spec; null when the threshold cannot be resolved. */
+function settingsOf(row: { spec: unknown; summary: unknown }) {
+  const stored = (row.summary as RunSummary | null)?.settings;
+  if (stored) return stored;
+  try {
+    const spec = row.spec as RunSpec;
+    return runSettingsBlock(spec, resolveThreshold(spec));
+  } catch {
+    return null;
+  }
 }
 
 /** Creates and queues the matched simple-regulation control of a run. */

@@ -31,6 +31,7 @@ import {
 import { badRequest, conflict, notFound, tooMany, parseOr400 } from "@/server/http-error";
 import { newId } from "@/server/ids";
 import { fromBlob } from "@/server/compute/run-store";
+import { runSettingsBlock } from "@/sim/analysis/run-settings";
 import { purgeDeletedTraceSets } from "./traces.service";
 import { assertRestorable } from "./undo";
 
@@ -385,8 +386,11 @@ export function runDetail(ctx: AppContext, id: string): RunDetail {
   const names = userNames(ctx, [row.createdBy]);
   const spec = row.spec as RunSpec;
   let threshold: RunDetail["threshold"] = null;
+  const stored = (row.summary as RunSummary | null)?.settings ?? null;
+  let settings: RunDetail["settings"] = stored;
   try {
     const t = resolveThreshold(spec);
+    settings ??= runSettingsBlock(spec, t);
     threshold = {
       theta: t.theta,
       downTheta: t.downTheta,
@@ -413,6 +417,7 @@ export function runDetail(ctx: AppContext, id: string): RunDetail {
     statsHash: row.statsHash,
     summary: row.summary ?? null,
     threshold,
+    settings,
   };
 }
 

@@ -48,6 +48,93 @@ export const ThresholdUsedSchema = z.object({
 });
 export type ThresholdUsed = z.infer<typeof ThresholdUsedSchema>;
 
+/**
+ * The simulation method of a run in words and facts (docs/metrics.md, "Method"): exact methods sample
+ * the chemical master equation's paths exactly; approximate ones trade accuracy for speed and say so.
+ */
+export const MethodLabelSchema = z.object({
+  /** The run spec's method. */
+  name: z.enum(["direct", "tauLeap"]),
+  exact: z.boolean(),
+  /** "exact" or "approximate": the word every page, export and bundle shows. */
+  accuracy: z.enum(["exact", "approximate"]),
+  /** One line for people, e.g. "Approximate: tau-leaping (Cao, Gillespie & Petzold 2006), eps = 0.03". */
+  label: z.string(),
+  /** The published source of the method. */
+  reference: z.string(),
+  /** Step control of an approximate method; null for an exact one. */
+  stepControl: z
+    .object({
+      /** Error-control parameter epsilon of the leap selection (bound on the relative change of each propensity). */
+      epsilon: num,
+      /** Reactions with fewer firings than this left before a reactant runs out are critical (fired one at a time). */
+      criticalFirings: z.number().int(),
+      /** Exact direct-method steps taken instead when a leap would be shorter than `shortLeapFactor / a0`. */
+      exactStepsWhenShort: z.number().int(),
+      shortLeapFactor: num,
+      /** Plain words. */
+      description: z.string(),
+    })
+    .nullable(),
+});
+export type MethodLabel = z.infer<typeof MethodLabelSchema>;
+
+/**
+ * The one settings block of a run (docs/metrics.md, "Settings"): every choice that changes the figures,
+ * with where the threshold and window came from. Shown on run and compare pages, written in
+ * analysis.json, every export's data dictionary (datapackage.json) and bundles.
+ */
+export const RunSettingsBlockSchema = z.object({
+  /** Up-crossing threshold theta, molecules of the output; null when never crossed (a run without input pulses). */
+  thresholdMolecules: nnum,
+  /** Down-crossing level theta*(1-h), molecules; null with thresholdMolecules. */
+  downThresholdMolecules: nnum,
+  /** "set" = given in the run spec; "default" = the rule in thresholdRule; "none" = no input pulses. */
+  thresholdSource: z.enum(["set", "default", "none"]),
+  /** How the threshold was found, in words with the numbers used. */
+  thresholdRule: z.string(),
+  /** Mean-field output at the OFF steady state, molecules; null when it could not be computed. */
+  offSteadyStateMolecules: nnum,
+  /** Highest mean-field output under constant ON input from the OFF steady state within the end time, molecules. */
+  onMaximumMolecules: nnum,
+  /** Hysteresis fraction h. */
+  hysteresis: num,
+  windowMinutes: num,
+  windowSource: z.enum(["set", "default"]),
+  outputLifetimeMinutes: nnum,
+  /** Pulses shorter than this count as noise for the false-pass rate. */
+  noiseDurationMinutes: num,
+  endTimeMinutes: num,
+  gridStepMinutes: num,
+  method: MethodLabelSchema,
+  seed: z.string(),
+  replicates: count,
+  /** Output species whose crossings are detected. */
+  outputSpecies: z.string(),
+  /** Warnings about the settings in plain words (threshold below a few molecules, above the ODE's reach...). */
+  warnings: z.array(z.string()),
+});
+export type RunSettingsBlock = z.infer<typeof RunSettingsBlockSchema>;
+
+/**
+ * Which pulses a pooled delay figure covers: the duration classes that respond in most replicates
+ * (pass probability above 0.5), where censoring at the window end is rare and says little about duration.
+ */
+export const DelayCoverageSchema = z.object({
+  /** Durations pooled, minutes, ascending. */
+  durations: z.array(num),
+  /** Durations left out (pass probability at most 0.5, or no evaluable pulse), minutes. */
+  leftOut: z.array(num),
+  /** Evaluable pulses pooled. */
+  pulses: count,
+  /** "Pulses of 20 to 80 min (3 of 7 durations; 1,200 pulses), the durations passed in most replicates", or why none. */
+  text: z.string(),
+});
+export type DelayCoverage = z.infer<typeof DelayCoverageSchema>;
+
+/** A median read from a Kaplan-Meier curve: a number, "not reached" (fewer than half responded), or no pulses. */
+export const MedianStatusSchema = z.enum(["estimate", "not-reached", "no-pulses"]);
+
 export const ByDurationEntrySchema = z.object({
   /** Input pulse duration (the pulse records' durationBin), minutes. */
   duration: num,
@@ -61,6 +148,8 @@ export const ByDurationEntrySchema = z.object({
   /** Kaplan-Meier median response delay (censoring respected); null when fewer than half responded. */
   medianDelay: nnum,
   medianDelayCi: openInterval,
+  /** Whether medianDelay is a number, "not reached" or undefined (no pulses). */
+  medianDelayStatus: MedianStatusSchema,
   /** Evaluable pulses with no response in their window. */
   censored: count,
   /** Pulses that started with the output already above threshold. */
@@ -87,9 +176,10 @@ export const DelaySummarySchema = z.object({
   evaluable: count,
   responded: count,
   censored: count,
-  /** Kaplan-Meier median with a Brookmeyer-Crowley 95% interval; null = not reached. */
+  /** Kaplan-Meier median with a Brookmeyer-Crowley 95% interval; null = not reached (see medianStatus). */
   median: nnum,
   medianCi: openInterval,
+  medianStatus: MedianStatusSchema,
   /** Kaplan-Meier quantiles of the delay; null = not reached. */
   quantiles: z.object({ q10: nnum, q25: nnum, q50: nnum, q75: nnum, q90: nnum }),
   /** Plain description of the observed (uncensored) delays only. */
@@ -173,6 +263,7 @@ export const DelayCostSchema = z.object({
   responded: count,
   medianDelay: nnum,
   medianDelayCi: openInterval,
+  medianDelayStatus: MedianStatusSchema,
   meanObservedDelay: nnum,
 });
 export type DelayCost = z.infer<typeof DelayCostSchema>;
@@ -203,6 +294,8 @@ export type NoiseSummary = z.infer<typeof NoiseSummarySchema>;
 export const RunSummarySchema = z.object({
   schemaVersion: z.literal(1),
   threshold: ThresholdUsedSchema,
+  /** The run's settings block and method label; absent for uploaded traces and for summaries stored before it existed. */
+  settings: RunSettingsBlockSchema.optional(),
   noiseDurationMinutes: num,
   counts: z.object({
     replicates: count,
@@ -226,7 +319,12 @@ export const RunSummarySchema = z.object({
   /** Pass fraction of pulses shorter than the noise duration; null when there are none. */
   falsePassRate: nnum,
   falsePass: FalsePassSchema.nullable(),
+  /**
+   * Response delay pooled over the durations that respond in most replicates only (delayCoverage says which);
+   * the delay of every duration class is in byDuration (Kaplan-Meier within the class).
+   */
   delay: DelaySummarySchema,
+  delayCoverage: DelayCoverageSchema,
   offDelay: DelaySummarySchema,
   delayCost: DelayCostSchema.nullable(),
   widths: z.object({ summary: DescriptionSchema, histogram: HistogramSchema }),
@@ -280,6 +378,8 @@ export type ComparisonPair = z.infer<typeof ComparisonPairSchema>;
 export const ComparisonRunSchema = z.object({
   id: z.string(),
   name: z.string(),
+  /** The run's settings block (threshold, window, method, end time, replicates...); null when it cannot be resolved. */
+  settings: RunSettingsBlockSchema.nullable().optional(),
   headline: z.object({
     evaluable: count,
     passed: count,

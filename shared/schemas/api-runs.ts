@@ -3,7 +3,7 @@ import { z } from "zod";
 import { CircuitSchema, NameSchema, ParameterRefSchema } from "./circuit";
 import { InputProgramSchema } from "./input-program";
 import { RunSpecSchema, SeedSchema } from "./run-spec";
-import { AccelerationSchema } from "./analysis";
+import { AccelerationSchema, RunSettingsBlockSchema } from "./analysis";
 
 export const RUN_STATUS = ["queued", "running", "finished", "failed", "capped", "cancelled"] as const;
 export type RunStatus = (typeof RUN_STATUS)[number];
@@ -123,6 +123,12 @@ export const RunDetailSchema = RunListItemSchema.extend({
       outputLifetimeMinutes: z.number(),
     })
     .nullable(),
+  /**
+   * The run's settings block (threshold and its source, window, hysteresis, end time, grid step, method label,
+   * seed, replicates, warnings): the finished summary's when it has one, else resolved from the spec; null when
+   * the threshold cannot be resolved.
+   */
+  settings: RunSettingsBlockSchema.nullable(),
   /** For a reproduction: identical statistics or the first difference. */
   reproduction: z
     .object({

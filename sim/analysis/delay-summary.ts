@@ -5,6 +5,7 @@
  * survival curve.
  */
 import type { DelaySummary } from "@/shared/schemas/analysis";
+import type { KaplanMeierResult } from "@/sim/stats/kaplan-meier";
 import { describe } from "@/sim/stats/describe";
 import { histogram } from "@/sim/stats/histogram";
 import { kaplanMeier, kmQuantile, kmQuantileInterval, type SurvivalObservation } from "@/sim/stats/kaplan-meier";
@@ -30,6 +31,7 @@ export function summarizeDelays(observations: readonly SurvivalObservation[]): D
     censored: km.censored,
     median: kmQuantile(km, 0.5),
     medianCi: kmQuantileInterval(km, 0.5),
+    medianStatus: medianStatus(km),
     quantiles: {
       q10: kmQuantile(km, 0.1),
       q25: kmQuantile(km, 0.25),
@@ -41,4 +43,10 @@ export function summarizeDelays(observations: readonly SurvivalObservation[]): D
     histogram: histogram(observed),
     survival,
   };
+}
+
+/** "estimate" when the Kaplan-Meier curve falls to one half, "not-reached" when it stays above, "no-pulses" with no observations. */
+export function medianStatus(km: KaplanMeierResult): DelaySummary["medianStatus"] {
+  if (km.n === 0) return "no-pulses";
+  return kmQuantile(km, 0.5) === null ? "not-reached" : "estimate";
 }

@@ -1,6 +1,8 @@
 /** Noise-filter analysis of runs and comparisons (pure functions; docs/metrics.md). */
-export { summarizeRun, type SummarizeRunInput, type ReplicateTotals } from "./summarize-run";
-export { summarizeDelays } from "./delay-summary";
+export { summarizeRun, MOST_REPLICATES, type SummarizeRunInput, type ReplicateTotals } from "./summarize-run";
+export { summarizeDelays, medianStatus } from "./delay-summary";
+export { methodLabel } from "./method-label";
+export { runSettingsBlock } from "./run-settings";
 export { evaluablePulses, delaysOf, widthsOf, windowEnds } from "./pulse-selection";
 export { ks2, wasserstein1, wilson } from "@/sim/stats";
 export { compareRuns, type RunToCompare } from "./compare-runs";

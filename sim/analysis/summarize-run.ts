@@ -13,14 +13,20 @@
  * @example summarizeRun({ pulses, replicates, threshold, noiseDurationMinutes: 10 }).byDuration
  */
 import type { PulseStat } from "@/shared/schemas/run-spec";
-import type { ByDurationEntry, RunSummary, ThresholdUsed } from "@/shared/schemas/analysis";
+import type {
+  ByDurationEntry,
+  DelayCoverage,
+  RunSettingsBlock,
+  RunSummary,
+  ThresholdUsed,
+} from "@/shared/schemas/analysis";
 import { describe, mean } from "@/sim/stats/describe";
 import { histogram } from "@/sim/stats/histogram";
 import { kaplanMeier, kmQuantile, kmQuantileInterval, type SurvivalObservation } from "@/sim/stats/kaplan-meier";
 import { fitLogisticPass } from "@/sim/stats/logistic-fit";
 import { logisticGoodnessOfFit } from "@/sim/stats/logistic-goodness-of-fit";
 import { wilson } from "@/sim/stats/wilson-interval";
-import { summarizeDelays } from "./delay-summary";
+import { medianStatus, summarizeDelays } from "./delay-summary";
 import { passCurveD50 } from "./pass-curve-d50";
 import { windowEnds } from "./pulse-selection";
 import { durationNormalizer } from "./normalize-duration";
@@ -55,7 +61,12 @@ export interface SummarizeRunInput {
   endTimeMinutes?: number;
   /** Measured traces have no steady-state output moments per cell: leave the noise figures empty without a remark. */
   measuredTraces?: boolean;
+  /** The run's settings block (sim/analysis/run-settings.ts); its warnings are repeated in notes. */
+  settings?: RunSettingsBlock;
 }
+
+/** A duration class responds "in most replicates" when its pass probability is above this. */
+export const MOST_REPLICATES = 0.5;
 
 const finite = (x: number | null | undefined): number | null =>
   x !== null && x !== undefined && Number.isFinite(x) ? x : null;
@@ -117,6 +128,7 @@ export function summarizeRun(input: SummarizeRunInput): RunSummary {
       ci: n > 0 ? wilson(passed, n) : null,
       medianDelay: n > 0 ? kmQuantile(km, 0.5) : null,
       medianDelayCi: n > 0 ? kmQuantileInterval(km, 0.5) : [null, null],
+      medianDelayStatus: medianStatus(km),
       censored: km.censored,
       excluded: g.excluded,
       medianWidth: medianOf(g.rows.flatMap((r) => r.p.widths)),
@@ -175,9 +187,16 @@ export function summarizeRun(input: SummarizeRunInput): RunSummary {
       responded: observed.length,
       medianDelay: kmQuantile(km, 0.5),
       medianDelayCi: kmQuantileInterval(km, 0.5),
+      medianDelayStatus: medianStatus(km),
       meanObservedDelay: observed.length ? mean(observed) : null,
     };
   }
+
+  // ---- pooled response delay: only the durations that respond in most replicates
+  const responsive = byDuration.filter((e) => e.passProbability !== null && e.passProbability > MOST_REPLICATES);
+  const responsiveSet = new Set(responsive.map((e) => e.duration));
+  const pooledRows = rows.filter((r) => responsiveSet.has(normalizeDuration(r.p.durationBin)));
+  const delayCoverage = coverage(byDuration, responsive, pooledRows.length);
 
   // ---- widths and pulse generation (evaluable pulses)
   const widths = rows.flatMap((r) => r.p.widths);
@@ -212,6 +231,7 @@ export function summarizeRun(input: SummarizeRunInput): RunSummary {
   }
 
   // ---- counts and notes
+  if (input.settings) notes.push(...input.settings.warnings);
   const capped = replicates.filter((r) => r.capped).length;
   const events = replicates.reduce((s, r) => s + r.events, 0);
   if (capped > 0)
@@ -230,6 +250,7 @@ export function summarizeRun(input: SummarizeRunInput): RunSummary {
   return {
     schemaVersion: 1,
     threshold,
+    ...(input.settings ? { settings: input.settings } : {}),
     noiseDurationMinutes,
     counts: {
       replicates: replicates.length,
@@ -257,7 +278,8 @@ export function summarizeRun(input: SummarizeRunInput): RunSummary {
     },
     falsePassRate: falsePass ? falsePass.rate : null,
     falsePass,
-    delay: summarizeDelays(rows.map((r) => r.delayObs)),
+    delay: summarizeDelays(pooledRows.map((r) => r.delayObs)),
+    delayCoverage,
     offDelay: summarizeDelays(rows.filter((r) => r.offObs !== null).map((r) => r.offObs as SurvivalObservation)),
     delayCost,
     widths: { summary: describe(widths), histogram: histogram(widths) },
@@ -265,6 +287,35 @@ export function summarizeRun(input: SummarizeRunInput): RunSummary {
     noise: noiseSummary,
     notes,
   };
+}
+
+/** Which durations the pooled delay covers, in words (DelayCoverageSchema). */
+function coverage(all: ByDurationEntry[], responsive: ByDurationEntry[], pulses: number): DelayCoverage {
+  const durations = responsive.map((e) => e.duration);
+  const leftOut = all.filter((e) => !responsive.includes(e)).map((e) => e.duration);
+  const tried = all.filter((e) => e.pulses > 0);
+  let text: string;
+  if (responsive.length === 0) {
+    const best = tried.reduce<ByDurationEntry | null>(
+      (b, e) => (b === null || (e.passProbability ?? 0) > (b.passProbability ?? 0) ? e : b),
+      null,
+    );
+    text =
+      best === null
+        ? "No evaluable pulses: no pooled delay."
+        : `No pulse duration passed in most replicates (highest pass probability ${fmt(100 * (best.passProbability ?? 0))}% at ${fmt(best.duration)} min): no pooled delay; see the delay per duration.`;
+  } else {
+    const idx = responsive.map((e) => tried.indexOf(e));
+    const contiguous = idx.every((k, i) => i === 0 || k === idx[i - 1] + 1);
+    const what =
+      durations.length === 1
+        ? `Pulses of ${fmt(durations[0])} min`
+        : contiguous
+          ? `Pulses of ${fmt(durations[0])} to ${fmt(durations[durations.length - 1])} min`
+          : `Pulses of ${durations.slice(0, -1).map(fmt).join(", ")} and ${fmt(durations[durations.length - 1])} min`;
+    text = `${what} (${durations.length} of ${tried.length} durations, ${pulses} pulses), the durations passed in more than half of the pulses.`;
+  }
+  return { durations, leftOut, pulses, text };
 }
 
 function fmt(x: number): string {

@@ -23,6 +23,17 @@ export interface ResolvedThreshold {
   windowMinutes: number;
   outputLifetimeMinutes: number;
   onSteadyState: number;
+  /** "set" = threshold.value of the spec; "default" = the rule above; "none" = no input pulses (never crossed). */
+  thresholdSource: "set" | "default" | "none";
+  windowSource: "set" | "default";
+  /** How theta was found, in words with the numbers used. */
+  rule: string;
+  /** Mean-field output at the OFF steady state, molecules (NaN when unknown). */
+  offSteadyState: number;
+  /** Highest mean-field output under constant ON input from OFF within the end time, molecules (NaN when unknown). */
+  onMaximum: number;
+  /** Plain-words warnings about the threshold. */
+  warnings: string[];
 }
 
 /** Sum of first-order removal rate constants of the output species (per minute), 0 when none. */
@@ -58,6 +69,12 @@ export function resolveThreshold(spec: RunSpec): ResolvedThreshold {
       windowMinutes: s.windowMinutes ?? 3 * lifetime,
       outputLifetimeMinutes: lifetime,
       onSteadyState: NaN,
+      thresholdSource: "none",
+      windowSource: s.windowMinutes !== undefined ? "set" : "default",
+      rule: "No input pulses: nothing to detect, the threshold is never crossed.",
+      offSteadyState: NaN,
+      onMaximum: NaN,
+      warnings: [],
     };
   }
   let onSteadyState = NaN;
@@ -107,6 +124,12 @@ export function resolveThreshold(spec: RunSpec): ResolvedThreshold {
     windowMinutes: window,
     outputLifetimeMinutes: lifetime,
     onSteadyState,
+    thresholdSource: needOde ? "default" : "set",
+    windowSource: s.windowMinutes !== undefined ? "set" : "default",
+    rule: needOde ? `Half the mean-field ON steady state (${onSteadyState} molecules).` : "Set in the run.",
+    offSteadyState: NaN,
+    onMaximum: onSteadyState,
+    warnings: [],
   };
   if (cache.size > 32) cache.clear();
   cache.set(setup.key, resolved);

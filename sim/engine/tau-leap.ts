@@ -21,9 +21,16 @@ import type { KernelContext } from "./generate-kernel";
 import { AleaStream } from "@/sim/random/alea-stream";
 import { samplePoisson } from "@/sim/random/poisson";
 
-const EPS = 0.03;
-const N_CRITICAL = 10;
-const SSA_STEPS = 100;
+/** Step control of the leap selection, exported so labels (sim/analysis/method-label.ts) state what ran. */
+export const TAU_LEAP_STEP_CONTROL = {
+  epsilon: 0.03,
+  criticalFirings: 10,
+  exactStepsWhenShort: 100,
+  shortLeapFactor: 10,
+} as const;
+const EPS = TAU_LEAP_STEP_CONTROL.epsilon;
+const N_CRITICAL = TAU_LEAP_STEP_CONTROL.criticalFirings;
+const SSA_STEPS = TAU_LEAP_STEP_CONTROL.exactStepsWhenShort;
 
 export function tauLeapRun(
   model: CompiledModel,
@@ -110,7 +117,7 @@ export function tauLeapRun(
         const bound = Math.max((EPS * x[i]) / g, 1);
         tau1 = Math.min(tau1, bound / Math.abs(mu[i]), (bound * bound) / s2[i], bound / cons[i]);
       }
-      if (a0 > 0 && tau1 < 10 / a0) {
+      if (a0 > 0 && tau1 < TAU_LEAP_STEP_CONTROL.shortLeapFactor / a0) {
         ssaLeft = SSA_STEPS;
         mode = "ssa";
       } else mode = "leap";
