@@ -19,6 +19,7 @@ test("bundle export, import into another lab and verified reproduction", async (
     const bundle = JSON.parse(b.text);
     assert.equal(bundle.format, "linger-run-bundle");
     assert.equal(bundle.spec.seed, "bundle-seed");
+    assert.match(original.statsHash, /^[0-9a-f]{64}$/);
     assert.equal(bundle.statsHash, original.statsHash);
     assert.equal(bundle.runtime.node, process.versions.node);
     assert.ok(bundle.runtime.v8);

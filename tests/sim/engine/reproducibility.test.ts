@@ -165,6 +165,7 @@ describe("run mechanics", () => {
 
   test("event cap: stopped at cap, never finished; NaN grid after the stop", () => {
     const r = simulateChunk(spec({ eventCapPerReplicate: 500 }), 0, 2, { trajectoryReplicates: 2 });
+    assert.equal(r.replicates.length, 2);
     for (const rep of r.replicates) {
       assert.equal(rep.capped, true);
       assert.equal(rep.events, 500);
