@@ -310,7 +310,11 @@ export async function runCli(argv: string[]): Promise<void> {
         passed: b.passed,
         counted: b.pulses - b.excluded,
       }));
-  const regime = runRegime(setup.model, threshold.theta, passCurve);
+  const regime = runRegime(setup.model, threshold.theta, passCurve, {
+    seed: spec.seed,
+    hysteresis: threshold.hysteresis,
+    outputLifetimeMinutes: threshold.outputLifetimeMinutes,
+  });
   writeFileSync(path.join(args.out, "regime.json"), JSON.stringify(regime, null, 2) + "\n");
   if (!args.quiet)
     process.stderr.write(
