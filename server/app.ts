@@ -7,6 +7,7 @@ import compression from "compression";
 import { existsSync } from "node:fs";
 import { resolve, join } from "node:path";
 import type { AppContext } from "./context";
+import { API_LIMITS } from "@/shared/limits";
 import { apiNotFound, errorHandler } from "@/server/middleware/error-handler";
 import { csrfGuard } from "@/server/middleware/csrf";
 import { installAuth } from "@/server/middleware/session";
@@ -21,7 +22,7 @@ export function createApp(ctx: AppContext) {
 
   // ---- API
   const api = Router();
-  api.use(express.json({ limit: "2mb" }));
+  api.use(express.json({ limit: API_LIMITS.maxJsonBodyBytes }));
   api.use((_req, res, next) => {
     res.setHeader("Cache-Control", "no-store");
     next();

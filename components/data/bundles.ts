@@ -10,6 +10,7 @@ import { api } from "./api";
 import { useLabId } from "./current-lab";
 import { runKeys } from "./runs";
 import { RunDetailSchema } from "@/shared/schemas/api-runs";
+import { API_LIMITS, megabytes } from "@/shared/limits";
 
 export function useReproduceRun() {
   const qc = useQueryClient();
@@ -36,8 +37,8 @@ export function useImportBundle() {
 
 export type PickedBundle = { name: string; json: unknown } | { name: string; parseError: string };
 
-/** Largest bundle file read (a bundle is a few kB; this only guards against picking the wrong file). */
-export const MAX_BUNDLE_BYTES = 5 * 1024 * 1024;
+/** Largest bundle file read: what the server's JSON body limit lets through (a bundle is a few kB). */
+const MAX_BUNDLE_BYTES = API_LIMITS.maxJsonBodyBytes;
 
 /** Picks a JSON file with the system picker and parses it; null when cancelled. */
 export async function pickBundleFile(): Promise<PickedBundle | null> {
@@ -49,7 +50,7 @@ export async function pickBundleFile(): Promise<PickedBundle | null> {
   if (r.canceled || !r.assets?.length) return null;
   const a = r.assets[0];
   const size = a.size ?? a.file?.size ?? 0;
-  if (size > MAX_BUNDLE_BYTES) return { name: a.name, parseError: `${a.name} is larger than 5 MB; a run bundle is a small JSON file.` };
+  if (size > MAX_BUNDLE_BYTES) return { name: a.name, parseError: `${a.name} is larger than ${megabytes(MAX_BUNDLE_BYTES)}; a run bundle is a small JSON file.` };
   const text = a.file ? await a.file.text() : await (await fetch(a.uri)).text();
   return parseBundleText(a.name, text);
 }

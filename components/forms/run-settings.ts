@@ -1,4 +1,5 @@
 import { SeedSchema } from "@/shared/schemas/run-spec";
+import { RUN_LIMITS } from "@/shared/limits";
 import { parseNumber } from "./zod-errors";
 
 /** A fresh random seed (letters and digits), shown to the user and editable. */
@@ -32,14 +33,16 @@ export function validateRunForm(v: RunFormValues): Partial<Record<keyof RunFormV
   if (!v.programId) e.programId = "Choose an input program.";
   const reps = parseNumber(v.replicates);
   if (!Number.isInteger(reps) || reps < 1) e.replicates = "Replicates must be a whole number of at least 1.";
-  else if (reps > 100_000) e.replicates = "At most 100,000 replicates.";
+  else if (reps > RUN_LIMITS.maxReplicates)
+    e.replicates = `At most ${RUN_LIMITS.maxReplicates.toLocaleString("en-US")} replicates.`;
   const seed = SeedSchema.safeParse(v.seed);
   if (!seed.success) e.seed = seed.error.issues[0].message;
   const end = parseNumber(v.endTimeMinutes);
   if (!(end > 0)) e.endTimeMinutes = "End time must be a positive number of minutes.";
   const grid = parseNumber(v.gridStepMinutes);
   if (!(grid > 0)) e.gridStepMinutes = "Grid step must be a positive number of minutes.";
-  else if (end > 0 && end / grid > 20_000) e.gridStepMinutes = "At most 20,000 grid points: use a larger step.";
+  else if (end > 0 && end / grid + 1 > RUN_LIMITS.maxGridPoints)
+    e.gridStepMinutes = `At most ${RUN_LIMITS.maxGridPoints.toLocaleString("en-US")} grid points: use a larger step.`;
   if (v.thresholdValue.trim() && !(parseNumber(v.thresholdValue) > 0))
     e.thresholdValue = "Threshold must be positive (or empty for the default).";
   const h = parseNumber(v.hysteresis);

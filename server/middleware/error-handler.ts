@@ -1,6 +1,7 @@
 import type { ErrorRequestHandler, RequestHandler } from "express";
 import { ZodError } from "zod";
 import { HttpError, zodFields } from "@/server/http-error";
+import { API_LIMITS, megabytes } from "@/shared/limits";
 
 /** JSON 404 for unknown /api routes. */
 export const apiNotFound: RequestHandler = (req, res) => {
@@ -32,7 +33,7 @@ export const errorHandler: ErrorRequestHandler = (err, req, res, _next) => {
       err.type === "entity.parse.failed"
         ? "The request body is not valid JSON."
         : err.type === "entity.too.large"
-          ? "The request body is too large."
+          ? `The request body is larger than ${megabytes(API_LIMITS.maxJsonBodyBytes)}.`
           : String(err.message ?? "Bad request.");
     res.status(status).json({ error: { code: err.code ?? err.type ?? "bad_request", message } });
     return;

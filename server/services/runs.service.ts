@@ -7,7 +7,7 @@ import { randomBytes } from "node:crypto";
 import { and, asc, count, desc, eq, inArray, isNotNull, isNull, lt, sql } from "drizzle-orm";
 import type { AppContext } from "@/server/context";
 import { schema } from "@/db/client";
-import { RunSpecSchema, type RunSpec } from "@/shared/schemas/run-spec";
+import { RunSpecSchema, RUN_LIMITS, type RunSpec } from "@/shared/schemas/run-spec";
 import {
   API_LIMITS,
   type LaunchRun,
@@ -135,9 +135,9 @@ export function buildSpec(inputs: ResolvedInputs, settings: RunSettings): RunSpe
 
 export function checkLimits(spec: RunSpec) {
   const gridPoints = Math.floor(spec.endTimeMinutes / spec.gridStepMinutes + 1e-9) + 1;
-  if (gridPoints > 20_001) {
+  if (gridPoints > RUN_LIMITS.maxGridPoints) {
     throw badRequest(
-      `The grid has ${gridPoints} points; at most 20,001 are stored. Use a larger grid step.`,
+      `The grid has ${gridPoints} points; at most ${RUN_LIMITS.maxGridPoints.toLocaleString("en-US")} are stored. Use a larger grid step.`,
       [{ path: "settings.gridStepMinutes", message: "too many grid points" }],
       "limit",
     );

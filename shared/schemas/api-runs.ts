@@ -21,6 +21,8 @@ export const API_LIMITS = {
   maxSweepReplicates: 400_000,
   /** Days a deleted run can be restored. */
   undoDays: 7,
+  /** Largest JSON request body (a run bundle travels inside one). */
+  maxJsonBodyBytes: 2 * 1024 * 1024,
 } as const;
 
 /** Settings of a run: the RunSpec without circuit, program and input signal; the seed is optional (random when absent). */

@@ -72,7 +72,7 @@ describe("run form validation", () => {
     });
     expect(e.replicates).toBe("Replicates must be a whole number of at least 1.");
     expect(e.seed).toBe("seed uses letters, digits and _ . : - only");
-    expect(e.gridStepMinutes).toBe("At most 20,000 grid points: use a larger step.");
+    expect(e.gridStepMinutes).toBe("At most 20,001 grid points: use a larger step.");
     expect(e.hysteresis).toBe("Hysteresis must be between 0 and 0.9.");
   });
 });

@@ -1,5 +1,6 @@
 import React, { useState } from "react";
 import { View } from "react-native";
+import { API_LIMITS } from "@/shared/limits";
 import { useRouter } from "expo-router";
 import { Screen } from "@/components/ui/screen";
 import { Card } from "@/components/ui/card";
@@ -58,7 +59,8 @@ export default function NewSweep() {
     if (!Number.isFinite(f)) e.from = "Enter a number.";
     if (!Number.isFinite(tt)) e.to = "Enter a number.";
     if (scale === "log" && (f <= 0 || tt <= 0)) e.from = "A log grid needs positive ends.";
-    if (!Number.isInteger(n) || n < 2 || n > 400) e.count = "Between 2 and 400 values.";
+    if (!Number.isInteger(n) || n < 2 || n > API_LIMITS.maxSweepPoints)
+      e.count = `Between 2 and ${API_LIMITS.maxSweepPoints} values.`;
     if (!Number.isInteger(reps) || reps < 1) e.replicates = "A whole number of at least 1.";
     if (!name.trim()) e.name = "Give the sweep a name.";
     const th = thresholdValue.trim() ? parseNumber(thresholdValue) : undefined;
