@@ -62,15 +62,17 @@ export const sessions = sqliteTable(
   (t) => [index("sessions_expires_idx").on(t.expiresAt)],
 );
 
-/** One-time tokens: password reset, invitation, first-admin set-up. Only the hash is stored. */
+/** One-time tokens: password reset, invitation, first-admin set-up, sign-up confirmation. Only the hash is stored. */
 export const tokens = sqliteTable("tokens", {
   tokenHash: text("token_hash").primaryKey(),
-  purpose: text("purpose", { enum: ["reset", "invite", "setup"] }).notNull(),
+  purpose: text("purpose", { enum: ["reset", "invite", "setup", "signup"] }).notNull(),
   userId: text("user_id").references(() => users.id, { onDelete: "cascade" }),
   labId: text("lab_id").references(() => labs.id, { onDelete: "cascade" }),
   email: text("email"),
   role: text("role", { enum: ["owner", "editor", "viewer"] }),
   createdBy: text("created_by"),
+  /** Sign-up confirmation: the pending account's display name and password hash (JSON). */
+  payload: text("payload", { mode: "json" }).$type<{ displayName: string; passwordHash: string }>(),
   expiresAt: integer("expires_at", { mode: "timestamp_ms" }).notNull(),
   usedAt: integer("used_at", { mode: "timestamp_ms" }),
   createdAt: createdAt(),

@@ -6,14 +6,40 @@ import { Button } from "@/components/ui/button";
 import { Banner } from "@/components/ui/states";
 import { Text } from "@/components/ui/text";
 import { ApiError } from "@/components/data/api";
-import { useSignIn, useSignUp } from "@/components/data/use-me";
+import { useSignUp, useSignUpConfirm } from "@/components/data/use-me";
 import { PASSWORD_MIN_LENGTH } from "@/shared/schemas/auth";
 
-export default function SignUp() {
+/** The link from the sign-up mail: one button creates the account (a mail scanner's GET changes nothing). */
+function FinishSignUp({ token }: { token: string }) {
   const router = useRouter();
-  const params = useLocalSearchParams<{ invite?: string; email?: string }>();
+  const confirm = useSignUpConfirm();
+  const server = confirm.error instanceof ApiError ? confirm.error : null;
+  return (
+    <AuthFrame title="Finish creating your account">
+      {server ? <Banner tone="danger">{server.message}</Banner> : null}
+      <Button
+        label="Create my account"
+        busy={confirm.isPending}
+        onPress={() => confirm.mutate({ token }, { onSuccess: () => router.replace("/") })}
+      />
+      <Link href="/sign-in" style={{ minHeight: 44, paddingVertical: 12 }}>
+        <Text tone="primary" variant="label">
+          I already have an account
+        </Text>
+      </Link>
+    </AuthFrame>
+  );
+}
+
+export default function SignUp() {
+  const params = useLocalSearchParams<{ invite?: string; email?: string; token?: string }>();
+  if (params.token) return <FinishSignUp token={params.token} />;
+  return <SignUpForm invite={params.invite} email={params.email} />;
+}
+
+function SignUpForm(params: { invite?: string; email?: string }) {
+  const router = useRouter();
   const signUp = useSignUp();
-  const signIn = useSignIn();
   const [v, setV] = useState({ email: params.email ?? "", displayName: "", password: "" });
   const [errors, setErrors] = useState<Record<string, string>>({});
   const server = signUp.error instanceof ApiError ? signUp.error : null;
@@ -32,12 +58,15 @@ export default function SignUp() {
       invitationToken: params.invite,
     };
     signUp.mutate(body, {
-      onSuccess: () =>
-        signIn.mutate({ email: body.email, password: body.password }, { onSuccess: () => router.replace("/") }),
+      onSuccess: (r) => {
+        if ("user" in r) router.replace("/");
+      },
     });
   };
+  const sent = signUp.data && !("user" in signUp.data) ? signUp.data.message : null;
   return (
     <AuthFrame title={params.invite ? "Accept your invitation" : "Create an account"}>
+      {sent ? <Banner tone="success">{sent}</Banner> : null}
       {server && !server.fields.length ? <Banner tone="danger">{server.message}</Banner> : null}
       <Field
         label="Email"
@@ -64,7 +93,7 @@ export default function SignUp() {
         autoComplete="new-password"
         hint={`At least ${PASSWORD_MIN_LENGTH} characters.`}
       />
-      <Button label="Create account" onPress={submit} busy={signUp.isPending || signIn.isPending} />
+      <Button label="Create account" onPress={submit} busy={signUp.isPending} />
       <Link href="/sign-in" style={{ minHeight: 44, paddingVertical: 12 }}>
         <Text tone="primary" variant="label">
           I already have an account

@@ -8,6 +8,8 @@ import {
   MeSchema,
   OkSchema,
   SignedInSchema,
+  SignUpResponseSchema,
+  type SignUpConfirmBody,
   type ResetConfirmBody,
   type ResetRequestBody,
   type SignInBody,
@@ -34,9 +36,29 @@ export function useSignIn() {
   });
 }
 
+/** Sign-up: {user} when signed in at once (invitation, first account), else {ok, message} "check your mail". */
 export function useSignUp() {
+  const qc = useQueryClient();
   return useMutation({
-    mutationFn: (body: SignUpBody) => api("/api/auth/sign-up", { method: "POST", body, schema: SignedInSchema }),
+    mutationFn: (body: SignUpBody) => api("/api/auth/sign-up", { method: "POST", body, schema: SignUpResponseSchema }),
+    onSuccess: async (r) => {
+      if (!("user" in r)) return;
+      qc.clear();
+      await qc.invalidateQueries({ queryKey: meKeys.all });
+    },
+  });
+}
+
+/** Finish a sign-up with the token from its mail; signs in. */
+export function useSignUpConfirm() {
+  const qc = useQueryClient();
+  return useMutation({
+    mutationFn: (body: SignUpConfirmBody) =>
+      api("/api/auth/sign-up/confirm", { method: "POST", body, schema: SignedInSchema }),
+    onSuccess: async () => {
+      qc.clear();
+      await qc.invalidateQueries({ queryKey: meKeys.all });
+    },
   });
 }
 

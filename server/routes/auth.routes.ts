@@ -10,6 +10,10 @@ import { authenticatorOf, destroyUserSessions, SESSION_COOKIE } from "@/server/m
 import {
   changePassword,
   confirmPasswordReset,
+  confirmSignUp,
+  requestSignUp,
+  userCount,
+  type MeUser,
   createAccount,
   findUserByEmail,
   meUser,
@@ -34,6 +38,8 @@ import {
   ResetRequestBodySchema,
   SignInBodySchema,
   SignUpBodySchema,
+  SignUpConfirmBodySchema,
+  type SignUpResponse,
   type AcceptInvitationResponse,
   type InvitationOfferResponse,
   type Me,
@@ -110,16 +116,50 @@ export const authRoutes = defineRoutes([
     access: { kind: "public" },
     body: SignUpBodySchema,
     summary:
-      "Create an account (with an invitation: join its lab; otherwise get a lab of one's own) and sign in; 201 {user}.",
+      "Sign up. With an invitation (or as the first account of an instance): create the account, sign in, 201 {user}. Otherwise 202 {ok, message} for a new and a known address alike: the mail holds a link to finish (new) or a note (known).",
+    handler: async ({ req, res, ctx, body }): Promise<SignUpResponse> => {
+      const l = authLimitersOf(ctx);
+      assertNotLimited([[l.signUpPerIp, clientKey(req)]], "sign-up");
+      l.signUpPerIp.hit(clientKey(req));
+      // With an invitation the mail reached this address already; a first account has nobody to hide.
+      if (body.invitationToken || userCount(ctx) === 0) {
+        if (body.invitationToken) assertInvitedAddress(ctx, body.invitationToken, body.email);
+        const user = await createAccount(ctx, {
+          email: body.email,
+          password: body.password,
+          displayName: body.displayName,
+          ownLab: !body.invitationToken,
+        });
+        if (body.invitationToken) joinWithInvitation(ctx, body.invitationToken, user.id);
+        await logIn(req, user);
+        res.status(201);
+        return { user };
+      }
+      await requestSignUp(ctx, body);
+      res.status(202);
+      return {
+        ok: true,
+        message: `Check your mail: we sent a message to ${normalizeEmail(body.email)} with the next step.`,
+      };
+    },
+  },
+  {
+    method: "post",
+    path: "/auth/sign-up/confirm",
+    access: { kind: "public" },
+    body: SignUpConfirmBodySchema,
+    summary:
+      "Finish a sign-up with the link from its mail: create the account with a lab of its own, sign in; 201 {user}.",
     handler: async ({ req, res, ctx, body }): Promise<SignedIn> => {
-      if (body.invitationToken) assertInvitedAddress(ctx, body.invitationToken, body.email);
-      const user = await createAccount(ctx, {
-        email: body.email,
-        password: body.password,
-        displayName: body.displayName,
-        ownLab: !body.invitationToken,
-      });
-      if (body.invitationToken) joinWithInvitation(ctx, body.invitationToken, user.id);
+      const l = authLimitersOf(ctx);
+      assertNotLimited([[l.resetPerIp, clientKey(req)]], "sign-up confirmation");
+      let user: MeUser;
+      try {
+        user = await confirmSignUp(ctx, body.token);
+      } catch (e) {
+        l.resetPerIp.hit(clientKey(req));
+        throw e;
+      }
       await logIn(req, user);
       res.status(201);
       return { user };

@@ -76,11 +76,11 @@ export function userCount(ctx: AccountsCtx): number {
  */
 export async function createAccount(
   ctx: AccountsCtx,
-  input: { email: string; password: string | null; displayName: string; ownLab: boolean },
+  input: { email: string; password: string | null; displayName: string; ownLab: boolean; passwordHash?: string },
 ): Promise<MeUser> {
   const email = normalizeEmail(input.email);
   if (input.password !== null) assertPasswordAllowed(input.password, "password");
-  const passwordHash = input.password === null ? null : await hashPassword(input.password);
+  const passwordHash = input.passwordHash ?? (input.password === null ? null : await hashPassword(input.password));
   const now = new Date();
   const id = newId("usr_");
   ctx.sqlite.transaction(() => {
@@ -120,6 +120,72 @@ export async function setPassword(ctx: AccountsCtx, userId: string, password: st
     .set({ passwordHash: await hashPassword(password) })
     .where(eq(schema.users.id, userId))
     .run();
+}
+
+/**
+ * Sign-up without an invitation, answered the same whether or not the address
+ * has an account (no account enumeration): a new address gets a link that
+ * creates the account (valid 24 hours; the password is kept only as its hash);
+ * a known one gets a note that someone tried to sign up with it. Both hash the
+ * password and queue one mail, so both take about as long.
+ */
+export async function requestSignUp(
+  ctx: AppContext,
+  input: { email: string; password: string; displayName: string },
+): Promise<void> {
+  const email = normalizeEmail(input.email);
+  assertPasswordAllowed(input.password, "password");
+  const passwordHash = await hashPassword(input.password);
+  const u = findUserByEmail(ctx, email);
+  if (u) {
+    queueMail(ctx.mailer, {
+      to: u.email,
+      subject: "Someone tried to create a Linger account with your address",
+      text: [
+        `Hello ${u.displayName},`,
+        "",
+        "Someone asked to create a Linger account with this e-mail address, which already has one. Nothing was changed.",
+        "",
+        `If it was you, sign in at ${ctx.env.baseUrl}/sign-in, or choose a new password at ${ctx.env.baseUrl}/reset.`,
+        "",
+        "If it was not you, ignore this message.",
+      ].join("\n"),
+    });
+    return;
+  }
+  const displayName = input.displayName.trim();
+  const { token } = createToken(ctx, { purpose: "signup", email, payload: { displayName, passwordHash } });
+  queueMail(ctx.mailer, {
+    to: email,
+    subject: "Finish creating your Linger account",
+    text: [
+      `Hello ${displayName},`,
+      "",
+      "To finish creating your Linger account, open this link within 24 hours:",
+      "",
+      `${ctx.env.baseUrl}/sign-up?token=${encodeURIComponent(token)}`,
+      "",
+      "If you did not ask for an account, ignore this message; none is created.",
+    ].join("\n"),
+  });
+}
+
+/** Creates the account of a sign-up link (with a lab of its own) and returns it. */
+export async function confirmSignUp(ctx: AccountsCtx, token: string): Promise<MeUser> {
+  const row = findValidToken(ctx, token, ["signup"]);
+  if (!row || !row.email || !row.payload)
+    throw badRequest("This sign-up link is not valid or has expired. Sign up again.", undefined, "invalid_token");
+  if (findUserByEmail(ctx, row.email))
+    throw conflict("The account for this address exists already: sign in.", "email_taken");
+  if (!markTokenUsed(ctx, row.tokenHash))
+    throw badRequest("This sign-up link has already been used.", undefined, "invalid_token");
+  return createAccount(ctx, {
+    email: row.email,
+    password: null,
+    passwordHash: row.payload.passwordHash,
+    displayName: row.payload.displayName,
+    ownLab: true,
+  });
 }
 
 /** Sends a reset link when the address has an account; silent otherwise (the caller always answers 200). */

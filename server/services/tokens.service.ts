@@ -8,13 +8,14 @@ import { and, eq, isNull, gt } from "drizzle-orm";
 import type { AppContext } from "@/server/context";
 import { schema } from "@/db/client";
 
-export type TokenPurpose = "reset" | "invite" | "setup";
+export type TokenPurpose = "reset" | "invite" | "setup" | "signup";
 export type TokenRow = typeof schema.tokens.$inferSelect;
 
 export const TOKEN_TTL_MS = {
   reset: 60 * 60 * 1000,
   invite: 7 * 24 * 3600 * 1000,
   setup: 24 * 3600 * 1000,
+  signup: 24 * 3600 * 1000,
 } as const;
 
 export function hashToken(raw: string): string {
@@ -30,6 +31,7 @@ export function createToken(
     email?: string | null;
     role?: "owner" | "editor" | "viewer" | null;
     createdBy?: string | null;
+    payload?: { displayName: string; passwordHash: string } | null;
     ttlMs?: number;
   },
 ): { token: string; expiresAt: Date } {
@@ -46,6 +48,7 @@ export function createToken(
       email: t.email ?? null,
       role: t.role ?? null,
       createdBy: t.createdBy ?? null,
+      payload: t.payload ?? null,
       expiresAt,
       createdAt: now,
     })

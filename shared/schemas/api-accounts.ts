@@ -107,6 +107,14 @@ export const SignedInSchema = z.object({ user: MeUserSchema });
 export type SignedIn = z.infer<typeof SignedInSchema>;
 /** Reset request and confirm, change password. */
 export const OkSchema = z.object({ ok: z.literal(true), message: z.string().optional() });
+/**
+ * Sign-up answers {user} (signed in) with an invitation or on an instance without accounts, and otherwise
+ * {ok, message} "check your mail", the same for a new and a known address.
+ */
+export const SignUpResponseSchema = z.union([SignedInSchema, OkSchema]);
+export type SignUpResponse = z.infer<typeof SignUpResponseSchema>;
+export const SignUpConfirmBodySchema = z.object({ token: TokenSchema });
+export type SignUpConfirmBody = z.input<typeof SignUpConfirmBodySchema>;
 export type Ok = z.infer<typeof OkSchema>;
 
 // ---------------------------------------------------------------- labs and members

@@ -325,15 +325,37 @@ describe("common passwords are refused (NIST SP 800-63B section 5.1.1.2: check n
 });
 
 describe("sign-up", () => {
-  test("on a demo instance: 201, signed in, a lab of one's own as owner, not a site admin", async () => {
+  test("a new and a known address get the same 202 'check your mail'; the new one's link creates the account", async () => {
     const t = await makeTestContext();
     try {
-      const agent = request.agent(t.app);
-      const r = await agent
+      const fresh = await request(t.app)
         .post("/api/auth/sign-up")
         .send({ email: "Ada@Example.org", password: "a-long-password", displayName: "Ada" })
-        .expect(201);
-      assertContract(SignedInSchema, r.body, "POST /api/auth/sign-up");
+        .expect(202);
+      // Before the fix a known address answered 409 email_taken, which told anyone the account exists.
+      const known = await request(t.app)
+        .post("/api/auth/sign-up")
+        .send({ email: VIEWER, password: "a-long-password", displayName: "Ada" })
+        .expect(202);
+      assertContract(OkSchema, fresh.body, "POST /api/auth/sign-up");
+      const shape = (b: any) => ({ ...b, message: b.message.replace(/\S+@\S+/, "ADDRESS") });
+      assert.deepEqual(shape(known.body), shape(fresh.body), "same answer apart from the echoed address");
+      assert.equal(fresh.headers["set-cookie"], undefined, "not signed in before the mail is answered");
+      await t.settleMail();
+      // The known address is told that someone tried, and nothing changed.
+      const note = t.outbox(VIEWER).at(-1)!;
+      assert.match(note.subject, /Someone tried to create a Linger account/);
+      assert.doesNotMatch(note.text, /token=/);
+      await signIn(t.app, VIEWER);
+      // No account yet for the new address.
+      assert.equal(
+        t.ctx.db.select().from(schema.users).where(eq(schema.users.email, "ada@example.org")).get(),
+        undefined,
+      );
+      const token = tokenFromMail(t.outbox("ada@example.org").at(-1)!.text, "/sign-up");
+      const agent = request.agent(t.app);
+      const r = await agent.post("/api/auth/sign-up/confirm").send({ token }).expect(201);
+      assertContract(SignedInSchema, r.body, "POST /api/auth/sign-up/confirm");
       assert.equal(r.body.user.email, "ada@example.org");
       assert.equal(r.body.user.isSiteAdmin, false);
       const me = await agent.get("/api/me").expect(200);
@@ -341,12 +363,10 @@ describe("sign-up", () => {
         me.body.labs.map((l: any) => [l.name, l.role]),
         [["Ada's lab", "owner"]],
       );
-      // the same address again, in another case
-      const dup = await request(t.app)
-        .post("/api/auth/sign-up")
-        .send({ email: "ada@example.ORG", password: "another-password", displayName: "Ada 2" })
-        .expect(409);
-      assert.equal(dup.body.error.code, "email_taken");
+      await signIn(t.app, "ada@example.org", "a-long-password");
+      // the link works once
+      await request(t.app).post("/api/auth/sign-up/confirm").send({ token }).expect(400);
+      await request(t.app).post("/api/auth/sign-up/confirm").send({ token: "made-up" }).expect(400);
       const short = await request(t.app)
         .post("/api/auth/sign-up")
         .send({ email: "bo@example.org", password: "short", displayName: "Bo" })
@@ -361,6 +381,29 @@ describe("sign-up", () => {
     }
   });
 
+  test("a sign-up link for an address that got an account meanwhile answers 409, creating nothing", async () => {
+    const t = await makeTestContext();
+    try {
+      for (const displayName of ["First try", "Second try"])
+        await request(t.app)
+          .post("/api/auth/sign-up")
+          .send({ email: "twice@example.org", password: "a-long-password", displayName })
+          .expect(202);
+      await t.settleMail();
+      const [first, second] = t.outbox("twice@example.org").map((m) => tokenFromMail(m.text, "/sign-up"));
+      await request(t.app).post("/api/auth/sign-up/confirm").send({ token: second }).expect(201);
+      const r = await request(t.app).post("/api/auth/sign-up/confirm").send({ token: first }).expect(409);
+      assert.equal(r.body.error.code, "email_taken");
+      const u = t.ctx.db.select().from(schema.users).where(eq(schema.users.email, "twice@example.org")).all();
+      assert.deepEqual(
+        u.map((x) => x.displayName),
+        ["Second try"],
+      );
+    } finally {
+      await t.close();
+    }
+  });
+
   test("on an instance without demo data, the first account becomes site admin and the second does not", async () => {
     const t = await makeTestContext({ seed: "none" });
     try {
@@ -369,10 +412,14 @@ describe("sign-up", () => {
         .send({ email: "first@example.org", password: "first-password", displayName: "First" })
         .expect(201);
       assert.equal(first.body.user.isSiteAdmin, true);
-      const second = await request(t.app)
+      // Once an account exists, sign-up goes through the mail like on any instance.
+      await request(t.app)
         .post("/api/auth/sign-up")
         .send({ email: "second@example.org", password: "second-password", displayName: "Second" })
-        .expect(201);
+        .expect(202);
+      await t.settleMail();
+      const token = tokenFromMail(t.outbox("second@example.org").at(-1)!.text, "/sign-up");
+      const second = await request(t.app).post("/api/auth/sign-up/confirm").send({ token }).expect(201);
       assert.equal(second.body.user.isSiteAdmin, false);
     } finally {
       await t.close();
