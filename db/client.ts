@@ -44,3 +44,12 @@ export function restrictFile(file: string): void {
 }
 
 export { schema };
+
+/**
+ * Runs `fn` in one SQLite transaction and returns its value; a throw rolls it back.
+ * better-sqlite3 is synchronous and every query on the connection (Drizzle's `db`
+ * included) inside `fn` joins the transaction; a nested call becomes a savepoint.
+ */
+export function inTransaction<T>(ctx: { sqlite: Database.Database }, fn: () => T): T {
+  return ctx.sqlite.transaction(fn)();
+}

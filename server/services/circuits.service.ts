@@ -6,7 +6,7 @@
 import { and, desc, eq, isNotNull, isNull, ne, sql } from "drizzle-orm";
 import type { ZodType } from "zod";
 import type { AppContext } from "@/server/context";
-import { schema } from "@/db/client";
+import { inTransaction, schema } from "@/db/client";
 import { newId } from "@/server/ids";
 import { badRequest, conflict, notFound } from "@/server/http-error";
 import { recordAudit } from "./audit.service";
@@ -307,9 +307,10 @@ export function createCircuit(ctx: AppContext, actor: Actor, labId: string, inpu
     input.note?.trim() || (input.body ? "Created" : `Created from the template "${templates[input.template!].title}"`);
   const id = newId("cir_");
   const now = new Date();
-  ctx.db.transaction((tx) => {
-    assertNameFree({ ...ctx, db: tx as unknown as AppContext["db"] }, labId, name);
-    tx.insert(c)
+  inTransaction(ctx, () => {
+    assertNameFree(ctx, labId, name);
+    ctx.db
+      .insert(c)
       .values({
         id,
         labId,
@@ -322,20 +323,17 @@ export function createCircuit(ctx: AppContext, actor: Actor, labId: string, inpu
         demoKey: input.demoKey ?? null,
       })
       .run();
-    tx.insert(v).values({ circuitId: id, version: 1, body, note, createdBy: actor.userId, createdAt: now }).run();
-    recordAudit(
-      { db: tx as unknown as AppContext["db"] },
-      {
-        labId,
-        userId: actor.userId,
-        action: input.copiedFrom ? "circuit.duplicated" : "circuit.created",
-        targetType: "circuit",
-        targetId: id,
-        detail: input.copiedFrom
-          ? { name, from: input.copiedFrom.id, fromVersion: input.copiedFrom.version }
-          : { name, template: input.template ?? null },
-      },
-    );
+    ctx.db.insert(v).values({ circuitId: id, version: 1, body, note, createdBy: actor.userId, createdAt: now }).run();
+    recordAudit(ctx, {
+      labId,
+      userId: actor.userId,
+      action: input.copiedFrom ? "circuit.duplicated" : "circuit.created",
+      targetType: "circuit",
+      targetId: id,
+      detail: input.copiedFrom
+        ? { name, from: input.copiedFrom.id, fromVersion: input.copiedFrom.version }
+        : { name, template: input.template ?? null },
+    });
   });
   return id;
 }
@@ -349,9 +347,8 @@ export interface UpdateCircuitInput {
 
 /** Saves a new version (never overwrites). 409 when baseVersion is stale. */
 export function updateCircuit(ctx: AppContext, actor: Actor, id: string, input: UpdateCircuitInput): void {
-  ctx.db.transaction((tx) => {
-    const txCtx = { ...ctx, db: tx as unknown as AppContext["db"] };
-    const row = getRow(txCtx, id);
+  inTransaction(ctx, () => {
+    const row = getRow(ctx, id);
     assertNotArchived(row);
     if (input.baseVersion !== undefined && input.baseVersion !== row.currentVersion)
       throw conflict(
@@ -359,12 +356,13 @@ export function updateCircuit(ctx: AppContext, actor: Actor, id: string, input: 
         "stale_version",
       );
     const name = input.name?.trim() || row.name;
-    if (name.toLowerCase() !== row.name.toLowerCase()) assertNameFree(txCtx, row.labId, name, id);
+    if (name.toLowerCase() !== row.name.toLowerCase()) assertNameFree(ctx, row.labId, name, id);
     const body: Circuit = { ...input.body, name };
     assertSemanticallyValid(body);
     const version = row.currentVersion + 1;
     const now = new Date();
-    tx.insert(v)
+    ctx.db
+      .insert(v)
       .values({
         circuitId: id,
         version,
@@ -374,8 +372,8 @@ export function updateCircuit(ctx: AppContext, actor: Actor, id: string, input: 
         createdAt: now,
       })
       .run();
-    tx.update(c).set({ currentVersion: version, name, updatedAt: now }).where(eq(c.id, id)).run();
-    recordAudit(txCtx, {
+    ctx.db.update(c).set({ currentVersion: version, name, updatedAt: now }).where(eq(c.id, id)).run();
+    recordAudit(ctx, {
       labId: row.labId,
       userId: actor.userId,
       action: "circuit.saved",
@@ -400,16 +398,16 @@ export function duplicateCircuit(ctx: AppContext, actor: Actor, id: string, newN
 }
 
 export function setCircuitArchived(ctx: AppContext, actor: Actor, id: string, archived: boolean): CircuitSummary {
-  ctx.db.transaction((tx) => {
-    const txCtx = { ...ctx, db: tx as unknown as AppContext["db"] };
-    const row = getRow(txCtx, id);
+  inTransaction(ctx, () => {
+    const row = getRow(ctx, id);
     if (!!row.archivedAt === archived) return;
-    if (!archived) assertNameFree(txCtx, row.labId, row.name, id);
-    tx.update(c)
+    if (!archived) assertNameFree(ctx, row.labId, row.name, id);
+    ctx.db
+      .update(c)
       .set({ archivedAt: archived ? new Date() : null })
       .where(eq(c.id, id))
       .run();
-    recordAudit(txCtx, {
+    recordAudit(ctx, {
       labId: row.labId,
       userId: actor.userId,
       action: archived ? "circuit.archived" : "circuit.unarchived",

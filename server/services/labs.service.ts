@@ -5,7 +5,7 @@
  */
 import { and, asc, count, eq, gt, isNull } from "drizzle-orm";
 import type { AppContext } from "@/server/context";
-import { schema } from "@/db/client";
+import { inTransaction, schema } from "@/db/client";
 import { newId } from "@/server/ids";
 import { badRequest, conflict, forbidden, notFound } from "@/server/http-error";
 import {
@@ -56,7 +56,7 @@ function ownerCount(ctx: AppContext, labId: string): number {
 export function createLab(ctx: AppContext, userId: string, name: string): LabSummary {
   const id = newId("lab_");
   const now = new Date();
-  ctx.sqlite.transaction(() => {
+  inTransaction(ctx, () => {
     ctx.db.insert(schema.labs).values({ id, name: name.trim(), createdAt: now }).run();
     ctx.db.insert(schema.memberships).values({ labId: id, userId, role: "owner", createdAt: now }).run();
     recordAudit(ctx, {
@@ -67,7 +67,7 @@ export function createLab(ctx: AppContext, userId: string, name: string): LabSum
       targetId: id,
       detail: { name: name.trim() },
     });
-  })();
+  });
   return { id, name: name.trim(), role: "owner", memberCount: 1 };
 }
 
@@ -115,7 +115,7 @@ export function renameLab(ctx: AppContext, userId: string, labId: string, name: 
 export function deleteLab(ctx: AppContext, userId: string, labId: string): void {
   const lab = ctx.db.select().from(schema.labs).where(eq(schema.labs.id, labId)).get();
   if (!lab) throw notFound("That lab");
-  ctx.sqlite.transaction(() => {
+  inTransaction(ctx, () => {
     ctx.db.delete(schema.labs).where(eq(schema.labs.id, labId)).run();
     recordAudit(ctx, {
       labId,
@@ -125,7 +125,7 @@ export function deleteLab(ctx: AppContext, userId: string, labId: string): void 
       targetId: labId,
       detail: { name: lab.name },
     });
-  })();
+  });
 }
 
 // ------------------------------------------------------------ invitations
@@ -251,7 +251,7 @@ export function describeInvitation(ctx: AppContext, token: string): InvitationOf
 export function joinWithInvitation(ctx: AppContext, token: string, userId: string): JoinedLab {
   const row = validInvitation(ctx, token);
   let role: LabRole = row.role;
-  ctx.sqlite.transaction(() => {
+  inTransaction(ctx, () => {
     if (!markTokenUsed(ctx, row.tokenHash))
       throw badRequest("This invitation has already been used.", undefined, "invalid_token");
     const m = schema.memberships;
@@ -279,7 +279,7 @@ export function joinWithInvitation(ctx: AppContext, token: string, userId: strin
       targetId: userId,
       detail: { invitedEmail: row.email, role, invitedBy: row.createdBy },
     });
-  })();
+  });
   return { labId: row.labId, role };
 }
 
@@ -316,7 +316,7 @@ export function changeRole(ctx: AppContext, actorId: string, labId: string, user
   const current = membership(ctx, labId, userId);
   if (!current) throw notFound("That member");
   if (current.role === role) return;
-  ctx.sqlite.transaction(() => {
+  inTransaction(ctx, () => {
     if (current.role === "owner" && ownerCount(ctx, labId) <= 1) {
       throw conflict("A lab needs at least one owner. Make someone else an owner first.", "last_owner");
     }
@@ -334,7 +334,7 @@ export function changeRole(ctx: AppContext, actorId: string, labId: string, user
       targetId: userId,
       detail: { from: current.role, to: role },
     });
-  })();
+  });
 }
 
 /** An owner removes a member, or a member leaves (actor = target). */
@@ -348,7 +348,7 @@ export function removeMember(
   if (!self && actor.role !== "owner") throw forbidden("Only an owner can remove other members.");
   const current = membership(ctx, labId, userId);
   if (!current) throw notFound("That member");
-  ctx.sqlite.transaction(() => {
+  inTransaction(ctx, () => {
     if (current.role === "owner" && ownerCount(ctx, labId) <= 1) {
       throw conflict(
         "A lab needs at least one owner. Make someone else an owner first, or delete the lab.",
@@ -368,5 +368,5 @@ export function removeMember(
       targetId: userId,
       detail: { role: current.role },
     });
-  })();
+  });
 }

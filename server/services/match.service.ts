@@ -8,7 +8,7 @@
  */
 import { and, asc, eq, isNull } from "drizzle-orm";
 import type { AppContext } from "@/server/context";
-import { schema } from "@/db/client";
+import { inTransaction, schema } from "@/db/client";
 import { newId } from "@/server/ids";
 import { HttpError, conflict, notFound } from "@/server/http-error";
 import { recordAudit } from "./audit.service";
@@ -169,7 +169,7 @@ export function runMatch(ctx: AppContext, userId: string, traceSetId: string, re
   result.notes = cautions(ctx, settings, row.schedule as TracePulse[], used);
   const id = newId("mat_");
   const tol = req.tolerance.kind === "fraction" ? req.tolerance.fraction : req.tolerance.distance;
-  ctx.sqlite.transaction(() => {
+  inTransaction(ctx, () => {
     ctx.db
       .insert(schema.matches)
       .values({
@@ -192,7 +192,7 @@ export function runMatch(ctx: AppContext, userId: string, traceSetId: string, re
       targetId: id,
       detail: { traceSetId, points: result.pointCount },
     });
-  })();
+  });
   return id;
 }
 

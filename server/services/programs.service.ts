@@ -5,7 +5,7 @@
  */
 import { and, desc, eq, isNotNull, isNull, ne, sql } from "drizzle-orm";
 import type { AppContext } from "@/server/context";
-import { schema } from "@/db/client";
+import { inTransaction, schema } from "@/db/client";
 import { newId } from "@/server/ids";
 import { badRequest, conflict, notFound } from "@/server/http-error";
 import { recordAudit } from "./audit.service";
@@ -149,8 +149,6 @@ function freeName(ctx: AppContext, labId: string, base: string): string {
   }
 }
 
-const txCtx = (ctx: AppContext, tx: unknown): AppContext => ({ ...ctx, db: tx as AppContext["db"] });
-
 export function createProgram(
   ctx: AppContext,
   actor: Actor,
@@ -161,9 +159,10 @@ export function createProgram(
   assertProgramValid(input.body, "body");
   const id = newId("prg_");
   const now = new Date();
-  ctx.db.transaction((tx) => {
-    assertNameFree(txCtx(ctx, tx), labId, name);
-    tx.insert(p)
+  inTransaction(ctx, () => {
+    assertNameFree(ctx, labId, name);
+    ctx.db
+      .insert(p)
       .values({
         id,
         labId,
@@ -176,7 +175,7 @@ export function createProgram(
         demoKey: input.demoKey ?? null,
       })
       .run();
-    recordAudit(txCtx(ctx, tx), {
+    recordAudit(ctx, {
       labId,
       userId: actor.userId,
       action: input.copiedFrom ? "program.duplicated" : "program.created",
@@ -194,18 +193,18 @@ export function updateProgram(
   id: string,
   input: { name?: string; body?: InputProgram },
 ): void {
-  ctx.db.transaction((tx) => {
-    const t = txCtx(ctx, tx);
-    const row = getRow(t, id);
+  inTransaction(ctx, () => {
+    const row = getRow(ctx, id);
     if (row.archivedAt) throw conflict(`"${row.name}" is archived. Unarchive it before changing it.`, "archived");
     const name = input.name?.trim() || row.name;
-    if (name.toLowerCase() !== row.name.toLowerCase()) assertNameFree(t, row.labId, name, id);
+    if (name.toLowerCase() !== row.name.toLowerCase()) assertNameFree(ctx, row.labId, name, id);
     if (input.body) assertProgramValid(input.body, "body");
-    tx.update(p)
+    ctx.db
+      .update(p)
       .set({ name, ...(input.body ? { body: input.body } : {}), updatedAt: new Date() })
       .where(eq(p.id, id))
       .run();
-    recordAudit(t, {
+    recordAudit(ctx, {
       labId: row.labId,
       userId: actor.userId,
       action: "program.saved",
@@ -227,16 +226,16 @@ export function duplicateProgram(ctx: AppContext, actor: Actor, id: string, newN
 }
 
 export function setProgramArchived(ctx: AppContext, actor: Actor, id: string, archived: boolean): ProgramSummary {
-  ctx.db.transaction((tx) => {
-    const t = txCtx(ctx, tx);
-    const row = getRow(t, id);
+  inTransaction(ctx, () => {
+    const row = getRow(ctx, id);
     if (!!row.archivedAt === archived) return;
-    if (!archived) assertNameFree(t, row.labId, row.name, id);
-    tx.update(p)
+    if (!archived) assertNameFree(ctx, row.labId, row.name, id);
+    ctx.db
+      .update(p)
       .set({ archivedAt: archived ? new Date() : null })
       .where(eq(p.id, id))
       .run();
-    recordAudit(t, {
+    recordAudit(ctx, {
       labId: row.labId,
       userId: actor.userId,
       action: archived ? "program.archived" : "program.unarchived",

@@ -6,7 +6,7 @@
  */
 import { and, asc, count, eq, inArray, isNull } from "drizzle-orm";
 import type { AppContext } from "@/server/context";
-import { schema } from "@/db/client";
+import { inTransaction, schema } from "@/db/client";
 import { API_LIMITS, type LaunchSweep, type SweepDetail, type SweepListItem } from "@/shared/schemas/api-runs";
 import type { RunSpec } from "@/shared/schemas/run-spec";
 import { listParameters, setParameter } from "@/sim";
@@ -94,7 +94,7 @@ export function launchSweep(ctx: AppContext, labId: string, userId: string, body
     return buildSpec({ ...inputs, circuit, inputSignal: base.inputSignal }, { ...base, seed: pointSeed(base.seed, i) });
   });
   const id = newId("swp_");
-  ctx.sqlite.transaction(() => {
+  inTransaction(ctx, () => {
     ctx.db
       .insert(schema.sweeps)
       .values({
@@ -115,7 +115,7 @@ export function launchSweep(ctx: AppContext, labId: string, userId: string, body
         .join(", ");
       insertRun(ctx, { labId, name: `${body.name} · ${label}`, spec, userId, sweepId: id, sweepPoint: i, inputs });
     });
-  })();
+  });
   ctx.queue.kick();
   return id;
 }
@@ -190,10 +190,10 @@ export function deleteSweep(ctx: AppContext, sweepId: string) {
     .all();
   for (const r of active) ctx.queue.cancel(r.id);
   const now = new Date();
-  ctx.sqlite.transaction(() => {
+  inTransaction(ctx, () => {
     ctx.db.update(schema.sweeps).set({ deletedAt: now }).where(eq(schema.sweeps.id, sweepId)).run();
     ctx.db.update(schema.runs).set({ deletedAt: now }).where(eq(schema.runs.sweepId, sweepId)).run();
-  })();
+  });
 }
 
 /** Undo a sweep delete (409 when it is not deleted or the undo period has passed). */
@@ -205,10 +205,10 @@ export function restoreSweep(ctx: AppContext, sweepId: string) {
     .get();
   if (!sweep) throw notFound("That sweep");
   assertRestorable("sweep", sweep.deletedAt);
-  ctx.sqlite.transaction(() => {
+  inTransaction(ctx, () => {
     ctx.db.update(schema.sweeps).set({ deletedAt: null }).where(eq(schema.sweeps.id, sweepId)).run();
     ctx.db.update(schema.runs).set({ deletedAt: null }).where(eq(schema.runs.sweepId, sweepId)).run();
-  })();
+  });
 }
 
 export function sweepDetail(ctx: AppContext, sweepId: string): SweepDetail {

@@ -8,7 +8,7 @@ import type { NextFunction, Request, Response } from "express";
 import multer from "multer";
 import { and, desc, eq, isNotNull, isNull, lt, sql } from "drizzle-orm";
 import type { AppContext } from "@/server/context";
-import { schema } from "@/db/client";
+import { inTransaction, schema } from "@/db/client";
 import { newId } from "@/server/ids";
 import { HttpError, badRequest, notFound, parseOr400 } from "@/server/http-error";
 import { recordAudit } from "./audit.service";
@@ -268,7 +268,7 @@ export function saveTraceSet(
   extra: { synthetic?: boolean; demoKey?: string } = {},
 ): string {
   const id = newId("trs_");
-  ctx.sqlite.transaction(() => {
+  inTransaction(ctx, () => {
     ctx.db
       .insert(schema.traceSets)
       .values({
@@ -301,7 +301,7 @@ export function saveTraceSet(
       targetId: id,
       detail: { name: b.name, cells: b.cells.length },
     });
-  })();
+  });
   return id;
 }
 
@@ -445,7 +445,7 @@ export function updateTraceSet(
 /** Soft delete: the set disappears from every route but restore, and is purged after the undo period. */
 export function deleteTraceSet(ctx: AppContext, userId: string, id: string): void {
   const row = getRow(ctx, id);
-  ctx.sqlite.transaction(() => {
+  inTransaction(ctx, () => {
     ctx.db.update(schema.traceSets).set({ deletedAt: new Date() }).where(eq(schema.traceSets.id, id)).run();
     recordAudit(ctx, {
       labId: row.labId,
@@ -455,7 +455,7 @@ export function deleteTraceSet(ctx: AppContext, userId: string, id: string): voi
       targetId: id,
       detail: { name: row.name },
     });
-  })();
+  });
 }
 
 /** Undoes a delete (until the purge); 409 when the set is not deleted. Answers the list item (no analysis). */
@@ -463,7 +463,7 @@ export function restoreTraceSet(ctx: AppContext, userId: string, id: string): Tr
   const row = ctx.db.select().from(schema.traceSets).where(eq(schema.traceSets.id, id)).get();
   if (!row) throw notFound("That traceSet");
   assertRestorable("trace set", row.deletedAt);
-  ctx.sqlite.transaction(() => {
+  inTransaction(ctx, () => {
     ctx.db.update(schema.traceSets).set({ deletedAt: null }).where(eq(schema.traceSets.id, id)).run();
     recordAudit(ctx, {
       labId: row.labId,
@@ -473,7 +473,7 @@ export function restoreTraceSet(ctx: AppContext, userId: string, id: string): Tr
       targetId: id,
       detail: { name: row.name },
     });
-  })();
+  });
   return listItem({ ...row, deletedAt: null }, userName(ctx, row.uploadedBy));
 }
 
