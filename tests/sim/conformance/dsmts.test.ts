@@ -69,7 +69,8 @@ test("DSMTS fixtures: every case of the folder is checked below", () => {
  * other seeds the sd at t = 50 ranged 3.63..3.98 around the exact 3.749, about
  * 4.5 times the spread normal theory gives (0.027), while Z stayed within
  * range. Its result is reported (docs/conformance.md) but marked todo rather
- * than tuned to a seed that passes.
+ * than tuned to a seed that passes; dsmts-00003-exact.test.ts checks its whole
+ * distribution against the exact law instead.
  */
 const KNOWN: Record<string, string> = {
   "00003": "heavy-tailed near extinction: Y beyond 7 at t = 50 with this seed (docs/conformance.md)",
