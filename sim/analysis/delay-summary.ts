@@ -5,10 +5,15 @@
  * survival curve.
  */
 import type { DelaySummary } from "@/shared/schemas/analysis";
-import type { KaplanMeierResult } from "@/sim/stats/kaplan-meier";
 import { describe } from "@/sim/stats/describe";
 import { histogram } from "@/sim/stats/histogram";
-import { kaplanMeier, kmQuantile, kmQuantileInterval, type SurvivalObservation } from "@/sim/stats/kaplan-meier";
+import {
+  kaplanMeier,
+  kmQuantile,
+  kmQuantileInterval,
+  type KaplanMeierResult,
+  type SurvivalObservation,
+} from "@/sim/stats/kaplan-meier";
 
 /** Smallest drop in survival between two kept points of the reported curve. */
 const CURVE_STEP = 0.005;

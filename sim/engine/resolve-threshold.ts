@@ -1,7 +1,15 @@
 /**
- * Resolves a run's threshold settings (domain notes section 5):
- * - theta: the user's value, else half the steady state the mean-field model
- *   reaches from the run's initial state under constant ON input;
+ * Resolves a run's threshold settings (docs/metrics.md, "Threshold"):
+ * - theta: the user's value, else half-way between the output's mean-field OFF
+ *   steady state (from the run's start state with the input off) and the
+ *   highest mean-field output under constant ON input from that OFF state
+ *   within the end time. A filter's highest level is its ON steady state (if
+ *   reached in time); a pulse generator's is its peak, where half its steady
+ *   state would sit in the OFF-state noise. The rule does not depend on the
+ *   input program being tested;
+ * - warnings: theta below MIN_THRESHOLD_MOLECULES, within the OFF state's
+ *   Poisson noise, at or below the OFF steady state, or above anything the
+ *   mean-field output reaches;
  * - downTheta = theta * (1 - hysteresis);
  * - output lifetime: the user's value, else 1 / (sum of the first-order
  *   removal rate constants of the output: mass-action reactions whose only
@@ -14,6 +22,8 @@
 import type { RunSpec } from "@/shared/schemas/run-spec";
 import { runSetup } from "./run-setup";
 import { odeStartState, odeSteadyState } from "@/sim/ode/solve-ode";
+import { DopriIntegrator } from "@/sim/ode/dormand-prince";
+import { meanFieldRhs } from "@/sim/ode/mean-field";
 import type { CompiledModel } from "@/sim/circuit/compile-model";
 
 export interface ResolvedThreshold {
@@ -22,6 +32,7 @@ export interface ResolvedThreshold {
   hysteresis: number;
   windowMinutes: number;
   outputLifetimeMinutes: number;
+  /** Not computed here any more (NaN): sim/analysis/matched-control.ts solves for the ON steady state itself. */
   onSteadyState: number;
   /** "set" = threshold.value of the spec; "default" = the rule above; "none" = no input pulses (never crossed). */
   thresholdSource: "set" | "default" | "none";
@@ -77,35 +88,33 @@ export function resolveThreshold(spec: RunSpec): ResolvedThreshold {
       warnings: [],
     };
   }
-  let onSteadyState = NaN;
+  const reach = (): OnReach => onReachFromOff(setup);
   let theta = s.value;
-  const needOde = theta === undefined;
-  if (needOde) {
-    const sig = Float64Array.from(model.signalOff);
-    sig[setup.inputSignal] = setup.onLevel;
-    let ss: Float64Array;
+  let rule = "Set in the run.";
+  let levels: OnReach | null = null;
+  if (theta === undefined) {
     try {
-      ss = odeSteadyState(model, model.baseParams, odeStartState(setup.spec).y, sig);
+      levels = reach();
     } catch (e) {
-      throw new Error(
-        `cannot determine the default threshold: ${(e as Error).message} under constant ON input; set threshold.value`,
-      );
+      throw new Error(`cannot determine the default threshold: ${(e as Error).message}; set threshold.value`);
     }
-    onSteadyState = ss[model.outputIndex];
-    theta = onSteadyState / 2;
-    if (!(theta > 0))
+    const rise = levels.onMaximum - levels.offSteadyState;
+    if (!(rise > 0))
       throw new Error(
-        `cannot determine the default threshold: the ON steady state of "${output}" is 0; set threshold.value`,
+        `cannot determine the default threshold: "${output}" does not rise above its OFF steady state (${fmt(levels.offSteadyState)} molecules) under constant ON input within the end time; set threshold.value`,
       );
+    theta = levels.offSteadyState + rise / 2;
+    rule =
+      `Half-way between the OFF steady state (${fmt(levels.offSteadyState)} molecules) and the highest mean-field level under ` +
+      `constant ON input from OFF within the end time (${levels.onMaximumAtMinutes === null ? `${fmt(levels.onMaximum)} molecules` : `a peak of ${fmt(levels.onMaximum)} molecules at ${fmt(levels.onMaximumAtMinutes)} min`}): ${fmt(theta)} molecules.`;
   } else {
     try {
-      const sig = Float64Array.from(model.signalOff);
-      sig[setup.inputSignal] = setup.onLevel;
-      onSteadyState = odeSteadyState(model, model.baseParams, odeStartState(setup.spec).y, sig)[model.outputIndex];
+      levels = reach();
     } catch {
-      onSteadyState = NaN;
+      levels = null; // the warnings below need the mean-field levels; without them there are none to give
     }
   }
+  const warnings = thresholdWarnings(theta, levels, s.value !== undefined);
   const removal = outputRemovalRate(model);
   let lifetime = s.outputLifetimeMinutes ?? (removal > 0 ? 1 / removal : undefined);
   let window = s.windowMinutes;
@@ -123,15 +132,108 @@ export function resolveThreshold(spec: RunSpec): ResolvedThreshold {
     hysteresis: s.hysteresis,
     windowMinutes: window,
     outputLifetimeMinutes: lifetime,
-    onSteadyState,
-    thresholdSource: needOde ? "default" : "set",
+    onSteadyState: NaN,
+    thresholdSource: s.value === undefined ? "default" : "set",
     windowSource: s.windowMinutes !== undefined ? "set" : "default",
-    rule: needOde ? `Half the mean-field ON steady state (${onSteadyState} molecules).` : "Set in the run.",
-    offSteadyState: NaN,
-    onMaximum: onSteadyState,
-    warnings: [],
+    rule,
+    offSteadyState: levels ? levels.offSteadyState : NaN,
+    onMaximum: levels ? levels.onMaximum : NaN,
+    warnings,
   };
   if (cache.size > 32) cache.clear();
   cache.set(setup.key, resolved);
   return resolved;
+}
+
+/** Below this many molecules a threshold is crossed by a handful of production events (common practice). */
+export const MIN_THRESHOLD_MOLECULES = 5;
+/** A threshold closer than this many Poisson standard deviations sqrt(OFF) above the OFF level is crossed by OFF-state noise (common practice). */
+export const OFF_NOISE_SDS = 3;
+/** Samples of the ON response over the end time when looking for its highest level. */
+const REACH_SAMPLES = 2000;
+
+interface OnReach {
+  offSteadyState: number;
+  onMaximum: number;
+  /** Time of the peak when the response peaks and falls back; null when it rises to a level. */
+  onMaximumAtMinutes: number | null;
+}
+
+/**
+ * The output's mean-field OFF steady state (from the run's start state, input off) and the highest
+ * output under constant ON input from that state over [0, end time], sampled at REACH_SAMPLES points
+ * (a parabola through the best sample and its neighbours refines the peak).
+ */
+function onReachFromOff(setup: ReturnType<typeof runSetup>): OnReach {
+  const { model } = setup;
+  const out = model.outputIndex;
+  const n = model.nSpecies;
+  const off = Float64Array.from(model.signalOff);
+  let offState: Float64Array;
+  try {
+    offState = odeSteadyState(model, model.baseParams, odeStartState(setup.spec).y, off);
+  } catch (e) {
+    throw new Error(`${(e as Error).message} with the input OFF`);
+  }
+  const on = Float64Array.from(model.signalOff);
+  on[setup.inputSignal] = setup.onLevel;
+  const y = new Float64Array(n + 1);
+  y.set(offState);
+  const ode = new DopriIntegrator(n + 1, meanFieldRhs(model, model.baseParams, on, false), {
+    relTol: 1e-10,
+    absTol: 1e-10,
+    maxSteps: 5_000_000,
+  });
+  const end = setup.spec.endTimeMinutes;
+  const dt = end / REACH_SAMPLES;
+  const values = new Float64Array(REACH_SAMPLES + 1);
+  values[0] = y[out];
+  let best = 0;
+  for (let k = 1; k <= REACH_SAMPLES; k++) {
+    ode.integrate(y, (k - 1) * dt, k * dt);
+    values[k] = y[out];
+    if (values[k] > values[best]) best = k;
+  }
+  let maximum = values[best];
+  let at = best * dt;
+  if (best > 0 && best < REACH_SAMPLES) {
+    const [a, b, c] = [values[best - 1], values[best], values[best + 1]];
+    const curv = a - 2 * b + c;
+    if (curv < 0) {
+      const shift = (0.5 * (a - c)) / curv;
+      maximum = b - 0.25 * (a - c) * shift;
+      at = (best + shift) * dt;
+    }
+  }
+  // A peak (a pulse generator's) is named with its time; a rise that levels off is named as a level.
+  const peaked = maximum > values[REACH_SAMPLES] * (1 + 1e-3) + 1e-9;
+  return { offSteadyState: offState[out], onMaximum: maximum, onMaximumAtMinutes: peaked ? at : null };
+}
+
+/** Warnings about a threshold in plain words, with the numbers and the reason. */
+export function thresholdWarnings(theta: number, levels: OnReach | null, userSet: boolean): string[] {
+  const w: string[] = [];
+  if (theta < MIN_THRESHOLD_MOLECULES)
+    w.push(
+      `The threshold is ${fmt(theta)} molecules, below ${MIN_THRESHOLD_MOLECULES}: a few stray production events cross it, so passes and delays may be noise (common practice). Raise threshold.value or the system size.`,
+    );
+  if (!levels) return w;
+  const off = levels.offSteadyState;
+  if (userSet && theta <= off)
+    w.push(
+      `The threshold (${fmt(theta)} molecules) is at or below the OFF steady state (${fmt(off)} molecules): the output starts above it, so most pulses are excluded.`,
+    );
+  else if (off > 0 && theta - off < OFF_NOISE_SDS * Math.sqrt(off))
+    w.push(
+      `The threshold (${fmt(theta)} molecules) is less than ${OFF_NOISE_SDS} Poisson standard deviations (sqrt(${fmt(off)}) = ${fmt(Math.sqrt(off))}) above the OFF steady state (${fmt(off)} molecules): OFF-state noise alone crosses it (common practice).`,
+    );
+  if (userSet && theta > levels.onMaximum)
+    w.push(
+      `The threshold (${fmt(theta)} molecules) is above anything the mean-field output reaches under constant ON input within the end time (${fmt(levels.onMaximum)} molecules): only noise can cross it.`,
+    );
+  return w;
+}
+
+function fmt(x: number): string {
+  return Number.isInteger(x) ? String(x) : String(Number(x.toPrecision(4)));
 }
