@@ -203,6 +203,11 @@ export const runs = sqliteTable(
     summary: text("summary", { mode: "json" }),
     /** Content hash of the stored statistics, for verified reproduction. */
     statsHash: text("stats_hash"),
+    /** Behaviour labels {deterministic, stochastic} with their evidence (docs/regimes.md), written at finalisation. */
+    regime: text("regime", { mode: "json" }),
+    /** The two labels alone, for maps and lists. */
+    regimeDeterministic: text("regime_deterministic"),
+    regimeStochastic: text("regime_stochastic"),
     createdBy: text("created_by"),
     createdAt: createdAt(),
     startedAt: integer("started_at", { mode: "timestamp_ms" }),

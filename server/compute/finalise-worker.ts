@@ -2,8 +2,9 @@
  * Finalising a run off the HTTP event loop: reads the run's stored chunks and
  * rows from SQLite (a read-only connection; WAL lets the server keep writing),
  * reduces the grid sums in chunk order, solves the ODE overlay, summarises the
- * pulse statistics and hashes everything. The server writes the result in one
- * transaction.
+ * pulse statistics, labels the circuit's behaviour (deterministic and
+ * stochastic, docs/regimes.md) and hashes everything. The server writes the
+ * result in one transaction.
  */
 import Database from "better-sqlite3";
 import { drizzle } from "drizzle-orm/better-sqlite3";
@@ -12,7 +13,8 @@ import * as schema from "@/db/schema";
 import type { Db } from "@/db/client";
 import type { RunSpec } from "@/shared/schemas/run-spec";
 import type { RunSummary } from "@/shared/schemas/analysis";
-import { reduceChunks, resolveThreshold, solveOde } from "@/sim";
+import { reduceChunks, resolveThreshold, runSetup, solveOde } from "@/sim";
+import { runRegime, type RunRegime } from "@/sim/regimes";
 import { runSettingsBlock, summarizeRun } from "@/sim/analysis";
 import {
   computeStatsHash,
@@ -34,6 +36,7 @@ export interface FinaliseResult {
   statsHash: string;
   capped: boolean;
   odeNote: string | null;
+  regime: RunRegime;
 }
 
 export default function finalise(task: FinaliseTask): FinaliseResult {
@@ -78,9 +81,24 @@ export default function finalise(task: FinaliseTask): FinaliseResult {
       endTimeMinutes: spec.endTimeMinutes,
       settings: runSettingsBlock(spec, threshold),
     });
+    let regime: RunRegime;
+    try {
+      const passCurve = spec.program
+        ? summary.byDuration.map((b) => ({ durationMinutes: b.duration, passed: b.passed, counted: b.pulses }))
+        : undefined;
+      regime = runRegime(runSetup(spec).model, threshold.theta, passCurve, {
+        seed: spec.seed,
+        hysteresis: threshold.hysteresis,
+        outputLifetimeMinutes: threshold.outputLifetimeMinutes,
+      });
+    } catch (e) {
+      const unclear = { label: "unclear" as const, evidence: {}, reason: `not classified: ${(e as Error).message}` };
+      regime = { deterministic: unclear, stochastic: unclear };
+    }
     return {
       series,
       summary,
+      regime,
       statsHash: computeStatsHash(replicates, pulses, series),
       capped: replicates.some((r) => r.capped),
       odeNote,

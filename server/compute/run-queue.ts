@@ -335,6 +335,9 @@ export function createRunQueue(opts: RunQueueOptions): RunQueue {
               : null,
             summary: r.summary,
             statsHash: r.statsHash,
+            regime: r.regime,
+            regimeDeterministic: r.regime.deterministic.label,
+            regimeStochastic: r.regime.stochastic.label,
             finishedAt: new Date(),
           })
           .where(eq(schema.runs.id, run.id))

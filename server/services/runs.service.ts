@@ -418,6 +418,7 @@ export function runDetail(ctx: AppContext, id: string): RunDetail {
     summary: row.summary ?? null,
     threshold,
     settings,
+    regime: (row.regime as RunDetail["regime"]) ?? null,
   };
 }
 

@@ -4,6 +4,7 @@
  * order; the sweep's per-point aggregates are the child runs' stored summaries.
  * A cancelled or interrupted sweep resumes from the points (and chunks) it has.
  */
+import type { RegimeLabelValue } from "@/shared/schemas/regime";
 import { and, asc, count, eq, inArray, isNull } from "drizzle-orm";
 import type { AppContext } from "@/server/context";
 import { inTransaction, schema } from "@/db/client";
@@ -236,6 +237,10 @@ export function sweepDetail(ctx: AppContext, sweepId: string): SweepDetail {
       status: r.status,
       values,
       replicatesDone: r.replicatesDone,
+      regime: {
+        deterministic: (r.regimeDeterministic as RegimeLabelValue | null) ?? null,
+        stochastic: (r.regimeStochastic as RegimeLabelValue | null) ?? null,
+      },
       figures: s
         ? {
             d50: s.d50 ?? null,

@@ -1,4 +1,5 @@
 /** Request and response shapes of the runs, sweeps and comparison API. */
+import { RegimeLabelsSchema, RunRegimeSchema } from "./regime";
 import { z } from "zod";
 import { CircuitSchema, NameSchema, ParameterRefSchema } from "./circuit";
 import { InputProgramSchema } from "./input-program";
@@ -131,6 +132,8 @@ export const RunDetailSchema = RunListItemSchema.extend({
    * the threshold cannot be resolved.
    */
   settings: RunSettingsBlockSchema.nullable(),
+  /** Behaviour labels with their evidence (docs/regimes.md); null until the run is finalised. */
+  regime: RunRegimeSchema.nullable().optional(),
   /** For a reproduction: identical statistics or the first difference. */
   reproduction: z
     .object({
@@ -255,6 +258,8 @@ export const SweepPointSchema = z.object({
   /** Parameter reference -> value at this point. */
   values: z.record(z.string(), z.number()),
   replicatesDone: z.number(),
+  /** The point's behaviour labels (docs/regimes.md); null labels until it is finalised. */
+  regime: RegimeLabelsSchema.optional(),
   figures: z
     .object({
       d50: z.number().nullable(),

@@ -1,18 +1,11 @@
 /**
  * The behaviour vocabulary (docs/regimes.md): what a circuit does at given
- * parameters, with the named numbers its rule used.
+ * parameters, with the named numbers its rule used. The list itself lives with
+ * the wire schema (shared/schemas/regime.ts) so client and engine share it.
  */
-export const REGIME_LABELS = [
-  "silent",
-  "steady",
-  "follower",
-  "persistence filter",
-  "pulse generator",
-  "memory",
-  "damped oscillation",
-  "sustained oscillation",
-  "unclear",
-] as const;
+import { REGIME_LABEL_VALUES } from "@/shared/schemas/regime";
+
+export const REGIME_LABELS = REGIME_LABEL_VALUES;
 export type RegimeLabel = (typeof REGIME_LABELS)[number];
 
 export interface RegimeVerdict {

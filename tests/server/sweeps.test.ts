@@ -3,6 +3,7 @@ import assert from "node:assert/strict";
 import { makeTestContext, signIn } from "@/tests/helpers/test-app";
 import { launchBody, realQueue } from "@/tests/helpers/run-helpers";
 import { SweepDetailSchema, SweepListItemSchema } from "@/shared/schemas/api-runs";
+import { REGIME_LABEL_VALUES } from "@/shared/schemas/regime";
 
 async function waitSweep(agent: any, id: string, timeoutMs = 180_000) {
   const t0 = Date.now();
@@ -38,6 +39,13 @@ test("a one-parameter sweep computes every point with its own seed and stores pe
     SweepListItemSchema.parse((await editor.get(`/api/labs/${labId}/sweeps`)).body[0]);
     assert.equal(done.points.length, 3);
     for (const p of done.points) assert.ok(p.figures, "figures stored for each point");
+    // behaviour labels stored for each point (docs/regimes.md): the hold circuit filters the 5 min pulses
+    // at the defaults (K = 100) in both models
+    for (const p of done.points) {
+      assert.ok(REGIME_LABEL_VALUES.includes(p.regime.deterministic), JSON.stringify(p.regime));
+      assert.ok(REGIME_LABEL_VALUES.includes(p.regime.stochastic), JSON.stringify(p.regime));
+    }
+    assert.equal(done.points[1].regime.stochastic, "persistence filter");
     // A larger half-max for the hold factor makes passing harder: the 60-min pass probability does not rise.
     const pass60 = done.points.map((p: any) => p.figures.passByDuration["60"]);
     assert.ok(pass60[0] >= pass60[2], `pass at 60 min by point: ${pass60}`);
