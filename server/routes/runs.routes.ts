@@ -2,6 +2,7 @@
 import { z } from "zod";
 import { eq } from "drizzle-orm";
 import { defineRoutes, type RouteCall, type RouteDef } from "./route-table";
+import { deleteRestoreRoutes } from "./delete-restore-routes";
 import type { AppContext } from "@/server/context";
 import type { RunSummary } from "@/shared/schemas/analysis";
 import { schema } from "@/db/client";
@@ -220,28 +221,20 @@ export const runRoutes = defineRoutes([
       return runs.runDetail(ctx, params.id);
     },
   },
-  {
-    method: "delete",
+  ...deleteRestoreRoutes({
+    resource: "run",
     path: "/runs/:id",
-    access: { kind: "object", resource: "run", role: "editor", deleted: "reachable" },
-    summary: "Delete a run; it can be restored for 7 days.",
-    handler: ({ ctx, params, user, labId }) => {
-      runs.softDelete(ctx, params.id);
-      recordAudit(ctx, { labId, userId: user!.id, action: "run.deleted", targetType: "run", targetId: params.id });
-      return { deleted: true, undo: `/api/runs/${params.id}/restore` };
+    noun: "run",
+    remove: (ctx, id, userId, labId) => {
+      runs.softDelete(ctx, id);
+      recordAudit(ctx, { labId, userId, action: "run.deleted", targetType: "run", targetId: id });
     },
-  },
-  {
-    method: "post",
-    path: "/runs/:id/restore",
-    access: { kind: "object", resource: "run", role: "editor", deleted: "reachable" },
-    summary: "Undo a delete.",
-    handler: ({ ctx, params, user, labId }) => {
-      runs.restore(ctx, params.id);
-      recordAudit(ctx, { labId, userId: user!.id, action: "run.restored", targetType: "run", targetId: params.id });
-      return runs.runDetail(ctx, params.id);
+    restore: (ctx, id, userId, labId) => {
+      runs.restore(ctx, id);
+      recordAudit(ctx, { labId, userId, action: "run.restored", targetType: "run", targetId: id });
+      return runs.runDetail(ctx, id);
     },
-  },
+  }),
   {
     method: "get",
     path: "/runs/:id/series",

@@ -1,5 +1,6 @@
 /** Parameter sweeps: launch, list, detail with per-point figures, cancel, resume, delete. */
 import { defineRoutes } from "./route-table";
+import { deleteRestoreRoutes } from "./delete-restore-routes";
 import { LaunchSweepSchema } from "@/shared/schemas/api-runs";
 import * as sweeps from "@/server/services/sweeps.service";
 import { recordAudit } from "@/server/services/audit.service";
@@ -66,26 +67,19 @@ export const sweepRoutes = defineRoutes([
       return sweeps.sweepDetail(ctx, params.id);
     },
   },
-  {
-    method: "delete",
+  ...deleteRestoreRoutes({
+    resource: "sweep",
     path: "/sweeps/:id",
-    access: { kind: "object", resource: "sweep", role: "editor", deleted: "reachable" },
-    summary: "Delete a sweep and hide its points (restorable for 7 days).",
-    handler: ({ ctx, params, user, labId }) => {
-      sweeps.deleteSweep(ctx, params.id);
-      recordAudit(ctx, { labId, userId: user!.id, action: "sweep.deleted", targetType: "sweep", targetId: params.id });
-      return { deleted: true, undo: `/api/sweeps/${params.id}/restore` };
+    noun: "sweep",
+    alsoHides: "and hide its points",
+    remove: (ctx, id, userId, labId) => {
+      sweeps.deleteSweep(ctx, id);
+      recordAudit(ctx, { labId, userId, action: "sweep.deleted", targetType: "sweep", targetId: id });
     },
-  },
-  {
-    method: "post",
-    path: "/sweeps/:id/restore",
-    access: { kind: "object", resource: "sweep", role: "editor", deleted: "reachable" },
-    summary: "Undo a sweep delete.",
-    handler: ({ ctx, params, user, labId }) => {
-      sweeps.restoreSweep(ctx, params.id);
-      recordAudit(ctx, { labId, userId: user!.id, action: "sweep.restored", targetType: "sweep", targetId: params.id });
-      return sweeps.sweepDetail(ctx, params.id);
+    restore: (ctx, id, userId, labId) => {
+      sweeps.restoreSweep(ctx, id);
+      recordAudit(ctx, { labId, userId, action: "sweep.restored", targetType: "sweep", targetId: id });
+      return sweeps.sweepDetail(ctx, id);
     },
-  },
+  }),
 ]);

@@ -1,5 +1,6 @@
 /** Single-cell traces and matching (contract: shared/schemas/api-traces.ts). Logic in services/traces.service.ts and match.service.ts. */
 import { defineRoutes } from "./route-table";
+import { deleteRestoreRoutes } from "./delete-restore-routes";
 import { MatchRequestSchema, TraceSetPatchSchema, type TraceSetListItem } from "@/shared/schemas/api-traces";
 import {
   analyseStored,
@@ -87,24 +88,13 @@ export const traceRoutes = defineRoutes([
       return traceSetDetail(ctx, params.id);
     },
   },
-  {
-    method: "delete",
+  ...deleteRestoreRoutes({
+    resource: "traceSet",
     path: "/traces/:id",
-    access: { kind: "object", resource: "traceSet", role: "editor", deleted: "reachable" },
-    summary:
-      "Delete a trace set; it can be restored for 7 days, then it is purged. Every other route answers 404 for it meanwhile.",
-    handler: ({ ctx, params, user }) => {
-      deleteTraceSet(ctx, user!.id, params.id);
-      return undefined;
-    },
-  },
-  {
-    method: "post",
-    path: "/traces/:id/restore",
-    access: { kind: "object", resource: "traceSet", role: "editor", deleted: "reachable" },
-    summary: "Undo a delete (within 7 days); answers the list item. 409 when the set is not deleted.",
-    handler: ({ ctx, params, user }): TraceSetListItem => restoreTraceSet(ctx, user!.id, params.id),
-  },
+    noun: "trace set",
+    remove: (ctx, id, userId) => deleteTraceSet(ctx, userId, id),
+    restore: (ctx, id, userId): TraceSetListItem => restoreTraceSet(ctx, userId, id),
+  }),
   {
     method: "get",
     path: "/traces/:id/export/metrics.csv",

@@ -532,7 +532,7 @@ export function replicatePage(
 
 export function softDelete(ctx: AppContext, id: string) {
   const row = getRunRow(ctx, id);
-  if (row.deletedAt) throw conflict("That run is already deleted.");
+  if (row.deletedAt) throw conflict("That run is already deleted.", "already_deleted");
   if (row.status === "queued" || row.status === "running") ctx.queue.cancel(id);
   ctx.db.update(schema.runs).set({ deletedAt: new Date() }).where(eq(schema.runs.id, id)).run();
 }

@@ -10,7 +10,7 @@ import { and, desc, eq, isNotNull, isNull, lt, sql } from "drizzle-orm";
 import type { AppContext } from "@/server/context";
 import { inTransaction, schema } from "@/db/client";
 import { newId } from "@/server/ids";
-import { HttpError, badRequest, notFound, parseOr400 } from "@/server/http-error";
+import { HttpError, badRequest, conflict, notFound, parseOr400 } from "@/server/http-error";
 import { recordAudit } from "./audit.service";
 import { csvCell } from "@/shared/csv-cell";
 import { compileProgram } from "@/sim/inputs/compile-program";
@@ -444,7 +444,9 @@ export function updateTraceSet(
 
 /** Soft delete: the set disappears from every route but restore, and is purged after the undo period. */
 export function deleteTraceSet(ctx: AppContext, userId: string, id: string): void {
-  const row = getRow(ctx, id);
+  const row = ctx.db.select().from(schema.traceSets).where(eq(schema.traceSets.id, id)).get();
+  if (!row) throw notFound("That trace set");
+  if (row.deletedAt) throw conflict("That trace set is already deleted.", "already_deleted");
   inTransaction(ctx, () => {
     ctx.db.update(schema.traceSets).set({ deletedAt: new Date() }).where(eq(schema.traceSets.id, id)).run();
     recordAudit(ctx, {

@@ -1,5 +1,5 @@
 /**
- * A soft-deleted run or sweep answers 404 on every route of the route table that names it, except delete
+ * A soft-deleted run, sweep or trace set answers 404 on every route of the route table that names it, except delete
  * (409: already deleted) and restore, until it is purged; compare refuses a deleted run the same way.
  * The walk reads the route table, so a route added later is covered automatically.
  */
@@ -8,6 +8,7 @@ import assert from "node:assert/strict";
 import { makeTestContext, signIn, type TestApp } from "@/tests/helpers/test-app";
 import { launchBody } from "@/tests/helpers/run-helpers";
 import { allRoutes } from "@/server/routes";
+import { seedDemoTraces } from "@/server/demo/traces";
 
 let t: TestApp;
 let editor: Awaited<ReturnType<typeof signIn>>;
@@ -22,7 +23,7 @@ after(async () => {
   await t.close();
 });
 
-async function walk(prefix: "/runs/:id" | "/sweeps/:id", id: string) {
+async function walk(prefix: "/runs/:id" | "/sweeps/:id" | "/traces/:id", id: string) {
   const routes = allRoutes.filter(
     (r) => (r.path === prefix || r.path.startsWith(prefix + "/")) && !(r.method === "delete" && r.path === prefix),
   );
@@ -70,4 +71,24 @@ test("a deleted sweep (and its point runs) is 404 everywhere but delete and rest
   await editor.post(`/api/sweeps/${s.body.id}/restore`).expect(200);
   await editor.get(`/api/sweeps/${s.body.id}`).expect(200);
   await editor.get(`/api/runs/${pointRun}`).expect(200);
+});
+
+test("a deleted trace set is 404 everywhere but delete and restore; every resource answers delete alike", async () => {
+  seedDemoTraces(t.ctx, t.demoLab!);
+  const list = await editor.get(`/api/labs/${labId}/traces`).expect(200);
+  const items = list.body.traceSets ?? list.body.items;
+  assert.ok(items.length > 0, "the demo trace set was seeded");
+  const id = items[0].id;
+  const del = await editor.delete(`/api/traces/${id}`).expect(200);
+  assert.deepEqual(del.body, { deleted: true, undo: `/api/traces/${id}/restore` });
+  const checked = await walk("/traces/:id", id);
+  assert.ok(checked.includes("get /traces/:id"), checked.join(", "));
+  assert.equal((await editor.delete(`/api/traces/${id}`)).status, 409, "second delete");
+  await editor.post(`/api/traces/${id}/restore`).expect(200);
+  assert.equal((await editor.post(`/api/traces/${id}/restore`)).status, 409, "restore of a set that is not deleted");
+  await editor.get(`/api/traces/${id}`).expect(200);
+  // the run's answer has the same shape
+  const r = await editor.post(`/api/labs/${labId}/runs`).send(launchBody({ replicates: 10 }));
+  const runDel = await editor.delete(`/api/runs/${r.body.id}`).expect(200);
+  assert.deepEqual(runDel.body, { deleted: true, undo: `/api/runs/${r.body.id}/restore` });
 });

@@ -437,7 +437,7 @@ describe("stored trace sets", () => {
     assert.equal((await viewer.post(`/api/traces/${delId}/restore`)).status, 403, "a viewer may not restore");
     assert.equal((await editor.post(`/api/traces/${delId}/restore`)).status, 409, "a live set cannot be restored");
 
-    await editor.delete(`/api/traces/${delId}`).expect(204);
+    await editor.delete(`/api/traces/${delId}`).expect(200);
     const row = t.ctx.db.select().from(schema.traceSets).where(eq(schema.traceSets.id, delId)).get()!;
     assert.ok(row.deletedAt, "soft delete keeps the row");
     const gone = await viewer.get(`/api/traces/${delId}`);
@@ -448,7 +448,11 @@ describe("stored trace sets", () => {
     const match = await editor.post(`/api/traces/${delId}/match`).send({ runId: running });
     assert.equal(match.status, 404, "match");
     assert.match(match.body.error.message, /traceSet/);
-    assert.equal((await editor.delete(`/api/traces/${delId}`)).status, 404, "a second delete");
+    assert.equal(
+      (await editor.delete(`/api/traces/${delId}`)).status,
+      409,
+      "a second delete (already deleted, as for runs and sweeps)",
+    );
     const list = await viewer.get(`/api/labs/${lab}/traces`).expect(200);
     assert.ok(!list.body.traceSets.some((x: { id: string }) => x.id === delId), "not listed");
     // Restore is for editors of the set's lab only.
@@ -481,7 +485,7 @@ describe("stored trace sets", () => {
     const keepId = TraceSetDetailSchema.parse(
       (await post(editor, `/api/labs/${lab}/traces`, smallCsv(), { ...OPTIONS, name: "Kept" })).body,
     ).id;
-    await editor.delete(`/api/traces/${purgeId}`).expect(204);
+    await editor.delete(`/api/traces/${purgeId}`).expect(200);
     const deletedAt = t.ctx.db
       .select()
       .from(schema.traceSets)
@@ -497,7 +501,7 @@ describe("stored trace sets", () => {
     assert.ok(exists(purgeId), "one minute before the end of the undo period the set is still there");
     // Still restorable then: restore, delete again (deletedAt moves on a little).
     await editor.post(`/api/traces/${purgeId}/restore`).expect(200);
-    await editor.delete(`/api/traces/${purgeId}`).expect(204);
+    await editor.delete(`/api/traces/${purgeId}`).expect(200);
 
     // The boot-time purge (runs.service purgeDeleted) includes trace sets.
     purgeDeleted(t.ctx, Date.now() + API_LIMITS.undoDays * day + 60_000);
@@ -558,7 +562,7 @@ describe("matching and the demo set", () => {
     assert.deepEqual(again.result.points, m.result.points);
     assert.equal((await outsider.get(`/api/matches/${m.id}`)).status, 404);
     // The match goes with its trace set: hidden while the set is deleted, back when it is restored.
-    await editor.delete(`/api/traces/${traces}`).expect(204);
+    await editor.delete(`/api/traces/${traces}`).expect(200);
     assert.equal((await viewer.get(`/api/matches/${m.id}`)).status, 404);
     await editor.post(`/api/traces/${traces}/restore`).expect(200);
     await viewer.get(`/api/matches/${m.id}`).expect(200);

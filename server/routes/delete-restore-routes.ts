@@ -1,0 +1,50 @@
+/**
+ * Delete with undo, and restore, alike for every soft-deletable resource: one pair
+ * of routes per resource from this factory, so the access rule (editor, reachable
+ * while deleted), the answers and the wording cannot drift apart. DELETE answers
+ * `{ deleted: true, undo }` with the restore path; POST .../restore answers what the
+ * resource's restore returns (its detail or list item). A second delete and a restore
+ * of something not deleted answer 409 (the services check), and after the undo period
+ * the object is purged.
+ */
+import type { AppContext } from "@/server/context";
+import { API_LIMITS } from "@/shared/limits";
+import type { RouteDef } from "./route-table";
+
+type Resource = "run" | "sweep" | "traceSet";
+
+export interface DeleteRestoreSpec {
+  resource: Resource;
+  /** The object's path under /api, e.g. "/runs/:id". */
+  path: `/${string}/:id`;
+  /** How the docs name it: "run", "sweep", "trace set". */
+  noun: string;
+  /** What is hidden with it, for the docs (e.g. "and hide its points"). */
+  alsoHides?: string;
+  remove: (ctx: AppContext, id: string, userId: string, labId: string) => void;
+  restore: (ctx: AppContext, id: string, userId: string, labId: string) => unknown;
+}
+
+export function deleteRestoreRoutes(spec: DeleteRestoreSpec): RouteDef[] {
+  const access = { kind: "object", resource: spec.resource, role: "editor", deleted: "reachable" } as const;
+  const days = API_LIMITS.undoDays;
+  return [
+    {
+      method: "delete",
+      path: spec.path,
+      access,
+      summary: `Delete a ${spec.noun}${spec.alsoHides ? ` ${spec.alsoHides}` : ""}; it can be restored for ${days} days, then it is purged. Every other route answers 404 for it meanwhile; 409 when already deleted.`,
+      handler: ({ ctx, params, user, labId }) => {
+        spec.remove(ctx, params.id, user!.id, labId!);
+        return { deleted: true, undo: `/api${spec.path.replace(":id", params.id)}/restore` };
+      },
+    },
+    {
+      method: "post",
+      path: `${spec.path}/restore`,
+      access,
+      summary: `Undo a ${spec.noun} delete (within ${days} days). 409 when it is not deleted.`,
+      handler: ({ ctx, params, user, labId }) => spec.restore(ctx, params.id, user!.id, labId!),
+    },
+  ];
+}
