@@ -37,6 +37,8 @@ export function describeAuditEvent(e: AuditEvent, names: AuditNames = {}): strin
       return `${who} deleted ${runName(target)}`;
     case "run.restored":
       return `${who} restored ${runName(target)}`;
+    case "run.resumed":
+      return `The server stopped during ${runName(target)}; it resumed${typeof d.chunksStored === "number" && typeof d.chunks === "number" ? ` with ${d.chunksStored} of ${d.chunks} chunks kept` : ""}`;
     case "run.imported":
       return `${who} imported a run bundle as ${runName(target)}`;
     case "run.reproduced":

@@ -19,6 +19,7 @@ import { chunkLayout, gridTimes } from "@/sim";
 import type { SimPool } from "@/server/compute/pool";
 import type { FinaliseResult, FinaliseTask } from "@/server/compute/finalise-worker";
 import { createChunkWriter, readChunks, speciesNames } from "./run-store";
+import { recordAudit } from "@/server/services/audit.service";
 
 export interface RunQueueStats {
   queuedRuns: number;
@@ -174,6 +175,20 @@ export function createRunQueue(opts: RunQueueOptions): RunQueue {
       stopped: false,
     };
     active.set(row.id, run);
+    // Found "running" but not active here: the server stopped during the run. Keep that in the run's history,
+    // which outlives the status reason (cleared when the run finishes).
+    if (row.status === "running")
+      recordAudit(
+        { db },
+        {
+          labId: row.labId,
+          userId: null,
+          action: "run.resumed",
+          targetType: "run",
+          targetId: row.id,
+          detail: { chunksStored: stored.size, chunks: layout.chunks.length },
+        },
+      );
     db.update(schema.runs)
       .set({
         status: "running",

@@ -2,7 +2,7 @@
  * The audit trail: who launched, cancelled, deleted, invited, changed roles.
  * One row per event in `audit_events`; lab owners read their lab's trail.
  */
-import { and, desc, eq, lt } from "drizzle-orm";
+import { and, asc, desc, eq, lt } from "drizzle-orm";
 import type { AppContext } from "@/server/context";
 import { schema } from "@/db/client";
 
@@ -12,6 +12,7 @@ export type AuditAction =
   | "run.cancelled"
   | "run.deleted"
   | "run.restored"
+  | "run.resumed"
   | "sweep.launched"
   | "sweep.cancelled"
   | "sweep.deleted"
@@ -62,6 +63,30 @@ export function recordAudit(ctx: Pick<AppContext, "db">, e: AuditInput): void {
       at: new Date(),
     })
     .run();
+}
+
+/** The events about one object (e.g. a run: launched, resumed after a crash, cancelled), oldest first. */
+export function objectHistory(ctx: Pick<AppContext, "db">, targetType: string, targetId: string): AuditEvent[] {
+  const a = schema.auditEvents;
+  const rows = ctx.db
+    .select({
+      id: a.id,
+      labId: a.labId,
+      userId: a.userId,
+      userName: schema.users.displayName,
+      action: a.action,
+      targetType: a.targetType,
+      targetId: a.targetId,
+      detail: a.detail,
+      at: a.at,
+    })
+    .from(a)
+    .leftJoin(schema.users, eq(schema.users.id, a.userId))
+    .where(and(eq(a.targetType, targetType), eq(a.targetId, targetId)))
+    .orderBy(asc(a.id))
+    .limit(200)
+    .all();
+  return rows.map((r) => ({ ...r, at: r.at.toISOString() }));
 }
 
 /** A lab's events, newest first; `beforeId` pages back. */

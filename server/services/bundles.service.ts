@@ -10,7 +10,7 @@ import { BUNDLE_FORMAT, RunBundleSchema, type RunBundle } from "@/shared/schemas
 import type { RunSpec } from "@/shared/schemas/run-spec";
 import { validateCircuit } from "@/sim";
 import { badRequest, parseOr400 } from "@/server/http-error";
-import { checkLimits, getRunRow, insertRun } from "./runs.service";
+import { checkLimits, distinctRunName, getRunRow, insertRun } from "./runs.service";
 import { firstDifference } from "@/server/compute/run-store";
 
 export function makeBundle(ctx: AppContext, runId: string): RunBundle {
@@ -40,7 +40,7 @@ export function importBundle(ctx: AppContext, labId: string, userId: string, raw
   checkLimits(bundle.spec);
   const id = insertRun(ctx, {
     labId,
-    name: name ?? `${bundle.name} (reproduction)`,
+    name: distinctRunName(ctx, labId, name ?? `${bundle.name} (reproduction)`),
     notes: `Imported from a bundle of run ${bundle.source.runId} (${bundle.source.lab}), engine ${bundle.engineVersion}, Node ${bundle.runtime.node}.`,
     spec: bundle.spec,
     userId,
@@ -58,7 +58,7 @@ export function reproduceRun(ctx: AppContext, runId: string, userId: string): st
   const row = getRunRow(ctx, runId);
   const id = insertRun(ctx, {
     labId: row.labId,
-    name: `${row.name} (reproduction)`,
+    name: distinctRunName(ctx, row.labId, `${row.name} (reproduction)`),
     notes: `Re-run of ${row.name} with the same bundle.`,
     spec: row.spec as RunSpec,
     userId,

@@ -34,6 +34,7 @@ import { fromBlob } from "@/server/compute/run-store";
 import { runSettingsBlock } from "@/sim/analysis/run-settings";
 import { purgeDeletedTraceSets } from "./traces.service";
 import { assertRestorable } from "./undo";
+import { objectHistory } from "./audit.service";
 
 export const randomSeed = () => randomBytes(6).toString("hex");
 
@@ -193,6 +194,25 @@ export function activeRunCount(ctx: AppContext, labId: string): number {
       ),
     )
     .get()!.n;
+}
+
+/**
+ * `base` when no run of the lab (deleted ones included, as they can be restored) has that name, else
+ * `base 2`, `base 3`... (e.g. "Hold sensor (reproduction 2)" when written as `${name} (reproduction)`).
+ */
+export function distinctRunName(ctx: AppContext, labId: string, base: string): string {
+  const taken = new Set(
+    ctx.db
+      .select({ name: schema.runs.name })
+      .from(schema.runs)
+      .where(and(eq(schema.runs.labId, labId), sql`instr(${schema.runs.name}, ${base.slice(0, -1)}) = 1`))
+      .all()
+      .map((r) => r.name),
+  );
+  if (!taken.has(base)) return base;
+  // "X (reproduction)" -> "X (reproduction 2)"; a name without a closing bracket gets " 2".
+  const withNumber = (n: number) => (base.endsWith(")") ? `${base.slice(0, -1)} ${n})` : `${base} ${n}`);
+  for (let n = 2; ; n++) if (!taken.has(withNumber(n))) return withNumber(n);
 }
 
 export function insertRun(
@@ -381,6 +401,41 @@ export function listRuns(
   return rows.map((r) => toListItem(ctx, r, names, programs));
 }
 
+function historyWords(action: string, by: string | null, detail: Record<string, unknown>): string {
+  const who = by ?? "Someone";
+  switch (action) {
+    case "run.launched":
+      return `Launched by ${who}`;
+    case "run.imported":
+      return `Imported from a bundle by ${who}`;
+    case "run.reproduced":
+      return `Started by ${who} as a reproduction`;
+    case "run.resumed": {
+      const kept =
+        typeof detail.chunksStored === "number" && typeof detail.chunks === "number"
+          ? ` with ${detail.chunksStored} of ${detail.chunks} chunks kept`
+          : "";
+      return `Interrupted (the server stopped) and resumed${kept}`;
+    }
+    case "run.cancelled":
+      return `Cancelled by ${who}`;
+    case "run.deleted":
+      return `Deleted by ${who}`;
+    case "run.restored":
+      return `Restored by ${who}`;
+    default:
+      return `${action}${by ? ` by ${by}` : ""}`;
+  }
+}
+
+/** The run's history from the audit trail, oldest first. */
+export function runHistory(ctx: AppContext, id: string): RunDetail["history"] {
+  return objectHistory(ctx, "run", id).map((e) => {
+    const detail = e.detail && typeof e.detail === "object" ? (e.detail as Record<string, unknown>) : {};
+    return { action: e.action, at: e.at, by: e.userName, words: historyWords(e.action, e.userName, detail) };
+  });
+}
+
 export function runDetail(ctx: AppContext, id: string): RunDetail {
   const row = getRunRow(ctx, id);
   const names = userNames(ctx, [row.createdBy]);
@@ -404,6 +459,7 @@ export function runDetail(ctx: AppContext, id: string): RunDetail {
   return {
     ...toListItem(ctx, row, names),
     notes: row.notes,
+    history: runHistory(ctx, id),
     spec,
     engineVersion: row.engineVersion,
     eventsTotal: row.eventsTotal,

@@ -102,8 +102,20 @@ export const RunListItemSchema = z.object({
 });
 export type RunListItem = z.infer<typeof RunListItemSchema>;
 
+/** One entry of a run's history (from the audit trail), in words. */
+export const RunHistoryEntrySchema = z.object({
+  action: z.string(),
+  at: z.string(),
+  /** Who did it; null for the server itself (e.g. resuming after a crash). */
+  by: z.string().nullable(),
+  words: z.string(),
+});
+export type RunHistoryEntry = z.infer<typeof RunHistoryEntrySchema>;
+
 export const RunDetailSchema = RunListItemSchema.extend({
   notes: z.string(),
+  /** Launched, interrupted and resumed, cancelled...: oldest first. */
+  history: z.array(RunHistoryEntrySchema),
   spec: RunSpecSchema,
   engineVersion: z.string(),
   eventsTotal: z.number(),

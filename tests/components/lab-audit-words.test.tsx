@@ -71,6 +71,15 @@ describe("audit trail in plain words", () => {
     );
   });
 
+  test("a run resumed after a server stop reads as such, without a person", () => {
+    expect(
+      describeAuditEvent(
+        event({ action: "run.resumed", userId: null, userName: null, detail: { chunksStored: 3, chunks: 30 } }),
+        names,
+      ),
+    ).toBe("The server stopped during run “Hold sensor on Feed spikes”; it resumed with 3 of 30 chunks kept");
+  });
+
   test("unknown actions still show their code", () => {
     expect(describeAuditEvent(event({ action: "something.new", targetId: "x1" }))).toBe(
       "Demo editor: something.new (x1)",

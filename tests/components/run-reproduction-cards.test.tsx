@@ -7,7 +7,7 @@ import {
   halfRiseWords,
   type AccelerationView,
 } from "@/components/runs/acceleration-card";
-import { importProblemOf } from "@/components/runs/import-bundle";
+import { ImportConfirm, importProblemOf, pendingImportOf } from "@/components/runs/import-bundle";
 import { ApiError } from "@/components/data/api";
 import { renderWithProviders } from "./render";
 
@@ -92,4 +92,29 @@ test("a refused bundle import lists each field the server named", () => {
   );
   expect(p.message).toBe("This file is not a run bundle Linger can re-run.");
   expect(p.fields).toEqual([{ path: "spec.replicates", message: "Too big: expected number to be <=100000" }]);
+});
+
+describe("import asks before it starts a computation", () => {
+  test("the question names the file, the run and its replicates; each button calls its handler once", () => {
+    const pending = pendingImportOf("bundle.json", { name: "Hold sensor on Feed spikes", spec: { replicates: 2000 } });
+    const onConfirm = jest.fn();
+    const onCancel = jest.fn();
+    renderWithProviders(<ImportConfirm pending={pending} onConfirm={onConfirm} onCancel={onCancel} />);
+    expect(screen.getByText("Import bundle.json?")).toBeTruthy();
+    expect(
+      screen.getByText(
+        "A new run in this lab re-runs 2,000 replicates of “Hold sensor on Feed spikes” and checks that its statistics match the bundle.",
+      ),
+    ).toBeTruthy();
+    fireEvent.press(screen.getByTestId("import-cancel"));
+    expect(onCancel).toHaveBeenCalledTimes(1);
+    expect(onConfirm).not.toHaveBeenCalled();
+    fireEvent.press(screen.getByTestId("import-confirm"));
+    expect(onConfirm).toHaveBeenCalledTimes(1);
+  });
+
+  test("a file without a name or replicates still gets a question", () => {
+    const p = pendingImportOf("odd.json", [1, 2]);
+    expect([p.runName, p.replicates]).toEqual([null, null]);
+  });
 });

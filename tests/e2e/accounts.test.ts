@@ -251,6 +251,8 @@ describe("accounts, labs, admin and reproduction at phone size (390x844)", { tim
       const chooser = page.waitForEvent("filechooser");
       await page.getByTestId("import-bundle").click();
       await (await chooser).setFiles(file);
+      // Importing starts a computation: it asks first.
+      await page.getByTestId("import-confirm").click();
       await page.waitForURL((u) => /\/runs\/[^/]+$/.test(u.pathname) && u.pathname !== "/runs/new");
       await page.getByTestId("reproduction-card").waitFor();
       await page.getByText("Re-run of an imported bundle", { exact: false }).waitFor();

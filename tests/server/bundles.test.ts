@@ -108,3 +108,51 @@ test("matched control and comparison of a filter with its control", async () => 
     await t.close();
   }
 });
+
+test("reproductions and imports of one run get distinct names; the run's history says who started each", async () => {
+  const t = await makeTestContext();
+  try {
+    const editor = await signIn(t.app, "editor@example.org");
+    const labId = t.demoLab!.id;
+    // A run marked finished by hand (the idle queue computes nothing; naming does not need results).
+    const launched = await editor
+      .post(`/api/labs/${labId}/runs`)
+      .send(launchBody({ replicates: 100, seed: "names-seed" }))
+      .expect(201);
+    t.ctx.db
+      .update(schema.runs)
+      .set({ status: "finished", statsHash: "a".repeat(64), finishedAt: new Date() })
+      .where(eq(schema.runs.id, launched.body.id))
+      .run();
+    const finished = { id: launched.body.id as string, name: launched.body.name as string };
+    const names: string[] = [];
+    for (let i = 0; i < 3; i++) {
+      const r = await editor.post(`/api/runs/${finished.id}/reproduce`).expect(201);
+      names.push(r.body.name);
+      assert.deepEqual(
+        r.body.history.map((h: any) => h.words),
+        ["Started by Demo editor as a reproduction"],
+      );
+    }
+    // Before the fix all three were called "<name> (reproduction)".
+    assert.deepEqual(names, [
+      `${finished.name} (reproduction)`,
+      `${finished.name} (reproduction 2)`,
+      `${finished.name} (reproduction 3)`,
+    ]);
+    const bundle = (await editor.get(`/api/runs/${finished.id}/export/bundle.json`).expect(200)).body;
+    const imp = await editor.post(`/api/labs/${labId}/bundles/import`).send({ bundle }).expect(201);
+    assert.equal(imp.body.name, `${bundle.name} (reproduction 4)`);
+    const named = await editor
+      .post(`/api/labs/${labId}/bundles/import`)
+      .send({ bundle, name: "Tank check" })
+      .expect(201);
+    const named2 = await editor
+      .post(`/api/labs/${labId}/bundles/import`)
+      .send({ bundle, name: "Tank check" })
+      .expect(201);
+    assert.deepEqual([named.body.name, named2.body.name], ["Tank check", "Tank check 2"]);
+  } finally {
+    await t.close();
+  }
+});

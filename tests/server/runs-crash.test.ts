@@ -1,7 +1,8 @@
 /**
  * Crash safety with a real server process killed by SIGKILL mid-run: on
  * restart the run resumes from its stored chunks and finishes with the same
- * statistics as an uninterrupted run (checked with the reproduction action).
+ * statistics as an uninterrupted run (checked with the reproduction action),
+ * and its history keeps the interruption after it finishes.
  */
 import { test } from "node:test";
 import assert from "node:assert/strict";
@@ -71,6 +72,15 @@ test("a run interrupted by SIGKILL resumes after restart and equals an uninterru
     );
     assert.equal(resumed.body.status, "finished", resumed.body.statusReason);
     assert.equal(resumed.body.progress.replicatesDone, 3000);
+    // The finished run still says it was interrupted and resumed (before the fix only the status reason said so,
+    // and finishing cleared it).
+    const history = resumed.body.history.map((h: { action: string; words: string }) => h.action);
+    assert.deepEqual(history, ["run.launched", "run.resumed"]);
+    assert.match(
+      resumed.body.history[1].words,
+      /^Interrupted \(the server stopped\) and resumed with \d+ of 30 chunks kept$/,
+    );
+    assert.equal(resumed.body.history[1].by, null);
 
     const again = await call("POST", `/api/runs/${id}/reproduce`);
     assert.equal(again.status, 201);

@@ -14,6 +14,7 @@ import { HeadlineCards } from "@/components/runs/headline-cards";
 import { ReproductionCard } from "@/components/runs/reproduction-card";
 import { AccelerationCard } from "@/components/runs/acceleration-card";
 import { ShareLinkCard } from "@/components/runs/share-link";
+import { ConfirmAction } from "@/components/lab/confirm-action";
 import { useReproduceRun } from "@/components/data/bundles";
 import { LazyChart } from "@/components/charts/lazy-chart";
 import { delayHistogramSpec, filterCurveSpec, meanBandSpec, trajectoriesSpec } from "@/components/charts/specs";
@@ -153,12 +154,13 @@ export default function RunDetailScreen() {
       actions={
         <>
           {active && canEdit ? (
-            <Button
+            <ConfirmAction
               label="Cancel run"
-              variant="danger"
               icon="x-circle"
+              question={`Cancel ${run.name}? The ${p.replicatesDone.toLocaleString("en")} replicates done so far are discarded.`}
+              confirmLabel="Cancel the run"
               busy={cancel.isPending}
-              onPress={() => cancel.mutate(run.id)}
+              onConfirm={() => cancel.mutate(run.id)}
               testID="cancel-run"
             />
           ) : null}
@@ -224,6 +226,16 @@ export default function RunDetailScreen() {
           {run.statusReason ? ` · ${run.statusReason}` : ""}
         </Text>
       </Card>
+      {run.history.length ? (
+        <Card testID="run-history">
+          <Text variant="heading">History</Text>
+          {run.history.map((h, i) => (
+            <Text key={`${h.action}-${i}`} variant="caption" tone="muted">
+              {`${h.words} · ${new Date(h.at).toLocaleString("en")}`}
+            </Text>
+          ))}
+        </Card>
+      ) : null}
       {run.reproduction ? (
         <ReproductionCard reproduction={run.reproduction} onOpenOriginal={(of) => router.push(`/runs/${of}`)} />
       ) : null}

@@ -9,7 +9,7 @@ import { EmptyState, ErrorState, LoadingState } from "@/components/ui/states";
 import { useRuns, sortRunsForHome } from "@/components/data/runs";
 import { useCurrentLab } from "@/components/data/current-lab";
 import { useTheme } from "@/components/theme/use-theme";
-import { ImportProblems, useBundleImportFlow } from "@/components/runs/import-bundle";
+import { ImportConfirm, ImportProblems, useBundleImportFlow } from "@/components/runs/import-bundle";
 
 export default function RunsScreen() {
   const t = useTheme();
@@ -38,6 +38,9 @@ export default function RunsScreen() {
         </>
       }
     >
+      {importer.pending ? (
+        <ImportConfirm pending={importer.pending} onConfirm={importer.confirm} onCancel={importer.cancel} />
+      ) : null}
       {importer.problem ? <ImportProblems problem={importer.problem} /> : null}
       <Choice
         label="Show"
