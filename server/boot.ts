@@ -9,6 +9,8 @@ import { APP_VERSION } from "./version";
 import { createMailer, mailSettled } from "@/server/services/mail.service";
 import { createRunQueue } from "@/server/compute/run-queue";
 import { createSimPool } from "@/server/compute/pool";
+import { createInProcessDispatcher } from "@/server/compute/dispatch";
+import { createRedisDispatcher } from "@/server/compute/redis-dispatch";
 import { onRunEnded } from "@/server/compute/run-events";
 import { purgeDeleted } from "@/server/services/runs.service";
 import { seedDemo } from "@/server/demo/seed";
@@ -22,7 +24,10 @@ export interface Booted {
 export async function boot(env: Env = parseEnv()): Promise<Booted> {
   const handle = openDatabase(env.DATABASE_URL);
   const mailer = await createMailer(env, { db: handle.db });
-  const pool = createSimPool({ threads: env.poolSize });
+  // Chunks run on this process's pool, or on worker processes through Redis when LINGER_REDIS_URL is set.
+  const dispatcher = env.LINGER_REDIS_URL
+    ? createRedisDispatcher({ url: env.LINGER_REDIS_URL, window: env.LINGER_QUEUE_WINDOW })
+    : createInProcessDispatcher(createSimPool({ threads: env.poolSize }));
   const ctx = {
     db: handle.db,
     sqlite: handle.sqlite,
@@ -34,7 +39,7 @@ export async function boot(env: Env = parseEnv()): Promise<Booted> {
   ctx.queue = createRunQueue({
     db: handle.db,
     sqlite: handle.sqlite,
-    pool,
+    dispatcher,
     chunkWallMs: env.LINGER_CHUNK_WALL_SECONDS * 1000,
     onRunEnded: (runId, status) => onRunEnded(ctx, runId, status),
     log: env.LINGER_TEST ? () => {} : undefined,

@@ -46,6 +46,13 @@ export const EnvSchema = z.object({
   /** Wall-time cap per chunk of replicates, in seconds. */
   LINGER_CHUNK_WALL_SECONDS: z.coerce.number().gt(0).default(600),
   LINGER_LOG_REQUESTS: bool(false),
+  /** Distributed mode: chunks go to worker processes through this Redis (redis:// or rediss://, with the password). */
+  LINGER_REDIS_URL: z
+    .string()
+    .regex(/^rediss?:\/\//, "must start with redis:// or rediss://")
+    .optional(),
+  /** Distributed mode: chunks out at once (queued or running on workers); default twice the live workers' threads, at least 4. */
+  LINGER_QUEUE_WINDOW: z.coerce.number().int().min(1).max(10000).optional(),
   /** Set by the test runner: quieter logs. */
   LINGER_TEST: bool(false),
 });
@@ -74,4 +81,29 @@ export function parseEnv(source: NodeJS.ProcessEnv = process.env): Env {
       ? `Demo accounts (published passwords) are not seeded: HOST=${env.HOST} is reachable from other machines. Set LINGER_SEED_DEMO=1 to seed them anyway.`
       : null;
   return { ...env, LINGER_SEED_DEMO: seed, seedRefused, poolSize, baseUrl };
+}
+
+/** The chunk worker's configuration (`npm run worker`): the Redis URL and its own pool. */
+export const WorkerEnvSchema = z.object({
+  LINGER_REDIS_URL: z
+    .string({ error: "is required: the Redis the server queues chunks on, e.g. redis://:PASSWORD@host:6379" })
+    .regex(/^rediss?:\/\//, "must start with redis:// or rediss://"),
+  /** Simulation threads of this worker (default: the machine's cores). */
+  LINGER_WORKER_THREADS: z.coerce.number().int().min(1).max(256).optional(),
+  /** Chunk lock: a killed worker's chunks are retried after about twice this (default 30 s). */
+  LINGER_WORKER_LOCK_SECONDS: z.coerce.number().gt(0).default(30),
+  /** On SIGTERM, how long current chunks may finish before they are handed back (default 30 s). */
+  LINGER_WORKER_DRAIN_SECONDS: z.coerce.number().min(0).default(30),
+  LINGER_WORKER_HEARTBEAT_SECONDS: z.coerce.number().gt(0).default(5),
+});
+
+export type WorkerEnv = z.infer<typeof WorkerEnvSchema> & { threads: number };
+
+export function parseWorkerEnv(source: NodeJS.ProcessEnv = process.env): WorkerEnv {
+  const parsed = WorkerEnvSchema.safeParse(source);
+  if (!parsed.success) {
+    const lines = parsed.error.issues.map((i) => `  ${i.path.join(".")}: ${i.message}`);
+    throw new Error(`Invalid worker configuration:\n${lines.join("\n")}`);
+  }
+  return { ...parsed.data, threads: parsed.data.LINGER_WORKER_THREADS ?? availableParallelism() };
 }

@@ -5,14 +5,14 @@
  */
 import path from "node:path";
 import { Piscina } from "piscina";
-import type { ChunkResult } from "@/sim";
 import type { RunSpec } from "@/shared/schemas/run-spec";
 import type { SimTask } from "./sim-task";
+import type { WorkerChunkResult } from "./sim-worker";
 
 export type { SimTask } from "./sim-task";
 
 export interface SimPool {
-  runChunk(task: SimTask): Promise<ChunkResult & { wallTimeExceeded?: boolean }>;
+  runChunk(task: SimTask): Promise<WorkerChunkResult>;
   /** Compiles the spec in every thread and runs a few throwaway replicates (so timing starts with warm caches and JIT). */
   warmUp(spec: RunSpec, opts?: { replicates?: number }): Promise<void>;
   threads: number;

@@ -17,6 +17,8 @@ import { resolve } from "node:path";
 import { Piscina } from "piscina";
 import { chunkLayout, gridTimes } from "@/sim";
 import type { SimPool } from "@/server/compute/pool";
+import { createInProcessDispatcher, type ChunkDispatcher, type DispatchStats } from "@/server/compute/dispatch";
+import { newFeedState, pickNextChunk } from "@/server/compute/feed-window";
 import type { FinaliseResult, FinaliseTask } from "@/server/compute/finalise-worker";
 import { createChunkWriter, readChunks, speciesNames } from "./run-store";
 import { recordAudit } from "@/server/services/audit.service";
@@ -25,6 +27,8 @@ export interface RunQueueStats {
   queuedRuns: number;
   runningRuns: number;
   busyThreads: number;
+  /** Where chunks run (embedded pool or Redis workers), window, queue depth, rate, workers. */
+  dispatch: DispatchStats;
 }
 
 export interface RunProgress {
@@ -51,6 +55,7 @@ export interface RunQueue {
 
 interface ActiveRun {
   id: string;
+  labId: string;
   group: string;
   order: number;
   spec: RunSpec;
@@ -71,7 +76,10 @@ interface ActiveRun {
 export interface RunQueueOptions {
   db: Db;
   sqlite: Database.Database;
-  pool: SimPool;
+  /** The in-process pool (embedded mode); ignored when a dispatcher is given. */
+  pool?: SimPool;
+  /** Where chunks are computed; default: the in-process dispatcher over `pool`. */
+  dispatcher?: ChunkDispatcher;
   /** The database file (the finalising worker opens it read-only); default: the open connection's file. */
   dbPath?: string;
   /** Wall-time cap per chunk, ms (enforced in the worker). */
@@ -85,7 +93,20 @@ const END_STATES = new Set(["finished", "failed", "capped", "cancelled"]);
 
 export function createIdleQueue(): RunQueue {
   return {
-    stats: () => ({ queuedRuns: 0, runningRuns: 0, busyThreads: 0 }),
+    stats: () => ({
+      queuedRuns: 0,
+      runningRuns: 0,
+      busyThreads: 0,
+      dispatch: {
+        mode: "embedded",
+        redis: null,
+        window: 0,
+        inFlight: 0,
+        queueDepth: 0,
+        chunksPerSecond: 0,
+        workers: [],
+      },
+    }),
     kick: () => {},
     cancel: () => false,
     progress: () => null,
@@ -96,7 +117,9 @@ export function createIdleQueue(): RunQueue {
 }
 
 export function createRunQueue(opts: RunQueueOptions): RunQueue {
-  const { db, sqlite, pool } = opts;
+  const { db, sqlite } = opts;
+  if (!opts.dispatcher && !opts.pool) throw new Error("createRunQueue needs a pool or a dispatcher");
+  const dispatcher = opts.dispatcher ?? createInProcessDispatcher(opts.pool!);
   const log = opts.log ?? ((m: string) => console.log(`[queue] ${m}`));
   const writer = createChunkWriter(sqlite);
   const dbPath = opts.dbPath ?? sqlite.name;
@@ -112,7 +135,7 @@ export function createRunQueue(opts: RunQueueOptions): RunQueue {
   const active = new Map<string, ActiveRun>();
   let inFlight = 0;
   let closed = false;
-  let rrGroup = "";
+  const feedState = newFeedState();
   let orderCounter = 0;
   let idleWaiters: (() => void)[] = [];
   const finalising = new Set<string>();
@@ -127,7 +150,8 @@ export function createRunQueue(opts: RunQueueOptions): RunQueue {
     notifying.add(p);
   };
 
-  const capacity = () => Math.max(1, pool.threads);
+  const capacity = () => Math.max(1, dispatcher.capacity());
+  dispatcher.onWake(() => pump());
 
   function checkIdle() {
     if (active.size === 0 && inFlight === 0 && finalising.size === 0) {
@@ -158,6 +182,7 @@ export function createRunQueue(opts: RunQueueOptions): RunQueue {
     const pending = layout.chunks.filter((c) => !stored.has(c.index)).map((c) => c.index);
     const run: ActiveRun = {
       id: row.id,
+      labId: row.labId,
       group: row.sweepId ?? row.id,
       order: (row.sweepPoint ?? 0) + orderCounter++ * 1e-9,
       spec,
@@ -213,23 +238,9 @@ export function createRunQueue(opts: RunQueueOptions): RunQueue {
     checkIdle();
   }
 
-  /** The next chunk to run: round-robin over groups; inside a group, runs in order. */
+  /** The next chunk to run: the feeding rule in ./feed-window.ts (labs by fewest chunks out, then round-robin). */
   function nextChunk(): { run: ActiveRun; chunkIndex: number } | null {
-    const groups = new Map<string, ActiveRun[]>();
-    for (const r of active.values()) {
-      if (r.stopped || r.pending.length === 0) continue;
-      const g = groups.get(r.group) ?? [];
-      g.push(r);
-      groups.set(r.group, g);
-    }
-    if (groups.size === 0) return null;
-    const keys = [...groups.keys()];
-    let start = keys.indexOf(rrGroup);
-    const key = keys[(start + 1) % keys.length];
-    rrGroup = key;
-    const runs = groups.get(key)!.sort((a, b) => a.order - b.order);
-    const run = runs[0];
-    return { run, chunkIndex: run.pending.shift()! };
+    return pickNextChunk(active.values(), feedState);
   }
 
   function pump() {
@@ -245,13 +256,18 @@ export function createRunQueue(opts: RunQueueOptions): RunQueue {
     inFlight++;
     run.inFlight++;
     const t0 = performance.now();
-    pool
-      .runChunk({
-        spec: run.spec,
-        replicateStart: chunk.replicateStart,
-        count: chunk.count,
-        options: { trajectoryReplicates: 20 },
-        wallTimeLimitMs: opts.chunkWallMs,
+    dispatcher
+      .run({
+        runId: run.id,
+        labId: run.labId,
+        chunkIndex,
+        task: {
+          spec: run.spec,
+          replicateStart: chunk.replicateStart,
+          count: chunk.count,
+          options: { trajectoryReplicates: 20 },
+          wallTimeLimitMs: opts.chunkWallMs,
+        },
       })
       .then(
         (result: any) => {
@@ -266,9 +282,10 @@ export function createRunQueue(opts: RunQueueOptions): RunQueue {
             );
             return;
           }
-          const seconds = (performance.now() - t0) / 1000;
+          const seconds = result.seconds ?? (performance.now() - t0) / 1000;
+          let written: boolean;
           try {
-            writer.write(run.id, run.species, run.gridLength, {
+            written = writer.write(run.id, run.species, run.gridLength, {
               chunkIndex,
               replicateStart: chunk.replicateStart,
               count: chunk.count,
@@ -285,6 +302,8 @@ export function createRunQueue(opts: RunQueueOptions): RunQueue {
             fail(run, `Storing results failed: ${(e as Error).message}`);
             return;
           }
+          // Keyed by (run, chunk index): a chunk that came back twice (a retried worker) is stored and counted once.
+          if (!written) log(`run ${run.id}: chunk ${chunkIndex} was already stored; not counted again`);
           run.done++;
           run.replicatesDone += chunk.count;
           run.sessionReplicates += chunk.count;
@@ -400,7 +419,12 @@ export function createRunQueue(opts: RunQueueOptions): RunQueue {
         if (r.replicatesDone > 0 || r.inFlight > 0) running++;
         else queued++;
       }
-      return { queuedRuns: queued, runningRuns: running, busyThreads: Math.min(inFlight, capacity()) };
+      return {
+        queuedRuns: queued,
+        runningRuns: running,
+        busyThreads: Math.min(inFlight, capacity()),
+        dispatch: dispatcher.stats(),
+      };
     },
     kick,
     cancel(runId) {
@@ -437,7 +461,7 @@ export function createRunQueue(opts: RunQueueOptions): RunQueue {
       while ((finalising.size > 0 || notifying.size > 0) && Date.now() < deadline) {
         await Promise.race([Promise.allSettled([...notifying]), new Promise((r) => setTimeout(r, 50))]);
       }
-      await Promise.all([pool.destroy(), finaliser.destroy()]);
+      await Promise.all([dispatcher.close(), finaliser.destroy()]);
       checkIdle();
     },
   };

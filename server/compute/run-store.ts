@@ -47,7 +47,8 @@ export function speciesNames(spec: RunSpec): string[] {
 /** Prepared statements for the hot write path (one chunk at a time). */
 export function createChunkWriter(sqlite: Database.Database) {
   const insChunk = sqlite.prepare(
-    `INSERT INTO run_chunks (run_id, chunk_index, replicate_start, count, events, grid_sum, grid_sum_sq, grid_count, seconds) VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?)`,
+    // Idempotent, keyed by (run, chunk index): a chunk delivered twice (a worker retried after a stall) is stored once.
+    `INSERT INTO run_chunks (run_id, chunk_index, replicate_start, count, events, grid_sum, grid_sum_sq, grid_count, seconds) VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?) ON CONFLICT (run_id, chunk_index) DO NOTHING`,
   );
   const insRep = sqlite.prepare(
     `INSERT INTO replicate_stats (run_id, replicate, events, capped, output_mean, output_var, factors) VALUES (?, ?, ?, ?, ?, ?, ?)`,
@@ -61,8 +62,9 @@ export function createChunkWriter(sqlite: Database.Database) {
   const updRun = sqlite.prepare(
     `UPDATE runs SET replicates_done = replicates_done + ?, events_total = events_total + ?, capped_replicates = capped_replicates + ?, compute_seconds = compute_seconds + ? WHERE id = ?`,
   );
-  const write = sqlite.transaction((runId: string, species: string[], gridLength: number, c: StoredChunk) => {
-    insChunk.run(
+  /** Stores one chunk in one transaction; false (nothing written) when the chunk was already stored. */
+  const write = sqlite.transaction((runId: string, species: string[], gridLength: number, c: StoredChunk): boolean => {
+    const inserted = insChunk.run(
       runId,
       c.chunkIndex,
       c.replicateStart,
@@ -73,6 +75,7 @@ export function createChunkWriter(sqlite: Database.Database) {
       toBlob(c.gridCount),
       c.seconds,
     );
+    if (inserted.changes === 0) return false;
     let capped = 0;
     for (const r of c.replicates) {
       if (r.capped) capped++;
@@ -112,6 +115,7 @@ export function createChunkWriter(sqlite: Database.Database) {
       );
     }
     updRun.run(c.count, c.events, capped, c.seconds, runId);
+    return true;
   });
   return { write };
 }

@@ -8,7 +8,11 @@ import { Piscina } from "piscina";
 import { simulateChunk, prepareRun, type ChunkResult } from "@/sim";
 import type { SimTask } from "./sim-task";
 
-export type WorkerChunkResult = ChunkResult & { wallTimeExceeded?: boolean };
+export type WorkerChunkResult = ChunkResult & {
+  wallTimeExceeded?: boolean;
+  /** Compute seconds measured where the chunk ran (set by the Redis worker; the embedded queue times the call). */
+  seconds?: number;
+};
 
 function transferables(r: ChunkResult): ArrayBuffer[] {
   const out = new Set<ArrayBuffer>();

@@ -1,4 +1,4 @@
-/** Site-admin routes: the fake SMTP outbox, database backup, the user list. */
+/** Site-admin routes: compute status, the fake SMTP outbox, database backup, the user list. */
 import { mkdirSync, statSync } from "node:fs";
 import { dirname, join, resolve } from "node:path";
 import { count, desc, eq } from "drizzle-orm";
@@ -6,6 +6,8 @@ import { defineRoutes } from "./route-table";
 import { restrictFile, schema } from "@/db/client";
 import { recordAudit } from "@/server/services/audit.service";
 import type { AppContext } from "@/server/context";
+import { computeStatus } from "./health.routes";
+import type { ComputeStatus } from "@/shared/schemas/api-health";
 import { OutboxQuerySchema, type AdminUsers, type BackupResult, type Outbox } from "@/shared/schemas/api-accounts";
 
 /** Folder for backups: `backups/` beside the database file (data/backups by default). */
@@ -28,6 +30,14 @@ export async function backupDatabase(ctx: AppContext): Promise<{ file: string; p
 }
 
 export const adminRoutes = defineRoutes([
+  {
+    method: "get",
+    path: "/admin/compute",
+    access: { kind: "siteAdmin" },
+    summary:
+      "Where chunks run: embedded pool or Redis workers (each with host, threads, last heartbeat), queue depth, chunks per second.",
+    handler: ({ ctx }): ComputeStatus => computeStatus(ctx),
+  },
   {
     method: "get",
     path: "/admin/outbox",

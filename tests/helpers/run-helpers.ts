@@ -7,6 +7,7 @@ import type { Agent } from "supertest";
 import type { AppContext } from "@/server/context";
 import { createRunQueue, type RunQueue } from "@/server/compute/run-queue";
 import { createSimPool } from "@/server/compute/pool";
+import { createRedisDispatcher } from "@/server/compute/redis-dispatch";
 import { onRunEnded } from "@/server/compute/run-events";
 import { templates } from "@/sim";
 import type { InputProgramInput } from "@/shared/schemas/input-program";
@@ -21,6 +22,25 @@ export function realQueue(threads = 1, opts: { chunkWallMs?: number } = {}) {
       chunkWallMs: opts.chunkWallMs ?? 600_000,
       onRunEnded: (id, status) => onRunEnded(ctx, id, status),
       log: () => {},
+    });
+}
+
+/** A queue factory whose chunks go through Redis to worker processes (distributed mode), checking Redis often. */
+export function redisQueue(url: string, opts: { window?: number; log?: (m: string) => void } = {}) {
+  return (ctx: AppContext): RunQueue =>
+    createRunQueue({
+      db: ctx.db,
+      sqlite: ctx.sqlite,
+      dispatcher: createRedisDispatcher({
+        url,
+        window: opts.window,
+        reconcileMs: 300,
+        statsMs: 200,
+        log: opts.log ?? (() => {}),
+      }),
+      chunkWallMs: 600_000,
+      onRunEnded: (id, status) => onRunEnded(ctx, id, status),
+      log: opts.log ?? (() => {}),
     });
 }
 
