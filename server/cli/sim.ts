@@ -27,20 +27,18 @@
 import { createWriteStream, mkdirSync, writeFileSync, type WriteStream } from "node:fs";
 import path from "node:path";
 import { loadSpecFile } from "./load-spec";
-import { runRegime } from "@/sim/regimes";
 import {
   ENGINE_VERSION,
   gridTimes,
   reduceChunks,
   resolveThreshold,
   runSetup,
-  solveOde,
   type ChunkResult,
   type GridPartial,
 } from "@/sim";
 import type { PulseStat } from "@/shared/schemas/run-spec";
 import { createSimPool } from "@/server/compute/pool";
-import { runSettingsBlock, summarizeRun, type ReplicateTotals } from "@/sim/analysis";
+import { finaliseRun, type ReplicateTotals } from "@/sim/analysis";
 import { runAllChunks } from "@/server/compute/run-all-chunks";
 import { exportSbml } from "@/sim/sbml";
 import { gridSeries, statsHashInMemory } from "@/server/compute/run-store";
@@ -247,10 +245,23 @@ export async function runCli(argv: string[]): Promise<void> {
     meanCsv += "\n";
   }
   writeFileSync(path.join(args.out, "grid-mean.csv"), meanCsv);
-  const ode = solveOde(spec);
-  let odeCsv = `time,${species.join(",")}\n`;
-  for (let g = 0; g < ng; g++) odeCsv += `${grid[g]}${species.map((_, i) => `,${ode.values[i * ng + g]}`).join("")}\n`;
-  writeFileSync(path.join(args.out, "ode.csv"), odeCsv);
+  // the same finalisation as the server's (sim/analysis/finalise-run.ts)
+  const {
+    ode,
+    odeNote,
+    summary: analysis,
+    regime,
+  } = finaliseRun({
+    spec,
+    pulses: allPulses,
+    replicates: allReplicates,
+    threshold,
+  });
+  if (ode) {
+    let odeCsv = `time,${species.join(",")}\n`;
+    for (let g = 0; g < ng; g++) odeCsv += `${grid[g]}${species.map((_, i) => `,${ode[i * ng + g]}`).join("")}\n`;
+    writeFileSync(path.join(args.out, "ode.csv"), odeCsv);
+  }
 
   const bins = [...byBin.entries()].sort((a, b) => a[0] - b[0]);
   const summary = {
@@ -279,9 +290,10 @@ export async function runCli(argv: string[]): Promise<void> {
       "grid-replicates.csv",
       "replicates.csv",
       "pulses.csv",
-      "ode.csv",
+      ...(ode ? ["ode.csv"] : []),
       "regime.json",
     ],
+    ...(odeNote ? { odeNote: `no ode.csv: the mean-field model could not be solved (${odeNote})` } : {}),
     spec,
     timing: {
       startedAt: started.toISOString(),
@@ -291,30 +303,10 @@ export async function runCli(argv: string[]): Promise<void> {
     },
   };
   writeFileSync(path.join(args.out, "summary.json"), JSON.stringify(summary, null, 2) + "\n");
-  const analysis = summarizeRun({
-    pulses: allPulses,
-    replicates: allReplicates,
-    threshold,
-    noiseDurationMinutes: spec.threshold.noiseDurationMinutes,
-    endTimeMinutes: spec.endTimeMinutes,
-    settings: runSettingsBlock(spec, threshold),
-  });
   writeFileSync(
     path.join(args.out, "analysis.json"),
     JSON.stringify(noInput ? { note: "no input pulses", ...analysis } : analysis, null, 2) + "\n",
   );
-  const passCurve = noInput
-    ? undefined
-    : bins.map(([durationBin, b]) => ({
-        durationMinutes: durationBin,
-        passed: b.passed,
-        counted: b.pulses - b.excluded,
-      }));
-  const regime = runRegime(setup.model, threshold.theta, passCurve, {
-    seed: spec.seed,
-    hysteresis: threshold.hysteresis,
-    outputLifetimeMinutes: threshold.outputLifetimeMinutes,
-  });
   writeFileSync(path.join(args.out, "regime.json"), JSON.stringify(regime, null, 2) + "\n");
   if (!args.quiet)
     process.stderr.write(

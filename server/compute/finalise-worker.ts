@@ -13,9 +13,9 @@ import * as schema from "@/db/schema";
 import type { Db } from "@/db/client";
 import type { RunSpec } from "@/shared/schemas/run-spec";
 import type { RunSummary } from "@/shared/schemas/analysis";
-import { reduceChunks, resolveThreshold, runSetup, solveOde } from "@/sim";
-import { runRegime, type RunRegime } from "@/sim/regimes";
-import { runSettingsBlock, summarizeRun } from "@/sim/analysis";
+import { reduceChunks } from "@/sim";
+import type { RunRegime } from "@/sim/regimes";
+import { finaliseRun } from "@/sim/analysis";
 import {
   computeStatsHash,
   fromBlob,
@@ -56,18 +56,10 @@ export default function finalise(task: FinaliseTask): FinaliseResult {
         gridCount: fromBlob(c.gridCount as Buffer),
       })),
     );
-    let ode: Float64Array | null = null;
-    let odeNote: string | null = null;
-    try {
-      ode = solveOde(spec).values;
-    } catch (e) {
-      odeNote = (e as Error).message;
-    }
-    const series = gridSeries(spec, mean, sd, ode);
     const replicates = readReplicateRows(db, task.runId);
     const pulses = readPulseStats(db, task.runId);
-    const threshold = resolveThreshold(spec);
-    const summary = summarizeRun({
+    const { ode, odeNote, summary, regime } = finaliseRun({
+      spec,
       pulses,
       replicates: replicates.map((r) => ({
         replicate: r.replicate,
@@ -76,25 +68,8 @@ export default function finalise(task: FinaliseTask): FinaliseResult {
         outputMean: r.outputMean ?? NaN,
         outputVar: r.outputVar ?? NaN,
       })),
-      threshold,
-      noiseDurationMinutes: spec.threshold?.noiseDurationMinutes ?? 10,
-      endTimeMinutes: spec.endTimeMinutes,
-      settings: runSettingsBlock(spec, threshold),
     });
-    let regime: RunRegime;
-    try {
-      const passCurve = spec.program
-        ? summary.byDuration.map((b) => ({ durationMinutes: b.duration, passed: b.passed, counted: b.pulses }))
-        : undefined;
-      regime = runRegime(runSetup(spec).model, threshold.theta, passCurve, {
-        seed: spec.seed,
-        hysteresis: threshold.hysteresis,
-        outputLifetimeMinutes: threshold.outputLifetimeMinutes,
-      });
-    } catch (e) {
-      const unclear = { label: "unclear" as const, evidence: {}, reason: `not classified: ${(e as Error).message}` };
-      regime = { deterministic: unclear, stochastic: unclear };
-    }
+    const series = gridSeries(spec, mean, sd, ode);
     return {
       series,
       summary,

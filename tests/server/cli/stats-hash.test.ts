@@ -1,4 +1,7 @@
-/** One hash everywhere: the CLI's summary.json statsHash equals the hash the server stores for the same spec and seed. */
+/**
+ * One hash and one finalisation everywhere: the CLI's summary.json statsHash equals the hash the server
+ * stores for the same spec and seed, and its analysis.json and regime.json equal the server's summary and labels.
+ */
 import { test } from "node:test";
 import assert from "node:assert/strict";
 import { execFileSync } from "node:child_process";
@@ -43,6 +46,14 @@ test("the CLI and the server give the same statistics hash for the same spec and
     assert.match(cliHash, /^[0-9a-f]{64}$/);
     assert.equal(cliHash, serverHash);
     assert.equal(cliHash2, serverHash);
+
+    // One finalisation pipeline: the CLI's analysis.json is the summary the server stored, figure for figure,
+    // and both label the behaviour alike.
+    const analysis = JSON.parse(readFileSync(path.join(dir, "one", "analysis.json"), "utf8"));
+    assert.ok(analysis.byDuration.length > 0, "the run has a filter curve");
+    assert.deepEqual(analysis, JSON.parse(JSON.stringify(row.summary)));
+    const regime = JSON.parse(readFileSync(path.join(dir, "one", "regime.json"), "utf8"));
+    assert.deepEqual(regime, JSON.parse(JSON.stringify(done.regime)));
 
     // And the hash does depend on the seed: another seed through the CLI gives another hash.
     runCli(path.join(dir, "other"), ["--seed", "another-seed"]);

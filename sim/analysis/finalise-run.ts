@@ -1,0 +1,71 @@
+/**
+ * The one finalisation of a run, shared by the command-line simulator and the
+ * server's finalisation worker: from a run's spec, its per-pulse records and its
+ * per-replicate totals, the mean-field (ODE) overlay (or the reason it could not be
+ * solved), the summary of docs/metrics.md with its settings block, and the behaviour
+ * labels of docs/regimes.md (or "unclear" with the reason they could not be given).
+ * Callers read and write their own storage (files or SQLite) around it, so the two
+ * produce the same figures for the same spec and seed.
+ *
+ * @example finaliseRun({ spec, pulses, replicates }).summary.d50
+ */
+import type { RunSummary } from "@/shared/schemas/analysis";
+import type { PulseStat, RunSpec } from "@/shared/schemas/run-spec";
+import { resolveThreshold, type ResolvedThreshold } from "@/sim/engine/resolve-threshold";
+import { runSetup } from "@/sim/engine/run-setup";
+import { solveOde } from "@/sim/ode/solve-ode";
+import { runRegime, type RunRegime } from "@/sim/regimes";
+import { runSettingsBlock } from "./run-settings";
+import { summarizeRun, type ReplicateTotals } from "./summarize-run";
+
+export interface FinaliseRunInput {
+  spec: RunSpec;
+  pulses: readonly PulseStat[];
+  replicates: readonly ReplicateTotals[];
+  /** The threshold the run was tracked with, when the caller already resolved it. */
+  threshold?: ResolvedThreshold;
+}
+
+export interface FinalisedRun {
+  threshold: ResolvedThreshold;
+  /** Mean-field values on the grid (species-major), or null with odeNote saying why. */
+  ode: Float64Array | null;
+  odeNote: string | null;
+  summary: RunSummary;
+  regime: RunRegime;
+}
+
+export function finaliseRun(input: FinaliseRunInput): FinalisedRun {
+  const { spec } = input;
+  const threshold = input.threshold ?? resolveThreshold(spec);
+  let ode: Float64Array | null = null;
+  let odeNote: string | null = null;
+  try {
+    ode = solveOde(spec).values;
+  } catch (e) {
+    odeNote = (e as Error).message;
+  }
+  const summary = summarizeRun({
+    pulses: input.pulses,
+    replicates: input.replicates,
+    threshold,
+    noiseDurationMinutes: spec.threshold?.noiseDurationMinutes ?? 10,
+    endTimeMinutes: spec.endTimeMinutes,
+    settings: runSettingsBlock(spec, threshold),
+  });
+  let regime: RunRegime;
+  try {
+    const passCurve = spec.program
+      ? summary.byDuration.map((b) => ({ durationMinutes: b.duration, passed: b.passed, counted: b.pulses }))
+      : undefined;
+    regime = runRegime(runSetup(spec).model, threshold.theta, passCurve, {
+      seed: spec.seed,
+      hysteresis: threshold.hysteresis,
+      outputLifetimeMinutes: threshold.outputLifetimeMinutes,
+    });
+  } catch (e) {
+    const unclear = { label: "unclear" as const, evidence: {}, reason: `not classified: ${(e as Error).message}` };
+    regime = { deterministic: unclear, stochastic: unclear };
+  }
+  return { threshold, ode, odeNote, summary, regime };
+}
