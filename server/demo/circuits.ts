@@ -9,7 +9,7 @@
 import { and, eq, isNull, sql } from "drizzle-orm";
 import type { AppContext } from "@/server/context";
 import { schema } from "@/db/client";
-import { templates } from "@/sim";
+import { allTemplates as templates } from "@/sim/circuit/templates";
 import { CircuitSchema, type Circuit } from "@/shared/schemas/circuit";
 import type { InputProgram } from "@/shared/schemas/input-program";
 import type { TemplateKey } from "@/shared/schemas/api-circuits";

@@ -11,7 +11,8 @@ import { newId } from "@/server/ids";
 import { badRequest, conflict, notFound } from "@/server/http-error";
 import { recordAudit } from "./audit.service";
 import { findFeedForwardLoops, wiringOf } from "@/sim/circuit/feed-forward";
-import { listParameters, templates, validateCircuit } from "@/sim";
+import { listParameters, validateCircuit } from "@/sim";
+import { allTemplates } from "@/sim/circuit/templates";
 import { CircuitSchema, type Circuit } from "@/shared/schemas/circuit";
 import {
   TEMPLATE_KEYS,
@@ -102,7 +103,7 @@ export function checkCircuit(raw: unknown): CheckCircuitResponse {
 
 export function listTemplates(): Template[] {
   return TEMPLATE_KEYS.map((key) => {
-    const t = templates[key];
+    const t = allTemplates[key];
     const circuit = CircuitSchema.parse(t.circuit);
     return {
       key,
@@ -116,7 +117,7 @@ export function listTemplates(): Template[] {
 }
 
 export function templateCircuit(key: TemplateKey): Circuit {
-  return CircuitSchema.parse(structuredClone(templates[key].circuit));
+  return CircuitSchema.parse(structuredClone(allTemplates[key].circuit));
 }
 
 // ---------------------------------------------------------------- reading
@@ -304,7 +305,8 @@ export function createCircuit(ctx: AppContext, actor: Actor, labId: string, inpu
   const body: Circuit = { ...base, name };
   assertSemanticallyValid(body);
   const note =
-    input.note?.trim() || (input.body ? "Created" : `Created from the template "${templates[input.template!].title}"`);
+    input.note?.trim() ||
+    (input.body ? "Created" : `Created from the template "${allTemplates[input.template!].title}"`);
   const id = newId("cir_");
   const now = new Date();
   inTransaction(ctx, () => {

@@ -18,7 +18,17 @@
 import { z } from "zod";
 import { CircuitSchema } from "./circuit";
 
-export const TEMPLATE_KEYS = ["simple", "c1ffl-and", "c1ffl-or", "i1ffl"] as const;
+/** Feed-forward templates, then the feedback ones (negative autoregulation, latch, timer ring, cross-linked ring). */
+export const TEMPLATE_KEYS = [
+  "simple",
+  "c1ffl-and",
+  "c1ffl-or",
+  "i1ffl",
+  "nar",
+  "latch",
+  "ring",
+  "ring-extra",
+] as const;
 export const TemplateKeySchema = z.enum(TEMPLATE_KEYS);
 export type TemplateKey = z.infer<typeof TemplateKeySchema>;
 

@@ -149,7 +149,7 @@ export const templates: Record<TemplateKey, CircuitTemplate> = {
  * timer ring and the ring with one extra repression. Dimensionless strength of
  * a repressor a = maxRate / (decay * K); defaults chosen so that each shows its
  * textbook behaviour (checked in tests/sim/regimes/feedback-templates.test.ts).
- * Not yet offered by the app's template list (TEMPLATE_KEYS).
+ * Offered by the app's template list (TEMPLATE_KEYS) after the feed-forward ones.
  */
 export type FeedbackTemplateKey = "nar" | "latch" | "ring" | "ring-extra";
 
@@ -286,4 +286,10 @@ export const feedbackTemplates: Record<FeedbackTemplateKey, CircuitTemplate> = {
       outputSpecies: "tmrA",
     }),
   },
+};
+
+/** Every template the app offers, feed-forward then feedback (keys as in TEMPLATE_KEYS). */
+export const allTemplates: Record<TemplateKey | FeedbackTemplateKey, CircuitTemplate> = {
+  ...templates,
+  ...feedbackTemplates,
 };

@@ -86,13 +86,14 @@ function fieldsOf(body: unknown) {
 }
 
 describe("templates", () => {
-  test("signed-in users get the four templates with titles, descriptions and bodies", async () => {
+  test("signed-in users get the eight templates (feed-forward, then feedback) with titles, descriptions and bodies", async () => {
     const r = await viewer.get("/api/templates").expect(200);
     const { templates: list } = TemplatesResponseSchema.parse(r.body);
     assert.deepEqual(
       list.map((x) => x.key),
-      ["simple", "c1ffl-and", "c1ffl-or", "i1ffl"],
+      ["simple", "c1ffl-and", "c1ffl-or", "i1ffl", "nar", "latch", "ring", "ring-extra"],
     );
+    assert.equal(list.find((x) => x.key === "latch")?.title, "Exposure latch");
     for (const x of list) {
       assert.ok(x.title.length > 0 && x.description.length > 0);
       assert.ok(x.circuit.signals.some((s) => s.name === x.inputSignal));
@@ -244,7 +245,7 @@ describe("create", () => {
   });
 
   test("an unknown template key: 400 naming template", async () => {
-    const r = await editor.post(`/api/labs/${lab}/circuits`).send({ name: "No such", template: "ring" }).expect(400);
+    const r = await editor.post(`/api/labs/${lab}/circuits`).send({ name: "No such", template: "toggle" }).expect(400);
     assert.ok(fieldsOf(r.body).some((f) => f.path === "template"));
   });
 
