@@ -12,6 +12,7 @@ export function rateLawText(r: Circuit["reactions"][number]): string {
   const scaled = r.scaledBy ? ` × ${r.scaledBy}` : "";
   if (rate.kind === "massAction") return `mass action, k = ${rate.ratePerMinute} /min${scaled}`;
   if (rate.kind === "constant") return `constant, ${rate.ratePerMinute} molecules/min${scaled}`;
+  if (rate.kind === "expression") return `expression, ${rate.formula} molecules/min${scaled}`;
   const regs = rate.regulators
     .map((g) => `${g.source} ${g.effect === "activates" ? "activates" : "represses"} (K ${g.halfMax}, n ${g.hill})`)
     .join(rate.logic === "and" ? " AND " : " OR ");

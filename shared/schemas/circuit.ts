@@ -18,6 +18,8 @@ export const CIRCUIT_LIMITS = {
   maxReactions: 200,
   maxRegulatorsPerReaction: 6,
   maxNameLength: 40,
+  maxParameters: 100,
+  maxExpressionLength: 2000,
 } as const;
 
 /** Names are identifiers so they can appear in parameter references and CSV headers. */
@@ -75,8 +77,23 @@ export const RegulatorSchema = z.object({
   halfMax: positive("half-max K"),
   /** Hill coefficient n. */
   hill: positive("Hill coefficient n").max(10, "Hill coefficient n must be at most 10"),
+  /** Names the circuit parameters K and n follow. */
+  use: z.object({ halfMax: NameSchema.optional(), hill: NameSchema.optional() }).optional(),
 });
 export type Regulator = z.infer<typeof RegulatorSchema>;
+
+/**
+ * A named parameter of the circuit (a number in the units its uses need).
+ * Expressions read it by name; a fixed-kind field follows it when the rate law
+ * (or regulator) names it under `use` (the field must then hold the same
+ * value); sweeps and cell-to-cell variation refer to it as param(NAME).
+ */
+export const ParameterSchema = z.object({
+  name: NameSchema,
+  value: z.number({ error: "value must be a number" }).finite("value must be finite"),
+  description: z.string().max(200).optional(),
+});
+export type Parameter = z.infer<typeof ParameterSchema>;
 
 export const RateLawSchema = z.discriminatedUnion("kind", [
   /**
@@ -84,9 +101,18 @@ export const RateLawSchema = z.discriminatedUnion("kind", [
    * k*A for A ->, k*A*B for A + B ->, k*A*(A-1)/2 for 2A ->. The mean-field rate
    * of 2A -> is k*A^2/2, matching the stochastic constant.
    */
-  z.object({ kind: z.literal("massAction"), ratePerMinute: nonNegative("rate constant") }),
+  z.object({
+    kind: z.literal("massAction"),
+    ratePerMinute: nonNegative("rate constant"),
+    /** Names the circuit parameter the rate constant follows. */
+    use: z.object({ ratePerMinute: NameSchema.optional() }).optional(),
+  }),
   /** Constant production, independent of any amount: 0 -> P at a fixed rate. */
-  z.object({ kind: z.literal("constant"), ratePerMinute: nonNegative("rate") }),
+  z.object({
+    kind: z.literal("constant"),
+    ratePerMinute: nonNegative("rate"),
+    use: z.object({ ratePerMinute: NameSchema.optional() }).optional(),
+  }),
   /**
    * Regulated production: maxRate * (leak + (1 - leak) * f), where f combines the
    * regulators' Hill terms h_i: AND = product of h_i; OR = 1 - product(1 - h_i)
@@ -102,6 +128,20 @@ export const RateLawSchema = z.discriminatedUnion("kind", [
       .array(RegulatorSchema)
       .min(1, "needs at least one regulator")
       .max(CIRCUIT_LIMITS.maxRegulatorsPerReaction),
+    use: z.object({ maxRatePerMinute: NameSchema.optional(), leakFraction: NameSchema.optional() }).optional(),
+  }),
+  /**
+   * An arithmetic expression for the propensity (molecules per minute) over
+   * species amounts, signals, parameters and time; syntax and rules in
+   * docs/circuit-format.md (checked by sim/circuit/expression.ts). Written in
+   * molecule counts: system size does not rescale it.
+   */
+  z.object({
+    kind: z.literal("expression"),
+    formula: z
+      .string()
+      .min(1, "formula must not be empty")
+      .max(CIRCUIT_LIMITS.maxExpressionLength, `formula: at most ${CIRCUIT_LIMITS.maxExpressionLength} characters`),
   }),
 ]);
 export type RateLaw = z.infer<typeof RateLawSchema>;
@@ -127,6 +167,8 @@ export const CircuitSchema = z.object({
   species: z.array(SpeciesSchema).min(1, "needs at least one species").max(CIRCUIT_LIMITS.maxSpecies),
   signals: z.array(SignalSchema).max(CIRCUIT_LIMITS.maxSignals).default([]),
   reactions: z.array(ReactionSchema).min(1, "needs at least one reaction").max(CIRCUIT_LIMITS.maxReactions),
+  /** Named parameters (see ParameterSchema). */
+  parameters: z.array(ParameterSchema).max(CIRCUIT_LIMITS.maxParameters).optional(),
   /** The species the filter figures are about (the reporter). */
   outputSpecies: NameSchema,
 });
@@ -141,11 +183,12 @@ export type CircuitInput = z.input<typeof CircuitSchema>;
  *   K(R,S)      half-max of regulator S in reaction R
  *   n(R,S)      Hill coefficient of regulator S in reaction R
  *   init(X)     initial count of species X
+ *   param(P)    the circuit parameter named P
  */
 export const ParameterRefSchema = z
   .string()
   .regex(
-    /^(rate|leak)\([A-Za-z][A-Za-z0-9_]*\)$|^(K|n)\([A-Za-z][A-Za-z0-9_]*,[A-Za-z][A-Za-z0-9_]*\)$|^init\([A-Za-z][A-Za-z0-9_]*\)$/,
-    "parameter must look like rate(R), leak(R), K(R,S), n(R,S) or init(X)",
+    /^(rate|leak|init|param)\([A-Za-z][A-Za-z0-9_]*\)$|^(K|n)\([A-Za-z][A-Za-z0-9_]*,[A-Za-z][A-Za-z0-9_]*\)$/,
+    "parameter must look like rate(R), leak(R), K(R,S), n(R,S), init(X) or param(P)",
   );
 export type ParameterRef = z.infer<typeof ParameterRefSchema>;

@@ -10,12 +10,24 @@
  * regulators are multiplied by Omega, second-order mass-action constants divided
  * by it; first-order constants, leak, Hill coefficients and signal K are unchanged.
  *
- * Parameter vector layout (Float64Array, one per replicate): per reaction its
- * rate slot, then for regulated reactions a leak slot and per regulator K, n and
- * K^n (derived by deriveParams).
+ * Parameter vector layout (Float64Array, one per replicate): first the
+ * circuit's named parameters (param(P), unscaled), then per reaction its rate
+ * slot, then for regulated reactions a leak slot and per regulator K, n and
+ * K^n. deriveParams fills the derived slots: a fixed-kind field that follows a
+ * named parameter (`use`) is that parameter times its system-size scale (leak
+ * capped at 1, n at 10), then K^n. A circuit without named parameters has
+ * exactly the layout it had before they existed.
+ *
+ * Expression rates (./expression.ts) keep their checked tree; the engines
+ * generate code from it (reactionRate here, the kernel in
+ * sim/engine/generate-kernel.ts). Their "clock stops" (the constants time is
+ * compared with) are collected in clockStops; between two stops every
+ * time-dependent rate is constant, and clockProbe holds one time inside each
+ * interval at which the rates are evaluated.
  */
 import type { Circuit } from "@/shared/schemas/circuit";
 import { semanticErrors } from "./validate-circuit";
+import { namesRead, parseExpression, timeStops, treeToJs, usesTime, type ExprNode } from "./expression";
 
 export interface CompiledRegulator {
   source: number;
@@ -28,7 +40,7 @@ export interface CompiledRegulator {
 
 export interface CompiledReaction {
   name: string;
-  kind: "massAction" | "constant" | "regulated";
+  kind: "massAction" | "constant" | "regulated" | "expression";
   /** Mass-action order (0, 1 or 2); 0 for other kinds. */
   order: number;
   reactants: { species: number; count: number }[];
@@ -42,6 +54,20 @@ export interface CompiledReaction {
   scaledBy: number;
   readsSpecies: number[];
   readsSignals: number[];
+  /** Expression rates: the checked tree (names resolved by kind), else null. */
+  expr: ExprNode | null;
+  /** Parameter slots the rate reads directly (expressions only; fixed kinds read their own slots). */
+  readsParams: number[];
+  /** Whether the rate depends on time (through piecewise conditions). */
+  readsTime: boolean;
+}
+
+/** A fixed-kind slot that follows a named parameter: p[slot] = min(max, p[from] * scale). */
+export interface ParamLink {
+  slot: number;
+  from: number;
+  scale: number;
+  max: number;
 }
 
 export interface CompiledModel {
@@ -66,6 +92,18 @@ export interface CompiledModel {
   dependents: number[][];
   /** Propensities reading signal s. */
   signalDependents: number[][];
+  parameterNames: string[];
+  /** Slot of each named parameter (same order as parameterNames). */
+  parameterSlots: number[];
+  links: ParamLink[];
+  /** Sorted distinct times at which time-dependent rates may change. */
+  clockStops: Float64Array;
+  /** clockProbe[k]: a time strictly inside the interval after k clock stops (length clockStops.length + 1). */
+  clockProbe: Float64Array;
+  /** Reactions whose rate depends on time. */
+  timeDependents: number[];
+  /** Whether any rate is an expression. */
+  hasExpressions: boolean;
 }
 
 export function compileModel(circuit: Circuit, systemSize = 1): CompiledModel {
@@ -83,6 +121,21 @@ export function compileModel(circuit: Circuit, systemSize = 1): CompiledModel {
     params.push(value * scale);
     return params.length - 1;
   };
+  const circuitParams = circuit.parameters ?? [];
+  const paramSlot = new Map<string, number>();
+  for (const q of circuitParams) paramSlot.set(q.name, add(`param(${q.name})`, q.value, 1));
+  const links: ParamLink[] = [];
+  const follow = (slot: number, name: string | undefined, max = Infinity) => {
+    if (name === undefined) return;
+    links.push({ slot, from: paramSlot.get(name)!, scale: slots.get(refOfSlot(slot))!.scale, max });
+  };
+  const refOfSlot = (slot: number) => [...slots.entries()].find(([, v]) => v.slot === slot)![0];
+  const stops = new Set<number>();
+  const scope = {
+    species: new Set(speciesNames),
+    signals: new Set(signalNames),
+    params: new Set(paramSlot.keys()),
+  };
   const reactions: CompiledReaction[] = circuit.reactions.map((r) => {
     const reactants = r.reactants.map((e) => ({ species: sp.get(e.species)!, count: e.count }));
     const net = new Map<number, number>();
@@ -93,13 +146,28 @@ export function compileModel(circuit: Circuit, systemSize = 1): CompiledModel {
     const scaledBy = r.scaledBy !== undefined ? sg.get(r.scaledBy)! : -1;
     const readsSpecies = new Set<number>(reactants.map((e) => e.species));
     const readsSignals = new Set<number>(scaledBy >= 0 ? [scaledBy] : []);
-    let rateSlot: number;
+    let rateSlot = -1;
+    let expr: ExprNode | null = null;
+    const readsParams = new Set<number>();
+    let readsTime = false;
     let leakSlot = -1;
     let logic: "and" | "or" = "and";
     const regulators: CompiledRegulator[] = [];
-    if (r.rate.kind === "regulated") {
+    if (r.rate.kind === "expression") {
+      const res = parseExpression(r.rate.formula, scope);
+      if (!res.ok) throw new Error(`reaction "${r.name}": formula ${res.error.message}`);
+      expr = res.tree;
+      const names = namesRead(expr);
+      for (const n of names.species) readsSpecies.add(sp.get(n)!);
+      for (const n of names.signals) readsSignals.add(sg.get(n)!);
+      for (const n of names.params) readsParams.add(paramSlot.get(n)!);
+      readsTime = usesTime(expr);
+      timeStops(expr, stops);
+    } else if (r.rate.kind === "regulated") {
       rateSlot = add(`rate(${r.name})`, r.rate.maxRatePerMinute, omega);
+      follow(rateSlot, r.rate.use?.maxRatePerMinute);
       leakSlot = add(`leak(${r.name})`, r.rate.leakFraction, 1);
+      follow(leakSlot, r.rate.use?.leakFraction, 1);
       logic = r.rate.logic;
       for (const g of r.rate.regulators) {
         const isSignal = !sp.has(g.source);
@@ -107,7 +175,9 @@ export function compileModel(circuit: Circuit, systemSize = 1): CompiledModel {
         if (isSignal) readsSignals.add(source);
         else readsSpecies.add(source);
         const kSlot = add(`K(${r.name},${g.source})`, g.halfMax, isSignal ? 1 : omega);
+        follow(kSlot, g.use?.halfMax);
         const nSlot = add(`n(${r.name},${g.source})`, g.hill, 1);
+        follow(nSlot, g.use?.hill, 10);
         params.push(0);
         regulators.push({
           source,
@@ -121,6 +191,7 @@ export function compileModel(circuit: Circuit, systemSize = 1): CompiledModel {
     } else {
       const scale = r.rate.kind === "constant" || order === 0 ? omega : order === 2 ? 1 / omega : 1;
       rateSlot = add(`rate(${r.name})`, r.rate.ratePerMinute, scale);
+      follow(rateSlot, r.rate.use?.ratePerMinute);
     }
     return {
       name: r.name,
@@ -135,8 +206,23 @@ export function compileModel(circuit: Circuit, systemSize = 1): CompiledModel {
       scaledBy,
       readsSpecies: [...readsSpecies].sort((a, b) => a - b),
       readsSignals: [...readsSignals].sort((a, b) => a - b),
+      expr,
+      readsParams: [...readsParams].sort((a, b) => a - b),
+      readsTime,
     };
   });
+  const clockStops = Float64Array.from([...stops].sort((a, b) => a - b));
+  const m = clockStops.length;
+  const clockProbe = new Float64Array(m + 1);
+  for (let k = 0; k <= m; k++)
+    clockProbe[k] =
+      m === 0
+        ? 0
+        : k === 0
+          ? clockStops[0] - 1
+          : k === m
+            ? clockStops[m - 1] + 1
+            : 0.5 * (clockStops[k - 1] + clockStops[k]);
   const nR = reactions.length;
   const dependents: number[][] = reactions.map((r) => {
     const changed = new Set(r.delta.map((d) => d.species));
@@ -166,14 +252,61 @@ export function compileModel(circuit: Circuit, systemSize = 1): CompiledModel {
     slots,
     dependents,
     signalDependents,
+    parameterNames: circuitParams.map((q) => q.name),
+    parameterSlots: circuitParams.map((q) => paramSlot.get(q.name)!),
+    links,
+    clockStops,
+    clockProbe,
+    timeDependents: reactions.flatMap((r, j) => (r.readsTime ? [j] : [])),
+    hasExpressions: reactions.some((r) => r.expr !== null),
   };
   deriveParams(model, model.baseParams);
   return model;
 }
 
-/** Fills the derived K^n slots of a parameter vector. */
+/** Fills the derived slots of a parameter vector: fields that follow named parameters, then K^n. */
 export function deriveParams(model: CompiledModel, p: Float64Array): void {
+  for (const l of model.links) p[l.slot] = Math.min(l.max, p[l.from] * l.scale);
   for (const r of model.reactions) for (const g of r.regulators) p[g.knSlot] = Math.pow(p[g.kSlot], p[g.nSlot]);
+}
+
+/** The probe time of the clock interval containing t (just after any stop at t). */
+export function clockProbeAt(model: CompiledModel, t: number): number {
+  const s = model.clockStops;
+  let k = 0;
+  while (k < s.length && s[k] <= t) k++;
+  return model.clockProbe[k];
+}
+
+type RateFn = (x: ArrayLike<number>, sig: ArrayLike<number>, p: ArrayLike<number>, tq: number) => number;
+const rateFns = new WeakMap<CompiledReaction, RateFn>();
+
+/** The JavaScript rate function of an expression reaction, generated from its tree (cached). */
+export function expressionRateFn(model: CompiledModel, r: CompiledReaction): RateFn {
+  let f = rateFns.get(r);
+  if (!f) {
+    const sp = new Map(model.speciesNames.map((n, i) => [n, i]));
+    const sg = new Map(model.signalNames.map((n, i) => [n, i]));
+    const pq = new Map(model.parameterNames.map((n, i) => [n, model.parameterSlots[i]]));
+    const body = treeToJs(r.expr!, {
+      name: (kind, name) =>
+        kind === "species" ? `x[${sp.get(name)}]` : kind === "signal" ? `sig[${sg.get(name)}]` : `p[${pq.get(name)}]`,
+      time: "tq",
+    });
+    f = new Function("x", "sig", "p", "tq", `"use strict"; return ${body};`) as RateFn;
+    rateFns.set(r, f);
+  }
+  return f;
+}
+
+/** Error for a rate that is negative or not a finite number (the run stops; never clamped). */
+export function badRateMessage(name: string, value: number, t: number | null): string {
+  const what = Number.isNaN(value)
+    ? "is not a number"
+    : !Number.isFinite(value)
+      ? "is infinite"
+      : `is negative (${value})`;
+  return `reaction "${name}": the rate ${what}${t !== null ? ` at t = ${t} min` : ""}; a rate must be a finite number, not negative`;
 }
 
 function hillPow(x: number, n: number): number {
@@ -185,6 +318,9 @@ function hillPow(x: number, n: number): number {
  * Rate of reaction j at state x (counts) and signal levels sig.
  * meanField = false: the stochastic propensity (k*A*(A-1)/2 for 2A);
  * meanField = true: the ODE rate (k*A^2/2 for 2A). Other laws are identical.
+ * tq: the probe time of the current clock interval for time-dependent
+ * expressions (default: the interval just after t = 0). An expression whose
+ * value is negative or not finite throws (badRateMessage).
  */
 export function reactionRate(
   model: CompiledModel,
@@ -193,8 +329,15 @@ export function reactionRate(
   sig: ArrayLike<number>,
   j: number,
   meanField: boolean,
+  tq?: number,
 ): number {
   const r = model.reactions[j];
+  if (r.expr !== null) {
+    let a = expressionRateFn(model, r)(x, sig, p, tq ?? clockProbeAt(model, 0));
+    if (r.scaledBy >= 0) a *= sig[r.scaledBy];
+    if (!(a >= 0 && a < Infinity)) throw new Error(badRateMessage(r.name, a, null));
+    return a;
+  }
   let a = p[r.rateSlot];
   if (r.kind === "massAction") {
     for (const e of r.reactants) {

@@ -7,6 +7,7 @@
  * 8 signals, 200 reactions, 6 regulators per reaction), enforced by the schema.
  */
 import { CircuitSchema, type Circuit } from "@/shared/schemas/circuit";
+import { describeExprError, parseExpression } from "./expression";
 
 export interface ValidationError {
   path: string;
@@ -58,6 +59,30 @@ export function semanticErrors(c: Circuit): ValidationError[] {
       errors.push({ path: `signals[${i}].name`, message: `signals[${i}]: "${s.name}" is already a species name` });
     signals.add(s.name);
   });
+  const params = new Map<string, number>();
+  (c.parameters ?? []).forEach((q, i) => {
+    const at = `parameters[${i}]`;
+    if (params.has(q.name)) errors.push({ path: `${at}.name`, message: `${at}: duplicate parameter name "${q.name}"` });
+    else if (species.has(q.name) || signals.has(q.name))
+      errors.push({
+        path: `${at}.name`,
+        message: `${at}: "${q.name}" is already a ${species.has(q.name) ? "species" : "signal"} name`,
+      });
+    else if (q.name === "time")
+      errors.push({ path: `${at}.name`, message: `${at}: "time" is reserved for the clock in expressions` });
+    params.set(q.name, q.value);
+  });
+  /** A fixed-kind field that follows a parameter must exist and hold its value. */
+  const follows = (path: string, who: string, field: string, name: string | undefined, value: number) => {
+    if (name === undefined) return;
+    if (!params.has(name))
+      errors.push({ path, message: `${who}: ${field} follows "${name}", which is not a parameter of the circuit` });
+    else if (params.get(name) !== value)
+      errors.push({
+        path,
+        message: `${who}: ${field} is ${value} but it follows parameter "${name}" = ${params.get(name)}; give the same value`,
+      });
+  };
   if (!species.has(c.outputSpecies))
     errors.push({ path: "outputSpecies", message: `output species "${c.outputSpecies}" is not a species` });
   const reactionNames = new Set<string>();
@@ -96,7 +121,30 @@ export function semanticErrors(c: Circuit): ValidationError[] {
     });
     if (r.scaledBy !== undefined && !signals.has(r.scaledBy))
       errors.push({ path: `${at}.scaledBy`, message: `${who}: scaledBy "${r.scaledBy}" is not a signal` });
-    if (r.rate.kind !== "massAction" && r.reactants.length > 0)
+    const rate = r.rate;
+    if (rate.kind === "massAction" || rate.kind === "constant")
+      follows(`${at}.rate.use.ratePerMinute`, who, "rate", rate.use?.ratePerMinute, rate.ratePerMinute);
+    if (rate.kind === "regulated") {
+      follows(
+        `${at}.rate.use.maxRatePerMinute`,
+        who,
+        "maximal rate",
+        rate.use?.maxRatePerMinute,
+        rate.maxRatePerMinute,
+      );
+      follows(`${at}.rate.use.leakFraction`, who, "leak", rate.use?.leakFraction, rate.leakFraction);
+      rate.regulators.forEach((g, k) => {
+        const gp = `${at}.rate.regulators[${k}].use`;
+        follows(`${gp}.halfMax`, who, `half-max K of ${g.source}`, g.use?.halfMax, g.halfMax);
+        follows(`${gp}.hill`, who, `Hill coefficient of ${g.source}`, g.use?.hill, g.hill);
+      });
+    }
+    if (rate.kind === "expression") {
+      const res = parseExpression(rate.formula, { species, signals, params: new Set(params.keys()) });
+      if (!res.ok)
+        errors.push({ path: `${at}.rate.formula`, message: `${who}: formula ${describeExprError(res.error)}` });
+    }
+    if (r.rate.kind !== "massAction" && r.rate.kind !== "expression" && r.reactants.length > 0)
       errors.push({
         path: `${at}.reactants`,
         message: `${who}: reactants: a ${r.rate.kind} rate does not depend on its reactants, so it could drive a count negative; use mass action or move them to modifiers`,

@@ -16,13 +16,27 @@
  * - grid recording, online crossing detection (PulseTracker.push on every
  *   change of the output) and optional event recording.
  *
- * The source is built only from the compiled model's indices and the numeric
- * flags below (integer Hill exponents, zero leak); no user text reaches it.
+ * Expression rates (sim/circuit/expression.ts) are generated from their checked
+ * tree; a model with expressions additionally
+ * - checks every expression propensity: negative or not finite stops the
+ *   replicate (status KERNEL_FAILED, ctx.error*), never a silent clamp; so does
+ *   a firing of an expression reaction that would make a count negative;
+ * - stops the clock at the model's clock stops (ctx.stopTimes, the constants
+ *   time is compared with), recomputing the time-dependent propensities with
+ *   the probe time of the new interval (ctx.stopProbe), exactly as at an input
+ *   switch; at equal times the input switch comes first.
+ * A model without expressions gets exactly the source it got before they
+ * existed.
+ *
+ * The source is built only from the compiled model's indices, numbers from
+ * checked trees and the numeric flags below (integer Hill exponents, zero
+ * leak); no user text reaches it.
  * Parameter values are read from the parameter vector at entry, so one kernel
  * serves every replicate and extrinsic draw.
  */
 import type { PulseTracker } from "@/sim/metrics/pulse-tracker";
-import type { CompiledModel } from "@/sim/circuit/compile-model";
+import { badRateMessage, type CompiledModel } from "@/sim/circuit/compile-model";
+import { treeToJs } from "@/sim/circuit/expression";
 import type { EventRecorder } from "./event-recorder";
 
 /** In/out state of one kernel call. */
@@ -43,11 +57,31 @@ export class KernelContext {
   /** 0 finished, 1 stopped at the event cap, 2 aborted by the checkpoint. */
   status = 0;
   checkpoint: (() => boolean) | null = null;
+  /** Clock stops of time-dependent rates still ahead (empty during a burn-in). */
+  stopTimes: Float64Array = new Float64Array(0);
+  /** Probe time per clock interval (length stopTimes.length + 1). */
+  stopProbe: Float64Array = Float64Array.of(0);
+  /** Set with status KERNEL_FAILED: the reaction, its rate, and 1 = bad rate, 2 = count would go negative. */
+  errorReaction = -1;
+  errorValue = 0;
+  errorKind = 0;
 }
 
 export const KERNEL_FINISHED = 0;
 export const KERNEL_CAPPED = 1;
 export const KERNEL_ABORTED = 2;
+export const KERNEL_FAILED = 3;
+
+/** The error of a replicate that stopped with KERNEL_FAILED. */
+export function kernelFailureMessage(model: CompiledModel, ctx: KernelContext): string {
+  const r = model.reactions[ctx.errorReaction];
+  const name = r?.name ?? "?";
+  if (ctx.errorKind === 2) {
+    const neg = r?.delta.find((d) => d.change < 0);
+    return `reaction "${name}" fired with too few molecules of ${neg ? `"${model.speciesNames[neg.species]}"` : "a reactant"} at t = ${ctx.t} min (the count would go negative): its expression must be 0 when a reactant runs out`;
+  }
+  return badRateMessage(name, ctx.errorValue, ctx.t);
+}
 
 export type Kernel = (
   x: Float64Array,
@@ -78,7 +112,18 @@ function propensityCode(model: CompiledModel, j: number, opts: KernelOptions, us
   };
   let expr: string;
   let pre = "";
-  if (r.kind === "massAction") {
+  if (r.expr !== null) {
+    const sp = new Map(model.speciesNames.map((n, i) => [n, i]));
+    const sg = new Map(model.signalNames.map((n, i) => [n, i]));
+    const pq = new Map(model.parameterNames.map((n, i) => [n, model.parameterSlots[i]]));
+    expr = treeToJs(r.expr, {
+      name: (kind, name) =>
+        kind === "species" ? `x${sp.get(name)}` : kind === "signal" ? `g${sg.get(name)}` : P(pq.get(name)!),
+      time: "tq",
+    });
+    if (r.scaledBy >= 0) expr = `${expr}*g${r.scaledBy}`;
+    return `a${j} = ${expr}; if (!(a${j} >= 0 && a${j} < Infinity)) { ctx.errorReaction = ${j}; ctx.errorValue = a${j}; ctx.errorKind = 1; status = 3; break main; }`;
+  } else if (r.kind === "massAction") {
     const parts = [P(r.rateSlot)];
     for (const e of r.reactants) parts.push(e.count === 1 ? `x${e.species}` : `(x${e.species}*(x${e.species}-1)*0.5)`);
     expr = parts.join("*");
@@ -106,7 +151,12 @@ function propensityCode(model: CompiledModel, j: number, opts: KernelOptions, us
 }
 
 /** The kernel's JavaScript source (exported for inspection and tests). */
-export function kernelSource(model: CompiledModel, opts: KernelOptions): string {
+export function kernelSource(model: CompiledModel, optsIn: KernelOptions): string {
+  // slots that follow a varied named parameter vary too
+  const variedSlots = new Set(optsIn.variedSlots);
+  for (const l of model.links) if (variedSlots.has(l.from)) variedSlots.add(l.slot);
+  const opts: KernelOptions = { ...optsIn, variedSlots };
+  const ext = model.hasExpressions;
   const nS = model.nSpecies;
   const nG = model.nSignals;
   const nR = model.nReactions;
@@ -123,14 +173,22 @@ export function kernelSource(model: CompiledModel, opts: KernelOptions): string 
   if (qVars.length > 0) L.push(`var ${qVars.join(", ")};`);
   L.push(`var ${Array.from({ length: nR }, (_, j) => `a${j} = 0.0`).join(", ")};`);
   L.push(`var s0 = rs[0], s1 = rs[1], s2 = rs[2], c = rs[3], tt = 0.0;`);
+  if (ext) {
+    L.push(`var status = 0;`);
+    L.push(`main: {`);
+    L.push(`var t = ctx.t, tEnd = ctx.tEnd;`);
+    L.push(`var xs = ctx.stopTimes, xp = ctx.stopProbe, nx = xs.length, xi = 0;`);
+    L.push(`while (xi < nx && xs[xi] <= t) xi++;`);
+    L.push(`var tq = xp[xi], tX = xi < nx ? xs[xi] : Infinity;`);
+  }
   L.push(props.join("\n"));
-  L.push(`var t = ctx.t, tEnd = ctx.tEnd;`);
+  if (!ext) L.push(`var t = ctx.t, tEnd = ctx.tEnd;`);
   L.push(`var sw = ctx.switchTimes, swl = ctx.switchLevels, si = ctx.switchIndex, nsw = sw.length;`);
   L.push(`var tSw = si < nsw ? sw[si] : Infinity;`);
   L.push(`var gt = ctx.gridTimes, gi = ctx.gridIndex, ng = gt.length, gb = ctx.gridBuf;`);
   L.push(`var tG = gi < ng ? gt[gi] : Infinity;`);
   L.push(`var trk = ctx.tracker, rec = ctx.recorder, cp = ctx.checkpoint;`);
-  L.push(`var ev = ctx.events, cap = ctx.eventCap, status = 0;`);
+  L.push(`var ev = ctx.events, cap = ctx.eventCap${ext ? "" : ", status = 0"};`);
   L.push(`var atot = 0.0, tNext = 0.0, r = 0.0, cum = 0.0, j = 0;`);
   const gridWrite = (cond: string) =>
     `while (${cond}) { ${Array.from({ length: nS }, (_, i) => `gb[${i === 0 ? "gi" : `gi + ${i} * ng`}] = x${i};`).join(" ")} gi++; tG = gi < ng ? gt[gi] : Infinity; }`;
@@ -139,6 +197,14 @@ export function kernelSource(model: CompiledModel, opts: KernelOptions): string 
   L.push(`  atot = ${Array.from({ length: nR }, (_, j) => `a${j}`).join(" + ")};`);
   L.push(`  ${rand}`);
   L.push(`  tNext = atot > 0 ? t - Math.log(1 - s2) / atot : Infinity;`);
+  if (ext && model.clockStops.length > 0) {
+    L.push(`  if (tX <= tNext && tX <= tEnd && tX < tSw) {`);
+    L.push(`    ${gridWrite("tG < tX")}`);
+    L.push(`    t = tX; xi++; tq = xp[xi]; tX = xi < nx ? xs[xi] : Infinity;`);
+    for (const k of model.timeDependents) L.push(`    ${props[k]}`);
+    L.push(`    continue;`);
+    L.push(`  }`);
+  }
   L.push(`  if (tSw <= tNext && tSw < tEnd) {`);
   L.push(`    ${gridWrite("tG < tSw")}`);
   L.push(`    t = tSw;`);
@@ -159,7 +225,12 @@ export function kernelSource(model: CompiledModel, opts: KernelOptions): string 
     const upd = rx.delta.map((d) => `x${d.species} += ${d.change};`).join(" ");
     const deps = model.dependents[j].map((k) => props[k]).join(" ");
     const trk = rx.delta.some((d) => d.species === out) ? ` if (trk !== null) trk.push(t, x${out});` : "";
-    return `j = ${j}; ${upd} ${deps}${trk}`;
+    const neg = rx.expr !== null ? rx.delta.filter((d) => d.change < 0).map((d) => `x${d.species} < 0`) : [];
+    const guard =
+      neg.length > 0
+        ? ` if (${neg.join(" || ")}) { ctx.errorReaction = ${j}; ctx.errorValue = a${j}; ctx.errorKind = 2; status = 3; break main; }`
+        : "";
+    return `j = ${j}; ${upd}${guard} ${deps}${trk}`;
   });
   // selection and firing in one chain; the round-off fallback (last non-zero propensity) via a switch
   for (let j = 0; j < nR; j++)
@@ -175,6 +246,7 @@ export function kernelSource(model: CompiledModel, opts: KernelOptions): string 
   L.push(`  if (++ev >= cap) { status = 1; break; }`);
   L.push(`  if ((ev & 65535) === 0 && cp !== null && cp() === false) { status = 2; break; }`);
   L.push(`}`);
+  if (ext) L.push(`}`);
   L.push(Array.from({ length: nS }, (_, i) => `x[${i}] = x${i};`).join(" "));
   if (nG > 0) L.push(Array.from({ length: nG }, (_, i) => `sig[${i}] = g${i};`).join(" "));
   L.push(`rs[0] = s0; rs[1] = s1; rs[2] = s2; rs[3] = c;`);

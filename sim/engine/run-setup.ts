@@ -17,7 +17,7 @@ export interface VariedParameter {
   slot: number;
   /** Species index for init(X), else -1. */
   species: number;
-  kind: "rate" | "leak" | "K" | "n" | "init";
+  kind: "rate" | "leak" | "K" | "n" | "init" | "param";
 }
 
 export interface RunSetup {
@@ -53,6 +53,11 @@ export function runSpecErrors(spec: RunSpec): ValidationError[] {
         message: `extrinsic[${i}]: unknown parameter "${v.parameter}"`,
       });
   });
+  if (spec.systemSize !== 1 && spec.circuit.reactions.some((r) => r.rate.kind === "expression"))
+    errors.push({
+      path: "systemSize",
+      message: "the circuit has expression rates, which are written in molecule counts: system size must be 1",
+    });
   const n = Math.floor(spec.endTimeMinutes / spec.gridStepMinutes + 1e-9) + 1;
   if (n > RUN_LIMITS.maxGridPoints)
     errors.push({

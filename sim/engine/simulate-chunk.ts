@@ -20,17 +20,30 @@
  * figures. A replicate stopped at the event cap has NaN grid values after the
  * stop, is left out of the grid sums there (gridCount), and its open pulse
  * windows are closed at the stop time.
+ *
+ * A replicate whose expression rate turns negative or not finite (or whose
+ * expression reaction would drive a count negative) stops, and the chunk
+ * throws an error naming the replicate, reaction, value and time: such a run
+ * has no valid results, so none are returned.
  */
 import type { RunSpec, PulseStat } from "@/shared/schemas/run-spec";
 import { runSetup, type RunSetup } from "./run-setup";
-import { generateKernel, KernelContext, KERNEL_ABORTED, KERNEL_CAPPED, type Kernel } from "./generate-kernel";
+import {
+  generateKernel,
+  kernelFailureMessage,
+  KernelContext,
+  KERNEL_ABORTED,
+  KERNEL_CAPPED,
+  KERNEL_FAILED,
+  type Kernel,
+} from "./generate-kernel";
 import { EventRecorder } from "./event-recorder";
 import { AleaStream, replicateSeed } from "@/sim/random/alea-stream";
 import { sampleLognormalFactor } from "@/sim/random/distributions";
 import { compileProgram, type CompiledProgram } from "@/sim/inputs/compile-program";
 import { PulseTracker } from "@/sim/metrics/pulse-tracker";
 import { resolveThreshold } from "./resolve-threshold";
-import { deriveParams } from "@/sim/circuit/compile-model";
+import { clockProbeAt, deriveParams } from "@/sim/circuit/compile-model";
 import { ENGINE_VERSION } from "./version";
 import { tauLeapRun } from "./tau-leap";
 
@@ -132,6 +145,16 @@ export function simulateChunk(
   const ctx = new KernelContext();
   ctx.checkpoint = options.checkpoint ?? null;
   const empty = new Float64Array(0);
+  const burnInProbe = Float64Array.of(clockProbeAt(model, 0));
+  const run = (rep: number) => {
+    try {
+      if (kernel) kernel(x, p, sig, rs, ctx);
+      else tauLeapRun(model, x, p, sig, rs, ctx, setup.inputSignal);
+    } catch (e) {
+      throw new Error(`replicate ${rep}: ${(e as Error).message}`);
+    }
+    if (ctx.status === KERNEL_FAILED) throw new Error(`replicate ${rep}: ${kernelFailureMessage(model, ctx)}`);
+  };
   const sharedTracker = setup.sharedProgram ? new PulseTracker(setup.sharedProgram.pulses, thr, "step") : null;
 
   const replicates: ReplicateSummary[] = [];
@@ -183,8 +206,9 @@ export function simulateChunk(
       ctx.gridBuf = null;
       ctx.tracker = null;
       ctx.recorder = null;
-      if (kernel) kernel(x, p, sig, rs, ctx);
-      else tauLeapRun(model, x, p, sig, rs, ctx, setup.inputSignal);
+      ctx.stopTimes = empty;
+      ctx.stopProbe = burnInProbe;
+      run(rep);
       status = ctx.status;
       sig.set(model.signalOff);
     }
@@ -200,10 +224,11 @@ export function simulateChunk(
     ctx.gridBuf = gridBuf;
     ctx.tracker = tracker;
     ctx.recorder = recorder;
+    ctx.stopTimes = model.clockStops;
+    ctx.stopProbe = model.clockProbe;
     tracker.reset(rep, 0, x[out]);
     if (status === 0) {
-      if (kernel) kernel(x, p, sig, rs, ctx);
-      else tauLeapRun(model, x, p, sig, rs, ctx, setup.inputSignal);
+      run(rep);
       status = ctx.status;
     }
     const gEnd = status === 0 ? ng : ctx.gridIndex;

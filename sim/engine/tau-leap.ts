@@ -13,8 +13,11 @@
  *
  * Differences from the exact kernel: the state is constant within a leap, so
  * grid points and crossings inside a leap are placed at the leap's start/end;
- * leaps stop exactly at switch times; `events` counts reaction firings (sum of
- * the Poisson counts).
+ * leaps stop exactly at switch times and at the clock stops of time-dependent
+ * expression rates; `events` counts reaction firings (sum of the Poisson
+ * counts). An expression rate that is negative or not finite throws
+ * (reactionRate), as does an exact step of an expression reaction that would
+ * make a count negative.
  */
 import { reactionRate, type CompiledModel } from "@/sim/circuit/compile-model";
 import type { KernelContext } from "./generate-kernel";
@@ -69,6 +72,10 @@ export function tauLeapRun(
   let status = 0;
   let ssaLeft = 0;
   let iterations = 0;
+  const xs = ctx.stopTimes;
+  let xi = 0;
+  while (xi < xs.length && xs[xi] <= t) xi++;
+  let tq = ctx.stopProbe[xi];
   const writeGrid = (limit: number, inclusive: boolean) => {
     while (ctx.gridIndex < ng && (inclusive ? gt[ctx.gridIndex] <= limit : gt[ctx.gridIndex] < limit)) {
       for (let i = 0; i < nS; i++) gb![i * ng + ctx.gridIndex] = x[i];
@@ -81,12 +88,21 @@ export function tauLeapRun(
   for (;;) {
     let a0 = 0;
     for (let j = 0; j < nR; j++) {
-      a[j] = reactionRate(model, p, x, sig, j, false);
+      a[j] = reactionRate(model, p, x, sig, j, false, tq);
       if (a[j] < 0) a[j] = 0;
       a0 += a[j];
     }
     const tSw = ctx.switchIndex < ctx.switchTimes.length ? ctx.switchTimes[ctx.switchIndex] : Infinity;
-    const tStop = Math.min(tSw, ctx.tEnd);
+    const tX = xi < xs.length ? xs[xi] : Infinity;
+    const tStop = Math.min(tSw, ctx.tEnd, tX);
+    const atClockStop = () => {
+      if (tX < tSw && tX < ctx.tEnd && t >= tX) {
+        xi++;
+        tq = ctx.stopProbe[xi];
+        return true;
+      }
+      return false;
+    };
     let tau: number;
     let mode: "ssa" | "leap";
     // step selection
@@ -127,6 +143,12 @@ export function tauLeapRun(
       tau = a0 > 0 ? -Math.log(1 - u()) / a0 : Infinity;
       if (t + tau >= tStop) {
         ssaLeft = 0;
+        if (tX < tSw && tX < ctx.tEnd) {
+          writeGrid(tX, false);
+          t = tX;
+          atClockStop();
+          continue;
+        }
         if (tSw < ctx.tEnd) {
           writeGrid(tSw, false);
           t = tSw;
@@ -158,6 +180,12 @@ export function tauLeapRun(
           }
       const before = x[out];
       apply(j, 1);
+      if (R[j].expr !== null)
+        for (const d of R[j].delta)
+          if (x[d.species] < 0)
+            throw new Error(
+              `reaction "${R[j].name}" fired with too few molecules of "${model.speciesNames[d.species]}" at t = ${t} min (the count would go negative): its expression must be 0 when a reactant runs out`,
+            );
       if (ctx.recorder) ctx.recorder.push(t, j);
       if (ctx.tracker && x[out] !== before) ctx.tracker.push(t, x[out]);
       ev++;
@@ -203,7 +231,9 @@ export function tauLeapRun(
         ev += n;
         fired = true;
         if (clipped) {
-          if (tSw < ctx.tEnd && t >= tSw) {
+          if (atClockStop()) {
+            // clock stop of a time-dependent rate: rates are recomputed on the next pass
+          } else if (tSw < ctx.tEnd && t >= tSw) {
             if (inputSignal >= 0) sig[inputSignal] = ctx.switchLevels[ctx.switchIndex];
             ctx.switchIndex++;
           } else if (t >= ctx.tEnd) {

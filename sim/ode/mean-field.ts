@@ -4,8 +4,13 @@
  * to k*A^2/2 (the ODE limit of the propensity k*A*(A-1)/2) and the other laws
  * as in the stochastic model. Optionally a last component accumulates the total
  * rate sum_j rate_j (the expected number of firings, for cost estimates).
+ *
+ * Time-dependent expression rates read `clock.tq`, the probe time of the
+ * current clock interval, which the caller updates when it stops at a clock
+ * stop (sim/ode/solve-ode.ts); without a clock the interval is found from t
+ * (just after any stop at t).
  */
-import { reactionRate, type CompiledModel } from "@/sim/circuit/compile-model";
+import { clockProbeAt, reactionRate, type CompiledModel } from "@/sim/circuit/compile-model";
 import type { OdeRhs } from "./dormand-prince";
 
 export function meanFieldRhs(
@@ -13,18 +18,21 @@ export function meanFieldRhs(
   p: Float64Array,
   sig: Float64Array,
   accumulateTotal = false,
+  clock?: { tq: number },
 ): OdeRhs {
+  const timed = model.clockStops.length > 0;
   const nS = model.nSpecies;
   const nR = model.nReactions;
   const clamped = new Float64Array(nS);
-  return (_t, y, dy) => {
+  return (t, y, dy) => {
+    const tq = clock ? clock.tq : timed ? clockProbeAt(model, t) : undefined;
     for (let i = 0; i < nS; i++) {
       clamped[i] = y[i] > 0 ? y[i] : 0;
       dy[i] = 0;
     }
     let total = 0;
     for (let j = 0; j < nR; j++) {
-      const a = reactionRate(model, p, clamped, sig, j, true);
+      const a = reactionRate(model, p, clamped, sig, j, true, tq);
       total += a;
       for (const d of model.reactions[j].delta) dy[d.species] += d.change * a;
     }

@@ -2,7 +2,8 @@
  * Deterministic (mean-field) solution of a run's circuit on its output grid,
  * for overlay on the stochastic replicates. Dormand-Prince 5(4) with error
  * control (./dormand-prince.ts), stopping exactly at every switch time of the
- * input program and at every grid time. Same system size and start as the
+ * input program, at every clock stop of time-dependent expression rates and
+ * at every grid time (at equal times the input switch first). Same system size and start as the
  * stochastic run (start = offSteadyState: burn-in of burnInMinutes with the
  * input off, from the given counts); no extrinsic variation.
  */
@@ -10,7 +11,7 @@ import type { RunSpec } from "@/shared/schemas/run-spec";
 import { DopriIntegrator } from "./dormand-prince";
 import { meanFieldRhs } from "./mean-field";
 import { runSetup } from "@/sim/engine/run-setup";
-import type { CompiledModel } from "@/sim/circuit/compile-model";
+import { clockProbeAt, type CompiledModel } from "@/sim/circuit/compile-model";
 
 export interface OdeSolveOptions {
   relTol?: number;
@@ -29,8 +30,14 @@ export interface OdeSolution {
   burnInRateIntegral: number;
 }
 
-function integrator(model: CompiledModel, p: Float64Array, sig: Float64Array, opts: OdeSolveOptions) {
-  return new DopriIntegrator(model.nSpecies + 1, meanFieldRhs(model, p, sig, true), {
+function integrator(
+  model: CompiledModel,
+  p: Float64Array,
+  sig: Float64Array,
+  opts: OdeSolveOptions,
+  clock: { tq: number } = { tq: clockProbeAt(model, 0) },
+) {
+  return new DopriIntegrator(model.nSpecies + 1, meanFieldRhs(model, p, sig, true, clock), {
     relTol: opts.relTol ?? 1e-10,
     absTol: opts.absTol ?? 1e-10,
     maxSteps: 5_000_000,
@@ -63,7 +70,12 @@ export function solveOde(spec: RunSpec, opts: OdeSolveOptions = {}): OdeSolution
   const p = opts.params ?? model.baseParams;
   const sig = Float64Array.from(model.signalOff);
   const { y, burnInRateIntegral } = odeStartState(spec, opts);
-  const ode = integrator(model, p, sig, opts);
+  const clock = { tq: 0 };
+  const cs = model.clockStops;
+  let xi = 0;
+  while (xi < cs.length && cs[xi] <= 0) xi++;
+  clock.tq = model.clockProbe[xi];
+  const ode = integrator(model, p, sig, opts, clock);
   const nS = model.nSpecies;
   const ng = grid.length;
   const values = new Float64Array(nS * ng);
@@ -73,12 +85,21 @@ export function solveOde(spec: RunSpec, opts: OdeSolveOptions = {}): OdeSolution
   let t = 0;
   for (let g = 0; g < ng; g++) {
     const tg = grid[g];
-    while (si < sw.length && sw[si] <= tg) {
-      ode.integrate(y, t, sw[si]);
-      t = sw[si];
-      if (setup.inputSignal >= 0) sig[setup.inputSignal] = lv[si];
+    for (;;) {
+      const tSw = si < sw.length ? sw[si] : Infinity;
+      const tX = xi < cs.length ? cs[xi] : Infinity;
+      const next = Math.min(tSw, tX);
+      if (!(next <= tg)) break;
+      ode.integrate(y, t, next);
+      t = next;
+      if (tSw <= tX) {
+        if (setup.inputSignal >= 0) sig[setup.inputSignal] = lv[si];
+        si++;
+      } else {
+        xi++;
+        clock.tq = model.clockProbe[xi];
+      }
       ode.h = 0; // restart step-size selection after a discontinuity
-      si++;
     }
     ode.integrate(y, t, tg);
     t = tg;

@@ -39,6 +39,8 @@ function kineticLaw(r: Reaction): { math: string; locals: [string, number][] } {
     else if (b) body = apply("times", ci("k"), ci(a.species), ci(b.species));
     else if (a.count === 1) body = apply("times", ci("k"), ci(a.species));
     else body = apply("divide", apply("times", ci("k"), ci(a.species), apply("minus", ci(a.species), cn(1))), cn(2));
+  } else if (r.rate.kind === "expression") {
+    throw new Error(`reaction "${r.name}": SBML export of expression rates is not available yet`);
   } else {
     const rate = r.rate;
     locals.push(["vmax", rate.maxRatePerMinute], ["leak", rate.leakFraction]);

@@ -209,6 +209,28 @@ describe("create", () => {
     assert.ok(list.circuits.some((x) => x.id === d.circuit.id));
   });
 
+  test("named parameters and expression rates are accepted; a bad formula is a 400 naming the field and position", async () => {
+    const body = scratchCircuit() as any;
+    body.parameters = [
+      { name: "kmake", value: 5, description: "production while induced" },
+      { name: "kdeg", value: 0.1 },
+    ];
+    body.reactions[0].rate = { kind: "expression", formula: "kmake * X^0 * 1" };
+    body.reactions[1].rate = { kind: "massAction", ratePerMinute: 0.1, use: { ratePerMinute: "kdeg" } };
+    const r = await editor.post(`/api/labs/${lab}/circuits`).send({ name: "With parameters", body }).expect(201);
+    const d = CircuitDetailResponseSchema.parse(r.body);
+    assert.deepEqual(
+      d.body.parameters?.map((q) => q.name),
+      ["kmake", "kdeg"],
+    );
+    assert.equal(d.body.reactions[0].rate.kind, "expression");
+    body.reactions[0].rate.formula = "kmake * Q";
+    const bad = await editor.post(`/api/labs/${lab}/circuits`).send({ name: "Bad formula", body }).expect(400);
+    const f = fieldsOf(bad.body).find((x) => x.path === "body.reactions.0.rate.formula");
+    assert.ok(f, JSON.stringify(bad.body));
+    assert.match(f.message, /makeX.*position 9: "Q" is not a species, signal or parameter/);
+  });
+
   test("an audit event is recorded", async () => {
     const d = await createFromTemplate("Audited circuit", "simple");
     const rows = t.ctx.db.select().from(schema.auditEvents).where(eq(schema.auditEvents.targetId, d.circuit.id)).all();
