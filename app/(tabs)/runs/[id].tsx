@@ -13,6 +13,7 @@ import { Banner, ErrorState, LoadingState } from "@/components/ui/states";
 import { HeadlineCards } from "@/components/runs/headline-cards";
 import { ReproductionCard } from "@/components/runs/reproduction-card";
 import { AccelerationCard } from "@/components/runs/acceleration-card";
+import { RegimeCard } from "@/components/regimes/regime-card";
 import { ShareLinkCard } from "@/components/runs/share-link";
 import { ConfirmAction } from "@/components/lab/confirm-action";
 import { useReproduceRun } from "@/components/data/bundles";
@@ -249,6 +250,7 @@ export default function RunDetailScreen() {
       ) : active ? (
         <Text tone="muted">Figures appear when the run finishes.</Text>
       ) : null}
+      {run.regime ? <RegimeCard regime={run.regime} /> : null}
       {run.acceleration ? (
         <AccelerationCard
           acceleration={run.acceleration}
