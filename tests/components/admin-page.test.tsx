@@ -1,6 +1,7 @@
 import React from "react";
 import { fireEvent, screen } from "@testing-library/react-native";
 import { BackupCard } from "@/components/admin/backup-card";
+import { ComputeCard } from "@/components/admin/compute-card";
 import { OutboxList } from "@/components/admin/outbox-list";
 import { UserList } from "@/components/admin/user-list";
 import { navItemsFor } from "@/components/ui/nav-items";
@@ -61,5 +62,66 @@ describe("admin page parts", () => {
     expect(screen.getByText("Hello,\n\nopen this link")).toBeTruthy();
     expect(screen.getByText("Tank technician · site admin")).toBeTruthy();
     expect(screen.getByText(/a@example.org · 2 labs · joined/)).toBeTruthy();
+  });
+});
+
+describe("compute card", () => {
+  const now = Date.parse("2026-03-01T10:00:30.000Z");
+  const base = { window: 8, inFlight: 5, chunksPerSecond: 3.5, queueDepth: 4 };
+
+  test("embedded: says chunks run on the server's own threads", () => {
+    renderWithProviders(
+      <ComputeCard
+        now={now}
+        status={{ ...base, mode: "embedded", redis: null, queueDepth: 0, workerCount: 0, workers: [] }}
+      />,
+    );
+    expect(
+      screen.getByText(
+        /^Chunks run on this server's own threads \(no Redis configured\)\. 5 running · 3\.50 chunks\/s/,
+      ),
+    ).toBeTruthy();
+  });
+
+  test("Redis: worker count, queue depth, window, rate and each worker's last heartbeat", () => {
+    renderWithProviders(
+      <ComputeCard
+        now={now}
+        status={{
+          ...base,
+          mode: "redis",
+          redis: "connected",
+          workerCount: 1,
+          workers: [
+            {
+              id: "tank-node-2-4711",
+              host: "tank-node-2",
+              pid: 4711,
+              threads: 4,
+              engineVersion: "linger-engine 1.0.0",
+              busy: 3,
+              chunksDone: 120,
+              startedAt: "2026-03-01T09:00:00.000Z",
+              lastHeartbeat: "2026-03-01T10:00:26.000Z",
+            },
+          ],
+        }}
+      />,
+    );
+    expect(
+      screen.getByText("1 worker · 4 chunks queued · 5 out of a window of 8 · 3.50 chunks/s over the last minute"),
+    ).toBeTruthy();
+    expect(screen.getByText("tank-node-2-4711")).toBeTruthy();
+    expect(
+      screen.getByText(/4 threads · 3 busy · 120 chunks done · linger-engine 1\.0\.0 · last heartbeat 4 s ago$/),
+    ).toBeTruthy();
+  });
+
+  test("Redis down or no worker: says so", () => {
+    renderWithProviders(
+      <ComputeCard now={now} status={{ ...base, mode: "redis", redis: "disconnected", workerCount: 0, workers: [] }} />,
+    );
+    expect(screen.getByText("Redis is unreachable: queued chunks wait until it is back.")).toBeTruthy();
+    expect(screen.getByText(/No worker has sent a heartbeat: start one with npm run worker/)).toBeTruthy();
   });
 });

@@ -7,8 +7,9 @@ import { EmptyState, ErrorState, LoadingState } from "@/components/ui/states";
 import { OutboxList } from "@/components/admin/outbox-list";
 import { UserList } from "@/components/admin/user-list";
 import { BackupCard } from "@/components/admin/backup-card";
+import { ComputeCard } from "@/components/admin/compute-card";
 import { useMe } from "@/components/data/use-me";
-import { useAdminUsers, useBackup, useOutbox } from "@/components/data/admin";
+import { useAdminUsers, useBackup, useComputeStatus, useOutbox } from "@/components/data/admin";
 
 /** Site administration (site admins only; others see a short note and the API answers 403). */
 export default function AdminScreen() {
@@ -17,6 +18,7 @@ export default function AdminScreen() {
   const outbox = useOutbox(isAdmin);
   const users = useAdminUsers(isAdmin);
   const backup = useBackup();
+  const compute = useComputeStatus(isAdmin);
   if (!isAdmin) {
     return (
       <Screen title="Admin">
@@ -26,6 +28,17 @@ export default function AdminScreen() {
   }
   return (
     <Screen title="Admin" subtitle="This Linger instance" testID="admin-screen">
+      {compute.isPending ? (
+        <LoadingState label="Loading the compute status" />
+      ) : compute.error ? (
+        <ErrorState
+          title="The compute status could not be loaded"
+          error={compute.error}
+          onRetry={() => compute.refetch()}
+        />
+      ) : (
+        <ComputeCard status={compute.data} />
+      )}
       <BackupCard onBackup={() => backup.mutate()} busy={backup.isPending} result={backup.data} error={backup.error} />
       <Card testID="outbox-card">
         <Text variant="heading">Outbox</Text>
