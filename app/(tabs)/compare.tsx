@@ -7,17 +7,17 @@ import { Text } from "@/components/ui/text";
 import { Checkbox } from "@/components/ui/checkbox";
 import { SafetyNote } from "@/components/ui/safety-note";
 import { StatCard } from "@/components/ui/stat-card";
-import { EmptyState, ErrorState, LoadingState } from "@/components/ui/states";
+import { Banner, EmptyState, ErrorState, LoadingState } from "@/components/ui/states";
 import { LazyChart } from "@/components/charts/lazy-chart";
 import { compareDelaySpec, compareFilterSpec } from "@/components/charts/specs";
-import { formatNumber } from "@/components/charts/chart-spec";
+import { formatInterval, formatNumber, formatPValue, formatProbability, formatReached } from "@/shared/number-format";
 import { useComparison, useRuns } from "@/components/data/runs";
 import { useTheme } from "@/components/theme/use-theme";
 import { useBreakpoints } from "@/components/theme/use-breakpoints";
 import type { Comparison, ComparisonPair } from "@/shared/schemas/analysis";
 
-const pct = (p: number | null) => (p === null ? "–" : `${formatNumber(p * 100, 3)}%`);
-const pval = (p: number) => (p < 0.001 ? "p < 0.001" : `p = ${formatNumber(p, 2)}`);
+const pct = (p: number | null) => formatProbability(p);
+const pval = (p: number) => formatPValue(p);
 
 /** A pair's tests in plain words. */
 export function pairSentences(cmp: Comparison, pair: ComparisonPair): string[] {
@@ -66,8 +66,23 @@ function ComparisonView({ ids }: { ids: string[] }) {
   const cmp = q.data;
   const filter = compareFilterSpec(cmp, t.colors);
   const delays = compareDelaySpec(cmp, t.colors);
+  const source = { name: `Comparison of ${cmp.runs.map((r) => r.name).join(", ")}` };
   return (
     <View style={{ gap: t.spacing.lg }} testID="comparison">
+      {cmp.settingsWarnings.length ? (
+        <Banner tone="notice" testID="compare-settings-warning">
+          <View style={{ gap: t.spacing.xs }}>
+            <Text variant="bodyStrong" style={{ color: t.colors.onNoticeSoft }}>
+              These runs were not measured the same way
+            </Text>
+            {cmp.settingsWarnings.map((w) => (
+              <Text key={w} style={{ color: t.colors.onNoticeSoft }}>
+                • {w}
+              </Text>
+            ))}
+          </View>
+        </Banner>
+      ) : null}
       <SafetyNote />
       <View style={{ flexDirection: isWide ? "row" : "column", gap: t.spacing.md }}>
         {cmp.runs.map((r, k) => (
@@ -80,12 +95,17 @@ function ComparisonView({ ids }: { ids: string[] }) {
             </View>
             <StatCard
               label="d50"
-              value={r.headline.d50 === null ? "not estimable" : `${formatNumber(r.headline.d50)} min`}
-              detail={r.headline.d50Note ?? undefined}
+              value={r.headline.d50 === null ? "no number" : `${formatNumber(r.headline.d50)} min`}
+              detail={
+                r.headline.d50 === null
+                  ? (r.headline.d50Note ?? "not estimable")
+                  : formatInterval(r.headline.d50Ci, "min")
+              }
             />
             <StatCard
               label="Median delay"
-              value={r.headline.medianDelay === null ? "not reached" : `${formatNumber(r.headline.medianDelay)} min`}
+              value={formatReached(r.headline.medianDelay, "min")}
+              detail={r.headline.medianDelay === null ? undefined : formatInterval(r.headline.medianDelayCi, "min")}
             />
             <StatCard
               label="False-pass rate"
@@ -94,15 +114,10 @@ function ComparisonView({ ids }: { ids: string[] }) {
             />
             <StatCard
               label="Pulses passed"
-              value={`${r.headline.passed} of ${r.headline.evaluable}`}
+              value={`${r.headline.passed.toLocaleString("en")} of ${r.headline.evaluable.toLocaleString("en")}`}
               detail="every evaluable pulse, all durations"
             />
-            <StatCard
-              label="Delay paid for long pulses"
-              value={
-                r.headline.delayCostMedian === null ? "not reached" : `${formatNumber(r.headline.delayCostMedian)} min`
-              }
-            />
+            <StatCard label="Delay paid for long pulses" value={formatReached(r.headline.delayCostMedian, "min")} />
           </View>
         ))}
       </View>
@@ -110,14 +125,14 @@ function ComparisonView({ ids }: { ids: string[] }) {
         <View style={isWide ? { width: "48%", flexGrow: 1 } : undefined}>
           <Card testID="chart-card-compare-filter">
             <Text variant="heading">Filter curves</Text>
-            <LazyChart spec={filter} testID="chart-compare-filter" />
+            <LazyChart spec={filter} testID="chart-compare-filter" source={source} />
           </Card>
         </View>
         {delays ? (
           <View style={isWide ? { width: "48%", flexGrow: 1 } : undefined}>
             <Card>
               <Text variant="heading">Response delays</Text>
-              <LazyChart spec={delays} testID="chart-compare-delays" />
+              <LazyChart spec={delays} testID="chart-compare-delays" source={source} />
             </Card>
           </View>
         ) : null}
@@ -125,16 +140,16 @@ function ComparisonView({ ids }: { ids: string[] }) {
       <Card testID="comparison-tests">
         <Text variant="heading">What the tests say</Text>
         {cmp.pairs.map((p) => (
-          <View key={`${p.a}-${p.b}`} style={{ gap: t.spacing.xs }}>
+          <View key={`${p.a}-${p.b}`} style={{ gap: t.spacing.xs }} testID="comparison-pair">
+            {cmp.pairs.length > 1 ? (
+              <Text variant="label">
+                {cmp.runs.find((r) => r.id === p.a)?.name} and {cmp.runs.find((r) => r.id === p.b)?.name}
+              </Text>
+            ) : null}
             {pairSentences(cmp, p).map((s) => (
               <Text key={s}>• {s}</Text>
             ))}
           </View>
-        ))}
-        {cmp.flags.map((f) => (
-          <Text key={f} tone="muted">
-            • {f}
-          </Text>
         ))}
         <Text variant="caption" tone="muted">
           {cmp.method}

@@ -4,10 +4,33 @@
  */
 import React from "react";
 import { View } from "react-native";
-import { useFont } from "@shopify/react-native-skia";
+import { DashPathEffect, Path, Skia, useFont } from "@shopify/react-native-skia";
 import { CartesianChart, Line, Area, AreaRange, Scatter, Bar } from "victory-native";
 import type { ChartSpec } from "./chart-spec";
-import { seriesKeys, formatNumber } from "./chart-spec";
+import { seriesKeys } from "./chart-spec";
+import { formatNumber } from "@/shared/number-format";
+import { chartScales } from "./svg-writer";
+
+type Pt = { x: number; y?: number | null };
+
+/** Vertical interval bars with caps at each x where both ends are defined. */
+function ErrorBars({ lower, upper, color, width }: { lower: Pt[]; upper: Pt[]; color: string; width: number }) {
+  const path = React.useMemo(() => {
+    const p = Skia.PathBuilder.Make();
+    lower.forEach((lo, i) => {
+      const hi = upper[i];
+      if (!hi || typeof lo.y !== "number" || typeof hi.y !== "number") return;
+      p.moveTo(lo.x, lo.y);
+      p.lineTo(hi.x, hi.y);
+      p.moveTo(lo.x - 4, lo.y);
+      p.lineTo(lo.x + 4, lo.y);
+      p.moveTo(hi.x - 4, hi.y);
+      p.lineTo(hi.x + 4, hi.y);
+    });
+    return p.build();
+  }, [lower, upper]);
+  return <Path path={path} style="stroke" strokeWidth={width} color={color} />;
+}
 
 export type ChartRendererProps = { spec: ChartSpec; colors: { text: string; grid: string; frame: string } };
 
@@ -22,6 +45,9 @@ export default function ChartRenderer({ spec, colors }: ChartRendererProps) {
       ? ([Math.log10(spec.xDomain[0]), Math.log10(spec.xDomain[1])] as [number, number])
       : spec.xDomain;
   const domain = xDomain || spec.yDomain ? { x: xDomain, y: spec.yDomain } : undefined;
+  // The same nice ticks as the chart image (1, 2, 5, 10, ... on a log axis).
+  const scales = chartScales(spec);
+  const xTicks = scales.xTicks.map(scales.tx);
   // victory-native's generics want literal keys; the spec is dynamic, so the props are built loosely.
   const Chart = CartesianChart as unknown as React.ComponentType<Record<string, unknown>>;
   return (
@@ -38,6 +64,7 @@ export default function ChartRenderer({ spec, colors }: ChartRendererProps) {
           labelColor: colors.text,
           lineColor: colors.grid,
           tickCount: 6,
+          tickValues: xTicks.length >= 2 ? xTicks : undefined,
           formatXLabel: (v: number) => formatNumber(spec.logX ? Math.pow(10, v) : v, 3),
         }}
         yAxis={[
@@ -46,6 +73,7 @@ export default function ChartRenderer({ spec, colors }: ChartRendererProps) {
             labelColor: colors.text,
             lineColor: colors.grid,
             tickCount: 5,
+            tickValues: spec.yDomain && scales.yTicks.length >= 2 ? scales.yTicks : undefined,
             formatYLabel: (v: number) => formatNumber(v, 3),
           },
         ]}
@@ -75,6 +103,16 @@ export default function ChartRenderer({ spec, colors }: ChartRendererProps) {
                     curveType={l.curve ?? "linear"}
                   />
                 );
+              if (l.type === "errorBars")
+                return (
+                  <ErrorBars
+                    key={i}
+                    lower={points[l.lower] as unknown as Pt[]}
+                    upper={points[l.upper] as unknown as Pt[]}
+                    color={l.color}
+                    width={l.width ?? 1.5}
+                  />
+                );
               if (l.type === "points")
                 return <Scatter key={i} points={points[l.key]} radius={l.radius ?? 4} color={l.color} />;
               if (l.type === "bars")
@@ -96,7 +134,9 @@ export default function ChartRenderer({ spec, colors }: ChartRendererProps) {
                   strokeWidth={l.width ?? 2}
                   curveType={l.curve ?? "linear"}
                   opacity={l.opacity ?? 1}
-                />
+                >
+                  {l.dashed ? <DashPathEffect intervals={[4, 4]} /> : null}
+                </Line>
               );
             })}
           </>

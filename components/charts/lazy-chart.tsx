@@ -7,7 +7,9 @@ import React from "react";
 import { Platform, View } from "react-native";
 import { useTheme } from "@/components/theme/use-theme";
 import { Text } from "@/components/ui/text";
+import { Button } from "@/components/ui/button";
 import type { ChartSpec } from "./chart-spec";
+import type { ChartImageSource } from "./svg-writer";
 
 function ChartFallback({ height }: { height: number }) {
   const t = useTheme();
@@ -41,8 +43,52 @@ const Renderer = React.lazy(async () => {
   return import("./chart-renderer");
 });
 
+/** Save as PNG / SVG (web): the image is written from the spec, with the run's name and seed in its corner. */
+function SaveImage({ spec, source, testID }: { spec: ChartSpec; source?: ChartImageSource; testID?: string }) {
+  const t = useTheme();
+  const [error, setError] = React.useState<string | null>(null);
+  if (Platform.OS !== "web") return null;
+  const run = async (kind: "png" | "svg") => {
+    setError(null);
+    try {
+      const m = await import("./chart-image");
+      if (kind === "svg") m.downloadChartSvg(spec, source);
+      else await m.downloadChartPng(spec, source);
+    } catch (e) {
+      setError((e as Error).message);
+    }
+  };
+  return (
+    <View style={{ flexDirection: "row", flexWrap: "wrap", gap: t.spacing.sm, alignItems: "center" }}>
+      <Button
+        label="Save PNG"
+        variant="ghost"
+        icon="download"
+        compact
+        accessibilityLabel={`Save ${spec.title} as PNG`}
+        onPress={() => void run("png")}
+        testID={testID ? `${testID}-save-png` : undefined}
+      />
+      <Button
+        label="Save SVG"
+        variant="ghost"
+        icon="download"
+        compact
+        accessibilityLabel={`Save ${spec.title} as SVG`}
+        onPress={() => void run("svg")}
+        testID={testID ? `${testID}-save-svg` : undefined}
+      />
+      {error ? (
+        <Text variant="caption" tone="danger">
+          {error}
+        </Text>
+      ) : null}
+    </View>
+  );
+}
+
 /** Title, legend and description in text; the drawing itself is lazy. */
-export function LazyChart({ spec, testID }: { spec: ChartSpec; testID?: string }) {
+export function LazyChart({ spec, testID, source }: { spec: ChartSpec; testID?: string; source?: ChartImageSource }) {
   const t = useTheme();
   const height = spec.height ?? 240;
   const colors = { text: t.colors.textMuted, grid: t.colors.divider, frame: t.colors.border };
@@ -60,7 +106,11 @@ export function LazyChart({ spec, testID }: { spec: ChartSpec; testID?: string }
       <View style={{ flexDirection: "row", flexWrap: "wrap", gap: t.spacing.md }}>
         {spec.legend.map((l) => (
           <View key={l.label} style={{ flexDirection: "row", alignItems: "center", gap: t.spacing.xs }}>
-            <View style={{ width: 14, height: 4, borderRadius: 2, backgroundColor: l.color }} />
+            {l.dashed ? (
+              <View style={{ width: 14, height: 0, borderTopWidth: 3, borderStyle: "dashed", borderColor: l.color }} />
+            ) : (
+              <View style={{ width: 14, height: 4, borderRadius: 2, backgroundColor: l.color }} />
+            )}
             <Text variant="caption" tone="muted">
               {l.label}
             </Text>
@@ -70,6 +120,12 @@ export function LazyChart({ spec, testID }: { spec: ChartSpec; testID?: string }
       <Text variant="caption" tone="muted">
         {spec.xLabel} (across) · {spec.yLabel} (up)
       </Text>
+      {(spec.notes ?? []).map((n) => (
+        <Text key={n} variant="caption" tone="muted">
+          {n}
+        </Text>
+      ))}
+      <SaveImage spec={spec} source={source} testID={testID} />
     </View>
   );
 }

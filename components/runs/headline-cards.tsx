@@ -2,10 +2,18 @@ import React from "react";
 import { View } from "react-native";
 import type { RunSummary } from "@/shared/schemas/analysis";
 import type { Circuit } from "@/shared/schemas/circuit";
-import { formatNumber } from "@/components/charts/chart-spec";
+import {
+  formatCount,
+  formatInterval,
+  formatNumber,
+  formatProbability,
+  formatQuantity,
+  formatReached,
+} from "@/shared/number-format";
 import { StatCard } from "@/components/ui/stat-card";
 import { Text } from "@/components/ui/text";
 import { useTheme } from "@/components/theme/use-theme";
+import { DefinitionLink } from "@/components/definitions/definition-link";
 
 /** A circuit whose output production has a repressor (as in an incoherent feed-forward pulse generator). */
 export function outputIsRepressed(c: Circuit): boolean {
@@ -18,11 +26,9 @@ export function outputIsRepressed(c: Circuit): boolean {
 }
 
 const CARD = { flexGrow: 1, flexBasis: 150, minWidth: 140 } as const;
-const pct = (p: number | null | undefined) => (p === null || p === undefined ? "–" : `${formatNumber(p * 100, 3)}%`);
-const ci = (c: [number | null, number | null] | null | undefined, unit = "") =>
-  c
-    ? `95% CI ${c[0] === null ? "not reached" : formatNumber(c[0])}–${c[1] === null ? "not reached" : formatNumber(c[1])}${unit}`
-    : undefined;
+const pct = (p: number | null | undefined) => formatProbability(p);
+const ci = (c: [number | null, number | null] | null | undefined, unit = "min") =>
+  c ? formatInterval(c, unit) : undefined;
 
 /** The headline figures of a finished run (or of a trace set, cells as replicates: peaks are then in trace units). */
 /** The d50 card's value when no number is given: the pass-curve verdict in words (sim/analysis/pass-curve-d50.ts). */
@@ -63,15 +69,21 @@ export function HeadlineCards({
           style={CARD}
           testID="card-d50"
           label="d50 (duration passed half the time)"
-          value={summary.d50 === null ? d50Refusal(summary) : `${formatNumber(summary.d50)} min`}
-          detail={summary.d50 === null ? (summary.d50Note ?? undefined) : ci(summary.d50Ci, " min")}
+          value={summary.d50 === null ? d50Refusal(summary) : formatQuantity(summary.d50, "min")}
+          detail={
+            summary.d50 === null
+              ? (summary.d50Note ?? undefined)
+              : `${ci(summary.d50Ci)} (tried durations) · monotone pass curve`
+          }
+          extra={<DefinitionLink term="d50" />}
         />
         <StatCard
           style={CARD}
           testID="card-median-delay"
           label="Median response delay"
-          value={summary.delay.median === null ? "not reached" : `${formatNumber(summary.delay.median)} min`}
-          detail={ci(summary.delay.medianCi, " min") + ` · ${summary.delay.censored} without response`}
+          value={formatReached(summary.delay.median, "min")}
+          detail={`${summary.delay.median === null ? "fewer than half responded" : ci(summary.delay.medianCi)} · ${formatCount(summary.delay.censored)} of ${formatCount(summary.delay.evaluable)} without response`}
+          extra={<DefinitionLink term="response-delay" />}
         />
         <StatCard
           style={CARD}
@@ -80,20 +92,18 @@ export function HeadlineCards({
           value={pct(summary.falsePassRate)}
           detail={
             summary.falsePass
-              ? `${summary.falsePass.passed} of ${summary.falsePass.pulses} passed · 95% CI ${pct(summary.falsePass.ci[0])}–${pct(summary.falsePass.ci[1])}`
+              ? `${formatCount(summary.falsePass.passed)} of ${formatCount(summary.falsePass.pulses)} passed · ${formatInterval(summary.falsePass.ci, "%")}`
               : "no pulses shorter than the noise duration"
           }
+          extra={<DefinitionLink term="false-pass-rate" />}
         />
         {summary.delayCost ? (
           <StatCard
             style={CARD}
             label={`Delay paid for long pulses (≥ ${formatNumber(summary.delayCost.minDurationMinutes)} min)`}
-            value={
-              summary.delayCost.medianDelay === null
-                ? "not reached"
-                : `${formatNumber(summary.delayCost.medianDelay)} min`
-            }
-            detail={`${summary.delayCost.responded} of ${summary.delayCost.pulses} responded`}
+            value={formatReached(summary.delayCost.medianDelay, "min")}
+            detail={`${formatCount(summary.delayCost.responded)} of ${formatCount(summary.delayCost.pulses)} responded · durations ${summary.delayCost.durations.map((d) => formatNumber(d)).join(", ")} min`}
+            extra={<DefinitionLink term="delay-cost" />}
           />
         ) : null}
         {isPulseGenerator ? (
@@ -101,20 +111,35 @@ export function HeadlineCards({
             <StatCard
               style={CARD}
               label="Median peak above baseline"
-              value={`${formatNumber(pg.peakAboveBaseline.median)} ${peakUnit}`}
-              detail={`time to peak ${formatNumber(pg.timeToPeak.median)} min`}
+              value={formatQuantity(pg.peakAboveBaseline.median, peakUnit)}
+              detail={`time to peak ${formatQuantity(pg.timeToPeak.median, "min")}`}
+              extra={<DefinitionLink term="fwhm" />}
             />
             <StatCard
               style={CARD}
               label="Median pulse width (FWHM)"
-              value={`${formatNumber(pg.fwhm.median)} min`}
+              value={formatQuantity(pg.fwhm.median, "min")}
               detail={`${pg.fwhmNotMeasurable} not measurable`}
+              extra={<DefinitionLink term="fwhm" />}
             />
           </>
         ) : null}
+        {summary.noise.fano !== null ? (
+          <StatCard
+            style={CARD}
+            testID="card-fano"
+            label="Output noise (Fano factor)"
+            value={formatNumber(summary.noise.fano)}
+            detail={`variance / mean over ${formatCount(summary.noise.replicates)} replicates · CV ${formatNumber(summary.noise.cv)}`}
+            extra={<DefinitionLink term="fano" />}
+          />
+        ) : null}
       </View>
       <View style={{ gap: t.spacing.xs }}>
-        <Text variant="label">Pass probability per input duration</Text>
+        <View style={{ flexDirection: "row", gap: t.spacing.sm, alignItems: "center" }}>
+          <Text variant="label">Pass probability per input duration</Text>
+          <DefinitionLink term="pass-probability" />
+        </View>
         <View style={{ flexDirection: "row", flexWrap: "wrap", gap: t.spacing.sm }}>
           {summary.byDuration.map((e) => (
             <View
@@ -127,7 +152,8 @@ export function HeadlineCards({
               }}
             >
               <Text variant="caption">
-                {formatNumber(e.duration)} min: {pct(e.passProbability)} ({e.passed}/{e.pulses})
+                {formatQuantity(e.duration, "min")}: {pct(e.passProbability)} ({formatCount(e.passed)}/
+                {formatCount(e.pulses)})
               </Text>
             </View>
           ))}

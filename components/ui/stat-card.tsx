@@ -10,10 +10,13 @@ export function StatCard({
   detail,
   testID,
   style,
+  extra,
 }: {
   label: string;
   value: string;
   detail?: string;
+  /** Shown under the detail, e.g. a link to the figure's definition. */
+  extra?: React.ReactNode;
   testID?: string;
   style?: StyleProp<ViewStyle>;
 }) {
@@ -42,6 +45,7 @@ export function StatCard({
           {detail}
         </Text>
       ) : null}
+      {extra}
     </View>
   );
 }

@@ -33,7 +33,7 @@ export function compareLabRuns(ctx: AppContext, labId: string, runIds: string[])
   const unfinished = ordered.filter((r) => !r.summary);
   if (unfinished.length)
     throw conflict(`These runs have no results yet: ${unfinished.map((r) => r.name).join(", ")}.`, "not_finished");
-  const compared = compareRuns(
+  return compareRuns(
     ordered.map((r) => {
       const pulses = readPulseStats(ctx.db, r.id);
       return {
@@ -42,14 +42,10 @@ export function compareLabRuns(ctx: AppContext, labId: string, runIds: string[])
         summary: r.summary as RunSummary,
         delays: delaysOf(pulses),
         widths: widthsOf(pulses),
+        settings: settingsOf(r),
       };
     }),
   );
-  // Each run's settings block, so differences in threshold, window, method, end time or replicates can be told.
-  return {
-    ...compared,
-    runs: compared.runs.map((c, i) => ({ ...c, settings: settingsOf(ordered[i]) })),
-  };
 }
 
 /** The stored summary's settings block, else one resolved from the spec; null when the threshold cannot be resolved. */

@@ -251,6 +251,28 @@ export function sweepDetail(ctx: AppContext, sweepId: string): SweepDetail {
             ),
             peak: s.pulseGeneration?.peak?.median ?? null,
             fano: s.noise?.fano ?? null,
+            intervals: {
+              d50: s.d50Ci ?? null,
+              falsePassRate: s.falsePass?.ci ?? null,
+              medianDelay:
+                s.delay?.median === null || s.delay?.median === undefined ? null : (s.delay?.medianCi ?? null),
+            },
+            reasons: {
+              d50: s.d50 === null || s.d50 === undefined ? (s.d50Note ?? "not estimable") : null,
+              falsePassRate:
+                s.falsePassRate === null || s.falsePassRate === undefined
+                  ? "no pulses shorter than the noise duration"
+                  : null,
+              medianDelay:
+                s.delay?.median === null || s.delay?.median === undefined
+                  ? "median not reached: fewer than half the pulses responded"
+                  : null,
+              peak:
+                s.pulseGeneration?.peak?.median === null || s.pulseGeneration?.peak?.median === undefined
+                  ? "no evaluable pulses"
+                  : null,
+              fano: s.noise?.fano === null || s.noise?.fano === undefined ? "no output moments recorded" : null,
+            },
           }
         : null,
     };
@@ -266,6 +288,7 @@ export function sweepDetail(ctx: AppContext, sweepId: string): SweepDetail {
     pointCount: sweep.pointCount,
     pointsDone: done,
     replicatesPerPoint: (sweep.baseSpec as RunSpec).replicates,
+    seed: (sweep.baseSpec as RunSpec).seed,
     createdAt: sweep.createdAt.toISOString(),
     finishedAt: sweep.finishedAt?.toISOString() ?? null,
     baseSpec: sweep.baseSpec as RunSpec,

@@ -420,7 +420,10 @@ export const ComparisonSchema = z.object({
     widths: z.object({ edges: z.array(num), runs: z.array(z.object({ counts: z.array(count) })) }),
   }),
   pairs: z.array(ComparisonPairSchema),
+  /** Every pair's flags together (the page shows them per pair). */
   flags: z.array(z.string()),
+  /** One sentence per setting in which the runs differ (threshold, hysteresis, window, method, end time, replicates). */
+  settingsWarnings: z.array(z.string()).default([]),
   /** How the tests were done, in plain words. */
   method: z.string(),
 });

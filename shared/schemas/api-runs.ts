@@ -281,6 +281,16 @@ export const SweepPointSchema = z.object({
       passByDuration: z.record(z.string(), z.number().nullable()),
       peak: z.number().nullable(),
       fano: z.number().nullable(),
+      /** 95% intervals where the figure has one (d50: tried durations; false-pass: Wilson; delay: Kaplan-Meier, null end = not reached). */
+      intervals: z
+        .object({
+          d50: z.tuple([z.number(), z.number()]).nullable(),
+          falsePassRate: z.tuple([z.number(), z.number()]).nullable(),
+          medianDelay: z.tuple([z.number().nullable(), z.number().nullable()]).nullable(),
+        })
+        .optional(),
+      /** Why a figure has no value at this point, in words (null when it has one). */
+      reasons: z.record(z.string(), z.string().nullable()).optional(),
     })
     .nullable(),
 });
@@ -296,6 +306,8 @@ export const SweepDetailSchema = z.object({
   pointCount: z.number(),
   pointsDone: z.number(),
   replicatesPerPoint: z.number(),
+  /** The base seed of the sweep (each point derives its own from it). */
+  seed: z.string().optional(),
   createdAt: z.string(),
   finishedAt: z.string().nullable(),
   baseSpec: RunSpecSchema,

@@ -13,9 +13,14 @@
  * (pair, duration) pass tests together. A difference is "within noise" when the
  * adjusted p-values are all >= 0.05.
  *
+ * When the runs were measured with different settings (threshold, hysteresis,
+ * response window, method, end time, replicate count), `settingsWarnings`
+ * says so in words, one sentence per setting: a difference in pass or delay
+ * may then come from the settings, not from the circuits.
+ *
  * @example compareRuns([{ id: "a", name: "hold", summary, delays, widths }, { ... }]).flags
  */
-import type { Comparison, ComparisonPair, RunSummary, TwoSample } from "@/shared/schemas/analysis";
+import type { Comparison, ComparisonPair, RunSettingsBlock, RunSummary, TwoSample } from "@/shared/schemas/analysis";
 import { describe } from "@/sim/stats/describe";
 import { fisherExact } from "@/sim/stats/fisher-exact";
 import { histogram, sturgesBinCount } from "@/sim/stats/histogram";
@@ -23,6 +28,7 @@ import { holm } from "@/sim/stats/holm";
 import { ks2 } from "@/sim/stats/ks-two-sample";
 import { mannWhitney } from "@/sim/stats/mann-whitney";
 import { wasserstein1 } from "@/sim/stats/wasserstein-1";
+import { formatCount, formatProbability, formatQuantity } from "@/shared/number-format";
 
 export interface RunToCompare {
   id: string;
@@ -32,6 +38,48 @@ export interface RunToCompare {
   delays: readonly (number | null)[];
   /** Output pulse widths (minutes). */
   widths: readonly number[];
+  /** The run's settings block; when every run has one, differences are stated in settingsWarnings. */
+  settings?: RunSettingsBlock | null;
+}
+
+const sameNumber = (a: number, b: number) => Math.abs(a - b) <= 1e-9 * Math.max(1, Math.abs(a), Math.abs(b));
+
+/** One sentence per setting that differs between the runs, naming each run's value. */
+export function settingsWarnings(runs: readonly { name: string; settings?: RunSettingsBlock | null }[]): string[] {
+  if (!runs.every((r) => r.settings)) return [];
+  const list = (f: (s: RunSettingsBlock) => string) => runs.map((r) => `${r.name}: ${f(r.settings!)}`).join("; ");
+  const differs = (f: (s: RunSettingsBlock) => number | null) =>
+    runs.some((r) => {
+      const a = f(r.settings!);
+      const b = f(runs[0].settings!);
+      return a === null || b === null ? a !== b : !sameNumber(a, b);
+    });
+  const out: string[] = [];
+  if (differs((s) => s.thresholdMolecules))
+    out.push(
+      `The runs use different thresholds (${list((s) => (s.thresholdMolecules === null ? "none" : formatQuantity(s.thresholdMolecules, "molecules")))}): pass, delay and d50 are measured against different output levels.`,
+    );
+  if (differs((s) => s.hysteresis))
+    out.push(
+      `The runs use different hysteresis bands (${list((s) => formatProbability(s.hysteresis))}): output pulses and widths are cut differently.`,
+    );
+  if (differs((s) => s.windowMinutes))
+    out.push(
+      `The runs use different response windows (${list((s) => formatQuantity(s.windowMinutes, "min"))}): a late response counts as a pass in one and not in another.`,
+    );
+  if (runs.some((r) => r.settings!.method.name !== runs[0].settings!.method.name))
+    out.push(
+      `The runs were simulated by different methods (${list((s) => s.method.label)}): an approximate method can shift noise-driven figures.`,
+    );
+  if (differs((s) => s.endTimeMinutes))
+    out.push(
+      `The runs end at different times (${list((s) => formatQuantity(s.endTimeMinutes, "min"))}): they see different input pulses.`,
+    );
+  if (differs((s) => s.replicates))
+    out.push(
+      `The runs have different replicate counts (${list((s) => formatCount(s.replicates))}): their intervals differ in width for that reason alone.`,
+    );
+  return out;
 }
 
 const ALPHA = 0.05;
@@ -77,6 +125,7 @@ export function compareRuns(runs: readonly RunToCompare[]): Comparison {
     return {
       id: r.id,
       name: r.name,
+      ...(r.settings !== undefined ? { settings: r.settings } : {}),
       headline: {
         evaluable: s.counts.evaluable,
         passed: s.counts.passed,
@@ -278,5 +327,14 @@ export function compareRuns(runs: readonly RunToCompare[]): Comparison {
     "the pairs compared, separately for each test and quantity (pass tests across all pairs and durations together). " +
     "A difference is within noise when the adjusted p-values are 0.05 or more.";
 
-  return { runs: headlineRuns, durations, filterCurves, distributions, pairs, flags, method };
+  return {
+    runs: headlineRuns,
+    durations,
+    filterCurves,
+    distributions,
+    pairs,
+    flags,
+    settingsWarnings: settingsWarnings(runs),
+    method,
+  };
 }

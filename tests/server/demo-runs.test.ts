@@ -42,6 +42,16 @@ test("demo seeding queues the two demo runs and the demo sweep once; they finish
     assert.equal(sweep.status, "finished");
     const cmp = await viewer.post(`/api/labs/${t.demoLab!.id}/compare`).send({ runIds: runs.map((r) => r.id) });
     assert.equal(cmp.status, 200, JSON.stringify(cmp.body));
+    // Each run says what it was measured with; thresholds differ exactly when the resolved thetas do.
+    const settings = cmp.body.runs.map(
+      (r: { settings: { thresholdMolecules: number; method: { name: string } } }) => r.settings,
+    );
+    assert.ok(settings.every((s: { method: { name: string } }) => s.method.name === "direct"));
+    const thetas = new Set(settings.map((s: { thresholdMolecules: number }) => s.thresholdMolecules));
+    assert.equal(
+      cmp.body.settingsWarnings.some((w: string) => /different thresholds/.test(w)),
+      thetas.size > 1,
+    );
   } finally {
     await t.close();
   }

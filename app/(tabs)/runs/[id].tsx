@@ -16,6 +16,8 @@ import { AccelerationCard } from "@/components/runs/acceleration-card";
 import { RegimeCard } from "@/components/regimes/regime-card";
 import { ShareLinkCard } from "@/components/runs/share-link";
 import { ConfirmAction } from "@/components/lab/confirm-action";
+import { SettingsBlock } from "@/components/runs/settings-block";
+import { DefinitionLink } from "@/components/definitions/definition-link";
 import { useReproduceRun } from "@/components/data/bundles";
 import { LazyChart } from "@/components/charts/lazy-chart";
 import { delayHistogramSpec, filterCurveSpec, meanBandSpec, trajectoriesSpec } from "@/components/charts/specs";
@@ -90,14 +92,19 @@ function RunCharts({ runId, finished }: { runId: string; finished: boolean }) {
   const run = useRun(runId);
   const summary = runSummary(run.data);
   const specs = [
-    summary ? { key: "filter", title: "Filter curve", spec: filterCurveSpec(summary, t.colors) } : null,
+    summary
+      ? { key: "filter", title: "Filter curve", term: "filter-curve", spec: filterCurveSpec(summary, t.colors) }
+      : null,
     series.data
       ? { key: "trajectories", title: "Sample trajectories", spec: trajectoriesSpec(series.data, t.colors) }
       : null,
     series.data ? { key: "mean", title: "Mean and spread", spec: meanBandSpec(series.data, t.colors) } : null,
-    summary ? { key: "delays", title: "Response delays", spec: delayHistogramSpec(summary, t.colors) } : null,
+    summary
+      ? { key: "delays", title: "Response delays", term: "response-delay", spec: delayHistogramSpec(summary, t.colors) }
+      : null,
   ].filter(
-    (s): s is { key: string; title: string; spec: NonNullable<ReturnType<typeof trajectoriesSpec>> } => !!s && !!s.spec,
+    (s): s is { key: string; title: string; term?: string; spec: NonNullable<ReturnType<typeof trajectoriesSpec>> } =>
+      !!s && !!s.spec,
   );
   return (
     <View style={isWide ? { flexDirection: "row", flexWrap: "wrap", gap: t.spacing.lg } : { gap: t.spacing.lg }}>
@@ -107,8 +114,15 @@ function RunCharts({ runId, finished }: { runId: string; finished: boolean }) {
       {specs.map((s) => (
         <View key={s.key} style={isWide ? { width: "48%", flexGrow: 1 } : undefined}>
           <Card testID={`chart-card-${s.key}`}>
-            <Text variant="heading">{s.title}</Text>
-            <LazyChart spec={s.spec} testID={`chart-${s.key}`} />
+            <View style={{ flexDirection: "row", gap: t.spacing.sm, alignItems: "center" }}>
+              <Text variant="heading">{s.title}</Text>
+              {s.term ? <DefinitionLink term={s.term} label={s.title} /> : null}
+            </View>
+            <LazyChart
+              spec={s.spec}
+              testID={`chart-${s.key}`}
+              source={run.data ? { name: run.data.name, seed: run.data.seed } : undefined}
+            />
           </Card>
         </View>
       ))}
@@ -242,6 +256,7 @@ export default function RunDetailScreen() {
       ) : null}
       {reproduce.error ? <ErrorState title="The reproduction could not be started" error={reproduce.error} /> : null}
       <SafetyNote />
+      <SettingsBlock settings={run.settings} spec={run.spec} />
       {summary ? (
         <>
           <Text variant="heading">Headline figures</Text>

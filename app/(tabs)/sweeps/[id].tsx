@@ -11,7 +11,9 @@ import { StatusBadge, statusLabel } from "@/components/ui/status-badge";
 import { SafetyNote } from "@/components/ui/safety-note";
 import { ErrorState, LoadingState } from "@/components/ui/states";
 import { LazyChart } from "@/components/charts/lazy-chart";
-import { formatNumber, type ChartSpec } from "@/components/charts/chart-spec";
+import type { ChartSpec } from "@/components/charts/chart-spec";
+import { formatSweepFigure, sweepLineSpec } from "@/components/charts/specs";
+import { formatNumber } from "@/shared/number-format";
 import { useCancelSweep, useSweep, type SweepDetail } from "@/components/data/sweeps";
 import { useTheme } from "@/components/theme/use-theme";
 import { MIN_TOUCH } from "@/components/theme/tokens";
@@ -52,35 +54,9 @@ export default function SweepDetailScreen() {
   const active = s.status === "queued" || s.status === "running";
   const figLabel = FIGURES.find((f) => f.value === figure)!.label;
   const [ax, ay] = s.axes;
-  let chart: ChartSpec | null = null;
-  let chartEmpty = false;
-  if (s.axes.length === 1) {
-    const all = s.points.map((p) => ({ x: p.values[ax.parameter], y: figureOf(p, figure) })).sort((a, b) => a.x - b.x);
-    const rows = all.filter((r) => r.y !== null);
-    // Scale and range come from the swept grid, not from the points that have this figure, so they stay put when
-    // the figure changes and a point without a value shows as a gap at its place rather than being cut off.
-    const xs = ax.values;
-    const xMin = Math.min(...xs),
-      xMax = Math.max(...xs);
-    const logX = xs.length > 1 && xMin > 0 && xMax / xMin >= 8;
-    chartEmpty = rows.length === 0;
-    if (rows.length) {
-      chart = {
-        title: `${figLabel} over ${ax.parameter}`,
-        description: all.map((r) => `${formatNumber(r.x)}: ${formatNumber(r.y)}`).join("; "),
-        xLabel: ax.parameter,
-        yLabel: figLabel,
-        rows,
-        layers: [
-          { type: "line", key: "y", color: t.colors.series[0], width: 2 },
-          { type: "points", key: "y", color: t.colors.series[0], radius: 4 },
-        ],
-        legend: [{ label: figLabel, color: t.colors.series[0] }],
-        logX,
-        xDomain: xMax > xMin ? [xMin, xMax] : undefined,
-      };
-    }
-  }
+  const chart: ChartSpec | null =
+    s.axes.length === 1 ? sweepLineSpec(ax.parameter, ax.values, s.points, figure, figLabel, t.colors) : null;
+  const chartEmpty = s.axes.length === 1 && chart === null;
   const vals = s.points.map((p) => figureOf(p, figure)).filter((v): v is number => v !== null);
   const lo = Math.min(...vals),
     hi = Math.max(...vals);
@@ -112,7 +88,7 @@ export default function SweepDetailScreen() {
       <Choice label="Figure" value={figure} options={FIGURES} onChange={setFigure} />
       {chart ? (
         <Card>
-          <LazyChart spec={chart} testID="sweep-chart" />
+          <LazyChart spec={chart} testID="sweep-chart" source={{ name: s.name, seed: s.seed ?? null }} />
         </Card>
       ) : chartEmpty ? (
         <Card testID="sweep-chart-empty">
@@ -127,7 +103,8 @@ export default function SweepDetailScreen() {
             {figLabel}: {ax.parameter} (rows) × {ay.parameter} (columns)
           </Text>
           <Text variant="caption" tone="muted">
-            Darker is higher ({formatNumber(lo)} to {formatNumber(hi)}). Tap a cell to open its run.
+            Darker is higher ({formatSweepFigure(figure, lo)} to {formatSweepFigure(figure, hi)}). A dash is a point
+            without a value. Tap a cell to open its run.
           </Text>
           {ax.values.map((xv, i) => (
             <View key={i} style={{ flexDirection: "row", gap: 2, alignItems: "center" }}>
@@ -141,7 +118,11 @@ export default function SweepDetailScreen() {
                   <Pressable
                     key={j}
                     role="link"
-                    accessibilityLabel={`${ax.parameter} ${formatNumber(xv)}, ${ay.parameter} ${formatNumber(yv)}: ${formatNumber(v)}`}
+                    accessibilityLabel={`${ax.parameter} ${formatNumber(xv)}, ${ay.parameter} ${formatNumber(yv)}: ${
+                      v === null
+                        ? `no value (${p?.figures?.reasons?.[figure] ?? (p?.figures ? "not estimable" : "no results yet")})`
+                        : formatSweepFigure(figure, v)
+                    }`}
                     onPress={() => p && router.push(`/runs/${p.runId}`)}
                     style={{
                       flex: 1,
@@ -173,7 +154,10 @@ export default function SweepDetailScreen() {
                 .join(", ")}
             </Text>
             <Text variant="caption" tone="muted">
-              {statusLabel(p.status)} · {figLabel}: {formatNumber(figureOf(p, figure))}
+              {statusLabel(p.status)} · {figLabel}:{" "}
+              {figureOf(p, figure) === null && p.figures
+                ? `no value (${p.figures.reasons?.[figure] ?? "not estimable"})`
+                : formatSweepFigure(figure, figureOf(p, figure))}
             </Text>
           </Card>
         ))}
