@@ -83,10 +83,12 @@ export const traceRoutes = defineRoutes([
     access: { kind: "object", resource: "traceSet", role: "editor" },
     body: TraceSetPatchSchema,
     summary: "Rename, or change preprocessing and threshold settings (figures are recomputed).",
-    handler: ({ ctx, params, body, user }) => {
-      updateTraceSet(ctx, user!.id, params.id, body);
-      return traceSetDetail(ctx, params.id);
-    },
+    // One transaction: if the figures cannot be recomputed the answer is an error and nothing is kept.
+    handler: ({ ctx, params, body, user }) =>
+      ctx.sqlite.transaction(() => {
+        updateTraceSet(ctx, user!.id, params.id, body);
+        return traceSetDetail(ctx, params.id);
+      })(),
   },
   ...deleteRestoreRoutes({
     resource: "traceSet",
