@@ -17,6 +17,8 @@ import { formatNumber } from "@/shared/number-format";
 import { useCancelSweep, useSweep, type SweepDetail } from "@/components/data/sweeps";
 import { useTheme } from "@/components/theme/use-theme";
 import { MIN_TOUCH } from "@/components/theme/tokens";
+import { useBreakpoints } from "@/components/theme/use-breakpoints";
+import { RegimeMaps } from "@/components/sweeps/regime-map";
 
 type Figure = "d50" | "falsePassRate" | "medianDelay" | "peak" | "fano";
 const FIGURES: { value: Figure; label: string }[] = [
@@ -38,6 +40,7 @@ export default function SweepDetailScreen() {
   const q = useSweep(id);
   const cancel = useCancelSweep();
   const [figure, setFigure] = useState<Figure>("d50");
+  const bp = useBreakpoints();
   if (q.isPending)
     return (
       <Screen title="Sweep">
@@ -85,6 +88,9 @@ export default function SweepDetailScreen() {
         </Text>
       </Card>
       <SafetyNote />
+      <Card>
+        <RegimeMaps sweep={s} wide={bp.isWide} />
+      </Card>
       <Choice label="Figure" value={figure} options={FIGURES} onChange={setFigure} />
       {chart ? (
         <Card>
