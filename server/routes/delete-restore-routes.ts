@@ -9,6 +9,7 @@
  */
 import type { AppContext } from "@/server/context";
 import { API_LIMITS } from "@/shared/limits";
+import { recordAudit } from "@/server/services/audit.service";
 import type { RouteDef } from "./route-table";
 
 type Resource = "run" | "sweep" | "traceSet";
@@ -21,8 +22,10 @@ export interface DeleteRestoreSpec {
   noun: string;
   /** What is hidden with it, for the docs (e.g. "and hide its points"). */
   alsoHides?: string;
-  remove: (ctx: AppContext, id: string, userId: string, labId: string) => void;
-  restore: (ctx: AppContext, id: string, userId: string, labId: string) => unknown;
+  /** The audit trail's prefix ("run" records run.deleted and run.restored); leave out when the service audits. */
+  audit?: "run" | "sweep";
+  remove: (ctx: AppContext, id: string, userId: string) => void;
+  restore: (ctx: AppContext, id: string, userId: string) => unknown;
 }
 
 export function deleteRestoreRoutes(spec: DeleteRestoreSpec): RouteDef[] {
@@ -35,7 +38,15 @@ export function deleteRestoreRoutes(spec: DeleteRestoreSpec): RouteDef[] {
       access,
       summary: `Delete a ${spec.noun}${spec.alsoHides ? ` ${spec.alsoHides}` : ""}; it can be restored for ${days} days, then it is purged. Every other route answers 404 for it meanwhile; 409 when already deleted.`,
       handler: ({ ctx, params, user, labId }) => {
-        spec.remove(ctx, params.id, user!.id, labId!);
+        spec.remove(ctx, params.id, user!.id);
+        if (spec.audit)
+          recordAudit(ctx, {
+            labId,
+            userId: user!.id,
+            action: `${spec.audit}.deleted`,
+            targetType: spec.audit,
+            targetId: params.id,
+          });
         return { deleted: true, undo: `/api${spec.path.replace(":id", params.id)}/restore` };
       },
     },
@@ -44,7 +55,18 @@ export function deleteRestoreRoutes(spec: DeleteRestoreSpec): RouteDef[] {
       path: `${spec.path}/restore`,
       access,
       summary: `Undo a ${spec.noun} delete (within ${days} days). 409 when it is not deleted.`,
-      handler: ({ ctx, params, user, labId }) => spec.restore(ctx, params.id, user!.id, labId!),
+      handler: ({ ctx, params, user, labId }) => {
+        const answer = spec.restore(ctx, params.id, user!.id);
+        if (spec.audit)
+          recordAudit(ctx, {
+            labId,
+            userId: user!.id,
+            action: `${spec.audit}.restored`,
+            targetType: spec.audit,
+            targetId: params.id,
+          });
+        return answer;
+      },
     },
   ];
 }

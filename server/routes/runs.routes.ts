@@ -225,13 +225,10 @@ export const runRoutes = defineRoutes([
     resource: "run",
     path: "/runs/:id",
     noun: "run",
-    remove: (ctx, id, userId, labId) => {
-      runs.softDelete(ctx, id);
-      recordAudit(ctx, { labId, userId, action: "run.deleted", targetType: "run", targetId: id });
-    },
-    restore: (ctx, id, userId, labId) => {
+    audit: "run",
+    remove: (ctx, id) => runs.softDelete(ctx, id),
+    restore: (ctx, id) => {
       runs.restore(ctx, id);
-      recordAudit(ctx, { labId, userId, action: "run.restored", targetType: "run", targetId: id });
       return runs.runDetail(ctx, id);
     },
   }),

@@ -72,13 +72,10 @@ export const sweepRoutes = defineRoutes([
     path: "/sweeps/:id",
     noun: "sweep",
     alsoHides: "and hide its points",
-    remove: (ctx, id, userId, labId) => {
-      sweeps.deleteSweep(ctx, id);
-      recordAudit(ctx, { labId, userId, action: "sweep.deleted", targetType: "sweep", targetId: id });
-    },
-    restore: (ctx, id, userId, labId) => {
+    audit: "sweep",
+    remove: (ctx, id) => sweeps.deleteSweep(ctx, id),
+    restore: (ctx, id) => {
       sweeps.restoreSweep(ctx, id);
-      recordAudit(ctx, { labId, userId, action: "sweep.restored", targetType: "sweep", targetId: id });
       return sweeps.sweepDetail(ctx, id);
     },
   }),

@@ -65,10 +65,10 @@ export function recordAudit(ctx: Pick<AppContext, "db">, e: AuditInput): void {
     .run();
 }
 
-/** The events about one object (e.g. a run: launched, resumed after a crash, cancelled), oldest first. */
-export function objectHistory(ctx: Pick<AppContext, "db">, targetType: string, targetId: string): AuditEvent[] {
+/** Audit events with the acting user's display name, ready for a where clause. */
+function eventsWithNames(ctx: Pick<AppContext, "db">) {
   const a = schema.auditEvents;
-  const rows = ctx.db
+  return ctx.db
     .select({
       id: a.id,
       labId: a.labId,
@@ -81,7 +81,13 @@ export function objectHistory(ctx: Pick<AppContext, "db">, targetType: string, t
       at: a.at,
     })
     .from(a)
-    .leftJoin(schema.users, eq(schema.users.id, a.userId))
+    .leftJoin(schema.users, eq(schema.users.id, a.userId));
+}
+
+/** The events about one object (e.g. a run: launched, resumed after a crash, cancelled), oldest first. */
+export function objectHistory(ctx: Pick<AppContext, "db">, targetType: string, targetId: string): AuditEvent[] {
+  const a = schema.auditEvents;
+  const rows = eventsWithNames(ctx)
     .where(and(eq(a.targetType, targetType), eq(a.targetId, targetId)))
     .orderBy(asc(a.id))
     .limit(200)
@@ -96,20 +102,7 @@ export function listAudit(
   opts: { limit?: number; beforeId?: number } = {},
 ): AuditEvent[] {
   const a = schema.auditEvents;
-  const rows = ctx.db
-    .select({
-      id: a.id,
-      labId: a.labId,
-      userId: a.userId,
-      userName: schema.users.displayName,
-      action: a.action,
-      targetType: a.targetType,
-      targetId: a.targetId,
-      detail: a.detail,
-      at: a.at,
-    })
-    .from(a)
-    .leftJoin(schema.users, eq(schema.users.id, a.userId))
+  const rows = eventsWithNames(ctx)
     .where(opts.beforeId ? and(eq(a.labId, labId), lt(a.id, opts.beforeId)) : eq(a.labId, labId))
     .orderBy(desc(a.id))
     .limit(Math.min(Math.max(opts.limit ?? 100, 1), 500))

@@ -6,21 +6,13 @@
  */
 import { test } from "node:test";
 import assert from "node:assert/strict";
-import { existsSync, readdirSync, readFileSync, statSync } from "node:fs";
+import { existsSync, readFileSync, statSync } from "node:fs";
 import { dirname, join, relative, resolve } from "node:path";
 import ts from "typescript";
+import { sourceFiles } from "@/tests/helpers/source-files";
 
 const ROOT = resolve(__dirname, "../..");
 const TOPS = ["server", "sim", "shared", "db"];
-
-function sourceFiles(dir: string, out: string[] = []): string[] {
-  for (const name of readdirSync(dir).sort()) {
-    const p = join(dir, name);
-    if (statSync(p).isDirectory()) sourceFiles(p, out);
-    else if (/\.tsx?$/.test(name)) out.push(p);
-  }
-  return out;
-}
 
 /** The repo file an import names, or null for a package. */
 function resolveImport(from: string, spec: string): string | null {

@@ -7,24 +7,16 @@
  */
 import { test } from "node:test";
 import assert from "node:assert/strict";
-import { readdirSync, readFileSync, statSync } from "node:fs";
+import { readFileSync } from "node:fs";
 import { dirname, join, relative, resolve, sep } from "node:path";
 import ts from "typescript";
+import { sourceFiles } from "@/tests/helpers/source-files";
 
 const ROOT = resolve(__dirname, "../..");
 const SIM = join(ROOT, "sim");
 
 /** npm packages sim/ may use: parsers and numerics with no I/O of their own. */
 const PURE_PACKAGES = new Set(["papaparse", "seedrandom", "simple-statistics", "fast-xml-parser", "mathjs", "zod"]);
-
-function sourceFiles(dir: string, out: string[] = []): string[] {
-  for (const name of readdirSync(dir).sort()) {
-    const p = join(dir, name);
-    if (statSync(p).isDirectory()) sourceFiles(p, out);
-    else if (/\.tsx?$/.test(name)) out.push(p);
-  }
-  return out;
-}
 
 /** Where an import lands: a folder of the repo for local paths, the package name otherwise. */
 function target(file: string, spec: string): { local: string } | { pkg: string } {
