@@ -1,6 +1,7 @@
 /**
  * npm run bench [-- --json] [--threads N] [--replicates N] [--no-e2e] [--e2e-replicates N]
  *                 [--no-compare] [--repetitions N] [--js-reference] [--with-100k]
+ *                 [--no-redis] [--redis-replicates N]
  * Without --threads: measures 1 thread and the pool (all cores). With --json the
  * last line is one JSON object: the last measurement's
  * {model, replicates, events, seconds, eventsPerSecond, threads}, plus, when
@@ -15,10 +16,15 @@
  * and 10,000 replicates; 100,000 with --with-100k) and `sizeScaling` (generated
  * cascades of 5, 20 and 50 species against the benchmark circuit), printed as a
  * table of ratios.
+ * Unless --no-redis (scripts/bench-redis.ts): `distributed`, the same 10,000-replicate
+ * run embedded (1 and 2 threads) and through a local redis-server with 1 and 2
+ * worker processes: ratios and the per-chunk queue overhead (skipped when
+ * redis-server is not installed).
  */
 import { runEngineBench, type EngineBenchResult } from "./bench-engine";
 import { runEndToEndBench } from "./bench-e2e";
 import { compareWithReference, replicateScaling, sizeScaling } from "./bench-compare";
+import { formatRedisBench, runRedisBench } from "./bench-redis";
 import { loadSpecFile } from "@/server/cli/load-spec";
 import { DEFAULT_BENCH_SPEC } from "./bench-engine";
 
@@ -108,6 +114,12 @@ async function main() {
           `| ${r.label} | ${r.species} | ${r.reactions} | ${Math.round(r.events / r.replicates)} | ${f(r.microsecondsPerReplicate, 0)} | ${f(r.eventsPerSecondRatio!)}x |`,
         );
     }
+  }
+  if (!argv.includes("--no-redis")) {
+    const dist = await runRedisBench({ replicates: num("--redis-replicates") ?? 10_000 });
+    out.distributed = dist;
+    if (!json)
+      console.log("\n" + ("skipped" in dist ? `Distributed mode skipped: ${dist.skipped}` : formatRedisBench(dist)));
   }
   if (json) console.log(JSON.stringify(out));
   else if (results.length > 1)
