@@ -178,6 +178,19 @@ export function useComparison(runIds: string[]) {
   });
 }
 
-export function exportUrl(id: string, file: "replicates.csv" | "aggregates.csv" | "summary.json" | "bundle.json"): string {
+/** The run's downloads (server/routes/runs.routes.ts); datapackage.json is the data dictionary of the CSVs. */
+export const RUN_EXPORTS = [
+  "pulses.csv",
+  "output-pulses.csv",
+  "replicates.csv",
+  "aggregates.csv",
+  "headline.csv",
+  "datapackage.json",
+  "summary.json",
+  "bundle.json",
+] as const;
+export type RunExportFile = (typeof RUN_EXPORTS)[number];
+
+export function exportUrl(id: string, file: RunExportFile): string {
   return apiUrl(`/api/runs/${id}/export/${file}`);
 }

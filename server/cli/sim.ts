@@ -6,20 +6,24 @@
  * A spec file is JSON (docs/runs.md) or an SBML model (docs/sbml.md, detected by
  * content). --end-time and --grid-step are minutes, required for SBML and
  * overriding a spec's values. A run without an input program writes
- * "no input pulses" in pulses.csv and analysis.json.
+ * "no input pulses" in analysis.json and datapackage.json (pulses.csv then has its header only).
  *
  * Runs a spec and writes flat files in <dir> (created if missing):
  *   summary.json          engine version, spec, threshold, totals, statsHash (as the server stores it),
  *                         per-duration pass figures;
  *                         only its "timing" field varies between identical runs
- *   analysis.json         the noise-filter figures (RunSummary of docs/metrics.md)
- *   grid-mean.csv         time, then mean and SD of every species per grid time
- *   grid-replicates.csv   replicate, time, every species (all replicates)
+ *   analysis.json         the noise-filter figures (RunSummary of docs/metrics.md) with the settings block
+ *   datapackage.json      the data dictionary: every CSV below, every column with type, unit and meaning,
+ *                         the settings block and method label (Frictionless Data Package)
+ *   grid-mean.csv         time, then mean_<species> and sd_<species> per grid time (fixed columns)
+ *   grid-replicates.csv   replicate, time_min, every species (all replicates)
  *   replicates.csv        per replicate: events, capped, end time, output mean/variance, extrinsic factors
  *   pulses.csv            per replicate and input pulse: the figures of docs/metrics.md
- *   ode.csv               the mean-field solution on the grid
+ *   output-pulses.csv     per output pulse: its width and the input pulse it started in
+ *   ode.csv               time_min, the mean-field solution on the grid
  *   regime.json           behaviour labels, deterministic and stochastic, with evidence (docs/regimes.md)
- *   events-<r>.csv        every firing of replicate r (when recordEventsFor > 0)
+ *   events-<r>.csv        every firing of replicate r (when recordEventsFor > 0), and
+ *   events-<r>-initial.csv its state at time 0
  * Same spec and seed give byte-identical files for any --threads (aggregates
  * are reduced in replicate/chunk order). The I/O shell of the engine: the rest
  * of sim/ stays pure.
@@ -38,7 +42,9 @@ import {
 } from "@/sim";
 import type { PulseStat } from "@/shared/schemas/run-spec";
 import { createSimPool } from "@/server/compute/pool";
-import { finaliseRun, type ReplicateTotals } from "@/sim/analysis";
+import { finaliseRun, outputPulsesCsv, pulseStatsCsv, runSettingsBlock, type ReplicateTotals } from "@/sim/analysis";
+import { csvCell } from "@/shared/csv-cell";
+import { cliDataPackage, factorColumn } from "./cli-dictionary";
 import { runAllChunks } from "@/server/compute/run-all-chunks";
 import { exportSbml } from "@/sim/sbml";
 import { gridSeries, statsHashInMemory } from "@/server/compute/run-store";
@@ -151,18 +157,17 @@ export async function runCli(argv: string[]): Promise<void> {
   const gridCsv = createWriteStream(path.join(args.out, "grid-replicates.csv"));
   const repCsv = createWriteStream(path.join(args.out, "replicates.csv"));
   const pulseCsv = createWriteStream(path.join(args.out, "pulses.csv"));
+  const widthCsv = createWriteStream(path.join(args.out, "output-pulses.csv"));
   const factorRefs = spec.extrinsic.map((v) => v.parameter);
-  await write(gridCsv, `replicate,time,${species.join(",")}\n`);
+  const factorColumns = factorRefs.map(factorColumn);
+  await write(gridCsv, `replicate,time_min,${species.join(",")}\n`);
   await write(
     repCsv,
-    `replicate,events,capped,endTime,outputMean,outputVar${factorRefs.map((r) => `,"factor ${r}"`).join("")}\n`,
+    `replicate,events,capped,end_time_min,output_mean_molecules,output_variance_molecules2${factorColumns.map((c) => `,${c}`).join("")}\n`,
   );
-  if (noInput) await write(pulseCsv, "note\nno input pulses\n");
-  else
-    await write(
-      pulseCsv,
-      "replicate,pulseIndex,on,off,durationBin,excluded,passed,delay,offDelay,widths,peak,timeToPeak,fwhm,baseline\n",
-    );
+  // Header only when there are no input pulses: the table's shape does not change (the dictionary says why it is empty).
+  await write(pulseCsv, pulseStatsCsv([]));
+  await write(widthCsv, outputPulsesCsv([]));
   const partials: GridPartial[] = [];
   const byBin = new Map<
     number,
@@ -172,6 +177,7 @@ export async function runCli(argv: string[]): Promise<void> {
   let events = 0;
   const allPulses: PulseStat[] = [];
   const allReplicates: ReplicateTotals[] = [];
+  const recordedReplicates: number[] = [];
 
   const onChunk = async (r: ChunkResult) => {
     partials.push({ gridSum: r.gridSum, gridSumSq: r.gridSumSq, gridCount: r.gridCount });
@@ -198,10 +204,9 @@ export async function runCli(argv: string[]): Promise<void> {
       s += `${rep.replicate},${rep.events},${rep.capped},${rep.endTime},${fmt(rep.outputMean)},${fmt(rep.outputVar)}${factorRefs.map((f) => `,${fmt(rep.factors[f])}`).join("")}\n`;
     }
     await write(repCsv, s);
-    s = "";
-    for (const p of r.pulses as PulseStat[]) {
+    const chunkPulses = r.pulses as PulseStat[];
+    for (const p of chunkPulses) {
       allPulses.push(p);
-      s += `${p.replicate},${p.pulseIndex},${p.on},${p.off},${p.durationBin},${p.excluded},${p.passed},${fmt(p.delay)},${fmt(p.offDelay)},"${p.widths.join(";")}",${p.peak},${p.timeToPeak},${fmt(p.fwhm)},${p.baseline}\n`;
       const b = byBin.get(p.durationBin) ?? { pulses: 0, excluded: 0, passed: 0, delaySum: 0, delays: 0 };
       b.pulses++;
       if (p.excluded) b.excluded++;
@@ -214,12 +219,19 @@ export async function runCli(argv: string[]): Promise<void> {
       }
       byBin.set(p.durationBin, b);
     }
-    if (!noInput) await write(pulseCsv, s);
+    if (!noInput) {
+      await write(pulseCsv, pulseStatsCsv(chunkPulses, false));
+      await write(widthCsv, outputPulsesCsv(chunkPulses, false));
+    }
     for (const e of r.recordedEvents ?? []) {
       const names = setup.model.reactions.map((x) => x.name);
-      let es = `time,reaction\n0,initial:${species.map((n, i) => `${n}=${e.initial[i]}`).join(";")}\n`;
-      for (let k = 0; k < e.times.length; k++) es += `${e.times[k]},${names[e.reactions[k]]}\n`;
+      let es = "time_min,reaction\n";
+      for (let k = 0; k < e.times.length; k++) es += `${e.times[k]},${csvCell(names[e.reactions[k]])}\n`;
       writeFileSync(path.join(args.out, `events-${e.replicate}.csv`), es);
+      let init = "species,count\n";
+      species.forEach((n, i) => (init += `${csvCell(n)},${e.initial[i]}\n`));
+      writeFileSync(path.join(args.out, `events-${e.replicate}-initial.csv`), init);
+      recordedReplicates.push(e.replicate);
     }
   };
 
@@ -234,7 +246,7 @@ export async function runCli(argv: string[]): Promise<void> {
   } finally {
     await pool?.destroy();
   }
-  await Promise.all([close(gridCsv), close(repCsv), close(pulseCsv)]);
+  await Promise.all([close(gridCsv), close(repCsv), close(pulseCsv), close(widthCsv)]);
   const seconds = (performance.now() - t0) / 1000;
 
   const { mean, sd } = reduceChunks(spec, partials);
@@ -258,15 +270,18 @@ export async function runCli(argv: string[]): Promise<void> {
     threshold,
   });
   if (ode) {
-    let odeCsv = `time,${species.join(",")}\n`;
+    let odeCsv = `time_min,${species.join(",")}\n`;
     for (let g = 0; g < ng; g++) odeCsv += `${grid[g]}${species.map((_, i) => `,${ode[i * ng + g]}`).join("")}\n`;
     writeFileSync(path.join(args.out, "ode.csv"), odeCsv);
   }
 
   const bins = [...byBin.entries()].sort((a, b) => a[0] - b[0]);
+  const settings = runSettingsBlock(spec, threshold);
   const summary = {
     engineVersion: ENGINE_VERSION,
     method: spec.method === "tauLeap" ? "tauLeap (approximate)" : "direct (exact)",
+    methodLabel: settings.method,
+    settings,
     circuit: spec.circuit.name,
     replicates: spec.replicates,
     seed: spec.seed,
@@ -290,8 +305,10 @@ export async function runCli(argv: string[]): Promise<void> {
       "grid-replicates.csv",
       "replicates.csv",
       "pulses.csv",
+      "output-pulses.csv",
       ...(ode ? ["ode.csv"] : []),
       "regime.json",
+      "datapackage.json",
     ],
     ...(odeNote ? { odeNote: `no ode.csv: the mean-field model could not be solved (${odeNote})` } : {}),
     spec,
@@ -308,6 +325,16 @@ export async function runCli(argv: string[]): Promise<void> {
     JSON.stringify(noInput ? { note: "no input pulses", ...analysis } : analysis, null, 2) + "\n",
   );
   writeFileSync(path.join(args.out, "regime.json"), JSON.stringify(regime, null, 2) + "\n");
+  const dictionary = cliDataPackage({
+    title: spec.circuit.name,
+    settings,
+    species,
+    factors: factorRefs.map((ref, i) => ({ ref, column: factorColumns[i] })),
+    recordedReplicates,
+    noInput,
+    hasOde: ode !== null,
+  });
+  writeFileSync(path.join(args.out, "datapackage.json"), JSON.stringify(dictionary, null, 2) + "\n");
   if (!args.quiet)
     process.stderr.write(
       `${spec.replicates} replicates, ${events} events in ${seconds.toFixed(2)} s${capped > 0 ? `, ${capped} stopped at the event cap` : ""}; wrote ${args.out}\n`,

@@ -16,7 +16,15 @@ import {
 import * as runs from "@/server/services/runs.service";
 import * as bundles from "@/server/services/bundles.service";
 import { accelerationFor, compareLabRuns, createMatchedControl } from "@/server/services/analysis.service";
-import { byDurationCsv, pulseStatsCsv, replicateStatsCsv, summaryCsv } from "@/sim/analysis";
+import {
+  byDurationCsv,
+  outputPulsesCsv,
+  pulseStatsCsv,
+  replicateStatsCsv,
+  runDataPackage,
+  RUN_EXPORT_FILES,
+  summaryCsv,
+} from "@/sim/analysis";
 import { readPulseStats, readReplicateRows } from "@/server/compute/run-store";
 import { conflict } from "@/server/http-error";
 import { recordAudit } from "@/server/services/audit.service";
@@ -248,15 +256,27 @@ export const runRoutes = defineRoutes([
     summary: "Per-replicate, per-pulse statistics, sorted and paged.",
     handler: ({ ctx, params, query }) => runs.replicatePage(ctx, params.id, query),
   },
-  exportRoute("replicates.csv", "CSV of every (replicate, input pulse) row.", (ctx, row) => ({
-    suffix: "pulses.csv",
-    text: pulseStatsCsv(readPulseStats(ctx.db, row.id)),
-  })),
   exportRoute(
-    "replicate-totals.csv",
-    "CSV of per-replicate totals: events, cap, output mean and variance, pass fraction, median delay and width.",
+    RUN_EXPORT_FILES.pulses,
+    "CSV, one row per (replicate, input pulse): pass, delays, peak, width count.",
     (ctx, row) => ({
-      suffix: "replicates.csv",
+      suffix: RUN_EXPORT_FILES.pulses,
+      text: pulseStatsCsv(readPulseStats(ctx.db, row.id)),
+    }),
+  ),
+  exportRoute(
+    RUN_EXPORT_FILES.outputPulses,
+    "CSV, one row per output pulse: its width and the input pulse it belongs to.",
+    (ctx, row) => ({
+      suffix: RUN_EXPORT_FILES.outputPulses,
+      text: outputPulsesCsv(readPulseStats(ctx.db, row.id)),
+    }),
+  ),
+  exportRoute(
+    RUN_EXPORT_FILES.replicates,
+    "CSV, one row per replicate: events, cap, output mean and variance, pass fraction, median delay and width.",
+    (ctx, row) => ({
+      suffix: RUN_EXPORT_FILES.replicates,
       text: replicateStatsCsv(
         readPulseStats(ctx.db, row.id),
         readReplicateRows(ctx.db, row.id).map((r) => ({
@@ -269,16 +289,40 @@ export const runRoutes = defineRoutes([
       ),
     }),
   ),
-  exportRoute("aggregates.csv", "CSV of the aggregates per input pulse duration.", (_ctx, row) => ({
-    suffix: "aggregates.csv",
-    text: byDurationCsv(finishedSummary(row)),
-  })),
   exportRoute(
-    "headline.csv",
-    "CSV of the run's headline figures (threshold, d50, false-pass rate, delays, noise).",
-    (_ctx, row) => ({ suffix: "headline.csv", text: summaryCsv(finishedSummary(row)) }),
+    RUN_EXPORT_FILES.aggregates,
+    "CSV, one row per input pulse duration: filter curve and delays.",
+    (_ctx, row) => ({
+      suffix: RUN_EXPORT_FILES.aggregates,
+      text: byDurationCsv(finishedSummary(row)),
+    }),
   ),
-  exportRoute("summary.json", "The JSON summary of the run.", (ctx, row) => {
+  exportRoute(
+    RUN_EXPORT_FILES.headline,
+    "CSV of the run's headline figures as (metric, value, unit) rows: d50, false-pass rate, delays, noise.",
+    (_ctx, row) => ({ suffix: RUN_EXPORT_FILES.headline, text: summaryCsv(finishedSummary(row)) }),
+  ),
+  exportRoute(
+    "datapackage.json",
+    "The data dictionary of the CSV exports (Frictionless Data Package, Table Schema): every column with its unit, the settings block and method label.",
+    (ctx, row) => {
+      const d = runs.runDetail(ctx, row.id);
+      return {
+        suffix: "datapackage.json",
+        text: JSON.stringify(
+          runDataPackage({
+            title: d.name,
+            filePrefix: csvName(d.name),
+            settings: d.settings,
+            extra: { runId: d.id, engineVersion: d.engineVersion, statsHash: d.statsHash },
+          }),
+          null,
+          2,
+        ),
+      };
+    },
+  ),
+  exportRoute("summary.json", "The JSON summary of the run, with its settings block and method label.", (ctx, row) => {
     const d = runs.runDetail(ctx, row.id);
     return {
       suffix: "summary.json",
@@ -289,6 +333,8 @@ export const runRoutes = defineRoutes([
           status: d.status,
           seed: d.seed,
           engineVersion: d.engineVersion,
+          settings: d.settings,
+          method: d.settings?.method ?? null,
           threshold: d.threshold,
           summary: d.summary,
         },

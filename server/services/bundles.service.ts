@@ -10,7 +10,8 @@ import { BUNDLE_FORMAT, RunBundleSchema, type RunBundle } from "@/shared/schemas
 import type { RunSpec } from "@/shared/schemas/run-spec";
 import { validateCircuit } from "@/sim";
 import { badRequest, parseOr400 } from "@/server/http-error";
-import { checkLimits, distinctRunName, getRunRow, insertRun } from "./runs.service";
+import { checkLimits, distinctRunName, getRunRow, insertRun, runDetail } from "./runs.service";
+import { methodLabel } from "@/sim/analysis/method-label";
 import { firstDifference } from "@/server/compute/run-store";
 
 export function makeBundle(ctx: AppContext, runId: string): RunBundle {
@@ -26,6 +27,8 @@ export function makeBundle(ctx: AppContext, runId: string): RunBundle {
     statsHash: row.statsHash,
     status: row.status,
     source: { runId: row.id, lab: lab?.name ?? "", exportedAt: new Date().toISOString() },
+    settings: runDetail(ctx, runId).settings,
+    method: methodLabel((row.spec as RunSpec).method ?? "direct"),
   };
 }
 

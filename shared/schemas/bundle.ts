@@ -4,6 +4,7 @@
  */
 import { z } from "zod";
 import { RunSpecSchema } from "./run-spec";
+import { MethodLabelSchema, RunSettingsBlockSchema } from "./analysis";
 
 export const BUNDLE_FORMAT = "linger-run-bundle";
 
@@ -18,5 +19,11 @@ export const RunBundleSchema = z.object({
   statsHash: z.string().nullable(),
   status: z.string(),
   source: z.object({ runId: z.string(), lab: z.string(), exportedAt: z.string() }),
+  /**
+   * For people reading the bundle: the settings block (resolved threshold, window, method...) and the method
+   * label. Informative only: an import reproduces from `spec`, never from these.
+   */
+  settings: RunSettingsBlockSchema.nullable().optional(),
+  method: MethodLabelSchema.optional(),
 });
 export type RunBundle = z.infer<typeof RunBundleSchema>;

@@ -7,7 +7,26 @@ export { finaliseRun, type FinaliseRunInput, type FinalisedRun } from "./finalis
 export { evaluablePulses, delaysOf, widthsOf, windowEnds } from "./pulse-selection";
 export { ks2, wasserstein1, wilson } from "@/sim/stats";
 export { compareRuns, type RunToCompare } from "./compare-runs";
-export { pulseStatsCsv, replicateStatsCsv, byDurationCsv, summaryCsv } from "./csv-export";
+export {
+  pulseStatsCsv,
+  outputPulsesCsv,
+  replicateStatsCsv,
+  byDurationCsv,
+  summaryCsv,
+  headlineRows,
+  HEADLINE_METRICS,
+} from "./csv-export";
+export {
+  runDataPackage,
+  tableResource,
+  field,
+  packageName,
+  RUN_EXPORT_FILES,
+  EXPORT_CONVENTIONS,
+  type DataPackage,
+  type TableField,
+  type TableResource,
+} from "./export-dictionary";
 export { makeMatchedControl, outputSteadyStates, type MatchedControlLevels } from "./matched-control";
 export { halfRiseTime, accelerationFigures } from "./acceleration";
 export { normalizeDuration, durationNormalizer } from "./normalize-duration";

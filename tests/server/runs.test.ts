@@ -4,6 +4,7 @@ import { eq } from "drizzle-orm";
 import { makeTestContext, signIn } from "@/tests/helpers/test-app";
 import { launchBody, realQueue, waitForRun } from "@/tests/helpers/run-helpers";
 import { schema } from "@/db/client";
+import { checkCsvAgainstResource } from "@/tests/helpers/check-export";
 import { ReplicatePageSchema, RunDetailSchema, RunListItemSchema, RunSeriesSchema } from "@/shared/schemas/api-runs";
 
 describe("runs through the real queue and pool", () => {
@@ -41,11 +42,24 @@ describe("runs through the real queue and pool", () => {
       ReplicatePageSchema.parse(page.body);
       assert.equal(page.body.total, 300);
       assert.equal(page.body.rows.length, 10);
-      const csv = await editor.get(`/api/runs/${r.body.id}/export/replicates.csv`);
-      assert.equal(csv.status, 200);
-      assert.equal(csv.text.trim().split("\n").length, 301);
-      const agg = await editor.get(`/api/runs/${r.body.id}/export/aggregates.csv`);
-      assert.match(agg.text, /^duration,pulses,passed,passProbability/);
+      // exports: download names match contents, every CSV loads as its data dictionary says
+      const pkg = await editor.get(`/api/runs/${r.body.id}/export/datapackage.json`).expect(200);
+      assert.equal(pkg.body.settings.replicates, 150);
+      assert.equal(pkg.body.method.accuracy, "exact");
+      for (const file of ["pulses", "output-pulses", "replicates", "aggregates", "headline"]) {
+        const res = await editor.get(`/api/runs/${r.body.id}/export/${file}.csv`).expect(200);
+        const name = /filename="([^"]+)"/.exec(res.headers["content-disposition"])![1];
+        const entry = pkg.body.resources.find((x: any) => x.path === name);
+        assert.ok(entry, `${name} is listed in datapackage.json`);
+        assert.ok(name.endsWith(`-${file}.csv`), name);
+        const rows = checkCsvAgainstResource(res.text, entry);
+        if (file === "pulses") assert.equal(rows.length, 300);
+        if (file === "replicates") assert.equal(rows.length, 150);
+      }
+      const sj = await editor.get(`/api/runs/${r.body.id}/export/summary.json`).expect(200);
+      assert.equal(JSON.parse(sj.text).settings.seed, done.seed);
+      assert.equal(done.settings.thresholdSource, "default");
+      assert.equal(done.summary.settings.method.accuracy, "exact");
       // the run list shows it with headline figures
       const list = await editor.get(`/api/labs/${labId}/runs`);
       assert.equal(list.body[0].id, r.body.id);

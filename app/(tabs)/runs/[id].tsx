@@ -25,6 +25,7 @@ import { formatNumber } from "@/components/charts/chart-spec";
 import {
   ACTIVE_STATUSES,
   exportUrl,
+  RUN_EXPORTS,
   runSummary,
   useArchiveRun,
   useCancelRun,
@@ -284,7 +285,7 @@ export default function RunDetailScreen() {
         <Card>
           <Text variant="heading">Export</Text>
           <View style={{ flexDirection: "row", flexWrap: "wrap", gap: t.spacing.sm }}>
-            {(["replicates.csv", "aggregates.csv", "summary.json", "bundle.json"] as const).map((f) => (
+            {RUN_EXPORTS.map((f) => (
               <Button
                 key={f}
                 label={`Download ${f}`}

@@ -193,22 +193,22 @@ describe("CSV exports", () => {
   test("parse back with the same rows and empty cells for nulls", () => {
     const per = Papa.parse<Record<string, string>>(pulseStatsCsv(pulses), { header: true, skipEmptyLines: true }).data;
     assert.equal(per.length, pulses.length);
-    assert.equal(per[0].delay, "");
+    assert.equal(per[0].delay_min, "");
     const reps = Papa.parse<Record<string, string>>(replicateStatsCsv(pulses, replicates), {
       header: true,
       skipEmptyLines: true,
     }).data;
     assert.equal(reps.length, 20);
-    assert.equal(Number(reps[3].excluded), 1);
+    assert.equal(Number(reps[3].excluded_pulses), 1);
     const agg = Papa.parse<Record<string, string>>(byDurationCsv(s), { header: true, skipEmptyLines: true }).data;
     assert.deepEqual(
-      agg.map((r) => Number(r.duration)),
+      agg.map((r) => Number(r.duration_min)),
       [1, 2, 5, 10, 20, 40],
     );
     assert.equal(Number(agg[2].passed), 10);
     const head = Papa.parse<string[]>(summaryCsv(s), { skipEmptyLines: true }).data;
-    assert.deepEqual(head[0], ["metric", "value"]);
-    assert.ok(head.some((r) => r[0] === "falsePassRate" && Math.abs(Number(r[1]) - 13 / 59) < 1e-12));
+    assert.deepEqual(head[0], ["metric", "value", "unit"]);
+    assert.ok(head.some((r) => r[0] === "false_pass_rate" && Math.abs(Number(r[1]) - 13 / 59) < 1e-12));
   });
 });
 
