@@ -437,7 +437,7 @@ export const AccelerationSchema = z.object({
   halfRiseControlMinutes: nnum,
   /** Control T1/2 / circuit T1/2: above 1 = the circuit responds faster (acceleration). */
   halfRiseRatio: nnum,
-  /** Kaplan-Meier median response delays over all evaluable pulses, and circuit minus control. */
+  /** Kaplan-Meier median response delays pooled over the durations passed in most pulses (delayCoverage), and circuit minus control. */
   medianDelayCircuit: nnum,
   medianDelayControl: nnum,
   medianDelayDifference: nnum,
