@@ -8,6 +8,7 @@ import { Piscina } from "piscina";
 import type { RunSpec } from "@/shared/schemas/run-spec";
 import type { SimTask } from "./sim-task";
 import type { WorkerChunkResult } from "./sim-worker";
+import { unpackPulseStats } from "@/sim/engine/pulse-columns";
 
 export type { SimTask } from "./sim-task";
 
@@ -30,7 +31,14 @@ export function createSimPool(opts: { threads: number; idleTimeoutMs?: number })
   });
   return {
     threads,
-    runChunk: (task) => piscina.run(task),
+    async runChunk(task) {
+      const result: WorkerChunkResult = await piscina.run(task);
+      if (result.packedPulses) {
+        result.pulses = unpackPulseStats(result.packedPulses);
+        delete result.packedPulses;
+      }
+      return result;
+    },
     async warmUp(spec, warmOpts = {}) {
       const tasks: Promise<unknown>[] = [];
       for (let i = 0; i < threads; i++)

@@ -2,24 +2,31 @@
  * Piscina worker: a thin adapter around sim/. Compiles (and caches, per spec)
  * the circuit, runs one chunk, enforces the wall-time cap through the engine's
  * checkpoint (sim/ has no clock) and returns the result with its typed arrays
- * transferred rather than copied.
+ * (the pulse records packed as columns among them) transferred rather than copied.
  */
 import { Piscina } from "piscina";
 import { simulateChunk, prepareRun, type ChunkResult } from "@/sim";
+import { packPulseStats, type PackedPulseStats } from "@/sim/engine/pulse-columns";
 import type { SimTask } from "./sim-task";
 
 export type WorkerChunkResult = ChunkResult & {
+  /** Set in the worker thread: the pulses as columns (pool.ts unpacks them into `pulses` on arrival). */
+  packedPulses?: PackedPulseStats;
   wallTimeExceeded?: boolean;
   /** Compute seconds measured where the chunk ran (set by the Redis worker; the embedded queue times the call). */
   seconds?: number;
 };
 
-function transferables(r: ChunkResult): ArrayBuffer[] {
+function transferables(r: WorkerChunkResult): ArrayBuffer[] {
   const out = new Set<ArrayBuffer>();
   const add = (a: { buffer: ArrayBufferLike }) => out.add(a.buffer as ArrayBuffer);
   add(r.gridSum);
   add(r.gridSumSq);
   add(r.gridCount);
+  if (r.packedPulses) {
+    add(r.packedPulses.numbers);
+    add(r.packedPulses.widths);
+  }
   for (const t of r.trajectories) add(t.values);
   for (const e of r.recordedEvents ?? []) {
     add(e.initial);
@@ -45,6 +52,9 @@ export default function simWorker(task: SimTask): unknown {
     checkpoint,
   });
   if (result.aborted) result.wallTimeExceeded = true;
+  // Pulses travel as two transferred buffers, not as cloned objects (sim/engine/pulse-columns.ts).
+  result.packedPulses = packPulseStats(result.pulses);
+  result.pulses = [];
   const movable = {
     get [Piscina.transferableSymbol]() {
       return transferables(result);
