@@ -19,6 +19,7 @@ export const CIRCUIT_LIMITS = {
   maxRegulatorsPerReaction: 6,
   maxNameLength: 40,
   maxParameters: 100,
+  maxEvents: 50,
   maxExpressionLength: 2000,
 } as const;
 
@@ -161,6 +162,34 @@ export const ReactionSchema = z.object({
 });
 export type Reaction = z.infer<typeof ReactionSchema>;
 
+/** One assignment of an event: a species amount or a parameter gets the value of an expression. */
+export const EventAssignmentSchema = z.object({
+  /** A species or parameter name. */
+  target: NameSchema,
+  /** An expression over species amounts, signals and parameters (no time), evaluated just before the event. */
+  value: z.string().min(1, "value must not be empty").max(CIRCUIT_LIMITS.maxExpressionLength),
+});
+
+/**
+ * A scheduled or triggered event (docs/circuit-format.md, Events): at the
+ * given times, or whenever the condition `when` becomes true (rising edge; a
+ * condition on species alone, or on time alone), the assignments are made.
+ */
+export const EventSchema = z
+  .object({
+    name: NameSchema,
+    /** Times (minutes, after the start) at which the event fires. */
+    at: z.array(positive("event time")).min(1).max(1000).optional(),
+    /** A condition; the event fires each time it turns from false to true. */
+    when: z.string().min(1, "condition must not be empty").max(CIRCUIT_LIMITS.maxExpressionLength).optional(),
+    assign: z.array(EventAssignmentSchema).min(1, "needs at least one assignment").max(20),
+    description: z.string().max(200).optional(),
+  })
+  .refine((e) => (e.at === undefined) !== (e.when === undefined), {
+    message: "give either at (times) or when (a condition), not both",
+  });
+export type CircuitEvent = z.infer<typeof EventSchema>;
+
 export const CircuitSchema = z.object({
   name: z.string().min(1, "name must not be empty").max(120),
   description: z.string().max(2000).default(""),
@@ -169,6 +198,8 @@ export const CircuitSchema = z.object({
   reactions: z.array(ReactionSchema).min(1, "needs at least one reaction").max(CIRCUIT_LIMITS.maxReactions),
   /** Named parameters (see ParameterSchema). */
   parameters: z.array(ParameterSchema).max(CIRCUIT_LIMITS.maxParameters).optional(),
+  /** Scheduled and triggered events, in firing order for events at the same instant. */
+  events: z.array(EventSchema).max(CIRCUIT_LIMITS.maxEvents).optional(),
   /** The species the filter figures are about (the reporter). */
   outputSpecies: NameSchema,
 });

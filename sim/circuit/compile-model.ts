@@ -28,6 +28,7 @@
 import type { Circuit } from "@/shared/schemas/circuit";
 import { semanticErrors } from "./validate-circuit";
 import { namesRead, parseExpression, timeStops, treeToJs, usesTime, type ExprNode } from "./expression";
+import { compileEvents, type CompiledEvent } from "./compile-events";
 
 export interface CompiledRegulator {
   source: number;
@@ -104,6 +105,16 @@ export interface CompiledModel {
   timeDependents: number[];
   /** Whether any rate is an expression. */
   hasExpressions: boolean;
+  /** Scheduled and triggered events (./compile-events.ts), in circuit order. */
+  events: CompiledEvent[];
+  /** Per clock stop, the scheduled events firing there (in circuit order). */
+  stopEvents: number[][];
+  /** 1 where a clock stop fires events (parallel to clockStops). */
+  stopFire: Uint8Array;
+  /** Events with a species condition (checked after every change of the state). */
+  speciesTriggers: number[];
+  /** Parameter slots that events assign. */
+  eventParamSlots: number[];
 }
 
 export function compileModel(circuit: Circuit, systemSize = 1): CompiledModel {
@@ -211,7 +222,12 @@ export function compileModel(circuit: Circuit, systemSize = 1): CompiledModel {
       readsTime,
     };
   });
+  const events = compileEvents(circuit, sp, paramSlot);
+  for (const e of events) for (const t of e.times) stops.add(t);
   const clockStops = Float64Array.from([...stops].sort((a, b) => a - b));
+  const stopIndex = new Map([...clockStops].map((t, k) => [t, k]));
+  const stopEvents: number[][] = Array.from(clockStops, () => []);
+  events.forEach((e, i) => e.times.forEach((t) => stopEvents[stopIndex.get(t)!].push(i)));
   const m = clockStops.length;
   const clockProbe = new Float64Array(m + 1);
   for (let k = 0; k <= m; k++)
@@ -259,6 +275,13 @@ export function compileModel(circuit: Circuit, systemSize = 1): CompiledModel {
     clockProbe,
     timeDependents: reactions.flatMap((r, j) => (r.readsTime ? [j] : [])),
     hasExpressions: reactions.some((r) => r.expr !== null),
+    events,
+    stopEvents,
+    stopFire: Uint8Array.from(stopEvents, (l) => (l.length > 0 ? 1 : 0)),
+    speciesTriggers: events.flatMap((e, i) => (e.condition !== null ? [i] : [])),
+    eventParamSlots: [
+      ...new Set(events.flatMap((e) => e.assigns.filter((a) => a.target === "param").map((a) => a.index))),
+    ].sort((a, b) => a - b),
   };
   deriveParams(model, model.baseParams);
   return model;
@@ -278,25 +301,33 @@ export function clockProbeAt(model: CompiledModel, t: number): number {
   return model.clockProbe[k];
 }
 
-type RateFn = (x: ArrayLike<number>, sig: ArrayLike<number>, p: ArrayLike<number>, tq: number) => number;
-const rateFns = new WeakMap<CompiledReaction, RateFn>();
+export type TreeFn = (x: ArrayLike<number>, sig: ArrayLike<number>, p: ArrayLike<number>, tq: number) => number;
+const treeFns = new WeakMap<ExprNode, TreeFn>();
 
-/** The JavaScript rate function of an expression reaction, generated from its tree (cached). */
-export function expressionRateFn(model: CompiledModel, r: CompiledReaction): RateFn {
-  let f = rateFns.get(r);
+/**
+ * A JavaScript function of (x, sig, p, tq) generated from a checked tree of the
+ * model (cached per tree); conditions return booleans.
+ */
+export function treeFn(model: CompiledModel, tree: ExprNode): TreeFn {
+  let f = treeFns.get(tree);
   if (!f) {
     const sp = new Map(model.speciesNames.map((n, i) => [n, i]));
     const sg = new Map(model.signalNames.map((n, i) => [n, i]));
     const pq = new Map(model.parameterNames.map((n, i) => [n, model.parameterSlots[i]]));
-    const body = treeToJs(r.expr!, {
+    const body = treeToJs(tree, {
       name: (kind, name) =>
         kind === "species" ? `x[${sp.get(name)}]` : kind === "signal" ? `sig[${sg.get(name)}]` : `p[${pq.get(name)}]`,
       time: "tq",
     });
-    f = new Function("x", "sig", "p", "tq", `"use strict"; return ${body};`) as RateFn;
-    rateFns.set(r, f);
+    f = new Function("x", "sig", "p", "tq", `"use strict"; return ${body};`) as TreeFn;
+    treeFns.set(tree, f);
   }
   return f;
+}
+
+/** The rate function of an expression reaction. */
+export function expressionRateFn(model: CompiledModel, r: CompiledReaction): TreeFn {
+  return treeFn(model, r.expr!);
 }
 
 /** Error for a rate that is negative or not a finite number (the run stops; never clamped). */

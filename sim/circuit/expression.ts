@@ -186,7 +186,8 @@ function convert(node: MathNode, scope: ExprScope): ExprNode {
       ].filter((k): k is "species" | "signal" | "param" => k !== null);
       if (name === "time") {
         if (hits.length > 0) throw new Refusal(`"time" is the clock here; rename the ${hits[0]} called time`, name);
-        if (scope.allowTime === false) throw new Refusal("time is not allowed here", name);
+        if (scope.allowTime === false)
+          throw new Refusal("time is not allowed here (an event value may read species, signals and parameters)", name);
         return { t: "time" };
       }
       if (hits.length === 0) {

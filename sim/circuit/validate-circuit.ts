@@ -7,7 +7,7 @@
  * 8 signals, 200 reactions, 6 regulators per reaction), enforced by the schema.
  */
 import { CircuitSchema, type Circuit } from "@/shared/schemas/circuit";
-import { describeExprError, parseExpression } from "./expression";
+import { describeExprError, namesRead, parseExpression, usesTime } from "./expression";
 
 export interface ValidationError {
   path: string;
@@ -165,6 +165,42 @@ export function semanticErrors(c: Circuit): ValidationError[] {
         regs.add(g.source);
       });
     }
+  });
+  const eventNames = new Set<string>();
+  const pscope = () => ({ species, signals, params: new Set(params.keys()) });
+  (c.events ?? []).forEach((e, i) => {
+    const at = `events[${i}]`;
+    const who = `${at} "${e.name}"`;
+    if (eventNames.has(e.name)) errors.push({ path: `${at}.name`, message: `${who}: duplicate event name` });
+    eventNames.add(e.name);
+    if (e.when !== undefined) {
+      const res = parseExpression(e.when, pscope(), "bool");
+      if (!res.ok) errors.push({ path: `${at}.when`, message: `${who}: condition ${describeExprError(res.error)}` });
+      else {
+        const names = namesRead(res.tree);
+        if (names.signals.size > 0)
+          errors.push({
+            path: `${at}.when`,
+            message: `${who}: condition reads signal "${[...names.signals][0]}"; a condition may read species and parameters, or time`,
+          });
+        else if (usesTime(res.tree) && (names.species.size > 0 || names.params.size > 0))
+          errors.push({
+            path: `${at}.when`,
+            message: `${who}: condition mixes time with species or parameters; use one condition on species or one on time`,
+          });
+      }
+    }
+    e.assign.forEach((a, k) => {
+      const ap = `${at}.assign[${k}]`;
+      if (!species.has(a.target) && !params.has(a.target))
+        errors.push({
+          path: `${ap}.target`,
+          message: `${who}: assignment target "${a.target}" is not a species or parameter${signals.has(a.target) ? " (signals are set by the input program)" : ""}`,
+        });
+      const res = parseExpression(a.value, { ...pscope(), allowTime: false });
+      if (!res.ok)
+        errors.push({ path: `${ap}.value`, message: `${who}: value of ${a.target} ${describeExprError(res.error)}` });
+    });
   });
   return errors;
 }

@@ -25,8 +25,13 @@
  *   time is compared with), recomputing the time-dependent propensities with
  *   the probe time of the new interval (ctx.stopProbe), exactly as at an input
  *   switch; at equal times the input switch comes first.
- * A model without expressions gets exactly the source it got before they
- * existed.
+ * - with events (sim/circuit/compile-events.ts): at a clock stop that fires
+ *   events, and after a firing that changes a species condition, the state is
+ *   written back, ctx.onEvents carries out the events, and the state,
+ *   parameters and every propensity are reloaded; grid values at an event time
+ *   are written after the event.
+ * A model without expressions or events gets exactly the source it got before
+ * they existed.
  *
  * The source is built only from the compiled model's indices, numbers from
  * checked trees and the numeric flags below (integer Hill exponents, zero
@@ -65,6 +70,10 @@ export class KernelContext {
   errorReaction = -1;
   errorValue = 0;
   errorKind = 0;
+  /** Events: the condition states, the stops that fire events, and the runner (sim/engine/event-runner.ts). */
+  trig: Uint8Array = new Uint8Array(0);
+  stopFire: Uint8Array = new Uint8Array(0);
+  onEvents: ((t: number, stop: number) => number) | null = null;
 }
 
 export const KERNEL_FINISHED = 0;
@@ -154,9 +163,11 @@ function propensityCode(model: CompiledModel, j: number, opts: KernelOptions, us
 export function kernelSource(model: CompiledModel, optsIn: KernelOptions): string {
   // slots that follow a varied named parameter vary too
   const variedSlots = new Set(optsIn.variedSlots);
+  for (const s of model.eventParamSlots) variedSlots.add(s);
   for (const l of model.links) if (variedSlots.has(l.from)) variedSlots.add(l.slot);
   const opts: KernelOptions = { ...optsIn, variedSlots };
-  const ext = model.hasExpressions;
+  const hasEvents = model.events.length > 0;
+  const ext = model.hasExpressions || hasEvents;
   const nS = model.nSpecies;
   const nG = model.nSignals;
   const nR = model.nReactions;
@@ -164,6 +175,24 @@ export function kernelSource(model: CompiledModel, optsIn: KernelOptions): strin
   const props = Array.from({ length: nR }, (_, j) => propensityCode(model, j, opts, used));
   const qVars: string[] = [];
   model.reactions.forEach((r, j) => r.regulators.forEach((_, k) => qVars.push(`q${j}_${k} = 0.0`)));
+  // species conditions of events, on the kernel's locals
+  const sp = new Map(model.speciesNames.map((n, i) => [n, i]));
+  const sg = new Map(model.signalNames.map((n, i) => [n, i]));
+  const pq = new Map(model.parameterNames.map((n, i) => [n, model.parameterSlots[i]]));
+  const trigCode = new Map<number, string>();
+  for (const k of model.speciesTriggers)
+    trigCode.set(
+      k,
+      treeToJs(model.events[k].condition!, {
+        name: (kind, name) => {
+          if (kind === "species") return `x${sp.get(name)}`;
+          if (kind === "signal") return `g${sg.get(name)}`;
+          used.add(pq.get(name)!);
+          return `P${pq.get(name)}`;
+        },
+        time: "tq",
+      }),
+    );
   const L: string[] = [];
   L.push(`"use strict";`);
   L.push(`var ${Array.from({ length: nS }, (_, i) => `x${i} = x[${i}]`).join(", ")};`);
@@ -180,6 +209,7 @@ export function kernelSource(model: CompiledModel, optsIn: KernelOptions): strin
     L.push(`var xs = ctx.stopTimes, xp = ctx.stopProbe, nx = xs.length, xi = 0;`);
     L.push(`while (xi < nx && xs[xi] <= t) xi++;`);
     L.push(`var tq = xp[xi], tX = xi < nx ? xs[xi] : Infinity;`);
+    if (hasEvents) L.push(`var tr = ctx.trig, xe = ctx.stopFire, onEv = ctx.onEvents, pend = 0, xob = 0;`);
   }
   L.push(props.join("\n"));
   if (!ext) L.push(`var t = ctx.t, tEnd = ctx.tEnd;`);
@@ -197,11 +227,24 @@ export function kernelSource(model: CompiledModel, optsIn: KernelOptions): strin
   L.push(`  atot = ${Array.from({ length: nR }, (_, j) => `a${j}`).join(" + ")};`);
   L.push(`  ${rand}`);
   L.push(`  tNext = atot > 0 ? t - Math.log(1 - s2) / atot : Infinity;`);
+  const out = model.outputIndex;
+  const fireEvents = (stop: string) =>
+    [
+      `xob = x${out};`,
+      Array.from({ length: nS }, (_, i) => `x[${i}] = x${i};`).join(" "),
+      `onEv(t, ${stop});`,
+      Array.from({ length: nS }, (_, i) => `x${i} = x[${i}];`).join(" "),
+      usedList.map((s) => `P${s} = p[${s}];`).join(" "),
+      props.join(" "),
+      `if (trk !== null && x${out} !== xob) trk.push(t, x${out});`,
+    ].join(" ");
   if (ext && model.clockStops.length > 0) {
     L.push(`  if (tX <= tNext && tX <= tEnd && tX < tSw) {`);
     L.push(`    ${gridWrite("tG < tX")}`);
     L.push(`    t = tX; xi++; tq = xp[xi]; tX = xi < nx ? xs[xi] : Infinity;`);
-    for (const k of model.timeDependents) L.push(`    ${props[k]}`);
+    const timed = model.timeDependents.map((k) => props[k]).join(" ");
+    if (hasEvents) L.push(`    if (xe[xi - 1] !== 0) { ${fireEvents("xi - 1")} } else { ${timed} }`);
+    else L.push(`    ${timed}`);
     L.push(`    continue;`);
     L.push(`  }`);
   }
@@ -220,7 +263,6 @@ export function kernelSource(model: CompiledModel, optsIn: KernelOptions): strin
   L.push(`  t = tNext;`);
   L.push(`  ${rand}`);
   L.push(`  r = s2 * atot;`);
-  const out = model.outputIndex;
   const fire = model.reactions.map((rx, j) => {
     const upd = rx.delta.map((d) => `x${d.species} += ${d.change};`).join(" ");
     const deps = model.dependents[j].map((k) => props[k]).join(" ");
@@ -230,7 +272,12 @@ export function kernelSource(model: CompiledModel, optsIn: KernelOptions): strin
       neg.length > 0
         ? ` if (${neg.join(" || ")}) { ctx.errorReaction = ${j}; ctx.errorValue = a${j}; ctx.errorKind = 2; status = 3; break main; }`
         : "";
-    return `j = ${j}; ${upd}${guard} ${deps}${trk}`;
+    const changed = new Set(rx.delta.map((d) => d.species));
+    const checks = model.speciesTriggers
+      .filter((k) => model.events[k].readsSpecies.some((i) => changed.has(i)))
+      .map((k) => ` if (${trigCode.get(k)} !== (tr[${k}] === 1)) pend = 1;`)
+      .join("");
+    return `j = ${j}; ${upd}${guard} ${deps}${trk}${checks}`;
   });
   // selection and firing in one chain; the round-off fallback (last non-zero propensity) via a switch
   for (let j = 0; j < nR; j++)
@@ -242,6 +289,7 @@ export function kernelSource(model: CompiledModel, optsIn: KernelOptions): strin
   fire.forEach((f, j) => L.push(`      case ${j}: { ${f} break; }`));
   L.push(`    }`);
   L.push(`  }`);
+  if (hasEvents && model.speciesTriggers.length > 0) L.push(`  if (pend === 1) { pend = 0; ${fireEvents("-1")} }`);
   L.push(`  if (rec !== null) rec.push(t, j);`);
   L.push(`  if (++ev >= cap) { status = 1; break; }`);
   L.push(`  if ((ev & 65535) === 0 && cp !== null && cp() === false) { status = 2; break; }`);

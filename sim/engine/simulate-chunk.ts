@@ -21,6 +21,10 @@
  * stop, is left out of the grid sums there (gridCount), and its open pulse
  * windows are closed at the stop time.
  *
+ * Events (sim/engine/event-runner.ts) do not fire during a burn-in; their
+ * conditions start from the state at t = 0 (a condition already true then
+ * does not fire).
+ *
  * A replicate whose expression rate turns negative or not finite (or whose
  * expression reaction would drive a count negative) stops, and the chunk
  * throws an error naming the replicate, reaction, value and time: such a run
@@ -46,6 +50,7 @@ import { resolveThreshold } from "./resolve-threshold";
 import { clockProbeAt, deriveParams } from "@/sim/circuit/compile-model";
 import { ENGINE_VERSION } from "./version";
 import { tauLeapRun } from "./tau-leap";
+import { EventRunner } from "./event-runner";
 
 export interface SimulateChunkOptions {
   /** Keep full grid trajectories for replicate indices below this (default 20). */
@@ -146,6 +151,12 @@ export function simulateChunk(
   ctx.checkpoint = options.checkpoint ?? null;
   const empty = new Float64Array(0);
   const burnInProbe = Float64Array.of(clockProbeAt(model, 0));
+  const runner = model.events.length > 0 ? new EventRunner(model, x, p, sig, true) : null;
+  if (runner) {
+    ctx.trig = runner.trig;
+    ctx.stopFire = model.stopFire;
+    ctx.onEvents = (t, stop) => runner.fire(t, stop);
+  }
   const run = (rep: number) => {
     try {
       if (kernel) kernel(x, p, sig, rs, ctx);
@@ -208,6 +219,10 @@ export function simulateChunk(
       ctx.recorder = null;
       ctx.stopTimes = empty;
       ctx.stopProbe = burnInProbe;
+      if (runner) {
+        runner.enabled = false;
+        runner.init();
+      }
       run(rep);
       status = ctx.status;
       sig.set(model.signalOff);
@@ -226,6 +241,10 @@ export function simulateChunk(
     ctx.recorder = recorder;
     ctx.stopTimes = model.clockStops;
     ctx.stopProbe = model.clockProbe;
+    if (runner) {
+      runner.enabled = true;
+      runner.init();
+    }
     tracker.reset(rep, 0, x[out]);
     if (status === 0) {
       run(rep);

@@ -14,7 +14,8 @@
  * Differences from the exact kernel: the state is constant within a leap, so
  * grid points and crossings inside a leap are placed at the leap's start/end;
  * leaps stop exactly at switch times and at the clock stops of time-dependent
- * expression rates; `events` counts reaction firings (sum of the Poisson
+ * expression rates and scheduled events (species conditions of events are
+ * checked after every step or leap, so approximately); `events` counts reaction firings (sum of the Poisson
  * counts). An expression rate that is negative or not finite throws
  * (reactionRate), as does an exact step of an expression reaction that would
  * make a count negative.
@@ -96,9 +97,14 @@ export function tauLeapRun(
     const tX = xi < xs.length ? xs[xi] : Infinity;
     const tStop = Math.min(tSw, ctx.tEnd, tX);
     const atClockStop = () => {
-      if (tX < tSw && tX < ctx.tEnd && t >= tX) {
+      if (tX < tSw && tX <= ctx.tEnd && t >= tX) {
         xi++;
         tq = ctx.stopProbe[xi];
+        if (ctx.onEvents !== null && ctx.stopFire[xi - 1] === 1) {
+          const before = x[out];
+          ctx.onEvents(t, xi - 1);
+          if (ctx.tracker && x[out] !== before) ctx.tracker.push(t, x[out]);
+        }
         return true;
       }
       return false;
@@ -143,7 +149,7 @@ export function tauLeapRun(
       tau = a0 > 0 ? -Math.log(1 - u()) / a0 : Infinity;
       if (t + tau >= tStop) {
         ssaLeft = 0;
-        if (tX < tSw && tX < ctx.tEnd) {
+        if (tX < tSw && tX <= ctx.tEnd) {
           writeGrid(tX, false);
           t = tX;
           atClockStop();
@@ -187,6 +193,7 @@ export function tauLeapRun(
               `reaction "${R[j].name}" fired with too few molecules of "${model.speciesNames[d.species]}" at t = ${t} min (the count would go negative): its expression must be 0 when a reactant runs out`,
             );
       if (ctx.recorder) ctx.recorder.push(t, j);
+      if (ctx.onEvents !== null) ctx.onEvents(t, -1);
       if (ctx.tracker && x[out] !== before) ctx.tracker.push(t, x[out]);
       ev++;
     } else {
@@ -227,6 +234,7 @@ export function tauLeapRun(
         t += tau;
         const before = x[out];
         x.set(xNew);
+        if (ctx.onEvents !== null) ctx.onEvents(t, -1);
         if (ctx.tracker && x[out] !== before) ctx.tracker.push(t, x[out]);
         ev += n;
         fired = true;
