@@ -2,7 +2,7 @@
 import { z } from "zod";
 import { eq } from "drizzle-orm";
 import { defineRoutes, type RouteCall, type RouteDef } from "./route-table";
-import { deleteRestoreRoutes } from "./delete-restore-routes";
+import { cancelRoute, deleteRestoreRoutes } from "./lifecycle-routes";
 import type { AppContext } from "@/server/context";
 import type { RunSummary } from "@/shared/schemas/analysis";
 import { schema } from "@/db/client";
@@ -187,17 +187,15 @@ export const runRoutes = defineRoutes([
       return undefined;
     },
   },
-  {
-    method: "post",
-    path: "/runs/:id/cancel",
-    access: { kind: "object", resource: "run", role: "editor" },
+  cancelRoute({
+    resource: "run",
+    path: "/runs/:id",
     summary: "Cancel a queued or running run (stored chunks are kept).",
-    handler: ({ ctx, params, user, labId }) => {
-      if (!ctx.queue.cancel(params.id)) throw conflict("Only a queued or running run can be cancelled.", "not_running");
-      recordAudit(ctx, { labId, userId: user!.id, action: "run.cancelled", targetType: "run", targetId: params.id });
-      return runs.runDetail(ctx, params.id);
+    cancel: (ctx, id) => {
+      if (!ctx.queue.cancel(id)) throw conflict("Only a queued or running run can be cancelled.", "not_running");
     },
-  },
+    detail: (ctx, id) => runs.runDetail(ctx, id),
+  }),
   {
     method: "patch",
     path: "/runs/:id",

@@ -1,6 +1,6 @@
 /** Parameter sweeps: launch, list, detail with per-point figures, cancel, resume, delete. */
 import { defineRoutes } from "./route-table";
-import { deleteRestoreRoutes } from "./delete-restore-routes";
+import { cancelRoute, deleteRestoreRoutes } from "./lifecycle-routes";
 import { LaunchSweepSchema } from "@/shared/schemas/api-runs";
 import * as sweeps from "@/server/services/sweeps.service";
 import { recordAudit } from "@/server/services/audit.service";
@@ -40,23 +40,14 @@ export const sweepRoutes = defineRoutes([
     summary: "Sweep detail: axes, points with status and figures.",
     handler: ({ ctx, params }) => sweeps.sweepDetail(ctx, params.id),
   },
-  {
-    method: "post",
-    path: "/sweeps/:id/cancel",
-    access: { kind: "object", resource: "sweep", role: "editor" },
+  cancelRoute({
+    resource: "sweep",
+    path: "/sweeps/:id",
     summary: "Cancel the sweep's queued and running points.",
-    handler: ({ ctx, params, user, labId }) => {
-      sweeps.cancelSweep(ctx, params.id);
-      recordAudit(ctx, {
-        labId,
-        userId: user!.id,
-        action: "sweep.cancelled",
-        targetType: "sweep",
-        targetId: params.id,
-      });
-      return sweeps.sweepDetail(ctx, params.id);
-    },
-  },
+    cancel: (ctx, id) => sweeps.cancelSweep(ctx, id),
+    detail: (ctx, id) => sweeps.sweepDetail(ctx, id),
+  }),
+
   {
     method: "post",
     path: "/sweeps/:id/resume",

@@ -1,6 +1,7 @@
 /** Single-cell traces and matching (contract: shared/schemas/api-traces.ts). Logic in services/traces.service.ts and match.service.ts. */
 import { defineRoutes } from "./route-table";
-import { deleteRestoreRoutes } from "./delete-restore-routes";
+import { inTransaction } from "@/db/client";
+import { deleteRestoreRoutes } from "./lifecycle-routes";
 import { MatchRequestSchema, TraceSetPatchSchema, type TraceSetListItem } from "@/shared/schemas/api-traces";
 import {
   analyseStored,
@@ -85,10 +86,10 @@ export const traceRoutes = defineRoutes([
     summary: "Rename, or change preprocessing and threshold settings (figures are recomputed).",
     // One transaction: if the figures cannot be recomputed the answer is an error and nothing is kept.
     handler: ({ ctx, params, body, user }) =>
-      ctx.sqlite.transaction(() => {
+      inTransaction(ctx, () => {
         updateTraceSet(ctx, user!.id, params.id, body);
         return traceSetDetail(ctx, params.id);
-      })(),
+      }),
   },
   ...deleteRestoreRoutes({
     resource: "traceSet",

@@ -5,7 +5,7 @@
 import { queueMail } from "@/server/services/mail.service";
 import { count, eq } from "drizzle-orm";
 import type { AppContext } from "@/server/context";
-import { schema } from "@/db/client";
+import { inTransaction, schema } from "@/db/client";
 import { newId } from "@/server/ids";
 import { badRequest, conflict } from "@/server/http-error";
 import type { SessionUser, MeUser } from "@/shared/schemas/api-accounts";
@@ -83,7 +83,7 @@ export async function createAccount(
   const passwordHash = input.passwordHash ?? (input.password === null ? null : await hashPassword(input.password));
   const now = new Date();
   const id = newId("usr_");
-  ctx.sqlite.transaction(() => {
+  inTransaction(ctx, () => {
     if (findUserByEmail(ctx, email))
       throw conflict(
         "An account with this e-mail address already exists. Sign in, or reset the password.",
@@ -110,7 +110,7 @@ export async function createAccount(
         .run();
       ctx.db.insert(schema.memberships).values({ labId, userId: id, role: "owner", createdAt: now }).run();
     }
-  })();
+  });
   return meUser(ctx, id)!;
 }
 

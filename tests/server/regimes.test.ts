@@ -17,7 +17,7 @@ test("a finished run carries both labels with their evidence; the C1-FFL AND on 
     const done = RunDetailSchema.parse(await waitForRun(editor, r.body.id));
     assert.equal(done.status, "finished");
     assert.ok(done.regime, "regime stored");
-    // persistence detection (domain notes section 2): the 5 min pulses rarely pass, the 60 min ones almost always
+    // persistence detection (Mangan, Zaslaver & Alon 2003, J Mol Biol 334:197, from memory): the 5 min pulses rarely pass, the 60 min ones almost always
     assert.equal(done.regime.deterministic.label, "persistence filter", JSON.stringify(done.regime.deterministic));
     assert.equal(done.regime.stochastic.label, "persistence filter", JSON.stringify(done.regime.stochastic));
     assert.deepEqual(done.regime.stochastic.evidence.durationsMinutes, [5, 60]);

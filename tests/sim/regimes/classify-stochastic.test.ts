@@ -1,6 +1,6 @@
 /**
  * The stochastic behaviour label (sim/regimes/classify-stochastic.ts) against
- * the classic circuits of domain notes section 9, in counts with system size
+ * classic circuits (sources beside each check), in counts with system size
  * Omega = 100, fixed seeds, 8 replicates per ensemble (the default).
  */
 import { test, describe } from "node:test";

@@ -1,11 +1,12 @@
 /**
- * Delete with undo, and restore, alike for every soft-deletable resource: one pair
- * of routes per resource from this factory, so the access rule (editor, reachable
+ * The lifecycle routes (cancel; delete with undo; restore) alike for every resource
+ * that has them. Delete and restore: one pair of routes per soft-deletable resource, so the access rule (editor, reachable
  * while deleted), the answers and the wording cannot drift apart. DELETE answers
  * `{ deleted: true, undo }` with the restore path; POST .../restore answers what the
  * resource's restore returns (its detail or list item). A second delete and a restore
  * of something not deleted answer 409 (the services check), and after the undo period
- * the object is purged.
+ * the object is purged. Cancel (runs and sweeps): POST .../cancel, editor, audited as
+ * `<resource>.cancelled`, answering the resource's detail.
  */
 import type { AppContext } from "@/server/context";
 import { API_LIMITS } from "@/shared/limits";
@@ -69,4 +70,34 @@ export function deleteRestoreRoutes(spec: DeleteRestoreSpec): RouteDef[] {
       },
     },
   ];
+}
+
+export interface CancelSpec {
+  resource: "run" | "sweep";
+  path: `/${string}/:id`;
+  summary: string;
+  /** Cancels, or throws the 409 that says why it cannot (the services check). */
+  cancel: (ctx: AppContext, id: string) => void;
+  /** The answer after cancelling (the resource's detail). */
+  detail: (ctx: AppContext, id: string) => unknown;
+}
+
+export function cancelRoute(spec: CancelSpec): RouteDef {
+  return {
+    method: "post",
+    path: `${spec.path}/cancel`,
+    access: { kind: "object", resource: spec.resource, role: "editor" },
+    summary: spec.summary,
+    handler: ({ ctx, params, user, labId }) => {
+      spec.cancel(ctx, params.id);
+      recordAudit(ctx, {
+        labId,
+        userId: user!.id,
+        action: `${spec.resource}.cancelled`,
+        targetType: spec.resource,
+        targetId: params.id,
+      });
+      return spec.detail(ctx, params.id);
+    },
+  };
 }
