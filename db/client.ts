@@ -51,5 +51,8 @@ export { schema };
  * included) inside `fn` joins the transaction; a nested call becomes a savepoint.
  */
 export function inTransaction<T>(ctx: { sqlite: Database.Database }, fn: () => T): T {
-  return ctx.sqlite.transaction(fn)();
+  // BEGIN IMMEDIATE takes the write lock first, so a concurrent writer (another process on the same
+  // file, such as the admin CLI beside a running server) is waited for under busy_timeout; a deferred
+  // transaction that reads and then writes would fail at once with SQLITE_BUSY_SNAPSHOT instead.
+  return ctx.sqlite.transaction(fn).immediate();
 }
