@@ -1,6 +1,7 @@
 /** Single-cell traces and matching (contract: shared/schemas/api-traces.ts). Logic in services/traces.service.ts and match.service.ts. */
-import { defineRoutes } from "./route-table";
+import { defineRoutes, type RouteDef } from "./route-table";
 import { inTransaction } from "@/db/client";
+import { traceDataPackage, traceOutputPulsesCsv } from "@/sim/analysis/trace-export";
 import { deleteRestoreRoutes } from "./lifecycle-routes";
 import { MatchRequestSchema, TraceSetPatchSchema, type TraceSetListItem } from "@/shared/schemas/api-traces";
 import {
@@ -98,20 +99,39 @@ export const traceRoutes = defineRoutes([
     remove: (ctx, id, userId) => deleteTraceSet(ctx, userId, id),
     restore: (ctx, id, userId): TraceSetListItem => restoreTraceSet(ctx, userId, id),
   }),
-  {
+  ...(
+    [
+      ["metrics.csv", "Per cell and pulse figures as CSV (one row per cell and analysed pulse)."],
+      ["output-pulses.csv", "CSV, one row per output pulse of every cell: its width and input pulse."],
+      [
+        "datapackage.json",
+        "The data dictionary of the trace set's CSV exports (Frictionless Data Package, Table Schema).",
+      ],
+    ] as const
+  ).map(([file, summary]): RouteDef => ({
     method: "get",
-    path: "/traces/:id/export/metrics.csv",
+    path: `/traces/:id/export/${file}`,
     access: { kind: "object", resource: "traceSet", role: "viewer" },
-    summary: "Per cell and pulse figures as CSV.",
+    summary,
     handler: ({ ctx, params, res }) => {
       const { row, analysis } = analyseStored(ctx, params.id);
       const base = row.name.replace(/[^A-Za-z0-9_.-]+/g, "-").replace(/^-+|-+$/g, "") || "traces";
-      res.setHeader("Content-Type", "text/csv; charset=utf-8");
-      res.setHeader("Content-Disposition", `attachment; filename="${base}-metrics.csv"`);
-      res.send(metricsCsv(analysis, row.synthetic));
+      res.setHeader("Content-Type", file.endsWith(".csv") ? "text/csv; charset=utf-8" : "application/json");
+      res.setHeader("Content-Disposition", `attachment; filename="${base}-${file}"`);
+      res.send(
+        file === "metrics.csv"
+          ? metricsCsv(analysis, row.synthetic)
+          : file === "output-pulses.csv"
+            ? traceOutputPulsesCsv(analysis)
+            : JSON.stringify(
+                traceDataPackage({ title: row.name, filePrefix: base, synthetic: row.synthetic }),
+                null,
+                2,
+              ),
+      );
       return undefined;
     },
-  },
+  })),
   {
     method: "post",
     path: "/traces/:id/match",

@@ -12,7 +12,7 @@ import { inTransaction, schema } from "@/db/client";
 import { newId } from "@/server/ids";
 import { HttpError, badRequest, conflict, notFound, parseOr400 } from "@/server/http-error";
 import { recordAudit } from "./audit.service";
-import { csvCell } from "@/shared/csv-cell";
+import { traceMetricsCsv } from "@/sim/analysis/trace-export";
 import { compileProgram } from "@/sim/inputs/compile-program";
 import { InputProgramSchema } from "@/shared/schemas/input-program";
 import { API_LIMITS } from "@/shared/schemas/api-runs";
@@ -491,44 +491,10 @@ export function purgeDeletedTraceSets(ctx: Pick<AppContext, "db">, now = Date.no
 
 // ---------------------------------------------------------------- CSV export
 
-/** One text cell: formula-neutralised (shared/csv-cell.ts), then quoted when RFC 4180 needs it. */
-const csvField = (raw: string) => {
-  const s = csvCell(raw);
-  return /[",\n\r]/.test(s) ? `"${s.replace(/"/g, '""')}"` : s;
-};
-const num = (x: number | null | undefined) =>
-  x === null || x === undefined || !Number.isFinite(x) ? "" : String(Number(x.toPrecision(10)));
-
-/** One row per cell and analysed pulse: the section-5 figures (times in minutes, levels in trace units). */
+/**
+ * One row per cell and analysed pulse (times in minutes, levels in trace units), by the export rule of
+ * docs/metrics.md (sim/analysis/trace-export.ts); synthetic sets say so in a column of every row.
+ */
 export function metricsCsv(analysis: TraceAnalysis, synthetic: boolean): string {
-  const lines: string[] = [];
-  if (synthetic) lines.push("# SYNTHETIC traces made by Linger from hidden parameters (demo data, not measurements)");
-  lines.push(
-    "cell,pulse_index,on_min,off_min,duration_bin_min,excluded,passed,delay_min,off_delay_min,widths_min,peak,time_to_peak_min,fwhm_min,baseline,threshold_trace_units,longest_gap_min",
-  );
-  for (const c of analysis.cells) {
-    for (const p of c.pulses) {
-      lines.push(
-        [
-          csvField(c.cell),
-          p.pulseIndex,
-          num(p.on),
-          num(p.off),
-          num(p.durationBin),
-          p.excluded ? 1 : 0,
-          p.passed ? 1 : 0,
-          num(p.delay),
-          num(p.offDelay),
-          p.widths.map(num).join(";"),
-          num(p.peak),
-          num(p.timeToPeak),
-          num(p.fwhm),
-          num(p.baseline),
-          num(c.thresholdTraceUnits),
-          num(p.longestGapMinutes),
-        ].join(","),
-      );
-    }
-  }
-  return lines.join("\n") + "\n";
+  return traceMetricsCsv(analysis, synthetic);
 }

@@ -11,7 +11,12 @@ import assert from "node:assert/strict";
 import Papa from "papaparse";
 import type { TableResource } from "@/sim/analysis";
 
-const UNIT_SUFFIX: Record<string, string> = { min: "_min", molecules: "_molecules", "molecules^2": "_molecules2" };
+const UNIT_SUFFIX: Record<string, string> = {
+  min: "_min",
+  molecules: "_molecules",
+  "molecules^2": "_molecules2",
+  "trace units": "_trace_units",
+};
 
 export function checkCsvAgainstResource(
   text: string,

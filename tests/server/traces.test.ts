@@ -13,6 +13,7 @@ import { test, describe, before, after } from "node:test";
 import assert from "node:assert/strict";
 import { count, eq } from "drizzle-orm";
 import { makeTestContext, signIn, type TestApp } from "@/tests/helpers/test-app";
+import { checkCsvAgainstResource } from "@/tests/helpers/check-export";
 import { schema } from "@/db/client";
 import { newId } from "@/server/ids";
 import { hashPassword } from "@/server/services/password";
@@ -395,7 +396,22 @@ describe("stored trace sets", () => {
     const lines = r.text.trim().split("\n");
     assert.equal(lines.length, 3);
     assert.match(lines[0], /^cell,pulse_index,on_min/);
-    assert.match(lines[1], /^a,0,20,80,60,0,1,9,/);
+    assert.match(lines[1], /^a,0,20,80,60,false,true,9,/);
+    // every export loads as its data dictionary says (docs/metrics.md, "Exports")
+    const pkg = (await viewer.get(`/api/traces/${id}/export/datapackage.json`).expect(200)).body;
+    for (const file of ["metrics.csv", "output-pulses.csv"]) {
+      const res = await viewer.get(`/api/traces/${id}/export/${file}`).expect(200);
+      const name = /filename="([^"]+)"/.exec(res.headers["content-disposition"])![1];
+      const entry = pkg.resources.find((x: { path: string }) => x.path === name);
+      assert.ok(entry, `${name} is in datapackage.json`);
+      const rows = checkCsvAgainstResource(res.text, entry);
+      if (file === "metrics.csv") assert.equal(rows.length, 2);
+      if (file === "output-pulses.csv")
+        assert.equal(
+          rows.length,
+          lines.slice(1).reduce((n, l) => n + Number(l.split(",")[9]), 0),
+        );
+    }
   });
 
   test("metrics CSV neutralises formula-like cell ids (OWASP CSV injection) and keeps plain numbers", async () => {
@@ -530,7 +546,13 @@ describe("matching and the demo set", () => {
     assert.equal(d.cellCount, 40);
     assert.ok(d.analysis.summary.analysis.counts.passed > 0);
     const csv = await viewer.get(`/api/traces/${demoId}/export/metrics.csv`).expect(200);
-    assert.match(csv.text, /^# SYNTHETIC/);
+    // labelled synthetic in every row (a column, so the file still loads in one line) and in its dictionary
+    const rows = csv.text.trim().split("\n");
+    assert.ok(rows[0].endsWith(",synthetic"));
+    assert.ok(rows.slice(1).every((l) => l.endsWith(",true")));
+    const pkg = (await viewer.get(`/api/traces/${demoId}/export/datapackage.json`).expect(200)).body;
+    assert.equal(pkg.synthetic, true);
+    assert.match(pkg.description, /SYNTHETIC/);
     assert.equal(DEMO_UPLOAD_OPTIONS.name, DEMO_TRACES_NAME);
   });
 
