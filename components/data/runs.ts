@@ -1,24 +1,32 @@
-import { keepPreviousData, useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
-import { useEffect } from "react";
+import {
+  keepPreviousData,
+  useInfiniteQuery,
+  useMutation,
+  useQuery,
+  useQueryClient,
+  type InfiniteData,
+  type UseInfiniteQueryResult,
+  type UseQueryResult,
+} from "@tanstack/react-query";
+import { useEffect, useMemo } from "react";
 import { Platform } from "react-native";
-import { z } from "zod";
 import { api, apiUrl } from "./api";
 import { useLabId } from "./current-lab";
 import {
   EstimateSchema,
   ReplicatePageSchema,
   RunDetailSchema,
-  RunListItemSchema,
+  RunListPageSchema,
   RunSeriesSchema,
   type LaunchRunInput,
   type RunDetail,
   type RunListItem,
 } from "@/shared/schemas/api-runs";
+import type { Page } from "@/shared/schemas/pagination";
 import { ComparisonSchema, RunSummarySchema, type RunSummary } from "@/shared/schemas/analysis";
 
 export type { RunDetail, RunListItem };
 
-const RunListSchema = z.array(RunListItemSchema);
 /** A created run comes back as its detail. */
 const RunCreatedSchema = RunDetailSchema;
 const RunDetailResponseSchema = RunDetailSchema;
@@ -44,14 +52,48 @@ export function sortRunsForHome<T extends { status: string; createdAt?: string |
   return [...runs].sort((a, b) => rank(a) - rank(b) || time(b) - time(a));
 }
 
-export function useRuns(opts: { archived?: boolean } = {}) {
+/** A list hook's answer: the items of every page loaded so far, and a way to load the next page. */
+export type PagedList<T> = UseQueryResult<T[], Error> & {
+  /** Load the next page (nothing when there is none). */
+  loadMore: () => void;
+  hasMore: boolean;
+  loadingMore: boolean;
+};
+
+/** Flattens an infinite query over `{ items, nextCursor }` pages into a list hook's answer. */
+export function usePagedList<T>(q: UseInfiniteQueryResult<InfiniteData<Page<T>>, Error>): PagedList<T> {
+  const pages = q.data?.pages;
+  const data = useMemo(() => pages?.flatMap((p) => p.items), [pages]);
+  return {
+    ...q,
+    data,
+    loadMore: () => {
+      if (q.hasNextPage && !q.isFetchingNextPage) void q.fetchNextPage();
+    },
+    hasMore: !!q.hasNextPage,
+    loadingMore: q.isFetchingNextPage,
+  } as unknown as PagedList<T>;
+}
+
+/** The lab's runs, page by page (PAGE_SIZE at a time; `loadMore` for the next); polls while one is active. */
+export function useRuns(opts: { archived?: boolean } = {}): PagedList<RunListItem> {
   const labId = useLabId();
-  return useQuery({
+  const q = useInfiniteQuery({
     queryKey: runKeys.list(labId, !!opts.archived),
-    queryFn: ({ signal }) => api(`/api/labs/${labId}/runs${opts.archived ? "?archived=1" : ""}`, { schema: RunListSchema, signal }),
+    initialPageParam: undefined as string | undefined,
+    queryFn: ({ pageParam, signal }) => {
+      const params = new URLSearchParams();
+      if (opts.archived) params.set("archived", "1");
+      if (pageParam) params.set("cursor", pageParam);
+      const qs = params.toString();
+      return api(`/api/labs/${labId}/runs${qs ? `?${qs}` : ""}`, { schema: RunListPageSchema, signal });
+    },
+    getNextPageParam: (last) => last.nextCursor ?? undefined,
     enabled: !!labId,
-    refetchInterval: (q) => (q.state.data?.some((r) => ACTIVE_STATUSES.has(r.status)) ? 3000 : false),
+    refetchInterval: (q) =>
+      q.state.data?.pages.some((p) => p.items.some((r) => ACTIVE_STATUSES.has(r.status))) ? 3000 : false,
   });
+  return usePagedList(q);
 }
 
 /** A run's status, progress and summary; polls while it is active and listens to server-sent progress on the web. */

@@ -28,6 +28,8 @@ import {
 import { readPulseStats, readReplicateRows } from "@/server/compute/run-store";
 import { conflict } from "@/server/http-error";
 import { recordAudit } from "@/server/services/audit.service";
+import { PAGE_SIZE, PAGE_SIZE_MAX, PageQuerySchema } from "@/shared/schemas/pagination";
+import type { RunListPage } from "@/shared/schemas/api-runs";
 
 const csvName = (name: string) =>
   name
@@ -76,18 +78,18 @@ export const runRoutes = defineRoutes([
     method: "get",
     path: "/labs/:labId/runs",
     access: { kind: "lab", role: "viewer" },
-    query: z.object({
+    query: PageQuerySchema.extend({
       archived: z.enum(["0", "1"]).optional(),
       status: z.string().optional(),
       sweepPoints: z.enum(["0", "1"]).optional(),
-      limit: z.coerce.number().int().min(1).max(500).optional(),
     }),
-    summary: "The lab's runs, running and queued first, then newest.",
-    handler: ({ ctx, labId, query }) =>
+    summary: `One page of the lab's runs, running and queued first, then newest: {items, nextCursor} (?cursor=, ?limit= up to ${PAGE_SIZE_MAX}, default ${PAGE_SIZE}).`,
+    handler: ({ ctx, labId, query }): RunListPage =>
       runs.listRuns(ctx, labId, {
         archived: query.archived === "1",
         status: query.status,
         includeSweepPoints: query.sweepPoints === "1",
+        cursor: query.cursor,
         limit: query.limit,
       }),
   },

@@ -35,6 +35,8 @@ import { runSettingsBlock } from "@/sim/analysis/run-settings";
 import { purgeDeletedTraceSets } from "./traces.service";
 import { assertRestorable } from "./undo";
 import { objectHistory } from "./audit.service";
+import { decodeCursor, pageFromRows, pageLimit } from "./pagination";
+import type { Page, PageQuery } from "@/shared/schemas/pagination";
 
 export const randomSeed = () => randomBytes(6).toString("hex");
 
@@ -367,11 +369,18 @@ export function toListItem(
   };
 }
 
+const statusRank = sql<number>`CASE ${schema.runs.status} WHEN 'running' THEN 0 WHEN 'queued' THEN 1 ELSE 2 END`;
+
+/**
+ * One page of the lab's runs: running and queued first, then newest (ties by id). Keyset pagination in SQL
+ * on (status rank, created time descending, id): the cursor holds the last run's key, so only one page of rows
+ * is read and turned into list items. A run that finishes meanwhile moves to its new place.
+ */
 export function listRuns(
   ctx: AppContext,
   labId: string,
-  q: { archived?: boolean; status?: string; includeSweepPoints?: boolean; limit?: number },
-): RunListItem[] {
+  q: { archived?: boolean; status?: string; includeSweepPoints?: boolean } & PageQuery,
+): Page<RunListItem> {
   const conds = [
     eq(schema.runs.labId, labId),
     isNull(schema.runs.deletedAt),
@@ -379,26 +388,41 @@ export function listRuns(
   ];
   if (!q.includeSweepPoints) conds.push(isNull(schema.runs.sweepId));
   if (q.status) conds.push(eq(schema.runs.status, q.status as any));
+  if (q.cursor) {
+    const [rank, negCreated, id] = decodeCursor(q.cursor, 3);
+    if (typeof rank !== "number" || typeof negCreated !== "number" || typeof id !== "string")
+      throw badRequest("Invalid query: cursor: not a cursor from this list; start again without it.", [
+        { path: "cursor", message: "not a cursor from this list" },
+      ]);
+    const created = -negCreated;
+    conds.push(
+      sql`(${statusRank} > ${rank} OR (${statusRank} = ${rank} AND (${schema.runs.createdAt} < ${created} OR (${schema.runs.createdAt} = ${created} AND ${schema.runs.id} > ${id}))))`,
+    );
+  }
+  const limit = pageLimit(q);
   const rows = ctx.db
-    .select()
+    .select({ row: schema.runs, rank: statusRank })
     .from(schema.runs)
     .where(and(...conds))
-    // running and queued first, then newest
-    .orderBy(
-      sql`CASE ${schema.runs.status} WHEN 'running' THEN 0 WHEN 'queued' THEN 1 ELSE 2 END`,
-      desc(schema.runs.createdAt),
-    )
-    .limit(Math.min(q.limit ?? 200, 500))
+    .orderBy(statusRank, desc(schema.runs.createdAt), asc(schema.runs.id))
+    .limit(limit + 1)
     .all();
-  const names = userNames(
-    ctx,
-    rows.map((r) => r.createdBy),
+  return pageFromRows(
+    rows,
+    limit,
+    (r) => [r.rank, -r.row.createdAt.getTime(), r.row.id],
+    (page) => {
+      const names = userNames(
+        ctx,
+        page.map((r) => r.row.createdBy),
+      );
+      const programs = programNames(
+        ctx,
+        page.map((r) => r.row.programId),
+      );
+      return page.map((r) => toListItem(ctx, r.row, names, programs));
+    },
   );
-  const programs = programNames(
-    ctx,
-    rows.map((r) => r.programId),
-  );
-  return rows.map((r) => toListItem(ctx, r, names, programs));
 }
 
 function historyWords(action: string, by: string | null, detail: Record<string, unknown>): string {

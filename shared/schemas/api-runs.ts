@@ -1,6 +1,7 @@
 /** Request and response shapes of the runs, sweeps and comparison API. */
 import { RegimeLabelsSchema, RunRegimeSchema } from "./regime";
 import { z } from "zod";
+import { pageSchema } from "./pagination";
 import { CircuitSchema, NameSchema, ParameterRefSchema } from "./circuit";
 import { InputProgramSchema } from "./input-program";
 import { RunSpecSchema, SeedSchema } from "./run-spec";
@@ -101,6 +102,9 @@ export const RunListItemSchema = z.object({
     .nullable(),
 });
 export type RunListItem = z.infer<typeof RunListItemSchema>;
+/** GET /api/labs/:labId/runs: one page (shared/schemas/pagination.ts). */
+export const RunListPageSchema = pageSchema(RunListItemSchema);
+export type RunListPage = z.infer<typeof RunListPageSchema>;
 
 /** One entry of a run's history (from the audit trail), in words. */
 export const RunHistoryEntrySchema = z.object({

@@ -217,7 +217,9 @@ describe("accounts, labs, admin and reproduction at phone size (390x844)", { tim
       let original: { id: string; status: string } | undefined;
       for (let i = 0; i < 120 && original?.status !== "finished"; i++) {
         if (i) await new Promise((r) => setTimeout(r, 2000));
-        const runs = await apiGet<{ id: string; name: string; status: string }[]>(`/api/labs/${labId}/runs`, cookie);
+        const runs = (
+          await apiGet<{ items: { id: string; name: string; status: string }[] }>(`/api/labs/${labId}/runs`, cookie)
+        ).items;
         original = runs.find((r) => r.name === DEMO_RUN);
       }
       assert.equal(original?.status, "finished", "the demo run finished");

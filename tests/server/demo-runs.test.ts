@@ -27,7 +27,7 @@ test("demo seeding queues the two demo runs and the demo sweep once; they finish
         d.summary.byDuration.map((b: any) => b.duration),
         [1, 2, 5, 10, 20, 40, 80],
       );
-    const list = (await viewer.get(`/api/labs/${t.demoLab!.id}/runs`)).body;
+    const list = (await viewer.get(`/api/labs/${t.demoLab!.id}/runs`)).body.items;
     for (const item of list) {
       assert.equal(item.programName, "Duration ladder");
       assert.equal(item.headline.longestDuration, 80);

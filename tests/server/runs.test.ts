@@ -5,7 +5,7 @@ import { makeTestContext, signIn } from "@/tests/helpers/test-app";
 import { launchBody, realQueue, waitForRun } from "@/tests/helpers/run-helpers";
 import { schema } from "@/db/client";
 import { checkCsvAgainstResource } from "@/tests/helpers/check-export";
-import { ReplicatePageSchema, RunDetailSchema, RunListItemSchema, RunSeriesSchema } from "@/shared/schemas/api-runs";
+import { ReplicatePageSchema, RunDetailSchema, RunListPageSchema, RunSeriesSchema } from "@/shared/schemas/api-runs";
 
 describe("runs through the real queue and pool", () => {
   test("launch, progress, finish: statistics, series and exports are stored", async () => {
@@ -62,9 +62,9 @@ describe("runs through the real queue and pool", () => {
       assert.equal(done.summary.settings.method.accuracy, "exact");
       // the run list shows it with headline figures
       const list = await editor.get(`/api/labs/${labId}/runs`);
-      assert.equal(list.body[0].id, r.body.id);
-      RunListItemSchema.parse(list.body[0]);
-      assert.equal(list.body[0].programName, "inline duration ladder");
+      RunListPageSchema.parse(list.body);
+      assert.equal(list.body.items[0].id, r.body.id);
+      assert.equal(list.body.items[0].programName, "inline duration ladder");
     } finally {
       await t.close();
     }
@@ -162,12 +162,12 @@ describe("runs through the real queue and pool", () => {
       await waitForRun(editor, r.body.id);
       const d = await editor.delete(`/api/runs/${r.body.id}`);
       assert.equal(d.status, 200);
-      assert.equal((await editor.get(`/api/labs/${labId}/runs`)).body.length, 0);
+      assert.equal((await editor.get(`/api/labs/${labId}/runs`)).body.items.length, 0);
       await editor.post(`/api/runs/${r.body.id}/restore`).expect(200);
-      assert.equal((await editor.get(`/api/labs/${labId}/runs`)).body.length, 1);
+      assert.equal((await editor.get(`/api/labs/${labId}/runs`)).body.items.length, 1);
       await editor.post(`/api/runs/${r.body.id}/archive`).expect(200);
-      assert.equal((await editor.get(`/api/labs/${labId}/runs`)).body.length, 0);
-      assert.equal((await editor.get(`/api/labs/${labId}/runs?archived=1`)).body.length, 1);
+      assert.equal((await editor.get(`/api/labs/${labId}/runs`)).body.items.length, 0);
+      assert.equal((await editor.get(`/api/labs/${labId}/runs?archived=1`)).body.items.length, 1);
     } finally {
       await t.close();
     }

@@ -55,7 +55,7 @@ test("a one-parameter sweep computes every point with its own seed and stores pe
     );
     assert.deepEqual(seeds, ["sweep-seed.p0", "sweep-seed.p1", "sweep-seed.p2"]);
     // sweep points are not in the run list by default
-    assert.equal((await editor.get(`/api/labs/${labId}/runs`)).body.length, 0);
+    assert.equal((await editor.get(`/api/labs/${labId}/runs`)).body.items.length, 0);
   } finally {
     await t.close();
   }
@@ -101,10 +101,10 @@ test("a cancelled sweep resumes and finishes; bad axes get a 400 naming the fiel
     await editor.delete(`/api/sweeps/${r.body.id}`).expect(200);
     assert.equal((await editor.delete(`/api/sweeps/${r.body.id}`)).status, 409);
     assert.equal((await editor.get(`/api/labs/${labId}/sweeps`)).body.length, 0);
-    assert.equal((await editor.get(`/api/labs/${labId}/runs?sweepPoints=1`)).body.length, 0);
+    assert.equal((await editor.get(`/api/labs/${labId}/runs?sweepPoints=1`)).body.items.length, 0);
     await editor.post(`/api/sweeps/${r.body.id}/restore`).expect(200);
     assert.equal((await editor.get(`/api/labs/${labId}/sweeps`)).body.length, 1);
-    assert.equal((await editor.get(`/api/labs/${labId}/runs?sweepPoints=1`)).body.length, 4);
+    assert.equal((await editor.get(`/api/labs/${labId}/runs?sweepPoints=1`)).body.items.length, 4);
   } finally {
     await t.close();
   }

@@ -5,6 +5,7 @@ import { Screen } from "@/components/ui/screen";
 import { Button } from "@/components/ui/button";
 import { Choice } from "@/components/ui/choice";
 import { RunRow } from "@/components/ui/run-row";
+import { LoadMore } from "@/components/ui/load-more";
 import { EmptyState, ErrorState, LoadingState } from "@/components/ui/states";
 import { useRuns, sortRunsForHome } from "@/components/data/runs";
 import { useCurrentLab } from "@/components/data/current-lab";
@@ -71,6 +72,7 @@ export default function RunsScreen() {
               onPress={() => router.push(`/runs/${r.id}`)}
             />
           ))}
+          <LoadMore list={runs} noun="runs" testID="runs-load-more" />
         </View>
       )}
     </Screen>

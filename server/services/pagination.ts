@@ -1,0 +1,78 @@
+/**
+ * Keyset pagination helpers for the list routes (contract:
+ * shared/schemas/pagination.ts). A cursor is the base64url JSON of the sort
+ * key (an array of strings and numbers) of the last item of a page.
+ */
+import { badRequest } from "@/server/http-error";
+import { PAGE_SIZE, type Page, type PageQuery } from "@/shared/schemas/pagination";
+
+export type SortKey = (string | number)[];
+
+export function encodeCursor(key: SortKey): string {
+  return Buffer.from(JSON.stringify(key), "utf8").toString("base64url");
+}
+
+/** The sort key in a cursor; 400 naming `cursor` when it is not one this server wrote (with `length` parts). */
+export function decodeCursor(cursor: string, length?: number): SortKey {
+  let key: unknown;
+  try {
+    key = JSON.parse(Buffer.from(cursor, "base64url").toString("utf8"));
+  } catch {
+    key = null;
+  }
+  if (
+    !Array.isArray(key) ||
+    key.length === 0 ||
+    (length !== undefined && key.length !== length) ||
+    !key.every((k) => typeof k === "string" || (typeof k === "number" && Number.isFinite(k)))
+  )
+    throw badRequest(
+      "Invalid query: cursor: not a cursor from this list; start again without it.",
+      [{ path: "cursor", message: "not a cursor from this list" }],
+      "invalid",
+    );
+  return key as SortKey;
+}
+
+/** Lexicographic comparison of two sort keys (numbers before strings never mix: keys have fixed types). */
+export function compareKeys(a: SortKey, b: SortKey): number {
+  for (let i = 0; i < a.length; i++) {
+    const x = a[i];
+    const y = b[i];
+    if (x === y) continue;
+    return x < y ? -1 : 1;
+  }
+  return 0;
+}
+
+export function pageLimit(q: PageQuery): number {
+  return q.limit ?? PAGE_SIZE;
+}
+
+/**
+ * One page of a list already in memory (small per-lab lists): sorted by `keyOf`
+ * ascending (make a field descending by negating a number), the items after
+ * the cursor, at most the limit.
+ */
+export function pageInMemory<T>(all: T[], keyOf: (t: T) => SortKey, q: PageQuery): Page<T> {
+  const limit = pageLimit(q);
+  const keyed = all.map((item) => ({ item, key: keyOf(item) })).sort((a, b) => compareKeys(a.key, b.key));
+  const after = q.cursor ? decodeCursor(q.cursor, keyed[0]?.key.length) : null;
+  const rest = after ? keyed.filter((k) => compareKeys(k.key, after) > 0) : keyed;
+  const page = rest.slice(0, limit);
+  return {
+    items: page.map((k) => k.item),
+    nextCursor: rest.length > limit ? encodeCursor(page[page.length - 1].key) : null,
+  };
+}
+
+/** From `limit + 1` rows fetched after the cursor: the page and the next cursor. */
+export function pageFromRows<R, T>(
+  rows: R[],
+  limit: number,
+  keyOf: (r: R) => SortKey,
+  map: (rows: R[]) => T[],
+): Page<T> {
+  const page = rows.slice(0, limit);
+  return { items: map(page), nextCursor: rows.length > limit ? encodeCursor(keyOf(page[page.length - 1])) : null };
+}

@@ -1,0 +1,121 @@
+/**
+ * Cursor pagination of list routes (shared/schemas/pagination.ts): pages in
+ * the documented order, every item once, a null cursor on the last page,
+ * stable when items are added between pages, and a 400 naming the field for a
+ * bad cursor or limit.
+ */
+import { describe, test, before, after } from "node:test";
+import assert from "node:assert/strict";
+import { makeTestContext, signIn, type TestApp } from "@/tests/helpers/test-app";
+import { launchBody } from "@/tests/helpers/run-helpers";
+import { schema } from "@/db/client";
+import { eq } from "drizzle-orm";
+import { RunListPageSchema } from "@/shared/schemas/api-runs";
+import { PAGE_SIZE } from "@/shared/schemas/pagination";
+import { assertContract } from "@/tests/helpers/contract";
+
+describe("run list pages", () => {
+  let t: TestApp;
+  let editor: Awaited<ReturnType<typeof signIn>>;
+  let labId: string;
+  /** Launched ids with the created time and status set by hand. */
+  const made: { id: string; created: number; status: "running" | "queued" | "finished" }[] = [];
+
+  async function make(created: number, status: "running" | "queued" | "finished") {
+    const r = await editor
+      .post(`/api/labs/${labId}/runs`)
+      .send(launchBody({ replicates: 100, seed: `p${made.length}` }));
+    assert.equal(r.status, 201, JSON.stringify(r.body));
+    t.ctx.db
+      .update(schema.runs)
+      .set({ createdAt: new Date(created), status })
+      .where(eq(schema.runs.id, r.body.id))
+      .run();
+    made.push({ id: r.body.id, created, status });
+  }
+
+  before(async () => {
+    t = await makeTestContext();
+    editor = await signIn(t.app, "editor@example.org");
+    labId = t.demoLab!.id;
+    // Two share a created time, so the id breaks the tie.
+    const base = Date.UTC(2026, 0, 1);
+    for (const [minutes, status] of [
+      [1, "finished"],
+      [2, "finished"],
+      [2, "finished"],
+      [3, "queued"],
+      [4, "finished"],
+      [5, "running"],
+      [6, "finished"],
+    ] as const)
+      await make(base + minutes * 60_000, status);
+  });
+  after(async () => t.close());
+
+  /** The documented order: running, queued, then newest first; ties by id. */
+  function expectedOrder(): string[] {
+    const rank = (s: string) => (s === "running" ? 0 : s === "queued" ? 1 : 2);
+    return [...made]
+      .sort((a, b) => rank(a.status) - rank(b.status) || b.created - a.created || (a.id < b.id ? -1 : 1))
+      .map((r) => r.id);
+  }
+
+  async function allPages(limit: number, between?: () => Promise<void>): Promise<{ ids: string[]; pages: number }> {
+    const ids: string[] = [];
+    let cursor: string | null = null;
+    let pages = 0;
+    do {
+      const qs: string = `?limit=${limit}${cursor ? `&cursor=${encodeURIComponent(cursor)}` : ""}`;
+      const r = await editor.get(`/api/labs/${labId}/runs${qs}`).expect(200);
+      assertContract(RunListPageSchema, r.body, "GET /api/labs/:labId/runs");
+      assert.ok(r.body.items.length <= limit);
+      ids.push(...r.body.items.map((i: { id: string }) => i.id));
+      cursor = r.body.nextCursor;
+      pages++;
+      if (pages === 1 && between) await between();
+    } while (cursor);
+    return { ids, pages };
+  }
+
+  test("pages of 3 give every run once, in order, and end with a null cursor", async () => {
+    const { ids, pages } = await allPages(3);
+    assert.deepEqual(ids, expectedOrder());
+    assert.equal(pages, 3, "7 runs in pages of 3");
+  });
+
+  test("the default page holds up to PAGE_SIZE items and says there is no more", async () => {
+    const r = await editor.get(`/api/labs/${labId}/runs`).expect(200);
+    assert.ok(made.length < PAGE_SIZE);
+    assert.equal(r.body.items.length, made.length);
+    assert.equal(r.body.nextCursor, null);
+  });
+
+  test("a run added after the first page does not repeat or shift the later pages", async () => {
+    const before = expectedOrder();
+    const { ids } = await allPages(2, async () => {
+      // First page (2): the running run, then the queued one. A second running run sorts before that cursor.
+      await make(Date.UTC(2026, 0, 1), "running");
+    });
+    assert.equal(new Set(ids).size, ids.length, "no run twice");
+    assert.deepEqual(ids, before, "the new run is before the cursor, so it is not in the later pages");
+    // ...and a fresh walk has it in its place.
+    assert.deepEqual((await allPages(2)).ids, expectedOrder());
+  });
+
+  test("a cursor that is not one, or a limit out of range, is a 400 naming the field", async () => {
+    for (const [qs, field] of [
+      ["cursor=not-a-cursor", "cursor"],
+      [`cursor=${Buffer.from('["x"]').toString("base64url")}`, "cursor"],
+      ["limit=0", "limit"],
+      ["limit=201", "limit"],
+    ]) {
+      const r = await editor.get(`/api/labs/${labId}/runs?${qs}`);
+      assert.equal(r.status, 400, `${qs}: ${JSON.stringify(r.body)}`);
+      assert.ok(
+        r.body.error.fields.some((f: { path: string }) => f.path === field),
+        `${qs}: ${JSON.stringify(r.body.error)}`,
+      );
+    }
+  });
+});
