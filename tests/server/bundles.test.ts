@@ -5,6 +5,7 @@ import { launchBody, realQueue, waitForRun } from "@/tests/helpers/run-helpers";
 import { schema } from "@/db/client";
 import { eq } from "drizzle-orm";
 import { RunDetailSchema } from "@/shared/schemas/api-runs";
+import { RunSettingsBlockSchema, type RunSettingsBlock } from "@/shared/schemas/analysis";
 
 test("bundle export, import into another lab and verified reproduction", async () => {
   const t = await makeTestContext({ queue: realQueue(1) });
@@ -24,6 +25,9 @@ test("bundle export, import into another lab and verified reproduction", async (
     assert.equal(bundle.runtime.node, process.versions.node);
     assert.ok(bundle.runtime.v8);
     assert.ok(bundle.engineVersion);
+    // for readers: the settings block and the method label travel with the bundle
+    assert.equal(RunSettingsBlockSchema.parse(bundle.settings).seed, "bundle-seed");
+    assert.equal(bundle.method.accuracy, "exact");
 
     // Another lab imports it (a member of that lab, who cannot see the original).
     const other = await signIn(t.app, "editor@example.org");
@@ -101,6 +105,12 @@ test("matched control and comparison of a filter with its control", async () => 
     const cmp = await editor.post(`/api/labs/${labId}/compare`).send({ runIds: [r.body.id, c.body.id] });
     assert.equal(cmp.status, 200, JSON.stringify(cmp.body));
     assert.equal(cmp.body.runs.length, 2);
+    // each compared run carries its settings block, so differences can be told: the control keeps the circuit's threshold
+    const [sa, sb] = cmp.body.runs.map((x: { settings: RunSettingsBlock }) => RunSettingsBlockSchema.parse(x.settings));
+    assert.equal(sb.thresholdMolecules, sa.thresholdMolecules);
+    assert.equal(sa.thresholdSource, "default");
+    assert.equal(sb.thresholdSource, "set");
+    assert.equal(sb.method.accuracy, "exact");
     const one = await editor.post(`/api/labs/${labId}/compare`).send({ runIds: [r.body.id] });
     assert.equal(one.status, 400);
     assert.match(one.body.error.message, /at least two/);
