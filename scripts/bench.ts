@@ -1,7 +1,7 @@
 /**
  * npm run bench [-- --json] [--threads N] [--replicates N] [--no-e2e] [--e2e-replicates N]
  *                 [--no-compare] [--repetitions N] [--js-reference] [--with-100k]
- *                 [--no-redis] [--redis-replicates N]
+ *                 [--no-redis] [--redis-replicates N] [--no-regime-map]
  * Without --threads: measures 1 thread and the pool (all cores). With --json the
  * last line is one JSON object: the last measurement's
  * {model, replicates, events, seconds, eventsPerSecond, threads}, plus, when
@@ -20,6 +20,9 @@
  * run embedded (1 and 2 threads) and through a local redis-server with 1 and 2
  * worker processes: ratios and the per-chunk queue overhead (skipped when
  * redis-server is not installed).
+ * Unless --no-regime-map (scripts/bench-regimes.ts): `regimeMap`, a 20 x 20
+ * deterministic-only behaviour map of the three-species timer ring, wall and CPU
+ * seconds against the 30 s target.
  */
 import { runEngineBench, type EngineBenchResult } from "./bench-engine";
 import { runEndToEndBench } from "./bench-e2e";
@@ -27,6 +30,7 @@ import { compareWithReference, replicateScaling, sizeScaling } from "./bench-com
 import { formatRedisBench, runRedisBench } from "./bench-redis";
 import { loadSpecFile } from "@/server/cli/load-spec";
 import { DEFAULT_BENCH_SPEC } from "./bench-engine";
+import { runRegimeMapBench } from "./bench-regimes";
 
 async function main() {
   const argv = process.argv.slice(2);
@@ -120,6 +124,18 @@ async function main() {
     out.distributed = dist;
     if (!json)
       console.log("\n" + ("skipped" in dist ? `Distributed mode skipped: ${dist.skipped}` : formatRedisBench(dist)));
+  }
+  if (!argv.includes("--no-regime-map")) {
+    const m = runRegimeMapBench();
+    out.regimeMap = m;
+    if (!json)
+      console.log(
+        `\nDeterministic-only regime map (${Math.sqrt(m.points)} x ${Math.sqrt(m.points)}, ${m.species}-species timer ring, 1 thread): ` +
+          `${m.seconds.toFixed(2)} s wall, ${m.cpuSeconds.toFixed(2)} s CPU = ${m.ratioToTarget.toFixed(2)}x the ${m.targetSeconds} s target; ` +
+          Object.entries(m.labels)
+            .map(([k, v]) => `${k} ${v}`)
+            .join(", "),
+      );
   }
   if (json) console.log(JSON.stringify(out));
   else if (results.length > 1)
