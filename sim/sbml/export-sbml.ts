@@ -9,8 +9,33 @@
  *   AND = product, OR = 1 - product(1 - h); times the scaling signal if any.
  * Linger's own facts (output species, signal on levels) sit only under the
  * namespaced annotation LINGER_SBML_NS. The input program is not exported.
+ *
+ * Named parameters are global parameters (constant="false" when an event sets
+ * them); a fixed-kind field that follows one reads the global parameter
+ * instead of a local one. Expression rates, event triggers and assignments are
+ * written from their checked trees (./mathml-tree.ts). Events become SBML
+ * events without delay (an `at` event with several times, one event per time,
+ * id NAME__k); triggers have initialValue="true", so a condition already true
+ * at the start does not fire, as in Linger.
  */
 import type { Circuit, Reaction, Regulator } from "@/shared/schemas/circuit";
+import { namesRead, parseExpression, type ExprNode } from "@/sim/circuit/expression";
+import { treeToMathml } from "./mathml-tree";
+
+function scopeOf(circuit: Circuit, allowTime = true) {
+  return {
+    species: new Set(circuit.species.map((s) => s.name)),
+    signals: new Set(circuit.signals.map((s) => s.name)),
+    params: new Set((circuit.parameters ?? []).map((q) => q.name)),
+    allowTime,
+  };
+}
+
+function treeOf(text: string, circuit: Circuit, want: "num" | "bool" = "num", allowTime = true): ExprNode {
+  const r = parseExpression(text, scopeOf(circuit, allowTime), want);
+  if (!r.ok) throw new Error(`cannot export "${text}": ${r.error.message}`);
+  return r.tree;
+}
 
 export const LINGER_SBML_NS = "https://linger.invalid/ns/sbml-annotation/1";
 
@@ -26,35 +51,40 @@ function hill(reg: Regulator, kId: string, nId: string): string {
   return apply("divide", reg.effect === "activates" ? xn : kn, apply("plus", kn, xn));
 }
 
-function kineticLaw(r: Reaction): { math: string; locals: [string, number][] } {
+function kineticLaw(r: Reaction, circuit: Circuit): { math: string; locals: [string, number][] } {
   const locals: [string, number][] = [];
+  /** A local parameter, or the global parameter the field follows. */
+  const local = (id: string, value: number, follows: string | undefined) => {
+    if (follows !== undefined) return follows;
+    locals.push([id, value]);
+    return id;
+  };
   let body: string;
   if (r.rate.kind === "constant") {
-    locals.push(["k", r.rate.ratePerMinute]);
-    body = ci("k");
+    body = ci(local("k", r.rate.ratePerMinute, r.rate.use?.ratePerMinute));
   } else if (r.rate.kind === "massAction") {
-    locals.push(["k", r.rate.ratePerMinute]);
+    const k = local("k", r.rate.ratePerMinute, r.rate.use?.ratePerMinute);
     const [a, b] = r.reactants;
-    if (!a) body = ci("k");
-    else if (b) body = apply("times", ci("k"), ci(a.species), ci(b.species));
-    else if (a.count === 1) body = apply("times", ci("k"), ci(a.species));
-    else body = apply("divide", apply("times", ci("k"), ci(a.species), apply("minus", ci(a.species), cn(1))), cn(2));
+    if (!a) body = ci(k);
+    else if (b) body = apply("times", ci(k), ci(a.species), ci(b.species));
+    else if (a.count === 1) body = apply("times", ci(k), ci(a.species));
+    else body = apply("divide", apply("times", ci(k), ci(a.species), apply("minus", ci(a.species), cn(1))), cn(2));
   } else if (r.rate.kind === "expression") {
-    throw new Error(`reaction "${r.name}": SBML export of expression rates is not available yet`);
+    body = treeToMathml(treeOf(r.rate.formula, circuit));
   } else {
     const rate = r.rate;
-    locals.push(["vmax", rate.maxRatePerMinute], ["leak", rate.leakFraction]);
-    const terms = rate.regulators.map((g) => {
-      locals.push([`K_${g.source}`, g.halfMax], [`n_${g.source}`, g.hill]);
-      return hill(g, `K_${g.source}`, `n_${g.source}`);
-    });
+    const vmax = local("vmax", rate.maxRatePerMinute, rate.use?.maxRatePerMinute);
+    const leak = local("leak", rate.leakFraction, rate.use?.leakFraction);
+    const terms = rate.regulators.map((g) =>
+      hill(g, local(`K_${g.source}`, g.halfMax, g.use?.halfMax), local(`n_${g.source}`, g.hill, g.use?.hill)),
+    );
     const f =
       terms.length === 1
         ? terms[0]
         : rate.logic === "and"
           ? apply("times", ...terms)
           : apply("minus", cn(1), apply("times", ...terms.map((h) => apply("minus", cn(1), h))));
-    body = apply("times", ci("vmax"), apply("plus", ci("leak"), apply("times", apply("minus", cn(1), ci("leak")), f)));
+    body = apply("times", ci(vmax), apply("plus", ci(leak), apply("times", apply("minus", cn(1), ci(leak)), f)));
   }
   if (r.scaledBy) body = apply("times", body, ci(r.scaledBy));
   return { math: `<math xmlns="http://www.w3.org/1998/Math/MathML">${body}</math>`, locals };
@@ -92,9 +122,14 @@ export function exportSbml(circuit: Circuit): string {
       `      <species id="${s.name}" compartment="cell" initialAmount="${s.initialCount}" hasOnlySubstanceUnits="true" boundaryCondition="false" constant="false"/>`,
     );
   L.push(`    </listOfSpecies>`);
-  if (circuit.signals.length > 0) {
+  const assigned = new Set((circuit.events ?? []).flatMap((e) => e.assign.map((a) => a.target)));
+  if (circuit.signals.length > 0 || (circuit.parameters ?? []).length > 0) {
     L.push(`    <listOfParameters>`);
     for (const s of circuit.signals) L.push(`      <parameter id="${s.name}" value="${s.offLevel}" constant="true"/>`);
+    for (const q of circuit.parameters ?? [])
+      L.push(
+        `      <parameter id="${q.name}" value="${q.value}" constant="${assigned.has(q.name) ? "false" : "true"}"/>`,
+      );
     L.push(`    </listOfParameters>`);
   }
   L.push(`    <listOfReactions>`);
@@ -111,24 +146,57 @@ export function exportSbml(circuit: Circuit): string {
     refs("listOfReactants", r.reactants);
     refs("listOfProducts", r.products);
     const reactantNames = new Set(r.reactants.map((e) => e.species));
+    const exprSpecies = r.rate.kind === "expression" ? [...namesRead(treeOf(r.rate.formula, circuit)).species] : [];
     const mods = [
-      ...new Set([...r.modifiers, ...(r.rate.kind === "regulated" ? r.rate.regulators.map((g) => g.source) : [])]),
+      ...new Set([
+        ...r.modifiers,
+        ...(r.rate.kind === "regulated" ? r.rate.regulators.map((g) => g.source) : []),
+        ...exprSpecies,
+      ]),
     ].filter((m) => speciesNames.has(m) && !reactantNames.has(m));
     if (mods.length > 0) {
       L.push(`        <listOfModifiers>`);
       for (const m of mods) L.push(`          <modifierSpeciesReference species="${m}"/>`);
       L.push(`        </listOfModifiers>`);
     }
-    const law = kineticLaw(r);
+    const law = kineticLaw(r, circuit);
     L.push(`        <kineticLaw>`);
     L.push(`          ${law.math}`);
-    L.push(`          <listOfLocalParameters>`);
-    for (const [id, v] of law.locals) L.push(`            <localParameter id="${id}" value="${v}"/>`);
-    L.push(`          </listOfLocalParameters>`);
+    if (law.locals.length > 0) {
+      L.push(`          <listOfLocalParameters>`);
+      for (const [id, v] of law.locals) L.push(`            <localParameter id="${id}" value="${v}"/>`);
+      L.push(`          </listOfLocalParameters>`);
+    }
     L.push(`        </kineticLaw>`);
     L.push(`      </reaction>`);
   }
   L.push(`    </listOfReactions>`);
+  const events = circuit.events ?? [];
+  if (events.length > 0) {
+    const math = (inner: string) => `<math xmlns="http://www.w3.org/1998/Math/MathML">${inner}</math>`;
+    L.push(`    <listOfEvents>`);
+    for (const e of events) {
+      const triggers: [string, ExprNode][] =
+        e.at !== undefined
+          ? e.at.map((t, k) => [
+              e.at!.length === 1 ? e.name : `${e.name}__${k + 1}`,
+              { t: "cmp", op: ">=", a: { t: "time" }, b: { t: "num", v: t } },
+            ])
+          : [[e.name, treeOf(e.when!, circuit, "bool")]];
+      for (const [id, trig] of triggers) {
+        L.push(`      <event id="${id}" useValuesFromTriggerTime="true">`);
+        L.push(`        <trigger initialValue="true" persistent="true">${math(treeToMathml(trig))}</trigger>`);
+        L.push(`        <listOfEventAssignments>`);
+        for (const a of e.assign)
+          L.push(
+            `          <eventAssignment variable="${a.target}">${math(treeToMathml(treeOf(a.value, circuit, "num", false)))}</eventAssignment>`,
+          );
+        L.push(`        </listOfEventAssignments>`);
+        L.push(`      </event>`);
+      }
+    }
+    L.push(`    </listOfEvents>`);
+  }
   L.push(`  </model>`);
   L.push(`</sbml>`);
   return L.join("\n") + "\n";

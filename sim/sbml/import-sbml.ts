@@ -7,17 +7,31 @@
  * kinetic laws), boundary and constant species (never changed by reactions; they
  * enter rates as their initial value), global and local parameters, initial
  * assignments evaluating to constants, reactions with whole stoichiometries,
- * and kinetic laws that equal one of Linger's fixed kinds exactly:
+ * and kinetic laws: those that equal one of Linger's fixed kinds exactly
  *   constant c (no reactants), k*A, k*A*B, k*A*(A-1)/2 (as a polynomial in the
- *   changing species' amounts, after folding every constant in).
+ *   changing species' amounts, after folding every constant in)
+ * become that kind; any other law becomes an expression rate (./mathml-tree.ts;
+ * MathML log without a base is base 10), with the global parameters it reads in
+ * the circuit's parameter table, compartments and local parameters as numbers.
+ * Events without delay or priority become Linger events (trigger on species or
+ * on time alone; assignments to species amounts or global parameters; a law
+ * that reads a parameter some event assigns is always an expression).
  * In the stochastic reading of SBML the kinetic law is the propensity in
  * molecules per model time unit; Linger reads the model time unit as minutes.
  *
- * Everything else (rules, events, function definitions, constraints, delays,
- * other kinetic forms, packages, other levels) is refused: the result lists
+ * Everything else (rules, function definitions, constraints, delays,
+ * priorities, packages, other levels) is refused: the result lists
  * every refused element with its id, line and reason, and no circuit is made.
  */
-import { CircuitSchema, NameSchema, type Circuit, type Reaction, type StoichEntry } from "@/shared/schemas/circuit";
+import {
+  CircuitSchema,
+  NameSchema,
+  type Circuit,
+  type CircuitEvent,
+  type Parameter,
+  type Reaction,
+  type StoichEntry,
+} from "@/shared/schemas/circuit";
 import { semanticErrors } from "@/sim/circuit/validate-circuit";
 import {
   constantValue,
@@ -28,6 +42,8 @@ import {
   type SymbolValue,
 } from "./mathml";
 import { child, parseXml, XmlSyntaxError, type XmlElement } from "./xml";
+import { mathmlToTree } from "./mathml-tree";
+import { parseExpression, treeToText, type ExprNode } from "@/sim/circuit/expression";
 
 export interface SbmlProblem {
   /** The SBML element name (species, reaction, kineticLaw, ...). */
@@ -51,13 +67,13 @@ const SUPPORTED_MODEL_CHILDREN = new Set([
   "listOfParameters",
   "listOfInitialAssignments",
   "listOfReactions",
+  "listOfEvents",
 ]);
 
 const REFUSED_REASONS: Record<string, string> = {
   listOfFunctionDefinitions: "function definitions are not supported",
   listOfRules: "rules (assignment, rate and algebraic) are not supported",
   listOfConstraints: "constraints are not supported",
-  listOfEvents: "events are not supported",
 };
 
 function idOf(el: XmlElement): string | null {
@@ -246,6 +262,48 @@ export function importSbml(source: string): SbmlImport {
     else circuitSpecies.push({ name: s.id, initialCount: Math.round(amount) });
   }
 
+  // Global parameters that expressions or events read or set become circuit parameters.
+  const isParam = (id: string) => constantEls.get(id)?.name === "parameter";
+  const usedParams = new Set<string>();
+  const eventEls = listItems(model, "listOfEvents", "event");
+  const assignedParams = new Set(
+    eventEls.flatMap((e) =>
+      (child(e, "listOfEventAssignments")?.children ?? []).map((a) => a.attrs.variable ?? "").filter(isParam),
+    ),
+  );
+  const ciIds = (el: XmlElement): string[] => (el.name === "ci" ? [el.text] : el.children.flatMap((c) => ciIds(c)));
+  /** A <ci> in an expression: species amount (/ size for a concentration), parameter name or number. */
+  const exprResolve =
+    (local: Map<string, number>, rid: string | null) =>
+    (id: string, line: number): ExprNode => {
+      if (local.has(id)) return { t: "num", v: local.get(id)! };
+      const s = species.get(id);
+      if (s && !s.fixed) {
+        const node: ExprNode = { t: "name", kind: "species", name: id };
+        if (s.onlySubstance) return node;
+        const size = constants.get(s.compartment);
+        if (size === undefined || size <= 0)
+          throw new MathRefusal(`compartment "${s.compartment}" of species "${id}" has no positive size`, line);
+        return size === 1 ? node : { t: "bin", op: "/", a: node, b: { t: "num", v: size } };
+      }
+      if (rid !== null && id === rid)
+        throw new MathRefusal(`the reaction's own id "${id}" cannot appear in its kinetic law`, line);
+      if (isParam(id) && constants.has(id)) {
+        const name = NameSchema.safeParse(id);
+        if (!name.success || id === "time")
+          throw new MathRefusal(`parameter id "${id}" cannot be a Linger parameter name`, line);
+        usedParams.add(id);
+        return { t: "name", kind: "param", name: id };
+      }
+      const v = constResolve()(id, line);
+      return { t: "num", v: v.kind === "constant" ? v.value : NaN };
+    };
+  const exprScope = () => ({
+    species: new Set([...species.values()].filter((s) => !s.fixed).map((s) => s.id)),
+    signals: new Set<string>(),
+    params: new Set(usedParams),
+  });
+
   // Reactions.
   const reactions: Reaction[] = [];
   for (const el of listItems(model, "listOfReactions", "reaction")) {
@@ -337,6 +395,8 @@ export function importSbml(source: string): SbmlImport {
     };
     let rate: Reaction["rate"] | null = null;
     try {
+      if (ciIds(math).some((id) => assignedParams.has(id) && !local.has(id)))
+        throw new MathRefusal("reads a parameter that an event assigns", law.line);
       const poly = toPolynomial(math, resolve);
       const k = reactants.length === 0 ? constantValue(poly) : leadingCoefficient(poly, reactants);
       if (k === null) throw new MathRefusal(lawMismatch(reactants), law.line);
@@ -356,12 +416,76 @@ export function importSbml(source: string): SbmlImport {
       rate = reactants.length === 0 ? { kind: "constant", ratePerMinute: k } : { kind: "massAction", ratePerMinute: k };
     } catch (e) {
       if (!(e instanceof MathRefusal)) throw e;
-      problems.push({ element: "kineticLaw", id: rid, line: e.line, reason: e.message });
+      // not a fixed kind: an expression rate
+      try {
+        const tree = mathmlToTree(math, exprResolve(local, rid));
+        const formula = treeToText(tree);
+        const check = parseExpression(formula, exprScope());
+        if (!check.ok) throw new MathRefusal(`as an expression: ${check.error.message}`, law.line);
+        rate = { kind: "expression", formula };
+      } catch (e2) {
+        if (!(e2 instanceof MathRefusal)) throw e2;
+        problems.push({ element: "kineticLaw", id: rid, line: e2.line, reason: e2.message });
+      }
     }
     if (problems.length === before && rate) reactions.push({ name: rid, reactants, products, modifiers, rate });
   }
 
+  // Events.
+  const events: CircuitEvent[] = [];
+  for (const el of eventEls) {
+    const eid = el.attrs.id ?? `event${events.length + 1}`;
+    const ename = NameSchema.safeParse(eid);
+    if (!ename.success) refuse(el, `id "${eid}" cannot be a Linger event name: ${ename.error.issues[0].message}`, eid);
+    if (child(el, "delay")) refuse(el, "event delays are not supported", eid);
+    if (child(el, "priority"))
+      refuse(el, "event priorities are not supported (Linger fires events in list order)", eid);
+    const trig = child(el, "trigger");
+    const tmath = trig && child(trig, "math");
+    if (!trig || !tmath) {
+      refuse(el, "event has no trigger", eid);
+      continue;
+    }
+    try {
+      const cond = mathmlToTree(tmath, exprResolve(new Map(), null));
+      const when = treeToText(cond);
+      const check = parseExpression(when, exprScope(), "bool");
+      if (!check.ok) throw new MathRefusal(`trigger: ${check.error.message}`, trig.line);
+      const assign: CircuitEvent["assign"] = [];
+      for (const a of child(el, "listOfEventAssignments")?.children ?? []) {
+        if (a.name !== "eventAssignment") continue;
+        const target = a.attrs.variable ?? "";
+        const amath = child(a, "math");
+        if (!amath) throw new MathRefusal(`assignment to "${target}" has no <math>`, a.line);
+        let value = mathmlToTree(amath, exprResolve(new Map(), null));
+        const s = species.get(target);
+        if (s) {
+          if (s.fixed)
+            throw new MathRefusal(
+              `species "${target}" is a boundary or constant species; events may not set it`,
+              a.line,
+            );
+          if (!s.onlySubstance) {
+            const size = constants.get(s.compartment) ?? NaN;
+            if (size !== 1) value = { t: "bin", op: "*", a: value, b: { t: "num", v: size } };
+          }
+        } else if (isParam(target)) usedParams.add(target);
+        else throw new MathRefusal(`assignment target "${target}" is not a species or parameter`, a.line);
+        const text = treeToText(value);
+        const vcheck = parseExpression(text, { ...exprScope(), allowTime: false });
+        if (!vcheck.ok) throw new MathRefusal(`assignment to "${target}": ${vcheck.error.message}`, a.line);
+        assign.push({ target, value: text });
+      }
+      if (assign.length === 0) throw new MathRefusal("event has no assignments", el.line);
+      events.push({ name: eid, when, assign });
+    } catch (e) {
+      if (!(e instanceof MathRefusal)) throw e;
+      problems.push({ element: "event", id: eid, line: e.line, reason: e.message });
+    }
+  }
+
   if (problems.length > 0) return { ok: false, problems };
+  const parameters: Parameter[] = [...usedParams].map((id) => ({ name: id, value: constants.get(id)! }));
   const output = [...species.values()].find((s) => !s.fixed) ?? [...species.values()][0];
   const candidate = {
     name: (model.attrs.name || model.attrs.id || "Imported SBML model").slice(0, 120),
@@ -369,6 +493,8 @@ export function importSbml(source: string): SbmlImport {
     species: circuitSpecies,
     signals: [],
     reactions,
+    ...(parameters.length > 0 ? { parameters } : {}),
+    ...(events.length > 0 ? { events } : {}),
     outputSpecies: output?.id ?? "",
   };
   const parsed = CircuitSchema.safeParse(candidate);

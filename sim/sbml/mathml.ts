@@ -58,7 +58,7 @@ export function constantValue(p: Polynomial): number | null {
   return v;
 }
 
-function cnValue(el: XmlElement): number {
+export function cnValue(el: XmlElement): number {
   const type = el.attrs.type ?? "real";
   const parts = el.text.split(/\s+/).filter((s) => s !== "");
   const num = (s: string | undefined) => {
