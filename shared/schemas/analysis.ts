@@ -440,6 +440,7 @@ export const AccelerationSchema = z.object({
   /** Kaplan-Meier median response delays pooled over the durations passed in most pulses (delayCoverage), and circuit minus control. */
   medianDelayCircuit: nnum,
   medianDelayControl: nnum,
+  /** null unless both runs pooled the same durations (their delayCoverage), so the two medians describe the same pulses. */
   medianDelayDifference: nnum,
   /** Median delays for long pulses (the delay cost), and circuit minus control. */
   longPulseDelayCircuit: nnum,

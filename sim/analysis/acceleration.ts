@@ -56,6 +56,11 @@ export function halfRiseTime(specInput: RunSpec): number | null {
 }
 
 const diff = (a: number | null, b: number | null) => (a !== null && b !== null ? a - b : null);
+const sameDurations = (a: RunSummary, b: RunSummary) => {
+  const x = a.delayCoverage?.durations ?? [];
+  const y = b.delayCoverage?.durations ?? [];
+  return x.length === y.length && x.every((d, i) => d === y[i]);
+};
 
 export function accelerationFigures(input: {
   circuitSpec: RunSpec;
@@ -75,7 +80,8 @@ export function accelerationFigures(input: {
     halfRiseRatio: hc !== null && hk !== null && hc > 0 ? hk / hc : null,
     medianDelayCircuit: dc,
     medianDelayControl: dk,
-    medianDelayDifference: diff(dc, dk),
+    // Pooled delays compare only when both runs pooled the same durations (delayCoverage): else null.
+    medianDelayDifference: sameDurations(input.circuitSummary, input.controlSummary) ? diff(dc, dk) : null,
     longPulseDelayCircuit: lc,
     longPulseDelayControl: lk,
     longPulseDelayDifference: diff(lc, lk),

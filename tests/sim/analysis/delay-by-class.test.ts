@@ -10,7 +10,9 @@ import { test, describe } from "node:test";
 import assert from "node:assert/strict";
 import type { PulseStat } from "@/shared/schemas/run-spec";
 import { RunSummarySchema } from "@/shared/schemas/analysis";
-import { summarizeRun } from "@/sim/analysis";
+import { accelerationFigures, summarizeRun } from "@/sim/analysis";
+import { RunSpecSchema } from "@/shared/schemas/run-spec";
+import { templates } from "@/sim";
 import { kaplanMeier, kmQuantile } from "@/sim/stats";
 
 const threshold = { theta: 20, downTheta: 16, hysteresis: 0.2, windowMinutes: 30, outputLifetimeMinutes: 10 };
@@ -111,5 +113,36 @@ describe("response delay per duration class", () => {
     assert.equal(t.byDuration[0].pulses, 0);
     assert.equal(t.byDuration[0].medianDelayStatus, "no-pulses");
     assert.deepEqual(t.delayCoverage.leftOut, [2, 20]);
+  });
+});
+
+describe("acceleration figures compare pooled delays of the same pulses only", () => {
+  const spec = RunSpecSchema.parse({
+    circuit: templates.simple.circuit,
+    inputSignal: templates.simple.inputSignal,
+    program: { kind: "periodic", start: 50, onDuration: 60, offDuration: 140 },
+    endTimeMinutes: 600,
+    gridStepMinutes: 2,
+    replicates: 10,
+    seed: "acc",
+  });
+  const all = summarizeRun({ pulses: records(), replicates, threshold, noiseDurationMinutes: 10 });
+  // the same records with 20-min pulses all passing: the pooled delay then covers 20 and 60 min
+  const more = summarizeRun({
+    pulses: records().map((p) => (p.durationBin === 20 ? { ...p, passed: true, delay: 12 } : p)),
+    replicates,
+    threshold,
+    noiseDurationMinutes: 10,
+  });
+  test("same durations pooled: the difference is given", () => {
+    const a = accelerationFigures({ circuitSpec: spec, circuitSummary: all, controlSpec: spec, controlSummary: all });
+    assert.equal(a.medianDelayDifference, 0);
+  });
+  test("different durations pooled: no difference, although both medians are shown", () => {
+    assert.deepEqual(more.delayCoverage.durations, [20, 60]);
+    const a = accelerationFigures({ circuitSpec: spec, circuitSummary: more, controlSpec: spec, controlSummary: all });
+    assert.equal(a.medianDelayDifference, null);
+    assert.notEqual(a.medianDelayCircuit, null);
+    assert.notEqual(a.medianDelayControl, null);
   });
 });
