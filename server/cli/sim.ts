@@ -139,9 +139,22 @@ export async function runCli(argv: string[]): Promise<void> {
     gridStepMinutes: args.gridStep,
   });
   if (args.exportSbml) {
-    writeFileSync(args.exportSbml, exportSbml(spec.circuit));
+    const program = spec.program === undefined ? null : runSetup(spec).sharedProgram;
+    if (spec.program !== undefined && program === null)
+      usage("an input program drawn per replicate cannot be exported to SBML (its switch times differ per replicate)");
+    writeFileSync(
+      args.exportSbml,
+      exportSbml(
+        spec.circuit,
+        program && spec.inputSignal !== undefined
+          ? { signal: spec.inputSignal, switchTimes: program.switchTimes, levels: program.levels }
+          : undefined,
+      ),
+    );
     if (!args.quiet)
-      process.stderr.write(`wrote ${args.exportSbml} (SBML Level 3 Version 2; input program not included)\n`);
+      process.stderr.write(
+        `wrote ${args.exportSbml} (SBML Level 3 Version 2; ${program ? "input program as events" : "no input program"})\n`,
+      );
     return;
   }
   const noInput = spec.program === undefined;

@@ -8,7 +8,13 @@
  *   regulated: vmax*(leak + (1-leak)*f), Hill terms x^n/(K^n+x^n) or K^n/(K^n+x^n),
  *   AND = product, OR = 1 - product(1 - h); times the scaling signal if any.
  * Linger's own facts (output species, signal on levels) sit only under the
- * namespaced annotation LINGER_SBML_NS. The input program is not exported.
+ * namespaced annotation LINGER_SBML_NS.
+ *
+ * An input program, when given (its compiled switch times and levels), is
+ * exported as events: the driven signal's parameter becomes constant="false"
+ * and an event `<signal>_switch_<k>` sets it to each switch's level at the
+ * switch time (time >= t). These events fire before the circuit's own events
+ * at the same time, as in Linger.
  *
  * Named parameters are global parameters (constant="false" when an event sets
  * them); a fixed-kind field that follows one reads the global parameter
@@ -90,8 +96,17 @@ function kineticLaw(r: Reaction, circuit: Circuit): { math: string; locals: [str
   return { math: `<math xmlns="http://www.w3.org/1998/Math/MathML">${body}</math>`, locals };
 }
 
-/** The circuit as an SBML Level 3 Version 2 document. */
-export function exportSbml(circuit: Circuit): string {
+/** The input program to export with a circuit: the driven signal and its switches. */
+export interface ExportProgram {
+  signal: string;
+  switchTimes: ArrayLike<number>;
+  levels: ArrayLike<number>;
+}
+
+/** The circuit (and optionally its input program) as an SBML Level 3 Version 2 document. */
+export function exportSbml(circuit: Circuit, program?: ExportProgram): string {
+  if (program && !circuit.signals.some((s) => s.name === program.signal))
+    throw new Error(`input signal "${program.signal}" is not a signal of the circuit`);
   const L: string[] = [];
   L.push(`<?xml version="1.0" encoding="UTF-8"?>`);
   L.push(`<sbml xmlns="http://www.sbml.org/sbml/level3/version2/core" level="3" version="2">`);
@@ -125,7 +140,10 @@ export function exportSbml(circuit: Circuit): string {
   const assigned = new Set((circuit.events ?? []).flatMap((e) => e.assign.map((a) => a.target)));
   if (circuit.signals.length > 0 || (circuit.parameters ?? []).length > 0) {
     L.push(`    <listOfParameters>`);
-    for (const s of circuit.signals) L.push(`      <parameter id="${s.name}" value="${s.offLevel}" constant="true"/>`);
+    for (const s of circuit.signals)
+      L.push(
+        `      <parameter id="${s.name}" value="${s.offLevel}" constant="${program?.signal === s.name && program.switchTimes.length > 0 ? "false" : "true"}"/>`,
+      );
     for (const q of circuit.parameters ?? [])
       L.push(
         `      <parameter id="${q.name}" value="${q.value}" constant="${assigned.has(q.name) ? "false" : "true"}"/>`,
@@ -172,9 +190,19 @@ export function exportSbml(circuit: Circuit): string {
   }
   L.push(`    </listOfReactions>`);
   const events = circuit.events ?? [];
-  if (events.length > 0) {
+  const switches = program ? program.switchTimes.length : 0;
+  if (events.length > 0 || switches > 0) {
     const math = (inner: string) => `<math xmlns="http://www.w3.org/1998/Math/MathML">${inner}</math>`;
     L.push(`    <listOfEvents>`);
+    for (let k = 0; k < switches; k++) {
+      const trig: ExprNode = { t: "cmp", op: ">=", a: { t: "time" }, b: { t: "num", v: program!.switchTimes[k] } };
+      L.push(`      <event id="${program!.signal}_switch_${k + 1}" useValuesFromTriggerTime="true">`);
+      L.push(`        <trigger initialValue="true" persistent="true">${math(treeToMathml(trig))}</trigger>`);
+      L.push(
+        `        <listOfEventAssignments><eventAssignment variable="${program!.signal}">${math(`<cn>${program!.levels[k]}</cn>`)}</eventAssignment></listOfEventAssignments>`,
+      );
+      L.push(`      </event>`);
+    }
     for (const e of events) {
       const triggers: [string, ExprNode][] =
         e.at !== undefined

@@ -41,7 +41,7 @@ const dsmts = (id: string): Circuit => {
 test("every template circuit and two DSMTS circuits export to SBML with no libSBML errors", () => {
   const circuits = [...Object.values(templates).map((t) => t.circuit), dsmts("00001"), dsmts("00020")];
   assert.ok(circuits.some((c) => c.reactions.some((r) => r.rate.kind === "regulated")));
-  const docs = circuits.map(exportSbml);
+  const docs = circuits.map((c) => exportSbml(c));
   assert.deepEqual(
     libsbmlErrors(docs),
     docs.map(() => []),
