@@ -132,7 +132,17 @@ export const DelayCoverageSchema = z.object({
 });
 export type DelayCoverage = z.infer<typeof DelayCoverageSchema>;
 
-/** A median read from a Kaplan-Meier curve: a number, "not reached" (fewer than half responded), or no pulses. */
+/** What a summary stored before the pooled delay was restricted says about its coverage (it pooled every pulse). */
+const LEGACY_DELAY_COVERAGE = {
+  durations: [],
+  leftOut: [],
+  pulses: 0,
+  text: "All evaluable pulses of every duration (a summary stored before the pooled delay was restricted to the durations passed in most pulses): read the delay per duration instead.",
+};
+
+/**
+ * A median read from a Kaplan-Meier curve (optional: absent in summaries stored before it existed; null median
+ * with pulses then means not reached): a number, "not reached" (fewer than half responded), or no pulses. */
 export const MedianStatusSchema = z.enum(["estimate", "not-reached", "no-pulses"]);
 
 export const ByDurationEntrySchema = z.object({
@@ -149,7 +159,7 @@ export const ByDurationEntrySchema = z.object({
   medianDelay: nnum,
   medianDelayCi: openInterval,
   /** Whether medianDelay is a number, "not reached" or undefined (no pulses). */
-  medianDelayStatus: MedianStatusSchema,
+  medianDelayStatus: MedianStatusSchema.optional(),
   /** Evaluable pulses with no response in their window. */
   censored: count,
   /** Pulses that started with the output already above threshold. */
@@ -179,7 +189,7 @@ export const DelaySummarySchema = z.object({
   /** Kaplan-Meier median with a Brookmeyer-Crowley 95% interval; null = not reached (see medianStatus). */
   median: nnum,
   medianCi: openInterval,
-  medianStatus: MedianStatusSchema,
+  medianStatus: MedianStatusSchema.optional(),
   /** Kaplan-Meier quantiles of the delay; null = not reached. */
   quantiles: z.object({ q10: nnum, q25: nnum, q50: nnum, q75: nnum, q90: nnum }),
   /** Plain description of the observed (uncensored) delays only. */
@@ -263,7 +273,7 @@ export const DelayCostSchema = z.object({
   responded: count,
   medianDelay: nnum,
   medianDelayCi: openInterval,
-  medianDelayStatus: MedianStatusSchema,
+  medianDelayStatus: MedianStatusSchema.optional(),
   meanObservedDelay: nnum,
 });
 export type DelayCost = z.infer<typeof DelayCostSchema>;
@@ -324,7 +334,7 @@ export const RunSummarySchema = z.object({
    * the delay of every duration class is in byDuration (Kaplan-Meier within the class).
    */
   delay: DelaySummarySchema,
-  delayCoverage: DelayCoverageSchema,
+  delayCoverage: DelayCoverageSchema.default(LEGACY_DELAY_COVERAGE),
   offDelay: DelaySummarySchema,
   delayCost: DelayCostSchema.nullable(),
   widths: z.object({ summary: DescriptionSchema, histogram: HistogramSchema }),

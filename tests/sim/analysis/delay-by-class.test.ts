@@ -63,8 +63,14 @@ describe("response delay per duration class", () => {
   const pulses = records();
   const s = summarizeRun({ pulses, replicates, threshold, noiseDurationMinutes: 10 });
 
-  test("the summary satisfies its schema", () => {
+  test("the summary satisfies its schema; a summary stored before these fields still parses, and says what it pooled", () => {
     RunSummarySchema.parse(s);
+    const old = structuredClone(s) as Record<string, unknown> & typeof s;
+    delete (old as Partial<typeof s>).delayCoverage;
+    delete (old.delay as Partial<typeof s.delay>).medianStatus;
+    for (const e of old.byDuration) delete (e as Partial<typeof e>).medianDelayStatus;
+    const parsed = RunSummarySchema.parse(old);
+    assert.match(parsed.delayCoverage.text, /^All evaluable pulses of every duration/);
   });
 
   test("Kaplan-Meier within a class; 'not reached' when fewer than half respond", () => {
