@@ -219,9 +219,12 @@ export function createRedisDispatcher(opts: RedisDispatcherOptions): ChunkDispat
       clearInterval(reconcileTimer);
       clearInterval(statsTimer);
       waiters.clear();
-      const done = Promise.allSettled([results.close(), chunks.close(), resultsQueue.close()]);
-      // With Redis down, closing waits for a reconnect that may never come: give up after a few seconds.
-      await Promise.race([done, new Promise((r) => setTimeout(r, 3000).unref())]);
+      const done = Promise.allSettled([results.close(), chunks.close(), resultsQueue.close()]).then(() => true);
+      // With Redis down, closing waits for a reconnect that may never come: force it after a few seconds
+      // (a result being stored then is redelivered to the next server, and ignored if already stored).
+      const sleep = (ms: number) => new Promise<false>((r) => setTimeout(() => r(false), ms).unref());
+      if (!(await Promise.race([done, sleep(3000)])))
+        await Promise.race([results.close(true).catch(() => {}), sleep(1000)]);
       conn.disconnect();
       resultsConn.disconnect();
     },

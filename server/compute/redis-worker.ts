@@ -183,10 +183,15 @@ export function createChunkWorker(opts: ChunkWorkerOptions): ChunkWorker {
         if (busy > 0) log(`handing ${busy} unfinished chunk(s) back to the queue`);
         for (const f of [...handBack]) f(new HandBack("shutting down"));
       }, drainMs);
-      await closing;
+      // Redis down while closing: BullMQ would wait for it; force the close a few seconds after the drain time.
+      const force = new Promise<void>((r) =>
+        setTimeout(() => void worker.close(true).then(r, r), drainMs + 5000).unref(),
+      );
+      await Promise.race([closing, force]);
       clearTimeout(timer);
-      await resultsQueue.close().catch(() => {});
-      await conn.del(HEARTBEAT_KEY(id)).catch(() => {});
+      const sleep = (ms: number) => new Promise((r) => setTimeout(r, ms).unref());
+      await Promise.race([resultsQueue.close().catch(() => {}), sleep(2000)]);
+      if (conn.status === "ready") await Promise.race([conn.del(HEARTBEAT_KEY(id)).catch(() => {}), sleep(1000)]);
       conn.disconnect();
       await pool.destroy();
     },

@@ -23,11 +23,14 @@ import { createChunkWorker } from "@/server/compute/redis-worker";
 import type { RunQueue } from "@/server/compute/run-queue";
 
 const skip = redisSkipReason();
-// 3,000 replicates of the simple circuit over 200 min: 30 chunks, a few seconds of compute.
-const body = () => launchBody({ template: "simple", replicates: 3000, seed: "redis-same-seed", endTimeMinutes: 200 });
-const CHUNKS = 30;
-// A short lock so a killed worker's chunk is retried within about 2 s (the default is 30 s).
-const FAST_STALL = { LINGER_WORKER_LOCK_SECONDS: "1" };
+// 1,200 replicates of the simple circuit over 200 min: 12 chunks, a few seconds of compute.
+const REPLICATES = 1200;
+const CHUNKS = 12;
+const body = () =>
+  launchBody({ template: "simple", replicates: REPLICATES, seed: "redis-same-seed", endTimeMinutes: 200 });
+// Shared workers: a short lock so a killed worker's chunk is retried within about 2 s (the default is 30 s),
+// and no drain time so SIGTERM hands a running chunk back at once.
+const WORKER_ENV = { LINGER_WORKER_LOCK_SECONDS: "1", LINGER_WORKER_DRAIN_SECONDS: "0" };
 
 async function launch(t: TestApp) {
   const editor = await signIn(t.app, "editor@example.org");
@@ -36,16 +39,31 @@ async function launch(t: TestApp) {
   return { editor, id: r.body.id as string };
 }
 
-/** Resolves once the run has at least n chunks stored. */
-function afterChunks(queue: RunQueue, runId: string, n: number, total = 3000) {
-  return new Promise<void>((res) => {
+/** Resolves once the run has at least n chunks stored; rejects if it ends first or after 60 s. */
+function afterChunks(queue: RunQueue, runId: string, n: number, total = REPLICATES) {
+  return new Promise<void>((res, rej) => {
+    const stop = () => {
+      clearTimeout(timer);
+      queue.events.off("progress", on);
+      queue.events.off("ended", ended);
+    };
     const on = (p: { runId: string; replicatesDone: number }) => {
       if (p.runId === runId && p.replicatesDone >= (n * total) / CHUNKS) {
-        queue.events.off("progress", on);
+        stop();
         res();
       }
     };
+    const ended = (e: { runId: string; status: string }) => {
+      if (e.runId !== runId) return;
+      stop();
+      rej(new Error(`run ${runId} ended ${e.status} before ${n} chunks were stored`));
+    };
+    const timer = setTimeout(() => {
+      stop();
+      rej(new Error(`run ${runId}: fewer than ${n} chunks stored after 60 s`));
+    }, 60_000);
     queue.events.on("progress", on);
+    queue.events.on("ended", ended);
   });
 }
 
@@ -64,13 +82,18 @@ function storedCounts(t: TestApp, runId: string) {
 }
 
 function assertStoredOnce(t: TestApp, runId: string) {
-  assert.deepEqual(storedCounts(t, runId), { chunks: CHUNKS, replicates: 3000, distinctReplicates: 3000 });
+  assert.deepEqual(storedCounts(t, runId), { chunks: CHUNKS, replicates: REPLICATES, distinctReplicates: REPLICATES });
 }
 
-describe("distributed mode (BullMQ on Redis)", { skip: skip ?? false }, () => {
+describe("distributed mode (BullMQ on Redis)", { skip: skip ?? false, timeout: 300_000 }, () => {
   let embeddedHash = "";
   let redis: RedisHandle;
-  const workers: WorkerProcess[] = [];
+  /** The two shared worker processes (started in the first test, replaced when a test stops one). */
+  let workers: WorkerProcess[] = [];
+  const replace = async (gone: WorkerProcess) => {
+    workers = workers.filter((w) => w !== gone);
+    workers.push(await startWorker(redis.url, WORKER_ENV));
+  };
 
   before(async () => {
     const t = await makeTestContext({ queue: realQueue(1) });
@@ -90,96 +113,7 @@ describe("distributed mode (BullMQ on Redis)", { skip: skip ?? false }, () => {
     await redis?.stop();
   });
 
-  test("two worker processes store the embedded pool's statistics hash", async () => {
-    const pair = await Promise.all([startWorker(redis.url), startWorker(redis.url)]);
-    workers.push(...pair);
-    const t = await makeTestContext({ queue: redisQueue(redis.url) });
-    try {
-      const { editor, id } = await launch(t);
-      const done = await waitForRun(editor, id, 60_000);
-      assert.equal(done.status, "finished");
-      assert.equal(done.statsHash, embeddedHash);
-      assertStoredOnce(t, id);
-      // Both workers took part (30 chunks, fed four or more at a time).
-      const health = await editor.get("/api/health").expect(200);
-      const compute = health.body.compute;
-      assert.equal(compute.mode, "redis");
-      assert.equal(compute.redis, "connected");
-      assert.equal(compute.workers.length, 2);
-      for (const w of compute.workers)
-        assert.ok(w.chunksDone > 0, `a worker did no chunk: ${JSON.stringify(compute.workers)}`);
-      assert.ok(Date.now() - Date.parse(compute.workers[0].lastHeartbeat) < 30_000);
-    } finally {
-      await t.close();
-      await Promise.all(pair.map((w) => stopWorker(w)));
-      workers.splice(0);
-    }
-  });
-
-  test("a worker SIGKILLed mid-run: its chunk is retried after the stall timeout, stored once, same hash", async () => {
-    const [a, b] = await Promise.all([startWorker(redis.url, FAST_STALL), startWorker(redis.url, FAST_STALL)]);
-    workers.push(a, b);
-    const t = await makeTestContext({ queue: redisQueue(redis.url) });
-    try {
-      const { editor, id } = await launch(t);
-      await afterChunks(t.ctx.queue, id, 3);
-      a.proc.kill("SIGKILL");
-      const { signal } = await a.exited;
-      assert.equal(signal, "SIGKILL");
-      const done = await waitForRun(editor, id, 60_000);
-      assert.equal(done.status, "finished");
-      assert.equal(done.statsHash, embeddedHash);
-      assertStoredOnce(t, id);
-    } finally {
-      await t.close();
-      await stopWorker(b);
-      workers.splice(0);
-    }
-  });
-
-  test("Redis restarted mid-run (its data lost): the server re-queues what it waits for, same hash", async () => {
-    const w = await startWorker(redis.url);
-    workers.push(w);
-    const t = await makeTestContext({ queue: redisQueue(redis.url) });
-    try {
-      const { editor, id } = await launch(t);
-      await afterChunks(t.ctx.queue, id, 3);
-      await redis.restart();
-      const done = await waitForRun(editor, id, 60_000);
-      assert.equal(done.status, "finished");
-      assert.equal(done.statsHash, embeddedHash);
-      assertStoredOnce(t, id);
-    } finally {
-      await t.close();
-      await stopWorker(w);
-      workers.splice(0);
-    }
-  });
-
-  test("the server restarted mid-run: stored chunks are kept, only missing ones are queued, same hash", async () => {
-    const w = await startWorker(redis.url);
-    workers.push(w);
-    const t = await makeTestContext({ queue: redisQueue(redis.url) });
-    try {
-      const { editor, id } = await launch(t);
-      await afterChunks(t.ctx.queue, id, 5);
-      await t.ctx.queue.close();
-      const before = storedCounts(t, id).chunks;
-      assert.ok(before >= 5 && before < CHUNKS, `stored ${before} chunks before the restart`);
-      t.ctx.queue = redisQueue(redis.url)(t.ctx);
-      t.ctx.queue.kick();
-      const done = await waitForRun(editor, id, 60_000);
-      assert.equal(done.status, "finished");
-      assert.equal(done.statsHash, embeddedHash);
-      assertStoredOnce(t, id);
-    } finally {
-      await t.close();
-      await stopWorker(w);
-      workers.splice(0);
-    }
-  });
-
-  test("a worker with another engine version refuses the chunks with a log line; a matching worker computes them", async () => {
+  test("a worker with another engine version refuses the chunks with a log line; matching workers compute them", async () => {
     const lines: string[] = [];
     const old = createChunkWorker({
       url: redis.url,
@@ -191,10 +125,9 @@ describe("distributed mode (BullMQ on Redis)", { skip: skip ?? false }, () => {
     });
     await old.ready;
     const t = await makeTestContext({ queue: redisQueue(redis.url) });
-    let good: WorkerProcess | null = null;
     try {
       const { editor, id } = await launch(t);
-      for (let i = 0; i < 100 && !lines.some((l) => l.startsWith("Refusing")); i++)
+      for (let i = 0; i < 200 && !lines.some((l) => l.startsWith("Refusing")); i++)
         await new Promise((r) => setTimeout(r, 50));
       const refusal = lines.find((l) => l.startsWith("Refusing")) ?? "";
       assert.match(
@@ -204,7 +137,7 @@ describe("distributed mode (BullMQ on Redis)", { skip: skip ?? false }, () => {
         ),
       );
       assert.equal(old.info().chunksDone, 0);
-      good = await startWorker(redis.url);
+      workers = await Promise.all([startWorker(redis.url, WORKER_ENV), startWorker(redis.url, WORKER_ENV)]);
       const done = await waitForRun(editor, id, 60_000);
       assert.equal(done.status, "finished");
       assert.equal(done.statsHash, embeddedHash);
@@ -212,30 +145,113 @@ describe("distributed mode (BullMQ on Redis)", { skip: skip ?? false }, () => {
     } finally {
       await t.close();
       await old.close(0);
-      if (good) await stopWorker(good);
     }
   });
 
-  test("SIGTERM: the worker finishes or hands back its chunk and exits 0; another worker completes the run", async () => {
-    const a = await startWorker(redis.url, { LINGER_WORKER_DRAIN_SECONDS: "0" });
-    workers.push(a);
+  test("two worker processes store the embedded pool's statistics hash, each computing part of the run", async () => {
     const t = await makeTestContext({ queue: redisQueue(redis.url) });
     try {
+      // Wait for both heartbeats, and note what each worker had done before this run.
+      let before = new Map<string, number>();
+      for (let i = 0; i < 100 && before.size < 2; i++) {
+        await new Promise((r) => setTimeout(r, 100));
+        before = new Map(t.ctx.queue.stats().dispatch.workers.map((w) => [w.id, w.chunksDone]));
+      }
+      assert.equal(before.size, 2, "two heartbeats");
       const { editor, id } = await launch(t);
-      await afterChunks(t.ctx.queue, id, 2);
-      const { code } = await stopWorker(a, "SIGTERM");
-      assert.equal(code, 0, a.output());
-      assert.match(a.output(), /SIGTERM: finishing current chunks/);
-      const b = await startWorker(redis.url);
-      workers.push(b);
+      const done = await waitForRun(editor, id, 60_000);
+      assert.equal(done.status, "finished");
+      assert.equal(done.statsHash, embeddedHash);
+      assertStoredOnce(t, id);
+      // Heartbeats carry the counts: wait for the next ones (every 5 s) to show this run's chunks.
+      const didWork = () =>
+        t.ctx.queue
+          .stats()
+          .dispatch.workers.filter((w) => w.chunksDone > (before.get(w.id) ?? 0))
+          .map((w) => w.id);
+      for (let i = 0; i < 120 && didWork().length < 2; i++) await new Promise((r) => setTimeout(r, 100));
+      assert.deepEqual(didWork().sort(), [...before.keys()].sort(), "each worker computed part of this run");
+      const health = await editor.get("/api/health").expect(200);
+      const compute = health.body.compute;
+      assert.equal(compute.mode, "redis");
+      assert.equal(compute.redis, "connected");
+      assert.equal(compute.workerCount, 2);
+      assert.ok(Date.now() - Date.parse(compute.workers[0].lastHeartbeat) < 30_000);
+      assert.ok(compute.chunksPerSecond > 0);
+    } finally {
+      await t.close();
+    }
+  });
+
+  test("a worker SIGKILLed mid-run: its chunk is retried after the stall timeout, stored once, same hash", async () => {
+    const t = await makeTestContext({ queue: redisQueue(redis.url) });
+    const victim = workers[0];
+    try {
+      const { editor, id } = await launch(t);
+      await afterChunks(t.ctx.queue, id, 3);
+      victim.proc.kill("SIGKILL");
+      const { signal } = await victim.exited;
+      assert.equal(signal, "SIGKILL");
       const done = await waitForRun(editor, id, 60_000);
       assert.equal(done.status, "finished");
       assert.equal(done.statsHash, embeddedHash);
       assertStoredOnce(t, id);
     } finally {
       await t.close();
-      await Promise.all(workers.map((w) => stopWorker(w)));
-      workers.splice(0);
+      await replace(victim);
+    }
+  });
+
+  test("Redis restarted mid-run (its data lost): the server queues again what it waits for, same hash", async () => {
+    const t = await makeTestContext({ queue: redisQueue(redis.url) });
+    try {
+      const { editor, id } = await launch(t);
+      await afterChunks(t.ctx.queue, id, 3);
+      await redis.restart();
+      const done = await waitForRun(editor, id, 60_000);
+      assert.equal(done.status, "finished");
+      assert.equal(done.statsHash, embeddedHash);
+      assertStoredOnce(t, id);
+    } finally {
+      await t.close();
+    }
+  });
+
+  test("the server restarted mid-run: stored chunks are kept, only missing ones are queued, same hash", async () => {
+    const t = await makeTestContext({ queue: redisQueue(redis.url) });
+    try {
+      const { editor, id } = await launch(t);
+      await afterChunks(t.ctx.queue, id, 4);
+      await t.ctx.queue.close();
+      const stored = storedCounts(t, id).chunks;
+      assert.ok(stored >= 4 && stored < CHUNKS, `stored ${stored} chunks before the restart`);
+      t.ctx.queue = redisQueue(redis.url)(t.ctx);
+      t.ctx.queue.kick();
+      const done = await waitForRun(editor, id, 60_000);
+      assert.equal(done.status, "finished");
+      assert.equal(done.statsHash, embeddedHash);
+      assertStoredOnce(t, id);
+    } finally {
+      await t.close();
+    }
+  });
+
+  test("SIGTERM: the worker hands back its chunk and exits 0; the other worker completes the run", async () => {
+    const t = await makeTestContext({ queue: redisQueue(redis.url) });
+    const leaving = workers[0];
+    try {
+      const { editor, id } = await launch(t);
+      await afterChunks(t.ctx.queue, id, 2);
+      const { code } = await stopWorker(leaving, "SIGTERM");
+      assert.equal(code, 0, leaving.output());
+      assert.match(leaving.output(), /SIGTERM: finishing current chunks/);
+      const done = await waitForRun(editor, id, 60_000);
+      assert.equal(done.status, "finished");
+      assert.equal(done.statsHash, embeddedHash);
+      assertStoredOnce(t, id);
+    } finally {
+      await t.close();
+      workers = workers.filter((w) => w !== leaving);
     }
   });
 });
