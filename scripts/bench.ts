@@ -1,7 +1,8 @@
 /**
  * npm run bench [-- --json] [--threads N] [--replicates N] [--no-e2e] [--e2e-replicates N]
  *                 [--no-compare] [--repetitions N] [--js-reference] [--with-100k]
- *                 [--no-redis] [--redis-replicates N] [--no-regime-map]
+ *                 [--no-redis] [--redis-replicates N] [--no-regime-map] [--no-load] [--load-clients N]
+ *                 [--load-seconds N]
  * Without --threads: measures 1 thread and the pool (all cores). With --json the
  * last line is one JSON object: the last measurement's
  * {model, replicates, events, seconds, eventsPerSecond, threads}, plus, when
@@ -23,11 +24,15 @@
  * Unless --no-regime-map (scripts/bench-regimes.ts): `regimeMap`, a 20 x 20
  * deterministic-only behaviour map of the three-species timer ring, wall and CPU
  * seconds against the 30 s target.
+ * Unless --no-load (scripts/bench-load.ts): `load`, p50/p95 latency of the run list, a run's detail and
+ * /api/health with 50 signed-in clients (--load-clients) while two runs compute, against the targets of
+ * docs/benchmarks.md.
  */
 import { runEngineBench, type EngineBenchResult } from "./bench-engine";
 import { runEndToEndBench } from "./bench-e2e";
 import { compareWithReference, replicateScaling, sizeScaling } from "./bench-compare";
 import { formatRedisBench, runRedisBench } from "./bench-redis";
+import { formatLoadBench, runLoadBench } from "./bench-load";
 import { loadSpecFile } from "@/server/cli/load-spec";
 import { DEFAULT_BENCH_SPEC } from "./bench-engine";
 import { runRegimeMapBench } from "./bench-regimes";
@@ -136,6 +141,11 @@ async function main() {
             .map(([k, v]) => `${k} ${v}`)
             .join(", "),
       );
+  }
+  if (!argv.includes("--no-load")) {
+    const load = await runLoadBench({ clients: num("--load-clients"), seconds: num("--load-seconds") });
+    out.load = load;
+    if (!json) console.log("\n" + formatLoadBench(load));
   }
   if (json) console.log(JSON.stringify(out));
   else if (results.length > 1)

@@ -400,27 +400,85 @@ export function listRuns(
     );
   }
   const limit = pageLimit(q);
+  const r = schema.runs;
+  // Only what a list item shows: the spec and summary JSON stay in SQLite (json_extract), not parsed per row.
+  const num = (path: string) => sql<number | null>`json_extract(${r.summary}, ${path})`;
   const rows = ctx.db
-    .select({ row: schema.runs, rank: statusRank })
-    .from(schema.runs)
+    .select({
+      rank: statusRank,
+      id: r.id,
+      labId: r.labId,
+      name: r.name,
+      status: r.status,
+      statusReason: r.statusReason,
+      replicates: r.replicates,
+      replicatesDone: r.replicatesDone,
+      eventsTotal: r.eventsTotal,
+      computeSeconds: r.computeSeconds,
+      seed: r.seed,
+      programId: r.programId,
+      sweepId: r.sweepId,
+      controlOf: r.controlOf,
+      createdAt: r.createdAt,
+      finishedAt: r.finishedAt,
+      archivedAt: r.archivedAt,
+      createdBy: r.createdBy,
+      circuitName: sql<string>`json_extract(${r.spec}, '$.circuit.name')`,
+      programKind: sql<string | null>`json_extract(${r.spec}, '$.program.kind')`,
+      hasSummary: sql<number>`${r.summary} IS NOT NULL`,
+      d50: num("$.d50"),
+      falsePassRate: num("$.falsePassRate"),
+      medianDelay: num("$.delay.median"),
+      longestDuration: num("$.byDuration[#-1].duration"),
+      passAtLongest: num("$.byDuration[#-1].passProbability"),
+    })
+    .from(r)
     .where(and(...conds))
-    .orderBy(statusRank, desc(schema.runs.createdAt), asc(schema.runs.id))
+    .orderBy(statusRank, desc(r.createdAt), asc(r.id))
     .limit(limit + 1)
     .all();
   return pageFromRows(
     rows,
     limit,
-    (r) => [r.rank, -r.row.createdAt.getTime(), r.row.id],
+    (x) => [x.rank, -x.createdAt.getTime(), x.id],
     (page) => {
       const names = userNames(
         ctx,
-        page.map((r) => r.row.createdBy),
+        page.map((x) => x.createdBy),
       );
       const programs = programNames(
         ctx,
-        page.map((r) => r.row.programId),
+        page.map((x) => x.programId),
       );
-      return page.map((r) => toListItem(ctx, r.row, names, programs));
+      return page.map((x): RunListItem => ({
+        id: x.id,
+        labId: x.labId,
+        name: x.name,
+        status: x.status,
+        statusReason: x.statusReason,
+        replicates: x.replicates,
+        seed: x.seed,
+        circuitName: x.circuitName,
+        programName:
+          (x.programId && programs.get(x.programId)) ||
+          (x.programKind ? `inline ${PROGRAM_KIND_LABEL[x.programKind] ?? x.programKind}` : "no input pulses"),
+        sweepId: x.sweepId,
+        controlOf: x.controlOf,
+        progress: progressView(ctx, x as unknown as RunRow),
+        createdAt: x.createdAt.toISOString(),
+        finishedAt: iso(x.finishedAt),
+        archived: !!x.archivedAt,
+        createdBy: x.createdBy ? (names.get(x.createdBy) ?? null) : null,
+        headline: x.hasSummary
+          ? {
+              d50: x.d50 ?? null,
+              falsePassRate: x.falsePassRate ?? null,
+              medianDelay: x.medianDelay ?? null,
+              longestDuration: x.longestDuration ?? null,
+              passAtLongest: x.passAtLongest ?? null,
+            }
+          : null,
+      }));
     },
   );
 }

@@ -13,6 +13,7 @@ import { eq } from "drizzle-orm";
 import { RunListPageSchema } from "@/shared/schemas/api-runs";
 import { PAGE_SIZE } from "@/shared/schemas/pagination";
 import { assertContract } from "@/tests/helpers/contract";
+import { getRunRow, toListItem } from "@/server/services/runs.service";
 
 describe("run list pages", () => {
   let t: TestApp;
@@ -101,6 +102,41 @@ describe("run list pages", () => {
     assert.deepEqual(ids, before, "the new run is before the cursor, so it is not in the later pages");
     // ...and a fresh walk has it in its place.
     assert.deepEqual((await allPages(2)).ids, expectedOrder());
+  });
+
+  test("list items read lean from SQL equal the full item the detail is built from", async () => {
+    // One run with (hand-made) summary figures, so the headline is read too.
+    t.ctx.db
+      .update(schema.runs)
+      .set({
+        summary: {
+          d50: 12.5,
+          falsePassRate: 0.1,
+          delay: { median: 3 },
+          byDuration: [
+            { duration: 1, passProbability: 0 },
+            { duration: 80, passProbability: 0.9 },
+          ],
+        } as any,
+      })
+      .where(eq(schema.runs.id, made[0].id))
+      .run();
+    const items = (await editor.get(`/api/labs/${labId}/runs?limit=200`).expect(200)).body.items;
+    assert.equal(items.length, made.length);
+    const full = (id: string) => {
+      const row = getRunRow(t.ctx, id);
+      const names = new Map([[row.createdBy!, "Demo editor"]]);
+      return JSON.parse(JSON.stringify(toListItem(t.ctx, row, names)));
+    };
+    for (const item of items) assert.deepEqual(item, full(item.id));
+    const withSummary = items.find((i: { id: string }) => i.id === made[0].id);
+    assert.deepEqual(withSummary.headline, {
+      d50: 12.5,
+      falsePassRate: 0.1,
+      medianDelay: 3,
+      longestDuration: 80,
+      passAtLongest: 0.9,
+    });
   });
 
   test("a cursor that is not one, or a limit out of range, is a 400 naming the field", async () => {

@@ -1,0 +1,193 @@
+/**
+ * Load benchmark: a real server process (own port, temporary database, no demo
+ * data) whose lab holds `pastRuns` finished runs (copies of one computed run,
+ * so list items carry real headline figures), while `computing` runs of the
+ * benchmark circuit (docs/examples/benchmark.json) compute. Meanwhile
+ * `clients` signed-in clients (one session each) loop over the run list (first
+ * page), a run's detail and /api/health, pausing `pauseMs` between requests.
+ * Reports each endpoint's p50 and p95 latency against its target
+ * (docs/benchmarks.md: p95 under 200 ms for list, detail and health).
+ */
+import Database from "better-sqlite3";
+import { loadSpecFile } from "@/server/cli/load-spec";
+import { DEFAULT_BENCH_SPEC } from "./bench-engine";
+import { startServerProcess } from "@/scripts/lib/spawn-server";
+
+export interface LoadEndpoint {
+  endpoint: string;
+  targetP95Ms: number;
+  p50Ms: number;
+  p95Ms: number;
+  requests: number;
+  errors: number;
+}
+export interface LoadResult {
+  clients: number;
+  computing: number;
+  pastRuns: number;
+  seconds: number;
+  endpoints: LoadEndpoint[];
+}
+
+const quantile = (xs: number[], q: number) => {
+  if (!xs.length) return NaN;
+  const s = [...xs].sort((a, b) => a - b);
+  return s[Math.min(s.length - 1, Math.max(0, Math.ceil(q * s.length) - 1))];
+};
+
+export async function runLoadBench(
+  opts: {
+    clients?: number;
+    computing?: number;
+    replicates?: number;
+    pastRuns?: number;
+    seconds?: number;
+    pauseMs?: number;
+  } = {},
+): Promise<LoadResult> {
+  const clients = opts.clients ?? 50;
+  const computing = opts.computing ?? 2;
+  const pastRuns = opts.pastRuns ?? 150;
+  const seconds = opts.seconds ?? 20;
+  const pauseMs = opts.pauseMs ?? 250;
+  const spec = loadSpecFile(DEFAULT_BENCH_SPEC, { replicates: opts.replicates ?? 50_000 });
+  const server = await startServerProcess({ env: { LINGER_SEED_DEMO: "0", LINGER_POOL_SIZE: "1", LINGER_TEST: "1" } });
+  try {
+    const base = server.url;
+    const json = { "content-type": "application/json" };
+    const email = "load@example.org";
+    const password = "load-bench-password";
+    // The first account of an empty instance is created and signed in at once.
+    const up = await fetch(`${base}/api/auth/sign-up`, {
+      method: "POST",
+      headers: json,
+      body: JSON.stringify({ email, password, displayName: "Load" }),
+    });
+    if (up.status !== 201) throw new Error(`sign-up failed: ${up.status} ${await up.text()}`);
+    const session = async () => {
+      const si = await fetch(`${base}/api/auth/sign-in`, {
+        method: "POST",
+        headers: json,
+        body: JSON.stringify({ email, password }),
+      });
+      if (!si.ok) throw new Error(`sign-in failed: ${si.status}`);
+      return (si.headers.get("set-cookie") ?? "").split(";")[0];
+    };
+    const cookie = await session();
+    const me = await (await fetch(`${base}/api/me`, { headers: { cookie } })).json();
+    const labId = me.labs[0].id;
+    const launch = async (name: string, replicates: number) => {
+      const r = await fetch(`${base}/api/labs/${labId}/runs`, {
+        method: "POST",
+        headers: { ...json, cookie },
+        body: JSON.stringify({
+          name,
+          circuit: spec.circuit,
+          program: spec.program,
+          inputSignal: spec.inputSignal,
+          settings: { ...spec, replicates, circuit: undefined, program: undefined, inputSignal: undefined },
+        }),
+      });
+      if (r.status !== 201) throw new Error(`launch failed: ${r.status} ${await r.text()}`);
+      return (await r.json()).id as string;
+    };
+    const waitEnd = async (id: string) => {
+      for (;;) {
+        const run = await (await fetch(`${base}/api/runs/${id}`, { headers: { cookie } })).json();
+        if (!["queued", "running"].includes(run.status)) return run;
+        await new Promise((r) => setTimeout(r, 200));
+      }
+    };
+    // One small computed run, copied as the lab's past runs.
+    const model = await launch("past run", 200);
+    if ((await waitEnd(model)).status !== "finished") throw new Error("the model run did not finish");
+    const db = new Database(server.dbPath);
+    try {
+      const row = db.prepare("SELECT * FROM runs WHERE id = ?").get(model) as Record<string, unknown>;
+      const cols = Object.keys(row);
+      const insert = db.prepare(
+        `INSERT INTO runs (${cols.map((c) => `"${c}"`).join(",")}) VALUES (${cols.map((c) => `@${c}`).join(",")})`,
+      );
+      db.transaction(() => {
+        for (let i = 0; i < pastRuns; i++)
+          insert.run({
+            ...row,
+            id: `run_load${String(i).padStart(5, "0")}`,
+            name: `past run ${i + 1}`,
+            created_at: (row.created_at as number) - (i + 1) * 60_000,
+          });
+      })();
+    } finally {
+      db.close();
+    }
+    const running: string[] = [];
+    for (let i = 0; i < computing; i++) running.push(await launch(`computing ${i + 1}`, spec.replicates));
+    const cookies = await Promise.all(Array.from({ length: clients }, () => session()));
+
+    const urls = [
+      { endpoint: "GET /api/labs/:labId/runs (first page)", url: `${base}/api/labs/${labId}/runs`, target: 200 },
+      { endpoint: "GET /api/runs/:id", url: `${base}/api/runs/${model}`, target: 200 },
+      { endpoint: "GET /api/health", url: `${base}/api/health`, target: 200 },
+    ];
+    const times = urls.map(() => [] as number[]);
+    const errors = urls.map(() => 0);
+    const stopAt = performance.now() + seconds * 1000;
+    const stillComputing = async () => {
+      const r = await (await fetch(`${base}/api/runs/${running[0]}`, { headers: { cookie } })).json();
+      return ["queued", "running"].includes(r.status);
+    };
+    await Promise.all(
+      cookies.map(async (c, k) => {
+        for (let i = k; performance.now() < stopAt; i++) {
+          const j = i % urls.length;
+          const t0 = performance.now();
+          const r = await fetch(urls[j].url, { headers: { cookie: c } });
+          await r.arrayBuffer();
+          times[j].push(performance.now() - t0);
+          if (!r.ok) errors[j]++;
+          await new Promise((res) => setTimeout(res, pauseMs));
+        }
+      }),
+    );
+    if (!(await stillComputing()))
+      console.warn("warning: the computing runs ended before the measurement did; raise --load-replicates");
+    return {
+      clients,
+      computing,
+      pastRuns,
+      seconds,
+      endpoints: urls.map((u, j) => ({
+        endpoint: u.endpoint,
+        targetP95Ms: u.target,
+        p50Ms: quantile(times[j], 0.5),
+        p95Ms: quantile(times[j], 0.95),
+        requests: times[j].length,
+        errors: errors[j],
+      })),
+    };
+  } finally {
+    await server.stop();
+  }
+}
+
+export function formatLoadBench(r: LoadResult): string {
+  const f = (x: number) => x.toFixed(0);
+  return [
+    `Load: ${r.clients} signed-in clients for ${r.seconds} s, ${r.computing} runs computing, ${r.pastRuns} past runs in the lab:`,
+    "| endpoint | target p95 | p50 | p95 | requests | errors |",
+    "| --- | --- | --- | --- | --- | --- |",
+    ...r.endpoints.map(
+      (e) =>
+        `| ${e.endpoint} | < ${e.targetP95Ms} ms | ${f(e.p50Ms)} ms | ${f(e.p95Ms)} ms | ${e.requests} | ${e.errors} |`,
+    ),
+  ].join("\n");
+}
+
+if (import.meta.url === `file://${process.argv[1]}`) {
+  runLoadBench()
+    .then((r) => console.log(formatLoadBench(r)))
+    .catch((e: Error) => {
+      console.error(`error: ${e.message}`);
+      process.exit(1);
+    });
+}
