@@ -132,3 +132,34 @@ export function wiringVersusBehaviour(wiring: string, r: RunRegimeView): string 
   if (d === s) return `Wired as ${wiring}; at these parameters ${behaves(d)}.`;
   return `Wired as ${wiring}; at these parameters, in the mean-field model ${behaves(d)}, and with molecular noise ${behaves(s)}.`;
 }
+
+/** The circuit's wiring in a phrase, from its feed-forward loop or its species-to-species edges. */
+export function wiringPhrase(
+  feedForward: { label: string } | null,
+  edges: { from: string; to: string; sign: "activates" | "represses" }[],
+  species: string[],
+): string {
+  if (feedForward)
+    return `${/^[aeiou]/i.test(feedForward.label) ? "an" : "a"} ${feedForward.label} feed-forward circuit`;
+  const sp = new Set(species);
+  const inner = edges.filter((e) => sp.has(e.from) && sp.has(e.to));
+  if (inner.some((e) => e.from === e.to && e.sign === "represses"))
+    return "a self-repressing gene (negative autoregulation)";
+  // a cycle among species: depth-first search on the species edges
+  const next = new Map<string, string[]>();
+  for (const e of inner) next.set(e.from, [...(next.get(e.from) ?? []), e.to]);
+  const state = new Map<string, number>();
+  let cycle = false;
+  const visit = (n: string) => {
+    state.set(n, 1);
+    for (const m of next.get(n) ?? []) {
+      if (state.get(m) === 1) cycle = true;
+      else if (!state.has(m)) visit(m);
+    }
+    state.set(n, 2);
+  };
+  for (const n of sp) if (!state.has(n)) visit(n);
+  if (cycle)
+    return inner.every((e) => e.sign === "represses") ? "a feedback loop of repressors" : "a circuit with feedback";
+  return "a circuit without feedback";
+}

@@ -210,7 +210,35 @@ export function getCircuitDetail(ctx: AppContext, id: string): CircuitDetailResp
       value: p.value,
       unit: p.unit,
     })),
+    behaviour: latestBehaviour(ctx, id),
   };
+}
+
+/** The behaviour labels of the circuit's latest finalised runs and sweep points (docs/regimes.md). */
+function latestBehaviour(ctx: AppContext, circuitId: string): NonNullable<CircuitDetailResponse["behaviour"]> {
+  const r = schema.runs;
+  return ctx.db
+    .select({
+      runId: r.id,
+      runName: r.name,
+      circuitVersion: r.circuitVersion,
+      sweepId: r.sweepId,
+      finishedAt: r.finishedAt,
+      regime: r.regime,
+    })
+    .from(r)
+    .where(and(eq(r.circuitId, circuitId), isNotNull(r.regime), isNull(r.deletedAt)))
+    .orderBy(desc(r.finishedAt))
+    .limit(3)
+    .all()
+    .map((x) => ({
+      runId: x.runId,
+      runName: x.runName,
+      circuitVersion: x.circuitVersion ?? null,
+      sweepId: x.sweepId ?? null,
+      finishedAt: x.finishedAt ? x.finishedAt.toISOString() : null,
+      regime: x.regime as NonNullable<CircuitDetailResponse["behaviour"]>[number]["regime"],
+    }));
 }
 
 export function getCircuitVersion(ctx: AppContext, id: string, version: number): CircuitVersionResponse {

@@ -17,6 +17,7 @@
  */
 import { z } from "zod";
 import { CircuitSchema } from "./circuit";
+import { RunRegimeSchema } from "./regime";
 
 /** Feed-forward templates, then the feedback ones (negative autoregulation, latch, timer ring, cross-linked ring). */
 export const TEMPLATE_KEYS = [
@@ -151,6 +152,19 @@ export const CircuitDetailResponseSchema = z.object({
   feedForwardLoops: z.array(FeedForwardSchema),
   /** Every parameter of the current body (for sweeps and cell-to-cell variation). */
   parameters: z.array(ParameterInfoSchema),
+  /** Behaviour measured in this circuit's latest finalised runs and sweep points (newest first, at most 3). */
+  behaviour: z
+    .array(
+      z.object({
+        runId: z.string(),
+        runName: z.string(),
+        circuitVersion: z.number().int().nullable(),
+        sweepId: z.string().nullable(),
+        finishedAt: z.string().nullable(),
+        regime: RunRegimeSchema,
+      }),
+    )
+    .optional(),
 });
 export type CircuitDetailResponse = z.infer<typeof CircuitDetailResponseSchema>;
 

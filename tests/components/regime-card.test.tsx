@@ -1,7 +1,12 @@
 import React from "react";
 import { screen } from "@testing-library/react-native";
 import { RegimeCard } from "@/components/regimes/regime-card";
-import { differenceSentence, verdictMeaning, wiringVersusBehaviour } from "@/components/regimes/regime-words";
+import {
+  differenceSentence,
+  verdictMeaning,
+  wiringPhrase,
+  wiringVersusBehaviour,
+} from "@/components/regimes/regime-words";
 import { regimeLook, PENDING_LOOK } from "@/components/regimes/regime-style";
 import { contrastRatio } from "@/components/theme/contrast";
 import { REGIME_LABEL_VALUES, type RunRegimeView } from "@/shared/schemas/regime";
@@ -49,6 +54,29 @@ describe("regime card", () => {
 });
 
 // WCAG 2.1 SC 1.4.3 (4.5:1 for text): each label's symbol ink on its fill; SC 1.4.1: labels differ by symbol too.
+describe("wiring phrase", () => {
+  const rep = (from: string, to: string) => ({ from, to, sign: "represses" as const });
+  test("feed-forward label, negative autoregulation, a repressor loop, no feedback", () => {
+    expect(wiringPhrase({ label: "incoherent type 1" }, [], [])).toBe("an incoherent type 1 feed-forward circuit");
+    expect(wiringPhrase(null, [rep("limA", "limA")], ["limA"])).toBe(
+      "a self-repressing gene (negative autoregulation)",
+    );
+    expect(wiringPhrase(null, [rep("a", "b"), rep("b", "c"), rep("c", "a")], ["a", "b", "c"])).toBe(
+      "a feedback loop of repressors",
+    );
+    expect(
+      wiringPhrase(
+        null,
+        [
+          { from: "Q", to: "a", sign: "activates" },
+          { from: "a", to: "b", sign: "activates" },
+        ],
+        ["a", "b"],
+      ),
+    ).toBe("a circuit without feedback");
+  });
+});
+
 describe("regime looks", () => {
   test("every label's symbol contrasts with its fill at 4.5:1 or more, and symbols are distinct", () => {
     const looks = REGIME_LABEL_VALUES.map(regimeLook);

@@ -7,6 +7,7 @@ import { Text } from "@/components/ui/text";
 import { Button } from "@/components/ui/button";
 import { Banner, ErrorState, LoadingState } from "@/components/ui/states";
 import { WiringDiagram } from "@/components/circuits/wiring-diagram";
+import { BehaviourCard } from "@/components/regimes/behaviour-card";
 import { CircuitView, FeedForwardBadge } from "@/components/circuits/circuit-view";
 import { useArchiveCircuit, useCircuit, useDuplicateCircuit } from "@/components/data/circuits";
 import { useCurrentLab } from "@/components/data/current-lab";
@@ -62,6 +63,7 @@ export default function CircuitDetail() {
       {archived ? <Banner tone="notice">This circuit is archived. Runs that used it keep their copy.</Banner> : null}
       <FeedForwardBadge ff={feedForward} />
       {circuit.description ? <Text tone="muted">{circuit.description}</Text> : null}
+      <BehaviourCard detail={q.data} />
       <View style={{ flexDirection: isWide ? "row" : "column", gap: t.spacing.lg, alignItems: "flex-start" }}>
         <View style={{ flex: isWide ? 1 : undefined, width: isWide ? undefined : "100%", gap: t.spacing.lg }}>
           <Card>

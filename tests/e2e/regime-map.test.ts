@@ -1,0 +1,125 @@
+/**
+ * The behaviour maps of a two-parameter sweep in the browser at phone
+ * (390x844) and wide (1280x800) sizes, against the real server: the demo
+ * editor launches (through the API, once for both sizes) a 3 x 3 sweep of the timer ring's two
+ * first production rates, opens it, sees both maps (mean-field and
+ * stochastic) with their legend, checks that each computed cell is a real link
+ * to its point's run, taps one and lands on that run with its behaviour card.
+ * axe-core runs on the sweep screen (no serious or critical violation), with
+ * the 44 px touch-target and label checks. Screenshots: test-results/screenshots/regime-map-*.
+ */
+import { after, before, describe, test } from "node:test";
+import assert from "node:assert/strict";
+import { startTestServer, DEMO_PASSWORD, type TestServer } from "@/tests/helpers/test-server";
+import { launchBrowser, screenshot, PHONE, WIDE, type Viewport, assertAccessible } from "./browser";
+import { signIn, DEMO_EDITOR } from "./flows";
+import { ensureWebBuild } from "@/scripts/build-web";
+
+let server: TestServer;
+/** One sweep serves both sizes (launched by the first test that needs it). */
+let sharedSweepId: string | null = null;
+
+before(async () => {
+  await ensureWebBuild({ quiet: true });
+  server = await startTestServer();
+});
+after(async () => {
+  await server?.stop();
+});
+
+for (const vp of [PHONE, WIDE] as Viewport[]) {
+  describe(`regime map at ${vp.name} size (${vp.width}x${vp.height})`, { timeout: 600_000 }, () => {
+    test("two-parameter sweep: both maps, legend, cells are links, tapping one opens its run", async () => {
+      const b = await launchBrowser(vp);
+      const page = b.page;
+      const errors: string[] = [];
+      page.on("pageerror", (e) => errors.push(e.message));
+      try {
+        await signIn(page, server.url, DEMO_EDITOR, DEMO_PASSWORD);
+        const api = (p: string) => `${server.url}/api${p}`;
+        if (!sharedSweepId) {
+          const labs = (await (await page.request.get(api("/labs"))).json()) as { labs: { id: string }[] };
+          const templates = (await (await page.request.get(api("/templates"))).json()) as {
+            templates: { key: string; circuit: unknown; inputSignal: string }[];
+          };
+          const ring = templates.templates.find((x) => x.key === "ring")!;
+          const launched = await page.request.post(api(`/labs/${labs.labs[0].id}/sweeps`), {
+            timeout: 120_000,
+            data: {
+              name: "Timer ring map",
+              base: {
+                circuit: ring.circuit,
+                program: { kind: "ladder", start: 10, durations: [5, 60], repeats: 1, gap: 60 },
+                inputSignal: ring.inputSignal,
+                settings: {
+                  endTimeMinutes: 200,
+                  gridStepMinutes: 1,
+                  replicates: 8,
+                  seed: "ring-map",
+                  threshold: { value: 100 },
+                },
+              },
+              axes: [
+                { parameter: "rate(makeA)", grid: { from: 20, to: 200, count: 3, scale: "log" } },
+                { parameter: "rate(makeB)", grid: { from: 20, to: 200, count: 3, scale: "log" } },
+              ],
+            },
+          });
+          assert.equal(launched.status(), 201, await launched.text());
+          sharedSweepId = ((await launched.json()) as { id: string }).id;
+        }
+        const sweepId = sharedSweepId;
+        await page.goto(`${server.url}/sweeps/${sweepId}`);
+        await page.getByText("9 of 9 points · 8 replicates each").waitFor({ timeout: 420_000 });
+        await page.getByText("Finished", { exact: true }).first().waitFor({ timeout: 10_000 });
+
+        const maps = page.getByTestId("regime-maps");
+        await maps.waitFor();
+        await page.getByTestId("regime-map-deterministic").waitFor();
+        await page.getByTestId("regime-map-stochastic").waitFor();
+        const legend = page.getByTestId("regime-legend");
+        assert.match(await legend.innerText(), /not computed yet/);
+        // every label the API reports for a point appears in the legend
+        const detail = (await (await page.request.get(api(`/sweeps/${sweepId}`))).json()) as {
+          points: { index: number; runId: string; regime: { deterministic: string; stochastic: string } }[];
+        };
+        const legendText = await legend.innerText();
+        for (const p of detail.points) {
+          assert.ok(legendText.includes(p.regime.deterministic), `${p.regime.deterministic} in the legend`);
+          assert.ok(legendText.includes(p.regime.stochastic), `${p.regime.stochastic} in the legend`);
+        }
+        // side by side when wide, stacked on a phone
+        const d = (await page.getByTestId("regime-map-deterministic").boundingBox())!;
+        const s = (await page.getByTestId("regime-map-stochastic").boundingBox())!;
+        if (vp.width >= 768) assert.ok(Math.abs(d.y - s.y) < 2 && s.x > d.x, "maps side by side");
+        else assert.ok(s.y >= d.y + d.height - 1, "maps stacked");
+
+        // a cell is a real link to its point's run (row 1, column 2: index 1 * 3 + 2)
+        const point = detail.points.find((p) => p.index === 5)!;
+        const cell = page.getByTestId("map-stochastic-cell-1-2");
+        assert.equal(await cell.evaluate((el) => el.tagName), "A");
+        assert.equal(await cell.getAttribute("href"), `/runs/${point.runId}`);
+        assert.match(
+          (await cell.getAttribute("aria-label")) ?? "",
+          new RegExp(`: ${point.regime.stochastic} \\(stochastic\\)`),
+        );
+        await page.waitForTimeout(300);
+        await assertAccessible(page, "sweep with behaviour maps");
+        await screenshot(page, `regime-map-${vp.name}-01-maps`);
+
+        await cell.click();
+        await page.waitForURL(new RegExp(`/runs/${point.runId}$`));
+        const card = page.getByTestId("regime-card");
+        await card.waitFor({ timeout: 30_000 });
+        assert.match(
+          await page.getByTestId("regime-stochastic-label").innerText(),
+          new RegExp(point.regime.stochastic),
+        );
+        await screenshot(page, `regime-map-${vp.name}-02-point-run`);
+        assert.deepEqual(errors, []);
+      } finally {
+        await b.close();
+      }
+    });
+  });
+}
