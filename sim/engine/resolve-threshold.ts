@@ -107,7 +107,8 @@ export function resolveThreshold(spec: RunSpec): ResolvedThreshold {
     rule =
       `Half-way between the OFF steady state (${fmt(levels.offSteadyState)} molecules) and the highest mean-field level under ` +
       `constant ON input from OFF within the end time (${levels.onMaximumAtMinutes === null ? `${fmt(levels.onMaximum)} molecules` : `a peak of ${fmt(levels.onMaximum)} molecules at ${fmt(levels.onMaximumAtMinutes)} min`}): ${fmt(theta)} molecules.`;
-  } else {
+  } else if (setup.spec.program !== undefined) {
+    // (without input pulses there is no ON response to judge a set threshold by)
     try {
       levels = reach();
     } catch {
