@@ -85,8 +85,31 @@ function assertStoredOnce(t: TestApp, runId: string) {
   assert.deepEqual(storedCounts(t, runId), { chunks: CHUNKS, replicates: REPLICATES, distinctReplicates: REPLICATES });
 }
 
+/** A two-point sweep (100 replicates per point) launched and waited for; the points' stats hashes in order. */
+async function sweepHashes(t: TestApp): Promise<string[]> {
+  const editor = await signIn(t.app, "editor@example.org");
+  const base = launchBody({ replicates: 100, seed: "redis-sweep-seed", endTimeMinutes: 300 });
+  const r = await editor.post(`/api/labs/${t.demoLab!.id}/sweeps`).send({
+    name: "hold strength",
+    base: { circuit: base.circuit, program: base.program, inputSignal: base.inputSignal, settings: base.settings },
+    axes: [{ parameter: "K(makeZ,hldB)", grid: { from: 50, to: 200, count: 2, scale: "log" } }],
+  });
+  assert.equal(r.status, 201, JSON.stringify(r.body));
+  const t0 = Date.now();
+  let sweep: any;
+  for (;;) {
+    sweep = (await editor.get(`/api/sweeps/${r.body.id}`)).body;
+    if (!["queued", "running"].includes(sweep.status)) break;
+    if (Date.now() - t0 > 60_000) throw new Error(`sweep still ${sweep.status} after 60 s`);
+    await new Promise((res) => setTimeout(res, 100));
+  }
+  assert.equal(sweep.status, "finished");
+  return Promise.all(sweep.points.map(async (p: any) => (await editor.get(`/api/runs/${p.runId}`)).body.statsHash));
+}
+
 describe("distributed mode (BullMQ on Redis)", { skip: skip ?? false, timeout: 300_000 }, () => {
   let embeddedHash = "";
+  let embeddedSweep: string[] = [];
   let redis: RedisHandle;
   /** The two shared worker processes (started in the first test, replaced when a test stops one). */
   let workers: WorkerProcess[] = [];
@@ -102,6 +125,7 @@ describe("distributed mode (BullMQ on Redis)", { skip: skip ?? false, timeout: 3
       const done = await waitForRun(editor, id);
       assert.equal(done.status, "finished");
       embeddedHash = done.statsHash;
+      embeddedSweep = await sweepHashes(t);
     } finally {
       await t.close();
     }
@@ -231,6 +255,21 @@ describe("distributed mode (BullMQ on Redis)", { skip: skip ?? false, timeout: 3
       assert.equal(done.status, "finished");
       assert.equal(done.statsHash, embeddedHash);
       assertStoredOnce(t, id);
+    } finally {
+      await t.close();
+    }
+  });
+
+  test("a sweep's points go through Redis too, with the embedded pool's hashes", async () => {
+    const t = await makeTestContext({ queue: redisQueue(redis.url) });
+    try {
+      const hashes = await sweepHashes(t);
+      assert.equal(hashes.length, 2);
+      assert.ok(
+        hashes.every((h) => /^[0-9a-f]{16,}$/.test(h)),
+        JSON.stringify(hashes),
+      );
+      assert.deepEqual(hashes, embeddedSweep);
     } finally {
       await t.close();
     }
