@@ -13,6 +13,7 @@ import { compareDelaySpec, compareFilterSpec } from "@/components/charts/specs";
 import { formatInterval, formatNumber, formatPValue, formatProbability, formatReached } from "@/shared/number-format";
 import { useComparison, useRuns } from "@/components/data/runs";
 import { useTheme } from "@/components/theme/use-theme";
+import { DefinitionLink } from "@/components/definitions/definition-link";
 import { useBreakpoints } from "@/components/theme/use-breakpoints";
 import type { Comparison, ComparisonPair } from "@/shared/schemas/analysis";
 
@@ -101,44 +102,61 @@ function ComparisonView({ ids }: { ids: string[] }) {
                   ? (r.headline.d50Note ?? "not estimable")
                   : formatInterval(r.headline.d50Ci, "min")
               }
+              extra={<DefinitionLink term="d50" />}
             />
             <StatCard
               label="Median delay"
               value={formatReached(r.headline.medianDelay, "min")}
               detail={r.headline.medianDelay === null ? undefined : formatInterval(r.headline.medianDelayCi, "min")}
+              extra={<DefinitionLink term="response-delay" />}
             />
             <StatCard
               label="False-pass rate"
               value={pct(r.headline.falsePassRate)}
               detail="pulses shorter than the noise duration that passed"
+              extra={<DefinitionLink term="false-pass-rate" />}
             />
             <StatCard
               label="Pulses passed"
               value={`${r.headline.passed.toLocaleString("en")} of ${r.headline.evaluable.toLocaleString("en")}`}
               detail="every evaluable pulse, all durations"
+              extra={<DefinitionLink term="pass" />}
             />
-            <StatCard label="Delay paid for long pulses" value={formatReached(r.headline.delayCostMedian, "min")} />
+            <StatCard
+              label="Delay paid for long pulses"
+              value={formatReached(r.headline.delayCostMedian, "min")}
+              extra={<DefinitionLink term="delay-cost" />}
+            />
           </View>
         ))}
       </View>
       <View style={isWide ? { flexDirection: "row", flexWrap: "wrap", gap: t.spacing.lg } : { gap: t.spacing.lg }}>
         <View style={isWide ? { width: "48%", flexGrow: 1 } : undefined}>
           <Card testID="chart-card-compare-filter">
-            <Text variant="heading">Filter curves</Text>
+            <View style={{ flexDirection: "row", gap: t.spacing.sm, alignItems: "center" }}>
+              <Text variant="heading">Filter curves</Text>
+              <DefinitionLink term="filter-curve" label="filter curve" />
+            </View>
             <LazyChart spec={filter} testID="chart-compare-filter" source={source} />
           </Card>
         </View>
         {delays ? (
           <View style={isWide ? { width: "48%", flexGrow: 1 } : undefined}>
             <Card>
-              <Text variant="heading">Response delays</Text>
+              <View style={{ flexDirection: "row", gap: t.spacing.sm, alignItems: "center" }}>
+                <Text variant="heading">Response delays</Text>
+                <DefinitionLink term="response-delay" label="response delay" />
+              </View>
               <LazyChart spec={delays} testID="chart-compare-delays" source={source} />
             </Card>
           </View>
         ) : null}
       </View>
       <Card testID="comparison-tests">
-        <Text variant="heading">What the tests say</Text>
+        <View style={{ flexDirection: "row", gap: t.spacing.sm, alignItems: "center" }}>
+          <Text variant="heading">What the tests say</Text>
+          <DefinitionLink term="within-noise" label="within noise" />
+        </View>
         {cmp.pairs.map((p) => (
           <View key={`${p.a}-${p.b}`} style={{ gap: t.spacing.xs }} testID="comparison-pair">
             {cmp.pairs.length > 1 ? (

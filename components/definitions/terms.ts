@@ -19,7 +19,7 @@ export const TERMS: Term[] = [
     term: "Threshold",
     body: [
       "The output level, in molecules, that counts as a response. The output crosses up when it reaches the threshold while below it.",
-      "Unless you set it, Linger takes half of the steady state that the deterministic (ODE) model of the circuit reaches with the input held on. The run page shows the value used.",
+      "Unless you set it, Linger takes the level half-way between the output's OFF steady state and the highest output the deterministic (mean-field) model reaches under constant ON input from OFF within the run's end time, so it suits filters and pulse generators alike. The run page shows the value used, how it was found, and a warning when it is below a few molecules, within the OFF state's noise, or above anything the mean field reaches.",
     ],
   },
   {

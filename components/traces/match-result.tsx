@@ -9,15 +9,16 @@ import { View } from "react-native";
 import { useTheme } from "@/components/theme/use-theme";
 import { Text } from "@/components/ui/text";
 import { StatCard } from "@/components/ui/stat-card";
+import { DefinitionLink } from "@/components/definitions/definition-link";
 import { Banner } from "@/components/ui/states";
 import { DataTable, type Column } from "@/components/ui/data-table";
 import { LazyChart } from "@/components/charts/lazy-chart";
-import { formatNumber } from "@/components/charts/chart-spec";
+import { formatNumber, formatProbability } from "@/shared/number-format";
 import { distributionOverlaySpec } from "./trace-specs";
 import type { Distances, MatchDetail, MatchPoint } from "@/shared/schemas/api-traces";
 
 const CARD = { flexGrow: 1, flexBasis: 200, minWidth: 170 } as const;
-const pct = (p: number | null | undefined) => (p === null || p === undefined ? "–" : `${formatNumber(p * 100, 3)}%`);
+const pct = (p: number | null | undefined) => formatProbability(p);
 
 /** The tolerance in words ("the closest 5% of points", "combined distance at most 0.4"). */
 export function toleranceWords(m: MatchDetail["result"]["tolerance"]): string {
@@ -51,6 +52,7 @@ function DistanceCards({ d }: { d: Distances }) {
         label="Combined distance (0 = identical, 3 = nothing alike)"
         value={formatNumber(d.combined, 3)}
         detail={w.combined}
+        extra={<DefinitionLink term="match-distance" />}
       />
       <StatCard
         style={CARD}
@@ -58,6 +60,7 @@ function DistanceCards({ d }: { d: Distances }) {
         label="Pass-rate difference"
         value={`${formatNumber(d.pass * 100, 3)} points`}
         detail={w.pass}
+        extra={<DefinitionLink term="match-distance" />}
       />
       <StatCard
         style={CARD}
@@ -65,6 +68,7 @@ function DistanceCards({ d }: { d: Distances }) {
         label="Response delays: largest gap (KS D)"
         value={formatNumber(d.delayKs, 2)}
         detail={w.delay}
+        extra={<DefinitionLink term="response-delay" />}
       />
       <StatCard
         style={CARD}
@@ -72,6 +76,7 @@ function DistanceCards({ d }: { d: Distances }) {
         label="Pulse widths: largest gap (KS D)"
         value={formatNumber(d.widthKs, 2)}
         detail={w.width}
+        extra={<DefinitionLink term="pulse-width" />}
       />
     </View>
   );

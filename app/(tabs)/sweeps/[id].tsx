@@ -16,6 +16,7 @@ import { formatSweepFigure, sweepLineSpec } from "@/components/charts/specs";
 import { formatNumber } from "@/shared/number-format";
 import { useCancelSweep, useSweep, type SweepDetail } from "@/components/data/sweeps";
 import { useTheme } from "@/components/theme/use-theme";
+import { DefinitionLink } from "@/components/definitions/definition-link";
 import { MIN_TOUCH } from "@/components/theme/tokens";
 import { useBreakpoints } from "@/components/theme/use-breakpoints";
 import { RegimeMaps } from "@/components/sweeps/regime-map";
@@ -28,6 +29,15 @@ const FIGURES: { value: Figure; label: string }[] = [
   { value: "peak", label: "Median peak" },
   { value: "fano", label: "Fano factor" },
 ];
+
+/** The definitions-page entry of each sweep figure. */
+const FIGURE_TERMS: Record<Figure, string> = {
+  d50: "d50",
+  falsePassRate: "false-pass-rate",
+  medianDelay: "response-delay",
+  peak: "fwhm",
+  fano: "fano",
+};
 
 function figureOf(p: SweepDetail["points"][number], f: Figure): number | null {
   return p.figures ? (p.figures[f] as number | null) : null;
@@ -92,6 +102,12 @@ export default function SweepDetailScreen() {
         <RegimeMaps sweep={s} wide={bp.isWide} />
       </Card>
       <Choice label="Figure" value={figure} options={FIGURES} onChange={setFigure} />
+      <View style={{ flexDirection: "row", gap: t.spacing.sm, alignItems: "center" }}>
+        <Text variant="caption" tone="muted">
+          {figLabel}:
+        </Text>
+        <DefinitionLink term={FIGURE_TERMS[figure]} label={figLabel} />
+      </View>
       {chart ? (
         <Card>
           <LazyChart spec={chart} testID="sweep-chart" source={{ name: s.name, seed: s.seed ?? null }} />

@@ -9,7 +9,7 @@ import { SafetyNote } from "@/components/ui/safety-note";
 import { Banner, ErrorState, LoadingState } from "@/components/ui/states";
 import { HeadlineCards } from "@/components/runs/headline-cards";
 import { LazyChart } from "@/components/charts/lazy-chart";
-import { formatNumber } from "@/components/charts/chart-spec";
+import { formatNumber } from "@/shared/number-format";
 import { cellsOverScheduleSpec } from "@/components/traces/trace-specs";
 import { median } from "@/components/traces/median";
 import { CellTable } from "@/components/traces/cell-table";
@@ -25,6 +25,7 @@ import {
 } from "@/components/data/traces";
 import { useCurrentLab } from "@/components/data/current-lab";
 import { useTheme } from "@/components/theme/use-theme";
+import { DefinitionLink } from "@/components/definitions/definition-link";
 import { API_LIMITS } from "@/shared/schemas/api-runs";
 
 export default function TraceSetScreen() {
@@ -78,7 +79,10 @@ export default function TraceSetScreen() {
       ) : null}
       <SafetyNote />
 
-      <Text variant="heading">Headline figures</Text>
+      <View style={{ flexDirection: "row", gap: t.spacing.sm, alignItems: "center" }}>
+        <Text variant="heading">Headline figures</Text>
+        <DefinitionLink term="pass" label="pass" />
+      </View>
       <Text variant="caption" tone="muted">
         Each cell counts as a replicate: {sum.pulsesAnalysed.toLocaleString("en")} cell × pulse records scored;{" "}
         {sum.skippedNotCovered} not watched whole{sum.skippedGap ? `, ${sum.skippedGap} left out for gaps` : ""}. Frame
@@ -89,7 +93,7 @@ export default function TraceSetScreen() {
       {chart ? (
         <Card testID="chart-card-cells">
           <Text variant="heading">Sample cells</Text>
-          <LazyChart spec={chart} testID="chart-cells" />
+          <LazyChart spec={chart} testID="chart-cells" source={{ name: s.name }} />
           {s.cells.length < s.cellCount ? (
             <Text variant="caption" tone="muted">
               Charts hold the first {s.cells.length} cells; the figures cover all {s.cellCount}.
@@ -181,6 +185,10 @@ export default function TraceSetScreen() {
                 {s.settings.smoothing.mode === "movingAverage" ? `${s.settings.smoothing.widthFrames} frames` : "none"}{" "}
                 · window {formatNumber(s.settings.windowMinutes)} min
               </Text>
+              <View style={{ flexDirection: "row", flexWrap: "wrap", gap: t.spacing.md }}>
+                <DefinitionLink term="threshold" label="threshold" />
+                <DefinitionLink term="window" label="response window" />
+              </View>
               <View style={{ flexDirection: "row", flexWrap: "wrap", gap: t.spacing.sm }}>
                 <Button
                   label="Edit name and preprocessing"
