@@ -1,6 +1,7 @@
 import React from "react";
 import { Link } from "expo-router";
 import { Text } from "@/components/ui/text";
+import { MIN_TOUCH } from "@/components/theme/tokens";
 import { TERMS } from "./terms";
 
 /**
@@ -15,7 +16,13 @@ export function DefinitionLink({ term, label }: { term: string; label?: string }
       href={`/definitions#${term}`}
       accessibilityLabel={`Definition of ${label ?? entry.term}`}
       testID={`define-${term}`}
-      style={{ paddingVertical: 2 }}
+      style={{
+        minHeight: MIN_TOUCH,
+        minWidth: MIN_TOUCH,
+        paddingVertical: 12,
+        paddingHorizontal: 4,
+        alignSelf: "flex-start",
+      }}
     >
       <Text variant="caption" tone="primary" style={{ textDecorationLine: "underline" }}>
         definition
