@@ -1,12 +1,18 @@
 /** Sweeps: list, detail with per-point figures, launch, cancel, resume. Shapes from shared/schemas/api-runs.ts. */
-import { useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
-import { z } from "zod";
+import { useInfiniteQuery, useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
 import { api } from "./api";
 import { useLabId } from "./current-lab";
-import { SweepDetailSchema, SweepListItemSchema, type LaunchSweepInput, type SweepDetail } from "@/shared/schemas/api-runs";
+import { usePagedList, type PagedList } from "./runs";
+import {
+  SweepDetailSchema,
+  SweepListItemSchema,
+  SweepListPageSchema,
+  type LaunchSweepInput,
+  type SweepDetail,
+  type SweepListItem,
+} from "@/shared/schemas/api-runs";
 
 export { SweepDetailSchema, SweepListItemSchema, type SweepDetail };
-const SweepListSchema = z.array(SweepListItemSchema);
 
 export const sweepKeys = {
   all: ["sweeps"] as const,
@@ -17,14 +23,22 @@ export const sweepKeys = {
 
 const active = (s: string) => s === "queued" || s === "running";
 
-export function useSweeps() {
+/** The lab's sweeps, page by page (`loadMore` for the next); polls while one is active. */
+export function useSweeps(): PagedList<SweepListItem> {
   const labId = useLabId();
-  return useQuery({
+  const q = useInfiniteQuery({
     queryKey: sweepKeys.list(labId),
-    queryFn: ({ signal }) => api(`/api/labs/${labId}/sweeps`, { schema: SweepListSchema, signal }),
+    initialPageParam: undefined as string | undefined,
+    queryFn: ({ pageParam, signal }) =>
+      api(`/api/labs/${labId}/sweeps${pageParam ? `?cursor=${encodeURIComponent(pageParam)}` : ""}`, {
+        schema: SweepListPageSchema,
+        signal,
+      }),
+    getNextPageParam: (last) => last.nextCursor ?? undefined,
     enabled: !!labId,
-    refetchInterval: (q) => (q.state.data?.some((s) => active(s.status)) ? 4000 : false),
+    refetchInterval: (q) => (q.state.data?.pages.some((p) => p.items.some((s) => active(s.status))) ? 4000 : false),
   });
+  return usePagedList(q);
 }
 
 export function useSweep(id: string | undefined) {

@@ -5,13 +5,16 @@ import { LaunchSweepSchema } from "@/shared/schemas/api-runs";
 import * as sweeps from "@/server/services/sweeps.service";
 import { recordAudit } from "@/server/services/audit.service";
 
+import { PAGE_SIZE, PAGE_SIZE_MAX, PageQuerySchema } from "@/shared/schemas/pagination";
+
 export const sweepRoutes = defineRoutes([
   {
     method: "get",
     path: "/labs/:labId/sweeps",
     access: { kind: "lab", role: "viewer" },
-    summary: "The lab's sweeps with progress.",
-    handler: ({ ctx, labId }) => sweeps.listSweeps(ctx, labId),
+    query: PageQuerySchema,
+    summary: `One page of the lab's sweeps with progress, newest first: {items, nextCursor} (?cursor=, ?limit= up to ${PAGE_SIZE_MAX}, default ${PAGE_SIZE}).`,
+    handler: ({ ctx, labId, query }) => sweeps.listSweeps(ctx, labId, query),
   },
   {
     method: "post",

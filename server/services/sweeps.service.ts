@@ -5,7 +5,7 @@
  * A cancelled or interrupted sweep resumes from the points (and chunks) it has.
  */
 import type { RegimeLabelValue } from "@/shared/schemas/regime";
-import { and, asc, count, eq, inArray, isNull } from "drizzle-orm";
+import { and, asc, count, desc, eq, inArray, isNull, sql } from "drizzle-orm";
 import type { AppContext } from "@/server/context";
 import { inTransaction, schema } from "@/db/client";
 import { API_LIMITS, type LaunchSweep, type SweepDetail, type SweepListItem } from "@/shared/schemas/api-runs";
@@ -15,6 +15,8 @@ import { badRequest, conflict, notFound, tooMany } from "@/server/http-error";
 import { newId } from "@/server/ids";
 import { buildSpec, insertRun, resolveInputs } from "./runs.service";
 import { assertRestorable } from "./undo";
+import { decodeCursor, pageFromRows, pageLimit } from "./pagination";
+import type { Page, PageQuery } from "@/shared/schemas/pagination";
 
 export function axisValues(axis: LaunchSweep["axes"][number]): number[] {
   if (axis.values) return axis.values;
@@ -296,29 +298,51 @@ export function sweepDetail(ctx: AppContext, sweepId: string): SweepDetail {
   };
 }
 
-export function listSweeps(ctx: AppContext, labId: string): SweepListItem[] {
+/** One page of the lab's sweeps, newest first (ties by id); keyset on (created time descending, id). */
+export function listSweeps(ctx: AppContext, labId: string, q: PageQuery = {}): Page<SweepListItem> {
+  const sw = schema.sweeps;
+  const conds = [eq(sw.labId, labId), isNull(sw.deletedAt)];
+  if (q.cursor) {
+    const [negCreated, id] = decodeCursor(q.cursor, 2);
+    if (typeof negCreated !== "number" || typeof id !== "string")
+      throw badRequest("Invalid query: cursor: not a cursor from this list; start again without it.", [
+        { path: "cursor", message: "not a cursor from this list" },
+      ]);
+    conds.push(sql`(${sw.createdAt} < ${-negCreated} OR (${sw.createdAt} = ${-negCreated} AND ${sw.id} > ${id}))`);
+  }
+  const limit = pageLimit(q);
   const rows = ctx.db
     .select()
-    .from(schema.sweeps)
-    .where(and(eq(schema.sweeps.labId, labId), isNull(schema.sweeps.deletedAt)))
-    .orderBy(asc(schema.sweeps.createdAt))
+    .from(sw)
+    .where(and(...conds))
+    .orderBy(desc(sw.createdAt), asc(sw.id))
+    .limit(limit + 1)
     .all();
-  return rows.reverse().map((s) => {
-    const done = ctx.db
-      .select({ n: count() })
-      .from(schema.runs)
-      .where(
-        and(eq(schema.runs.sweepId, s.id), inArray(schema.runs.status, ["finished", "capped", "failed", "cancelled"])),
-      )
-      .get()!.n;
-    return {
-      id: s.id,
-      name: s.name,
-      status: s.status,
-      pointCount: s.pointCount,
-      pointsDone: done,
-      axes: (s.axes as any[]).map((a) => a.parameter),
-      createdAt: s.createdAt.toISOString(),
-    };
-  });
+  return pageFromRows(
+    rows,
+    limit,
+    (s) => [-s.createdAt.getTime(), s.id],
+    (page) =>
+      page.map((s) => {
+        const done = ctx.db
+          .select({ n: count() })
+          .from(schema.runs)
+          .where(
+            and(
+              eq(schema.runs.sweepId, s.id),
+              inArray(schema.runs.status, ["finished", "capped", "failed", "cancelled"]),
+            ),
+          )
+          .get()!.n;
+        return {
+          id: s.id,
+          name: s.name,
+          status: s.status,
+          pointCount: s.pointCount,
+          pointsDone: done,
+          axes: (s.axes as any[]).map((a) => a.parameter),
+          createdAt: s.createdAt.toISOString(),
+        };
+      }),
+  );
 }

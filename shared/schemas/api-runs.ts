@@ -329,4 +329,6 @@ export const SweepListItemSchema = z.object({
   axes: z.array(z.string()),
   createdAt: z.string(),
 });
+/** GET /api/labs/:labId/sweeps: one page. */
+export const SweepListPageSchema = pageSchema(SweepListItemSchema);
 export type SweepListItem = z.infer<typeof SweepListItemSchema>;

@@ -10,7 +10,7 @@ import { makeTestContext, signIn, type TestApp } from "@/tests/helpers/test-app"
 import { launchBody } from "@/tests/helpers/run-helpers";
 import { schema } from "@/db/client";
 import { eq } from "drizzle-orm";
-import { RunListPageSchema } from "@/shared/schemas/api-runs";
+import { RunListPageSchema, SweepListPageSchema } from "@/shared/schemas/api-runs";
 import { PAGE_SIZE } from "@/shared/schemas/pagination";
 import { assertContract } from "@/tests/helpers/contract";
 import { getRunRow, toListItem } from "@/server/services/runs.service";
@@ -152,6 +152,52 @@ describe("run list pages", () => {
         r.body.error.fields.some((f: { path: string }) => f.path === field),
         `${qs}: ${JSON.stringify(r.body.error)}`,
       );
+    }
+  });
+});
+
+describe("sweep list pages", () => {
+  test("pages of 2 give every sweep once, newest first, ending with a null cursor", async () => {
+    const t = await makeTestContext();
+    try {
+      const editor = await signIn(t.app, "editor@example.org");
+      const labId = t.demoLab!.id;
+      const ids: string[] = [];
+      for (let i = 0; i < 5; i++) {
+        const id = `swp_page${i}`;
+        t.ctx.db
+          .insert(schema.sweeps)
+          .values({
+            id,
+            labId,
+            name: `Sweep ${i}`,
+            baseSpec: {} as any,
+            axes: [{ parameter: "rate(make)", values: [1, 2] }],
+            status: "finished",
+            pointCount: 2,
+            createdBy: null,
+            // two share a time: the id breaks the tie
+            createdAt: new Date(Date.UTC(2026, 0, 1, 0, Math.min(i, 3))),
+          })
+          .run();
+        ids.push(id);
+      }
+      const seen: string[] = [];
+      let cursor: string | null = null;
+      let pages = 0;
+      do {
+        const qs: string = `?limit=2${cursor ? `&cursor=${encodeURIComponent(cursor)}` : ""}`;
+        const r = await editor.get(`/api/labs/${labId}/sweeps${qs}`).expect(200);
+        assertContract(SweepListPageSchema, r.body, "GET /api/labs/:labId/sweeps");
+        seen.push(...r.body.items.map((s: { id: string }) => s.id));
+        cursor = r.body.nextCursor;
+        pages++;
+      } while (cursor);
+      assert.equal(pages, 3);
+      assert.deepEqual(seen, ["swp_page3", "swp_page4", "swp_page2", "swp_page1", "swp_page0"]);
+      await editor.get(`/api/labs/${labId}/sweeps?cursor=bad`).expect(400);
+    } finally {
+      await t.close();
     }
   });
 });

@@ -2,7 +2,7 @@ import { test } from "node:test";
 import assert from "node:assert/strict";
 import { makeTestContext, signIn } from "@/tests/helpers/test-app";
 import { launchBody, realQueue } from "@/tests/helpers/run-helpers";
-import { SweepDetailSchema, SweepListItemSchema } from "@/shared/schemas/api-runs";
+import { SweepDetailSchema, SweepListPageSchema } from "@/shared/schemas/api-runs";
 import { REGIME_LABEL_VALUES } from "@/shared/schemas/regime";
 
 async function waitSweep(agent: any, id: string, timeoutMs = 180_000) {
@@ -36,7 +36,7 @@ test("a one-parameter sweep computes every point with its own seed and stores pe
     const done = await waitSweep(editor, r.body.id);
     assert.equal(done.status, "finished");
     SweepDetailSchema.parse(done);
-    SweepListItemSchema.parse((await editor.get(`/api/labs/${labId}/sweeps`)).body[0]);
+    SweepListPageSchema.parse((await editor.get(`/api/labs/${labId}/sweeps`)).body);
     assert.equal(done.points.length, 3);
     for (const p of done.points) assert.ok(p.figures, "figures stored for each point");
     // behaviour labels stored for each point (docs/regimes.md): the hold circuit filters the 5 min pulses
@@ -100,10 +100,10 @@ test("a cancelled sweep resumes and finishes; bad axes get a 400 naming the fiel
     // Delete hides the sweep and its points; a second delete is a 409; restore brings both back.
     await editor.delete(`/api/sweeps/${r.body.id}`).expect(200);
     assert.equal((await editor.delete(`/api/sweeps/${r.body.id}`)).status, 409);
-    assert.equal((await editor.get(`/api/labs/${labId}/sweeps`)).body.length, 0);
+    assert.equal((await editor.get(`/api/labs/${labId}/sweeps`)).body.items.length, 0);
     assert.equal((await editor.get(`/api/labs/${labId}/runs?sweepPoints=1`)).body.items.length, 0);
     await editor.post(`/api/sweeps/${r.body.id}/restore`).expect(200);
-    assert.equal((await editor.get(`/api/labs/${labId}/sweeps`)).body.length, 1);
+    assert.equal((await editor.get(`/api/labs/${labId}/sweeps`)).body.items.length, 1);
     assert.equal((await editor.get(`/api/labs/${labId}/runs?sweepPoints=1`)).body.items.length, 4);
   } finally {
     await t.close();

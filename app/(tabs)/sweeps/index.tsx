@@ -2,6 +2,7 @@ import React from "react";
 import { View } from "react-native";
 import { useRouter } from "expo-router";
 import { Screen } from "@/components/ui/screen";
+import { LoadMore } from "@/components/ui/load-more";
 import { Card } from "@/components/ui/card";
 import { Text } from "@/components/ui/text";
 import { Button } from "@/components/ui/button";
@@ -54,6 +55,7 @@ export default function SweepsScreen() {
               </Text>
             </Card>
           ))}
+          <LoadMore list={sweeps} noun="sweeps" testID="sweeps-load-more" />
         </View>
       )}
     </Screen>
