@@ -32,6 +32,7 @@ export {
   type SimulateChunkOptions,
 } from "@/sim/engine/simulate-chunk";
 export { solveOde, odeSteadyState, type OdeSolution, type OdeSolveOptions } from "@/sim/ode/solve-ode";
+export { OdeBudget, OdeBudgetError, withOdeBudget, DEFAULT_ODE_STEPS } from "@/sim/ode/ode-budget";
 export { estimateEvents } from "@/sim/engine/estimate-events";
 export {
   PulseTracker,

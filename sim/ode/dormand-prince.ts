@@ -8,12 +8,25 @@
  * Example: integrate((t, y, dy) => { dy[0] = -y[0]; }, y, 0, 1, state)
  * leaves y[0] ~ e^-1 * y0.
  */
+import type { OdeBudget } from "./ode-budget";
+
 export type OdeRhs = (t: number, y: Float64Array, dy: Float64Array) => void;
 
 export interface DopriOptions {
   relTol: number;
   absTol: number;
+  /** Steps per integrate call. */
   maxSteps: number;
+  /** A budget shared by the whole computation (steps, wall time), see ./ode-budget.ts. */
+  budget?: OdeBudget;
+  /**
+   * Stop early when the problem looks stiff: integrate then returns the time
+   * reached, and `stiff` is true (the caller continues with a stiff method).
+   * Detection as in Hairer & Wanner's DOPRI5 code (Solving ODEs II, section
+   * IV.2): h * |lambda| estimated from the last two stages exceeds 3.25 (the
+   * edge of the stability region) on 15 accepted steps without 6 in a row below it.
+   */
+  stopWhenStiff?: boolean;
 }
 
 const C2 = 1 / 5,
@@ -61,6 +74,10 @@ export class DopriIntegrator {
   /** Suggested next step size (0 = choose automatically). */
   h = 0;
   steps = 0;
+  /** Set once stiffness was detected (with stopWhenStiff). */
+  stiff = false;
+  private stiffCount = 0;
+  private nonStiffCount = 0;
 
   constructor(
     readonly n: number,
@@ -78,11 +95,14 @@ export class DopriIntegrator {
     this.yn = new Float64Array(n);
   }
 
-  /** Advances y (in place) from t0 to exactly t1. */
-  integrate(y: Float64Array, t0: number, t1: number): void {
-    if (!(t1 > t0)) return;
+  /**
+   * Advances y (in place) from t0 to exactly t1 and returns t1; with
+   * stopWhenStiff it may stop earlier, returning the time reached.
+   */
+  integrate(y: Float64Array, t0: number, t1: number): number {
+    if (!(t1 > t0)) return t1;
     const { n, f, k1, k2, k3, k4, k5, k6, k7, yt, yn } = this;
-    const { relTol, absTol, maxSteps } = this.options;
+    const { relTol, absTol, maxSteps, budget, stopWhenStiff } = this.options;
     let t = t0;
     f(t, y, k1);
     let h = this.h;
@@ -125,17 +145,52 @@ export class DopriIntegrator {
       }
       err = Math.sqrt(err / n);
       this.steps++;
+      if (budget) budget.step(t, y);
       if (++localSteps > maxSteps)
         throw new Error(`ODE solver: more than ${maxSteps} steps between t=${t0} and t=${t1}`);
+      if (!Number.isFinite(err)) {
+        // an overflowing state or rate: no step size helps once the derivative itself is not finite
+        let finite = true;
+        for (let i = 0; i < n; i++) if (!Number.isFinite(k1[i]) || !Number.isFinite(y[i])) finite = false;
+        if (!finite || !(h > 1e-300)) {
+          if (budget) throw budget.nonFinite(t, y);
+          throw new Error(`ODE solver: the state or its derivative is not finite at t=${t}`);
+        }
+        h *= 0.2;
+        continue;
+      }
       if (err <= 1 || h < 1e-12) {
+        let hLambda = 0;
+        if (stopWhenStiff) {
+          let num = 0;
+          let den = 0;
+          for (let i = 0; i < n; i++) {
+            num += (k7[i] - k6[i]) ** 2;
+            den += (yn[i] - yt[i]) ** 2;
+          }
+          hLambda = den > 0 ? h * Math.sqrt(num / den) : 0;
+        }
         y.set(yn);
         k1.set(k7);
         t = last ? t1 : t + h;
         const fac = err === 0 ? 5 : Math.min(5, Math.max(0.2, 0.9 * Math.pow(err, -0.2)));
+        if (stopWhenStiff) {
+          if (hLambda > 3.25) {
+            this.nonStiffCount = 0;
+            if (++this.stiffCount >= 15) {
+              this.stiff = true;
+              this.h = h * fac;
+              return t;
+            }
+          } else if (this.stiffCount > 0 && ++this.nonStiffCount >= 6) {
+            this.stiffCount = 0;
+            this.nonStiffCount = 0;
+          }
+        }
         if (last) {
           // keep the unshortened step size suggested earlier for the next call
           if (!(this.h > 0)) this.h = h * fac;
-          return;
+          return t1;
         }
         h *= fac;
         this.h = h;

@@ -1,9 +1,13 @@
 /**
  * Deterministic (mean-field) solution of a run's circuit on its output grid,
  * for overlay on the stochastic replicates. Dormand-Prince 5(4) with error
- * control (./dormand-prince.ts), stopping exactly at every switch time of the
- * input program, at every clock stop of time-dependent expression rates and
- * at every grid time (at equal times the input switch first). Same system size and start as the
+ * control (./dormand-prince.ts), switching to a Rosenbrock method with the
+ * analytic Jacobian when the circuit is stiff (./auto-integrator.ts), stopping
+ * exactly at every switch time of the input program, at every clock stop of
+ * time-dependent expression rates and at every grid time (at equal times the
+ * input switch first). Every solve runs under one step (and optionally
+ * wall-time) budget for the whole call (./ode-budget.ts): past it,
+ * OdeBudgetError names the fastest reaction. Same system size and start as the
  * stochastic run (start = offSteadyState: burn-in of burnInMinutes with the
  * input off, from the given counts); no extrinsic variation.
  *
@@ -14,9 +18,11 @@
  * not fire during the burn-in. The steady-state helpers below ignore events.
  */
 import type { RunSpec } from "@/shared/schemas/run-spec";
-import { DopriIntegrator } from "./dormand-prince";
+import { AutoOdeIntegrator } from "./auto-integrator";
 import { EventRunner } from "@/sim/engine/event-runner";
 import { meanFieldRhs } from "./mean-field";
+import { meanFieldJacobian } from "./mean-field-jacobian";
+import { odeBudget, type OdeBudget } from "./ode-budget";
 import { runSetup } from "@/sim/engine/run-setup";
 import { clockProbeAt, type CompiledModel } from "@/sim/circuit/compile-model";
 
@@ -25,6 +31,8 @@ export interface OdeSolveOptions {
   absTol?: number;
   /** Parameter vector to use instead of the circuit's (same layout). */
   params?: Float64Array;
+  /** Budget of the whole call (default: the ambient one of withOdeBudget, else DEFAULT_ODE_STEPS). */
+  budget?: OdeBudget;
 }
 
 export interface OdeSolution {
@@ -42,13 +50,17 @@ function integrator(
   p: Float64Array,
   sig: Float64Array,
   opts: OdeSolveOptions,
+  budget: OdeBudget,
+  span: { from: number; to: number },
   clock: { tq: number } = { tq: clockProbeAt(model, 0) },
 ) {
-  return new DopriIntegrator(model.nSpecies + 1, meanFieldRhs(model, p, sig, true, clock), {
-    relTol: opts.relTol ?? 1e-10,
-    absTol: opts.absTol ?? 1e-10,
-    maxSteps: 5_000_000,
-  });
+  budget.problem = { model, p, sig, ...span };
+  return new AutoOdeIntegrator(
+    model.nSpecies + 1,
+    meanFieldRhs(model, p, sig, true, clock),
+    meanFieldJacobian(model, p, sig, true, model.nSpecies + 1, clock),
+    { relTol: opts.relTol ?? 1e-10, absTol: opts.absTol ?? 1e-10, budget },
+  );
 }
 
 /** Mean-field state after the run's burn-in (or the given counts), from `init`. */
@@ -63,7 +75,8 @@ export function odeStartState(
   y.set(model.init);
   if (setup.spec.start === "offSteadyState" && setup.spec.burnInMinutes > 0) {
     const sig = Float64Array.from(model.signalOff);
-    integrator(model, p, sig, opts).integrate(y, 0, setup.spec.burnInMinutes);
+    const span = { from: 0, to: setup.spec.burnInMinutes };
+    integrator(model, p, sig, opts, odeBudget(opts.budget), span).integrate(y, 0, setup.spec.burnInMinutes);
   }
   const burnInRateIntegral = y[model.nSpecies];
   y[model.nSpecies] = 0;
@@ -76,13 +89,14 @@ export function solveOde(spec: RunSpec, opts: OdeSolveOptions = {}): OdeSolution
   const program = setup.sharedProgram;
   const p = Float64Array.from(opts.params ?? model.baseParams);
   const sig = Float64Array.from(model.signalOff);
-  const { y, burnInRateIntegral } = odeStartState(spec, opts);
+  const budget = odeBudget(opts.budget);
+  const { y, burnInRateIntegral } = odeStartState(spec, { ...opts, budget });
   const clock = { tq: 0 };
   const cs = model.clockStops;
   let xi = 0;
   while (xi < cs.length && cs[xi] <= 0) xi++;
   clock.tq = model.clockProbe[xi];
-  const ode = integrator(model, p, sig, opts, clock);
+  const ode = integrator(model, p, sig, opts, budget, { from: 0, to: grid[grid.length - 1] ?? 0 }, clock);
   const runner = model.events.length > 0 ? new EventRunner(model, y, p, sig, false) : null;
   runner?.init();
   const watch = runner !== null && model.speciesTriggers.length > 0;
@@ -156,7 +170,7 @@ export function solveOde(spec: RunSpec, opts: OdeSolveOptions = {}): OdeSolution
  * Mean-field steady state with the signals fixed at `sig`, from y0: integrates
  * in blocks until the relative change over a block is below 1e-9 (and the
  * derivative small), up to maxMinutes. Throws when the state does not settle
- * (for example an oscillator).
+ * (for example an oscillator), and OdeBudgetError past the budget.
  */
 export function odeSteadyState(
   model: CompiledModel,
@@ -164,15 +178,20 @@ export function odeSteadyState(
   y0: Float64Array,
   sig: Float64Array,
   maxMinutes = 200_000,
+  given?: OdeBudget,
 ): Float64Array {
   const n = model.nSpecies;
+  // one spare component, as in the cost-estimate system (kept so the error norm is unchanged)
   const y = new Float64Array(n + 1);
   y.set(y0.subarray(0, n));
-  const ode = new DopriIntegrator(n + 1, meanFieldRhs(model, p, sig, false), {
-    relTol: 1e-10,
-    absTol: 1e-10,
-    maxSteps: 5_000_000,
-  });
+  const budget = odeBudget(given);
+  budget.problem = { model, p, sig, from: 0, to: maxMinutes, hint: "the search for a steady state" };
+  const ode = new AutoOdeIntegrator(
+    n + 1,
+    meanFieldRhs(model, p, sig, false),
+    meanFieldJacobian(model, p, sig, false, n + 1),
+    { relTol: 1e-10, absTol: 1e-10, budget },
+  );
   const prev = new Float64Array(n + 1);
   let block = 10;
   let t = 0;
