@@ -11,6 +11,7 @@ import { createRunQueue } from "@/server/compute/run-queue";
 import { createSimPool } from "@/server/compute/pool";
 import { createInProcessDispatcher } from "@/server/compute/dispatch";
 import { createRedisDispatcher } from "@/server/compute/redis-dispatch";
+import { closeComputePool, createComputeService } from "@/server/compute/compute-service";
 import { onRunEnded } from "@/server/compute/run-events";
 import { purgeDeleted } from "@/server/services/runs.service";
 import { seedDemo } from "@/server/demo/seed";
@@ -35,6 +36,7 @@ export async function boot(env: Env = parseEnv()): Promise<Booted> {
     version: APP_VERSION,
     mailer,
     poolSize: env.poolSize,
+    compute: createComputeService({ wallSeconds: env.LINGER_COMPUTE_WALL_SECONDS }),
   } as AppContext;
   ctx.queue = createRunQueue({
     db: handle.db,
@@ -57,6 +59,7 @@ export async function boot(env: Env = parseEnv()): Promise<Booted> {
     async shutdown() {
       clearInterval(purge);
       await queue.close();
+      await closeComputePool();
       await mailSettled(mailer);
       await mailer.close();
       handle.close();

@@ -4,6 +4,7 @@ import type Database from "better-sqlite3";
 import type { Env } from "./env";
 import type { Mailer } from "@/server/services/mail.service";
 import type { RunQueue } from "@/server/compute/run-queue";
+import type { ComputeService } from "@/server/compute/compute-service";
 
 export interface AppContext {
   db: Db;
@@ -12,6 +13,8 @@ export interface AppContext {
   version: string;
   mailer: Mailer;
   queue: RunQueue;
+  /** Request-time ODE work (threshold, estimate, control), off the event loop with a budget. */
+  compute: ComputeService;
   /** Size of the compute pool (threads). */
   poolSize: number;
 }

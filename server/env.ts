@@ -45,6 +45,8 @@ export const EnvSchema = z.object({
   LINGER_WEB_DIST: z.string().default("dist"),
   /** Wall-time cap per chunk of replicates, in seconds. */
   LINGER_CHUNK_WALL_SECONDS: z.coerce.number().gt(0).default(600),
+  /** Computing time one request may use for threshold, estimate and control ODEs (off the event loop); past it, 422. */
+  LINGER_COMPUTE_WALL_SECONDS: z.coerce.number().gt(0).default(10),
   LINGER_LOG_REQUESTS: bool(false),
   /** Distributed mode: chunks go to worker processes through this Redis (redis:// or rediss://, with the password). */
   LINGER_REDIS_URL: z

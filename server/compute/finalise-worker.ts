@@ -13,7 +13,7 @@ import * as schema from "@/db/schema";
 import type { Db } from "@/db/client";
 import type { RunSpec } from "@/shared/schemas/run-spec";
 import type { RunSummary } from "@/shared/schemas/analysis";
-import { reduceChunks } from "@/sim";
+import { OdeBudget, reduceChunks, withOdeBudget } from "@/sim";
 import type { RunRegime } from "@/sim/regimes";
 import { finaliseRun } from "@/sim/analysis";
 import {
@@ -39,6 +39,10 @@ export interface FinaliseResult {
   regime: RunRegime;
 }
 
+/** Computing time and ODE steps the ODE work of one finalisation (overlay, threshold, regime) may take. */
+const FINALISE_ODE_WALL_MS = 120_000;
+const FINALISE_ODE_STEPS = 20_000_000;
+
 export default function finalise(task: FinaliseTask): FinaliseResult {
   const sqlite = new Database(task.dbPath, { readonly: true, fileMustExist: true });
   try {
@@ -58,17 +62,25 @@ export default function finalise(task: FinaliseTask): FinaliseResult {
     );
     const replicates = readReplicateRows(db, task.runId);
     const pulses = readPulseStats(db, task.runId);
-    const { ode, odeNote, summary, regime } = finaliseRun({
-      spec,
-      pulses,
-      replicates: replicates.map((r) => ({
-        replicate: r.replicate,
-        events: r.events,
-        capped: r.capped,
-        outputMean: r.outputMean ?? NaN,
-        outputVar: r.outputVar ?? NaN,
-      })),
+    const deadline = Date.now() + FINALISE_ODE_WALL_MS;
+    const budget = new OdeBudget({
+      maxSteps: FINALISE_ODE_STEPS,
+      checkpoint: () => Date.now() < deadline,
+      wallSeconds: FINALISE_ODE_WALL_MS / 1000,
     });
+    const { ode, odeNote, summary, regime } = withOdeBudget(budget, () =>
+      finaliseRun({
+        spec,
+        pulses,
+        replicates: replicates.map((r) => ({
+          replicate: r.replicate,
+          events: r.events,
+          capped: r.capped,
+          outputMean: r.outputMean ?? NaN,
+          outputVar: r.outputVar ?? NaN,
+        })),
+      }),
+    );
     const series = gridSeries(spec, mean, sd, ode);
     return {
       series,

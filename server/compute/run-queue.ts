@@ -6,6 +6,9 @@
  * finalised (grid mean/SD reduced in chunk order, ODE overlay, summary, hash)
  * when its last chunk lands. Runs found "running" at start resume from their
  * stored chunks; the result equals an uninterrupted run with the same seed.
+ * Finalisations wait for the finalising thread round-robin across labs
+ * (./fair-queue.ts), so one lab's backlog of slow finalisations (say stiff ODE
+ * overlays) does not hold another lab's run behind all of it.
  */
 import { EventEmitter } from "node:events";
 import { and, eq, inArray, isNull } from "drizzle-orm";
@@ -22,6 +25,7 @@ import { newFeedState, pickNextChunk } from "@/server/compute/feed-window";
 import type { FinaliseResult, FinaliseTask } from "@/server/compute/finalise-worker";
 import { createChunkWriter, readChunks, speciesNames } from "./run-store";
 import { recordAudit } from "@/server/services/audit.service";
+import { createFairQueue } from "./fair-queue";
 
 export interface RunQueueStats {
   queuedRuns: number;
@@ -86,6 +90,8 @@ export interface RunQueueOptions {
   chunkWallMs?: number;
   /** Called after a run reaches an end state (finished, capped, failed). */
   onRunEnded?: (runId: string, status: string) => void | Promise<void>;
+  /** Called when a run's finalisation starts in the finalising thread (tests: order of service). */
+  onFinaliseStart?: (runId: string, labId: string) => void;
   log?: (msg: string) => void;
 }
 
@@ -130,6 +136,10 @@ export function createRunQueue(opts: RunQueueOptions): RunQueue {
     minThreads: 1,
     maxThreads: 1,
   });
+  const finaliseQueue = createFairQueue(
+    (run: ActiveRun) => finaliser.run({ dbPath, runId: run.id } satisfies FinaliseTask) as Promise<FinaliseResult>,
+    { concurrency: 1, onStart: (labId, run) => opts.onFinaliseStart?.(run.id, labId) },
+  );
   const events = new EventEmitter();
   events.setMaxListeners(0);
   const active = new Map<string, ActiveRun>();
@@ -343,7 +353,7 @@ export function createRunQueue(opts: RunQueueOptions): RunQueue {
     finalising.add(run.id);
     try {
       // Reduction, ODE, summary and hash run in a worker thread: the event loop only writes the result.
-      const r: FinaliseResult = await finaliser.run({ dbPath, runId: run.id } satisfies FinaliseTask);
+      const r: FinaliseResult = await finaliseQueue.submit(run.labId, run);
       if (r.odeNote) log(`run ${run.id}: no ODE overlay (${r.odeNote})`);
       const spec = run.spec;
       const status = r.capped ? "capped" : "finished";

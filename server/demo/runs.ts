@@ -12,7 +12,7 @@ import type { AppContext } from "@/server/context";
 import { schema } from "@/db/client";
 import { registerDemoSeeder } from "./seed";
 import { DEMO_CIRCUIT_KEYS, DEMO_PROGRAM_KEYS, demoCircuitId, demoProgramId } from "./circuits";
-import { buildSpec, insertRun, resolveInputs } from "@/server/services/runs.service";
+import { buildSpec, checkThresholdNow, insertRun, resolveInputs } from "@/server/services/runs.service";
 import { launchSweep } from "@/server/services/sweeps.service";
 import { DEMO_THRESHOLD_MOLECULES } from "./traces";
 
@@ -54,6 +54,7 @@ export function seedDemoRuns(ctx: AppContext, lab: { id: string; ownerId: string
       recordEventsFor: 0,
       method: "direct",
     });
+    checkThresholdNow(spec);
     insertRun(ctx, {
       labId: lab.id,
       name: d.name,
@@ -71,7 +72,7 @@ export function seedDemoRuns(ctx: AppContext, lab: { id: string; ownerId: string
 export const DEMO_SWEEP_NAME = "Hold strength scan (demo)";
 
 /** The demo sweep: K(makeZ,hldB) of "Tank sensor, hold" over 40-400 molecules (log grid, 9 points). Keyed by name (sweeps have no demo key column). */
-export function seedDemoSweep(ctx: AppContext, lab: { id: string; ownerId: string }) {
+export async function seedDemoSweep(ctx: AppContext, lab: { id: string; ownerId: string }) {
   const exists = ctx.db
     .select({ id: schema.sweeps.id })
     .from(schema.sweeps)
@@ -81,7 +82,7 @@ export function seedDemoSweep(ctx: AppContext, lab: { id: string; ownerId: strin
   const circuitId = demoCircuitId(ctx, lab.id, DEMO_CIRCUIT_KEYS.hold);
   const programId = demoProgramId(ctx, lab.id, DEMO_PROGRAM_KEYS.durationLadder);
   if (!circuitId || !programId) return;
-  launchSweep(ctx, lab.id, lab.ownerId, {
+  await launchSweep(ctx, lab.id, lab.ownerId, {
     name: DEMO_SWEEP_NAME,
     base: {
       circuitId,

@@ -99,8 +99,8 @@ export const runRoutes = defineRoutes([
     access: { kind: "lab", role: "editor" },
     body: LaunchRunSchema,
     summary: "Launch a run (queued at once).",
-    handler: (call) =>
-      newRun(call, runs.launchRun(call.ctx, call.labId, call.user!.id, call.body), "run.launched", {
+    handler: async (call) =>
+      newRun(call, await runs.launchRun(call.ctx, call.labId, call.user!.id, call.body), "run.launched", {
         name: call.body.name,
       }),
   },
@@ -115,7 +115,7 @@ export const runRoutes = defineRoutes([
         ...body.settings,
         seed: body.settings.seed ?? "estimate",
       });
-      return runs.estimate(spec);
+      return runs.estimate(ctx, labId, spec);
     },
   },
   {
@@ -132,10 +132,10 @@ export const runRoutes = defineRoutes([
     access: { kind: "lab", role: "editor" },
     body: z.object({ bundle: z.unknown(), name: z.string().trim().min(1).max(120).optional() }),
     summary: "Import a run bundle and re-run it; the run reports whether it reproduced the bundle's statistics.",
-    handler: (call) =>
+    handler: async (call) =>
       newRun(
         call,
-        bundles.importBundle(call.ctx, call.labId, call.user!.id, call.body.bundle, call.body.name),
+        await bundles.importBundle(call.ctx, call.labId, call.user!.id, call.body.bundle, call.body.name),
         "run.imported",
       ),
   },
@@ -144,10 +144,10 @@ export const runRoutes = defineRoutes([
     path: "/runs/:id",
     access: { kind: "object", resource: "run", role: "viewer" },
     summary: "Run detail: status, progress, settings, summary figures, reproduction check.",
-    handler: ({ ctx, params }) => ({
+    handler: async ({ ctx, params }) => ({
       ...runs.runDetail(ctx, params.id),
       reproduction: bundles.reproductionStatus(ctx, params.id),
-      acceleration: accelerationFor(ctx, params.id),
+      acceleration: await accelerationFor(ctx, params.id),
     }),
   },
   {
@@ -366,8 +366,8 @@ export const runRoutes = defineRoutes([
     path: "/runs/:id/control",
     access: { kind: "object", resource: "run", role: "editor" },
     summary: "Create and launch the matched simple-regulation control (same steady state, program and seed scheme).",
-    handler: (call) =>
-      newRun(call, createMatchedControl(call.ctx, call.params.id, call.user!.id), "run.launched", {
+    handler: async (call) =>
+      newRun(call, await createMatchedControl(call.ctx, call.params.id, call.user!.id), "run.launched", {
         controlOf: call.params.id,
       }),
   },

@@ -22,8 +22,8 @@ export const sweepRoutes = defineRoutes([
     access: { kind: "lab", role: "editor" },
     body: LaunchSweepSchema,
     summary: "Launch a sweep of one or two parameters; each point is a child run.",
-    handler: ({ ctx, labId, user, body, res }) => {
-      const id = sweeps.launchSweep(ctx, labId, user!.id, body);
+    handler: async ({ ctx, labId, user, body, res }) => {
+      const id = await sweeps.launchSweep(ctx, labId, user!.id, body);
       recordAudit(ctx, {
         labId,
         userId: user!.id,

@@ -7,14 +7,7 @@ import type { AppContext } from "@/server/context";
 import { schema } from "@/db/client";
 import type { RunSpec } from "@/shared/schemas/run-spec";
 import type { RunSummary } from "@/shared/schemas/analysis";
-import {
-  accelerationFigures,
-  compareRuns,
-  delaysOf,
-  widthsOf,
-  makeMatchedControl,
-  runSettingsBlock,
-} from "@/sim/analysis";
+import { accelerationFigures, compareRuns, delaysOf, widthsOf, runSettingsBlock } from "@/sim/analysis";
 import { resolveThreshold } from "@/sim/engine/resolve-threshold";
 import { badRequest, conflict, notFound } from "@/server/http-error";
 import { checkLimits, getRunRow, insertRun } from "./runs.service";
@@ -61,15 +54,11 @@ function settingsOf(row: { spec: unknown; summary: unknown }) {
 }
 
 /** Creates and queues the matched simple-regulation control of a run. */
-export function createMatchedControl(ctx: AppContext, runId: string, userId: string): string {
+export async function createMatchedControl(ctx: AppContext, runId: string, userId: string): Promise<string> {
   const row = getRunRow(ctx, runId);
   const spec = row.spec as RunSpec;
-  let control: RunSpec;
-  try {
-    control = makeMatchedControl(spec);
-  } catch (e) {
-    throw badRequest(`A matched control cannot be built for this circuit: ${(e as Error).message}`);
-  }
+  // built (steady states by ODE) and threshold-checked in the compute thread
+  const control = await ctx.compute.matchedControl(row.labId, spec);
   checkLimits(control);
   const id = insertRun(ctx, {
     labId: row.labId,
@@ -87,7 +76,7 @@ export function createMatchedControl(ctx: AppContext, runId: string, userId: str
  * Acceleration and delay against the matched control, when the run has a
  * finished control (or is one): T1/2 ratio and median delays, circuit minus control.
  */
-export function accelerationFor(ctx: AppContext, runId: string) {
+export async function accelerationFor(ctx: AppContext, runId: string) {
   const row = getRunRow(ctx, runId);
   const pair = row.controlOf
     ? { circuit: ctx.db.select().from(schema.runs).where(eq(schema.runs.id, row.controlOf)).get(), control: row }
@@ -104,11 +93,12 @@ export function accelerationFor(ctx: AppContext, runId: string) {
   return {
     circuitRunId: pair.circuit.id,
     controlRunId: pair.control.id,
-    ...accelerationFigures({
+    // ODE step responses: in the compute thread
+    ...((await ctx.compute.acceleration(row.labId, {
       circuitSpec: pair.circuit.spec as RunSpec,
       circuitSummary: pair.circuit.summary as RunSummary,
       controlSpec: pair.control.spec as RunSpec,
       controlSummary: pair.control.summary as RunSummary,
-    }),
+    })) as ReturnType<typeof accelerationFigures>),
   };
 }

@@ -10,7 +10,7 @@ import { BUNDLE_FORMAT, RunBundleSchema, type RunBundle } from "@/shared/schemas
 import type { RunSpec } from "@/shared/schemas/run-spec";
 import { validateCircuit } from "@/sim";
 import { badRequest, parseOr400 } from "@/server/http-error";
-import { checkLimits, distinctRunName, getRunRow, insertRun, runDetail } from "./runs.service";
+import { checkLimits, checkThresholds, distinctRunName, getRunRow, insertRun, runDetail } from "./runs.service";
 import { methodLabel } from "@/sim/analysis/method-label";
 import { firstDifference } from "@/server/compute/run-store";
 
@@ -32,7 +32,13 @@ export function makeBundle(ctx: AppContext, runId: string): RunBundle {
   };
 }
 
-export function importBundle(ctx: AppContext, labId: string, userId: string, raw: unknown, name?: string): string {
+export async function importBundle(
+  ctx: AppContext,
+  labId: string,
+  userId: string,
+  raw: unknown,
+  name?: string,
+): Promise<string> {
   const bundle = parseOr400(RunBundleSchema, raw, "bundle");
   const v = validateCircuit(bundle.spec.circuit);
   if (!v.ok)
@@ -41,6 +47,7 @@ export function importBundle(ctx: AppContext, labId: string, userId: string, raw
       v.errors.map((e) => ({ path: `bundle.spec.circuit.${e.path}`, message: e.message })),
     );
   checkLimits(bundle.spec);
+  await checkThresholds(ctx, labId, [bundle.spec]);
   const id = insertRun(ctx, {
     labId,
     name: distinctRunName(ctx, labId, name ?? `${bundle.name} (reproduction)`),

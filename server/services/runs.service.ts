@@ -19,15 +19,7 @@ import {
 import type { Circuit } from "@/shared/schemas/circuit";
 import type { InputProgram } from "@/shared/schemas/input-program";
 import type { RunSummary } from "@/shared/schemas/analysis";
-import {
-  ENGINE_VERSION,
-  chunkLayout,
-  compileProgram,
-  estimateEvents,
-  gridTimes,
-  resolveThreshold,
-  validateCircuit,
-} from "@/sim";
+import { ENGINE_VERSION, chunkLayout, compileProgram, gridTimes, resolveThreshold, validateCircuit } from "@/sim";
 import { badRequest, conflict, notFound, tooMany, parseOr400 } from "@/server/http-error";
 import { newId } from "@/server/ids";
 import { fromBlob } from "@/server/compute/run-store";
@@ -161,6 +153,13 @@ export function checkLimits(spec: RunSpec) {
       "limit",
     );
   }
+}
+
+/**
+ * The threshold check on the event loop, for trusted content only (demo
+ * seeding). Requests use checkThresholds, which runs off the event loop with a budget.
+ */
+export function checkThresholdNow(spec: RunSpec) {
   try {
     resolveThreshold(spec);
   } catch (e) {
@@ -170,9 +169,14 @@ export function checkLimits(spec: RunSpec) {
   }
 }
 
-export function estimate(spec: RunSpec) {
+/** The threshold of each spec resolved in the compute thread: 400 when one cannot be set, 422 past the budget. */
+export async function checkThresholds(ctx: AppContext, labId: string, specs: RunSpec[]): Promise<void> {
+  await ctx.compute.checkThresholds(labId, specs);
+}
+
+export async function estimate(ctx: AppContext, labId: string, spec: RunSpec) {
   const pulses = compileProgram(spec.program, spec.endTimeMinutes).pulses.length;
-  const estimatedEvents = estimateEvents(spec);
+  const estimatedEvents = await ctx.compute.estimateEvents(labId, spec);
   return {
     estimatedEvents,
     // A conservative engine speed for the estimate (docs/benchmarks.md has measured figures).
@@ -260,14 +264,18 @@ export function insertRun(
   return id;
 }
 
-export function launchRun(ctx: AppContext, labId: string, userId: string, body: LaunchRun): string {
-  if (activeRunCount(ctx, labId) >= API_LIMITS.maxActiveRunsPerLab) {
-    throw tooMany(
-      `This lab already has ${API_LIMITS.maxActiveRunsPerLab} runs queued or running; wait for some to finish or cancel one.`,
-    );
-  }
+export async function launchRun(ctx: AppContext, labId: string, userId: string, body: LaunchRun): Promise<string> {
+  const full = () => {
+    if (activeRunCount(ctx, labId) >= API_LIMITS.maxActiveRunsPerLab)
+      throw tooMany(
+        `This lab already has ${API_LIMITS.maxActiveRunsPerLab} runs queued or running; wait for some to finish or cancel one.`,
+      );
+  };
+  full();
   const inputs = resolveInputs(ctx, labId, body);
   const spec = buildSpec(inputs, body.settings);
+  await checkThresholds(ctx, labId, [spec]);
+  full(); // again: other launches may have landed while the threshold was computed
   const id = insertRun(ctx, { labId, name: body.name, notes: body.notes, spec, inputs, userId });
   ctx.queue.kick();
   return id;

@@ -13,7 +13,7 @@ import type { RunSpec } from "@/shared/schemas/run-spec";
 import { listParameters, setParameter } from "@/sim";
 import { badRequest, conflict, notFound, tooMany } from "@/server/http-error";
 import { newId } from "@/server/ids";
-import { buildSpec, insertRun, resolveInputs } from "./runs.service";
+import { buildSpec, checkThresholds, insertRun, resolveInputs } from "./runs.service";
 import { assertRestorable } from "./undo";
 import { decodeCursor, pageFromRows, pageLimit } from "./pagination";
 import type { Page, PageQuery } from "@/shared/schemas/pagination";
@@ -36,7 +36,7 @@ export function axisValues(axis: LaunchSweep["axes"][number]): number[] {
 /** The seed of sweep point i: the base seed with the point index appended (documented in docs/engine.md). */
 export const pointSeed = (base: string, i: number) => `${base}.p${i}`;
 
-export function launchSweep(ctx: AppContext, labId: string, userId: string, body: LaunchSweep): string {
+export async function launchSweep(ctx: AppContext, labId: string, userId: string, body: LaunchSweep): Promise<string> {
   const active = ctx.db
     .select({ n: count() })
     .from(schema.sweeps)
@@ -96,6 +96,8 @@ export function launchSweep(ctx: AppContext, labId: string, userId: string, body
     }
     return buildSpec({ ...inputs, circuit, inputSignal: base.inputSignal }, { ...base, seed: pointSeed(base.seed, i) });
   });
+  // Every point's threshold in the compute thread, under one budget for the whole sweep.
+  await checkThresholds(ctx, labId, specs);
   const id = newId("swp_");
   inTransaction(ctx, () => {
     ctx.db

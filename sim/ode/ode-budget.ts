@@ -44,6 +44,8 @@ export interface OdeProblemInfo {
   /** Start and end of the whole computation (minutes), for the steps-needed estimate. */
   from: number;
   to: number;
+  /** What the solve is for and what helps, e.g. "the ON steady state; set threshold.value" (default: the run itself). */
+  hint?: string;
 }
 
 export class OdeBudget {
@@ -53,6 +55,8 @@ export class OdeBudget {
   private readonly wallSeconds?: number;
   /** The problem being integrated (set by the solvers; used only in messages). */
   problem: OdeProblemInfo | null = null;
+  /** The first refusal, kept even if a caller catches and rewraps it. */
+  failure: OdeBudgetError | null = null;
 
   constructor(opts: OdeBudgetOptions = { maxSteps: DEFAULT_ODE_STEPS }) {
     this.maxSteps = opts.maxSteps;
@@ -70,7 +74,7 @@ export class OdeBudget {
   /** The error for a state or derivative that is no longer a finite number. */
   nonFinite(t: number, y: ArrayLike<number>): OdeBudgetError {
     const fast = this.problem ? fastestReaction(this.problem, y) : null;
-    return new OdeBudgetError(
+    return this.fail(
       "nonFinite",
       `the rate equations overflow at t = ${fmt(t)} min` +
         (fast ? ` (reaction "${fast.name}" at ${fmt(fast.perMinute)}/min)` : "") +
@@ -90,12 +94,18 @@ export class OdeBudget {
     const need = Number.isFinite(needed)
       ? ` needs about ${fmtCount(needed)} steps over ${fmt(info!.to - info!.from)} min`
       : ` had reached only t = ${fmt(t)} min`;
-    return new OdeBudgetError(
+    return this.fail(
       reason,
       `stiff or too fast: ` +
         (fast ? `reaction "${fast.name}" at ${fmt(fast.perMinute)}/min` : "the circuit") +
-        `${need} (${limit}); lower its rate or the end time`,
+        `${need}${info?.hint ? ` of ${info.hint}` : ""} (${limit}); lower its rate${info?.hint ? "" : " or the end time"}`,
     );
+  }
+
+  private fail(reason: OdeBudgetError["reason"], message: string): OdeBudgetError {
+    const e = new OdeBudgetError(reason, message);
+    this.failure ??= e;
+    return e;
   }
 }
 

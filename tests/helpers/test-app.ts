@@ -24,6 +24,7 @@ import { parseEnv } from "@/server/env";
 import { APP_VERSION } from "@/server/version";
 import { createMailer, mailSettled, nullMailer, type Mailer } from "@/server/services/mail.service";
 import { createIdleQueue, type RunQueue } from "@/server/compute/run-queue";
+import { createComputeService } from "@/server/compute/compute-service";
 import { seedDemo, seedDemoAccounts } from "@/server/demo/seed";
 import "@/server/demo/content";
 import { DEMO_PASSWORD } from "./test-server";
@@ -85,6 +86,7 @@ export async function makeTestContext(opts: TestContextOptions = {}): Promise<Te
     mailer,
     queue: createIdleQueue(),
     poolSize: env.poolSize,
+    compute: createComputeService({ wallSeconds: env.LINGER_COMPUTE_WALL_SECONDS }),
   };
   if (opts.queue) ctx.queue = await opts.queue(ctx);
   let demoLab: TestApp["demoLab"] = null;
