@@ -2,7 +2,7 @@
  * npm run bench [-- --json] [--threads N] [--replicates N] [--no-e2e] [--e2e-replicates N]
  *                 [--no-compare] [--repetitions N] [--js-reference] [--with-100k]
  *                 [--no-redis] [--redis-replicates N] [--no-regime-map] [--no-load] [--load-clients N]
- *                 [--load-seconds N]
+ *                 [--load-seconds N] [--no-stall] [--stall-seconds N]
  * Without --threads: measures 1 thread and the pool (all cores). With --json the
  * last line is one JSON object: the last measurement's
  * {model, replicates, events, seconds, eventsPerSecond, threads}, plus, when
@@ -27,9 +27,13 @@
  * Unless --no-load (scripts/bench-load.ts): `load`, p50/p95 latency of the run list, a run's detail and
  * /api/health with 50 signed-in clients (--load-clients) while two runs compute, against the targets of
  * docs/benchmarks.md.
+ * Unless --no-stall (scripts/bench-stall.ts): `stall`, the p95 of /api/health
+ * while one lab member sends stiff and over-budget cost estimates back to back
+ * (target: under 100 ms; the estimates compute in the compute thread).
  */
 import { runEngineBench, type EngineBenchResult } from "./bench-engine";
 import { runEndToEndBench } from "./bench-e2e";
+import { runStallBench } from "./bench-stall";
 import { compareWithReference, replicateScaling, sizeScaling } from "./bench-compare";
 import { formatRedisBench, runRedisBench } from "./bench-redis";
 import { formatLoadBench, runLoadBench } from "./bench-load";
@@ -79,6 +83,15 @@ async function main() {
       console.log(
         `end to end (${e2e.threads} thread${e2e.threads > 1 ? "s" : ""}): ${e2e.replicates} replicates stored in ${e2e.seconds.toFixed(2)} s vs engine alone ${e2e.engineSeconds.toFixed(2)} s ` +
           `= ${e2e.overheadRatio.toFixed(3)}x; p95 latency /api/health ${e2e.healthP95Ms.toFixed(1)} ms, run list ${e2e.listP95Ms.toFixed(1)} ms (${e2e.requests} requests)`,
+      );
+  }
+  if (!argv.includes("--no-stall")) {
+    const st = await runStallBench({ seconds: num("--stall-seconds") ?? 20 });
+    out.stall = st;
+    if (!json)
+      console.log(
+        `stall check: /api/health p95 ${st.healthP95Ms.toFixed(1)} ms, max ${st.healthMaxMs.toFixed(1)} ms over ${st.healthRequests} requests ` +
+          `while estimates ran back to back for ${st.seconds} s (${st.estimates.map((e) => `${e.count} x ${e.status}`).join(", ")}; compute budget ${st.computeWallSeconds} s)`,
       );
   }
   if (!argv.includes("--no-compare")) {

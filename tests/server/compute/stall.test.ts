@@ -9,43 +9,9 @@ import assert from "node:assert/strict";
 import { makeTestContext, signIn, type TestApp } from "@/tests/helpers/test-app";
 import { assertCloseTo } from "@/tests/helpers/close-to";
 import type { CircuitInput } from "@/shared/schemas/circuit";
+import { ringCircuit } from "@/tests/helpers/stiff-circuits";
 import { RunSpecSchema } from "@/shared/schemas/run-spec";
 import compute from "@/server/compute/compute-worker";
-
-/** Three repressors in a ring with fast turnover: the mean-field path needs millions of steps over a long run. */
-export const ringCircuit: CircuitInput = {
-  name: "ring",
-  species: [
-    { name: "P", initialCount: 5 },
-    { name: "Q", initialCount: 0 },
-    { name: "R", initialCount: 0 },
-  ],
-  signals: [{ name: "S", offLevel: 0, onLevel: 1 }],
-  reactions: [
-    ...(
-      [
-        ["R", "P"],
-        ["P", "Q"],
-        ["Q", "R"],
-      ] as const
-    ).map(([from, to]) => ({
-      name: `make${to}`,
-      products: [{ species: to }],
-      rate: {
-        kind: "regulated" as const,
-        maxRatePerMinute: 1000,
-        leakFraction: 0.001,
-        regulators: [{ source: from, effect: "represses" as const, halfMax: 10, hill: 3 }],
-      },
-    })),
-    ...["P", "Q", "R"].map((s) => ({
-      name: `deg${s}`,
-      reactants: [{ species: s }],
-      rate: { kind: "massAction" as const, ratePerMinute: 10 },
-    })),
-  ],
-  outputSpecies: "R",
-};
 
 const body = (circuit: CircuitInput, settings: Record<string, unknown>) => ({
   circuit,
