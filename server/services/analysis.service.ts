@@ -8,9 +8,8 @@ import { schema } from "@/db/client";
 import type { RunSpec } from "@/shared/schemas/run-spec";
 import type { RunSummary } from "@/shared/schemas/analysis";
 import { accelerationFigures, compareRuns, delaysOf, widthsOf, runSettingsBlock } from "@/sim/analysis";
-import { resolveThreshold } from "@/sim/engine/resolve-threshold";
 import { badRequest, conflict, notFound } from "@/server/http-error";
-import { checkLimits, getRunRow, insertRun } from "./runs.service";
+import { checkLimits, getRunRow, insertRun, thresholdOnLoop } from "./runs.service";
 import { readPulseStats } from "@/server/compute/run-store";
 
 export function compareLabRuns(ctx: AppContext, labId: string, runIds: string[]) {
@@ -47,7 +46,7 @@ function settingsOf(row: { spec: unknown; summary: unknown }) {
   if (stored) return stored;
   try {
     const spec = row.spec as RunSpec;
-    return runSettingsBlock(spec, resolveThreshold(spec));
+    return runSettingsBlock(spec, thresholdOnLoop(spec));
   } catch {
     return null;
   }

@@ -14,7 +14,7 @@ import { HttpError, conflict, notFound } from "@/server/http-error";
 import { recordAudit } from "./audit.service";
 import { analyseStored } from "./traces.service";
 import { getParameter } from "@/sim/circuit/parameters";
-import { resolveThreshold } from "@/sim/engine/resolve-threshold";
+import { thresholdOnLoop } from "./runs.service";
 import { RunSpecSchema, type RunSpec } from "@/shared/schemas/run-spec";
 import {
   MatchResultSchema,
@@ -73,7 +73,7 @@ function cautions(
   const windows = new Set<string>();
   for (const r of runs) {
     try {
-      const th = resolveThreshold(r.spec);
+      const th = thresholdOnLoop(r.spec);
       thetas.add(th.theta.toPrecision(4));
       windows.add(th.windowMinutes.toPrecision(4));
     } catch {

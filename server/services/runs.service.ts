@@ -19,7 +19,16 @@ import {
 import type { Circuit } from "@/shared/schemas/circuit";
 import type { InputProgram } from "@/shared/schemas/input-program";
 import type { RunSummary } from "@/shared/schemas/analysis";
-import { ENGINE_VERSION, chunkLayout, compileProgram, gridTimes, resolveThreshold, validateCircuit } from "@/sim";
+import {
+  ENGINE_VERSION,
+  OdeBudget,
+  chunkLayout,
+  compileProgram,
+  gridTimes,
+  resolveThreshold,
+  validateCircuit,
+  withOdeBudget,
+} from "@/sim";
 import { badRequest, conflict, notFound, tooMany, parseOr400 } from "@/server/http-error";
 import { newId } from "@/server/ids";
 import { fromBlob } from "@/server/compute/run-store";
@@ -167,6 +176,18 @@ export function checkThresholdNow(spec: RunSpec) {
       { path: "settings.threshold", message: (e as Error).message },
     ]);
   }
+}
+
+/** ODE steps a read route may spend on the event loop re-resolving a stored run's threshold (well under a second). */
+const ON_LOOP_THRESHOLD_STEPS = 50_000;
+
+/**
+ * A stored run's threshold for read routes (detail, series, comparisons) on the
+ * event loop, under a small ODE budget: past it the default threshold throws
+ * (the caller shows none) and a given one comes without its mean-field warnings.
+ */
+export function thresholdOnLoop(spec: RunSpec) {
+  return withOdeBudget(new OdeBudget({ maxSteps: ON_LOOP_THRESHOLD_STEPS }), () => resolveThreshold(spec));
 }
 
 /** The threshold of each spec resolved in the compute thread: 400 when one cannot be set, 422 past the budget. */
@@ -534,7 +555,7 @@ export function runDetail(ctx: AppContext, id: string): RunDetail {
   const stored = (row.summary as RunSummary | null)?.settings ?? null;
   let settings: RunDetail["settings"] = stored;
   try {
-    const t = resolveThreshold(spec);
+    const t = thresholdOnLoop(spec);
     settings ??= runSettingsBlock(spec, t);
     threshold = {
       theta: t.theta,
@@ -594,7 +615,7 @@ export function runSeries(ctx: AppContext, id: string, opts: { maxTrajectories?:
   }
   let threshold: RunSeries["threshold"] = null;
   try {
-    const t = resolveThreshold(spec);
+    const t = thresholdOnLoop(spec);
     threshold = { theta: t.theta, downTheta: t.downTheta };
   } catch {
     threshold = null;
