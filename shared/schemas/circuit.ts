@@ -190,6 +190,17 @@ export const EventSchema = z
   });
 export type CircuitEvent = z.infer<typeof EventSchema>;
 
+/**
+ * An assignment rule: the species `target` always equals the expression
+ * `value` over other species and parameters (re-applied after every change of
+ * the state; docs/circuit-format.md, Assignment rules).
+ */
+export const AssignmentRuleSchema = z.object({
+  target: NameSchema,
+  value: z.string().min(1, "value must not be empty").max(CIRCUIT_LIMITS.maxExpressionLength),
+});
+export type AssignmentRule = z.infer<typeof AssignmentRuleSchema>;
+
 export const CircuitSchema = z.object({
   name: z.string().min(1, "name must not be empty").max(120),
   description: z.string().max(2000).default(""),
@@ -200,6 +211,8 @@ export const CircuitSchema = z.object({
   parameters: z.array(ParameterSchema).max(CIRCUIT_LIMITS.maxParameters).optional(),
   /** Scheduled and triggered events, in firing order for events at the same instant. */
   events: z.array(EventSchema).max(CIRCUIT_LIMITS.maxEvents).optional(),
+  /** Assignment rules, applied in list order. */
+  rules: z.array(AssignmentRuleSchema).max(20).optional(),
   /** The species the filter figures are about (the reporter). */
   outputSpecies: NameSchema,
 });

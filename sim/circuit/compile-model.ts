@@ -115,6 +115,19 @@ export interface CompiledModel {
   speciesTriggers: number[];
   /** Parameter slots that events assign. */
   eventParamSlots: number[];
+  /** Assignment rules in order (targets are species no reaction changes). */
+  rules: CompiledRule[];
+  /** Per reaction: the rules to re-apply after it fires (in order). */
+  rulesAfter: number[][];
+  /** Per reaction: every species its firing changes, rule targets included. */
+  changedBy: number[][];
+}
+
+export interface CompiledRule {
+  target: number;
+  value: ExprNode;
+  /** Species the value reads. */
+  reads: number[];
 }
 
 export function compileModel(circuit: Circuit, systemSize = 1): CompiledModel {
@@ -240,8 +253,31 @@ export function compileModel(circuit: Circuit, systemSize = 1): CompiledModel {
             ? clockStops[m - 1] + 1
             : 0.5 * (clockStops[k - 1] + clockStops[k]);
   const nR = reactions.length;
-  const dependents: number[][] = reactions.map((r) => {
+  const rules: CompiledRule[] = (circuit.rules ?? []).map((rule) => {
+    const res = parseExpression(rule.value, { ...scope, signals: new Set(), allowTime: false });
+    if (!res.ok) throw new Error(`rule for "${rule.target}": value ${res.error.message}`);
+    return {
+      target: sp.get(rule.target)!,
+      value: res.tree,
+      reads: [...namesRead(res.tree).species].map((n) => sp.get(n)!),
+    };
+  });
+  /** Species changed by a firing of reaction j, rule targets included, and the rules to re-apply. */
+  const rulesAfter: number[][] = [];
+  const changedBy: number[][] = reactions.map((r) => {
     const changed = new Set(r.delta.map((d) => d.species));
+    const after: number[] = [];
+    rules.forEach((rule, k) => {
+      if (rule.reads.some((i) => changed.has(i))) {
+        after.push(k);
+        changed.add(rule.target);
+      }
+    });
+    rulesAfter.push(after);
+    return [...changed];
+  });
+  const dependents: number[][] = reactions.map((_, j) => {
+    const changed = new Set(changedBy[j]);
     const out: number[] = [];
     for (let k = 0; k < nR; k++) if (reactions[k].readsSpecies.some((s) => changed.has(s))) out.push(k);
     return out;
@@ -279,6 +315,9 @@ export function compileModel(circuit: Circuit, systemSize = 1): CompiledModel {
     stopEvents,
     stopFire: Uint8Array.from(stopEvents, (l) => (l.length > 0 ? 1 : 0)),
     speciesTriggers: events.flatMap((e, i) => (e.condition !== null ? [i] : [])),
+    rules,
+    rulesAfter,
+    changedBy,
     eventParamSlots: [
       ...new Set(events.flatMap((e) => e.assigns.filter((a) => a.target === "param").map((a) => a.index))),
     ].sort((a, b) => a - b),
@@ -328,6 +367,19 @@ export function treeFn(model: CompiledModel, tree: ExprNode): TreeFn {
 /** The rate function of an expression reaction. */
 export function expressionRateFn(model: CompiledModel, r: CompiledReaction): TreeFn {
   return treeFn(model, r.expr!);
+}
+
+/** Applies every assignment rule in order to a state (amounts rounded to whole counts when round). */
+export function applyRules(model: CompiledModel, x: Float64Array, p: Float64Array, sig: Float64Array, round: boolean) {
+  for (const rule of model.rules) {
+    const v = treeFn(model, rule.value)(x, sig, p, 0);
+    const w = round ? Math.round(v) : v;
+    if (!(w >= 0 && w < Infinity))
+      throw new Error(
+        `the rule for ${model.speciesNames[rule.target]} gives ${v}; a species amount must be a finite number, not negative`,
+      );
+    x[rule.target] = w;
+  }
 }
 
 /** Error for a rate that is negative or not a finite number (the run stops; never clamped). */

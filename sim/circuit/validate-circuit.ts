@@ -166,6 +166,47 @@ export function semanticErrors(c: Circuit): ValidationError[] {
       });
     }
   });
+  const changedByReactions = new Set(
+    c.reactions.flatMap((r) => {
+      const net = new Map<string, number>();
+      for (const e of r.reactants) net.set(e.species, (net.get(e.species) ?? 0) - e.count);
+      for (const e of r.products) net.set(e.species, (net.get(e.species) ?? 0) + e.count);
+      return [...net].filter(([, n]) => n !== 0).map(([s]) => s);
+    }),
+  );
+  const ruleTargets = new Set<string>();
+  const laterTargets = new Set((c.rules ?? []).map((r) => r.target));
+  (c.rules ?? []).forEach((rule, i) => {
+    const at = `rules[${i}]`;
+    const who = `${at} "${rule.target}"`;
+    laterTargets.delete(rule.target);
+    if (!species.has(rule.target))
+      errors.push({ path: `${at}.target`, message: `${who}: rule target "${rule.target}" is not a species` });
+    else if (ruleTargets.has(rule.target))
+      errors.push({ path: `${at}.target`, message: `${who}: "${rule.target}" already has a rule` });
+    else if (changedByReactions.has(rule.target))
+      errors.push({
+        path: `${at}.target`,
+        message: `${who}: "${rule.target}" is changed by a reaction, so a rule cannot also set it`,
+      });
+    ruleTargets.add(rule.target);
+    const res = parseExpression(rule.value, {
+      species,
+      signals: new Set(),
+      params: new Set(params.keys()),
+      allowTime: false,
+    });
+    if (!res.ok) errors.push({ path: `${at}.value`, message: `${who}: value ${describeExprError(res.error)}` });
+    else {
+      const read = namesRead(res.tree).species;
+      const bad = [...read].find((n) => n === rule.target || laterTargets.has(n));
+      if (bad !== undefined)
+        errors.push({
+          path: `${at}.value`,
+          message: `${who}: value reads "${bad}", ${bad === rule.target ? "its own target" : "the target of a later rule"}; order the rules so each reads only earlier ones`,
+        });
+    }
+  });
   const eventNames = new Set<string>();
   const pscope = () => ({ species, signals, params: new Set(params.keys()) });
   (c.events ?? []).forEach((e, i) => {
@@ -192,7 +233,12 @@ export function semanticErrors(c: Circuit): ValidationError[] {
     }
     e.assign.forEach((a, k) => {
       const ap = `${at}.assign[${k}]`;
-      if (!species.has(a.target) && !params.has(a.target))
+      if (ruleTargets.has(a.target))
+        errors.push({
+          path: `${ap}.target`,
+          message: `${who}: "${a.target}" is set by an assignment rule, so an event cannot set it`,
+        });
+      else if (!species.has(a.target) && !params.has(a.target))
         errors.push({
           path: `${ap}.target`,
           message: `${who}: assignment target "${a.target}" is not a species or parameter${signals.has(a.target) ? " (signals are set by the input program)" : ""}`,

@@ -11,12 +11,12 @@
  * engines (round = true) and kept as they are for the ODE; a negative or
  * non-finite amount, or a non-finite parameter value, throws with the event,
  * target, value and time. Parameter assignments re-derive the fields that
- * follow parameters and K^n.
+ * follow parameters and K^n; assignment rules are re-applied after each event.
  *
  * With enabled = false (a burn-in) nothing fires but the condition states
  * follow the state, so an event fires only on a rise after the run starts.
  */
-import { deriveParams, treeFn, type CompiledModel, type TreeFn } from "@/sim/circuit/compile-model";
+import { applyRules, deriveParams, treeFn, type CompiledModel, type TreeFn } from "@/sim/circuit/compile-model";
 
 const MAX_FIRINGS = 1000;
 
@@ -108,5 +108,6 @@ export class EventRunner {
       }
     });
     if (params) deriveParams(this.model, this.p);
+    if (this.model.rules.length > 0) applyRules(this.model, this.x, this.p, this.sig, this.round);
   }
 }

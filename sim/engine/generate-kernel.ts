@@ -83,6 +83,10 @@ export const KERNEL_FAILED = 3;
 
 /** The error of a replicate that stopped with KERNEL_FAILED. */
 export function kernelFailureMessage(model: CompiledModel, ctx: KernelContext): string {
+  if (ctx.errorKind === 3) {
+    const rule = model.rules[ctx.errorReaction];
+    return `the rule for ${model.speciesNames[rule?.target ?? 0]} gives ${ctx.errorValue} at t = ${ctx.t} min; a species amount must be a finite number, not negative`;
+  }
   const r = model.reactions[ctx.errorReaction];
   const name = r?.name ?? "?";
   if (ctx.errorKind === 2) {
@@ -167,7 +171,7 @@ export function kernelSource(model: CompiledModel, optsIn: KernelOptions): strin
   for (const l of model.links) if (variedSlots.has(l.from)) variedSlots.add(l.slot);
   const opts: KernelOptions = { ...optsIn, variedSlots };
   const hasEvents = model.events.length > 0;
-  const ext = model.hasExpressions || hasEvents;
+  const ext = model.hasExpressions || hasEvents || model.rules.length > 0;
   const nS = model.nSpecies;
   const nG = model.nSignals;
   const nR = model.nReactions;
@@ -179,6 +183,16 @@ export function kernelSource(model: CompiledModel, optsIn: KernelOptions): strin
   const sp = new Map(model.speciesNames.map((n, i) => [n, i]));
   const sg = new Map(model.signalNames.map((n, i) => [n, i]));
   const pq = new Map(model.parameterNames.map((n, i) => [n, model.parameterSlots[i]]));
+  const localNames = {
+    name: (kind: "species" | "signal" | "param", name: string) => {
+      if (kind === "species") return `x${sp.get(name)}`;
+      if (kind === "signal") return `g${sg.get(name)}`;
+      used.add(pq.get(name)!);
+      return `P${pq.get(name)}`;
+    },
+    time: "tq",
+  };
+  const ruleJs = model.rules.map((rule) => treeToJs(rule.value, localNames));
   const trigCode = new Map<number, string>();
   for (const k of model.speciesTriggers)
     trigCode.set(
@@ -266,18 +280,25 @@ export function kernelSource(model: CompiledModel, optsIn: KernelOptions): strin
   const fire = model.reactions.map((rx, j) => {
     const upd = rx.delta.map((d) => `x${d.species} += ${d.change};`).join(" ");
     const deps = model.dependents[j].map((k) => props[k]).join(" ");
-    const trk = rx.delta.some((d) => d.species === out) ? ` if (trk !== null) trk.push(t, x${out});` : "";
+    const changedAll = new Set(model.changedBy[j]);
+    const trk = changedAll.has(out) ? ` if (trk !== null) trk.push(t, x${out});` : "";
+    const ruleCode = model.rulesAfter[j]
+      .map((k) => {
+        const rule = model.rules[k];
+        const v = ruleJs[k];
+        return ` x${rule.target} = Math.round(${v}); if (!(x${rule.target} >= 0 && x${rule.target} < Infinity)) { ctx.errorReaction = ${k}; ctx.errorValue = x${rule.target}; ctx.errorKind = 3; status = 3; break main; }`;
+      })
+      .join("");
     const neg = rx.expr !== null ? rx.delta.filter((d) => d.change < 0).map((d) => `x${d.species} < 0`) : [];
     const guard =
       neg.length > 0
         ? ` if (${neg.join(" || ")}) { ctx.errorReaction = ${j}; ctx.errorValue = a${j}; ctx.errorKind = 2; status = 3; break main; }`
         : "";
-    const changed = new Set(rx.delta.map((d) => d.species));
     const checks = model.speciesTriggers
-      .filter((k) => model.events[k].readsSpecies.some((i) => changed.has(i)))
+      .filter((k) => model.events[k].readsSpecies.some((i) => changedAll.has(i)))
       .map((k) => ` if (${trigCode.get(k)} !== (tr[${k}] === 1)) pend = 1;`)
       .join("");
-    return `j = ${j}; ${upd}${guard} ${deps}${trk}${checks}`;
+    return `j = ${j}; ${upd}${guard}${ruleCode} ${deps}${trk}${checks}`;
   });
   // selection and firing in one chain; the round-off fallback (last non-zero propensity) via a switch
   for (let j = 0; j < nR; j++)

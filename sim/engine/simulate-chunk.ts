@@ -47,7 +47,7 @@ import { sampleLognormalFactor } from "@/sim/random/distributions";
 import { compileProgram, type CompiledProgram } from "@/sim/inputs/compile-program";
 import { PulseTracker } from "@/sim/metrics/pulse-tracker";
 import { resolveThreshold } from "./resolve-threshold";
-import { clockProbeAt, deriveParams } from "@/sim/circuit/compile-model";
+import { applyRules, clockProbeAt, deriveParams } from "@/sim/circuit/compile-model";
 import { ENGINE_VERSION } from "./version";
 import { tauLeapRun } from "./tau-leap";
 import { EventRunner } from "./event-runner";
@@ -200,6 +200,12 @@ export function simulateChunk(
     }
     deriveParams(model, p);
     sig.set(model.signalOff);
+    if (model.rules.length > 0)
+      try {
+        applyRules(model, x, p, sig, true);
+      } catch (e) {
+        throw new Error(`replicate ${rep}: ${(e as Error).message}`);
+      }
     stream.saveTo(rs);
 
     ctx.events = 0;

@@ -20,7 +20,7 @@
  * (reactionRate), as does an exact step of an expression reaction that would
  * make a count negative.
  */
-import { reactionRate, type CompiledModel } from "@/sim/circuit/compile-model";
+import { applyRules, reactionRate, type CompiledModel } from "@/sim/circuit/compile-model";
 import type { KernelContext } from "./generate-kernel";
 import { AleaStream } from "@/sim/random/alea-stream";
 import { samplePoisson } from "@/sim/random/poisson";
@@ -193,6 +193,7 @@ export function tauLeapRun(
               `reaction "${R[j].name}" fired with too few molecules of "${model.speciesNames[d.species]}" at t = ${t} min (the count would go negative): its expression must be 0 when a reactant runs out`,
             );
       if (ctx.recorder) ctx.recorder.push(t, j);
+      if (model.rules.length > 0) applyRules(model, x, p, sig, true);
       if (ctx.onEvents !== null) ctx.onEvents(t, -1);
       if (ctx.tracker && x[out] !== before) ctx.tracker.push(t, x[out]);
       ev++;
@@ -234,6 +235,7 @@ export function tauLeapRun(
         t += tau;
         const before = x[out];
         x.set(xNew);
+        if (model.rules.length > 0) applyRules(model, x, p, sig, true);
         if (ctx.onEvents !== null) ctx.onEvents(t, -1);
         if (ctx.tracker && x[out] !== before) ctx.tracker.push(t, x[out]);
         ev += n;

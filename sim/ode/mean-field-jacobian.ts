@@ -16,6 +16,7 @@
  * Example: for dZ/dt = b - a Z the Jacobian is [-a].
  */
 import { clockProbeAt, reactionRate, type CompiledModel } from "@/sim/circuit/compile-model";
+import { meanFieldRhs } from "./mean-field";
 
 /** (y, J) => void: fills the row-major Jacobian at state y (length n = nSpecies, or nSpecies + 1 with the total). */
 export type OdeJacobian = (t: number, y: Float64Array, J: Float64Array) => void;
@@ -30,6 +31,7 @@ export function meanFieldJacobian(
   /** The clock of time-dependent expression rates, as given to meanFieldRhs. */
   clock?: { tq: number },
 ): OdeJacobian {
+  if (model.rules.length > 0) return rulesJacobian(model, p, sig, accumulateTotal, size, clock);
   const timed = model.clockStops.length > 0;
   const nS = model.nSpecies;
   const n = size;
@@ -50,6 +52,40 @@ export function meanFieldJacobian(
         for (const d of r.delta) J[d.species * n + s] += d.change * g;
         if (accumulateTotal) J[nS * n + s] += g;
       }
+    }
+  };
+}
+
+/**
+ * With assignment rules a rate may read a rule target, which is a function of
+ * other species: the whole Jacobian is taken by central differences of the
+ * rate equations (which apply the rules), forward next to 0.
+ */
+function rulesJacobian(
+  model: CompiledModel,
+  p: Float64Array,
+  sig: Float64Array,
+  accumulateTotal: boolean,
+  size: number,
+  clock?: { tq: number },
+): OdeJacobian {
+  const rhs = meanFieldRhs(model, p, sig, accumulateTotal, clock);
+  const m = accumulateTotal ? model.nSpecies + 1 : model.nSpecies;
+  const yp = new Float64Array(m);
+  const fp = new Float64Array(m);
+  const fm = new Float64Array(m);
+  return (t, y, J) => {
+    J.fill(0);
+    for (let s = 0; s < model.nSpecies; s++) {
+      yp.set(y.subarray(0, m));
+      const h = 1e-6 * Math.max(Math.abs(y[s]), 1);
+      const central = y[s] - h >= 0;
+      yp[s] = y[s] + h;
+      rhs(t, yp, fp);
+      yp[s] = central ? y[s] - h : y[s];
+      rhs(t, yp, fm);
+      const w = central ? 2 * h : h;
+      for (let i = 0; i < m; i++) J[i * size + s] = (fp[i] - fm[i]) / w;
     }
   };
 }

@@ -8,9 +8,10 @@
  * Time-dependent expression rates read `clock.tq`, the probe time of the
  * current clock interval, which the caller updates when it stops at a clock
  * stop (sim/ode/solve-ode.ts); without a clock the interval is found from t
- * (just after any stop at t).
+ * (just after any stop at t). Assignment rules set their targets from the
+ * clamped state before the rates are computed (a target's own derivative is 0).
  */
-import { clockProbeAt, reactionRate, type CompiledModel } from "@/sim/circuit/compile-model";
+import { applyRules, clockProbeAt, reactionRate, type CompiledModel } from "@/sim/circuit/compile-model";
 import type { OdeRhs } from "./dormand-prince";
 
 export function meanFieldRhs(
@@ -30,6 +31,7 @@ export function meanFieldRhs(
       clamped[i] = y[i] > 0 ? y[i] : 0;
       dy[i] = 0;
     }
+    if (model.rules.length > 0) applyRules(model, clamped, p, sig, false);
     let total = 0;
     for (let j = 0; j < nR; j++) {
       const a = reactionRate(model, p, clamped, sig, j, true, tq);

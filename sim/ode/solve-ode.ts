@@ -24,7 +24,7 @@ import { meanFieldRhs } from "./mean-field";
 import { meanFieldJacobian } from "./mean-field-jacobian";
 import { odeBudget, type OdeBudget } from "./ode-budget";
 import { runSetup } from "@/sim/engine/run-setup";
-import { clockProbeAt, type CompiledModel } from "@/sim/circuit/compile-model";
+import { applyRules, clockProbeAt, type CompiledModel } from "@/sim/circuit/compile-model";
 
 export interface OdeSolveOptions {
   relTol?: number;
@@ -97,6 +97,8 @@ export function solveOde(spec: RunSpec, opts: OdeSolveOptions = {}): OdeSolution
   while (xi < cs.length && cs[xi] <= 0) xi++;
   clock.tq = model.clockProbe[xi];
   const ode = integrator(model, p, sig, opts, budget, { from: 0, to: grid[grid.length - 1] ?? 0 }, clock);
+  const rules = model.rules.length > 0;
+  if (rules) applyRules(model, y, p, sig, false);
   const runner = model.events.length > 0 ? new EventRunner(model, y, p, sig, false) : null;
   runner?.init();
   const watch = runner !== null && model.speciesTriggers.length > 0;
@@ -161,6 +163,7 @@ export function solveOde(spec: RunSpec, opts: OdeSolveOptions = {}): OdeSolution
     }
     advance(t, tg);
     t = tg;
+    if (rules) applyRules(model, y, p, sig, false);
     for (let i = 0; i < nS; i++) values[i * ng + g] = y[i];
   }
   return { times: grid.slice(), values, totalRateIntegral: y[nS], burnInRateIntegral };

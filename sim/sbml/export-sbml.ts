@@ -150,6 +150,14 @@ export function exportSbml(circuit: Circuit, program?: ExportProgram): string {
       );
     L.push(`    </listOfParameters>`);
   }
+  if ((circuit.rules ?? []).length > 0) {
+    L.push(`    <listOfRules>`);
+    for (const rule of circuit.rules ?? [])
+      L.push(
+        `      <assignmentRule variable="${rule.target}"><math xmlns="http://www.w3.org/1998/Math/MathML">${treeToMathml(treeOf(rule.value, circuit, "num", false))}</math></assignmentRule>`,
+      );
+    L.push(`    </listOfRules>`);
+  }
   L.push(`    <listOfReactions>`);
   const speciesNames = new Set(circuit.species.map((s) => s.name));
   for (const r of circuit.reactions) {

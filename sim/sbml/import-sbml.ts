@@ -19,7 +19,9 @@
  * In the stochastic reading of SBML the kinetic law is the propensity in
  * molecules per model time unit; Linger reads the model time unit as minutes.
  *
- * Everything else (rules, function definitions, constraints, delays,
+ * Assignment rules on species become Linger assignment rules.
+ * Everything else (rate and algebraic rules, rules on parameters or
+ * compartments, function definitions, constraints, delays,
  * priorities, packages, other levels) is refused: the result lists
  * every refused element with its id, line and reason, and no circuit is made.
  */
@@ -68,11 +70,11 @@ const SUPPORTED_MODEL_CHILDREN = new Set([
   "listOfInitialAssignments",
   "listOfReactions",
   "listOfEvents",
+  "listOfRules",
 ]);
 
 const REFUSED_REASONS: Record<string, string> = {
   listOfFunctionDefinitions: "function definitions are not supported",
-  listOfRules: "rules (assignment, rate and algebraic) are not supported",
   listOfConstraints: "constraints are not supported",
 };
 
@@ -484,6 +486,42 @@ export function importSbml(source: string): SbmlImport {
     }
   }
 
+  // Assignment rules on species become Linger rules; other rules are refused.
+  const rules: { target: string; value: string }[] = [];
+  for (const el of child(model, "listOfRules")?.children ?? []) {
+    if (el.name === "notes" || el.name === "annotation") continue;
+    const target = el.attrs.variable ?? "";
+    if (el.name !== "assignmentRule") {
+      refuse(
+        el,
+        `${el.name === "rateRule" ? "rate rules" : el.name === "algebraicRule" ? "algebraic rules" : `<${el.name}>`} are not supported`,
+        target || null,
+      );
+      continue;
+    }
+    const s = species.get(target);
+    if (!s || s.fixed) {
+      refuse(el, `assignment rules are supported for non-boundary species only; "${target}" is not one`, target);
+      continue;
+    }
+    const math = child(el, "math");
+    try {
+      if (!math) throw new MathRefusal("assignment rule without <math>", el.line);
+      let value = mathmlToTree(math, exprResolve(new Map(), null));
+      if (!s.onlySubstance) {
+        const size = constants.get(s.compartment) ?? NaN;
+        if (size !== 1) value = { t: "bin", op: "*", a: value, b: { t: "num", v: size } };
+      }
+      const text = treeToText(value);
+      const check = parseExpression(text, { ...exprScope(), allowTime: false });
+      if (!check.ok) throw new MathRefusal(`assignment rule: ${check.error.message}`, el.line);
+      rules.push({ target, value: text });
+    } catch (e) {
+      if (!(e instanceof MathRefusal)) throw e;
+      problems.push({ element: el.name, id: target, line: e.line, reason: e.message });
+    }
+  }
+
   if (problems.length > 0) return { ok: false, problems };
   const parameters: Parameter[] = [...usedParams].map((id) => ({ name: id, value: constants.get(id)! }));
   const output = [...species.values()].find((s) => !s.fixed) ?? [...species.values()][0];
@@ -495,6 +533,7 @@ export function importSbml(source: string): SbmlImport {
     reactions,
     ...(parameters.length > 0 ? { parameters } : {}),
     ...(events.length > 0 ? { events } : {}),
+    ...(rules.length > 0 ? { rules } : {}),
     outputSpecies: output?.id ?? "",
   };
   const parsed = CircuitSchema.safeParse(candidate);

@@ -184,3 +184,44 @@ describe("event checks", () => {
     assert.match(both.ok ? "" : both.errors[0].message, /either at \(times\) or when/);
   });
 });
+
+describe("assignment rules", () => {
+  test("a rule target follows its value after every firing, in the direct method, tau-leaping and the ODE", () => {
+    const c = base([], {
+      species: [
+        { name: "X", initialCount: 0 },
+        { name: "twice", initialCount: 0 },
+      ],
+      rules: [{ target: "twice", value: "2 * X + 1" }],
+    });
+    delete (c as { events?: unknown }).events;
+    const s = makeSpec(c, { endTimeMinutes: 20, gridStepMinutes: 1, replicates: 50, seed: "rule" });
+    for (const method of ["direct", "tauLeap"] as const) {
+      const r = simulateChunk({ ...s, method }, 0, 50, { keepAllGrid: true });
+      const ng = r.gridCount.length;
+      for (const tr of r.trajectories)
+        for (let g = 0; g < ng; g++) assert.equal(tr.values[ng + g], 2 * tr.values[g] + 1, `${method} grid ${g}`);
+    }
+    const ode = solveOde(s);
+    const ng = ode.times.length;
+    for (let g = 0; g < ng; g++) assert.ok(Math.abs(ode.values[ng + g] - (2 * ode.values[g] + 1)) < 1e-9);
+    assert.ok(Math.abs(ode.values[ng - 1] - relax(0, 20)) < 1e-6, "the rule does not disturb the dynamics");
+  });
+
+  test("rule checks: a target changed by a reaction, or read before its rule, is refused", () => {
+    const c = base([], {
+      species: [
+        { name: "X", initialCount: 0 },
+        { name: "Y", initialCount: 0 },
+      ],
+      rules: [
+        { target: "X", value: "1" },
+        { target: "Y", value: "Y + 1" },
+      ],
+    });
+    const r = validateCircuit(c);
+    const msgs = r.ok ? "" : r.errors.map((e) => e.message).join("\n");
+    assert.match(msgs, /rules\[0\] "X": "X" is changed by a reaction/);
+    assert.match(msgs, /rules\[1\] "Y": value reads "Y", its own target/);
+  });
+});
