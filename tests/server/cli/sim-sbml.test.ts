@@ -85,7 +85,7 @@ describe("npm run sim with SBML", () => {
       writeFileSync(f, src);
       assert.throws(
         () => run([f, "--end-time", "5", "--grid-step", "1", "--out", path.join(dir, "o"), "--quiet"]),
-        (e: { stderr: Buffer }) => /rateRule "Mu" \(line 47\): rules/.test(String(e.stderr)),
+        (e: { stderr: Buffer }) => /rateRule "Mu" \(line 47\): rate rules are not supported/.test(String(e.stderr)),
       );
     } finally {
       rmSync(dir, { recursive: true, force: true });
