@@ -58,7 +58,7 @@ export default function ChartRenderer({ spec, colors }: ChartRendererProps) {
         yKeys={keys}
         domain={domain}
         padding={{ left: 4, right: 12, top: 8, bottom: 4 }}
-        domainPadding={{ top: 6 }}
+        domainPadding={{ top: 6, left: 8, right: 8 }}
         xAxis={{
           font,
           labelColor: colors.text,
