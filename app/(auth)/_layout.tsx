@@ -1,14 +1,16 @@
 import React from "react";
 import { View } from "react-native";
-import { Redirect, Slot } from "expo-router";
+import { Redirect, Slot, useGlobalSearchParams } from "expo-router";
 import { useMe } from "@/components/data/use-me";
 import { useTheme } from "@/components/theme/use-theme";
+import { safeReturnPath } from "@/components/auth/return-path";
 
-/** Signed-out pages: a narrow centred column. A signed-in visitor goes home. */
+/** Signed-out pages: a narrow centred column. A signed-in visitor goes home, or to the page in `next`. */
 export default function AuthLayout() {
   const t = useTheme();
   const me = useMe();
-  if (me.data) return <Redirect href="/" />;
+  const { next } = useGlobalSearchParams<{ next?: string }>();
+  if (me.data) return <Redirect href={safeReturnPath(next)} />;
   return (
     <View style={{ flex: 1, backgroundColor: t.colors.background }}>
       <Slot />

@@ -8,6 +8,7 @@ import { Text } from "@/components/ui/text";
 import { ApiError } from "@/components/data/api";
 import { useSignUp, useSignUpConfirm } from "@/components/data/use-me";
 import { PASSWORD_MIN_LENGTH } from "@/shared/schemas/auth";
+import { safeReturnPath } from "@/components/auth/return-path";
 
 /** The link from the sign-up mail: one button creates the account (a mail scanner's GET changes nothing). */
 function FinishSignUp({ token }: { token: string }) {
@@ -32,12 +33,12 @@ function FinishSignUp({ token }: { token: string }) {
 }
 
 export default function SignUp() {
-  const params = useLocalSearchParams<{ invite?: string; email?: string; token?: string }>();
+  const params = useLocalSearchParams<{ invite?: string; email?: string; token?: string; next?: string }>();
   if (params.token) return <FinishSignUp token={params.token} />;
-  return <SignUpForm invite={params.invite} email={params.email} />;
+  return <SignUpForm invite={params.invite} email={params.email} next={params.next} />;
 }
 
-function SignUpForm(params: { invite?: string; email?: string }) {
+function SignUpForm(params: { invite?: string; email?: string; next?: string }) {
   const router = useRouter();
   const signUp = useSignUp();
   const [v, setV] = useState({ email: params.email ?? "", displayName: "", password: "" });
@@ -59,7 +60,7 @@ function SignUpForm(params: { invite?: string; email?: string }) {
     };
     signUp.mutate(body, {
       onSuccess: (r) => {
-        if ("user" in r) router.replace("/");
+        if ("user" in r) router.replace(safeReturnPath(params.next));
       },
     });
   };

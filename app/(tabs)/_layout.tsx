@@ -6,10 +6,12 @@ import { isUnauthorized } from "@/components/data/api";
 import { useCurrentLab } from "@/components/data/current-lab";
 import { Screen } from "@/components/ui/screen";
 import { ErrorState, LoadingState } from "@/components/ui/states";
+import { currentPath, signInHrefFor } from "@/components/auth/return-path";
 
 /**
  * Signed-in area. The client owns sign-in redirects: when /api/me answers 401
- * we navigate to /sign-in (the server never redirects).
+ * we navigate to /sign-in (the server never redirects), with the requested
+ * page in `next` so signing in comes back to it.
  */
 export default function SignedInLayout() {
   const router = useRouter();
@@ -18,8 +20,8 @@ export default function SignedInLayout() {
   const { lab } = useCurrentLab();
   const signedOut = isUnauthorized(me.error);
   useEffect(() => {
-    if (signedOut) router.replace("/sign-in");
-  }, [signedOut, router]);
+    if (signedOut) router.replace(signInHrefFor(currentPath(pathname)));
+  }, [signedOut, router, pathname]);
   if (me.isPending || signedOut)
     return (
       <Screen>
@@ -33,12 +35,7 @@ export default function SignedInLayout() {
       </Screen>
     );
   return (
-    <AppShell
-      pathname={pathname}
-      onNavigate={(href) => router.navigate(href as never)}
-      labName={lab?.name}
-      isSiteAdmin={!!me.data.user.isSiteAdmin}
-    >
+    <AppShell pathname={pathname} labName={lab?.name} isSiteAdmin={!!me.data.user.isSiteAdmin}>
       <Slot />
     </AppShell>
   );

@@ -7,6 +7,8 @@ import { Text } from "@/components/ui/text";
 import { Checkbox } from "@/components/ui/checkbox";
 import { SafetyNote } from "@/components/ui/safety-note";
 import { StatCard } from "@/components/ui/stat-card";
+import { PressableLink } from "@/components/ui/pressable-link";
+import { runDateLabel } from "@/components/ui/run-row";
 import { Banner, EmptyState, ErrorState, LoadingState } from "@/components/ui/states";
 import { LazyChart } from "@/components/charts/lazy-chart";
 import { compareDelaySpec, compareFilterSpec } from "@/components/charts/specs";
@@ -90,9 +92,16 @@ function ComparisonView({ ids }: { ids: string[] }) {
           <View key={r.id} style={{ flex: isWide ? 1 : undefined, gap: t.spacing.sm }}>
             <View style={{ flexDirection: "row", alignItems: "center", gap: t.spacing.sm }}>
               <View style={{ width: 12, height: 12, borderRadius: 6, backgroundColor: t.colors.series[k] }} />
-              <Text variant="bodyStrong" style={{ flexShrink: 1 }}>
-                {r.name}
-              </Text>
+              <PressableLink
+                href={`/runs/${r.id}`}
+                accessibilityLabel={`Open ${r.name}`}
+                aria-label={`Open ${r.name}`}
+                style={{ flexShrink: 1, minHeight: 44, justifyContent: "center" }}
+              >
+                <Text variant="bodyStrong" tone="primary">
+                  {r.name}
+                </Text>
+              </PressableLink>
             </View>
             <StatCard
               label="d50"
@@ -191,7 +200,7 @@ export default function Compare() {
     router.setParams({ ids: next.join(",") });
   };
   return (
-    <Screen title="Compare" subtitle="Choose two to four finished runs.">
+    <Screen title="Compare" subtitle="Choose two to four finished runs; on a wide screen they stand side by side.">
       <Card>
         {runs.isPending ? (
           <LoadingState label="Loading runs" />
@@ -207,7 +216,7 @@ export default function Compare() {
           finished.map((r) => (
             <Checkbox
               key={r.id}
-              label={`${r.name} (${r.circuitName})`}
+              label={`${r.name} (${[r.circuitName, runDateLabel(r.createdAt), r.createdBy].filter(Boolean).join(", ")})`}
               checked={ids.includes(r.id)}
               disabled={!ids.includes(r.id) && ids.length >= 4}
               onChange={(on) => toggle(r.id, on)}

@@ -1,6 +1,6 @@
 import React from "react";
 import { View } from "react-native";
-import { useRouter } from "expo-router";
+
 import { Screen } from "@/components/ui/screen";
 import { Text } from "@/components/ui/text";
 import { Button } from "@/components/ui/button";
@@ -16,7 +16,6 @@ import { useBreakpoints } from "@/components/theme/use-breakpoints";
 /** Home: the lab, a clear call to start a study, recent runs (running and queued first). No charts here. */
 export default function Home() {
   const t = useTheme();
-  const router = useRouter();
   const { isWide } = useBreakpoints();
   const { canEdit } = useCurrentLab();
   const runs = useRuns();
@@ -38,20 +37,8 @@ export default function Home() {
           leak through.
         </Text>
         <View style={{ flexDirection: isWide ? "row" : "column", gap: t.spacing.sm }}>
-          <Button
-            label="Start a study"
-            icon="play"
-            onPress={() => router.push("/runs/new")}
-            disabled={!canEdit}
-            testID="start-study"
-          />
-          <Button
-            label="New circuit"
-            variant="secondary"
-            icon="plus"
-            onPress={() => router.push("/circuits/new")}
-            disabled={!canEdit}
-          />
+          <Button label="Start a study" icon="play" href={"/runs/new"} disabled={!canEdit} testID="start-study" />
+          <Button label="New circuit" variant="secondary" icon="plus" href={"/circuits/new"} disabled={!canEdit} />
         </View>
         {!canEdit ? (
           <Text variant="caption" style={{ color: t.colors.onPrimarySoft }}>
@@ -62,7 +49,7 @@ export default function Home() {
       <View style={{ gap: t.spacing.md }}>
         <View style={{ flexDirection: "row", justifyContent: "space-between", alignItems: "center" }}>
           <Text variant="heading">Recent runs</Text>
-          <Button label="All runs" variant="ghost" compact onPress={() => router.push("/runs")} />
+          <Button label="All runs" variant="ghost" compact href={"/runs"} />
         </View>
         {runs.isPending ? (
           <LoadingState label="Loading runs" />
@@ -74,16 +61,13 @@ export default function Home() {
             title="No runs yet"
             message="Your lab's runs will appear here with their progress."
             actionLabel={canEdit ? "Start a study" : undefined}
-            onAction={() => router.push("/runs/new")}
+            actionHref={"/runs/new"}
           />
         ) : (
           <View style={isWide ? { gap: t.spacing.sm, flexDirection: "row", flexWrap: "wrap" } : { gap: t.spacing.sm }}>
             {list.map((r) => (
               <View key={r.id} style={isWide ? { width: "49%", flexGrow: 1 } : undefined}>
-                <RunRow
-                  run={{ ...r, replicatesDone: r.progress.replicatesDone }}
-                  onPress={() => router.push(`/runs/${r.id}`)}
-                />
+                <RunRow run={{ ...r, replicatesDone: r.progress.replicatesDone }} href={`/runs/${r.id}`} />
               </View>
             ))}
           </View>

@@ -1,6 +1,5 @@
 import React from "react";
 import { View } from "react-native";
-import { useRouter } from "expo-router";
 import { Screen } from "@/components/ui/screen";
 import { Card } from "@/components/ui/card";
 import { Text } from "@/components/ui/text";
@@ -12,7 +11,6 @@ import { useTheme } from "@/components/theme/use-theme";
 /** Phone only: the sections that do not fit in the tab bar. */
 export default function More() {
   const t = useTheme();
-  const router = useRouter();
   const me = useMe();
   return (
     <Screen title="More">
@@ -20,7 +18,7 @@ export default function More() {
         {navItemsFor({ isSiteAdmin: me.data?.user.isSiteAdmin })
           .filter((i) => !i.phoneTab)
           .map((i) => (
-            <Card key={i.href} onPress={() => router.push(i.href as never)} accessibilityLabel={i.label}>
+            <Card key={i.href} href={i.href} accessibilityLabel={i.label}>
               <View style={{ flexDirection: "row", gap: t.spacing.md, alignItems: "center" }}>
                 <Icon name={i.icon} color={t.colors.primary} />
                 <Text variant="bodyStrong">{i.label}</Text>

@@ -66,7 +66,7 @@ export default function Settings() {
         <Text variant="heading">Lab</Text>
         <Text tone="muted">Members, invitations, roles and the lab&apos;s history are on the Lab page.</Text>
         <View style={{ flexDirection: "row" }}>
-          <Button label="Open the Lab page" variant="secondary" icon="users" onPress={() => router.push("/lab")} />
+          <Button label="Open the Lab page" variant="secondary" icon="users" href={"/lab"} />
         </View>
       </Card>
       <View style={{ flexDirection: "row" }}>

@@ -140,13 +140,30 @@ export function useRunSeries(id: string | undefined, enabled = true) {
   });
 }
 
-export type ReplicateQuery = { sort: string; dir: "asc" | "desc"; page: number; pageSize: number };
+export type ReplicateQuery = {
+  sort: string;
+  dir: "asc" | "desc";
+  page: number;
+  pageSize: number;
+  /** Only pulses of this input duration (minutes). */
+  durationBin?: number;
+  /** Only pulses that passed, or that did not. */
+  passed?: "yes" | "no";
+};
+
+/** The query string of a replicate page request. */
+export function replicateQueryString(q: ReplicateQuery): string {
+  const p = new URLSearchParams({ sort: q.sort, dir: q.dir, page: String(q.page), pageSize: String(q.pageSize) });
+  if (q.durationBin !== undefined) p.set("durationBin", String(q.durationBin));
+  if (q.passed) p.set("passed", q.passed);
+  return p.toString();
+}
 
 export function useReplicates(id: string | undefined, q: ReplicateQuery, enabled = true) {
   return useQuery({
     queryKey: runKeys.replicates(id ?? "", q),
     queryFn: ({ signal }) =>
-      api(`/api/runs/${id}/replicates?sort=${q.sort}&dir=${q.dir}&page=${q.page}&pageSize=${q.pageSize}`, { schema: ReplicatePageSchema, signal }),
+      api(`/api/runs/${id}/replicates?${replicateQueryString(q)}`, { schema: ReplicatePageSchema, signal }),
     enabled: !!id && enabled,
     placeholderData: keepPreviousData,
   });

@@ -1,9 +1,12 @@
 /**
  * The circuit form: species, signals, reactions with their rate laws, the
  * output. Numbers are typed as text and checked with the shared CircuitSchema
- * as the user types (messages appear under a field once it was touched, or
- * all at once on save). Server field errors (paths like "body.reactions.0...")
- * are shown in the same places. What was typed is kept when the server says no.
+ * as the user types, then with the engine's own checks in plain words
+ * (components/forms/circuit-problems.ts): messages appear beside their field
+ * once it was touched, or all at once on save. Server field errors (paths like
+ * "body.reactions.0...") are shown in the same places, without developer
+ * prefixes. What was typed is kept when the server says no. Renaming a species
+ * or signal renames every reference to it.
  */
 import React, { useMemo, useState } from "react";
 import { View } from "react-native";
@@ -18,6 +21,7 @@ import { Text } from "@/components/ui/text";
 import { Banner } from "@/components/ui/states";
 import { issuesToMap, parseNumber } from "./zod-errors";
 import { formatStoich, parseStoich } from "./stoich-text";
+import { circuitProblems, defaultRegulatorSource, renameReferences, stripDeveloperPrefix } from "./circuit-problems";
 
 type Path = (string | number)[];
 
@@ -72,20 +76,54 @@ export function CircuitEditor({
   const [texts, setTexts] = useState<Record<string, string>>({});
   const [touched, setTouched] = useState<Set<string>>(new Set());
   const [showAll, setShowAll] = useState(false);
+  /** Per species/signal row: the name its references use while the field is being retyped (or emptied). */
+  const [refNames, setRefNames] = useState<Record<string, string>>({});
 
   const parsed = useMemo(() => CircuitSchema.safeParse(circuit), [circuit]);
-  const clientErrors = useMemo(() => (parsed.success ? {} : issuesToMap(parsed.error.issues)), [parsed]);
+  const clientErrors = useMemo(
+    () => (parsed.success ? circuitProblems(parsed.data) : issuesToMap(parsed.error.issues)),
+    [parsed],
+  );
 
-  const update = (path: Path, value: unknown) => {
-    const next = setIn(circuit, path, value);
+  const species = circuit.species ?? [];
+  const signals = circuit.signals ?? [];
+  const reactions = circuit.reactions ?? [];
+  const commit = (next: CircuitInput, touchedKey: string) => {
     setCircuit(next);
-    setTouched((s) => new Set(s).add(key(path)));
+    setTouched((s) => new Set(s).add(touchedKey));
     onChange?.(next);
   };
-  const errorAt = (path: Path): string | undefined => {
+  const update = (path: Path, value: unknown) => commit(setIn(circuit, path, value), key(path));
+  /** A species or signal renamed: every reaction (and the output) that used the old name follows. */
+  const rename = (what: "species" | "signal", i: number, value: string) => {
+    const list = what === "species" ? species : signals;
+    const rowKey = `${what}.${i}`;
+    const from = refNames[rowKey] ?? list[i]?.name ?? "";
+    let next = setIn(circuit, [what === "species" ? "species" : "signals", i, "name"], value);
+    if (value) next = renameReferences(next, what, from, value);
+    setRefNames((m) => ({ ...m, [rowKey]: value || from }));
+    // Stoichiometry texts typed earlier would show the old name: show the renamed lists instead.
+    setTexts((m) => Object.fromEntries(Object.entries(m).filter(([k]) => !/\.(reactants|products)$/.test(k))));
+    commit(next, key([what === "species" ? "species" : "signals", i, "name"]));
+  };
+  /** The message at key k, once the field (touchedKey) was touched or on save; a server message until then. */
+  const shown = (k: string, touchedKey = k): string | undefined => {
+    if (serverErrors[k] && !touched.has(touchedKey)) return clientErrors[k] ?? stripDeveloperPrefix(serverErrors[k]);
+    if (showAll || touched.has(touchedKey)) return clientErrors[k];
+    return undefined;
+  };
+  const errorAt = (path: Path): string | undefined => shown(key(path));
+  /** The first message for a field or anything under it (a stoichiometry list and its entries). */
+  const errorUnder = (path: Path): string | undefined => {
     const k = key(path);
-    if (serverErrors[k] && !touched.has(k)) return serverErrors[k];
-    if (showAll || touched.has(k)) return clientErrors[k];
+    const keys = [
+      k,
+      ...[...Object.keys(clientErrors), ...Object.keys(serverErrors)].filter((x) => x.startsWith(k + ".")),
+    ];
+    for (const x of keys) {
+      const m = shown(x, k);
+      if (m) return m;
+    }
     return undefined;
   };
   const textField = (label: string, path: Path, extra: Partial<React.ComponentProps<typeof Field>> = {}) => (
@@ -114,20 +152,19 @@ export function CircuitEditor({
         }}
         error={errorAt(path)}
         testID={`circuit-${k}`}
-        style={{ flexGrow: 1, flexBasis: 140 }}
+        style={isWide ? { flexGrow: 1, flexBasis: 140 } : undefined}
       />
     );
   };
+  // Stacked on a phone: a flexBasis would become a height there and leave blank gaps.
+  const grow = (basis: number) => (isWide ? { flexGrow: 1, flexBasis: basis } : undefined);
   const row = (children: React.ReactNode) => (
     <View style={{ flexDirection: isWide ? "row" : "column", gap: t.spacing.md, flexWrap: "wrap" }}>{children}</View>
   );
 
-  const species = circuit.species ?? [];
-  const signals = circuit.signals ?? [];
-  const reactions = circuit.reactions ?? [];
   const submit = () => {
     setShowAll(true);
-    if (parsed.success) onSubmit(circuit);
+    if (parsed.success && Object.keys(clientErrors).length === 0) onSubmit(circuit);
   };
   const errorCount = Object.keys(clientErrors).length;
 
@@ -170,8 +207,10 @@ export function CircuitEditor({
           >
             {row(
               <>
-                <View style={{ flexGrow: 1, flexBasis: 160 }}>
-                  {textField(`Species ${i + 1} name`, ["species", i, "name"])}
+                <View style={grow(160)}>
+                  {textField(`Species ${i + 1} name`, ["species", i, "name"], {
+                    onChangeText: (v) => rename("species", i, v),
+                  })}
                 </View>
                 {numberField(
                   `Initial count of ${s.name || `species ${i + 1}`}`,
@@ -186,12 +225,13 @@ export function CircuitEditor({
               compact
               icon="trash-2"
               style={{ alignSelf: "flex-start" }}
-              onPress={() =>
+              onPress={() => {
+                setRefNames({});
                 update(
                   ["species"],
                   species.filter((_, j) => j !== i),
-                )
-              }
+                );
+              }}
             />
           </View>
         ))}
@@ -213,8 +253,10 @@ export function CircuitEditor({
           <View key={i} style={{ gap: t.spacing.sm }}>
             {row(
               <>
-                <View style={{ flexGrow: 1, flexBasis: 160 }}>
-                  {textField(`Signal ${i + 1} name`, ["signals", i, "name"])}
+                <View style={grow(160)}>
+                  {textField(`Signal ${i + 1} name`, ["signals", i, "name"], {
+                    onChangeText: (v) => rename("signal", i, v),
+                  })}
                 </View>
                 {numberField("Level when off", ["signals", i, "offLevel"], "signal units")}
                 {numberField("Level when on", ["signals", i, "onLevel"], "signal units")}
@@ -226,12 +268,13 @@ export function CircuitEditor({
               compact
               icon="trash-2"
               style={{ alignSelf: "flex-start" }}
-              onPress={() =>
+              onPress={() => {
+                setRefNames({});
                 update(
                   ["signals"],
                   signals.filter((_, j) => j !== i),
-                )
-              }
+                );
+              }}
             />
           </View>
         ))}
@@ -271,11 +314,9 @@ export function CircuitEditor({
                       setTexts((s) => ({ ...s, [key(["reactions", i, "reactants"])]: v }));
                       update(["reactions", i, "reactants"], parseStoich(v));
                     }}
-                    error={
-                      errorAt(["reactions", i, "reactants"]) ?? errorAt(["reactions", i, "reactants", 0, "species"])
-                    }
+                    error={errorUnder(["reactions", i, "reactants"])}
                     autoCapitalize="none"
-                    style={{ flexGrow: 1, flexBasis: 160 }}
+                    style={grow(160)}
                   />
                   <Field
                     label={`Made by ${r.name || `reaction ${i + 1}`}`}
@@ -285,9 +326,9 @@ export function CircuitEditor({
                       setTexts((s) => ({ ...s, [key(["reactions", i, "products"])]: v }));
                       update(["reactions", i, "products"], parseStoich(v));
                     }}
-                    error={errorAt(["reactions", i, "products"]) ?? errorAt(["reactions", i, "products", 0, "species"])}
+                    error={errorUnder(["reactions", i, "products"])}
                     autoCapitalize="none"
-                    style={{ flexGrow: 1, flexBasis: 160 }}
+                    style={grow(160)}
                   />
                 </>,
               )}
@@ -308,7 +349,14 @@ export function CircuitEditor({
                           maxRatePerMinute: 1,
                           logic: "and",
                           leakFraction: 0,
-                          regulators: [{ source: species[0]?.name ?? "", effect: "activates", halfMax: 10, hill: 2 }],
+                          regulators: [
+                            {
+                              source: defaultRegulatorSource(circuit, i),
+                              effect: "activates",
+                              halfMax: 10,
+                              hill: 2,
+                            },
+                          ],
                         }
                       : { kind: k, ratePerMinute: 0.1 },
                   )
@@ -347,7 +395,7 @@ export function CircuitEditor({
                     >
                       {row(
                         <>
-                          <View style={{ flexGrow: 1, flexBasis: 140 }}>
+                          <View style={grow(140)}>
                             {textField(`Regulator ${j + 1} of ${r.name || `reaction ${i + 1}`}`, [
                               "reactions",
                               i,
@@ -421,6 +469,11 @@ export function CircuitEditor({
                 autoCapitalize="none"
                 hint="A signal name that multiplies the whole rate."
               />
+              {errorUnder(["reactions", i, "modifiers"]) ? (
+                <Text variant="caption" tone="danger" role="alert">
+                  {errorUnder(["reactions", i, "modifiers"])}
+                </Text>
+              ) : null}
               <Button
                 label={`Remove reaction ${r.name || i + 1}`}
                 variant="ghost"

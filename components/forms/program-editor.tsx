@@ -38,6 +38,23 @@ export const PROGRAM_DEFAULTS: Record<ProgramKind, InputProgramInput> = {
   },
 };
 
+/** The name a program of each kind gets until the user names it. */
+export const PROGRAM_KIND_NAMES: Record<ProgramKind, string> = {
+  ladder: "Duration ladder",
+  periodic: "Periodic train",
+  pulses: "Pulse list",
+  random: "Random spikes",
+};
+
+/**
+ * The name after switching kind: a default (or empty) name follows the new
+ * kind; a name the user chose is kept.
+ */
+export function nameAfterKindChange(name: string, from: ProgramKind, to: ProgramKind): string {
+  const n = name.trim();
+  return n === "" || n === PROGRAM_KIND_NAMES[from] ? PROGRAM_KIND_NAMES[to] : name;
+}
+
 /** A sensible preview end: the last pulse's end plus a margin. */
 export function suggestedEndTime(p: InputProgramInput): number {
   switch (p.kind) {
@@ -390,13 +407,12 @@ export function ProgramEditor({
             label="Kind of program"
             value={program.kind}
             testID="program-kind"
-            options={[
-              { value: "ladder", label: "Duration ladder" },
-              { value: "periodic", label: "Periodic train" },
-              { value: "pulses", label: "Pulse list" },
-              { value: "random", label: "Random spikes" },
-            ]}
+            options={(Object.keys(PROGRAM_KIND_NAMES) as ProgramKind[]).map((k) => ({
+              value: k,
+              label: PROGRAM_KIND_NAMES[k],
+            }))}
             onChange={(k) => {
+              setName((n) => nameAfterKindChange(n, program.kind, k));
               setProgram(PROGRAM_DEFAULTS[k]);
               setTexts({});
               setTouched(new Set());

@@ -36,15 +36,7 @@ export function delayWords(a: AccelerationView): string {
 const min = (v: number | null) => (v === null ? "not reached" : `${formatNumber(v)} min`);
 
 /** A circuit run against its finished matched simple-regulation control (shown on both runs), linking to the other one. */
-export function AccelerationCard({
-  acceleration: a,
-  runId,
-  onOpen,
-}: {
-  acceleration: AccelerationView;
-  runId: string;
-  onOpen: (runId: string) => void;
-}) {
+export function AccelerationCard({ acceleration: a, runId }: { acceleration: AccelerationView; runId: string }) {
   const t = useTheme();
   const isControl = runId === a.controlRunId;
   return (
@@ -76,7 +68,7 @@ export function AccelerationCard({
           variant="secondary"
           icon="git-branch"
           compact
-          onPress={() => onOpen(isControl ? a.circuitRunId : a.controlRunId)}
+          href={`/runs/${isControl ? a.circuitRunId : a.controlRunId}`}
           testID="open-paired-run"
         />
       </View>

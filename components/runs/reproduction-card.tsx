@@ -21,13 +21,7 @@ export function reproductionVerdict(r: Reproduction): { tone: "same" | "differs"
 }
 
 /** On a reproduction (a re-run or an imported bundle): identical statistics or the first difference, and the engine check. */
-export function ReproductionCard({
-  reproduction,
-  onOpenOriginal,
-}: {
-  reproduction: Reproduction;
-  onOpenOriginal?: (runId: string) => void;
-}) {
+export function ReproductionCard({ reproduction }: { reproduction: Reproduction }) {
   const t = useTheme();
   const v = reproductionVerdict(reproduction);
   const fromBundle = reproduction.of === "bundle";
@@ -67,14 +61,14 @@ export function ReproductionCard({
           ? "Engine version: the same as the original's."
           : "Engine version: different from the original's, so small differences can come from the engine itself."}
       </Text>
-      {!fromBundle && onOpenOriginal ? (
+      {!fromBundle ? (
         <View style={{ flexDirection: "row" }}>
           <Button
             label="Open the original run"
             variant="secondary"
             icon="corner-up-left"
             compact
-            onPress={() => onOpenOriginal(reproduction.of)}
+            href={`/runs/${reproduction.of}`}
           />
         </View>
       ) : null}

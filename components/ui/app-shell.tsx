@@ -1,16 +1,16 @@
 import React from "react";
-import { Pressable, View } from "react-native";
+import { View } from "react-native";
 import { useSafeAreaInsets } from "react-native-safe-area-context";
 import { useTheme } from "@/components/theme/use-theme";
 import { useBreakpoints } from "@/components/theme/use-breakpoints";
 import { MIN_TOUCH } from "@/components/theme/tokens";
 import { Text } from "./text";
 import { Icon } from "./icon";
+import { PressableLink } from "./pressable-link";
 import { navItemsFor, MORE_ITEM, isActive, type NavItem } from "./nav-items";
 
 type ShellProps = {
   pathname: string;
-  onNavigate: (href: string) => void;
   labName?: string;
   /** Shows the Admin section. */
   isSiteAdmin?: boolean;
@@ -26,26 +26,15 @@ export function AppShell(props: ShellProps) {
   return isWide ? <SideNavShell {...props} /> : <BottomTabsShell {...props} />;
 }
 
-function NavButton({
-  item,
-  active,
-  onNavigate,
-  layout,
-}: {
-  item: NavItem;
-  active: boolean;
-  onNavigate: (h: string) => void;
-  layout: "tab" | "side";
-}) {
+function NavButton({ item, active, layout }: { item: NavItem; active: boolean; layout: "tab" | "side" }) {
   const t = useTheme();
   const color = active ? t.colors.primary : t.colors.textMuted;
   return (
-    <Pressable
-      role="link"
-      accessibilityRole="link"
+    <PressableLink
+      href={item.href}
       accessibilityLabel={item.label}
+      aria-label={item.label}
       aria-current={active ? "page" : undefined}
-      onPress={() => onNavigate(item.href)}
       testID={`nav-${item.label.toLowerCase().replace(/[^a-z]+/g, "-")}`}
       style={({ hovered, focused }: { pressed: boolean; hovered?: boolean; focused?: boolean }) =>
         layout === "tab"
@@ -85,11 +74,11 @@ function NavButton({
       >
         {item.label}
       </Text>
-    </Pressable>
+    </PressableLink>
   );
 }
 
-function BottomTabsShell({ pathname, onNavigate, children }: ShellProps) {
+function BottomTabsShell({ pathname, children }: ShellProps) {
   const t = useTheme();
   const insets = useSafeAreaInsets();
   const tabs = [...navItemsFor().filter((i) => i.phoneTab), MORE_ITEM];
@@ -108,20 +97,14 @@ function BottomTabsShell({ pathname, onNavigate, children }: ShellProps) {
         }}
       >
         {tabs.map((item) => (
-          <NavButton
-            key={item.href}
-            item={item}
-            active={isActive(item, pathname)}
-            onNavigate={onNavigate}
-            layout="tab"
-          />
+          <NavButton key={item.href} item={item} active={isActive(item, pathname)} layout="tab" />
         ))}
       </View>
     </View>
   );
 }
 
-function SideNavShell({ pathname, onNavigate, labName, isSiteAdmin, children }: ShellProps) {
+function SideNavShell({ pathname, labName, isSiteAdmin, children }: ShellProps) {
   const t = useTheme();
   return (
     <View style={{ flex: 1, flexDirection: "row", backgroundColor: t.colors.background }} testID="layout-wide">
@@ -148,13 +131,7 @@ function SideNavShell({ pathname, onNavigate, labName, isSiteAdmin, children }: 
           ) : null}
         </View>
         {navItemsFor({ isSiteAdmin }).map((item) => (
-          <NavButton
-            key={item.href}
-            item={item}
-            active={isActive(item, pathname)}
-            onNavigate={onNavigate}
-            layout="side"
-          />
+          <NavButton key={item.href} item={item} active={isActive(item, pathname)} layout="side" />
         ))}
       </View>
       <View style={{ flex: 1 }}>{children}</View>

@@ -1,6 +1,13 @@
+import type { Href } from "expo-router";
 import type { IconName } from "./icon";
 
-export type NavItem = { href: string; label: string; icon: IconName; phoneTab: boolean; siteAdminOnly?: boolean };
+export type NavItem = {
+  href: Href & string;
+  label: string;
+  icon: IconName;
+  phoneTab: boolean;
+  siteAdminOnly?: boolean;
+};
 
 /** The sections of the app. On a phone the first four plus "More" are tabs. */
 export const NAV_ITEMS: NavItem[] = [

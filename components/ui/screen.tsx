@@ -4,15 +4,20 @@ import { useSafeAreaInsets } from "react-native-safe-area-context";
 import { useTheme } from "@/components/theme/use-theme";
 import { MAX_CONTENT_WIDTH } from "@/components/theme/tokens";
 import { useBreakpoints } from "@/components/theme/use-breakpoints";
+import type { Href } from "expo-router";
 import { Text } from "./text";
+import { Icon } from "./icon";
+import { PressableLink } from "./pressable-link";
 
 /**
  * One wrapper per screen: safe-area padding, a scrolling column capped at
- * MAX_CONTENT_WIDTH and centred, an optional title row with actions.
+ * MAX_CONTENT_WIDTH and centred, an optional title row with actions, and on
+ * detail pages a visible link back to the list they came from.
  */
 export function Screen({
   title,
   subtitle,
+  back,
   actions,
   children,
   scroll = true,
@@ -21,6 +26,8 @@ export function Screen({
 }: {
   title?: string;
   subtitle?: string;
+  /** A link back up ("Runs", "Circuit Tank sensor"...), shown above the title. */
+  back?: { href: Href; label: string };
   actions?: React.ReactNode;
   children: React.ReactNode;
   scroll?: boolean;
@@ -46,6 +53,30 @@ export function Screen({
         contentStyle,
       ]}
     >
+      {back ? (
+        <PressableLink
+          href={back.href}
+          accessibilityLabel={`Back to ${back.label}`}
+          aria-label={`Back to ${back.label}`}
+          testID="back-link"
+          style={({ hovered }: { pressed: boolean; hovered?: boolean }) => ({
+            flexDirection: "row",
+            alignItems: "center",
+            alignSelf: "flex-start",
+            gap: t.spacing.xs,
+            minHeight: 44,
+            minWidth: 44,
+            paddingRight: t.spacing.sm,
+            marginBottom: -t.spacing.md,
+            opacity: hovered ? 0.8 : 1,
+          })}
+        >
+          <Icon name="chevron-left" size={18} color={t.colors.primary} />
+          <Text variant="label" tone="primary">
+            {back.label}
+          </Text>
+        </PressableLink>
+      ) : null}
       {title ? (
         <View
           style={{

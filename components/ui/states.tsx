@@ -1,5 +1,6 @@
 import React from "react";
 import { ActivityIndicator, View } from "react-native";
+import type { Href } from "expo-router";
 import { useTheme } from "@/components/theme/use-theme";
 import { Text } from "./text";
 import { Button } from "./button";
@@ -11,12 +12,15 @@ export function EmptyState({
   message,
   actionLabel,
   onAction,
+  actionHref,
   icon = "inbox",
 }: {
   title: string;
   message?: string;
   actionLabel?: string;
   onAction?: () => void;
+  /** Where the action goes (a link rather than a button). */
+  actionHref?: Href;
   icon?: IconName;
 }) {
   const t = useTheme();
@@ -39,8 +43,8 @@ export function EmptyState({
           {message}
         </Text>
       ) : null}
-      {actionLabel && onAction ? (
-        <Button label={actionLabel} onPress={onAction} style={{ marginTop: t.spacing.sm }} />
+      {actionLabel && (onAction || actionHref) ? (
+        <Button label={actionLabel} onPress={onAction} href={actionHref} style={{ marginTop: t.spacing.sm }} />
       ) : null}
     </View>
   );

@@ -654,10 +654,19 @@ const SORT_COLUMNS = {
 export function replicatePage(
   ctx: AppContext,
   id: string,
-  q: { sort: keyof typeof SORT_COLUMNS; dir: "asc" | "desc"; page: number; pageSize: number; durationBin?: number },
+  q: {
+    sort: keyof typeof SORT_COLUMNS;
+    dir: "asc" | "desc";
+    page: number;
+    pageSize: number;
+    durationBin?: number;
+    passed?: "yes" | "no";
+  },
 ) {
   const conds = [eq(schema.pulseStats.runId, id)];
   if (q.durationBin !== undefined) conds.push(eq(schema.pulseStats.durationBin, q.durationBin));
+  if (q.passed === "yes") conds.push(eq(schema.pulseStats.passed, true));
+  if (q.passed === "no") conds.push(eq(schema.pulseStats.passed, false), eq(schema.pulseStats.excluded, false));
   const where = and(...conds);
   const total = ctx.db.select({ n: count() }).from(schema.pulseStats).where(where).get()!.n;
   const col = SORT_COLUMNS[q.sort];

@@ -196,6 +196,8 @@ export const ReplicateQuerySchema = z.object({
   page: z.coerce.number().int().min(1).default(1),
   pageSize: z.coerce.number().int().min(1).max(500).default(50),
   durationBin: z.coerce.number().optional(),
+  /** Only pulses that passed ("yes") or that did not ("no", excluded pulses left out); both when absent. */
+  passed: z.enum(["yes", "no"]).optional(),
 });
 export const ReplicatePageSchema = z.object({
   total: z.number(),

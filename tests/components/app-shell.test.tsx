@@ -15,7 +15,7 @@ describe("AppShell chooses its layout from the window width at run time", () => 
   test("phone width (390 px) gets bottom tabs with More", () => {
     setWidth(390);
     renderWithProviders(
-      <AppShell pathname="/" onNavigate={() => {}}>
+      <AppShell pathname="/">
         <Text>content</Text>
       </AppShell>,
     );
@@ -23,12 +23,16 @@ describe("AppShell chooses its layout from the window width at run time", () => 
     expect(screen.queryByTestId("layout-wide")).toBeNull();
     expect(screen.getByLabelText("More")).toBeTruthy();
     expect(screen.queryByLabelText("Sweeps")).toBeNull();
+    // Each tab is a link with its own address (an <a href> on the web).
+    expect(screen.getByLabelText("More").props.href).toBe("/more");
+    expect(screen.getByLabelText("Runs").props.href).toBe("/runs");
+    expect(screen.getByLabelText("Runs").props.role).toBe("link");
   });
 
   test("wide width (1280 px) gets the side navigation with every section", () => {
     setWidth(1280);
     renderWithProviders(
-      <AppShell pathname="/runs/abc" onNavigate={() => {}} labName="Tank Sensor Group">
+      <AppShell pathname="/runs/abc" labName="Tank Sensor Group">
         <Text>content</Text>
       </AppShell>,
     );
@@ -38,6 +42,8 @@ describe("AppShell chooses its layout from the window width at run time", () => 
     }
     expect(screen.getByText("Tank Sensor Group")).toBeTruthy();
     expect(screen.getByLabelText("Runs").props["aria-current"]).toBe("page");
+    expect(screen.getByLabelText("Sweeps").props.href).toBe("/sweeps");
+    expect(screen.getByLabelText("Home").props.href).toBe("/");
   });
 
   test("the breakpoint is 768 px", () => {

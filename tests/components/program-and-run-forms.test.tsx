@@ -35,6 +35,32 @@ describe("ProgramEditor", () => {
     expect(onSubmit).toHaveBeenCalledWith("Spikes", expect.objectContaining({ kind: "periodic" }));
   });
 
+  test("switching kind renames a program only while it keeps the default name", () => {
+    const onSubmit = jest.fn();
+    const { unmount } = renderWithProviders(
+      <ProgramEditor
+        initialName="Duration ladder"
+        initial={PROGRAM_DEFAULTS.ladder}
+        submitLabel="Create"
+        onSubmit={onSubmit}
+      />,
+    );
+    fireEvent.press(screen.getByLabelText("Periodic train"));
+    expect(screen.getByLabelText("Program name").props.value).toBe("Periodic train");
+    fireEvent.press(screen.getByLabelText("Random spikes"));
+    expect(screen.getByLabelText("Program name").props.value).toBe("Random spikes");
+    fireEvent.changeText(screen.getByLabelText("Program name"), "Night feed");
+    fireEvent.press(screen.getByLabelText("Pulse list"));
+    expect(screen.getByLabelText("Program name").props.value).toBe("Night feed");
+    unmount();
+    // A saved program with its own name keeps it.
+    renderWithProviders(
+      <ProgramEditor initialName="Spikes" initial={PROGRAM_DEFAULTS.ladder} submitLabel="Save" onSubmit={onSubmit} />,
+    );
+    fireEvent.press(screen.getByLabelText("Periodic train"));
+    expect(screen.getByLabelText("Program name").props.value).toBe("Spikes");
+  });
+
   test("suggested preview end covers the whole ladder", () => {
     // start 60 + (1+2+5+10+20+40+80) + 7 gaps of 240 = 1898 min
     expect(suggestedEndTime(PROGRAM_DEFAULTS.ladder)).toBe(1898);

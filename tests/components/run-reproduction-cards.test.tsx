@@ -1,5 +1,5 @@
 import React from "react";
-import { fireEvent, screen } from "@testing-library/react-native";
+import { screen } from "@testing-library/react-native";
 import { ReproductionCard, reproductionVerdict, type Reproduction } from "@/components/runs/reproduction-card";
 import {
   AccelerationCard,
@@ -49,15 +49,11 @@ describe("reproduction card", () => {
   });
 
   test("says whether the engine matches and links to the original run (not for bundles)", () => {
-    const open = jest.fn();
-    const { unmount } = renderWithProviders(
-      <ReproductionCard reproduction={repro({ engineMatches: false })} onOpenOriginal={open} />,
-    );
+    const { unmount } = renderWithProviders(<ReproductionCard reproduction={repro({ engineMatches: false })} />);
     expect(screen.getByText(/Engine version: different from the original's/)).toBeTruthy();
-    fireEvent.press(screen.getByLabelText("Open the original run"));
-    expect(open).toHaveBeenCalledWith("run_0");
+    expect(screen.getByLabelText("Open the original run").props.href).toBe("/runs/run_0");
     unmount();
-    renderWithProviders(<ReproductionCard reproduction={repro({ of: "bundle" })} onOpenOriginal={open} />);
+    renderWithProviders(<ReproductionCard reproduction={repro({ of: "bundle" })} />);
     expect(screen.queryByLabelText("Open the original run")).toBeNull();
   });
 });
@@ -72,14 +68,11 @@ describe("acceleration card", () => {
   });
 
   test("links to the other run of the pair", () => {
-    const open = jest.fn();
-    const { unmount } = renderWithProviders(<AccelerationCard acceleration={acc({})} runId="run_c" onOpen={open} />);
-    fireEvent.press(screen.getByLabelText("Open the control run"));
-    expect(open).toHaveBeenLastCalledWith("run_k");
+    const { unmount } = renderWithProviders(<AccelerationCard acceleration={acc({})} runId="run_c" />);
+    expect(screen.getByLabelText("Open the control run").props.href).toBe("/runs/run_k");
     unmount();
-    renderWithProviders(<AccelerationCard acceleration={acc({})} runId="run_k" onOpen={open} />);
-    fireEvent.press(screen.getByLabelText("Open the circuit run"));
-    expect(open).toHaveBeenLastCalledWith("run_c");
+    renderWithProviders(<AccelerationCard acceleration={acc({})} runId="run_k" />);
+    expect(screen.getByLabelText("Open the circuit run").props.href).toBe("/runs/run_c");
   });
 });
 

@@ -68,7 +68,7 @@ for (const vp of [PHONE, WIDE] as Viewport[]) {
 
         // New run from the circuit, small and quick.
         await page.goto(circuitUrl);
-        await page.getByRole("button", { name: "Start a study" }).first().click();
+        await page.getByRole("link", { name: "Start a study" }).first().click();
         await page.waitForURL(/\/runs\/new/);
         await page.getByRole("radio", { name: programName }).click();
         await page.getByTestId("run-replicates").fill("40");

@@ -134,7 +134,7 @@ for (const vp of [PHONE, WIDE] as Viewport[]) {
 
         // Launch a small sweep from the launch screen.
         await page.goto(sweepUrl.replace(/\/sweeps\/[^/]+$/, "/sweeps"));
-        await page.getByRole("button", { name: "New sweep" }).first().click();
+        await page.getByRole("link", { name: "New sweep" }).first().click();
         await page.waitForURL(/\/sweeps\/new$/);
         const newName = `Hold scan ${tag}`;
         await page.getByLabel("Sweep name", { exact: true }).fill(newName);

@@ -60,6 +60,22 @@ describe("runs through the real queue and pool", () => {
       assert.equal(JSON.parse(sj.text).settings.seed, done.seed);
       assert.equal(done.settings.thresholdSource, "default");
       assert.equal(done.summary.settings.method.accuracy, "exact");
+      // filters: by duration, passed or not (excluded pulses are neither), bad values answered 400
+      const stored = rows.filter((x) => x.durationBin === 5);
+      const short = await editor.get(`/api/runs/${r.body.id}/replicates?durationBin=5&pageSize=500`);
+      assert.equal(short.body.total, stored.length);
+      assert.ok(short.body.rows.every((x: any) => x.durationBin === 5));
+      const yes = await editor.get(`/api/runs/${r.body.id}/replicates?passed=yes&pageSize=500`);
+      const no = await editor.get(`/api/runs/${r.body.id}/replicates?passed=no&pageSize=500`);
+      assert.equal(yes.body.total, rows.filter((x) => x.passed).length);
+      assert.equal(no.body.total, rows.filter((x) => !x.passed && !x.excluded).length);
+      assert.ok(yes.body.total > 0 && no.body.total > 0, "the ladder has pulses that pass and pulses that do not");
+      assert.ok(yes.body.rows.every((x: any) => x.passed) && no.body.rows.every((x: any) => !x.passed && !x.excluded));
+      const shortYes = await editor.get(`/api/runs/${r.body.id}/replicates?durationBin=5&passed=yes`);
+      assert.equal(shortYes.body.total, stored.filter((x) => x.passed).length);
+      const badFilter = await editor.get(`/api/runs/${r.body.id}/replicates?passed=maybe`);
+      assert.equal(badFilter.status, 400);
+      assert.match(JSON.stringify(badFilter.body), /passed/);
       // the run list shows it with headline figures
       const list = await editor.get(`/api/labs/${labId}/runs`);
       RunListPageSchema.parse(list.body);

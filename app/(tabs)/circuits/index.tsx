@@ -1,6 +1,6 @@
 import React, { useState } from "react";
 import { View } from "react-native";
-import { useRouter } from "expo-router";
+
 import { Screen } from "@/components/ui/screen";
 import { Card } from "@/components/ui/card";
 import { Text } from "@/components/ui/text";
@@ -14,7 +14,6 @@ import { useBreakpoints } from "@/components/theme/use-breakpoints";
 
 export default function CircuitsScreen() {
   const t = useTheme();
-  const router = useRouter();
   const { isWide } = useBreakpoints();
   const { canEdit } = useCurrentLab();
   const [show, setShow] = useState<"active" | "archived">("active");
@@ -23,11 +22,7 @@ export default function CircuitsScreen() {
     <Screen
       title="Circuits"
       subtitle="Species, reactions and rate laws your lab simulates."
-      actions={
-        canEdit ? (
-          <Button label="New circuit" icon="plus" onPress={() => router.push("/circuits/new")} testID="new-circuit" />
-        ) : null
-      }
+      actions={canEdit ? <Button label="New circuit" icon="plus" href={"/circuits/new"} testID="new-circuit" /> : null}
     >
       <Choice
         label="Show"
@@ -48,13 +43,13 @@ export default function CircuitsScreen() {
           title={show === "archived" ? "No archived circuits" : "No circuits yet"}
           message="Start from a template such as the coherent feed-forward AND circuit, or from scratch."
           actionLabel={canEdit && show === "active" ? "New circuit" : undefined}
-          onAction={() => router.push("/circuits/new")}
+          actionHref={"/circuits/new"}
         />
       ) : (
         <View style={isWide ? { flexDirection: "row", flexWrap: "wrap", gap: t.spacing.md } : { gap: t.spacing.md }}>
           {circuits.data.map((c) => (
             <View key={c.id} style={isWide ? { width: "48%", flexGrow: 1 } : undefined}>
-              <Card onPress={() => router.push(`/circuits/${c.id}`)} testID={`circuit-row-${c.id}`}>
+              <Card href={`/circuits/${c.id}`} testID={`circuit-row-${c.id}`}>
                 <Text variant="bodyStrong">{c.name}</Text>
                 <Text variant="caption" tone="muted">
                   {c.speciesCount} species · {c.reactionCount} reactions · output {c.outputSpecies} · version{" "}

@@ -66,6 +66,7 @@ export default function NewCircuit() {
   if (mode === "scratch") {
     return (
       <Screen
+        back={{ href: "/circuits", label: "Circuits" }}
         title="New circuit"
         subtitle="From scratch"
         actions={<Button label="Use a template instead" variant="secondary" onPress={() => setMode("template")} />}
@@ -88,7 +89,11 @@ export default function NewCircuit() {
   }
 
   return (
-    <Screen title="New circuit" subtitle="Start from a template, then edit anything.">
+    <Screen
+      back={{ href: "/circuits", label: "Circuits" }}
+      title="New circuit"
+      subtitle="Start from a template, then edit anything."
+    >
       {templates.isPending ? (
         <LoadingState label="Loading templates" />
       ) : templates.error ? (
@@ -108,6 +113,8 @@ export default function NewCircuit() {
                     setChosen(tp.key);
                     if (!name) setName(tp.title);
                   }}
+                  checked={selected}
+                  accessibilityLabel={tp.title}
                   testID={`template-${tp.key}`}
                   style={
                     selected
@@ -117,7 +124,6 @@ export default function NewCircuit() {
                 >
                   <Text variant="bodyStrong" style={selected ? { color: t.colors.onPrimarySoft } : undefined}>
                     {tp.title}
-                    {selected ? " (chosen)" : ""}
                   </Text>
                   <Text variant="caption" style={{ color: selected ? t.colors.onPrimarySoft : t.colors.textMuted }}>
                     {tp.description}

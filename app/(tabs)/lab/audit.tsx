@@ -20,7 +20,7 @@ export default function AuditScreen() {
   const title = "Lab history";
   if (!lab || !isOwner) {
     return (
-      <Screen title={title}>
+      <Screen back={{ href: "/lab", label: "Lab" }} title={title}>
         <EmptyState
           icon="lock"
           title="Only lab owners read the history"
@@ -31,13 +31,13 @@ export default function AuditScreen() {
   }
   if (audit.isPending)
     return (
-      <Screen title={title} subtitle={lab.name}>
+      <Screen back={{ href: "/lab", label: "Lab" }} title={title} subtitle={lab.name}>
         <LoadingState label="Loading the history" />
       </Screen>
     );
   if (audit.error)
     return (
-      <Screen title={title} subtitle={lab.name}>
+      <Screen back={{ href: "/lab", label: "Lab" }} title={title} subtitle={lab.name}>
         <ErrorState title="The history could not be loaded" error={audit.error} onRetry={() => audit.refetch()} />
       </Screen>
     );
@@ -47,7 +47,7 @@ export default function AuditScreen() {
     run: (id: string) => runs.data?.find((r) => r.id === id)?.name,
   };
   return (
-    <Screen title={title} subtitle={lab.name} testID="audit-screen">
+    <Screen back={{ href: "/lab", label: "Lab" }} title={title} subtitle={lab.name} testID="audit-screen">
       {events.length === 0 ? (
         <EmptyState icon="clock" title="Nothing has happened in this lab yet" />
       ) : (

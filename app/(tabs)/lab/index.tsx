@@ -165,7 +165,7 @@ export default function LabScreen() {
               label="See the whole history"
               variant="secondary"
               icon="clock"
-              onPress={() => router.push("/lab/audit")}
+              href={"/lab/audit"}
               testID="open-audit"
             />
           </View>

@@ -26,13 +26,13 @@ export default function ProgramDetail() {
   const [editing, setEditing] = useState(false);
   if (q.isPending)
     return (
-      <Screen title="Input program">
+      <Screen back={{ href: "/programs", label: "Inputs" }} title="Input program">
         <LoadingState />
       </Screen>
     );
   if (q.error)
     return (
-      <Screen title="Input program">
+      <Screen back={{ href: "/programs", label: "Inputs" }} title="Input program">
         <ErrorState error={q.error} onRetry={() => q.refetch()} />
       </Screen>
     );
@@ -41,6 +41,7 @@ export default function ProgramDetail() {
   if (editing) {
     return (
       <Screen
+        back={{ href: "/programs", label: "Inputs" }}
         title={`Edit ${program.name}`}
         actions={<Button label="Stop editing" variant="secondary" onPress={() => setEditing(false)} />}
       >
@@ -59,18 +60,14 @@ export default function ProgramDetail() {
   }
   return (
     <Screen
+      back={{ href: "/programs", label: "Inputs" }}
       title={program.name}
       subtitle={program.description}
       actions={
         canEdit ? (
           <>
             <Button label="Edit" icon="edit-2" onPress={() => setEditing(true)} />
-            <Button
-              label="Start a study"
-              variant="secondary"
-              icon="play"
-              onPress={() => router.push(`/runs/new?programId=${program.id}`)}
-            />
+            <Button label="Start a study" variant="secondary" icon="play" href={`/runs/new?programId=${program.id}`} />
           </>
         ) : null
       }

@@ -1,6 +1,6 @@
 import React from "react";
 import { View } from "react-native";
-import { useRouter } from "expo-router";
+
 import { Screen } from "@/components/ui/screen";
 import { Card } from "@/components/ui/card";
 import { Text } from "@/components/ui/text";
@@ -20,7 +20,6 @@ const KIND_LABEL = {
 
 export default function ProgramsScreen() {
   const t = useTheme();
-  const router = useRouter();
   const { isWide } = useBreakpoints();
   const { canEdit } = useCurrentLab();
   const programs = usePrograms();
@@ -28,11 +27,7 @@ export default function ProgramsScreen() {
     <Screen
       title="Input programs"
       subtitle="Schedules of input pulses that drive a circuit."
-      actions={
-        canEdit ? (
-          <Button label="New program" icon="plus" onPress={() => router.push("/programs/new")} testID="new-program" />
-        ) : null
-      }
+      actions={canEdit ? <Button label="New program" icon="plus" href={"/programs/new"} testID="new-program" /> : null}
     >
       {programs.isPending ? (
         <LoadingState label="Loading programs" />
@@ -44,13 +39,13 @@ export default function ProgramsScreen() {
           title="No input programs yet"
           message="A duration ladder is the usual start: pulses of growing length with recovery gaps."
           actionLabel={canEdit ? "New program" : undefined}
-          onAction={() => router.push("/programs/new")}
+          actionHref={"/programs/new"}
         />
       ) : (
         <View style={isWide ? { flexDirection: "row", flexWrap: "wrap", gap: t.spacing.md } : { gap: t.spacing.md }}>
           {programs.data.map((p) => (
             <View key={p.id} style={isWide ? { width: "48%", flexGrow: 1 } : undefined}>
-              <Card onPress={() => router.push(`/programs/${p.id}`)}>
+              <Card href={`/programs/${p.id}`}>
                 <Text variant="bodyStrong">{p.name}</Text>
                 <Text variant="caption" tone="primary">
                   {KIND_LABEL[p.kind]}

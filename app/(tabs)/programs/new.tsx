@@ -12,7 +12,7 @@ export default function NewProgram() {
   const create = useCreateProgram();
   const server = create.error instanceof ApiError ? create.error : null;
   return (
-    <Screen title="New input program">
+    <Screen back={{ href: "/programs", label: "Inputs" }} title="New input program">
       <ProgramEditor
         initialName="Duration ladder"
         initial={PROGRAM_DEFAULTS.ladder}

@@ -1,4 +1,4 @@
-import React, { useState } from "react";
+import React from "react";
 import { Linking, View } from "react-native";
 import { useLocalSearchParams, useRouter } from "expo-router";
 import { Screen } from "@/components/ui/screen";
@@ -8,12 +8,12 @@ import { Button } from "@/components/ui/button";
 import { ProgressBar } from "@/components/ui/progress-bar";
 import { StatusBadge } from "@/components/ui/status-badge";
 import { SafetyNote } from "@/components/ui/safety-note";
-import { DataTable, type Column } from "@/components/ui/data-table";
 import { Banner, ErrorState, LoadingState } from "@/components/ui/states";
 import { HeadlineCards } from "@/components/runs/headline-cards";
 import { ReproductionCard } from "@/components/runs/reproduction-card";
 import { AccelerationCard } from "@/components/runs/acceleration-card";
 import { RegimeCard } from "@/components/regimes/regime-card";
+import { PulseTable } from "@/components/runs/pulse-table";
 import { ShareLinkCard } from "@/components/runs/share-link";
 import { ConfirmAction } from "@/components/lab/confirm-action";
 import { SettingsBlock } from "@/components/runs/settings-block";
@@ -21,7 +21,6 @@ import { DefinitionLink } from "@/components/definitions/definition-link";
 import { useReproduceRun } from "@/components/data/bundles";
 import { LazyChart } from "@/components/charts/lazy-chart";
 import { delayHistogramSpec, filterCurveSpec, meanBandSpec, trajectoriesSpec } from "@/components/charts/specs";
-import { formatNumber } from "@/components/charts/chart-spec";
 import {
   ACTIVE_STATUSES,
   exportUrl,
@@ -31,60 +30,14 @@ import {
   useCancelRun,
   useDeleteRun,
   useLaunchControl,
-  useReplicates,
   useRestoreRun,
   useRun,
   useRunSeries,
   useRuns,
-  type ReplicateQuery,
 } from "@/components/data/runs";
 import { useCurrentLab } from "@/components/data/current-lab";
 import { useTheme } from "@/components/theme/use-theme";
 import { useBreakpoints } from "@/components/theme/use-breakpoints";
-import type { ReplicatePage } from "@/shared/schemas/api-runs";
-
-type Row = ReplicatePage["rows"][number];
-const fmt = (v: number | null) => (v === null ? "–" : formatNumber(v));
-const COLUMNS: Column<Row>[] = [
-  { key: "replicate", label: "Replicate", width: 96, sortable: true, render: (r) => String(r.replicate) },
-  { key: "pulseIndex", label: "Pulse", width: 72, sortable: true, render: (r) => String(r.pulseIndex) },
-  { key: "durationBin", label: "Duration (min)", width: 120, sortable: true, render: (r) => fmt(r.durationBin) },
-  { key: "passed", label: "Passed", width: 80, render: (r) => (r.excluded ? "excluded" : r.passed ? "yes" : "no") },
-  {
-    key: "delay",
-    label: "Delay (min)",
-    width: 104,
-    sortable: true,
-    render: (r) => (r.delay === null ? "none" : fmt(r.delay)),
-  },
-  { key: "offDelay", label: "OFF delay (min)", width: 124, sortable: true, render: (r) => fmt(r.offDelay) },
-  { key: "width", label: "Width (min)", width: 104, sortable: true, render: (r) => fmt(r.width) },
-  { key: "peak", label: "Peak", width: 88, sortable: true, render: (r) => fmt(r.peak) },
-  { key: "fwhm", label: "FWHM (min)", width: 104, sortable: true, render: (r) => fmt(r.fwhm) },
-];
-
-function ReplicateTable({ runId }: { runId: string }) {
-  const [q, setQ] = useState<ReplicateQuery>({ sort: "replicate", dir: "asc", page: 1, pageSize: 20 });
-  const rows = useReplicates(runId, q);
-  if (rows.isPending) return <LoadingState label="Loading replicate figures" />;
-  if (rows.error) return <ErrorState error={rows.error} onRetry={() => rows.refetch()} />;
-  return (
-    <DataTable
-      testID="replicate-table"
-      caption="Per-replicate figures for each input pulse"
-      columns={COLUMNS}
-      rows={rows.data.rows}
-      sort={q.sort}
-      dir={q.dir}
-      onSort={(key) =>
-        setQ((s) => ({ ...s, sort: key, dir: s.sort === key && s.dir === "asc" ? "desc" : "asc", page: 1 }))
-      }
-      page={q.page}
-      pageCount={Math.ceil(rows.data.total / q.pageSize)}
-      onPage={(page) => setQ((s) => ({ ...s, page }))}
-    />
-  );
-}
 
 function RunCharts({ runId, finished }: { runId: string; finished: boolean }) {
   const t = useTheme();
@@ -147,13 +100,13 @@ export default function RunDetailScreen() {
   const labRuns = useRuns();
   if (q.isPending)
     return (
-      <Screen title="Run">
+      <Screen back={{ href: "/runs", label: "Runs" }} title="Run">
         <LoadingState label="Loading run" />
       </Screen>
     );
   if (q.error)
     return (
-      <Screen title="Run">
+      <Screen back={{ href: "/runs", label: "Runs" }} title="Run">
         <ErrorState title="This run could not be loaded" error={q.error} onRetry={() => q.refetch()} />
       </Screen>
     );
@@ -165,6 +118,7 @@ export default function RunDetailScreen() {
   const p = run.progress;
   return (
     <Screen
+      back={{ href: "/runs", label: "Runs" }}
       title={run.name}
       subtitle={`${run.circuitName} · ${run.programName}`}
       actions={
@@ -185,7 +139,7 @@ export default function RunDetailScreen() {
               label="Compare"
               variant="secondary"
               icon="columns"
-              onPress={() => router.push(`/compare?ids=${[run.id, controlRun?.id].filter(Boolean).join(",")}`)}
+              href={`/compare?ids=${[run.id, controlRun?.id].filter(Boolean).join(",")}`}
               testID="compare-run"
             />
           ) : null}
@@ -252,9 +206,7 @@ export default function RunDetailScreen() {
           ))}
         </Card>
       ) : null}
-      {run.reproduction ? (
-        <ReproductionCard reproduction={run.reproduction} onOpenOriginal={(of) => router.push(`/runs/${of}`)} />
-      ) : null}
+      {run.reproduction ? <ReproductionCard reproduction={run.reproduction} /> : null}
       {reproduce.error ? <ErrorState title="The reproduction could not be started" error={reproduce.error} /> : null}
       <SafetyNote />
       <SettingsBlock settings={run.settings} spec={run.spec} />
@@ -267,18 +219,12 @@ export default function RunDetailScreen() {
         <Text tone="muted">Figures appear when the run finishes.</Text>
       ) : null}
       {run.regime ? <RegimeCard regime={run.regime} /> : null}
-      {run.acceleration ? (
-        <AccelerationCard
-          acceleration={run.acceleration}
-          runId={run.id}
-          onOpen={(other) => router.push(`/runs/${other}`)}
-        />
-      ) : null}
+      {run.acceleration ? <AccelerationCard acceleration={run.acceleration} runId={run.id} /> : null}
       {hasResults ? <RunCharts runId={run.id} finished={hasResults} /> : null}
       {hasResults ? (
         <Card>
           <Text variant="heading">Per-replicate figures</Text>
-          <ReplicateTable runId={run.id} />
+          <PulseTable runId={run.id} durations={(summary?.byDuration ?? []).map((d) => d.duration)} />
         </Card>
       ) : null}
       {hasResults ? (
@@ -312,7 +258,7 @@ export default function RunDetailScreen() {
                   label="Open the matched control"
                   variant="secondary"
                   icon="git-branch"
-                  onPress={() => router.push(`/runs/${controlRun.id}`)}
+                  href={`/runs/${controlRun.id}`}
                 />
               ) : (
                 <Button

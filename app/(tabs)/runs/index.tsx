@@ -24,7 +24,7 @@ export default function RunsScreen() {
       title="Runs"
       actions={
         <>
-          <Button label="Compare runs" variant="secondary" icon="columns" onPress={() => router.push("/compare")} />
+          <Button label="Compare runs" variant="secondary" icon="columns" href={"/compare"} />
           {canEdit ? (
             <Button
               label="Import bundle"
@@ -35,7 +35,7 @@ export default function RunsScreen() {
               testID="import-bundle"
             />
           ) : null}
-          {canEdit ? <Button label="Start a study" icon="play" onPress={() => router.push("/runs/new")} /> : null}
+          {canEdit ? <Button label="Start a study" icon="play" href={"/runs/new"} /> : null}
         </>
       }
     >
@@ -61,16 +61,12 @@ export default function RunsScreen() {
           icon="play-circle"
           title={show === "archived" ? "No archived runs" : "No runs yet"}
           actionLabel={canEdit && show === "active" ? "Start a study" : undefined}
-          onAction={() => router.push("/runs/new")}
+          actionHref={"/runs/new"}
         />
       ) : (
         <View style={{ gap: t.spacing.sm }}>
           {sortRunsForHome(runs.data).map((r) => (
-            <RunRow
-              key={r.id}
-              run={{ ...r, replicatesDone: r.progress.replicatesDone }}
-              onPress={() => router.push(`/runs/${r.id}`)}
-            />
+            <RunRow key={r.id} run={{ ...r, replicatesDone: r.progress.replicatesDone }} href={`/runs/${r.id}`} />
           ))}
           <LoadMore list={runs} noun="runs" testID="runs-load-more" />
         </View>

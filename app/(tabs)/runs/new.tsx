@@ -90,13 +90,13 @@ export default function NewRun() {
 
   if (circuits.isPending || programs.isPending)
     return (
-      <Screen title="Start a study">
+      <Screen back={{ href: "/runs", label: "Runs" }} title="Start a study">
         <LoadingState />
       </Screen>
     );
   if (circuits.error || programs.error)
     return (
-      <Screen title="Start a study">
+      <Screen back={{ href: "/runs", label: "Runs" }} title="Start a study">
         <ErrorState
           error={circuits.error ?? programs.error}
           onRetry={() => {
@@ -108,12 +108,12 @@ export default function NewRun() {
     );
   if (!circuits.data.length || !programs.data.length) {
     return (
-      <Screen title="Start a study">
+      <Screen back={{ href: "/runs", label: "Runs" }} title="Start a study">
         <EmptyState
           title={!circuits.data.length ? "Make a circuit first" : "Make an input program first"}
           message="A study runs one circuit under one input program."
           actionLabel={!circuits.data.length ? "New circuit" : "New program"}
-          onAction={() => router.push(!circuits.data.length ? "/circuits/new" : "/programs/new")}
+          actionHref={!circuits.data.length ? "/circuits/new" : "/programs/new"}
         />
       </Screen>
     );
@@ -123,7 +123,11 @@ export default function NewRun() {
   );
   const signals = circuit.data?.body.signals ?? [];
   return (
-    <Screen title="Start a study" subtitle="One circuit, one input program, many stochastic replicates.">
+    <Screen
+      back={{ href: "/runs", label: "Runs" }}
+      title="Start a study"
+      subtitle="One circuit, one input program, many stochastic replicates."
+    >
       {server && !server.fields.length ? (
         <Banner tone="danger" testID="launch-error">
           {server.message}

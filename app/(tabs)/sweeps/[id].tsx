@@ -1,8 +1,9 @@
 import React, { useState } from "react";
-import { Pressable, View } from "react-native";
-import { useLocalSearchParams, useRouter } from "expo-router";
+import { View } from "react-native";
+import { useLocalSearchParams } from "expo-router";
 import { Screen } from "@/components/ui/screen";
 import { Card } from "@/components/ui/card";
+import { PressableLink } from "@/components/ui/pressable-link";
 import { Text } from "@/components/ui/text";
 import { Button } from "@/components/ui/button";
 import { Choice } from "@/components/ui/choice";
@@ -45,7 +46,6 @@ function figureOf(p: SweepDetail["points"][number], f: Figure): number | null {
 
 export default function SweepDetailScreen() {
   const t = useTheme();
-  const router = useRouter();
   const { id } = useLocalSearchParams<{ id: string }>();
   const q = useSweep(id);
   const cancel = useCancelSweep();
@@ -53,13 +53,13 @@ export default function SweepDetailScreen() {
   const bp = useBreakpoints();
   if (q.isPending)
     return (
-      <Screen title="Sweep">
+      <Screen back={{ href: "/sweeps", label: "Sweeps" }} title="Sweep">
         <LoadingState />
       </Screen>
     );
   if (q.error)
     return (
-      <Screen title="Sweep">
+      <Screen back={{ href: "/sweeps", label: "Sweeps" }} title="Sweep">
         <ErrorState error={q.error} onRetry={() => q.refetch()} />
       </Screen>
     );
@@ -83,6 +83,7 @@ export default function SweepDetailScreen() {
   };
   return (
     <Screen
+      back={{ href: "/sweeps", label: "Sweeps" }}
       title={s.name}
       actions={
         active ? (
@@ -136,30 +137,39 @@ export default function SweepDetailScreen() {
               {ay.values.map((yv, j) => {
                 const p = s.points.find((pt) => pt.index === i * ay.values.length + j);
                 const v = p ? figureOf(p, figure) : null;
-                return (
-                  <Pressable
+                const label = `${ax.parameter} ${formatNumber(xv)}, ${ay.parameter} ${formatNumber(yv)}: ${
+                  v === null
+                    ? `no value (${p?.figures?.reasons?.[figure] ?? (p?.figures ? "not estimable" : "no results yet")})`
+                    : formatSweepFigure(figure, v)
+                }`;
+                const cellStyle = {
+                  flex: 1,
+                  minWidth: MIN_TOUCH,
+                  minHeight: MIN_TOUCH,
+                  backgroundColor: shade(v),
+                  alignItems: "center",
+                  justifyContent: "center",
+                  borderRadius: 4,
+                } as const;
+                const value = (
+                  <Text variant="caption" style={{ color: "#17211D" }}>
+                    {formatNumber(v, 2)}
+                  </Text>
+                );
+                return p ? (
+                  <PressableLink
                     key={j}
-                    role="link"
-                    accessibilityLabel={`${ax.parameter} ${formatNumber(xv)}, ${ay.parameter} ${formatNumber(yv)}: ${
-                      v === null
-                        ? `no value (${p?.figures?.reasons?.[figure] ?? (p?.figures ? "not estimable" : "no results yet")})`
-                        : formatSweepFigure(figure, v)
-                    }`}
-                    onPress={() => p && router.push(`/runs/${p.runId}`)}
-                    style={{
-                      flex: 1,
-                      minWidth: MIN_TOUCH,
-                      minHeight: MIN_TOUCH,
-                      backgroundColor: shade(v),
-                      alignItems: "center",
-                      justifyContent: "center",
-                      borderRadius: 4,
-                    }}
+                    href={`/runs/${p.runId}`}
+                    accessibilityLabel={label}
+                    aria-label={label}
+                    style={cellStyle}
                   >
-                    <Text variant="caption" style={{ color: "#17211D" }}>
-                      {formatNumber(v, 2)}
-                    </Text>
-                  </Pressable>
+                    {value}
+                  </PressableLink>
+                ) : (
+                  <View key={j} aria-label={label} role="img" style={cellStyle}>
+                    {value}
+                  </View>
                 );
               })}
             </View>
@@ -169,7 +179,7 @@ export default function SweepDetailScreen() {
       <Card>
         <Text variant="heading">Points</Text>
         {s.points.map((p) => (
-          <Card key={p.index} onPress={() => router.push(`/runs/${p.runId}`)} style={{ padding: t.spacing.md }}>
+          <Card key={p.index} href={`/runs/${p.runId}`} style={{ padding: t.spacing.md }}>
             <Text variant="bodyStrong">
               {Object.entries(p.values)
                 .map(([k, v]) => `${k} = ${formatNumber(v)}`)

@@ -1,6 +1,6 @@
 import React from "react";
 import { View } from "react-native";
-import { useRouter } from "expo-router";
+
 import { Screen } from "@/components/ui/screen";
 import { LoadMore } from "@/components/ui/load-more";
 import { Card } from "@/components/ui/card";
@@ -15,14 +15,13 @@ import { useTheme } from "@/components/theme/use-theme";
 
 export default function SweepsScreen() {
   const t = useTheme();
-  const router = useRouter();
   const { canEdit } = useCurrentLab();
   const sweeps = useSweeps();
   return (
     <Screen
       title="Sweeps"
       subtitle="One run per parameter value: see where a circuit filters and where it does not."
-      actions={canEdit ? <Button label="New sweep" icon="plus" onPress={() => router.push("/sweeps/new")} /> : null}
+      actions={canEdit ? <Button label="New sweep" icon="plus" href={"/sweeps/new"} /> : null}
     >
       {sweeps.isPending ? (
         <LoadingState label="Loading sweeps" />
@@ -34,12 +33,12 @@ export default function SweepsScreen() {
           title="No sweeps yet"
           message="Sweep one or two parameters, such as a half-max K or a rate, over a grid of values."
           actionLabel={canEdit ? "New sweep" : undefined}
-          onAction={() => router.push("/sweeps/new")}
+          actionHref={"/sweeps/new"}
         />
       ) : (
         <View style={{ gap: t.spacing.sm }}>
           {sweeps.data.map((s) => (
-            <Card key={s.id} onPress={() => router.push(`/sweeps/${s.id}`)}>
+            <Card key={s.id} href={`/sweeps/${s.id}`}>
               <View style={{ flexDirection: "row", justifyContent: "space-between", gap: t.spacing.sm }}>
                 <Text variant="bodyStrong" style={{ flex: 1 }}>
                   {s.name}

@@ -42,7 +42,7 @@ export default function NewSweep() {
   const server = launch.error instanceof ApiError ? launch.error : null;
   if (circuits.isPending || programs.isPending)
     return (
-      <Screen title="New sweep">
+      <Screen back={{ href: "/sweeps", label: "Sweeps" }} title="New sweep">
         <LoadingState />
       </Screen>
     );
@@ -90,7 +90,11 @@ export default function NewSweep() {
     );
   };
   return (
-    <Screen title="New sweep" subtitle="One parameter over a grid of values; each value is its own run.">
+    <Screen
+      back={{ href: "/sweeps", label: "Sweeps" }}
+      title="New sweep"
+      subtitle="One parameter over a grid of values; each value is its own run."
+    >
       {server ? <Banner tone="danger">{server.message}</Banner> : null}
       <Card>
         <Field label="Sweep name" value={name} onChangeText={setName} error={errors.name} />

@@ -42,13 +42,13 @@ export default function TraceSetScreen() {
   const [editing, setEditing] = useState(false);
   if (q.isPending)
     return (
-      <Screen title="Trace set">
+      <Screen back={{ href: "/traces", label: "Traces" }} title="Trace set">
         <LoadingState label="Loading the trace set" />
       </Screen>
     );
   if (q.error && !q.data)
     return (
-      <Screen title="Trace set">
+      <Screen back={{ href: "/traces", label: "Traces" }} title="Trace set">
         <ErrorState title="This trace set could not be loaded" error={q.error} onRetry={() => q.refetch()} />
       </Screen>
     );
@@ -65,6 +65,7 @@ export default function TraceSetScreen() {
   });
   return (
     <Screen
+      back={{ href: "/traces", label: "Traces" }}
       title={s.name}
       subtitle={`${s.cellCount.toLocaleString("en")} cells · uploaded by ${s.uploadedByName ?? "Linger (demo data)"} · ${uploaded}`}
       testID="trace-detail-screen"

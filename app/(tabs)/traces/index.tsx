@@ -1,6 +1,6 @@
 import React from "react";
 import { View } from "react-native";
-import { useRouter } from "expo-router";
+
 import { Screen } from "@/components/ui/screen";
 import { Card } from "@/components/ui/card";
 import { Text } from "@/components/ui/text";
@@ -16,7 +16,6 @@ const date = (ms: number) =>
 
 export default function TracesScreen() {
   const t = useTheme();
-  const router = useRouter();
   const { canEdit } = useCurrentLab();
   const sets = useTraceSets();
   return (
@@ -24,14 +23,7 @@ export default function TracesScreen() {
       title="Traces"
       subtitle="Single-cell time-lapse traces, scored like simulations and matched against runs and sweeps."
       actions={
-        canEdit ? (
-          <Button
-            label="Upload traces"
-            icon="upload"
-            onPress={() => router.push("/traces/upload")}
-            testID="traces-upload"
-          />
-        ) : null
+        canEdit ? <Button label="Upload traces" icon="upload" href={"/traces/upload"} testID="traces-upload" /> : null
       }
       testID="traces-screen"
     >
@@ -45,12 +37,12 @@ export default function TracesScreen() {
           title="No trace sets yet"
           message="Upload a CSV or TSV of reporter values per cell over time, with the times the inducer was on."
           actionLabel={canEdit ? "Upload traces" : undefined}
-          onAction={() => router.push("/traces/upload")}
+          actionHref={"/traces/upload"}
         />
       ) : (
         <View style={{ gap: t.spacing.sm }}>
           {sets.data.map((s) => (
-            <Card key={s.id} onPress={() => router.push(`/traces/${s.id}`)} testID={`trace-row-${s.id}`}>
+            <Card key={s.id} href={`/traces/${s.id}`} testID={`trace-row-${s.id}`}>
               <View
                 style={{
                   flexDirection: "row",

@@ -19,7 +19,7 @@ export default function UploadTracesScreen() {
   const subtitle = "Time-lapse reporter values of single cells, scored with the same figures as simulations.";
   if (!canEdit)
     return (
-      <Screen title={title}>
+      <Screen back={{ href: "/traces", label: "Traces" }} title={title}>
         <EmptyState
           icon="lock"
           title="Editors upload traces"
@@ -29,20 +29,20 @@ export default function UploadTracesScreen() {
     );
   if (programs.isPending)
     return (
-      <Screen title={title}>
+      <Screen back={{ href: "/traces", label: "Traces" }} title={title}>
         <LoadingState label="Loading the lab's input programs" />
       </Screen>
     );
   if (programs.error)
     return (
-      <Screen title={title}>
+      <Screen back={{ href: "/traces", label: "Traces" }} title={title}>
         <ErrorState error={programs.error} onRetry={() => programs.refetch()} />
       </Screen>
     );
   // The error shown is the latest action's: a save error after a preview, or the preview's.
   const error = save.error ?? preview.error;
   return (
-    <Screen title={title} subtitle={subtitle} testID="trace-upload-screen">
+    <Screen back={{ href: "/traces", label: "Traces" }} title={title} subtitle={subtitle} testID="trace-upload-screen">
       <TraceUploadForm
         programs={programs.data.map((p) => ({ id: p.id, name: p.name }))}
         pickFile={pickTraceFile}

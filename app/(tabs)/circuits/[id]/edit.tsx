@@ -24,13 +24,13 @@ export default function EditCircuit() {
   const check = useCircuitCheck(debounced ?? q.data?.body, !!(debounced ?? q.data));
   if (q.isPending)
     return (
-      <Screen title="Edit circuit">
+      <Screen back={{ href: `/circuits/${id}`, label: "Circuit" }} title="Edit circuit">
         <LoadingState label="Loading circuit" />
       </Screen>
     );
   if (q.error)
     return (
-      <Screen title="Edit circuit">
+      <Screen back={{ href: `/circuits/${id}`, label: "Circuit" }} title="Edit circuit">
         <ErrorState error={q.error} onRetry={() => q.refetch()} />
       </Screen>
     );
@@ -38,6 +38,7 @@ export default function EditCircuit() {
   const ff = check.data ? check.data.feedForward : q.data.feedForward;
   return (
     <Screen
+      back={{ href: `/circuits/${id}`, label: "Circuit" }}
       title={`Edit ${q.data.circuit.name}`}
       subtitle={`Saving makes version ${q.data.circuit.currentVersion + 1}.`}
     >

@@ -25,13 +25,13 @@ export default function CircuitDetail() {
   const archive = useArchiveCircuit();
   if (q.isPending)
     return (
-      <Screen title="Circuit">
+      <Screen back={{ href: "/circuits", label: "Circuits" }} title="Circuit">
         <LoadingState label="Loading circuit" />
       </Screen>
     );
   if (q.error)
     return (
-      <Screen title="Circuit">
+      <Screen back={{ href: "/circuits", label: "Circuits" }} title="Circuit">
         <ErrorState title="This circuit could not be loaded" error={q.error} onRetry={() => q.refetch()} />
       </Screen>
     );
@@ -39,23 +39,14 @@ export default function CircuitDetail() {
   const archived = !!circuit.archivedAt;
   return (
     <Screen
+      back={{ href: "/circuits", label: "Circuits" }}
       title={circuit.name}
       subtitle={`Version ${circuit.currentVersion} · output ${circuit.outputSpecies}`}
       actions={
         canEdit ? (
           <>
-            <Button
-              label="Edit"
-              icon="edit-2"
-              onPress={() => router.push(`/circuits/${circuit.id}/edit`)}
-              testID="edit-circuit"
-            />
-            <Button
-              label="Start a study"
-              variant="secondary"
-              icon="play"
-              onPress={() => router.push(`/runs/new?circuitId=${circuit.id}`)}
-            />
+            <Button label="Edit" icon="edit-2" href={`/circuits/${circuit.id}/edit`} testID="edit-circuit" />
+            <Button label="Start a study" variant="secondary" icon="play" href={`/runs/new?circuitId=${circuit.id}`} />
           </>
         ) : null
       }
@@ -83,7 +74,7 @@ export default function CircuitDetail() {
         {versions.map((v) => (
           <Card
             key={v.version}
-            onPress={() => router.push(`/circuits/${circuit.id}/versions/${v.version}`)}
+            href={`/circuits/${circuit.id}/versions/${v.version}`}
             style={{ padding: t.spacing.md }}
           >
             <Text variant="bodyStrong">

@@ -13,19 +13,20 @@ export default function CircuitVersionScreen() {
   const q = useCircuitVersion(id, Number(version));
   if (q.isPending)
     return (
-      <Screen title={`Version ${version}`}>
+      <Screen back={{ href: `/circuits/${id}`, label: "Circuit" }} title={`Version ${version}`}>
         <LoadingState />
       </Screen>
     );
   if (q.error)
     return (
-      <Screen title={`Version ${version}`}>
+      <Screen back={{ href: `/circuits/${id}`, label: "Circuit" }} title={`Version ${version}`}>
         <ErrorState error={q.error} onRetry={() => q.refetch()} />
       </Screen>
     );
   const v = q.data;
   return (
     <Screen
+      back={{ href: `/circuits/${id}`, label: "Circuit" }}
       title={`${v.body.name}, version ${v.version}`}
       subtitle={`${new Date(v.createdAt).toLocaleString("en-GB")}${v.isCurrent ? " · current" : ""}${v.note ? ` · ${v.note}` : ""}`}
     >
