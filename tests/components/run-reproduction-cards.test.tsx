@@ -1,5 +1,5 @@
 import React from "react";
-import { screen } from "@testing-library/react-native";
+import { fireEvent, screen } from "@testing-library/react-native";
 import { ReproductionCard, reproductionVerdict, type Reproduction } from "@/components/runs/reproduction-card";
 import {
   AccelerationCard,
