@@ -8,6 +8,8 @@ import { Inter_500Medium } from "@expo-google-fonts/inter/500Medium";
 import { Inter_600SemiBold } from "@expo-google-fonts/inter/600SemiBold";
 import { Inter_700Bold } from "@expo-google-fonts/inter/700Bold";
 import Feather from "@expo/vector-icons/Feather";
+// Loaded first so it reads the address the app was opened at before the router rewrites it.
+import "@/components/auth/return-path";
 import { makeQueryClient } from "@/components/data/query-client";
 import { CurrentLabProvider } from "@/components/data/current-lab";
 import { useTheme } from "@/components/theme/use-theme";

@@ -6,7 +6,7 @@ import { isUnauthorized } from "@/components/data/api";
 import { useCurrentLab } from "@/components/data/current-lab";
 import { Screen } from "@/components/ui/screen";
 import { ErrorState, LoadingState } from "@/components/ui/states";
-import { currentPath, signInHrefFor } from "@/components/auth/return-path";
+import { forgetLaunchPath, pathToReturnTo, signInHrefFor } from "@/components/auth/return-path";
 
 /**
  * Signed-in area. The client owns sign-in redirects: when /api/me answers 401
@@ -20,8 +20,12 @@ export default function SignedInLayout() {
   const { lab } = useCurrentLab();
   const signedOut = isUnauthorized(me.error);
   useEffect(() => {
-    if (signedOut) router.replace(signInHrefFor(currentPath(pathname)));
+    if (signedOut) router.replace(signInHrefFor(pathToReturnTo(pathname)));
   }, [signedOut, router, pathname]);
+  const signedIn = !!me.data;
+  useEffect(() => {
+    if (signedIn) forgetLaunchPath();
+  }, [signedIn]);
   if (me.isPending || signedOut)
     return (
       <Screen>

@@ -34,8 +34,30 @@ export function signInHrefFor(path: string): Href & string {
   return back === "/" ? "/sign-in" : (`/sign-in?next=${encodeURIComponent(back)}` as Href & string);
 }
 
-/** The current page's path with its query (the browser's location on the web, else the router's pathname). */
-export function currentPath(pathname: string): string {
+/**
+ * The address the app was opened at, read when this module loads (before the
+ * router draws anything). A signed-out visit to a deep link renders no page
+ * under the signed-in layout, and the router then rewrites the address bar
+ * ("/runs/ID" becomes "/?id=ID"), so the address has to be taken this early.
+ */
+let launchPath: string | null = (() => {
+  const loc = (globalThis as { location?: { pathname?: string; search?: string } }).location;
+  return loc && typeof loc.pathname === "string" ? loc.pathname + (loc.search ?? "") : null;
+})();
+
+/** Called once the visitor is known to be signed in: later sign-outs return to the page they were on instead. */
+export function forgetLaunchPath(): void {
+  launchPath = null;
+}
+
+/**
+ * The page to come back to after signing in: the address the app was opened
+ * at until the visitor has signed in once (see launchPath), else the current page (the browser's
+ * location on the web, else the router's pathname).
+ */
+export function pathToReturnTo(pathname: string): string {
+  // Kept until the visitor is signed in, so a second call (the router's rewrite changes the pathname) agrees.
+  if (launchPath !== null) return launchPath;
   const loc = (globalThis as { location?: { pathname?: string; search?: string } }).location;
   if (loc && typeof loc.pathname === "string") return loc.pathname + (loc.search ?? "");
   return pathname;

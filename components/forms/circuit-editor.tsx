@@ -137,7 +137,8 @@ export function CircuitEditor({
       {...extra}
     />
   );
-  const numberField = (label: string, path: Path, unit?: string, optional = false) => {
+  /** inRow: beside other fields in a row (grows to share it); else alone in the column (no flex basis, no gap). */
+  const numberField = (label: string, path: Path, unit?: string, optional = false, inRow = true) => {
     const k = key(path);
     const value = getIn(circuit, path);
     return (
@@ -152,7 +153,7 @@ export function CircuitEditor({
         }}
         error={errorAt(path)}
         testID={`circuit-${k}`}
-        style={isWide ? { flexGrow: 1, flexBasis: 140 } : undefined}
+        style={isWide && inRow ? { flexGrow: 1, flexBasis: 140 } : undefined}
       />
     );
   };
@@ -459,6 +460,8 @@ export function CircuitEditor({
                   kind === "constant" ? "Rate" : "Rate constant",
                   ["reactions", i, "rate", "ratePerMinute"],
                   kind === "constant" ? "molecules per minute" : "per minute",
+                  false,
+                  false,
                 )
               )}
               <Field

@@ -124,6 +124,11 @@ for (const vp of [PHONE, WIDE] as Viewport[]) {
         // Open the point at the top of the grid (K = 400): its run detail with headline cards.
         const pointRow = page.getByRole("link").filter({ hasText: `${DEMO_PARAMETER} = 400` });
         assert.match(await pointRow.innerText(), /False-pass rate: /, "the row shows the chosen figure");
+        assert.match(
+          (await pointRow.getAttribute("href")) ?? "",
+          /^\/runs\/[^/]+$/,
+          "the point row is a real link to its run",
+        );
         await pointRow.click();
         await page.waitForURL(/\/runs\/[^/]+$/);
         await page.getByText(`${DEMO_SWEEP_NAME} · ${DEMO_PARAMETER}=400`, { exact: true }).first().waitFor();
