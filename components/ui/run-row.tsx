@@ -52,7 +52,8 @@ export function runHeadlineLabel(h: RunRowData["headline"]): string {
 /**
  * One run in a list: the whole name (wrapped, never cut), circuit and
  * program, when and by whom, the headline figures, status and progress; so
- * two runs with similar names can be told apart. The row is a link to the run.
+ * two runs with similar names can be told apart. The row is a link to the run
+ * named by its visible text.
  */
 export function RunRow({ run, href }: { run: RunRowData; href: Href }) {
   const t = useTheme();
@@ -69,7 +70,7 @@ export function RunRow({ run, href }: { run: RunRowData; href: Href }) {
     .join(" · ");
   const figures = runHeadlineLabel(run.headline);
   return (
-    <Card href={href} testID={`run-row-${run.id}`} accessibilityLabel={[run.name, when].filter(Boolean).join(", ")}>
+    <Card href={href} testID={`run-row-${run.id}`}>
       <View
         style={{ flexDirection: "row", justifyContent: "space-between", alignItems: "flex-start", gap: t.spacing.sm }}
       >
