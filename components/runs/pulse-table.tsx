@@ -158,7 +158,8 @@ export function PulseTable({ runId, durations }: { runId: string; durations: num
   return (
     <View style={{ gap: t.spacing.md }}>
       {filters}
-      {rows.data ? (
+      {rows.data && !rows.isPlaceholderData ? (
+        // Not while the previous filter's page is still shown: its total would read as the new filter's.
         <Text variant="caption" tone="muted" testID="pulse-count" role="status">
           {rows.data.total.toLocaleString("en")} {rows.data.total === 1 ? "pulse" : "pulses"}
           {pass === "yes" ? " that passed" : pass === "no" ? " that did not pass" : ""}
