@@ -65,7 +65,7 @@ function SaveImage({ spec, source, testID }: { spec: ChartSpec; source?: ChartIm
         variant="ghost"
         icon="download"
         compact
-        accessibilityLabel={`Save ${spec.title} as PNG`}
+        accessibilityLabel={`Save PNG: ${spec.title}`}
         onPress={() => void run("png")}
         testID={testID ? `${testID}-save-png` : undefined}
       />
@@ -74,7 +74,7 @@ function SaveImage({ spec, source, testID }: { spec: ChartSpec; source?: ChartIm
         variant="ghost"
         icon="download"
         compact
-        accessibilityLabel={`Save ${spec.title} as SVG`}
+        accessibilityLabel={`Save SVG: ${spec.title}`}
         onPress={() => void run("svg")}
         testID={testID ? `${testID}-save-svg` : undefined}
       />
