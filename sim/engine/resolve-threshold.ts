@@ -150,6 +150,9 @@ export function resolveThreshold(spec: RunSpec): ResolvedThreshold {
 export const MIN_THRESHOLD_MOLECULES = 5;
 /** A threshold closer than this many Poisson standard deviations sqrt(OFF) above the OFF level is crossed by OFF-state noise (common practice). */
 export const OFF_NOISE_SDS = 3;
+/** The OFF steady-state search stops after this many end times of mean-field time (and at least OFF_SETTLE_MIN_MINUTES). */
+export const OFF_SETTLE_END_TIMES = 20;
+export const OFF_SETTLE_MIN_MINUTES = 10_000;
 /** Samples of the ON response over the end time when looking for its highest level. */
 const REACH_SAMPLES = 2000;
 
@@ -172,7 +175,10 @@ function onReachFromOff(setup: ReturnType<typeof runSetup>): OnReach {
   const off = Float64Array.from(model.signalOff);
   let offState: Float64Array;
   try {
-    offState = odeSteadyState(model, model.baseParams, odeStartState(setup.spec).y, off);
+    // An OFF state that has not settled after OFF_SETTLE_END_TIMES end times (at least OFF_SETTLE_MIN_MINUTES)
+    // is not a steady state the rule can use (an oscillator's, say): refuse then rather than integrate for minutes.
+    const horizon = Math.max(OFF_SETTLE_MIN_MINUTES, OFF_SETTLE_END_TIMES * setup.spec.endTimeMinutes);
+    offState = odeSteadyState(model, model.baseParams, odeStartState(setup.spec).y, off, horizon);
   } catch (e) {
     throw new Error(`${(e as Error).message} with the input OFF`);
   }
