@@ -121,7 +121,6 @@ export function readUpload(req: Request): { fileName: string | null; text: strin
 /** An uploaded file's name as stored: control characters (C0, DEL, C1) and any path removed; null when nothing is left. */
 export function cleanFileName(name: string | undefined): string | null {
   const clean = (name ?? "")
-    // eslint-disable-next-line no-control-regex
     .replace(/[\u0000-\u001f\u007f-\u009f]/g, "")
     .replace(/^.*[\\/]/, "")
     .trim();
