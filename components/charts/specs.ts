@@ -469,10 +469,11 @@ export function sweepLineSpec(
         : "Kaplan-Meier 95% interval";
   return {
     title: `${figLabel} over ${parameter}`,
+    // pairs are read "x: y; x: y", so a reason's own semicolons become commas
     description: all
       .map(
         (r) =>
-          `${parameter} ${formatNumber(r.x)}: ${r.y === null ? `no value (${r.reason})` : formatSweepFigure(figure, r.y)}`,
+          `${parameter} ${formatNumber(r.x)}: ${r.y === null ? `no value (${r.reason.replace(/;\s*/g, ", ")})` : formatSweepFigure(figure, r.y)}`,
       )
       .join("; "),
     xLabel: logX ? `${parameter} (log scale)` : parameter,
