@@ -473,7 +473,7 @@ export function sweepLineSpec(
     description: all
       .map(
         (r) =>
-          `${parameter} ${formatNumber(r.x)}: ${r.y === null ? `no value (${r.reason.replace(/;\s*/g, ", ")})` : formatSweepFigure(figure, r.y)}`,
+          `${parameter} ${formatNumber(r.x)}: ${r.y === null ? `no value (${(r.reason ?? "not estimable").replace(/;\s*/g, ", ")})` : formatSweepFigure(figure, r.y)}`,
       )
       .join("; "),
     xLabel: logX ? `${parameter} (log scale)` : parameter,
