@@ -30,9 +30,7 @@ import { resourceLab } from "@/server/services/access.service";
 import { schema } from "@/db/client";
 import { newId } from "@/server/ids";
 import { hashPassword } from "@/server/services/password";
-import { CircuitSchema } from "@/shared/schemas/circuit";
-import { InputProgramSchema } from "@/shared/schemas/input-program";
-import { RunSpecSchema } from "@/shared/schemas/run-spec";
+import { fixtureSpec } from "@/tests/helpers/fixture-spec";
 import { makeTestContext, type TestApp } from "@/tests/helpers/test-app";
 
 const PASSWORD = "persona-password";
@@ -51,31 +49,7 @@ interface Persona {
 
 // ---------------------------------------------------------------- fixture objects
 
-const circuit = CircuitSchema.parse({
-  name: "Fixture circuit",
-  species: [{ name: "Sensor", initialCount: 0 }],
-  signals: [{ name: "Inducer" }],
-  reactions: [
-    {
-      name: "make",
-      products: [{ species: "Sensor" }],
-      rate: { kind: "constant", ratePerMinute: 1 },
-      scaledBy: "Inducer",
-    },
-    { name: "decay", reactants: [{ species: "Sensor" }], rate: { kind: "massAction", ratePerMinute: 0.1 } },
-  ],
-  outputSpecies: "Sensor",
-});
-const program = InputProgramSchema.parse({ kind: "periodic", start: 10, onDuration: 20, offDuration: 40, count: 2 });
-const spec = RunSpecSchema.parse({
-  circuit,
-  program,
-  inputSignal: "Inducer",
-  endTimeMinutes: 100,
-  gridStepMinutes: 1,
-  replicates: 2,
-  seed: "fixture",
-});
+const { circuit, program, spec } = fixtureSpec("Fixture circuit", "fixture");
 
 type Fixture = Record<ResourceKind, string>;
 

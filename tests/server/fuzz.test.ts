@@ -26,9 +26,7 @@ import type { RouteDef } from "@/server/routes/route-table";
 import type { ResourceKind } from "@/server/services/access.service";
 import { schema } from "@/db/client";
 import { newId } from "@/server/ids";
-import { CircuitSchema } from "@/shared/schemas/circuit";
-import { InputProgramSchema } from "@/shared/schemas/input-program";
-import { RunSpecSchema } from "@/shared/schemas/run-spec";
+import { fixtureSpec } from "@/tests/helpers/fixture-spec";
 import { makeTestContext, DEMO_PASSWORD, type TestApp } from "@/tests/helpers/test-app";
 
 /** Fixed so a failure replays exactly; change it only on purpose. */
@@ -38,31 +36,7 @@ const RUNS_PER_ROUTE = 40;
 /** Routes whose success would end the caller's session; their bodies are ignored anyway. */
 const SKIP = new Set(["post /auth/sign-out"]);
 
-const circuit = CircuitSchema.parse({
-  name: "Fuzz circuit",
-  species: [{ name: "Sensor", initialCount: 0 }],
-  signals: [{ name: "Inducer" }],
-  reactions: [
-    {
-      name: "make",
-      products: [{ species: "Sensor" }],
-      rate: { kind: "constant", ratePerMinute: 1 },
-      scaledBy: "Inducer",
-    },
-    { name: "decay", reactants: [{ species: "Sensor" }], rate: { kind: "massAction", ratePerMinute: 0.1 } },
-  ],
-  outputSpecies: "Sensor",
-});
-const program = InputProgramSchema.parse({ kind: "periodic", start: 10, onDuration: 20, offDuration: 40, count: 2 });
-const spec = RunSpecSchema.parse({
-  circuit,
-  program,
-  inputSignal: "Inducer",
-  endTimeMinutes: 100,
-  gridStepMinutes: 1,
-  replicates: 2,
-  seed: "fuzz",
-});
+const { circuit, program, spec } = fixtureSpec("Fuzz circuit", "fuzz");
 
 type Fixture = { labId: string } & Partial<Record<ResourceKind, string>>;
 
