@@ -10,6 +10,7 @@ import type { AppContext } from "./context";
 import { API_LIMITS } from "@/shared/limits";
 import { apiNotFound, errorHandler } from "@/server/middleware/error-handler";
 import { csrfGuard } from "@/server/middleware/csrf";
+import { isSbmlImportPath } from "@/server/middleware/sbml-body";
 import { installAuth } from "@/server/middleware/session";
 import { mountRoutes } from "@/server/routes/route-table";
 import { allRoutes } from "@/server/routes";
@@ -22,7 +23,9 @@ export function createApp(ctx: AppContext) {
 
   // ---- API
   const api = Router();
-  api.use(express.json({ limit: API_LIMITS.maxJsonBodyBytes }));
+  // The SBML import parses its own body after the access check, with its own size rule (server/middleware/sbml-body.ts).
+  const json = express.json({ limit: API_LIMITS.maxJsonBodyBytes });
+  api.use((req, res, next) => (isSbmlImportPath(req.path) ? next() : json(req, res, next)));
   api.use((_req, res, next) => {
     res.setHeader("Cache-Control", "no-store");
     next();

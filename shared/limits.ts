@@ -10,8 +10,9 @@ import { API_LIMITS } from "./schemas/api-runs";
 import { CIRCUIT_LIMITS } from "./schemas/circuit";
 import { PROGRAM_LIMITS } from "./schemas/input-program";
 import { TRACE_LIMITS } from "./schemas/api-traces";
+import { SBML_LIMITS } from "./schemas/api-sbml";
 
-export { RUN_LIMITS, API_LIMITS, CIRCUIT_LIMITS, PROGRAM_LIMITS, TRACE_LIMITS };
+export { RUN_LIMITS, API_LIMITS, CIRCUIT_LIMITS, PROGRAM_LIMITS, TRACE_LIMITS, SBML_LIMITS };
 
 export const LIMITS = {
   run: RUN_LIMITS,
@@ -19,6 +20,7 @@ export const LIMITS = {
   circuit: CIRCUIT_LIMITS,
   program: PROGRAM_LIMITS,
   trace: TRACE_LIMITS,
+  sbml: SBML_LIMITS,
 } as const;
 
 /** "2 MB" for 2 * 1024 * 1024: how byte limits are written in messages. */

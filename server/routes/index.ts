@@ -7,6 +7,7 @@ import { adminRoutes } from "./admin.routes";
 import { runRoutes } from "./runs.routes";
 import { sweepRoutes } from "./sweeps.routes";
 import { circuitRoutes } from "./circuits.routes";
+import { sbmlRoutes } from "./sbml.routes";
 import { programRoutes } from "./programs.routes";
 import { traceRoutes } from "./traces.routes";
 
@@ -18,6 +19,7 @@ export const allRoutes: RouteDef[] = [
   ...runRoutes,
   ...sweepRoutes,
   ...circuitRoutes,
+  ...sbmlRoutes,
   ...programRoutes,
   ...traceRoutes,
 ];

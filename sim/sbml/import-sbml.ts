@@ -57,7 +57,15 @@ export interface SbmlProblem {
 }
 
 export type SbmlImport =
-  | { ok: true; circuit: Circuit; notes: string[]; level: number; version: number }
+  | {
+      ok: true;
+      circuit: Circuit;
+      notes: string[];
+      level: number;
+      version: number;
+      /** The model's compartments with their sizes (after initial assignments); they enter laws as numbers. */
+      compartments: { id: string; size: number }[];
+    }
   | { ok: false; problems: SbmlProblem[] };
 
 const SUPPORTED_MODEL_CHILDREN = new Set([
@@ -558,7 +566,10 @@ export function importSbml(source: string): SbmlImport {
         reason: s.message,
       })),
     };
-  return { ok: true, circuit: parsed.data, notes, level, version };
+  const compartments = [...constantEls.entries()]
+    .filter(([id, el]) => el.name === "compartment" && constants.has(id))
+    .map(([id]) => ({ id, size: constants.get(id)! }));
+  return { ok: true, circuit: parsed.data, notes, level, version, compartments };
 }
 
 /** The coefficient of the reactants' propensity monomial (A, A*B, or A*A for 2A). */

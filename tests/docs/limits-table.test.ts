@@ -33,6 +33,7 @@ test("every README limit row that names a value states the enforced one", () => 
     "points per sweep; replicates x points per sweep": `${n(LIMITS.api.maxSweepPoints)}; ${n(LIMITS.api.maxSweepReplicates)}`,
     "species / reactions / signals per circuit": `${LIMITS.circuit.maxSpecies} / ${LIMITS.circuit.maxReactions} / ${LIMITS.circuit.maxSignals}`,
     "JSON request body (a run bundle travels in one)": `${megabytes(LIMITS.api.maxJsonBodyBytes)} (413)`,
+    "SBML document for import (its own limit, also when the JSON around it is larger than the one above)": `${megabytes(LIMITS.sbml.maxSbmlBytes)} (413)`,
   };
   for (const [what, value] of Object.entries(expected)) assert.equal(rows.get(what), value, `README row "${what}"`);
   const grid = [...rows.entries()].find(([k]) => k.startsWith("grid points per run"));

@@ -8,29 +8,13 @@
  */
 import { test } from "node:test";
 import assert from "node:assert/strict";
-import { execFileSync } from "node:child_process";
 import { readFileSync } from "node:fs";
 import path from "node:path";
 import { exportSbml, importSbml, LINGER_SBML_NS } from "@/sim/sbml";
 import { simulateChunk, templates } from "@/sim";
 import { RunSpecSchema } from "@/shared/schemas/run-spec";
 import type { Circuit } from "@/shared/schemas/circuit";
-
-const VALIDATE = `
-import sys, json, libsbml
-out = []
-for text in json.load(sys.stdin):
-    d = libsbml.readSBMLFromString(text)
-    d.checkConsistency()
-    errs = [d.getError(i) for i in range(d.getNumErrors())]
-    out.append([e.getMessage().strip()[:300] for e in errs if e.getSeverity() >= libsbml.LIBSBML_SEV_ERROR])
-print(json.dumps(out))
-`;
-
-function libsbmlErrors(docs: string[]): string[][] {
-  const stdout = execFileSync("/usr/bin/python3", ["-c", VALIDATE], { input: JSON.stringify(docs) });
-  return JSON.parse(String(stdout));
-}
+import { libsbmlErrors } from "@/tests/helpers/libsbml";
 
 const dsmts = (id: string): Circuit => {
   const r = importSbml(readFileSync(path.join(__dirname, "../../fixtures/dsmts", id, `${id}-sbml-l3v2.xml`), "utf8"));
