@@ -172,7 +172,7 @@ const ringSpecies = [
 /**
  * Ring tmrA -| tmrB -| tmrC -| tmrA, a = 100/(0.1*100) = 10, n = 3 (above the Hopf point a = 3.78).
  * With the extra edge tmrB -| tmrA (K 100), tmrC represses tmrA only weakly (K 800), so the tmrA/tmrB
- * pair is a switch: two stable states, tmrA low or high.
+ * pair is a switch: two stable states, tmrA low or high. Compound Q adds tmrA at 40 per minute in both.
  */
 const ringReactions = (extra: boolean) => [
   {
@@ -193,6 +193,13 @@ const ringReactions = (extra: boolean) => [
     name: "makeC",
     products: [{ species: "tmrC", count: 1 }],
     rate: { kind: "regulated" as const, maxRatePerMinute: 100, regulators: [repN("tmrB", 100, 3)] },
+  },
+  {
+    // compound Q adds tmrA (the input's way into the ring; zero with Q off, so the OFF dynamics are the ring's own)
+    name: "kickA",
+    products: [{ species: "tmrA", count: 1 }],
+    rate: { kind: "constant" as const, ratePerMinute: 40 },
+    scaledBy: "Q",
   },
   deg("degA", "tmrA"),
   deg("degB", "tmrB"),
@@ -261,11 +268,11 @@ export const feedbackTemplates: Record<FeedbackTemplateKey, CircuitTemplate> = {
   ring: {
     title: "Timer ring",
     description:
-      "A ring of three repressors (tmrA -| tmrB -| tmrC -| tmrA, n = 3): at these strengths it oscillates for ever; weaker genes only ring down.",
+      "A ring of three repressors (tmrA -| tmrB -| tmrC -| tmrA, n = 3): at these strengths it oscillates for ever; weaker genes only ring down. Compound Q adds tmrA.",
     inputSignal: "Q",
     circuit: build({
       name: "Tank timer ring",
-      description: "Ring of three repressors.",
+      description: "Ring of three repressors; compound Q adds tmrA.",
       species: ringSpecies,
       signals: [signalQ],
       reactions: ringReactions(false),
@@ -275,7 +282,7 @@ export const feedbackTemplates: Record<FeedbackTemplateKey, CircuitTemplate> = {
   "ring-extra": {
     title: "Timer ring with a cross-link",
     description:
-      "The timer ring plus one extra repression (tmrB -| tmrA, with tmrC -| tmrA made weak): tmrA and tmrB now form a switch that stops the ring in one of two states.",
+      "The timer ring plus one extra repression (tmrB -| tmrA, with tmrC -| tmrA made weak): tmrA and tmrB now form a switch that stops the ring in one of two states. Compound Q adds tmrA.",
     inputSignal: "Q",
     circuit: build({
       name: "Tank timer ring, cross-linked",

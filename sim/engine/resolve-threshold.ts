@@ -99,14 +99,18 @@ export function resolveThreshold(spec: RunSpec): ResolvedThreshold {
       throw new Error(`cannot determine the default threshold: ${(e as Error).message}; set threshold.value`);
     }
     const rise = levels.onMaximum - levels.offSteadyState;
-    if (!(rise > 0))
+    // a rise of rounding size (an output the input does not reach) is no rise
+    if (!(rise > 1e-6 * Math.max(1, Math.abs(levels.offSteadyState))))
       throw new Error(
         `cannot determine the default threshold: "${output}" does not rise above its OFF steady state (${fmt(levels.offSteadyState)} molecules) under constant ON input within the end time; set threshold.value`,
       );
     theta = levels.offSteadyState + rise / 2;
+    const m = levels.offMoves;
     rule =
-      `Half-way between the OFF steady state (${fmt(levels.offSteadyState)} molecules) and the highest mean-field level under ` +
-      `constant ON input from OFF within the end time (${levels.onMaximumAtMinutes === null ? `${fmt(levels.onMaximum)} molecules` : `a peak of ${fmt(levels.onMaximum)} molecules at ${fmt(levels.onMaximumAtMinutes)} min`}): ${fmt(theta)} molecules.`;
+      (m
+        ? `The mean-field output does not settle with the input OFF (it still moves after ${fmt(m.horizonMinutes)} min), so its OFF reference is its time average over the second half of the end time (${fmt(m.fromMinutes)}-${fmt(setup.spec.endTimeMinutes)} min): ${fmt(levels.offSteadyState)} molecules (it ranges ${fmt(m.min)}-${fmt(m.max)} there). Half-way between that and the highest mean-field level under constant ON input from the start state within the end time (`
+        : `Half-way between the OFF steady state (${fmt(levels.offSteadyState)} molecules) and the highest mean-field level under constant ON input from OFF within the end time (`) +
+      `${levels.onMaximumAtMinutes === null ? `${fmt(levels.onMaximum)} molecules` : `a peak of ${fmt(levels.onMaximum)} molecules at ${fmt(levels.onMaximumAtMinutes)} min`}): ${fmt(theta)} molecules.`;
   } else if (setup.spec.program !== undefined) {
     // (without input pulses there is no ON response to judge a set threshold by)
     try {
@@ -161,46 +165,60 @@ interface OnReach {
   onMaximum: number;
   /** Time of the peak when the response peaks and falls back; null when it rises to a level. */
   onMaximumAtMinutes: number | null;
+  /**
+   * Set when the OFF state does not settle (an oscillator): offSteadyState is then the time average of the
+   * OFF trajectory from fromMinutes to the end time, where it ranges from min to max molecules.
+   */
+  offMoves: { horizonMinutes: number; min: number; max: number; fromMinutes: number } | null;
 }
 
 /**
- * The output's mean-field OFF steady state (from the run's start state, input off) and the highest
- * output under constant ON input from that state over [0, end time], sampled at REACH_SAMPLES points
- * (a parabola through the best sample and its neighbours refines the peak).
+ * The output's OFF reference and the highest output under constant ON input over [0, end time], sampled
+ * at REACH_SAMPLES points (a parabola through the best sample and its neighbours refines the peak).
+ * OFF reference: the mean-field OFF steady state from the run's start state, when it settles; otherwise
+ * (an oscillator's OFF state does not settle) the time average of the OFF trajectory from the start state
+ * over the second half of the end time, and the ON response then starts from the start state too.
  */
 function onReachFromOff(setup: ReturnType<typeof runSetup>): OnReach {
   const { model } = setup;
   const out = model.outputIndex;
   const n = model.nSpecies;
   const off = Float64Array.from(model.signalOff);
-  let offState: Float64Array;
+  const end = setup.spec.endTimeMinutes;
+  const start = odeStartState(setup.spec).y;
+  let from: Float64Array;
+  let offLevel: number;
+  let offMoves: OnReach["offMoves"] = null;
+  // An OFF state that has not settled after OFF_SETTLE_END_TIMES end times (at least OFF_SETTLE_MIN_MINUTES)
+  // is not a steady state: the OFF trajectory's time average over the second half of the end time stands in.
+  const horizon = Math.max(OFF_SETTLE_MIN_MINUTES, OFF_SETTLE_END_TIMES * end);
   try {
-    // An OFF state that has not settled after OFF_SETTLE_END_TIMES end times (at least OFF_SETTLE_MIN_MINUTES)
-    // is not a steady state the rule can use (an oscillator's, say): refuse then rather than integrate for minutes.
-    const horizon = Math.max(OFF_SETTLE_MIN_MINUTES, OFF_SETTLE_END_TIMES * setup.spec.endTimeMinutes);
-    offState = odeSteadyState(model, model.baseParams, odeStartState(setup.spec).y, off, horizon);
+    from = odeSteadyState(model, model.baseParams, start, off, horizon);
+    offLevel = from[out];
   } catch (e) {
-    throw new Error(`${(e as Error).message} with the input OFF`);
+    const msg = (e as Error).message;
+    if (!/does not settle/.test(msg)) throw new Error(`${msg} with the input OFF`);
+    const traj = sampleOutput(model, off, start, end);
+    const half = Math.floor(REACH_SAMPLES / 2);
+    let sum = 0;
+    let lo = Infinity;
+    let hi = -Infinity;
+    for (let k = half; k <= REACH_SAMPLES; k++) {
+      const w = k === half || k === REACH_SAMPLES ? 0.5 : 1; // trapezoid rule on the sample grid
+      sum += w * traj[k];
+      lo = Math.min(lo, traj[k]);
+      hi = Math.max(hi, traj[k]);
+    }
+    offLevel = sum / (REACH_SAMPLES - half);
+    offMoves = { horizonMinutes: horizon, min: lo, max: hi, fromMinutes: (half * end) / REACH_SAMPLES };
+    from = start.slice(0, n);
   }
   const on = Float64Array.from(model.signalOff);
   on[setup.inputSignal] = setup.onLevel;
-  const y = new Float64Array(n + 1);
-  y.set(offState);
-  const ode = new DopriIntegrator(n + 1, meanFieldRhs(model, model.baseParams, on, false), {
-    relTol: 1e-10,
-    absTol: 1e-10,
-    maxSteps: 5_000_000,
-  });
-  const end = setup.spec.endTimeMinutes;
+  const values = sampleOutput(model, on, from, end);
   const dt = end / REACH_SAMPLES;
-  const values = new Float64Array(REACH_SAMPLES + 1);
-  values[0] = y[out];
   let best = 0;
-  for (let k = 1; k <= REACH_SAMPLES; k++) {
-    ode.integrate(y, (k - 1) * dt, k * dt);
-    values[k] = y[out];
-    if (values[k] > values[best]) best = k;
-  }
+  for (let k = 1; k <= REACH_SAMPLES; k++) if (values[k] > values[best]) best = k;
   let maximum = values[best];
   let at = best * dt;
   if (best > 0 && best < REACH_SAMPLES) {
@@ -214,7 +232,27 @@ function onReachFromOff(setup: ReturnType<typeof runSetup>): OnReach {
   }
   // A peak (a pulse generator's) is named with its time; a rise that levels off is named as a level.
   const peaked = maximum > values[REACH_SAMPLES] * (1 + 1e-3) + 1e-9;
-  return { offSteadyState: offState[out], onMaximum: maximum, onMaximumAtMinutes: peaked ? at : null };
+  return { offSteadyState: offLevel, onMaximum: maximum, onMaximumAtMinutes: peaked ? at : null, offMoves };
+}
+
+/** The mean-field output at REACH_SAMPLES + 1 evenly spaced times over [0, end], from state y0 under signals sig. */
+function sampleOutput(model: CompiledModel, sig: Float64Array, y0: Float64Array, end: number): Float64Array {
+  const n = model.nSpecies;
+  const y = new Float64Array(n + 1);
+  y.set(y0.subarray(0, n));
+  const ode = new DopriIntegrator(n + 1, meanFieldRhs(model, model.baseParams, sig, false), {
+    relTol: 1e-10,
+    absTol: 1e-10,
+    maxSteps: 5_000_000,
+  });
+  const dt = end / REACH_SAMPLES;
+  const values = new Float64Array(REACH_SAMPLES + 1);
+  values[0] = y[model.outputIndex];
+  for (let k = 1; k <= REACH_SAMPLES; k++) {
+    ode.integrate(y, (k - 1) * dt, k * dt);
+    values[k] = y[model.outputIndex];
+  }
+  return values;
 }
 
 /** Warnings about a threshold in plain words, with the numbers and the reason. */
@@ -226,6 +264,13 @@ export function thresholdWarnings(theta: number, levels: OnReach | null, userSet
     );
   if (!levels) return w;
   const off = levels.offSteadyState;
+  const m = levels.offMoves;
+  if (m)
+    w.push(
+      m.max >= theta
+        ? `The output oscillates with the input OFF (mean field ${fmt(m.min)}-${fmt(m.max)} molecules over the second half of the end time) and reaches the threshold (${fmt(theta)} molecules) without any input: a pass may be the oscillation, not a response to the pulse. Compare with a run without pulses, or set threshold.value above ${fmt(m.max)} molecules.`
+        : `The output oscillates with the input OFF (mean field ${fmt(m.min)}-${fmt(m.max)} molecules over the second half of the end time): the OFF reference is its time average there, ${fmt(off)} molecules, not a steady state.`,
+    );
   if (userSet && theta <= off)
     w.push(
       `The threshold (${fmt(theta)} molecules) is at or below the OFF steady state (${fmt(off)} molecules): the output starts above it, so most pulses are excluded.`,

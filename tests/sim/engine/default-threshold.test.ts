@@ -19,6 +19,7 @@ import { MIN_THRESHOLD_MOLECULES, thresholdWarnings } from "@/sim/engine/resolve
 import { odeStartState, odeSteadyState } from "@/sim/ode/solve-ode";
 import { summarizeRun } from "@/sim/analysis";
 import { assertCloseTo } from "@/tests/helpers/close-to";
+import { feedbackTemplates, type FeedbackTemplateKey } from "@/sim/circuit/templates";
 
 const pulseGenerator = (extra: Record<string, unknown> = {}) =>
   RunSpecSchema.parse({
@@ -148,5 +149,81 @@ describe("default threshold", () => {
       seed: "flat",
     });
     assert.throws(() => resolveThreshold(spec), /does not rise above its OFF steady state .* set threshold\.value/);
+  });
+});
+
+describe("default threshold of the feedback templates", () => {
+  const spec = (key: FeedbackTemplateKey, extra: Record<string, unknown> = {}) =>
+    RunSpecSchema.parse({
+      circuit: feedbackTemplates[key].circuit,
+      inputSignal: feedbackTemplates[key].inputSignal,
+      program: {
+        kind: "pulses",
+        pulses: [
+          { start: 100, duration: 20 },
+          { start: 300, duration: 60 },
+        ],
+      },
+      endTimeMinutes: 600,
+      gridStepMinutes: 1,
+      replicates: 4,
+      seed: "feedback-threshold",
+      ...extra,
+    });
+
+  for (const key of ["nar", "latch", "ring", "ring-extra"] as FeedbackTemplateKey[]) {
+    test(`${key} launches with the default threshold (no threshold.value), above its OFF reference`, () => {
+      const t = resolveThreshold(spec(key));
+      assert.equal(t.thresholdSource, "default");
+      assert.ok(Number.isFinite(t.theta) && t.theta > t.offSteadyState + 1, JSON.stringify(t));
+      assert.ok(t.theta < t.onMaximum, JSON.stringify(t));
+      // and a replicate simulates and scores its two pulses with it
+      const chunk = simulateChunk(spec(key, { replicates: 1 }), 0, 1);
+      assert.equal(chunk.pulses.length, 2);
+    });
+  }
+
+  test("ring of three: the OFF state oscillates, so the OFF reference is the time average over the second half of the end time", () => {
+    const s = spec("ring");
+    const t = resolveThreshold(s);
+    assert.match(t.rule, /does not settle with the input OFF/);
+    assert.match(t.rule, /time average over the second half of the end time \(300-600 min\)/);
+    assert.ok(
+      t.warnings.some((w) => /oscillates with the input OFF/.test(w) && /without any input/.test(w)),
+      t.warnings.join(" | "),
+    );
+    // Independent: the mean-field OFF path on a 0.1-min grid (no pulses), averaged over [300, 600] by the
+    // trapezoid rule, and the ON path (one pulse over the whole end time) for the highest level.
+    const m = runSetup(s).model;
+    const offPath = solveOde(
+      RunSpecSchema.parse({ ...s, program: undefined, inputSignal: undefined, gridStepMinutes: 0.1 }),
+    );
+    const ng = offPath.times.length;
+    const out = (g: number) => offPath.values[m.outputIndex * ng + g];
+    let sum = 0;
+    let span = 0;
+    let hi = -Infinity;
+    for (let g = 1; g < ng; g++) {
+      if (offPath.times[g - 1] < 300 - 1e-9) continue;
+      const dt = offPath.times[g] - offPath.times[g - 1];
+      sum += 0.5 * dt * (out(g - 1) + out(g));
+      span += dt;
+      hi = Math.max(hi, out(g));
+    }
+    assertCloseTo(span, 300, { rel: 1e-9 });
+    assertCloseTo(t.offSteadyState, sum / span, { rel: 2e-3 });
+    // it really oscillates: the OFF path spans far more than its own Poisson noise around the average
+    assert.ok(hi - sum / span > 5 * Math.sqrt(sum / span), `max ${hi}, mean ${sum / span}`);
+    const onPath = solveOde(
+      RunSpecSchema.parse({
+        ...s,
+        program: { kind: "pulses", pulses: [{ start: 0, duration: 601 }] },
+        gridStepMinutes: 0.1,
+      }),
+    );
+    let peak = -Infinity;
+    for (let g = 0; g < ng; g++) peak = Math.max(peak, onPath.values[m.outputIndex * ng + g]);
+    assertCloseTo(t.onMaximum, peak, { rel: 2e-3 });
+    assertCloseTo(t.theta, (t.offSteadyState + t.onMaximum) / 2, { rel: 1e-9 });
   });
 });
