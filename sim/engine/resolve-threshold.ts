@@ -169,7 +169,7 @@ interface OnReach {
    * Set when the OFF state does not settle (an oscillator): offSteadyState is then the time average of the
    * OFF trajectory from fromMinutes to the end time, where it ranges from min to max molecules.
    */
-  offMoves: { horizonMinutes: number; min: number; max: number; fromMinutes: number } | null;
+  offMoves?: { horizonMinutes: number; min: number; max: number; fromMinutes: number } | null;
 }
 
 /**
