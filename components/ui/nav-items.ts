@@ -19,6 +19,7 @@ export const NAV_ITEMS: NavItem[] = [
   { href: "/sweeps", label: "Sweeps", icon: "grid", phoneTab: false },
   { href: "/traces", label: "Traces", icon: "bar-chart-2", phoneTab: false },
   { href: "/lab", label: "Lab", icon: "users", phoneTab: false },
+  { href: "/definitions", label: "Definitions", icon: "book-open", phoneTab: false },
   { href: "/settings", label: "Settings", icon: "settings", phoneTab: false },
   { href: "/admin", label: "Admin", icon: "shield", phoneTab: false, siteAdminOnly: true },
 ];
@@ -34,7 +35,7 @@ export const MORE_ITEM: NavItem = { href: "/more", label: "More", icon: "menu", 
 export function isActive(item: NavItem, pathname: string): boolean {
   if (item.href === "/") return pathname === "/" || pathname === "";
   if (item.href === "/more")
-    return ["/more", "/compare", "/sweeps", "/traces", "/lab", "/settings", "/admin"].some((p) =>
+    return ["/more", "/compare", "/sweeps", "/traces", "/lab", "/definitions", "/settings", "/admin"].some((p) =>
       pathname.startsWith(p),
     );
   return pathname === item.href || pathname.startsWith(item.href + "/");

@@ -5,6 +5,7 @@ import { AppShell } from "@/components/ui/app-shell";
 import { Text } from "@/components/ui/text";
 import { breakpointsFor } from "@/components/theme/use-breakpoints";
 import { renderWithProviders } from "./render";
+import { navItemsFor, isActive, MORE_ITEM } from "@/components/ui/nav-items";
 
 function setWidth(width: number) {
   const window = { width, height: 800, scale: 1, fontScale: 1 };
@@ -44,6 +45,15 @@ describe("AppShell chooses its layout from the window width at run time", () => 
     expect(screen.getByLabelText("Runs").props["aria-current"]).toBe("page");
     expect(screen.getByLabelText("Sweeps").props.href).toBe("/sweeps");
     expect(screen.getByLabelText("Home").props.href).toBe("/");
+    // the metric definitions are one tap away from every page
+    expect(screen.getByLabelText("Definitions").props.href).toBe("/definitions");
+    expect(screen.getByLabelText("Definitions").props.role).toBe("link");
+  });
+
+  test("phone width: Definitions is on the More page (not a tab) and More is active there", () => {
+    const more = navItemsFor().filter((i) => !i.phoneTab);
+    expect(more.map((i) => i.href)).toContain("/definitions");
+    expect(isActive(MORE_ITEM, "/definitions")).toBe(true);
   });
 
   test("the breakpoint is 768 px", () => {
