@@ -33,6 +33,17 @@
  * A model without expressions or events gets exactly the source it got before
  * they existed.
  *
+ * Two variants: "fast" (the default) and "reference", the kernel exactly as it
+ * stood before issue 16's speed work (its source is frozen by digest in
+ * tests/sim/engine/fast-kernel.test.ts). The fast kernel does the same
+ * floating-point operations in the same order and differs only in how the
+ * output's path reaches the tracker: each change is appended to a block
+ * (ctx.pathBuf) handed over with PulseTracker.pushPath when full and before the
+ * kernel returns, instead of a method call per change (the tracker's state is
+ * read by nobody while the kernel runs, so the records are the same). Both
+ * give bit-identical results for the same seeds (tested over every rate kind,
+ * events, rules, extrinsic variation and many seeds).
+ *
  * The source is built only from the compiled model's indices, numbers from
  * checked trees and the numeric flags below (integer Hill exponents, zero
  * leak); no user text reaches it.
@@ -74,6 +85,8 @@ export class KernelContext {
   trig: Uint8Array = new Uint8Array(0);
   stopFire: Uint8Array = new Uint8Array(0);
   onEvents: ((t: number, stop: number) => number) | null = null;
+  /** The fast kernel's block of output-path pairs (t, x) on their way to the tracker (PulseTracker.pushPath). */
+  pathBuf: Float64Array = new Float64Array(2 * 4096);
 }
 
 export const KERNEL_FINISHED = 0;
@@ -109,6 +122,14 @@ export interface KernelOptions {
   inputSignal: number;
   /** Parameter slots that vary between replicates (their values are not specialised). */
   variedSlots: ReadonlySet<number>;
+  /**
+   * "fast" (the default) or "reference": the kernel as it stood before the
+   * speed work of issue 16, kept to check the fast one against (same results,
+   * bit for bit, for the same seeds). The fast kernel does the same
+   * floating-point operations in the same order; it differs only in how the
+   * output path reaches the tracker (buffered in blocks, PulseTracker.pushPath).
+   */
+  variant?: "fast" | "reference";
 }
 
 function powExpr(v: string, n: number, nSlot: number, varied: boolean): string {
@@ -170,6 +191,12 @@ export function kernelSource(model: CompiledModel, optsIn: KernelOptions): strin
   for (const s of model.eventParamSlots) variedSlots.add(s);
   for (const l of model.links) if (variedSlots.has(l.from)) variedSlots.add(l.slot);
   const opts: KernelOptions = { ...optsIn, variedSlots };
+  const fast = opts.variant !== "reference";
+  // the output's new value on its way to the tracker: at once (reference) or via the path buffer (fast)
+  const track = (v: string) =>
+    fast
+      ? `if (trk !== null) { ob[on] = t; ob[on + 1] = ${v}; on += 2; if (on === obn) { trk.pushPath(ob, on); on = 0; } }`
+      : `if (trk !== null) trk.push(t, ${v});`;
   const hasEvents = model.events.length > 0;
   const ext = model.hasExpressions || hasEvents || model.rules.length > 0;
   const nS = model.nSpecies;
@@ -232,6 +259,7 @@ export function kernelSource(model: CompiledModel, optsIn: KernelOptions): strin
   L.push(`var gt = ctx.gridTimes, gi = ctx.gridIndex, ng = gt.length, gb = ctx.gridBuf;`);
   L.push(`var tG = gi < ng ? gt[gi] : Infinity;`);
   L.push(`var trk = ctx.tracker, rec = ctx.recorder, cp = ctx.checkpoint;`);
+  if (fast) L.push(`var ob = ctx.pathBuf, on = 0, obn = ob.length - (ob.length & 1);`);
   L.push(`var ev = ctx.events, cap = ctx.eventCap${ext ? "" : ", status = 0"};`);
   L.push(`var atot = 0.0, tNext = 0.0, r = 0.0, cum = 0.0, j = 0;`);
   const gridWrite = (cond: string) =>
@@ -250,7 +278,9 @@ export function kernelSource(model: CompiledModel, optsIn: KernelOptions): strin
       Array.from({ length: nS }, (_, i) => `x${i} = x[${i}];`).join(" "),
       usedList.map((s) => `P${s} = p[${s}];`).join(" "),
       props.join(" "),
-      `if (trk !== null && x${out} !== xob) trk.push(t, x${out});`,
+      fast
+        ? `if (x${out} !== xob) { ${track(`x${out}`)} }`
+        : `if (trk !== null && x${out} !== xob) trk.push(t, x${out});`,
     ].join(" ");
   if (ext && model.clockStops.length > 0) {
     L.push(`  if (tX <= tNext && tX <= tEnd && tX < tSw) {`);
@@ -281,7 +311,7 @@ export function kernelSource(model: CompiledModel, optsIn: KernelOptions): strin
     const upd = rx.delta.map((d) => `x${d.species} += ${d.change};`).join(" ");
     const deps = model.dependents[j].map((k) => props[k]).join(" ");
     const changedAll = new Set(model.changedBy[j]);
-    const trk = changedAll.has(out) ? ` if (trk !== null) trk.push(t, x${out});` : "";
+    const trk = changedAll.has(out) ? ` ${track(`x${out}`)}` : "";
     const ruleCode = model.rulesAfter[j]
       .map((k) => {
         const rule = model.rules[k];
@@ -316,6 +346,7 @@ export function kernelSource(model: CompiledModel, optsIn: KernelOptions): strin
   L.push(`  if ((ev & 65535) === 0 && cp !== null && cp() === false) { status = 2; break; }`);
   L.push(`}`);
   if (ext) L.push(`}`);
+  if (fast) L.push(`if (trk !== null && on > 0) trk.pushPath(ob, on);`);
   L.push(Array.from({ length: nS }, (_, i) => `x[${i}] = x${i};`).join(" "));
   if (nG > 0) L.push(Array.from({ length: nG }, (_, i) => `sig[${i}] = g${i};`).join(" "));
   L.push(`rs[0] = s0; rs[1] = s1; rs[2] = s2; rs[3] = c;`);

@@ -59,6 +59,12 @@ export interface SimulateChunkOptions {
   keepAllGrid?: boolean;
   /** Called every 65,536 events; return false to abort (the wall-time cap lives in the worker). */
   checkpoint?: () => boolean;
+  /**
+   * The direct-method kernel: "fast" (default) or "reference", the kernel as it
+   * stood before issue 16's speed work, kept to check the fast one against
+   * (identical results for the same seeds; generate-kernel.ts).
+   */
+  kernel?: "fast" | "reference";
 }
 
 export interface ReplicateSummary {
@@ -102,14 +108,14 @@ export interface ChunkResult {
   aborted?: boolean;
 }
 
-const kernels = new WeakMap<RunSetup, Kernel>();
+const kernels = { fast: new WeakMap<RunSetup, Kernel>(), reference: new WeakMap<RunSetup, Kernel>() };
 
-function kernelFor(setup: RunSetup): Kernel {
-  let k = kernels.get(setup);
+function kernelFor(setup: RunSetup, variant: "fast" | "reference" = "fast"): Kernel {
+  let k = kernels[variant].get(setup);
   if (!k) {
     const variedSlots = new Set<number>(setup.varied.filter((v) => v.slot >= 0).map((v) => v.slot));
-    k = generateKernel(setup.model, { inputSignal: setup.inputSignal, variedSlots });
-    kernels.set(setup, k);
+    k = generateKernel(setup.model, { inputSignal: setup.inputSignal, variedSlots, variant });
+    kernels[variant].set(setup, k);
   }
   return k;
 }
@@ -132,7 +138,7 @@ export function simulateChunk(
   const { spec, model, grid } = setup;
   const thr = resolveThreshold(specInput);
   const direct = spec.method === "direct";
-  const kernel = direct ? kernelFor(setup) : null;
+  const kernel = direct ? kernelFor(setup, options.kernel) : null;
   const nS = model.nSpecies;
   const ng = grid.length;
   const out = model.outputIndex;

@@ -165,6 +165,68 @@ export class PulseTracker {
     this.gap = false;
   }
 
+  /**
+   * The same as push(b[0], b[1]), push(b[2], b[3]), ... for the n/2 (t, x)
+   * pairs in b[0..n): the engine's fast kernel buffers the output path and
+   * hands it over in blocks. The common case (no NaN, no crossing, no boundary
+   * reached) runs in a loop with the state in locals, doing exactly what push
+   * does for it; every other pair goes through push.
+   */
+  pushPath(b: Float64Array, n: number): void {
+    let i = 0;
+    while (i < n) {
+      if (!this.linear && !this.gap) {
+        const theta = this.theta;
+        const down = this.down;
+        const above = this.above;
+        const nb = this.nextBoundary;
+        const cur = this.current;
+        const i0 = i;
+        if (cur === null) {
+          for (; i < n; i += 2) {
+            const t = b[i];
+            const x = b[i + 1];
+            if (x !== x || (above ? x < down : x >= theta) || nb <= t) break;
+          }
+        } else {
+          let peak = cur.peak;
+          let peakT = this.peakT;
+          let buf = this.buf;
+          let nBuf = this.nBuf;
+          for (; i < n; i += 2) {
+            const t = b[i];
+            const x = b[i + 1];
+            if (x !== x || (above ? x < down : x >= theta) || nb <= t) break;
+            if (x > peak) {
+              peak = x;
+              peakT = t;
+            }
+            if (nBuf + 2 > buf.length) {
+              const nbuf = new Float64Array(buf.length * 2);
+              nbuf.set(buf);
+              buf = nbuf;
+            }
+            buf[nBuf] = t;
+            buf[nBuf + 1] = x;
+            nBuf += 2;
+          }
+          cur.peak = peak;
+          this.peakT = peakT;
+          this.buf = buf;
+          this.nBuf = nBuf;
+        }
+        if (i > i0) {
+          this.tp = b[i - 2];
+          this.xp = b[i - 1];
+        }
+      }
+      if (i < n) {
+        this.push(b[i], b[i + 1]);
+        i += 2;
+      }
+    }
+  }
+
   /** Ends the path at tEnd and returns the pulse records (pulses whose window opened). */
   finish(tEnd: number): PulseStat[] {
     if (this.nextBoundary <= tEnd) this.advance(tEnd, tEnd, this.xp, true);
