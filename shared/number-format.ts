@@ -128,3 +128,33 @@ export function formatPValue(p: number | null | undefined): string {
   if (p < 0.001) return "p < 0.001";
   return `p = ${formatNumber(p, 2)}`;
 }
+
+/** A ratio written as a factor: "2.35×" (no space, as a factor reads). "–" when undefined. */
+export function formatFactor(r: number | null | undefined, sig = 3): string {
+  return isNumber(r) ? `${formatNumber(r, sig)}×` : DASH;
+}
+
+/** A file size in kB or MB (1 kB = 1024 bytes), at least "1 kB" for a non-empty file: "12.3 kB", "1.5 MB". */
+export function formatBytes(bytes: number | null | undefined): string {
+  if (!isNumber(bytes)) return DASH;
+  if (bytes === 0) return "0 kB";
+  if (bytes < 1024 * 1024) return formatQuantity(Math.max(1, bytes / 1024), "kB");
+  return formatQuantity(bytes / (1024 * 1024), "MB");
+}
+
+/**
+ * A length of time given in seconds, in the largest fitting unit at 2 significant figures:
+ * "45 s", "12 min", "1.5 h". Used for estimates and ages ("about 12 min").
+ */
+export function formatSeconds(s: number | null | undefined): string {
+  if (!isNumber(s)) return DASH;
+  const a = Math.abs(s);
+  if (a < 60) return formatQuantity(s, "s", 2);
+  if (a < 3600) return formatQuantity(s / 60, "min", 2);
+  return formatQuantity(s / 3600, "h", 2);
+}
+
+/** A difference of two probabilities in percentage points: "12.3 percentage points" (d = 0.123). */
+export function formatPercentagePoints(d: number | null | undefined, unit = "percentage points", sig = 3): string {
+  return isNumber(d) ? formatQuantity(d * 100, unit, sig) : DASH;
+}

@@ -12,7 +12,14 @@ import { runDateLabel } from "@/components/ui/run-row";
 import { Banner, EmptyState, ErrorState, LoadingState } from "@/components/ui/states";
 import { LazyChart } from "@/components/charts/lazy-chart";
 import { compareDelaySpec, compareFilterSpec } from "@/components/charts/specs";
-import { formatInterval, formatNumber, formatPValue, formatProbability, formatReached } from "@/shared/number-format";
+import {
+  formatCount,
+  formatInterval,
+  formatPValue,
+  formatProbability,
+  formatQuantity,
+  formatReached,
+} from "@/shared/number-format";
 import { useComparison, useRuns } from "@/components/data/runs";
 import { useTheme } from "@/components/theme/use-theme";
 import { DefinitionLink } from "@/components/definitions/definition-link";
@@ -40,21 +47,21 @@ export function pairSentences(cmp: Comparison, pair: ComparisonPair): string[] {
     out.push(
       `Response delays differ` +
         (d.medianA !== null && d.medianB !== null
-          ? `: median ${formatNumber(d.medianA)} min for ${a} against ${formatNumber(d.medianB)} min for ${b}`
+          ? `: median ${formatQuantity(d.medianA, "min")} for ${a} against ${formatQuantity(d.medianB, "min")} for ${b}`
           : ` between ${a} and ${b}`) +
         (d.mannWhitney ? ` (Mann-Whitney ${pval(d.mannWhitney.pHolm)} after Holm adjustment).` : "."),
     );
   const w = pair.widths;
   if (w.withinNoise === false)
     out.push(
-      `Output pulse widths differ: median ${formatNumber(w.medianA)} min against ${formatNumber(w.medianB)} min.`,
+      `Output pulse widths differ: median ${formatQuantity(w.medianA, "min")} against ${formatQuantity(w.medianB, "min")}.`,
     );
   const diffs = pair.passDifferences.filter((p) => !p.withinNoise);
   if (diffs.length === 0 && pair.passDifferences.length)
     out.push(`Pass probabilities do not differ beyond noise at any duration (Fisher's exact test, Holm-adjusted).`);
   for (const p of diffs)
     out.push(
-      `At ${formatNumber(p.duration)} min, ${a} passes ${pct(p.passProbabilityA)} of pulses against ${pct(p.passProbabilityB)} for ${b} (Fisher ${pval(p.pHolm)}, Holm-adjusted).`,
+      `At ${formatQuantity(p.duration, "min")}, ${a} passes ${pct(p.passProbabilityA)} of pulses against ${pct(p.passProbabilityB)} for ${b} (Fisher ${pval(p.pHolm)}, Holm-adjusted).`,
     );
   return out;
 }
@@ -105,7 +112,7 @@ function ComparisonView({ ids }: { ids: string[] }) {
             </View>
             <StatCard
               label="d50"
-              value={r.headline.d50 === null ? "no number" : `${formatNumber(r.headline.d50)} min`}
+              value={r.headline.d50 === null ? "no number" : `${formatQuantity(r.headline.d50, "min")}`}
               detail={
                 r.headline.d50 === null
                   ? (r.headline.d50Note ?? "not estimable")
@@ -127,7 +134,7 @@ function ComparisonView({ ids }: { ids: string[] }) {
             />
             <StatCard
               label="Pulses passed"
-              value={`${r.headline.passed.toLocaleString("en")} of ${r.headline.evaluable.toLocaleString("en")}`}
+              value={`${formatCount(r.headline.passed)} of ${formatCount(r.headline.evaluable)}`}
               detail="every evaluable pulse, all durations"
               extra={<DefinitionLink term="pass" />}
             />

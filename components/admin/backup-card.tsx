@@ -5,9 +5,9 @@ import { Text } from "@/components/ui/text";
 import { Button } from "@/components/ui/button";
 import { Banner } from "@/components/ui/states";
 import type { BackupResult } from "@/components/data/admin";
+import { formatBytes } from "@/shared/number-format";
 
-const size = (bytes: number) =>
-  bytes >= 1024 * 1024 ? `${(bytes / 1024 / 1024).toFixed(1)} MB` : `${Math.max(1, Math.round(bytes / 1024))} kB`;
+const size = (bytes: number) => formatBytes(bytes);
 
 /** "Back up the database now": a consistent online copy into backups/ beside the database; shows the file name. */
 export function BackupCard({

@@ -4,17 +4,18 @@ import { useTheme } from "@/components/theme/use-theme";
 import { Card } from "@/components/ui/card";
 import { Text } from "@/components/ui/text";
 import type { ComputeStatus } from "@/components/data/admin";
+import { formatQuantity, formatSeconds } from "@/shared/number-format";
 
 /** Seconds since an ISO time, in words ("4 s ago"); `now` is injectable for tests. */
 export function ageInWords(iso: string, now = Date.now()): string {
   const s = Math.max(0, Math.round((now - Date.parse(iso)) / 1000));
-  return s < 120 ? `${s} s ago` : `${Math.round(s / 60)} min ago`;
+  return s < 120 ? `${formatQuantity(s, "s")} ago` : `${formatSeconds(s)} ago`;
 }
 
 /** Where chunks run: the embedded pool, or Redis workers with queue depth, rate and each worker's last heartbeat. */
 export function ComputeCard({ status, now }: { status: ComputeStatus; now?: number }) {
   const t = useTheme();
-  const rate = `${status.chunksPerSecond.toFixed(2)} chunks/s over the last minute`;
+  const rate = `${formatQuantity(status.chunksPerSecond, "chunks/s")} over the last minute`;
   return (
     <Card testID="compute-card">
       <Text variant="heading">Compute</Text>

@@ -54,7 +54,7 @@ export function programPreviewSpec(preview: PreviewProgramResponse, c: Palette):
   );
   return {
     title: "Input signal preview",
-    description: `${n} pulse${n === 1 ? "" : "s"} before ${formatNumber(end)} minutes; durations ${durations
+    description: `${n} pulse${n === 1 ? "" : "s"} before ${formatQuantity(end, "minutes")}; durations ${durations
       .slice(0, 8)
       .map((d) => formatNumber(d))
       .join(", ")}${durations.length > 8 ? "…" : ""} minutes.`,
@@ -259,7 +259,7 @@ export function trajectoriesSpec(series: RunSeries, c: Palette, maxTrajectories 
   const colors = [c.series[0], c.series[3], c.series[4], c.series[5]];
   return {
     title: `Sample trajectories of ${series.outputSpecies}`,
-    description: `${trajs.length} simulated replicates of ${series.outputSpecies} over time, with the input pulses drawn at the bottom${series.threshold ? ` and the threshold at ${formatNumber(series.threshold.theta)} molecules` : ""}.`,
+    description: `${trajs.length} simulated replicates of ${series.outputSpecies} over time, with the input pulses drawn at the bottom${series.threshold ? ` and the threshold at ${formatQuantity(series.threshold.theta, "molecules")}` : ""}.`,
     xLabel: "Time (min)",
     yLabel: `${series.outputSpecies} (molecules)`,
     rows,
@@ -290,7 +290,7 @@ export function delayHistogramSpec(summary: RunSummary, c: Palette): ChartSpec |
   const rows: ChartRow[] = h.counts.map((n, k) => ({ x: (h.edges[k] + h.edges[k + 1]) / 2, count: n }));
   return {
     title: "Response delay histogram",
-    description: `${summary.delay.responded} responses in ${h.counts.length} bins from ${formatNumber(h.edges[0])} to ${formatNumber(h.edges[h.edges.length - 1])} minutes; ${summary.delay.censored} pulses had no response in their window (not drawn). Median delay ${formatReached(summary.delay.median, "min")}.`,
+    description: `${summary.delay.responded} responses in ${h.counts.length} bins from ${formatNumber(h.edges[0])} to ${formatQuantity(h.edges[h.edges.length - 1], "minutes")}; ${summary.delay.censored} pulses had no response in their window (not drawn). Median delay ${formatReached(summary.delay.median, "min")}.`,
     xLabel: "Response delay (min)",
     yLabel: "Pulses",
     rows,

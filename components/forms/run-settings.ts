@@ -1,6 +1,7 @@
 import { SeedSchema } from "@/shared/schemas/run-spec";
 import { RUN_LIMITS } from "@/shared/limits";
 import { parseNumber } from "./zod-errors";
+import { formatCount } from "@/shared/number-format";
 
 /** A fresh random seed (letters and digits), shown to the user and editable. */
 export function randomSeed(): string {
@@ -34,7 +35,7 @@ export function validateRunForm(v: RunFormValues): Partial<Record<keyof RunFormV
   const reps = parseNumber(v.replicates);
   if (!Number.isInteger(reps) || reps < 1) e.replicates = "Replicates must be a whole number of at least 1.";
   else if (reps > RUN_LIMITS.maxReplicates)
-    e.replicates = `At most ${RUN_LIMITS.maxReplicates.toLocaleString("en-US")} replicates.`;
+    e.replicates = `At most ${formatCount(RUN_LIMITS.maxReplicates)} replicates.`;
   const seed = SeedSchema.safeParse(v.seed);
   if (!seed.success) e.seed = seed.error.issues[0].message;
   const end = parseNumber(v.endTimeMinutes);
@@ -42,7 +43,7 @@ export function validateRunForm(v: RunFormValues): Partial<Record<keyof RunFormV
   const grid = parseNumber(v.gridStepMinutes);
   if (!(grid > 0)) e.gridStepMinutes = "Grid step must be a positive number of minutes.";
   else if (end > 0 && end / grid + 1 > RUN_LIMITS.maxGridPoints)
-    e.gridStepMinutes = `At most ${RUN_LIMITS.maxGridPoints.toLocaleString("en-US")} grid points: use a larger step.`;
+    e.gridStepMinutes = `At most ${formatCount(RUN_LIMITS.maxGridPoints)} grid points: use a larger step.`;
   if (v.thresholdValue.trim() && !(parseNumber(v.thresholdValue) > 0))
     e.thresholdValue = "Threshold must be positive (or empty for the default).";
   const h = parseNumber(v.hysteresis);

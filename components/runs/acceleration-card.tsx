@@ -5,7 +5,7 @@ import { Card } from "@/components/ui/card";
 import { Text } from "@/components/ui/text";
 import { Button } from "@/components/ui/button";
 import { StatCard } from "@/components/ui/stat-card";
-import { formatNumber } from "@/components/charts/chart-spec";
+import { formatFactor, formatNumber, formatQuantity } from "@/shared/number-format";
 import type { RunDetail } from "@/shared/schemas/api-runs";
 
 export type AccelerationView = NonNullable<RunDetail["acceleration"]>;
@@ -20,8 +20,8 @@ export function halfRiseWords(a: AccelerationView): string {
     return "No T1/2 ratio: the output does not rise in one of the two runs.";
   if (Math.abs(r - 1) <= SAME_SPEED) return `About as fast as the matched control (T1/2 ratio ${formatNumber(r)}).`;
   if (r > 1)
-    return `Acceleration: the circuit reaches half its steady level ${formatNumber(r)}× faster than the matched control.`;
-  return `Slow-down: the circuit reaches half its steady level ${formatNumber(1 / r)}× slower than the matched control.`;
+    return `Acceleration: the circuit reaches half its steady level ${formatFactor(r)} faster than the matched control.`;
+  return `Slow-down: the circuit reaches half its steady level ${formatFactor(1 / r)} slower than the matched control.`;
 }
 
 /** The median-delay difference (circuit minus control) in plain words. */
@@ -30,10 +30,10 @@ export function delayWords(a: AccelerationView): string {
   if (d === null || !Number.isFinite(d))
     return "No median-delay difference: a median response delay was not reached in one of the two runs.";
   if (d === 0) return "The median response delay is the same as the control's.";
-  return `The circuit's median response delay is ${formatNumber(Math.abs(d))} min ${d > 0 ? "longer" : "shorter"} than the control's.`;
+  return `The circuit's median response delay is ${formatQuantity(Math.abs(d), "min")} ${d > 0 ? "longer" : "shorter"} than the control's.`;
 }
 
-const min = (v: number | null) => (v === null ? "not reached" : `${formatNumber(v)} min`);
+const min = (v: number | null) => (v === null ? "not reached" : `${formatQuantity(v, "min")}`);
 
 /** A circuit run against its finished matched simple-regulation control (shown on both runs), linking to the other one. */
 export function AccelerationCard({ acceleration: a, runId }: { acceleration: AccelerationView; runId: string }) {
@@ -57,7 +57,7 @@ export function AccelerationCard({ acceleration: a, runId }: { acceleration: Acc
           value={
             a.medianDelayDifference === null
               ? "–"
-              : `${a.medianDelayDifference > 0 ? "+" : ""}${formatNumber(a.medianDelayDifference)} min`
+              : `${a.medianDelayDifference > 0 ? "+" : ""}${formatQuantity(a.medianDelayDifference, "min")}`
           }
           detail={`circuit ${min(a.medianDelayCircuit)} · control ${min(a.medianDelayControl)}`}
         />

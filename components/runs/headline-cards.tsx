@@ -38,10 +38,10 @@ export function d50Refusal(summary: RunSummary): string {
   switch (v.kind) {
     case "not-bracketed":
       return v.side === "below-shortest"
-        ? `below ${formatNumber(v.bound)} min (shortest tried)`
-        : `above ${formatNumber(v.bound)} min (longest tried)`;
+        ? `below ${formatQuantity(v.bound, "min")} (shortest tried)`
+        : `above ${formatQuantity(v.bound, "min")} (longest tried)`;
     case "not-estimable":
-      return `not estimable: no durations between ${formatNumber(v.between[0])} and ${formatNumber(v.between[1])} min`;
+      return `not estimable: no durations between ${formatNumber(v.between[0])} and ${formatQuantity(v.between[1], "min")}`;
     case "plateau":
       return "plateau: no single d50";
     default:
@@ -88,7 +88,7 @@ export function HeadlineCards({
         <StatCard
           style={CARD}
           testID="card-false-pass"
-          label={`False-pass rate (pulses under ${formatNumber(summary.noiseDurationMinutes)} min)`}
+          label={`False-pass rate (pulses under ${formatQuantity(summary.noiseDurationMinutes, "min")})`}
           value={pct(summary.falsePassRate)}
           detail={
             summary.falsePass
@@ -100,7 +100,7 @@ export function HeadlineCards({
         {summary.delayCost ? (
           <StatCard
             style={CARD}
-            label={`Delay paid for long pulses (≥ ${formatNumber(summary.delayCost.minDurationMinutes)} min)`}
+            label={`Delay paid for long pulses (≥ ${formatQuantity(summary.delayCost.minDurationMinutes, "min")})`}
             value={formatReached(summary.delayCost.medianDelay, "min")}
             detail={`${formatCount(summary.delayCost.responded)} of ${formatCount(summary.delayCost.pulses)} responded · durations ${summary.delayCost.durations.map((d) => formatNumber(d)).join(", ")} min`}
             extra={<DefinitionLink term="delay-cost" />}

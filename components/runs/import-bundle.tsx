@@ -6,6 +6,7 @@ import { Banner } from "@/components/ui/states";
 import { Button } from "@/components/ui/button";
 import { ApiError } from "@/components/data/api";
 import { pickBundleFile, useImportBundle } from "@/components/data/bundles";
+import { formatCount } from "@/shared/number-format";
 
 export type ImportProblem = { file?: string; message: string; fields: { path: string; message: string }[] };
 
@@ -100,7 +101,7 @@ export function ImportConfirm({
 }) {
   const t = useTheme();
   const what = pending.runName ? `“${pending.runName}”` : "this run";
-  const reps = pending.replicates !== null ? ` ${pending.replicates.toLocaleString("en")} replicates` : "";
+  const reps = pending.replicates !== null ? ` ${formatCount(pending.replicates)} replicates` : "";
   return (
     <Banner tone="notice" testID="import-confirm-card">
       <View role="group" aria-label={`Import ${pending.file}?`} style={{ gap: t.spacing.sm }}>

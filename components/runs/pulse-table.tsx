@@ -7,7 +7,7 @@ import { Button } from "@/components/ui/button";
 import { Choice } from "@/components/ui/choice";
 import { DataTable, type Column } from "@/components/ui/data-table";
 import { ErrorState, LoadingState } from "@/components/ui/states";
-import { formatNumber } from "@/components/charts/chart-spec";
+import { formatCount, formatNumber, formatQuantity } from "@/shared/number-format";
 import { useReplicates, type ReplicateQuery } from "@/components/data/runs";
 import type { ReplicatePage } from "@/shared/schemas/api-runs";
 
@@ -19,8 +19,8 @@ export const passWord = (r: PulseRow) => (r.excluded ? "excluded" : r.passed ? "
 const delayWord = (r: PulseRow) => (r.delay === null ? "none" : `${fmt(r.delay)} min`);
 
 export const PULSE_COLUMNS: Column<PulseRow>[] = [
-  { key: "replicate", label: "Replicate", width: 96, sortable: true, render: (r) => String(r.replicate) },
-  { key: "pulseIndex", label: "Pulse", width: 72, sortable: true, render: (r) => String(r.pulseIndex) },
+  { key: "replicate", label: "Replicate", width: 96, sortable: true, render: (r) => formatCount(r.replicate) },
+  { key: "pulseIndex", label: "Pulse", width: 72, sortable: true, render: (r) => formatCount(r.pulseIndex) },
   { key: "durationBin", label: "Duration (min)", width: 120, sortable: true, render: (r) => fmt(r.durationBin) },
   { key: "passed", label: "Passed", width: 80, render: passWord },
   {
@@ -64,7 +64,7 @@ export function PulseTable({ runId, durations }: { runId: string; durations: num
   const durationValue = q.durationBin === undefined ? "all" : String(q.durationBin);
   const durationOptions = [
     { value: "all", label: "Every duration" },
-    ...durations.map((d) => ({ value: String(d), label: `${formatNumber(d)} min` })),
+    ...durations.map((d) => ({ value: String(d), label: `${formatQuantity(d, "min")}` })),
   ];
   const pageCount = rows.data ? Math.max(1, Math.ceil(rows.data.total / q.pageSize)) : 1;
   const filters = (
@@ -161,9 +161,9 @@ export function PulseTable({ runId, durations }: { runId: string; durations: num
       {rows.data && !rows.isPlaceholderData ? (
         // Not while the previous filter's page is still shown: its total would read as the new filter's.
         <Text variant="caption" tone="muted" testID="pulse-count" role="status">
-          {rows.data.total.toLocaleString("en")} {rows.data.total === 1 ? "pulse" : "pulses"}
+          {formatCount(rows.data.total)} {rows.data.total === 1 ? "pulse" : "pulses"}
           {pass === "yes" ? " that passed" : pass === "no" ? " that did not pass" : ""}
-          {q.durationBin !== undefined ? ` of ${formatNumber(q.durationBin)} min` : ""}
+          {q.durationBin !== undefined ? ` of ${formatQuantity(q.durationBin, "min")}` : ""}
         </Text>
       ) : null}
       {body}

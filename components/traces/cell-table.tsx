@@ -1,7 +1,7 @@
 /** Per-cell figures of a trace set, sorted and paged on the client (the detail already holds every cell). */
 import React, { useMemo, useState } from "react";
 import { DataTable, type Column } from "@/components/ui/data-table";
-import { formatNumber } from "@/components/charts/chart-spec";
+import { formatCount, formatNumber } from "@/shared/number-format";
 import { median } from "./median";
 import type { CellMetrics } from "@/shared/schemas/api-traces";
 
@@ -44,10 +44,10 @@ export function cellRows(cells: CellMetrics[]): CellRow[] {
 const fmt = (v: number | null) => (v === null ? "–" : formatNumber(v));
 const COLUMNS: Column<CellRow>[] = [
   { key: "cell", label: "Cell", width: 110, sortable: true, render: (r) => r.cell },
-  { key: "points", label: "Frames", width: 84, sortable: true, render: (r) => String(r.points) },
+  { key: "points", label: "Frames", width: 84, sortable: true, render: (r) => formatCount(r.points) },
   { key: "firstMinute", label: "From (min)", width: 96, sortable: true, render: (r) => fmt(r.firstMinute) },
   { key: "lastMinute", label: "To (min)", width: 88, sortable: true, render: (r) => fmt(r.lastMinute) },
-  { key: "gaps", label: "Gaps", width: 72, sortable: true, render: (r) => String(r.gaps) },
+  { key: "gaps", label: "Gaps", width: 72, sortable: true, render: (r) => formatCount(r.gaps) },
   { key: "background", label: "Background", width: 108, sortable: true, render: (r) => fmt(r.background) },
   {
     key: "thresholdTraceUnits",
@@ -63,7 +63,7 @@ const COLUMNS: Column<CellRow>[] = [
     label: "Not watched",
     width: 104,
     sortable: true,
-    render: (r) => String(r.notCovered + r.gapDropped),
+    render: (r) => formatCount(r.notCovered + r.gapDropped),
   },
 ];
 

@@ -19,6 +19,7 @@ import { useSweeps } from "@/components/data/sweeps";
 import { useMatch, useRunMatch, type TraceSetDetail } from "@/components/data/traces";
 import { MatchResultView } from "./match-result";
 import type { MatchRequest } from "@/shared/schemas/api-traces";
+import { formatNumber } from "@/shared/number-format";
 
 const DONE = new Set(["finished", "capped"]);
 
@@ -220,5 +221,5 @@ export function MatchPanel({ traceSet, canEdit }: { traceSet: TraceSetDetail; ca
 }
 
 function formatThreshold(x: number): string {
-  return Number(x.toPrecision(4)).toLocaleString("en");
+  return formatNumber(x, 4);
 }

@@ -13,7 +13,13 @@ import { DefinitionLink } from "@/components/definitions/definition-link";
 import { Banner } from "@/components/ui/states";
 import { DataTable, type Column } from "@/components/ui/data-table";
 import { LazyChart } from "@/components/charts/lazy-chart";
-import { formatNumber, formatProbability } from "@/shared/number-format";
+import {
+  formatCount,
+  formatNumber,
+  formatPercentagePoints,
+  formatProbability,
+  formatQuantity,
+} from "@/shared/number-format";
 import { distributionOverlaySpec } from "./trace-specs";
 import type { Distances, MatchDetail, MatchPoint } from "@/shared/schemas/api-traces";
 
@@ -23,7 +29,7 @@ const pct = (p: number | null | undefined) => formatProbability(p);
 /** The tolerance in words ("the closest 5% of points", "combined distance at most 0.4"). */
 export function toleranceWords(m: MatchDetail["result"]["tolerance"]): string {
   return m.kind === "fraction"
-    ? `the closest ${formatNumber(m.fraction * 100)}% of points`
+    ? `the closest ${formatProbability(m.fraction)} of points`
     : `combined distance at most ${formatNumber(m.distance)}`;
 }
 
@@ -32,9 +38,9 @@ export function distanceWords(d: Distances): { pass: string; delay: string; widt
   const shift = (w: number | null, what: string) =>
     w === null
       ? ""
-      : ` On average ${what} would have to move ${formatNumber(w)} min to line up (Wasserstein-1 distance).`;
+      : ` On average ${what} would have to move ${formatQuantity(w, "min")} to line up (Wasserstein-1 distance).`;
   return {
-    pass: `Pass rates differ by ${formatNumber(d.pass * 100, 3)} percentage points, weighted over the input durations both sides have.`,
+    pass: `Pass rates differ by ${formatPercentagePoints(d.pass)}, weighted over the input durations both sides have.`,
     delay: `The largest gap between the cumulative distributions of response delays is ${formatNumber(d.delayKs, 2)} (Kolmogorov–Smirnov D: 0 is the same distribution, 1 is no overlap).${shift(d.delayW1Minutes, "delays")}`,
     width: `For output pulse widths the largest gap is ${formatNumber(d.widthKs, 2)}.${shift(d.widthW1Minutes, "widths")}`,
     combined: `Combined distance ${formatNumber(d.combined, 3)} out of at most 3 (pass difference + delay D + width D).`,
@@ -58,7 +64,7 @@ function DistanceCards({ d }: { d: Distances }) {
         style={CARD}
         testID="match-pass"
         label="Pass-rate difference"
-        value={`${formatNumber(d.pass * 100, 3)} points`}
+        value={formatPercentagePoints(d.pass, "points")}
         detail={w.pass}
         extra={<DefinitionLink term="match-distance" />}
       />
@@ -88,7 +94,7 @@ function RankedPoints({ points, parameters }: { points: MatchPoint[]; parameters
   const [page, setPage] = useState(1);
   const PAGE = 10;
   const columns: Column<PointRow>[] = [
-    { key: "rank", label: "Rank", width: 64, render: (r) => String(r.rank) },
+    { key: "rank", label: "Rank", width: 64, render: (r) => formatCount(r.rank) },
     { key: "accepted", label: "Accept set", width: 104, render: (r) => (r.accepted ? "✓ accepted" : "–") },
     ...parameters.map((p) => ({
       key: `p:${p}`,

@@ -6,7 +6,7 @@ import { Text } from "@/components/ui/text";
 import { StatCard } from "@/components/ui/stat-card";
 import { Banner } from "@/components/ui/states";
 import { LazyChart } from "@/components/charts/lazy-chart";
-import { formatNumber } from "@/components/charts/chart-spec";
+import { formatCount, formatNumber, formatQuantity } from "@/shared/number-format";
 import { cellsOverScheduleSpec } from "./trace-specs";
 import { median } from "./median";
 import type { TracePreview } from "@/shared/schemas/api-traces";
@@ -36,18 +36,13 @@ export function PreviewSummary({ preview, stale }: { preview: TracePreview; stal
         </Banner>
       ) : null}
       <View style={{ flexDirection: "row", flexWrap: "wrap", gap: t.spacing.md }}>
-        <StatCard
-          style={CARD}
-          testID="preview-cells"
-          label="Cells found"
-          value={preview.cellCount.toLocaleString("en")}
-        />
-        <StatCard style={CARD} testID="preview-rows" label="Data rows" value={preview.rows.toLocaleString("en")} />
+        <StatCard style={CARD} testID="preview-cells" label="Cells found" value={formatCount(preview.cellCount)} />
+        <StatCard style={CARD} testID="preview-rows" label="Data rows" value={formatCount(preview.rows)} />
         <StatCard
           style={CARD}
           label="Input pulses"
-          value={String(preview.schedule.length)}
-          detail={`${formatNumber(preview.timeRangeMinutes[0])}–${formatNumber(preview.timeRangeMinutes[1])} min`}
+          value={formatCount(preview.schedule.length)}
+          detail={`${formatNumber(preview.timeRangeMinutes[0])}–${formatQuantity(preview.timeRangeMinutes[1], "min")}`}
         />
         <StatCard
           style={CARD}
@@ -58,7 +53,7 @@ export function PreviewSummary({ preview, stale }: { preview: TracePreview; stal
       </View>
       <Text variant="caption" tone="muted">
         Read as {LAYOUT[preview.layout]}, separated by {DELIM[preview.delimiter]}, times in {preview.timeUnit} (shown in
-        minutes). Frame interval {formatNumber(a.frameIntervalMinutes)} min. Scale: {a.scaleNote}
+        minutes). Frame interval {formatQuantity(a.frameIntervalMinutes, "min")}. Scale: {a.scaleNote}
       </Text>
       {preview.warnings.length ? (
         <Banner tone="notice" testID="preview-warnings">

@@ -1,7 +1,7 @@
 /** ChartSpecs for traces (plain data; drawn by the lazy chart). */
 import type { Palette } from "@/components/theme/tokens";
 import type { ChartRow, ChartSpec } from "@/components/charts/chart-spec";
-import { formatNumber } from "@/components/charts/chart-spec";
+import { formatNumber, formatQuantity } from "@/shared/number-format";
 import { signalOnGrid } from "@/components/charts/specs";
 import type { TracePulse } from "@/shared/schemas/api-traces";
 
@@ -59,7 +59,7 @@ export function cellsOverScheduleSpec(
   const span = [grid[0], grid[grid.length - 1]];
   return {
     title: opts.title ?? "Sample cells over the input schedule",
-    description: `${shown.length} cells (${shown.map((x) => x.cell).join(", ")}) from ${formatNumber(span[0])} to ${formatNumber(span[1])} minutes, with ${schedule.length} input pulses drawn at the bottom${threshold !== null ? ` and the median threshold at ${formatNumber(threshold)} trace units` : ""}.`,
+    description: `${shown.length} cells (${shown.map((x) => x.cell).join(", ")}) from ${formatNumber(span[0])} to ${formatQuantity(span[1], "minutes")}, with ${schedule.length} input pulses drawn at the bottom${threshold !== null ? ` and the median threshold at ${formatNumber(threshold)} trace units` : ""}.`,
     xLabel: "Time (min)",
     yLabel: "Reporter (trace units)",
     rows,
@@ -110,7 +110,7 @@ export function distributionOverlaySpec(
   const med = (s: number[]) => s[Math.floor((s.length - 1) / 2)];
   return {
     title: what.title,
-    description: `Cumulative share of ${what.quantity} up to each value: ${obs.length} observed (median ${formatNumber(med(obs))} min) against ${sim.length} simulated (median ${formatNumber(med(sim))} min). Largest gap between the curves ${formatNumber(what.ks, 2)}${what.w1 !== null ? `; average shift ${formatNumber(what.w1)} min` : ""}.`,
+    description: `Cumulative share of ${what.quantity} up to each value: ${obs.length} observed (median ${formatQuantity(med(obs), "min")}) against ${sim.length} simulated (median ${formatQuantity(med(sim), "min")}). Largest gap between the curves ${formatNumber(what.ks, 2)}${what.w1 !== null ? `; average shift ${formatQuantity(what.w1, "min")}` : ""}.`,
     xLabel: `${what.quantity[0].toUpperCase()}${what.quantity.slice(1)} (min)`,
     yLabel: "Share at or below",
     rows,

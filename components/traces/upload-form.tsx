@@ -18,6 +18,7 @@ import { ApiError } from "@/components/data/api";
 import { uploadLines, type TraceFile, type UploadRequest } from "@/components/data/traces";
 import { SettingsFields } from "./settings-fields";
 import { UploadProblems } from "./upload-problems";
+import { formatBytes, formatCount } from "@/shared/number-format";
 import {
   UPLOAD_DEFAULTS,
   toUploadOptions,
@@ -27,11 +28,10 @@ import {
   type UploadValues,
 } from "./settings-form";
 
-function formatBytes(n: number | null): string {
+function fileSize(n: number | null): string {
   if (n === null) return "size unknown";
-  if (n < 1024) return `${n} bytes`;
-  if (n < 1024 * 1024) return `${(n / 1024).toFixed(1)} KB`;
-  return `${(n / (1024 * 1024)).toFixed(1)} MB`;
+  if (n < 1024) return `${formatCount(n)} bytes`;
+  return formatBytes(n);
 }
 
 /** Settings error paths to the form field that holds them (for "touched"). */
@@ -160,7 +160,7 @@ export function TraceUploadForm({
             testID="upload-pick-file"
           />
           <Text testID="upload-file-name" tone={file ? "default" : "muted"} style={{ flexShrink: 1 }}>
-            {file ? `${file.name} (${formatBytes(file.size)})` : "No file chosen"}
+            {file ? `${file.name} (${fileSize(file.size)})` : "No file chosen"}
           </Text>
         </View>
         {err("file") || pickError ? (

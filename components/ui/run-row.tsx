@@ -2,7 +2,7 @@ import React from "react";
 import { View } from "react-native";
 import type { Href } from "expo-router";
 import { useTheme } from "@/components/theme/use-theme";
-import { formatNumber } from "@/components/charts/chart-spec";
+import { formatCount, formatProbability, formatQuantity } from "@/shared/number-format";
 import type { RunStatusName } from "@/components/theme/tokens";
 import { Card } from "./card";
 import { Text } from "./text";
@@ -43,9 +43,9 @@ export function runDateLabel(iso: string | null | undefined): string {
 export function runHeadlineLabel(h: RunRowData["headline"]): string {
   if (!h) return "";
   const parts: string[] = [];
-  if (h.d50 !== null) parts.push(`d50 ${formatNumber(h.d50)} min`);
-  if (h.falsePassRate !== null) parts.push(`false pass ${formatNumber(h.falsePassRate * 100)}%`);
-  if (h.medianDelay !== null) parts.push(`median delay ${formatNumber(h.medianDelay)} min`);
+  if (h.d50 !== null) parts.push(`d50 ${formatQuantity(h.d50, "min")}`);
+  if (h.falsePassRate !== null) parts.push(`false pass ${formatProbability(h.falsePassRate)}`);
+  if (h.medianDelay !== null) parts.push(`median delay ${formatQuantity(h.medianDelay, "min")}`);
   return parts.join(" · ");
 }
 
@@ -96,7 +96,7 @@ export function RunRow({ run, href }: { run: RunRowData; href: Href }) {
       </View>
       <ProgressBar value={fraction} color={color} label={`Progress of ${run.name}`} />
       <Text variant="caption" tone="muted">
-        {done.toLocaleString("en")} of {run.replicates.toLocaleString("en")} replicates
+        {formatCount(done)} of {formatCount(run.replicates)} replicates
       </Text>
     </Card>
   );

@@ -25,7 +25,7 @@ describe("admin page parts", () => {
     );
     fireEvent.press(screen.getByLabelText("Back up the database now"));
     expect(onBackup).toHaveBeenCalledTimes(1);
-    expect(screen.getByText("Backup written: linger-2026-03-01T10-00-00-000Z.db (3.0 MB).")).toBeTruthy();
+    expect(screen.getByText("Backup written: linger-2026-03-01T10-00-00-000Z.db (3 MB).")).toBeTruthy();
   });
 
   test("outbox shows subject, recipient and text; users show their lab count", () => {
@@ -78,7 +78,7 @@ describe("compute card", () => {
     );
     expect(
       screen.getByText(
-        /^Chunks run on this server's own threads \(no Redis configured\)\. 5 running · 3\.50 chunks\/s/,
+        /^Chunks run on this server's own threads \(no Redis configured\)\. 5 running · 3\.5 chunks\/s/,
       ),
     ).toBeTruthy();
   });
@@ -109,7 +109,7 @@ describe("compute card", () => {
       />,
     );
     expect(
-      screen.getByText("1 worker · 4 chunks queued · 5 out of a window of 8 · 3.50 chunks/s over the last minute"),
+      screen.getByText("1 worker · 4 chunks queued · 5 out of a window of 8 · 3.5 chunks/s over the last minute"),
     ).toBeTruthy();
     expect(screen.getByText("tank-node-2-4711")).toBeTruthy();
     expect(

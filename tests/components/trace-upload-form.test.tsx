@@ -45,7 +45,7 @@ async function chooseFile() {
   await act(async () => {
     fireEvent.press(screen.getByLabelText("Choose a file"));
   });
-  await waitFor(() => expect(screen.getByTestId("upload-file-name").props.children).toBe("cells.csv (1.2 KB)"));
+  await waitFor(() => expect(screen.getByTestId("upload-file-name").props.children).toBe("cells.csv (1.17 kB)"));
 }
 
 describe("TraceUploadForm", () => {
@@ -126,7 +126,7 @@ describe("TraceUploadForm", () => {
     // Kept as typed: the threshold, the column, the chosen file.
     expect(screen.getByLabelText("Threshold (molecules)").props.value).toBe("50");
     expect(screen.getByLabelText("Input column").props.value).toBe("inducer");
-    expect(screen.getByTestId("upload-file-name").props.children).toBe("cells.csv (1.2 KB)");
+    expect(screen.getByTestId("upload-file-name").props.children).toBe("cells.csv (1.17 kB)");
     // The summary message repeats the list, so it is not shown as well.
     expect(screen.queryByTestId("upload-error")).toBeNull();
   });

@@ -1,7 +1,9 @@
 import { test } from "node:test";
 import assert from "node:assert/strict";
 import {
+  formatBytes,
   formatCount,
+  formatFactor,
   formatInterval,
   formatNumber,
   formatPValue,
@@ -9,6 +11,7 @@ import {
   formatQuantity,
   formatReached,
   formatScientific,
+  formatSeconds,
 } from "@/shared/number-format";
 
 // The rules under test are Linger's own (docs/metrics.md, "How numbers are written").
@@ -81,4 +84,17 @@ test("counts and p-values", () => {
   assert.equal(formatCount(2004), "2,004");
   assert.equal(formatPValue(0.0004), "p < 0.001");
   assert.equal(formatPValue(0.0342), "p = 0.034");
+});
+
+test("factors, file sizes and lengths of time carry their unit", () => {
+  assert.equal(formatFactor(2.3456), "2.35×");
+  assert.equal(formatFactor(null), "–");
+  assert.equal(formatBytes(0), "0 kB");
+  assert.equal(formatBytes(100), "1 kB");
+  assert.equal(formatBytes(12_595), "12.3 kB");
+  assert.equal(formatBytes(1.5 * 1024 * 1024), "1.5 MB");
+  assert.equal(formatSeconds(44.6), "45 s");
+  assert.equal(formatSeconds(12.4 * 60), "12 min");
+  assert.equal(formatSeconds(5400), "1.5 h");
+  assert.equal(formatSeconds(undefined), "–");
 });

@@ -38,6 +38,7 @@ import {
 import { useCurrentLab } from "@/components/data/current-lab";
 import { useTheme } from "@/components/theme/use-theme";
 import { useBreakpoints } from "@/components/theme/use-breakpoints";
+import { formatCount, formatSeconds } from "@/shared/number-format";
 
 function RunCharts({ runId, finished }: { runId: string; finished: boolean }) {
   const t = useTheme();
@@ -127,7 +128,7 @@ export default function RunDetailScreen() {
             <ConfirmAction
               label="Cancel run"
               icon="x-circle"
-              question={`Cancel ${run.name}? The ${p.replicatesDone.toLocaleString("en")} replicates done so far are discarded.`}
+              question={`Cancel ${run.name}? The ${formatCount(p.replicatesDone)} replicates done so far are discarded.`}
               confirmLabel="Cancel the run"
               busy={cancel.isPending}
               onConfirm={() => cancel.mutate(run.id)}
@@ -191,8 +192,8 @@ export default function RunDetailScreen() {
           color={t.colors.status[run.status]}
         />
         <Text variant="caption" tone="muted">
-          {p.replicatesDone.toLocaleString("en")} of {p.replicates.toLocaleString("en")} replicates
-          {active && p.secondsLeft !== null ? ` · about ${Math.ceil(p.secondsLeft)} s left` : ""}
+          {formatCount(p.replicatesDone)} of {formatCount(p.replicates)} replicates
+          {active && p.secondsLeft !== null ? ` · about ${formatSeconds(p.secondsLeft)} left` : ""}
           {run.statusReason ? ` · ${run.statusReason}` : ""}
         </Text>
       </Card>

@@ -14,14 +14,13 @@ import { useLaunchRun, useRunEstimate } from "@/components/data/runs";
 import { ApiError } from "@/components/data/api";
 import { randomSeed, toLaunchRequest, validateRunForm, type RunFormValues } from "@/components/forms/run-settings";
 import { suggestedEndTime } from "@/components/forms/program-editor";
-import { formatNumber } from "@/components/charts/chart-spec";
+import { formatCount, formatNumber, formatSeconds } from "@/shared/number-format";
 import { useTheme } from "@/components/theme/use-theme";
 import { useBreakpoints } from "@/components/theme/use-breakpoints";
 
-function formatSeconds(s: number): string {
-  if (s < 60) return `about ${Math.max(1, Math.round(s))} s`;
-  if (s < 3600) return `about ${Math.round(s / 60)} min`;
-  return `about ${(s / 3600).toFixed(1)} h`;
+/** An estimate of computing time: "about 45 s", "about 12 min", "about 1.5 h" (at least 1 s). */
+function aboutSeconds(s: number): string {
+  return `about ${formatSeconds(Math.max(1, s))}`;
 }
 
 export default function NewRun() {
@@ -292,11 +291,11 @@ export default function NewRun() {
           <Text tone="danger">{(estimate.error as Error).message}</Text>
         ) : (
           <>
-            <Text variant="bodyStrong">{formatSeconds(estimate.data.estimatedSeconds)} of compute</Text>
+            <Text variant="bodyStrong">{aboutSeconds(estimate.data.estimatedSeconds)} of compute</Text>
             <Text variant="caption" tone="muted">
-              {formatNumber(estimate.data.estimatedEvents)} reaction events · {estimate.data.pulses} input pulses ·{" "}
-              {formatNumber(estimate.data.gridPoints)} grid points · {formatNumber(estimate.data.storedPulseRows)}{" "}
-              stored pulse records
+              {formatNumber(estimate.data.estimatedEvents)} reaction events · {formatCount(estimate.data.pulses)} input
+              pulses · {formatCount(estimate.data.gridPoints)} grid points ·{" "}
+              {formatCount(estimate.data.storedPulseRows)} stored pulse records
             </Text>
           </>
         )}

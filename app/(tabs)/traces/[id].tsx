@@ -9,7 +9,7 @@ import { SafetyNote } from "@/components/ui/safety-note";
 import { Banner, ErrorState, LoadingState } from "@/components/ui/states";
 import { HeadlineCards } from "@/components/runs/headline-cards";
 import { LazyChart } from "@/components/charts/lazy-chart";
-import { formatNumber } from "@/shared/number-format";
+import { formatCount, formatNumber, formatQuantity } from "@/shared/number-format";
 import { cellsOverScheduleSpec } from "@/components/traces/trace-specs";
 import { median } from "@/components/traces/median";
 import { CellTable } from "@/components/traces/cell-table";
@@ -67,7 +67,7 @@ export default function TraceSetScreen() {
     <Screen
       back={{ href: "/traces", label: "Traces" }}
       title={s.name}
-      subtitle={`${s.cellCount.toLocaleString("en")} cells · uploaded by ${s.uploadedByName ?? "Linger (demo data)"} · ${uploaded}`}
+      subtitle={`${formatCount(s.cellCount)} cells · uploaded by ${s.uploadedByName ?? "Linger (demo data)"} · ${uploaded}`}
       testID="trace-detail-screen"
     >
       {s.synthetic ? (
@@ -85,9 +85,9 @@ export default function TraceSetScreen() {
         <DefinitionLink term="pass" label="pass" />
       </View>
       <Text variant="caption" tone="muted">
-        Each cell counts as a replicate: {sum.pulsesAnalysed.toLocaleString("en")} cell × pulse records scored;{" "}
+        Each cell counts as a replicate: {formatCount(sum.pulsesAnalysed)} cell × pulse records scored;{" "}
         {sum.skippedNotCovered} not watched whole{sum.skippedGap ? `, ${sum.skippedGap} left out for gaps` : ""}. Frame
-        interval {formatNumber(a.frameIntervalMinutes)} min. Scale: {a.scaleNote}
+        interval {formatQuantity(a.frameIntervalMinutes, "min")}. Scale: {a.scaleNote}
       </Text>
       <HeadlineCards summary={sum.analysis} peakUnit="trace units" />
 
@@ -176,7 +176,7 @@ export default function TraceSetScreen() {
           ) : (
             <>
               <Text variant="caption" tone="muted">
-                Threshold {formatNumber(s.settings.thresholdMolecules)} molecules · background{" "}
+                Threshold {formatQuantity(s.settings.thresholdMolecules, "molecules")} · background{" "}
                 {s.settings.background.mode === "preInput"
                   ? "before first pulse"
                   : s.settings.background.mode === "value"
@@ -184,7 +184,7 @@ export default function TraceSetScreen() {
                     : "none"}{" "}
                 · scale {formatNumber(a.scaleUnitsPerMolecule)} units per molecule · smoothing{" "}
                 {s.settings.smoothing.mode === "movingAverage" ? `${s.settings.smoothing.widthFrames} frames` : "none"}{" "}
-                · window {formatNumber(s.settings.windowMinutes)} min
+                · window {formatQuantity(s.settings.windowMinutes, "min")}
               </Text>
               <View style={{ flexDirection: "row", flexWrap: "wrap", gap: t.spacing.md }}>
                 <DefinitionLink term="threshold" label="threshold" />

@@ -10,6 +10,7 @@ import { SyntheticBadge } from "@/components/traces/synthetic-badge";
 import { useTraceSets } from "@/components/data/traces";
 import { useCurrentLab } from "@/components/data/current-lab";
 import { useTheme } from "@/components/theme/use-theme";
+import { formatCount } from "@/shared/number-format";
 
 const date = (ms: number) =>
   new Date(ms).toLocaleDateString("en-GB", { day: "numeric", month: "short", year: "numeric" });
@@ -58,7 +59,7 @@ export default function TracesScreen() {
                 {s.synthetic ? <SyntheticBadge testID={`synthetic-badge-${s.id}`} /> : null}
               </View>
               <Text variant="caption" tone="muted">
-                {s.cellCount.toLocaleString("en")} cells · uploaded by {s.uploadedByName ?? "Linger (demo data)"} ·{" "}
+                {formatCount(s.cellCount)} cells · uploaded by {s.uploadedByName ?? "Linger (demo data)"} ·{" "}
                 {date(s.createdAt)}
               </Text>
               {s.fileName ? (
