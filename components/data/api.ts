@@ -12,12 +12,15 @@ export class ApiError extends Error {
   readonly status: number;
   readonly code: string;
   readonly fields: FieldError[];
-  constructor(status: number, code: string, message: string, fields: FieldError[] = []) {
+  /** The whole parsed error answer, for routes whose errors carry more than fields (e.g. an SBML refusal report). */
+  readonly body: unknown;
+  constructor(status: number, code: string, message: string, fields: FieldError[] = [], body: unknown = undefined) {
     super(message);
     this.name = "ApiError";
     this.status = status;
     this.code = code;
     this.fields = fields;
+    this.body = body;
   }
   /** Field errors keyed by path ("species.0.name"), first message wins. */
   fieldMap(): Record<string, string> {
@@ -73,7 +76,7 @@ export async function api<T = unknown>(path: string, opts: RequestOptions<T> = {
     const parsed = ApiErrorSchema.safeParse(json);
     if (parsed.success) {
       const e = parsed.data.error;
-      throw new ApiError(res.status, e.code, e.message, e.fields ?? []);
+      throw new ApiError(res.status, e.code, e.message, e.fields ?? [], json);
     }
     throw new ApiError(res.status, `http_${res.status}`, res.status === 401 ? "Please sign in." : `The server answered ${res.status}.`);
   }

@@ -22,7 +22,20 @@ export default function CircuitsScreen() {
     <Screen
       title="Circuits"
       subtitle="Species, reactions and rate laws your lab simulates."
-      actions={canEdit ? <Button label="New circuit" icon="plus" href={"/circuits/new"} testID="new-circuit" /> : null}
+      actions={
+        canEdit ? (
+          <>
+            <Button label="New circuit" icon="plus" href={"/circuits/new"} testID="new-circuit" />
+            <Button
+              label="Import SBML"
+              variant="secondary"
+              icon="upload"
+              href={"/circuits/import"}
+              testID="import-sbml"
+            />
+          </>
+        ) : null
+      }
     >
       <Choice
         label="Show"

@@ -9,6 +9,7 @@ import { Banner, ErrorState, LoadingState } from "@/components/ui/states";
 import { WiringDiagram } from "@/components/circuits/wiring-diagram";
 import { BehaviourCard } from "@/components/regimes/behaviour-card";
 import { CircuitView, FeedForwardBadge } from "@/components/circuits/circuit-view";
+import { SbmlExportCard } from "@/components/circuits/sbml-export";
 import { useArchiveCircuit, useCircuit, useDuplicateCircuit } from "@/components/data/circuits";
 import { useCurrentLab } from "@/components/data/current-lab";
 import { useTheme } from "@/components/theme/use-theme";
@@ -66,6 +67,7 @@ export default function CircuitDetail() {
           <CircuitView body={body} />
         </View>
       </View>
+      <SbmlExportCard circuitId={circuit.id} body={body} />
       <Card>
         <Text variant="heading">Version history</Text>
         <Text variant="caption" tone="muted">
