@@ -8,14 +8,26 @@
  *   or K^n/(K^n + x^n) (repressor), dh/dx = +-n x^(n-1) K^n / (K^n + x^n)^2;
  * - constant production: no dependence on the state.
  * Counts are clamped at 0 as in the rate equations (the derivative is taken
- * from the positive side). A rate law this file does not know is
- * differentiated numerically (central differences of reactionRate), so a new
- * law (an expression rate) is never silently wrong. With accumulateTotal the extra last row holds
+ * from the positive side). An expression rate is differentiated
+ * symbolically (sim/circuit/expression-derivative.ts, one-sided at kinks) and
+ * the derivative trees are compiled like the rates (treeFn); where a derivative
+ * is not finite at the state (sqrt or ln at 0) that reaction falls back to
+ * central differences of reactionRate, as does a law this file does not know,
+ * so a new law is never silently wrong. With accumulateTotal the extra last row holds
  * the derivatives of the total rate (the cost-estimate component).
  *
  * Example: for dZ/dt = b - a Z the Jacobian is [-a].
  */
-import { clockProbeAt, reactionRate, type CompiledModel } from "@/sim/circuit/compile-model";
+import {
+  clockProbeAt,
+  reactionRate,
+  treeFn,
+  type CompiledModel,
+  type CompiledReaction,
+  type TreeFn,
+} from "@/sim/circuit/compile-model";
+import { differentiate } from "@/sim/circuit/expression-derivative";
+import type { ExprNode } from "@/sim/circuit/expression";
 import { meanFieldRhs } from "./mean-field";
 
 /** (y, J) => void: fills the row-major Jacobian at state y (length n = nSpecies, or nSpecies + 1 with the total). */
@@ -45,7 +57,7 @@ export function meanFieldJacobian(
     for (let j = 0; j < model.nReactions; j++) {
       const r = model.reactions[j];
       grad.fill(0);
-      if (!rateGradient(model, p, sig, j, x, grad)) numericGradient(model, p, sig, j, x, grad, tq);
+      if (!rateGradient(model, p, sig, j, x, grad, tq)) numericGradient(model, p, sig, j, x, grad, tq);
       for (const s of r.readsSpecies) {
         const g = grad[s];
         if (g === 0) continue;
@@ -90,6 +102,19 @@ function rulesJacobian(
   };
 }
 
+/** Compiled derivatives of an expression rate, one per species it reads (r.readsSpecies order). */
+const derivativeFns = new WeakMap<ExprNode, TreeFn[]>();
+
+/** The derivative functions of an expression reaction (built once per compiled tree). */
+export function expressionDerivativeFns(model: CompiledModel, r: CompiledReaction): TreeFn[] {
+  let fns = derivativeFns.get(r.expr!);
+  if (!fns) {
+    fns = r.readsSpecies.map((s) => treeFn(model, differentiate(r.expr!, model.speciesNames[s])));
+    derivativeFns.set(r.expr!, fns);
+  }
+  return fns;
+}
+
 /** Fills grad with d rate_j / dx; false for a rate law without an analytic form here. */
 function rateGradient(
   model: CompiledModel,
@@ -98,10 +123,20 @@ function rateGradient(
   j: number,
   x: Float64Array,
   grad: Float64Array,
+  tq?: number,
 ): boolean {
   const r = model.reactions[j];
-  if (r.expr !== null) return false;
   const scale = r.scaledBy >= 0 ? sig[r.scaledBy] : 1;
+  if (r.expr !== null) {
+    const fns = expressionDerivativeFns(model, r);
+    const probe = tq ?? clockProbeAt(model, 0);
+    for (let e = 0; e < fns.length; e++) {
+      const g = fns[e](x, sig, p, probe) * scale;
+      if (!Number.isFinite(g)) return false;
+      grad[r.readsSpecies[e]] = g;
+    }
+    return true;
+  }
   const k = p[r.rateSlot] * scale;
   if (r.kind === "constant") return true;
   if (r.kind === "massAction") {
