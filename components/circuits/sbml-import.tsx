@@ -132,15 +132,17 @@ function RefusalReport({ message, problems }: { message: string; problems: SbmlP
       <Text variant="heading">Parts Linger cannot take</Text>
       <Text tone="muted">{message}</Text>
       <View style={{ gap: t.spacing.sm }}>
-        {problems.map((p, i) => (
-          <View key={i} testID="sbml-refusal" style={{ gap: 2 }}>
-            <Text variant="bodyStrong">
-              Line {p.line}: {p.element}
-              {p.id ? ` "${p.id}"` : ""}
-            </Text>
-            <Text>{p.reason}</Text>
-          </View>
-        ))}
+        {[...problems]
+          .sort((a, b) => a.line - b.line)
+          .map((p, i) => (
+            <View key={i} testID="sbml-refusal" style={{ gap: 2 }}>
+              <Text variant="bodyStrong">
+                Line {p.line}: {p.element}
+                {p.id ? ` "${p.id}"` : ""}
+              </Text>
+              <Text>{p.reason}</Text>
+            </View>
+          ))}
       </View>
       <Text variant="caption" tone="muted">
         Change or remove these parts in the file (for example, write a rate rule as reactions) and read it again.
