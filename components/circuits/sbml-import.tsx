@@ -13,6 +13,7 @@ import { Field } from "@/components/ui/field";
 import { Button } from "@/components/ui/button";
 import { Banner, ErrorState } from "@/components/ui/states";
 import { SBML_LIMITS, megabytes } from "@/shared/limits";
+import { formatCount } from "@/shared/number-format";
 import type { SbmlPreview, SbmlProblemWire } from "@/shared/schemas/api-sbml";
 import type { SbmlFile, SbmlReading } from "@/components/data/sbml";
 
@@ -193,7 +194,7 @@ function PreviewCard({
       <Section title="Species and starting counts" count={c.species.length}>
         {c.species.map((s) => (
           <Text key={s.name} testID="sbml-species">
-            {s.name}: {s.initialCount}
+            {s.name}: {formatCount(s.initialCount)}
           </Text>
         ))}
       </Section>
