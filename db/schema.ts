@@ -208,6 +208,8 @@ export const runs = sqliteTable(
     /** The two labels alone, for maps and lists. */
     regimeDeterministic: text("regime_deterministic"),
     regimeStochastic: text("regime_stochastic"),
+    /** Compact per-replicate figures (sim/regimes/replicate-figures.ts), written at finalisation; for design targets. */
+    replicateFigures: text("replicate_figures", { mode: "json" }),
     createdBy: text("created_by"),
     createdAt: createdAt(),
     startedAt: integer("started_at", { mode: "timestamp_ms" }),
@@ -339,11 +341,32 @@ export const sweeps = sqliteTable("sweeps", {
   status: text("status", { enum: RUN_STATUSES }).notNull(),
   statusReason: text("status_reason"),
   pointCount: integer("point_count").notNull(),
+  /** Points added by boundary refinement: [{index, values}], index from the grid's point count on. */
+  refinedPoints: text("refined_points", { mode: "json" }),
   createdBy: text("created_by"),
   createdAt: createdAt(),
   finishedAt: integer("finished_at", { mode: "timestamp_ms" }),
   archivedAt: integer("archived_at", { mode: "timestamp_ms" }),
   deletedAt: integer("deleted_at", { mode: "timestamp_ms" }),
+});
+
+// ---------------------------------------------------------------- deterministic regime maps
+/** A mean-field-only behaviour map (docs/regimes.md): computed at request time, no stochastic simulation. */
+export const regimeMaps = sqliteTable("regime_maps", {
+  id: text("id").primaryKey(),
+  labId: text("lab_id")
+    .notNull()
+    .references(() => labs.id, { onDelete: "cascade" }),
+  name: text("name").notNull(),
+  /** The base RunSpec (circuit, system size, threshold); each point overrides the mapped parameters. */
+  baseSpec: text("base_spec", { mode: "json" }).notNull(),
+  /** One or two axes: {parameter, values[]}. */
+  axes: text("axes", { mode: "json" }).notNull(),
+  /** [{index, values, refined, verdict}] in index order; grid points first, then refined ones. */
+  points: text("points", { mode: "json" }).notNull(),
+  computeSeconds: real("compute_seconds").notNull().default(0),
+  createdBy: text("created_by"),
+  createdAt: createdAt(),
 });
 
 // ---------------------------------------------------------------- traces

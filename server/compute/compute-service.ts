@@ -14,12 +14,15 @@ import path from "node:path";
 import { Piscina } from "piscina";
 import type { RunSpec } from "@/shared/schemas/run-spec";
 import type { RunSummary } from "@/shared/schemas/analysis";
+import type { RegimeVerdict } from "@/sim/regimes";
 import { HttpError, tooMany } from "@/server/http-error";
 import type { ComputeAnswer, ComputeJob, ComputeTask } from "./compute-worker";
 import { createFairQueue, type FairQueue } from "./fair-queue";
 
 /** ODE steps one request may take (all of its solves together). */
 export const COMPUTE_MAX_STEPS = 2_000_000;
+/** Points of a regime map per compute task: each part is one turn of the per-lab queue, under its own budget. */
+export const REGIME_MAP_POINTS_PER_TASK = 20;
 /** Tasks one lab may have waiting for the compute thread. */
 export const COMPUTE_MAX_WAITING_PER_LAB = 8;
 
@@ -32,6 +35,8 @@ export interface ComputeService {
     labId: string,
     job: { circuitSpec: RunSpec; circuitSummary: RunSummary; controlSpec: RunSpec; controlSummary: RunSummary },
   ): Promise<unknown>;
+  /** Mean-field label of each spec, in parts of REGIME_MAP_POINTS_PER_TASK points (422 when a part runs out of budget). */
+  regimeMap(labId: string, specs: RunSpec[]): Promise<RegimeVerdict[]>;
   /** Observes task starts (tests: order of service). */
   onStart?: (labId: string, job: ComputeJob) => void;
 }
@@ -91,6 +96,14 @@ export function createComputeService(opts: { wallSeconds: number; maxSteps?: num
     },
     estimateEvents: async (labId: string, spec: RunSpec) => (await run(labId, { kind: "estimate", spec })) as number,
     matchedControl: async (labId: string, spec: RunSpec) => (await run(labId, { kind: "control", spec })) as RunSpec,
+    async regimeMap(labId: string, specs: RunSpec[]) {
+      const out: RegimeVerdict[] = [];
+      for (let i = 0; i < specs.length; i += REGIME_MAP_POINTS_PER_TASK) {
+        const part = specs.slice(i, i + REGIME_MAP_POINTS_PER_TASK);
+        out.push(...((await run(labId, { kind: "regimeMap", specs: part })) as RegimeVerdict[]));
+      }
+      return out;
+    },
     acceleration: (labId: string, job: Omit<Extract<ComputeJob, { kind: "acceleration" }>, "kind">) =>
       run(labId, { kind: "acceleration", ...job }),
   });

@@ -11,6 +11,9 @@ import type { RunSpec } from "@/shared/schemas/run-spec";
 import type { RunSummary } from "@/shared/schemas/analysis";
 import { OdeBudget, OdeBudgetError, estimateEvents, resolveThreshold, withOdeBudget } from "@/sim";
 import { accelerationFigures, makeMatchedControl } from "@/sim/analysis";
+import { runSetup } from "@/sim/engine/run-setup";
+import { odeBudget } from "@/sim/ode/ode-budget";
+import { classifyDeterministic, type RegimeVerdict } from "@/sim/regimes";
 
 export type ComputeJob =
   /** Resolve each spec's threshold (launch checks; a sweep sends all its points). */
@@ -19,6 +22,8 @@ export type ComputeJob =
   | { kind: "estimate"; spec: RunSpec }
   /** The matched simple-regulation control of a run, threshold-checked. */
   | { kind: "control"; spec: RunSpec }
+  /** Mean-field behaviour label of each spec (a part of a deterministic regime map). */
+  | { kind: "regimeMap"; specs: RunSpec[] }
   | {
       kind: "acceleration";
       circuitSpec: RunSpec;
@@ -89,6 +94,31 @@ function run(job: ComputeJob): unknown {
     }
     case "acceleration":
       return accelerationFigures(job);
+    case "regimeMap":
+      return job.specs.map(mapVerdict);
+  }
+}
+
+/**
+ * One map point: its mean-field label at its threshold. Where the threshold
+ * rule cannot set one (e.g. the output does not rise under the input), the
+ * point is classified without it (no `silent` rule); a point that cannot be
+ * classified is unclear with the reason. Running out of budget is never a label.
+ */
+function mapVerdict(spec: RunSpec): RegimeVerdict {
+  const spent = (e: unknown) => e instanceof OdeBudgetError || !!odeBudget().failure;
+  let theta: number | undefined;
+  try {
+    const t = resolveThreshold(spec).theta;
+    theta = Number.isFinite(t) ? t : undefined;
+  } catch (e) {
+    if (spent(e)) throw e;
+  }
+  try {
+    return classifyDeterministic({ model: runSetup(spec).model, thresholdMolecules: theta });
+  } catch (e) {
+    if (spent(e)) throw e;
+    return { label: "unclear", evidence: {}, reason: `not classified: ${(e as Error).message}` };
   }
 }
 

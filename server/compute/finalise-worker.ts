@@ -14,6 +14,7 @@ import type { Db } from "@/db/client";
 import type { RunSpec } from "@/shared/schemas/run-spec";
 import type { RunSummary } from "@/shared/schemas/analysis";
 import { OdeBudget, reduceChunks, withOdeBudget } from "@/sim";
+import type { ReplicateFigures } from "@/sim/regimes/replicate-figures";
 import type { RunRegime } from "@/sim/regimes";
 import { finaliseRun } from "@/sim/analysis";
 import {
@@ -37,6 +38,7 @@ export interface FinaliseResult {
   capped: boolean;
   odeNote: string | null;
   regime: RunRegime;
+  replicateFigures: ReplicateFigures;
 }
 
 /** Computing time and ODE steps the ODE work of one finalisation (overlay, threshold, regime) may take. */
@@ -68,7 +70,7 @@ export default function finalise(task: FinaliseTask): FinaliseResult {
       checkpoint: () => Date.now() < deadline,
       wallSeconds: FINALISE_ODE_WALL_MS / 1000,
     });
-    const { ode, odeNote, summary, regime } = withOdeBudget(budget, () =>
+    const { ode, odeNote, summary, regime, replicateFigures } = withOdeBudget(budget, () =>
       finaliseRun({
         spec,
         pulses,
@@ -86,6 +88,7 @@ export default function finalise(task: FinaliseTask): FinaliseResult {
       series,
       summary,
       regime,
+      replicateFigures,
       statsHash: computeStatsHash(replicates, pulses, series),
       capped: replicates.some((r) => r.capped),
       odeNote,

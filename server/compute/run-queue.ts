@@ -382,6 +382,7 @@ export function createRunQueue(opts: RunQueueOptions): RunQueue {
             regime: r.regime,
             regimeDeterministic: r.regime.deterministic.label,
             regimeStochastic: r.regime.stochastic.label,
+            replicateFigures: r.replicateFigures,
             finishedAt: new Date(),
           })
           .where(eq(schema.runs.id, run.id))

@@ -10,6 +10,7 @@ import { circuitRoutes } from "./circuits.routes";
 import { sbmlRoutes } from "./sbml.routes";
 import { programRoutes } from "./programs.routes";
 import { traceRoutes } from "./traces.routes";
+import { regimeMapRoutes } from "./regime-maps.routes";
 
 export const allRoutes: RouteDef[] = [
   ...healthRoutes,
@@ -22,4 +23,5 @@ export const allRoutes: RouteDef[] = [
   ...sbmlRoutes,
   ...programRoutes,
   ...traceRoutes,
+  ...regimeMapRoutes,
 ];

@@ -4,7 +4,7 @@ import type { AppContext } from "@/server/context";
 import { schema } from "@/db/client";
 import type { LabRole } from "@/shared/schemas/api-accounts";
 
-export type ResourceKind = "run" | "circuit" | "program" | "sweep" | "traceSet" | "match" | "lab";
+export type ResourceKind = "run" | "circuit" | "program" | "sweep" | "traceSet" | "match" | "lab" | "regimeMap";
 
 export function labRoleOf(ctx: AppContext, userId: string, labId: string): LabRole | null {
   if (!labId) return null;
@@ -65,6 +65,9 @@ export function resourceLab(
       break;
     case "match":
       row = ctx.db.select({ labId: s.matches.labId }).from(s.matches).where(eq(s.matches.id, id)).get();
+      break;
+    case "regimeMap":
+      row = ctx.db.select({ labId: s.regimeMaps.labId }).from(s.regimeMaps).where(eq(s.regimeMaps.id, id)).get();
       break;
     case "lab":
       row = ctx.db.select({ labId: s.labs.id }).from(s.labs).where(eq(s.labs.id, id)).get();

@@ -15,6 +15,7 @@ import { badRequest, conflict, notFound, tooMany } from "@/server/http-error";
 import { newId } from "@/server/ids";
 import { buildSpec, checkThresholds, insertRun, resolveInputs } from "./runs.service";
 import { assertRestorable } from "./undo";
+import { refinementPoints, refinementSeed } from "@/sim/regimes/refine-map";
 import { decodeCursor, pageFromRows, pageLimit } from "./pagination";
 import type { Page, PageQuery } from "@/shared/schemas/pagination";
 
@@ -36,6 +37,59 @@ export function axisValues(axis: LaunchSweep["axes"][number]): number[] {
 /** The seed of sweep point i: the base seed with the point index appended (documented in docs/engine.md). */
 export const pointSeed = (base: string, i: number) => `${base}.p${i}`;
 
+/**
+ * The points of a one- or two-parameter grid and each point's checked spec
+ * (seed pointSeed(base, i)): shared by sweeps and deterministic regime maps.
+ */
+export function planPoints(ctx: AppContext, labId: string, body: LaunchSweep, maxPoints: number, noun: string) {
+  const inputs = resolveInputs(ctx, labId, body.base);
+  const base = buildSpec(inputs, body.base.settings);
+  const known = new Set(listParameters(base.circuit).map((p: { ref: string }) => p.ref));
+  const axes = body.axes.map((a, i) => {
+    if (!known.has(a.parameter))
+      throw badRequest(`The circuit has no parameter ${a.parameter}.`, [
+        { path: `axes.${i}.parameter`, message: "unknown parameter" },
+      ]);
+    return { parameter: a.parameter, values: axisValues(a) };
+  });
+  if (axes.length === 2 && axes[0].parameter === axes[1].parameter)
+    throw badRequest(noun === "sweep" ? "Sweep two different parameters." : "Map two different parameters.", [
+      { path: "axes.1.parameter", message: "same as the first axis" },
+    ]);
+  const points: Record<string, number>[] = [];
+  for (const v0 of axes[0].values) {
+    if (axes.length === 1) points.push({ [axes[0].parameter]: v0 });
+    else for (const v1 of axes[1].values) points.push({ [axes[0].parameter]: v0, [axes[1].parameter]: v1 });
+  }
+  if (points.length > maxPoints)
+    throw badRequest(
+      `The ${noun} has ${points.length} points; the limit is ${maxPoints}.`,
+      [{ path: "axes", message: "too many points" }],
+      "limit",
+    );
+  const specs = points.map((p, i) => pointSpec(inputs, base, p, pointSeed(base.seed, i), `Point ${i}`));
+  return { inputs, base, axes, points, specs };
+}
+
+/** The spec of one point: the base with the point's parameter values and the given seed (400 naming the point). */
+export function pointSpec(
+  inputs: ReturnType<typeof resolveInputs>,
+  base: RunSpec,
+  values: Record<string, number>,
+  seed: string,
+  where: string,
+): RunSpec {
+  let circuit = base.circuit;
+  for (const [ref, value] of Object.entries(values)) {
+    try {
+      circuit = setParameter(circuit, ref, value);
+    } catch (e) {
+      throw badRequest(`${where}: ${(e as Error).message}`, [{ path: "axes", message: (e as Error).message }]);
+    }
+  }
+  return buildSpec({ ...inputs, circuit, inputSignal: base.inputSignal }, { ...base, seed });
+}
+
 export async function launchSweep(ctx: AppContext, labId: string, userId: string, body: LaunchSweep): Promise<string> {
   const active = ctx.db
     .select({ n: count() })
@@ -52,31 +106,7 @@ export async function launchSweep(ctx: AppContext, labId: string, userId: string
     throw tooMany(
       `This lab already has ${API_LIMITS.maxActiveSweepsPerLab} sweeps running; wait for one to finish or cancel one.`,
     );
-  const inputs = resolveInputs(ctx, labId, body.base);
-  const base = buildSpec(inputs, body.base.settings);
-  const known = new Set(listParameters(base.circuit).map((p: { ref: string }) => p.ref));
-  const axes = body.axes.map((a, i) => {
-    if (!known.has(a.parameter))
-      throw badRequest(`The circuit has no parameter ${a.parameter}.`, [
-        { path: `axes.${i}.parameter`, message: "unknown parameter" },
-      ]);
-    return { parameter: a.parameter, values: axisValues(a) };
-  });
-  if (axes.length === 2 && axes[0].parameter === axes[1].parameter)
-    throw badRequest("Sweep two different parameters.", [
-      { path: "axes.1.parameter", message: "same as the first axis" },
-    ]);
-  const points: Record<string, number>[] = [];
-  for (const v0 of axes[0].values) {
-    if (axes.length === 1) points.push({ [axes[0].parameter]: v0 });
-    else for (const v1 of axes[1].values) points.push({ [axes[0].parameter]: v0, [axes[1].parameter]: v1 });
-  }
-  if (points.length > API_LIMITS.maxSweepPoints)
-    throw badRequest(
-      `The sweep has ${points.length} points; the limit is ${API_LIMITS.maxSweepPoints}.`,
-      [{ path: "axes", message: "too many points" }],
-      "limit",
-    );
+  const { inputs, base, axes, points, specs } = planPoints(ctx, labId, body, API_LIMITS.maxSweepPoints, "sweep");
   if (points.length * base.replicates > API_LIMITS.maxSweepReplicates) {
     throw badRequest(
       `${points.length} points x ${base.replicates} replicates exceeds ${API_LIMITS.maxSweepReplicates}; use fewer replicates per point.`,
@@ -84,18 +114,6 @@ export async function launchSweep(ctx: AppContext, labId: string, userId: string
       "limit",
     );
   }
-  // Build and check every point before storing anything.
-  const specs: RunSpec[] = points.map((p, i) => {
-    let circuit = base.circuit;
-    for (const [ref, value] of Object.entries(p)) {
-      try {
-        circuit = setParameter(circuit, ref, value);
-      } catch (e) {
-        throw badRequest(`Point ${i}: ${(e as Error).message}`, [{ path: "axes", message: (e as Error).message }]);
-      }
-    }
-    return buildSpec({ ...inputs, circuit, inputSignal: base.inputSignal }, { ...base, seed: pointSeed(base.seed, i) });
-  });
   // Every point's threshold in the compute thread, under one budget for the whole sweep.
   await checkThresholds(ctx, labId, specs);
   const id = newId("swp_");
@@ -226,10 +244,13 @@ export function sweepDetail(ctx: AppContext, sweepId: string): SweepDetail {
     .orderBy(asc(schema.runs.sweepPoint))
     .all();
   const axes = sweep.axes as { parameter: string; values: number[] }[];
+  const refinedAt = new Map(refinedOf(sweep).map((r) => [r.index, r.values]));
   const points = runs.map((r) => {
     const i = r.sweepPoint ?? 0;
-    const values: Record<string, number> = {};
-    if (axes.length === 1) values[axes[0].parameter] = axes[0].values[i];
+    let values: Record<string, number> = {};
+    const refinedValues = refinedAt.get(i);
+    if (refinedValues) values = refinedValues;
+    else if (axes.length === 1) values[axes[0].parameter] = axes[0].values[i];
     else {
       values[axes[0].parameter] = axes[0].values[Math.floor(i / axes[1].values.length)];
       values[axes[1].parameter] = axes[1].values[i % axes[1].values.length];
@@ -241,6 +262,7 @@ export function sweepDetail(ctx: AppContext, sweepId: string): SweepDetail {
       status: r.status,
       values,
       replicatesDone: r.replicatesDone,
+      refined: !!refinedValues,
       regime: {
         deterministic: (r.regimeDeterministic as RegimeLabelValue | null) ?? null,
         stochastic: (r.regimeStochastic as RegimeLabelValue | null) ?? null,
@@ -347,4 +369,116 @@ export function listSweeps(ctx: AppContext, labId: string, q: PageQuery = {}): P
         };
       }),
   );
+}
+
+export type RefinedPoint = { index: number; values: Record<string, number> };
+export const refinedOf = (sweep: { refinedPoints: unknown }): RefinedPoint[] =>
+  (sweep.refinedPoints as RefinedPoint[] | null) ?? [];
+
+/** Number of grid points of one or two axes. */
+export const gridCount = (axes: { values: number[] }[]) => axes.reduce((n, a) => n * a.values.length, 1);
+
+/**
+ * Boundary refinement of a sweep (docs/regimes.md): new points between grid
+ * neighbours whose stochastic labels differ (the mean-field label where a point
+ * has no stochastic one), each a child run seeded from the sweep's seed and
+ * its coordinates alone (refinementSeed), up to API_LIMITS.maxRefinementPoints
+ * in all. Resumable: points already added are not proposed again, and their
+ * runs resume like any sweep point.
+ */
+export async function refineSweep(ctx: AppContext, sweepId: string, userId: string): Promise<number> {
+  const sweep = ctx.db.select().from(schema.sweeps).where(eq(schema.sweeps.id, sweepId)).get();
+  if (!sweep || sweep.deletedAt) throw notFound("That sweep");
+  const axes = sweep.axes as { parameter: string; values: number[] }[];
+  const base = sweep.baseSpec as RunSpec;
+  const grid = gridCount(axes);
+  const runs = ctx.db
+    .select({
+      sweepPoint: schema.runs.sweepPoint,
+      det: schema.runs.regimeDeterministic,
+      sto: schema.runs.regimeStochastic,
+    })
+    .from(schema.runs)
+    .where(eq(schema.runs.sweepId, sweepId))
+    .all();
+  const labels: (string | null)[] = Array.from({ length: grid }, () => null);
+  for (const r of runs) if (r.sweepPoint !== null && r.sweepPoint < grid) labels[r.sweepPoint] = r.sto ?? r.det ?? null;
+  const already = refinedOf(sweep);
+  if (already.length >= API_LIMITS.maxRefinementPoints)
+    throw conflict(
+      `This sweep already has the most refined points allowed (${API_LIMITS.maxRefinementPoints}).`,
+      "refinement_cap",
+    );
+  let fresh = refinementPoints({ axes, labels, existing: already.map((r) => r.values) });
+  const roomForReplicates = Math.floor(API_LIMITS.maxSweepReplicates / base.replicates) - sweep.pointCount;
+  fresh = fresh.slice(0, Math.max(0, roomForReplicates));
+  if (!fresh.length)
+    throw conflict(
+      labels.every((l) => l === null)
+        ? "No point has a behaviour label yet; refine once some points are finished."
+        : roomForReplicates <= 0
+          ? `More points would exceed ${API_LIMITS.maxSweepReplicates} replicates in all.`
+          : "Nothing to refine: no two neighbouring points with labels differ, or every boundary is refined.",
+      "nothing_to_refine",
+    );
+  const wasActive = sweep.status === "queued" || sweep.status === "running";
+  if (!wasActive) {
+    const active = ctx.db
+      .select({ n: count() })
+      .from(schema.sweeps)
+      .where(
+        and(
+          eq(schema.sweeps.labId, sweep.labId),
+          inArray(schema.sweeps.status, ["queued", "running"]),
+          isNull(schema.sweeps.deletedAt),
+        ),
+      )
+      .get()!.n;
+    if (active >= API_LIMITS.maxActiveSweepsPerLab)
+      throw tooMany(
+        `This lab already has ${API_LIMITS.maxActiveSweepsPerLab} sweeps running; wait for one to finish or cancel one.`,
+      );
+  }
+  const sibling = ctx.db.select().from(schema.runs).where(eq(schema.runs.sweepId, sweepId)).limit(1).get();
+  const inputs: ReturnType<typeof resolveInputs> = {
+    circuit: base.circuit,
+    circuitId: sibling?.circuitId ?? null,
+    circuitVersion: sibling?.circuitVersion ?? null,
+    program: base.program!,
+    programId: sibling?.programId ?? null,
+    inputSignal: base.inputSignal,
+  };
+  const added: RefinedPoint[] = fresh.map((values, k) => ({ index: sweep.pointCount + k, values }));
+  const specs = added.map((p) =>
+    pointSpec(inputs, base, p.values, refinementSeed(base.seed, p.values), `Refined point ${p.index}`),
+  );
+  await checkThresholds(ctx, sweep.labId, specs);
+  inTransaction(ctx, () => {
+    ctx.db
+      .update(schema.sweeps)
+      .set({
+        refinedPoints: [...already, ...added],
+        pointCount: sweep.pointCount + added.length,
+        status: "running",
+        finishedAt: null,
+      })
+      .where(eq(schema.sweeps.id, sweepId))
+      .run();
+    specs.forEach((spec, k) => {
+      const label = Object.entries(added[k].values)
+        .map(([name, v]) => `${name}=${formatNumber(v)}`)
+        .join(", ");
+      insertRun(ctx, {
+        labId: sweep.labId,
+        name: `${sweep.name} · refined · ${label}`,
+        spec,
+        userId,
+        sweepId,
+        sweepPoint: added[k].index,
+        inputs,
+      });
+    });
+  });
+  ctx.queue.kick();
+  return added.length;
 }

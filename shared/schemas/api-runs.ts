@@ -21,6 +21,12 @@ export const API_LIMITS = {
   maxSweepPoints: 400,
   /** Replicates x points in one sweep. */
   maxSweepReplicates: 400_000,
+  /** Points boundary refinement may add to one sweep or regime map (in all, over every refine request). */
+  maxRefinementPoints: 200,
+  /** Points of a deterministic-only regime map's grid. */
+  maxRegimeMapPoints: 400,
+  /** Replicates per point whose own figures are stored for design targets (the first ones). */
+  maxReplicateFiguresPerPoint: 1000,
   /** Days a deleted run can be restored. */
   undoDays: 7,
   /** Largest JSON request body (a run bundle travels inside one). */
@@ -276,6 +282,8 @@ export const SweepPointSchema = z.object({
   /** Parameter reference -> value at this point. */
   values: z.record(z.string(), z.number()),
   replicatesDone: z.number(),
+  /** Added by boundary refinement (its values lie between grid rows or columns). */
+  refined: z.boolean().optional(),
   /** The point's behaviour labels (docs/regimes.md); null labels until it is finalised. */
   regime: RegimeLabelsSchema.optional(),
   figures: z

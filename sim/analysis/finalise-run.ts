@@ -15,6 +15,7 @@ import { resolveThreshold, type ResolvedThreshold } from "@/sim/engine/resolve-t
 import { runSetup } from "@/sim/engine/run-setup";
 import { solveOde } from "@/sim/ode/solve-ode";
 import { runRegime, type RunRegime } from "@/sim/regimes";
+import { replicateFigures, type ReplicateFigures } from "@/sim/regimes/replicate-figures";
 import { runSettingsBlock } from "./run-settings";
 import { summarizeRun, type ReplicateTotals } from "./summarize-run";
 
@@ -33,6 +34,8 @@ export interface FinalisedRun {
   odeNote: string | null;
   summary: RunSummary;
   regime: RunRegime;
+  /** Compact per-replicate figures for design targets (sim/regimes/replicate-figures.ts). */
+  replicateFigures: ReplicateFigures;
 }
 
 export function finaliseRun(input: FinaliseRunInput): FinalisedRun {
@@ -67,5 +70,6 @@ export function finaliseRun(input: FinaliseRunInput): FinalisedRun {
     const unclear = { label: "unclear" as const, evidence: {}, reason: `not classified: ${(e as Error).message}` };
     regime = { deterministic: unclear, stochastic: unclear };
   }
-  return { threshold, ode, odeNote, summary, regime };
+  const perReplicate = replicateFigures(input.pulses, { longMinutes: summary.delayCost?.minDurationMinutes ?? null });
+  return { threshold, ode, odeNote, summary, regime, replicateFigures: perReplicate };
 }

@@ -10,8 +10,10 @@
  *   // [{ K: 31.62... }]
  */
 import type { MapAxis } from "./deterministic-map";
+import { API_LIMITS } from "@/shared/schemas/api-runs";
 
-export const MAX_REFINEMENT_POINTS = 200;
+/** The documented cap (shared/limits.ts, README "Limits"). */
+export const MAX_REFINEMENT_POINTS = API_LIMITS.maxRefinementPoints;
 
 export interface RefinementInput {
   axes: MapAxis[];

@@ -31,6 +31,10 @@ test("every README limit row that names a value states the enforced one", () => 
     "runs queued or running per lab (sweep points not counted)": `${LIMITS.api.maxActiveRunsPerLab} (429)`,
     "sweeps queued or running per lab": `${LIMITS.api.maxActiveSweepsPerLab} (429)`,
     "points per sweep; replicates x points per sweep": `${n(LIMITS.api.maxSweepPoints)}; ${n(LIMITS.api.maxSweepReplicates)}`,
+    "points per deterministic regime map; points added by boundary refinement (sweep or map)": `${n(LIMITS.api.maxRegimeMapPoints)}; ${n(LIMITS.api.maxRefinementPoints)}`,
+    "replicates per sweep point whose own figures are kept for design targets": n(
+      LIMITS.api.maxReplicateFiguresPerPoint,
+    ),
     "species / reactions / signals per circuit": `${LIMITS.circuit.maxSpecies} / ${LIMITS.circuit.maxReactions} / ${LIMITS.circuit.maxSignals}`,
     "JSON request body (a run bundle travels in one)": `${megabytes(LIMITS.api.maxJsonBodyBytes)} (413)`,
     "SBML document for import (its own limit, also when the JSON around it is larger than the one above)": `${megabytes(LIMITS.sbml.maxSbmlBytes)} (413)`,

@@ -164,9 +164,30 @@ const BUILDERS: Record<string, (t: TestApp, labId: string, made: Partial<Fixture
       .run();
     return id;
   },
+  regimeMap: (t, labId, _m, who) => {
+    const id = newId("rmp_");
+    const verdict = { label: "steady", evidence: {} };
+    t.ctx.db
+      .insert(schema.regimeMaps)
+      .values({
+        id,
+        labId,
+        name: "Fixture map",
+        baseSpec: spec,
+        axes: [{ parameter: "rate(make)", values: [1, 2] }],
+        points: [
+          { index: 0, values: { "rate(make)": 1 }, refined: false, verdict },
+          { index: 1, values: { "rate(make)": 2 }, refined: false, verdict },
+        ],
+        createdBy: who,
+        createdAt: new Date(),
+      })
+      .run();
+    return id;
+  },
 };
 // Order matters: a match refers to a trace set and a run.
-const BUILD_ORDER = ["lab", "circuit", "program", "run", "sweep", "traceSet", "match"];
+const BUILD_ORDER = ["lab", "circuit", "program", "run", "sweep", "traceSet", "match", "regimeMap"];
 
 function resourceKindsUsed(): string[] {
   const kinds = new Set<string>();
