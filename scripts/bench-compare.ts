@@ -9,6 +9,7 @@ import { RunSpecSchema, type RunSpec } from "@/shared/schemas/run-spec";
 import type { CircuitInput } from "@/shared/schemas/circuit";
 import { createSimPool } from "@/server/compute/pool";
 import { runAllChunks } from "@/server/compute/run-all-chunks";
+import { simulateChunk } from "@/sim";
 import { createReference, type ReferenceResult } from "./bench/reference";
 
 export interface CompareRepetition {
@@ -17,6 +18,15 @@ export interface CompareRepetition {
   lingerEvents: number;
   /** Linger's events/s over the reference's, this repetition. */
   ratio: number;
+  /** The chunks run in this (main) thread with the fast kernel (the default) and with the reference kernel. */
+  fastKernelEventsPerSecond: number;
+  referenceKernelEventsPerSecond: number;
+  /** fast kernel / C (or JS) reference, reference kernel / C reference, fast / reference kernel, this repetition. */
+  fastKernelRatio: number;
+  referenceKernelRatio: number;
+  fastOverReferenceKernel: number;
+  /** The same on CPU seconds of this process (less sensitive to other processes on the machine). */
+  fastOverReferenceKernelCpu: number;
 }
 
 export interface ReferenceComparison {
@@ -27,6 +37,11 @@ export interface ReferenceComparison {
   ratioMin: number;
   ratioMedian: number;
   ratioMax: number;
+  /** Min / median / max over repetitions of the in-thread ratios. */
+  fastKernel: { min: number; median: number; max: number };
+  referenceKernel: { min: number; median: number; max: number };
+  fastOverReference: { min: number; median: number; max: number };
+  fastOverReferenceCpu: { min: number; median: number; max: number };
 }
 
 export interface ScalingRow {
@@ -49,6 +64,19 @@ const median = (xs: number[]) => {
   return s.length % 2 ? s[(s.length - 1) / 2] : (s[s.length / 2 - 1] + s[s.length / 2]) / 2;
 };
 
+const spread = (xs: number[]) => ({ min: Math.min(...xs), median: median(xs), max: Math.max(...xs) });
+
+/** The spec's chunks of 100 replicates run in this thread with one kernel variant: events per wall and per CPU second. */
+function inThread(spec: RunSpec, kernel: "fast" | "reference"): { wall: number; cpu: number } {
+  const c0 = process.cpuUsage();
+  const t0 = performance.now();
+  let events = 0;
+  for (let start = 0; start < spec.replicates; start += 100)
+    events += simulateChunk(spec, start, Math.min(100, spec.replicates - start), { kernel }).events;
+  const cpu = process.cpuUsage(c0);
+  return { wall: events / ((performance.now() - t0) / 1000), cpu: events / ((cpu.user + cpu.system) / 1e6) };
+}
+
 async function timed(spec: RunSpec, pool: ReturnType<typeof createSimPool>) {
   const t0 = performance.now();
   const { events } = await runAllChunks(spec, { pool });
@@ -56,7 +84,11 @@ async function timed(spec: RunSpec, pool: ReturnType<typeof createSimPool>) {
   return { events, seconds };
 }
 
-/** Alternates reference and Linger (1 thread) `repetitions` times on the benchmark spec. */
+/**
+ * Alternates the reference, Linger on a pool of 1 thread, and the same chunks
+ * in this thread with the fast and the reference kernel, `repetitions` times
+ * on the benchmark spec.
+ */
 export async function compareWithReference(
   spec: RunSpec,
   opts: { repetitions?: number; forceJs?: boolean } = {},
@@ -67,15 +99,28 @@ export async function compareWithReference(
   try {
     await pool.warmUp(spec);
     ref.run(); // warm (JS twin: tier-up; C: page cache)
+    const warm = { ...spec, replicates: 300 };
+    inThread(warm, "fast");
+    inThread(warm, "reference");
     for (let i = 0; i < (opts.repetitions ?? 3); i++) {
       const reference = ref.run();
       const l = await timed(spec, pool);
+      const fk = inThread(spec, "fast");
+      const rk = inThread(spec, "reference");
+      const fastKernelEventsPerSecond = fk.wall;
+      const referenceKernelEventsPerSecond = rk.wall;
       const lingerEventsPerSecond = l.events / l.seconds;
       repetitions.push({
         reference,
         lingerEvents: l.events,
         lingerEventsPerSecond,
         ratio: lingerEventsPerSecond / reference.eventsPerSecond,
+        fastKernelEventsPerSecond,
+        referenceKernelEventsPerSecond,
+        fastKernelRatio: fastKernelEventsPerSecond / reference.eventsPerSecond,
+        referenceKernelRatio: referenceKernelEventsPerSecond / reference.eventsPerSecond,
+        fastOverReferenceKernel: fastKernelEventsPerSecond / referenceKernelEventsPerSecond,
+        fastOverReferenceKernelCpu: fk.cpu / rk.cpu,
       });
     }
   } finally {
@@ -90,6 +135,10 @@ export async function compareWithReference(
     ratioMin: Math.min(...ratios),
     ratioMedian: median(ratios),
     ratioMax: Math.max(...ratios),
+    fastKernel: spread(repetitions.map((r) => r.fastKernelRatio)),
+    referenceKernel: spread(repetitions.map((r) => r.referenceKernelRatio)),
+    fastOverReference: spread(repetitions.map((r) => r.fastOverReferenceKernel)),
+    fastOverReferenceCpu: spread(repetitions.map((r) => r.fastOverReferenceKernelCpu)),
   };
 }
 

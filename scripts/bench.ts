@@ -13,7 +13,9 @@
  * meanwhile) unless --no-e2e.
  * Unless --no-compare (scripts/bench-compare.ts): `reference` (Linger on 1 thread
  * against the C reference kernel, or its JS twin with --js-reference or without
- * `cc`, alternated --repetitions times, default 3), `replicateScaling` (1,000
+ * `cc`, alternated --repetitions times, default 3; each repetition also runs the
+ * chunks in the main thread with the fast kernel and with the reference kernel,
+ * so both kernels' ratios to C and fast/reference come from the same run), `replicateScaling` (1,000
  * and 10,000 replicates; 100,000 with --with-100k) and `sizeScaling` (generated
  * cascades of 5, 20 and 50 species against the benchmark circuit), printed as a
  * table of ratios.
@@ -31,6 +33,7 @@
  * while one lab member sends stiff and over-budget cost estimates back to back
  * (target: under 100 ms; the estimates compute in the compute thread).
  */
+import os from "node:os";
 import { runEngineBench, type EngineBenchResult } from "./bench-engine";
 import { runEndToEndBench } from "./bench-e2e";
 import { runStallBench } from "./bench-stall";
@@ -110,14 +113,23 @@ async function main() {
       console.log(
         `\nLinger (pool of 1 thread, ${spec.replicates} replicates) against ${cmp.referenceKind}, same run, ${cmp.repetitions.length} repetitions alternated:`,
       );
-      console.log(`| repetition | reference M events/s | Linger M events/s | ratio |\n| --- | --- | --- | --- |`);
+      console.log(
+        `| repetition | reference M events/s | Linger pool M events/s | ratio | fast kernel, in thread | ratio | reference kernel, in thread | ratio | fast / reference kernel |\n| --- | --- | --- | --- | --- | --- | --- | --- | --- |`,
+      );
       cmp.repetitions.forEach((r, i) =>
         console.log(
-          `| ${i + 1} | ${f(r.reference.eventsPerSecond / 1e6)} | ${f(r.lingerEventsPerSecond / 1e6)} | ${f(r.ratio)}x |`,
+          `| ${i + 1} | ${f(r.reference.eventsPerSecond / 1e6)} | ${f(r.lingerEventsPerSecond / 1e6)} | ${f(r.ratio)}x | ` +
+            `${f(r.fastKernelEventsPerSecond / 1e6)} | ${f(r.fastKernelRatio)}x | ${f(r.referenceKernelEventsPerSecond / 1e6)} | ${f(r.referenceKernelRatio)}x | ${f(r.fastOverReferenceKernel)}x |`,
         ),
       );
+      const mmm = (m: { min: number; median: number; max: number }) => `${f(m.min)} / ${f(m.median)} / ${f(m.max)}x`;
       console.log(
-        `ratio min/median/max ${f(cmp.ratioMin)} / ${f(cmp.ratioMedian)} / ${f(cmp.ratioMax)}x; event counts ${cmp.sameEvents ? "identical" : "DIFFER"} (${cmp.repetitions[0].lingerEvents})`,
+        `ratio min/median/max: pool ${f(cmp.ratioMin)} / ${f(cmp.ratioMedian)} / ${f(cmp.ratioMax)}x; fast kernel in thread ${mmm(cmp.fastKernel)}; ` +
+          `reference kernel in thread ${mmm(cmp.referenceKernel)}; fast / reference kernel ${mmm(cmp.fastOverReference)} (on CPU seconds ${mmm(cmp.fastOverReferenceCpu)}); ` +
+          `event counts ${cmp.sameEvents ? "identical" : "DIFFER"} (${cmp.repetitions[0].lingerEvents}); load average ${os
+            .loadavg()
+            .map((l) => l.toFixed(1))
+            .join(" ")}`,
       );
       console.log(`\nCost with replicates (1 thread, benchmark circuit):`);
       console.log(
