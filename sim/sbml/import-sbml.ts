@@ -1,6 +1,11 @@
 /**
  * SBML Level 3 (Versions 1 and 2) Core import into a Linger circuit (Hucka et
- * al. 2019, J Integr Bioinform 16:20190021, for the element definitions).
+ * al. 2019, J Integr Bioinform 16:20190021, for the element definitions), and
+ * Level 2 Version 4 where it differs little: the same elements, local
+ * parameters in the kinetic law's listOfParameters, Level 2 defaults
+ * (hasOnlySubstanceUnits, boundaryCondition and constant false, stoichiometry
+ * 1), and a reaction without reversible="false" refused as reversible (the
+ * Level 2 default); compartment and species types are refused.
  *
  * Supported: compartments (sizes as constants), species (amounts; a species
  * with hasOnlySubstanceUnits="false" stands for amount / compartment size inside
@@ -22,7 +27,7 @@
  * Assignment rules on species become Linger assignment rules.
  * Everything else (rate and algebraic rules, rules on parameters or
  * compartments, function definitions, constraints, delays,
- * priorities, packages, other levels) is refused: the result lists
+ * priorities, packages, other levels and versions) is refused: the result lists
  * every refused element with its id, line and reason, and no circuit is made.
  */
 import {
@@ -84,6 +89,8 @@ const SUPPORTED_MODEL_CHILDREN = new Set([
 const REFUSED_REASONS: Record<string, string> = {
   listOfFunctionDefinitions: "function definitions are not supported",
   listOfConstraints: "constraints are not supported",
+  listOfCompartmentTypes: "compartment types (Level 2) are not supported",
+  listOfSpeciesTypes: "species types (Level 2) are not supported",
 };
 
 function idOf(el: XmlElement): string | null {
@@ -133,10 +140,11 @@ export function importSbml(source: string): SbmlImport {
   }
   const level = Number(root.attrs.level);
   const version = Number(root.attrs.version);
-  if (level !== 3 || (version !== 1 && version !== 2)) {
+  const l2 = level === 2 && version === 4;
+  if (!l2 && (level !== 3 || (version !== 1 && version !== 2))) {
     refuse(
       root,
-      `SBML Level ${root.attrs.level} Version ${root.attrs.version}: only Level 3 Versions 1 and 2 are read`,
+      `SBML Level ${root.attrs.level} Version ${root.attrs.version}: Linger reads Level 3 Versions 1 and 2, and Level 2 Version 4`,
     );
     return { ok: false, problems };
   }
@@ -158,6 +166,10 @@ export function importSbml(source: string): SbmlImport {
   const notes: string[] = [];
   if (model.attrs.timeUnits && model.attrs.timeUnits !== "minute")
     notes.push(`model time unit "${model.attrs.timeUnits}" is read as minutes; rates are per model time unit`);
+  if (l2)
+    notes.push(
+      "SBML Level 2 Version 4: the model's time unit (seconds unless redefined) is read as minutes; rates are per model time unit",
+    );
 
   // Constants: compartments and parameters (initial assignments may replace them).
   const constants = new Map<string, number>();
@@ -324,6 +336,11 @@ export function importSbml(source: string): SbmlImport {
     if (!rname.success) refuse(el, `id "${rid}" cannot be a Linger reaction name: ${rname.error.issues[0].message}`);
     if (el.attrs.reversible === "true")
       refuse(el, 'reversible="true" needs a kinetic law per direction: give two irreversible reactions');
+    else if (l2 && el.attrs.reversible === undefined)
+      refuse(
+        el,
+        'no reversible attribute: in Level 2 a reaction is reversible by default; give reversible="false" (or two irreversible reactions)',
+      );
     if (el.attrs.fast === "true") refuse(el, 'fast="true" reactions are not supported');
     const side = (list: string): StoichEntry[] => {
       const entries: StoichEntry[] = [];

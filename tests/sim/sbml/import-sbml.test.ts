@@ -144,9 +144,36 @@ test("time in a kinetic law, packages, other levels and malformed XML are refuse
   assert.match(refused(importSbml(timed))[0].reason, /time may appear only in a piecewise condition/);
   const pkg = refused(importSbml(doc(`${compartments}`, ' xmlns:comp="x" comp:required="true"')));
   assert.match(pkg[0].reason, /package "comp"/);
-  const l2 = refused(importSbml(`<sbml level="2" version="4"><model/></sbml>`));
-  assert.match(l2[0].reason, /only Level 3/);
+  const l2 = refused(importSbml(`<sbml level="2" version="3"><model/></sbml>`));
+  assert.match(l2[0].reason, /Level 2 Version 3: Linger reads Level 3 Versions 1 and 2, and Level 2 Version 4/);
   const bad = refused(importSbml(`<?xml version="1.0"?>\n<sbml level="3" version="2">\n<model>\n</sbml>`));
   assert.equal(bad[0].line, 4);
   assert.match(bad[0].reason, /not well-formed/);
+});
+
+test("Level 2 Version 4 reads like Level 3 where they agree: the same circuit as the Level 3 Version 2 file", () => {
+  const own = (name: string) => readFileSync(path.join(__dirname, "../../fixtures/sbml", name), "utf8");
+  const l2 = ok(importSbml(own("tank-sensor-l2v4.xml")));
+  const l3 = ok(importSbml(own("tank-sensor.xml")));
+  assert.deepEqual([l2.level, l2.version], [2, 4]);
+  assert.deepEqual(l2.circuit.species, l3.circuit.species);
+  assert.deepEqual(l2.circuit.reactions, l3.circuit.reactions);
+  assert.deepEqual(l2.circuit.parameters, l3.circuit.parameters);
+  assert.ok(l2.notes.some((n) => /Level 2 Version 4: the model's time unit/.test(n)));
+  // Level 2's default is reversible: a reaction that does not say reversible="false" is refused, with its line.
+  const text = own("tank-sensor-l2v4.xml").replace(
+    '<reaction id="lose_rptC" reversible="false">',
+    '<reaction id="lose_rptC">',
+  );
+  const problems = refused(importSbml(text));
+  assert.equal(problems.length, 1);
+  assert.deepEqual([problems[0].element, problems[0].id], ["reaction", "lose_rptC"]);
+  assert.equal(problems[0].line, text.split("\n").findIndex((l) => l.includes('<reaction id="lose_rptC">')) + 1);
+  assert.match(problems[0].reason, /reversible by default/);
+  // Level 2 species types are refused item by item.
+  const typed = own("tank-sensor-l2v4.xml").replace(
+    "<listOfCompartments>",
+    '<listOfSpeciesTypes><speciesType id="protein"/></listOfSpeciesTypes>\n    <listOfCompartments>',
+  );
+  assert.match(refused(importSbml(typed))[0].reason, /species types \(Level 2\) are not supported/);
 });
