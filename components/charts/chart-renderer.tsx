@@ -40,14 +40,16 @@ export default function ChartRenderer({ spec, colors }: ChartRendererProps) {
   const font = useFont(INTER, 11);
   const keys = seriesKeys(spec);
   const rows = spec.logX ? spec.rows.map((r) => ({ ...r, x: Math.log10(Math.max(r.x, 1e-9)) })) : spec.rows;
-  const xDomain =
-    spec.xDomain && spec.logX
-      ? ([Math.log10(spec.xDomain[0]), Math.log10(spec.xDomain[1])] as [number, number])
-      : spec.xDomain;
-  const domain = xDomain || spec.yDomain ? { x: xDomain, y: spec.yDomain } : undefined;
-  // The same nice ticks as the chart image (1, 2, 5, 10, ... on a log axis).
+  // The same domain and the same nice ticks as the chart image (1, 2, 5, 10, ... on a log axis), every one of
+  // them drawn: tickCount equal to the number of ticks (a smaller count makes victory-native drop some), and a
+  // little padding below the lowest tick so its label is not clipped at the bottom edge.
   const scales = chartScales(spec);
   const xTicks = scales.xTicks.map(scales.tx);
+  const yTicks = scales.yTicks;
+  const domain = {
+    x: [scales.tx(scales.x0), scales.tx(scales.x1)] as [number, number],
+    y: [scales.y0, scales.y1] as [number, number],
+  };
   // victory-native's generics want literal keys; the spec is dynamic, so the props are built loosely.
   const Chart = CartesianChart as unknown as React.ComponentType<Record<string, unknown>>;
   return (
@@ -58,12 +60,12 @@ export default function ChartRenderer({ spec, colors }: ChartRendererProps) {
         yKeys={keys}
         domain={domain}
         padding={{ left: 4, right: 12, top: 8, bottom: 4 }}
-        domainPadding={{ top: 6, left: 8, right: 8 }}
+        domainPadding={{ top: 8, bottom: 8, left: 8, right: 8 }}
         xAxis={{
           font,
           labelColor: colors.text,
           lineColor: colors.grid,
-          tickCount: 6,
+          tickCount: xTicks.length >= 2 ? xTicks.length : 6,
           tickValues: xTicks.length >= 2 ? xTicks : undefined,
           formatXLabel: (v: number) => formatNumber(spec.logX ? Math.pow(10, v) : v, 3),
         }}
@@ -72,8 +74,8 @@ export default function ChartRenderer({ spec, colors }: ChartRendererProps) {
             font,
             labelColor: colors.text,
             lineColor: colors.grid,
-            tickCount: 5,
-            tickValues: spec.yDomain && scales.yTicks.length >= 2 ? scales.yTicks : undefined,
+            tickCount: yTicks.length >= 2 ? yTicks.length : 5,
+            tickValues: yTicks.length >= 2 ? yTicks : undefined,
             formatYLabel: (v: number) => formatNumber(v, 3),
           },
         ]}
