@@ -174,6 +174,38 @@ export const TERMS: Term[] = [
     ],
     source: "Holm 1979, Scand J Stat 6:65.",
   },
+  {
+    id: "regime-map",
+    term: "Regime map",
+    body: [
+      "A grid over one or two parameters, each cell marked by what the circuit does there (silent, steady, follower, persistence filter, pulse generator, memory, damped or sustained oscillation, unclear), by fill and by symbol. Thick edges are boundaries between behaviours. The rules behind each label are in docs/regimes.md.",
+      "A mean-field map labels every point from the deterministic model alone: no stochastic simulation, so it is quick, but it cannot show what noise does (noise-driven cycles, switching between states). A sweep's map shows the mean-field and the stochastic labels side by side.",
+    ],
+  },
+  {
+    id: "boundary-refinement",
+    term: "Boundary refinement",
+    body: [
+      "After a coarse grid, one new point half-way between every two neighbouring cells whose labels differ (the geometric middle on a log-spaced axis), drawn as a small marker on the boundary between them, coloured and marked by its own label. At most 200 points are added to one map or sweep in all; asking again adds only the boundaries not yet refined. A refined sweep point's seed is fixed by the sweep's seed and its own coordinates, so the same point always gets the same seed.",
+    ],
+  },
+  {
+    id: "design-target",
+    term: "Design target",
+    body: [
+      "Limits you state for a point: a false-pass rate at most X for pulses shorter than D min (pulses of those durations that passed, out of those counted), a pass probability at least P at a tested duration, a delay cost at most M min (the Kaplan-Meier median delay of long pulses), or a sustained oscillation with its period between A and B min (the stochastic label and its autocorrelation period in a sweep, the mean-field label and period in a mean-field map).",
+      "A point meets the target when it meets every limit. The margin is how far inside a limit the point is, in the limit's own unit (negative: outside it). These are point estimates from the point's own figures, not guarantees: look at their intervals on the run page before relying on a point near a limit.",
+    ],
+  },
+  {
+    id: "fraction-of-cells",
+    term: "Fraction of cells meeting a target",
+    body: [
+      "With cell-to-cell variation set, each replicate draws its own parameters, like one cell. Each replicate is judged against the target on its own pulses (its own pass fraction per duration, the plain median delay of its own long pulses), and the fraction of replicates that meet it is given with a Wilson 95% interval.",
+      "It needs at least 20 replicates at the point; the first 1,000 replicates of a point are kept for it. The oscillation limit is a property of the ensemble, so no fraction is given for it. With few pulses per replicate the per-replicate figures are coarse: a replicate with 3 short pulses has a false-pass rate of 0, 1/3, 2/3 or 1.",
+    ],
+    source: "Wilson 1927, J Am Stat Assoc 22:209.",
+  },
 ];
 
 export const TERM_IDS = new Set(TERMS.map((t) => t.id));

@@ -6,9 +6,28 @@
  * (the neighbour there has another label).
  */
 import type { RegimeLabelValue } from "@/shared/schemas/regime";
-import type { SweepDetail } from "@/shared/schemas/api-runs";
 
 export type MapModel = "deterministic" | "stochastic";
+
+/** What a map is drawn from: a sweep's points, or a mean-field map's (runId null, no stochastic label). */
+export interface MapSource {
+  axes: { parameter: string; values: number[] }[];
+  points: {
+    index: number;
+    runId: string | null;
+    values: Record<string, number>;
+    refined?: boolean;
+    regime?: { deterministic: RegimeLabelValue | null; stochastic: RegimeLabelValue | null } | null;
+  }[];
+}
+
+/** A point added by boundary refinement, drawn as a marker on the edge it lies on. */
+export interface RefinedMarker {
+  index: number;
+  runId: string | null;
+  label: RegimeLabelValue | null;
+  values: Record<string, number>;
+}
 
 export interface MapCell {
   row: number;
@@ -18,6 +37,11 @@ export interface MapCell {
   values: Record<string, number>;
   boundaryRight: boolean;
   boundaryBelow: boolean;
+  /** Refined points half-way to the right and lower neighbours. */
+  refinedRight?: RefinedMarker;
+  refinedBelow?: RefinedMarker;
+  /** Whether the point meets the design target shown (undefined: no target). */
+  meets?: boolean | null;
 }
 
 export interface MapLayout {
@@ -28,15 +52,24 @@ export interface MapLayout {
   labels: RegimeLabelValue[];
   /** Boundary edges drawn (for the caption and tests). */
   boundaries: number;
+  /** Every refined point, in index order (also those that could not be placed on an edge). */
+  refined: RefinedMarker[];
 }
 
-export function regimeMapLayout(sweep: Pick<SweepDetail, "axes" | "points">, model: MapModel): MapLayout {
+const near = (a: number, b: number) => Math.abs(a - b) <= 1e-9 * Math.max(1, Math.abs(a), Math.abs(b));
+const between = (v: number, a: number, b: number) => v > Math.min(a, b) && v < Math.max(a, b);
+
+export function regimeMapLayout(
+  sweep: MapSource,
+  model: MapModel,
+  meets?: ReadonlyMap<number, boolean | null>,
+): MapLayout {
   const [a0, a1] = sweep.axes;
   const colAxis = a1 ?? a0;
   const rowAxis = a1 ? a0 : null;
   const nRows = rowAxis ? rowAxis.values.length : 1;
   const nCols = colAxis.values.length;
-  const byIndex = new Map(sweep.points.map((p) => [p.index, p]));
+  const byIndex = new Map(sweep.points.filter((p) => !p.refined).map((p) => [p.index, p]));
   const cells: MapCell[][] = [];
   const seen = new Set<RegimeLabelValue>();
   for (let i = 0; i < nRows; i++) {
@@ -57,6 +90,7 @@ export function regimeMapLayout(sweep: Pick<SweepDetail, "axes" | "points">, mod
         values,
         boundaryRight: false,
         boundaryBelow: false,
+        meets: meets ? (meets.get(index) ?? null) : undefined,
       });
     }
     cells.push(row);
@@ -76,5 +110,23 @@ export function regimeMapLayout(sweep: Pick<SweepDetail, "axes" | "points">, mod
         boundaries++;
       }
     }
-  return { rowAxis, colAxis, cells, labels: [...seen], boundaries };
+  const refined: RefinedMarker[] = [];
+  for (const p of sweep.points) {
+    if (!p.refined) continue;
+    const m: RefinedMarker = { index: p.index, runId: p.runId, label: p.regime?.[model] ?? null, values: p.values };
+    if (m.label) seen.add(m.label);
+    refined.push(m);
+    const cv = p.values[colAxis.parameter];
+    const rv = rowAxis ? p.values[rowAxis.parameter] : undefined;
+    const i = rowAxis ? rowAxis.values.findIndex((v) => near(v, rv!)) : 0;
+    const j = colAxis.values.findIndex((v) => near(v, cv));
+    if (i >= 0 && j < 0) {
+      const jj = colAxis.values.findIndex((v, k) => k + 1 < nCols && between(cv, v, colAxis.values[k + 1]));
+      if (jj >= 0) cells[i][jj].refinedRight = m;
+    } else if (rowAxis && j >= 0 && i < 0) {
+      const ii = rowAxis.values.findIndex((v, k) => k + 1 < nRows && between(rv!, v, rowAxis.values[k + 1]));
+      if (ii >= 0) cells[ii][j].refinedBelow = m;
+    }
+  }
+  return { rowAxis, colAxis, cells, labels: [...seen], boundaries, refined };
 }

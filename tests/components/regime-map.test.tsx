@@ -54,3 +54,55 @@ describe("regime map layout", () => {
 });
 
 // The maps themselves (links, legend, both models, phone and wide) are checked in the browser: tests/e2e/regime-map.test.ts.
+
+describe("refined points and a design target on the map", () => {
+  test("a refined point lies on the edge between the two cells it splits; the target's verdicts reach the cells", () => {
+    const src = {
+      axes: [
+        { parameter: "a", values: [1, 10] },
+        { parameter: "b", values: [0, 1, 2] },
+      ],
+      points: [
+        ...[0, 1, 2, 3, 4, 5].map((index) => ({
+          index,
+          runId: null,
+          values: { a: [1, 10][Math.floor(index / 3)], b: index % 3 },
+          regime: { deterministic: (index % 3 === 2 ? "memory" : "steady") as "memory" | "steady", stochastic: null },
+        })),
+        // between (0,1) and (0,2): b = 1.5 on row a = 1
+        {
+          index: 6,
+          runId: null,
+          refined: true,
+          values: { a: 1, b: 1.5 },
+          regime: { deterministic: "memory" as const, stochastic: null },
+        },
+        // between rows at b = 0: a = sqrt(10)
+        {
+          index: 7,
+          runId: null,
+          refined: true,
+          values: { a: Math.sqrt(10), b: 0 },
+          regime: { deterministic: "steady" as const, stochastic: null },
+        },
+      ],
+    };
+    const l = regimeMapLayout(
+      src,
+      "deterministic",
+      new Map([
+        [2, true],
+        [0, false],
+      ]),
+    );
+    expect(l.refined.map((r) => r.index)).toEqual([6, 7]);
+    expect(l.cells[0][1].refinedRight?.index).toBe(6);
+    expect(l.cells[0][0].refinedBelow?.index).toBe(7);
+    expect(l.cells[0][2].meets).toBe(true);
+    expect(l.cells[0][0].meets).toBe(false);
+    expect(l.cells[1][1].meets).toBeNull();
+    // refined points never take a grid cell's place
+    expect(l.cells.flat().length).toBe(6);
+    expect(regimeMapLayout(src, "deterministic").cells[0][2].meets).toBeUndefined();
+  });
+});

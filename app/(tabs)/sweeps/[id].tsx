@@ -10,7 +10,7 @@ import { Choice } from "@/components/ui/choice";
 import { ProgressBar } from "@/components/ui/progress-bar";
 import { StatusBadge, statusLabel } from "@/components/ui/status-badge";
 import { SafetyNote } from "@/components/ui/safety-note";
-import { ErrorState, LoadingState } from "@/components/ui/states";
+import { Banner, ErrorState, LoadingState } from "@/components/ui/states";
 import { LazyChart } from "@/components/charts/lazy-chart";
 import type { ChartSpec } from "@/components/charts/chart-spec";
 import { formatSweepFigure, sweepLineSpec } from "@/components/charts/specs";
@@ -21,6 +21,11 @@ import { DefinitionLink } from "@/components/definitions/definition-link";
 import { MIN_TOUCH } from "@/components/theme/tokens";
 import { useBreakpoints } from "@/components/theme/use-breakpoints";
 import { RegimeMaps } from "@/components/sweeps/regime-map";
+import { TargetPanel } from "@/components/regimes/target-panel";
+import { useRefineSweep } from "@/components/data/regime-maps";
+import { ApiError } from "@/components/data/api";
+import { API_LIMITS } from "@/shared/limits";
+import type { TargetAnswer } from "@/shared/schemas/api-regime-maps";
 
 type Figure = "d50" | "falsePassRate" | "medianDelay" | "peak" | "fano";
 const FIGURES: { value: Figure; label: string }[] = [
@@ -50,6 +55,8 @@ export default function SweepDetailScreen() {
   const q = useSweep(id);
   const cancel = useCancelSweep();
   const [figure, setFigure] = useState<Figure>("d50");
+  const [target, setTarget] = useState<TargetAnswer | null>(null);
+  const refine = useRefineSweep();
   const bp = useBreakpoints();
   if (q.isPending)
     return (
@@ -100,7 +107,30 @@ export default function SweepDetailScreen() {
       </Card>
       <SafetyNote />
       <Card>
-        <RegimeMaps sweep={s} wide={bp.isWide} />
+        <RegimeMaps
+          sweep={s}
+          wide={bp.isWide}
+          meets={target ? new Map(target.points.map((p) => [p.index, p.meets])) : undefined}
+        />
+        <View style={{ gap: t.spacing.xs }}>
+          <Button
+            label="Refine boundaries"
+            variant="secondary"
+            icon="grid"
+            onPress={() => refine.mutate(s.id)}
+            busy={refine.isPending}
+            testID="refine-sweep"
+          />
+          <Text variant="caption" tone="muted">
+            Adds a point half-way between neighbours whose labels differ, each seeded by its own coordinates (at most{" "}
+            {API_LIMITS.maxRefinementPoints} in all; {s.points.filter((p) => p.refined).length} so far).
+          </Text>
+          <DefinitionLink term="boundary-refinement" label="Boundary refinement" />
+          {refine.error instanceof ApiError ? <Banner tone="notice">{refine.error.message}</Banner> : null}
+        </View>
+      </Card>
+      <Card>
+        <TargetPanel kind="sweeps" id={s.id} pulses onAnswer={setTarget} />
       </Card>
       <Choice label="Figure" value={figure} options={FIGURES} onChange={setFigure} />
       <View style={{ flexDirection: "row", gap: t.spacing.sm, alignItems: "center" }}>

@@ -10,6 +10,7 @@ import { ProgressBar } from "@/components/ui/progress-bar";
 import { StatusBadge } from "@/components/ui/status-badge";
 import { EmptyState, ErrorState, LoadingState } from "@/components/ui/states";
 import { useSweeps } from "@/components/data/sweeps";
+import { useRegimeMaps } from "@/components/data/regime-maps";
 import { useCurrentLab } from "@/components/data/current-lab";
 import { useTheme } from "@/components/theme/use-theme";
 
@@ -17,6 +18,7 @@ export default function SweepsScreen() {
   const t = useTheme();
   const { canEdit } = useCurrentLab();
   const sweeps = useSweeps();
+  const maps = useRegimeMaps();
   return (
     <Screen
       title="Sweeps"
@@ -57,6 +59,20 @@ export default function SweepsScreen() {
           <LoadMore list={sweeps} noun="sweeps" testID="sweeps-load-more" />
         </View>
       )}
+      {!maps.isPending && !maps.error && maps.data.length > 0 ? (
+        <View style={{ gap: t.spacing.sm }} testID="regime-map-list">
+          <Text variant="heading">Mean-field maps</Text>
+          {maps.data.map((m) => (
+            <Card key={m.id} href={`/sweeps/maps/${m.id}`}>
+              <Text variant="bodyStrong">{m.name}</Text>
+              <Text variant="caption" tone="muted">
+                {m.axes.join(" × ")} · {m.gridPoints} points{m.refinedPoints ? ` + ${m.refinedPoints} refined` : ""}
+              </Text>
+            </Card>
+          ))}
+          <LoadMore list={maps} noun="maps" testID="maps-load-more" />
+        </View>
+      ) : null}
     </Screen>
   );
 }

@@ -12,6 +12,7 @@ import { Banner, LoadingState } from "@/components/ui/states";
 import { useCircuit, useCircuits } from "@/components/data/circuits";
 import { usePrograms, useProgram } from "@/components/data/programs";
 import { useLaunchSweep } from "@/components/data/sweeps";
+import { useLaunchRegimeMap } from "@/components/data/regime-maps";
 import { ApiError } from "@/components/data/api";
 import { randomSeed } from "@/components/forms/run-settings";
 import { parseNumber } from "@/components/forms/zod-errors";
@@ -38,7 +39,10 @@ export default function NewSweep() {
   const [thresholdValue, setThresholdValue] = useState("");
   const [windowMinutes, setWindowMinutes] = useState("");
   const [errors, setErrors] = useState<Record<string, string>>({});
-  const launch = useLaunchSweep();
+  const launchSweep = useLaunchSweep();
+  const launchMap = useLaunchRegimeMap();
+  const [kind, setKind] = useState<"sweep" | "map">("sweep");
+  const launch = kind === "map" ? launchMap : launchSweep;
   const server = launch.error instanceof ApiError ? launch.error : null;
   if (circuits.isPending || programs.isPending)
     return (
@@ -69,25 +73,24 @@ export default function NewSweep() {
     if (win !== undefined && !(win > 0)) e.windowMinutes = "Window must be positive (or empty for the default).";
     setErrors(e);
     if (Object.keys(e).length || !program.data) return;
-    launch.mutate(
-      {
-        name: name.trim(),
-        base: {
-          circuitId,
-          programId,
-          settings: {
-            endTimeMinutes: suggestedEndTime(program.data.body),
-            gridStepMinutes: 1,
-            replicates: reps,
-            seed,
-            // One threshold for every point, so their figures compare (the default would follow each point's own steady state).
-            threshold: { value: th, windowMinutes: win },
-          },
+    const req = {
+      name: name.trim(),
+      base: {
+        circuitId,
+        programId,
+        settings: {
+          endTimeMinutes: suggestedEndTime(program.data.body),
+          gridStepMinutes: 1,
+          replicates: reps,
+          seed,
+          // One threshold for every point, so their figures compare (the default would follow each point's own steady state).
+          threshold: { value: th, windowMinutes: win },
         },
-        axes: [{ parameter, grid: { from: f, to: tt, count: n, scale } }],
       },
-      { onSuccess: (d) => router.replace(`/sweeps/${d.id}`) },
-    );
+      axes: [{ parameter, grid: { from: f, to: tt, count: n, scale } }],
+    };
+    if (kind === "map") launchMap.mutate(req, { onSuccess: (d) => router.replace(`/sweeps/maps/${d.id}`) });
+    else launchSweep.mutate(req, { onSuccess: (d) => router.replace(`/sweeps/${d.id}`) });
   };
   return (
     <Screen
@@ -96,6 +99,17 @@ export default function NewSweep() {
       subtitle="One parameter over a grid of values; each value is its own run."
     >
       {server ? <Banner tone="danger">{server.message}</Banner> : null}
+      <Card>
+        <Choice
+          label="Compute"
+          value={kind}
+          options={[
+            { value: "sweep", label: "Sweep: stochastic runs and mean-field labels" },
+            { value: "map", label: "Mean-field map only: quick, no stochastic simulation" },
+          ]}
+          onChange={setKind}
+        />
+      </Card>
       <Card>
         <Field label="Sweep name" value={name} onChangeText={setName} error={errors.name} />
         <Choice
@@ -227,7 +241,12 @@ export default function NewSweep() {
           <Button label="New random seed" variant="secondary" icon="refresh-cw" onPress={() => setSeed(randomSeed())} />
         </View>
       </Card>
-      <Button label="Launch sweep" icon="play" onPress={submit} busy={launch.isPending} />
+      <Button
+        label={kind === "map" ? "Compute map" : "Launch sweep"}
+        icon="play"
+        onPress={submit}
+        busy={launch.isPending}
+      />
     </Screen>
   );
 }
