@@ -35,6 +35,7 @@ import { chiSquareUpperTail } from "@/sim/stats/chi-square";
 import { isotonicRegression } from "@/sim/stats/isotonic-regression";
 import type { PassCount } from "@/sim/stats/logistic-fit";
 import { wilson } from "@/sim/stats/wilson-interval";
+import { formatNumber, formatPValue, formatProbability } from "@/shared/number-format";
 
 /** Tried durations straddling 50% further apart than this ratio give no number (half a decade, about 3.16x). */
 export const GAP_RATIO = Math.sqrt(10);
@@ -42,10 +43,9 @@ export const GAP_RATIO = Math.sqrt(10);
 export const PASS_CURVE_D50_METHOD =
   "isotonic regression (pool-adjacent-violators) interpolated on log duration; 95% interval from the Wilson bands made monotone, ends at tried durations";
 
-function fmt(x: number): string {
-  return Number.isInteger(x) ? String(x) : String(Number(x.toPrecision(3)));
-}
-const pct = (x: number) => `${fmt(x * 100)}%`;
+// Figures in the reasons are written by the app's one number format (docs/metrics.md, "How numbers are written").
+const fmt = (x: number): string => formatNumber(x);
+const pct = (x: number): string => formatProbability(x);
 
 function xlogy(k: number, ratio: number): number {
   return k === 0 ? 0 : k * Math.log(ratio);
@@ -79,7 +79,7 @@ export function passCurveD50(counts: readonly PassCount[]): PassCurveD50 {
     if (p < 0.05) {
       return {
         kind: "plateau",
-        reason: `The pass curve falls with longer pulses beyond sampling error (likelihood-ratio test against a monotone curve, p = ${p < 0.001 ? "< 0.001" : fmt(p)}; observed ${raw.map(pct).join(", ")}): no single d50 describes it.`,
+        reason: `The pass curve falls with longer pulses beyond sampling error (likelihood-ratio test against a monotone curve, ${formatPValue(p)}; observed ${raw.map(pct).join(", ")}): no single d50 describes it.`,
       };
     }
   }

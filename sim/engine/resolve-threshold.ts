@@ -25,6 +25,7 @@ import { odeStartState, odeSteadyState } from "@/sim/ode/solve-ode";
 import { DopriIntegrator } from "@/sim/ode/dormand-prince";
 import { meanFieldRhs } from "@/sim/ode/mean-field";
 import type { CompiledModel } from "@/sim/circuit/compile-model";
+import { formatNumber } from "@/shared/number-format";
 
 export interface ResolvedThreshold {
   theta: number;
@@ -286,6 +287,7 @@ export function thresholdWarnings(theta: number, levels: OnReach | null, userSet
   return w;
 }
 
+/** Figures in the rule and warnings, in the app's one number format at 4 significant figures (docs/metrics.md). */
 function fmt(x: number): string {
-  return Number.isInteger(x) ? String(x) : String(Number(x.toPrecision(4)));
+  return formatNumber(x, 4);
 }
