@@ -259,7 +259,10 @@ export function kernelSource(model: CompiledModel, optsIn: KernelOptions): strin
   L.push(`var gt = ctx.gridTimes, gi = ctx.gridIndex, ng = gt.length, gb = ctx.gridBuf;`);
   L.push(`var tG = gi < ng ? gt[gi] : Infinity;`);
   L.push(`var trk = ctx.tracker, rec = ctx.recorder, cp = ctx.checkpoint;`);
-  if (fast) L.push(`var ob = ctx.pathBuf, on = 0, obn = ob.length - (ob.length & 1);`);
+  if (fast) {
+    L.push(`if (ctx.pathBuf.length < 2) ctx.pathBuf = new Float64Array(8192);`);
+    L.push(`var ob = ctx.pathBuf, on = 0, obn = ob.length - (ob.length & 1);`);
+  }
   L.push(`var ev = ctx.events, cap = ctx.eventCap${ext ? "" : ", status = 0"};`);
   L.push(`var atot = 0.0, tNext = 0.0, r = 0.0, cum = 0.0, j = 0;`);
   const gridWrite = (cond: string) =>

@@ -16,7 +16,10 @@ import { createHash } from "node:crypto";
 import { readFileSync } from "node:fs";
 import path from "node:path";
 import { runSetup, simulateChunk, templates, type ChunkResult } from "@/sim";
-import { kernelSource } from "@/sim/engine/generate-kernel";
+import { generateKernel, kernelSource, KernelContext } from "@/sim/engine/generate-kernel";
+import { EventRunner } from "@/sim/engine/event-runner";
+import { resolveThreshold } from "@/sim/engine/resolve-threshold";
+import { applyRules, deriveParams } from "@/sim/circuit/compile-model";
 import { PulseTracker } from "@/sim/metrics/pulse-tracker";
 import { AleaStream } from "@/sim/random/alea-stream";
 import { RunSpecSchema, type RunSpec, type RunSpecInput } from "@/shared/schemas/run-spec";
@@ -264,6 +267,70 @@ describe("fast kernel: bit-identical to the reference kernel", () => {
       whole.pulses,
     );
   });
+});
+
+describe("fast kernel with a tiny path block (a hand-over every 3 changes)", () => {
+  /** One replicate through the kernel directly: grid values, final state, generator state and pulse records. */
+  function oneReplicate(s: RunSpec, variant: "fast" | "reference", rep: number, pathBuf?: Float64Array) {
+    const setup = runSetup(s);
+    const m = setup.model;
+    const kernel = generateKernel(m, { inputSignal: setup.inputSignal, variedSlots: new Set(), variant });
+    const x = Float64Array.from(m.init);
+    const p = Float64Array.from(m.baseParams);
+    deriveParams(m, p);
+    const sig = Float64Array.from(m.signalOff);
+    if (m.rules.length > 0) applyRules(m, x, p, sig, true);
+    const rs = new Float64Array(4);
+    new AleaStream(`${s.seed}/${rep}`).saveTo(rs);
+    const ctx = new KernelContext();
+    if (pathBuf) ctx.pathBuf = pathBuf;
+    const runner = m.events.length > 0 ? new EventRunner(m, x, p, sig, true) : null;
+    if (runner) {
+      ctx.trig = runner.trig;
+      ctx.stopFire = m.stopFire;
+      ctx.onEvents = (t, stop) => runner.fire(t, stop);
+      runner.init();
+    }
+    const program = setup.sharedProgram!;
+    const tracker = new PulseTracker(program.pulses, resolveThreshold(s), "step");
+    tracker.reset(rep, 0, x[m.outputIndex]);
+    Object.assign(ctx, {
+      t: 0,
+      tEnd: s.endTimeMinutes,
+      switchTimes: program.switchTimes,
+      switchLevels: program.levels,
+      gridTimes: setup.grid,
+      gridBuf: new Float64Array(m.nSpecies * setup.grid.length),
+      tracker,
+      eventCap: s.eventCapPerReplicate,
+      stopTimes: m.clockStops,
+      stopProbe: m.clockProbe,
+    });
+    kernel(x, p, sig, rs, ctx);
+    return { x, rs, grid: ctx.gridBuf, events: ctx.events, status: ctx.status, pulses: tracker.finish(ctx.t) };
+  }
+  const tiny = [
+    ["benchmark", spec({ seed: "tiny-1" })],
+    [
+      "expressions, events, a rule",
+      spec({
+        circuit: vat,
+        program: periodic,
+        endTimeMinutes: 400,
+        seed: "tiny-2",
+        threshold: { value: 25, windowMinutes: 30 },
+      }),
+    ],
+  ] as const;
+  for (const [name, s] of tiny)
+    test(name, () => {
+      for (const rep of [0, 1, 2]) {
+        const want = oneReplicate(s, "reference", rep);
+        assert.ok(want.pulses.length > 0 && want.events > 1000);
+        assert.deepEqual(oneReplicate(s, "fast", rep, new Float64Array(7)), want);
+        assert.deepEqual(oneReplicate(s, "fast", rep, new Float64Array(0)), want);
+      }
+    });
 });
 
 describe("reference kernel source", () => {
