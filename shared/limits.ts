@@ -11,6 +11,10 @@ import { CIRCUIT_LIMITS } from "./schemas/circuit";
 import { PROGRAM_LIMITS } from "./schemas/input-program";
 import { TRACE_LIMITS } from "./schemas/api-traces";
 import { SBML_LIMITS } from "./schemas/api-sbml";
+import { PAGE_SIZE, PAGE_SIZE_MAX } from "./schemas/pagination";
+
+/** Every list route answers in pages (shared/schemas/pagination.ts): items per page by default and at most. */
+export const PAGE_LIMITS = { pageSize: PAGE_SIZE, maxPageSize: PAGE_SIZE_MAX } as const;
 
 export { RUN_LIMITS, API_LIMITS, CIRCUIT_LIMITS, PROGRAM_LIMITS, TRACE_LIMITS, SBML_LIMITS };
 
@@ -21,6 +25,7 @@ export const LIMITS = {
   program: PROGRAM_LIMITS,
   trace: TRACE_LIMITS,
   sbml: SBML_LIMITS,
+  page: PAGE_LIMITS,
 } as const;
 
 /** "2 MB" for 2 * 1024 * 1024: how byte limits are written in messages. */

@@ -20,7 +20,8 @@ import {
   formatQuantity,
   formatReached,
 } from "@/shared/number-format";
-import { useComparison, useRuns } from "@/components/data/runs";
+import { useComparison, useRuns, useRunsByIds } from "@/components/data/runs";
+import { LoadMore } from "@/components/ui/load-more";
 import { useTheme } from "@/components/theme/use-theme";
 import { DefinitionLink } from "@/components/definitions/definition-link";
 import { useBreakpoints } from "@/components/theme/use-breakpoints";
@@ -198,10 +199,16 @@ export default function Compare() {
   const params = useLocalSearchParams<{ ids?: string }>();
   const ids = (params.ids ?? "").split(",").filter(Boolean);
   const runs = useRuns();
-  // Finished runs, plus any chosen run (for example one that just finished and is not in the cached list yet).
-  const finished = (runs.data ?? []).filter(
-    (r) => r.status === "finished" || r.status === "capped" || ids.includes(r.id),
-  );
+  // The chosen runs by id (they may be on a page not loaded yet, or archived), then the finished runs loaded.
+  const chosen = useRunsByIds(ids);
+  const loaded = runs.data ?? [];
+  const finished = [
+    ...ids.flatMap((id) => {
+      const r = chosen.byId.get(id);
+      return r && !loaded.some((x) => x.id === id) ? [r] : [];
+    }),
+    ...loaded.filter((r) => r.status === "finished" || r.status === "capped" || ids.includes(r.id)),
+  ];
   const toggle = (id: string, on: boolean) => {
     const next = on ? [...ids, id].slice(0, 4) : ids.filter((x) => x !== id);
     router.setParams({ ids: next.join(",") });
@@ -231,6 +238,7 @@ export default function Compare() {
             />
           ))
         )}
+        {runs.data ? <LoadMore list={runs} noun="runs" testID="compare-load-more" /> : null}
       </Card>
       {ids.length >= 2 ? (
         <ComparisonView ids={ids} />

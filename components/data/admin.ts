@@ -4,8 +4,16 @@
  * Contracts: shared/schemas/api-accounts.ts, shared/schemas/api-health.ts.
  */
 import { useMutation, useQuery } from "@tanstack/react-query";
+import { usePagedQuery } from "./paged";
 import { api } from "./api";
-import { AdminUsersSchema, BackupResultSchema, OutboxSchema } from "@/shared/schemas/api-accounts";
+import {
+  AdminUsersSchema,
+  BackupResultSchema,
+  OutboxSchema,
+  type AdminUser,
+  type Outbox,
+  type OutboxMessage,
+} from "@/shared/schemas/api-accounts";
 import { ComputeStatusSchema } from "@/shared/schemas/api-health";
 
 export type { AdminUser, BackupResult, OutboxMessage } from "@/shared/schemas/api-accounts";
@@ -13,8 +21,9 @@ export type { ComputeStatus } from "@/shared/schemas/api-health";
 
 export const adminKeys = {
   all: ["admin"] as const,
-  outbox: (limit: number) => [...adminKeys.all, "outbox", limit] as const,
-  users: () => [...adminKeys.all, "users"] as const,
+  lists: () => [...adminKeys.all, "list"] as const,
+  outbox: (limit: number) => [...adminKeys.lists(), "outbox", limit] as const,
+  users: () => [...adminKeys.lists(), "users"] as const,
   compute: () => [...adminKeys.all, "compute"] as const,
 };
 
@@ -28,21 +37,21 @@ export function useComputeStatus(enabled = true) {
   });
 }
 
-/** Newest first (the server orders them). */
+/** The outbox, newest first, `limit` a page (`loadMore` for older); `mailer` from the first page. */
 export function useOutbox(enabled = true, limit = 50) {
-  return useQuery({
+  const q = usePagedQuery<OutboxMessage, Outbox>({
     queryKey: adminKeys.outbox(limit),
-    queryFn: ({ signal }) => api(`/api/admin/outbox?limit=${limit}`, { schema: OutboxSchema, signal }),
+    path: "/api/admin/outbox",
+    params: { limit: String(limit) },
+    schema: OutboxSchema,
     enabled,
   });
+  return { ...q, mailer: q.firstPage?.mailer };
 }
 
+/** The accounts by e-mail address, a page at a time. */
 export function useAdminUsers(enabled = true) {
-  return useQuery({
-    queryKey: adminKeys.users(),
-    queryFn: ({ signal }) => api("/api/admin/users", { schema: AdminUsersSchema, signal }).then((r) => r.users),
-    enabled,
-  });
+  return usePagedQuery<AdminUser>({ queryKey: adminKeys.users(), path: "/api/admin/users", schema: AdminUsersSchema, enabled });
 }
 
 export function useBackup() {

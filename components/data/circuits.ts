@@ -1,11 +1,13 @@
 import { keepPreviousData, useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
 import { api } from "./api";
 import { useLabId } from "./current-lab";
+import { usePagedQuery } from "./paged";
 import {
   CheckCircuitResponseSchema,
   CircuitDetailResponseSchema,
   CircuitListResponseSchema,
   CircuitSummarySchema,
+  type CircuitSummary,
   CircuitVersionResponseSchema,
   TemplatesResponseSchema,
   type CreateCircuitRequest,
@@ -22,13 +24,15 @@ export const circuitKeys = {
   check: (labId: string, body: unknown) => [...circuitKeys.all, "check", labId, body] as const,
 };
 
+/** The lab's circuits, a page at a time (`loadMore` for the next), most recently changed first. */
 export function useCircuits(opts: { archived?: boolean } = {}) {
   const labId = useLabId();
-  return useQuery({
+  return usePagedQuery<CircuitSummary>({
     queryKey: circuitKeys.list(labId, !!opts.archived),
-    queryFn: ({ signal }) => api(`/api/labs/${labId}/circuits${opts.archived ? "?archived=1" : ""}`, { schema: CircuitListResponseSchema, signal }),
+    path: `/api/labs/${labId}/circuits`,
+    params: { archived: opts.archived ? "1" : undefined },
+    schema: CircuitListResponseSchema,
     enabled: !!labId,
-    select: (r) => r.circuits,
   });
 }
 

@@ -3,9 +3,10 @@
  * and the public invitation routes of auth.routes.ts). Contract:
  * shared/schemas/api-accounts.ts.
  */
-import { useInfiniteQuery, useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
+import { useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
 import { api } from "./api";
 import { meKeys } from "./use-me";
+import { usePagedQuery } from "./paged";
 import {
   AcceptInvitationResponseSchema,
   AuditPageSchema,
@@ -18,7 +19,9 @@ import {
   type AcceptInvitationBody,
   type InviteBody,
   type LabCreateBody,
+  type AuditEvent,
   type LabRole,
+  type PendingInvitation,
 } from "@/shared/schemas/api-accounts";
 
 export { LAB_ROLES } from "@/shared/schemas/api-accounts";
@@ -52,10 +55,12 @@ export function useLab(labId: string) {
   });
 }
 
+/** Pending invitations, oldest first, a page at a time. */
 export function useInvitations(labId: string, enabled = true) {
-  return useQuery({
+  return usePagedQuery<PendingInvitation>({
     queryKey: labKeys.invitations(labId),
-    queryFn: ({ signal }) => api(`/api/labs/${labId}/invitations`, { schema: InvitationListSchema, signal }).then((r) => r.invitations),
+    path: `/api/labs/${labId}/invitations`,
+    schema: InvitationListSchema,
     enabled: !!labId && enabled,
   });
 }
@@ -117,14 +122,13 @@ export function useCreateLab() {
   });
 }
 
-/** The audit trail, newest first, paged back with ?before=<oldest id shown>. */
+/** The audit trail, newest first, `pageSize` events a page (`loadMore` for older). */
 export function useAudit(labId: string, enabled = true, pageSize = AUDIT_PAGE_SIZE) {
-  return useInfiniteQuery({
+  return usePagedQuery<AuditEvent>({
     queryKey: labKeys.audit(labId, pageSize),
-    initialPageParam: undefined as number | undefined,
-    queryFn: ({ pageParam, signal }) =>
-      api(`/api/labs/${labId}/audit?limit=${pageSize}${pageParam ? `&before=${pageParam}` : ""}`, { schema: AuditPageSchema, signal }).then((r) => r.events),
-    getNextPageParam: (last) => (last.length < pageSize ? undefined : last[last.length - 1]?.id),
+    path: `/api/labs/${labId}/audit`,
+    params: { limit: String(pageSize) },
+    schema: AuditPageSchema,
     enabled: !!labId && enabled,
   });
 }

@@ -1,11 +1,13 @@
 import { keepPreviousData, useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
 import { api } from "./api";
 import { useLabId } from "./current-lab";
+import { usePagedQuery } from "./paged";
 import {
   PreviewProgramResponseSchema,
   ProgramDetailResponseSchema,
   ProgramListResponseSchema,
   ProgramSummarySchema,
+  type ProgramSummary,
   type CreateProgramRequest,
   type UpdateProgramRequest,
 } from "@/shared/schemas/api-programs";
@@ -19,13 +21,15 @@ export const programKeys = {
   preview: (labId: string, program: unknown, end: number) => [...programKeys.all, "preview", labId, program, end] as const,
 };
 
+/** The lab's input programs, a page at a time (`loadMore` for the next), most recently changed first. */
 export function usePrograms(opts: { archived?: boolean } = {}) {
   const labId = useLabId();
-  return useQuery({
+  return usePagedQuery<ProgramSummary>({
     queryKey: programKeys.list(labId, !!opts.archived),
-    queryFn: ({ signal }) => api(`/api/labs/${labId}/programs${opts.archived ? "?archived=1" : ""}`, { schema: ProgramListResponseSchema, signal }),
+    path: `/api/labs/${labId}/programs`,
+    params: { archived: opts.archived ? "1" : undefined },
+    schema: ProgramListResponseSchema,
     enabled: !!labId,
-    select: (r) => r.programs,
   });
 }
 

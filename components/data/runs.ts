@@ -3,26 +3,25 @@ import {
   useInfiniteQuery,
   useMutation,
   useQuery,
+  useQueries,
   useQueryClient,
-  type InfiniteData,
-  type UseInfiniteQueryResult,
-  type UseQueryResult,
 } from "@tanstack/react-query";
 import { useEffect, useMemo } from "react";
 import { Platform } from "react-native";
 import { api, apiUrl } from "./api";
 import { useLabId } from "./current-lab";
+import { usePagedList, type PagedList } from "./paged";
 import {
   EstimateSchema,
   ReplicatePageSchema,
   RunDetailSchema,
   RunListPageSchema,
   RunSeriesSchema,
+  API_LIMITS,
   type LaunchRunInput,
   type RunDetail,
   type RunListItem,
 } from "@/shared/schemas/api-runs";
-import type { Page } from "@/shared/schemas/pagination";
 import { ComparisonSchema, RunSummarySchema, type RunSummary } from "@/shared/schemas/analysis";
 
 export type { RunDetail, RunListItem };
@@ -37,6 +36,9 @@ export const runKeys = {
   lists: () => [...runKeys.all, "list"] as const,
   list: (labId: string, archived = false) => [...runKeys.lists(), labId, archived] as const,
   detail: (id: string) => [...runKeys.all, "detail", id] as const,
+  /** Runs looked up by id (`?ids=`) and a run's matched controls: list items, refreshed with the lists. */
+  byIds: (labId: string, ids: string[]) => [...runKeys.lists(), labId, "ids", ids] as const,
+  controls: (labId: string, runId: string) => [...runKeys.lists(), labId, "controlOf", runId] as const,
   series: (id: string) => [...runKeys.all, "series", id] as const,
   replicates: (id: string, q: object) => [...runKeys.all, "replicates", id, q] as const,
   estimate: (labId: string, req: unknown) => [...runKeys.all, "estimate", labId, req] as const,
@@ -52,28 +54,7 @@ export function sortRunsForHome<T extends { status: string; createdAt?: string |
   return [...runs].sort((a, b) => rank(a) - rank(b) || time(b) - time(a));
 }
 
-/** A list hook's answer: the items of every page loaded so far, and a way to load the next page. */
-export type PagedList<T> = UseQueryResult<T[], Error> & {
-  /** Load the next page (nothing when there is none). */
-  loadMore: () => void;
-  hasMore: boolean;
-  loadingMore: boolean;
-};
-
-/** Flattens an infinite query over `{ items, nextCursor }` pages into a list hook's answer. */
-export function usePagedList<T>(q: UseInfiniteQueryResult<InfiniteData<Page<T>>, Error>): PagedList<T> {
-  const pages = q.data?.pages;
-  const data = useMemo(() => pages?.flatMap((p) => p.items), [pages]);
-  return {
-    ...q,
-    data,
-    loadMore: () => {
-      if (q.hasNextPage && !q.isFetchingNextPage) void q.fetchNextPage();
-    },
-    hasMore: !!q.hasNextPage,
-    loadingMore: q.isFetchingNextPage,
-  } as unknown as PagedList<T>;
-}
+export { usePagedList, type PagedList };
 
 /** The lab's runs, page by page (PAGE_SIZE at a time; `loadMore` for the next); polls while one is active. */
 export function useRuns(opts: { archived?: boolean } = {}): PagedList<RunListItem> {
@@ -94,6 +75,50 @@ export function useRuns(opts: { archived?: boolean } = {}): PagedList<RunListIte
       q.state.data?.pages.some((p) => p.items.some((r) => ACTIVE_STATUSES.has(r.status))) ? 3000 : false,
   });
   return usePagedList(q);
+}
+
+/**
+ * Runs of the lab by id, wherever they are in the paged list (archived too): the list items in a map.
+ * Asks in batches of API_LIMITS.maxRunIdsPerLookup; ids of no run of the lab are absent from the map.
+ */
+export function useRunsByIds(ids: readonly string[]): { byId: Map<string, RunListItem>; isPending: boolean } {
+  const labId = useLabId();
+  const wanted = useMemo(() => [...new Set(ids)].sort(), [ids]);
+  const batches = useMemo(() => {
+    const out: string[][] = [];
+    for (let i = 0; i < wanted.length; i += API_LIMITS.maxRunIdsPerLookup)
+      out.push(wanted.slice(i, i + API_LIMITS.maxRunIdsPerLookup));
+    return out;
+  }, [wanted]);
+  const results = useQueries({
+    queries: batches.map((batch) => ({
+      queryKey: runKeys.byIds(labId, batch),
+      queryFn: ({ signal }: { signal: AbortSignal }) =>
+        api(`/api/labs/${labId}/runs?ids=${batch.map(encodeURIComponent).join(",")}`, { schema: RunListPageSchema, signal }),
+      enabled: !!labId,
+      staleTime: 10_000,
+    })),
+  });
+  const pages = results.map((r) => r.data);
+  const byId = useMemo(() => new Map(pages.flatMap((p) => p?.items ?? []).map((r) => [r.id, r] as const)), [pages]);
+  return { byId, isPending: results.some((r) => r.isPending) };
+}
+
+/** The ids of the runs a page of audit events is about (to name them with useRunsByIds). */
+export function runIdsOf(events: readonly { targetType: string | null; targetId: string | null }[] | undefined): string[] {
+  return (events ?? []).flatMap((e) => (e.targetType === "run" && e.targetId ? [e.targetId] : []));
+}
+
+/** The newest matched control launched for a run (null when there is none), wherever it is in the list. */
+export function useControlRun(runId: string | undefined) {
+  const labId = useLabId();
+  return useQuery({
+    queryKey: runKeys.controls(labId, runId ?? ""),
+    queryFn: ({ signal }) =>
+      api(`/api/labs/${labId}/runs?controlOf=${encodeURIComponent(runId ?? "")}&limit=1`, { schema: RunListPageSchema, signal }),
+    enabled: !!labId && !!runId,
+    select: (p) => p.items[0] ?? null,
+  });
 }
 
 /** A run's status, progress and summary; polls while it is active and listens to server-sent progress on the web. */

@@ -9,6 +9,7 @@ import * as DocumentPicker from "expo-document-picker";
 import { z } from "zod";
 import { api, apiUrl, ApiError } from "./api";
 import { useLabId } from "./current-lab";
+import { usePagedQuery } from "./paged";
 import { ApiErrorSchema } from "@/shared/schemas/errors";
 import {
   MatchDetailSchema,
@@ -16,6 +17,7 @@ import {
   TracePreviewSchema,
   TraceSetDetailSchema,
   TraceSetListItemSchema,
+  TraceSetListPageSchema,
   type MatchDetail,
   type MatchRequest,
   type TraceParseError,
@@ -27,8 +29,6 @@ import {
 } from "@/shared/schemas/api-traces";
 
 export type { MatchDetail, TraceParseError, TracePreview, TraceSetDetail, TraceSetListItem };
-
-const TraceSetListSchema = z.object({ traceSets: z.array(TraceSetListItemSchema) }).transform((r) => r.traceSets);
 
 export const traceKeys = {
   all: ["traces"] as const,
@@ -104,11 +104,13 @@ async function postTraces<T>(path: string, file: TraceFile, options: TraceUpload
   return parsed.data;
 }
 
+/** The lab's trace sets, a page at a time (`loadMore` for the next), newest first. */
 export function useTraceSets() {
   const labId = useLabId();
-  return useQuery({
+  return usePagedQuery<TraceSetListItem>({
     queryKey: traceKeys.list(labId),
-    queryFn: ({ signal }) => api(`/api/labs/${labId}/traces`, { schema: TraceSetListSchema, signal }),
+    path: `/api/labs/${labId}/traces`,
+    schema: TraceSetListPageSchema,
     enabled: !!labId,
   });
 }

@@ -14,7 +14,8 @@ import { Button } from "@/components/ui/button";
 import { Choice } from "@/components/ui/choice";
 import { ErrorState, LoadingState } from "@/components/ui/states";
 import { parseNumber } from "@/components/forms/zod-errors";
-import { useRuns } from "@/components/data/runs";
+import { useRuns, useRunsByIds } from "@/components/data/runs";
+import { LoadMore } from "@/components/ui/load-more";
 import { useSweeps } from "@/components/data/sweeps";
 import { useMatch, useRunMatch, type TraceSetDetail } from "@/components/data/traces";
 import { MatchResultView } from "./match-result";
@@ -82,7 +83,10 @@ export function MatchPanel({ traceSet, canEdit }: { traceSet: TraceSetDetail; ca
   const finishedRuns = (runs.data ?? []).filter((r) => DONE.has(r.status) && !r.sweepId);
   const pendingRuns = (runs.data ?? []).filter((r) => (r.status === "running" || r.status === "queued") && !r.sweepId);
   const sweepList = sweeps.data ?? [];
+  // Names of the runs shown matches were against, wherever they are in the paged list.
+  const matchedRuns = useRunsByIds(traceSet.matches.flatMap((m) => (m.runId ? [m.runId] : [])));
   const names = new Map<string, string>([
+    ...[...matchedRuns.byId.values()].map((r) => [r.id, r.name] as const),
     ...(runs.data ?? []).map((r) => [r.id, r.name] as const),
     ...sweepList.map((s) => [s.id, s.name] as const),
   ]);
@@ -129,7 +133,8 @@ export function MatchPanel({ traceSet, canEdit }: { traceSet: TraceSetDetail; ca
               />
             ) : (
               <Text tone="muted">
-                No finished run in this lab yet{pendingRuns.length ? ` (${pendingRuns.length} still running)` : ""}.
+                {runs.hasMore ? "No finished run among the runs loaded so far" : "No finished run in this lab yet"}
+                {pendingRuns.length ? ` (${pendingRuns.length} still running)` : ""}.
               </Text>
             )
           ) : sweeps.isPending ? (
@@ -150,6 +155,10 @@ export function MatchPanel({ traceSet, canEdit }: { traceSet: TraceSetDetail; ca
           ) : (
             <Text tone="muted">No sweep in this lab yet.</Text>
           )}
+          {v.target === "run" && runs.data ? <LoadMore list={runs} noun="runs" testID="match-runs-more" /> : null}
+          {v.target === "sweep" && sweeps.data ? (
+            <LoadMore list={sweeps} noun="sweeps" testID="match-sweeps-more" />
+          ) : null}
           {err("runId") || err("sweepId") ? (
             <Text variant="caption" tone="danger" role="alert">
               {err("runId") ?? err("sweepId")}

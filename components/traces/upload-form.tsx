@@ -45,6 +45,8 @@ const SETTING_FIELD: Record<string, keyof SettingsValues> = {
 
 export type TraceUploadFormProps = {
   programs: { id: string; name: string }[];
+  /** Under the program choice: the control that loads more of the lab's programs (the list is paged). */
+  programsMore?: React.ReactNode;
   /** Opens the system file picker; null when cancelled. */
   pickFile: () => Promise<TraceFile | null>;
   onPreview: (req: UploadRequest) => void;
@@ -67,6 +69,7 @@ export function requestKey(file: TraceFile | null, v: UploadValues): string {
 
 export function TraceUploadForm({
   programs,
+  programsMore,
   pickFile,
   onPreview,
   onSave,
@@ -259,6 +262,7 @@ export function TraceUploadForm({
               options={programs.map((p) => ({ value: p.id, label: p.name }))}
               onChange={(x) => set("programId", x)}
             />
+            {programsMore}
             {err("programId") ? (
               <Text variant="caption" tone="danger" role="alert">
                 {err("programId")}

@@ -1,14 +1,22 @@
 /** Site-admin routes: compute status, the fake SMTP outbox, database backup, the user list. */
 import { mkdirSync, statSync } from "node:fs";
 import { dirname, join, resolve } from "node:path";
-import { count, desc, eq } from "drizzle-orm";
+import { and, count, eq } from "drizzle-orm";
 import { defineRoutes } from "./route-table";
 import { restrictFile, schema } from "@/db/client";
 import { recordAudit } from "@/server/services/audit.service";
+import { keyset, pageLimit } from "@/server/services/pagination";
+import { PAGE_SIZE, PAGE_SIZE_MAX, PageQuerySchema } from "@/shared/schemas/pagination";
 import type { AppContext } from "@/server/context";
 import { computeStatus } from "./health.routes";
 import type { ComputeStatus } from "@/shared/schemas/api-health";
 import { OutboxQuerySchema, type AdminUsers, type BackupResult, type Outbox } from "@/shared/schemas/api-accounts";
+
+const outboxOrder = keyset([{ col: schema.outbox.id, dir: "desc", type: "number" }]);
+const userOrder = keyset([
+  { col: schema.users.email, dir: "asc", type: "string" },
+  { col: schema.users.id, dir: "asc", type: "string" },
+]);
 
 /** Folder for backups: `backups/` beside the database file (data/backups by default). */
 export function backupDir(ctx: AppContext): string {
@@ -43,20 +51,23 @@ export const adminRoutes = defineRoutes([
     path: "/admin/outbox",
     access: { kind: "siteAdmin" },
     query: OutboxQuerySchema,
-    summary: "Mail kept by the local fake SMTP server, newest first (empty when a real SMTP server is configured).",
+    summary: `One page of the mail kept by the local fake SMTP server, newest first: {items, nextCursor} (?cursor=, ?limit= up to ${PAGE_SIZE_MAX}, default ${PAGE_SIZE}); ?to= one address (empty when a real SMTP server is configured).`,
     handler: ({ ctx, query }): Outbox => {
       const o = schema.outbox;
       const rows = ctx.db
         .select()
         .from(o)
-        .where(query.to ? eq(o.to, query.to.trim().toLowerCase()) : undefined)
-        .orderBy(desc(o.id))
-        .limit(query.limit)
+        .where(and(query.to ? eq(o.to, query.to.trim().toLowerCase()) : undefined, outboxOrder.after(query.cursor)))
+        .orderBy(...outboxOrder.orderBy)
+        .limit(pageLimit(query) + 1)
         .all();
-      return {
-        mailer: ctx.mailer.kind ?? "smtp",
-        messages: rows.map((r) => ({ ...r, receivedAt: r.receivedAt.toISOString() })),
-      };
+      const page = outboxOrder.page(
+        rows,
+        query,
+        (r) => [r.id],
+        (p) => p.map((r) => ({ ...r, receivedAt: r.receivedAt.toISOString() })),
+      );
+      return { mailer: ctx.mailer.kind ?? "smtp", ...page };
     },
   },
   {
@@ -82,8 +93,9 @@ export const adminRoutes = defineRoutes([
     method: "get",
     path: "/admin/users",
     access: { kind: "siteAdmin" },
-    summary: "Every account on the instance with its number of labs.",
-    handler: ({ ctx }): AdminUsers => {
+    query: PageQuerySchema,
+    summary: `One page of the accounts on the instance by e-mail address, with their number of labs: {items, nextCursor} (?cursor=, ?limit= up to ${PAGE_SIZE_MAX}, default ${PAGE_SIZE}).`,
+    handler: ({ ctx, query }): AdminUsers => {
       const u = schema.users;
       const m = schema.memberships;
       const rows = ctx.db
@@ -97,10 +109,17 @@ export const adminRoutes = defineRoutes([
         })
         .from(u)
         .leftJoin(m, eq(m.userId, u.id))
+        .where(userOrder.after(query.cursor))
         .groupBy(u.id)
-        .orderBy(u.email)
+        .orderBy(...userOrder.orderBy)
+        .limit(pageLimit(query) + 1)
         .all();
-      return { users: rows.map((r) => ({ ...r, createdAt: r.createdAt.toISOString() })) };
+      return userOrder.page(
+        rows,
+        query,
+        (r) => [r.email, r.id],
+        (p) => p.map((r) => ({ ...r, createdAt: r.createdAt.toISOString() })),
+      );
     },
   },
 ]);

@@ -21,6 +21,8 @@ import {
   updateCircuit,
 } from "@/server/services/circuits.service";
 
+import { PAGE_SIZE, PAGE_SIZE_MAX } from "@/shared/schemas/pagination";
+
 const isTrue = (s: string | undefined) => s === "1" || s === "true";
 
 export const circuitRoutes = defineRoutes([
@@ -36,8 +38,8 @@ export const circuitRoutes = defineRoutes([
     path: "/labs/:labId/circuits",
     access: { kind: "lab", role: "viewer" },
     query: CircuitListQuerySchema,
-    summary: "The lab's circuits, most recently changed first; ?archived=1 lists archived ones.",
-    handler: ({ ctx, labId, query }) => ({ circuits: listCircuits(ctx, labId, { archived: isTrue(query.archived) }) }),
+    summary: `One page of the lab's circuits, most recently changed first: {items, nextCursor} (?cursor=, ?limit= up to ${PAGE_SIZE_MAX}, default ${PAGE_SIZE}); ?archived=1 lists archived ones.`,
+    handler: ({ ctx, labId, query }) => listCircuits(ctx, labId, { ...query, archived: isTrue(query.archived) }),
   },
   {
     method: "post",

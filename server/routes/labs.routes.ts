@@ -1,13 +1,14 @@
 /** Labs, members, invitations and the audit trail. */
 import { defineRoutes } from "./route-table";
-import { listAudit } from "@/server/services/audit.service";
+import { auditPage } from "@/server/services/audit.service";
+import { PAGE_SIZE, PAGE_SIZE_MAX, PageQuerySchema } from "@/shared/schemas/pagination";
 import {
   changeRole,
   createLab,
   deleteLab,
   inviteMember,
   labDetail,
-  labsOf,
+  labsPage,
   pendingInvitations,
   removeMember,
   renameLab,
@@ -33,8 +34,9 @@ export const labsRoutes = defineRoutes([
     method: "get",
     path: "/labs",
     access: { kind: "signedIn" },
-    summary: "The caller's labs with their role.",
-    handler: ({ ctx, user }): LabList => ({ labs: labsOf(ctx, user!.id) }),
+    query: PageQuerySchema,
+    summary: `One page of the caller's labs with their role, by name: {items, nextCursor} (?cursor=, ?limit= up to ${PAGE_SIZE_MAX}, default ${PAGE_SIZE}).`,
+    handler: ({ ctx, user, query }): LabList => labsPage(ctx, user!.id, query),
   },
   {
     method: "post",
@@ -92,8 +94,9 @@ export const labsRoutes = defineRoutes([
     method: "get",
     path: "/labs/:labId/invitations",
     access: { kind: "lab", role: "owner" },
-    summary: "Pending (unused, unexpired) invitations.",
-    handler: ({ ctx, labId }): InvitationList => ({ invitations: pendingInvitations(ctx, labId) }),
+    query: PageQuerySchema,
+    summary: `One page of pending (unused, unexpired) invitations, oldest first: {items, nextCursor} (?cursor=, ?limit= up to ${PAGE_SIZE_MAX}, default ${PAGE_SIZE}).`,
+    handler: ({ ctx, labId, query }): InvitationList => pendingInvitations(ctx, labId, query),
   },
   {
     method: "delete",
@@ -131,9 +134,7 @@ export const labsRoutes = defineRoutes([
     path: "/labs/:labId/audit",
     access: { kind: "lab", role: "owner" },
     query: AuditQuerySchema,
-    summary: "The lab's audit trail, newest first (?limit, ?before=<id> to page back).",
-    handler: ({ ctx, labId, query }): AuditPage => ({
-      events: listAudit(ctx, labId, { limit: query.limit, beforeId: query.before }),
-    }),
+    summary: `One page of the lab's audit trail, newest first: {items, nextCursor} (?cursor=, ?limit= up to ${PAGE_SIZE_MAX}, default ${PAGE_SIZE}).`,
+    handler: ({ ctx, labId, query }): AuditPage => auditPage(ctx, labId, query),
   },
 ]);

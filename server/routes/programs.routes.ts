@@ -17,6 +17,8 @@ import {
   updateProgram,
 } from "@/server/services/programs.service";
 
+import { PAGE_SIZE, PAGE_SIZE_MAX } from "@/shared/schemas/pagination";
+
 const isTrue = (s: string | undefined) => s === "1" || s === "true";
 
 export const programRoutes = defineRoutes([
@@ -25,8 +27,8 @@ export const programRoutes = defineRoutes([
     path: "/labs/:labId/programs",
     access: { kind: "lab", role: "viewer" },
     query: ProgramListQuerySchema,
-    summary: "The lab's input programs, most recently changed first; ?archived=1 lists archived ones.",
-    handler: ({ ctx, labId, query }) => ({ programs: listPrograms(ctx, labId, { archived: isTrue(query.archived) }) }),
+    summary: `One page of the lab's input programs, most recently changed first: {items, nextCursor} (?cursor=, ?limit= up to ${PAGE_SIZE_MAX}, default ${PAGE_SIZE}); ?archived=1 lists archived ones.`,
+    handler: ({ ctx, labId, query }) => listPrograms(ctx, labId, { ...query, archived: isTrue(query.archived) }),
   },
   {
     method: "post",

@@ -12,6 +12,8 @@ import {
   ReplicateQuerySchema,
   RunInputsCheckedSchema,
   CompareRequestSchema,
+  RunListQuerySchema,
+  API_LIMITS,
 } from "@/shared/schemas/api-runs";
 import * as runs from "@/server/services/runs.service";
 import * as bundles from "@/server/services/bundles.service";
@@ -28,7 +30,7 @@ import {
 import { readPulseStats, readReplicateRows } from "@/server/compute/run-store";
 import { conflict } from "@/server/http-error";
 import { recordAudit } from "@/server/services/audit.service";
-import { PAGE_SIZE, PAGE_SIZE_MAX, PageQuerySchema } from "@/shared/schemas/pagination";
+import { PAGE_SIZE, PAGE_SIZE_MAX } from "@/shared/schemas/pagination";
 import type { RunListPage } from "@/shared/schemas/api-runs";
 
 const csvName = (name: string) =>
@@ -78,17 +80,15 @@ export const runRoutes = defineRoutes([
     method: "get",
     path: "/labs/:labId/runs",
     access: { kind: "lab", role: "viewer" },
-    query: PageQuerySchema.extend({
-      archived: z.enum(["0", "1"]).optional(),
-      status: z.string().optional(),
-      sweepPoints: z.enum(["0", "1"]).optional(),
-    }),
-    summary: `One page of the lab's runs, running and queued first, then newest: {items, nextCursor} (?cursor=, ?limit= up to ${PAGE_SIZE_MAX}, default ${PAGE_SIZE}).`,
+    query: RunListQuerySchema,
+    summary: `One page of the lab's runs, running and queued first, then newest: {items, nextCursor} (?cursor=, ?limit= up to ${PAGE_SIZE_MAX}, default ${PAGE_SIZE}); ?controlOf=<run id> its matched controls; ?ids=a,b (up to ${API_LIMITS.maxRunIdsPerLookup}) exactly those runs.`,
     handler: ({ ctx, labId, query }): RunListPage =>
       runs.listRuns(ctx, labId, {
         archived: query.archived === "1",
         status: query.status,
         includeSweepPoints: query.sweepPoints === "1",
+        controlOf: query.controlOf,
+        ids: query.ids,
         cursor: query.cursor,
         limit: query.limit,
       }),

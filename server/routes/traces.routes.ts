@@ -3,7 +3,13 @@ import { defineRoutes, type RouteDef } from "./route-table";
 import { inTransaction } from "@/db/client";
 import { traceDataPackage, traceOutputPulsesCsv } from "@/sim/analysis/trace-export";
 import { deleteRestoreRoutes } from "./lifecycle-routes";
-import { MatchRequestSchema, TraceSetPatchSchema, type TraceSetListItem } from "@/shared/schemas/api-traces";
+import {
+  MatchRequestSchema,
+  TraceSetPatchSchema,
+  type TraceSetListItem,
+  type TraceSetListPage,
+} from "@/shared/schemas/api-traces";
+import { PAGE_SIZE, PAGE_SIZE_MAX, PageQuerySchema } from "@/shared/schemas/pagination";
 import {
   analyseStored,
   buildTraceSet,
@@ -69,8 +75,9 @@ export const traceRoutes = defineRoutes([
     method: "get",
     path: "/labs/:labId/traces",
     access: { kind: "lab", role: "viewer" },
-    summary: "The lab's trace sets, newest first.",
-    handler: ({ ctx, labId }) => ({ traceSets: listTraceSets(ctx, labId) }),
+    query: PageQuerySchema,
+    summary: `One page of the lab's trace sets, newest first: {items, nextCursor} (?cursor=, ?limit= up to ${PAGE_SIZE_MAX}, default ${PAGE_SIZE}).`,
+    handler: ({ ctx, labId, query }): TraceSetListPage => listTraceSets(ctx, labId, query),
   },
   {
     method: "get",

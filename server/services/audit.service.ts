@@ -5,6 +5,8 @@
 import { and, asc, desc, eq, lt } from "drizzle-orm";
 import type { AppContext } from "@/server/context";
 import { schema } from "@/db/client";
+import { keyset, pageLimit } from "./pagination";
+import type { Page, PageQuery } from "@/shared/schemas/pagination";
 
 /** Actions in use; others may be added (the column is free text). */
 export type AuditAction =
@@ -93,6 +95,24 @@ export function objectHistory(ctx: Pick<AppContext, "db">, targetType: string, t
     .limit(200)
     .all();
   return rows.map((r) => ({ ...r, at: r.at.toISOString() }));
+}
+
+const auditOrder = keyset([{ col: schema.auditEvents.id, dir: "desc", type: "number" }]);
+
+/** One page of a lab's events, newest first; keyset on the event id. */
+export function auditPage(ctx: Pick<AppContext, "db">, labId: string, q: PageQuery = {}): Page<AuditEvent> {
+  const a = schema.auditEvents;
+  const rows = eventsWithNames(ctx)
+    .where(and(eq(a.labId, labId), auditOrder.after(q.cursor)))
+    .orderBy(...auditOrder.orderBy)
+    .limit(pageLimit(q) + 1)
+    .all();
+  return auditOrder.page(
+    rows,
+    q,
+    (r) => [r.id],
+    (page) => page.map((r) => ({ ...r, at: r.at.toISOString() })),
+  );
 }
 
 /** A lab's events, newest first; `beforeId` pages back. */

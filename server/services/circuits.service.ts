@@ -10,6 +10,8 @@ import { inTransaction, schema } from "@/db/client";
 import { newId } from "@/server/ids";
 import { badRequest, conflict, notFound } from "@/server/http-error";
 import { recordAudit } from "./audit.service";
+import { keyset, pageLimit } from "./pagination";
+import type { Page, PageQuery } from "@/shared/schemas/pagination";
 import { findFeedForwardLoops, wiringOf } from "@/sim/circuit/feed-forward";
 import { listParameters, validateCircuit } from "@/sim";
 import { allTemplates } from "@/sim/circuit/templates";
@@ -168,16 +170,38 @@ function getRow(ctx: AppContext, id: string): CircuitRow {
   return row;
 }
 
-export function listCircuits(ctx: AppContext, labId: string, opts: { archived?: boolean } = {}): CircuitSummary[] {
+const circuitOrder = keyset([
+  { col: c.updatedAt, dir: "desc", type: "number" },
+  { col: c.id, dir: "asc", type: "string" },
+]);
+
+/** One page of the lab's circuits, most recently changed first (ties by id); keyset on (updated time, id). */
+export function listCircuits(
+  ctx: AppContext,
+  labId: string,
+  opts: { archived?: boolean } & PageQuery = {},
+): Page<CircuitSummary> {
   const rows = ctx.db
     .select({ row: c, body: v.body, createdByName: schema.users.displayName })
     .from(c)
     .innerJoin(v, and(eq(v.circuitId, c.id), eq(v.version, c.currentVersion)))
     .leftJoin(schema.users, eq(schema.users.id, c.createdBy))
-    .where(and(eq(c.labId, labId), opts.archived ? isNotNull(c.archivedAt) : isNull(c.archivedAt)))
-    .orderBy(desc(c.updatedAt))
+    .where(
+      and(
+        eq(c.labId, labId),
+        opts.archived ? isNotNull(c.archivedAt) : isNull(c.archivedAt),
+        circuitOrder.after(opts.cursor),
+      ),
+    )
+    .orderBy(...circuitOrder.orderBy)
+    .limit(pageLimit(opts) + 1)
     .all();
-  return rows.map((r) => summarize(ctx, r.row, CircuitSchema.parse(r.body), r.createdByName ?? null));
+  return circuitOrder.page(
+    rows,
+    opts,
+    (r) => [r.row.updatedAt.getTime(), r.row.id],
+    (page) => page.map((r) => summarize(ctx, r.row, CircuitSchema.parse(r.body), r.createdByName ?? null)),
+  );
 }
 
 export function getCircuitDetail(ctx: AppContext, id: string): CircuitDetailResponse {

@@ -3,7 +3,7 @@
  * editor (create and run), viewer (read and export). A lab always keeps at
  * least one owner.
  */
-import { and, asc, count, eq, gt, isNull } from "drizzle-orm";
+import { and, asc, count, eq, gt, isNull, sql } from "drizzle-orm";
 import type { AppContext } from "@/server/context";
 import { inTransaction, schema } from "@/db/client";
 import { newId } from "@/server/ids";
@@ -19,6 +19,8 @@ import {
   PendingInvitation,
 } from "@/shared/schemas/api-accounts";
 import { recordAudit } from "./audit.service";
+import { keyset, pageLimit } from "./pagination";
+import type { Page, PageQuery } from "@/shared/schemas/pagination";
 import { normalizeEmail } from "./auth.service";
 import { createToken, findValidToken, markTokenUsed, type TokenRow } from "./tokens.service";
 
@@ -34,6 +36,30 @@ export function labsOf(ctx: AppContext, userId: string): LabSummary[] {
     .orderBy(asc(schema.labs.name))
     .all();
   return rows.map((r) => ({ ...r, memberCount: memberCount(ctx, r.id) }));
+}
+
+const labOrder = keyset([
+  { col: schema.labs.name, dir: "asc", type: "string" },
+  { col: schema.labs.id, dir: "asc", type: "string" },
+]);
+
+/** One page of the caller's labs by name (ties by id); keyset on (name, id). */
+export function labsPage(ctx: AppContext, userId: string, q: PageQuery = {}): Page<LabSummary> {
+  const m = schema.memberships;
+  const rows = ctx.db
+    .select({ id: schema.labs.id, name: schema.labs.name, role: m.role })
+    .from(m)
+    .innerJoin(schema.labs, eq(schema.labs.id, m.labId))
+    .where(and(eq(m.userId, userId), labOrder.after(q.cursor)))
+    .orderBy(...labOrder.orderBy)
+    .limit(pageLimit(q) + 1)
+    .all();
+  return labOrder.page(
+    rows,
+    q,
+    (r) => [r.name, r.id],
+    (page) => page.map((r) => ({ ...r, memberCount: memberCount(ctx, r.id) })),
+  );
 }
 
 function memberCount(ctx: AppContext, labId: string): number {
@@ -175,7 +201,14 @@ export async function inviteMember(
   return { email, role, expiresAt: expiresAt.toISOString() };
 }
 
-export function pendingInvitations(ctx: AppContext, labId: string): PendingInvitation[] {
+const invitationOrder = keyset([
+  { col: schema.tokens.createdAt, dir: "asc", type: "number" },
+  // the public id (a prefix of the hash) breaks ties, so a cursor never carries a whole token hash
+  { col: sql`substr(${schema.tokens.tokenHash}, 1, 20)`, dir: "asc", type: "string" },
+]);
+
+/** One page of the lab's pending invitations, oldest first (ties by id). */
+export function pendingInvitations(ctx: AppContext, labId: string, q: PageQuery = {}): Page<PendingInvitation> {
   const t = schema.tokens;
   const rows = ctx.db
     .select({
@@ -188,15 +221,30 @@ export function pendingInvitations(ctx: AppContext, labId: string): PendingInvit
     })
     .from(t)
     .leftJoin(schema.users, eq(schema.users.id, t.createdBy))
-    .where(and(eq(t.purpose, "invite"), eq(t.labId, labId), isNull(t.usedAt), gt(t.expiresAt, new Date())))
-    .orderBy(asc(t.createdAt))
+    .where(
+      and(
+        eq(t.purpose, "invite"),
+        eq(t.labId, labId),
+        isNull(t.usedAt),
+        gt(t.expiresAt, new Date()),
+        invitationOrder.after(q.cursor),
+      ),
+    )
+    .orderBy(...invitationOrder.orderBy)
+    .limit(pageLimit(q) + 1)
     .all();
-  return rows.map(({ tokenHash, ...r }) => ({
-    id: invitationId(tokenHash),
-    ...r,
-    expiresAt: r.expiresAt.toISOString(),
-    createdAt: r.createdAt.toISOString(),
-  }));
+  return invitationOrder.page(
+    rows,
+    q,
+    (r) => [r.createdAt.getTime(), invitationId(r.tokenHash)],
+    (page) =>
+      page.map(({ tokenHash, ...r }) => ({
+        id: invitationId(tokenHash),
+        ...r,
+        expiresAt: r.expiresAt.toISOString(),
+        createdAt: r.createdAt.toISOString(),
+      })),
+  );
 }
 
 /** A public id for a pending invitation: a prefix of its token's hash (reveals nothing about the token). */

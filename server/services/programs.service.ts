@@ -3,12 +3,14 @@
  * whole program it used), so a save replaces the body. Names are unique per
  * lab among non-archived programs (case-insensitive).
  */
-import { and, desc, eq, isNotNull, isNull, ne, sql } from "drizzle-orm";
+import { and, eq, isNotNull, isNull, ne, sql } from "drizzle-orm";
 import type { AppContext } from "@/server/context";
 import { inTransaction, schema } from "@/db/client";
 import { newId } from "@/server/ids";
 import { badRequest, conflict, notFound } from "@/server/http-error";
 import { recordAudit } from "./audit.service";
+import { keyset, pageLimit } from "./pagination";
+import type { Page, PageQuery } from "@/shared/schemas/pagination";
 import { compileProgram } from "@/sim";
 import { InputProgramSchema, type DurationDistribution, type InputProgram } from "@/shared/schemas/input-program";
 import type { FieldError } from "@/shared/schemas/api-circuits";
@@ -100,15 +102,37 @@ function userName(ctx: AppContext, userId: string | null): string | null {
   );
 }
 
-export function listPrograms(ctx: AppContext, labId: string, opts: { archived?: boolean } = {}): ProgramSummary[] {
+const programOrder = keyset([
+  { col: p.updatedAt, dir: "desc", type: "number" },
+  { col: p.id, dir: "asc", type: "string" },
+]);
+
+/** One page of the lab's programs, most recently changed first (ties by id); keyset on (updated time, id). */
+export function listPrograms(
+  ctx: AppContext,
+  labId: string,
+  opts: { archived?: boolean } & PageQuery = {},
+): Page<ProgramSummary> {
   const rows = ctx.db
     .select({ row: p, createdByName: schema.users.displayName })
     .from(p)
     .leftJoin(schema.users, eq(schema.users.id, p.createdBy))
-    .where(and(eq(p.labId, labId), opts.archived ? isNotNull(p.archivedAt) : isNull(p.archivedAt)))
-    .orderBy(desc(p.updatedAt))
+    .where(
+      and(
+        eq(p.labId, labId),
+        opts.archived ? isNotNull(p.archivedAt) : isNull(p.archivedAt),
+        programOrder.after(opts.cursor),
+      ),
+    )
+    .orderBy(...programOrder.orderBy)
+    .limit(pageLimit(opts) + 1)
     .all();
-  return rows.map((r) => summarize(r.row, InputProgramSchema.parse(r.row.body), r.createdByName ?? null));
+  return programOrder.page(
+    rows,
+    opts,
+    (r) => [r.row.updatedAt.getTime(), r.row.id],
+    (page) => page.map((r) => summarize(r.row, InputProgramSchema.parse(r.row.body), r.createdByName ?? null)),
+  );
 }
 
 export function getProgramDetail(ctx: AppContext, id: string): ProgramDetailResponse {

@@ -4,7 +4,7 @@
  * with undo, and cancel. The queue computes; this module stores and reads.
  */
 import { randomBytes } from "node:crypto";
-import { and, asc, count, desc, eq, inArray, isNotNull, isNull, lt, sql } from "drizzle-orm";
+import { and, asc, count, desc, eq, inArray, isNotNull, isNull, lt, sql, type SQL } from "drizzle-orm";
 import type { AppContext } from "@/server/context";
 import { schema } from "@/db/client";
 import { RunSpecSchema, RUN_LIMITS, type RunSpec } from "@/shared/schemas/run-spec";
@@ -408,8 +408,25 @@ const statusRank = sql<number>`CASE ${schema.runs.status} WHEN 'running' THEN 0 
 export function listRuns(
   ctx: AppContext,
   labId: string,
-  q: { archived?: boolean; status?: string; includeSweepPoints?: boolean } & PageQuery,
+  q: {
+    archived?: boolean;
+    status?: string;
+    includeSweepPoints?: boolean;
+    /** Only these runs (any archive state, sweep points too), in this order; one page, no cursor. */
+    ids?: string[];
+    /** Only the matched controls of this run. */
+    controlOf?: string;
+  } & PageQuery,
 ): Page<RunListItem> {
+  if (q.ids) {
+    const found = listRunRows(ctx, [
+      eq(schema.runs.labId, labId),
+      isNull(schema.runs.deletedAt),
+      inArray(schema.runs.id, q.ids),
+    ]);
+    const byId = new Map(found.map((r) => [r.id, r]));
+    return { items: q.ids.flatMap((id) => byId.get(id)?.item ?? []), nextCursor: null };
+  }
   const conds = [
     eq(schema.runs.labId, labId),
     isNull(schema.runs.deletedAt),
@@ -417,6 +434,7 @@ export function listRuns(
   ];
   if (!q.includeSweepPoints) conds.push(isNull(schema.runs.sweepId));
   if (q.status) conds.push(eq(schema.runs.status, q.status as any));
+  if (q.controlOf) conds.push(eq(schema.runs.controlOf, q.controlOf));
   if (q.cursor) {
     const [rank, negCreated, id] = decodeCursor(q.cursor, 3);
     if (typeof rank !== "number" || typeof negCreated !== "number" || typeof id !== "string")
@@ -429,6 +447,20 @@ export function listRuns(
     );
   }
   const limit = pageLimit(q);
+  const rows = listRunRows(ctx, conds, limit + 1, true);
+  return pageFromRows(
+    rows,
+    limit,
+    (x) => [x.rank, -x.createdAt.getTime(), x.id],
+    (page) => page.map((x) => x.item),
+  );
+}
+
+/**
+ * The rows matching `conds` as list items (with their sort rank and created time), at most `limit`, in
+ * list order when `ordered`. Lean: only the columns a list item shows.
+ */
+function listRunRows(ctx: AppContext, conds: SQL[], limit?: number, ordered = false) {
   const r = schema.runs;
   // Only what a list item shows: the spec and summary JSON stay in SQLite (json_extract), not parsed per row.
   const num = (path: string) => sql<number | null>`json_extract(${r.summary}, ${path})`;
@@ -463,53 +495,51 @@ export function listRuns(
     })
     .from(r)
     .where(and(...conds))
-    .orderBy(statusRank, desc(r.createdAt), asc(r.id))
-    .limit(limit + 1)
+    .orderBy(...(ordered ? [statusRank, desc(r.createdAt), asc(r.id)] : []))
+    .limit(limit ?? -1)
     .all();
-  return pageFromRows(
-    rows,
-    limit,
-    (x) => [x.rank, -x.createdAt.getTime(), x.id],
-    (page) => {
-      const names = userNames(
-        ctx,
-        page.map((x) => x.createdBy),
-      );
-      const programs = programNames(
-        ctx,
-        page.map((x) => x.programId),
-      );
-      return page.map((x): RunListItem => ({
-        id: x.id,
-        labId: x.labId,
-        name: x.name,
-        status: x.status,
-        statusReason: x.statusReason,
-        replicates: x.replicates,
-        seed: x.seed,
-        circuitName: x.circuitName,
-        programName:
-          (x.programId && programs.get(x.programId)) ||
-          (x.programKind ? `inline ${PROGRAM_KIND_LABEL[x.programKind] ?? x.programKind}` : "no input pulses"),
-        sweepId: x.sweepId,
-        controlOf: x.controlOf,
-        progress: progressView(ctx, x as unknown as RunRow),
-        createdAt: x.createdAt.toISOString(),
-        finishedAt: iso(x.finishedAt),
-        archived: !!x.archivedAt,
-        createdBy: x.createdBy ? (names.get(x.createdBy) ?? null) : null,
-        headline: x.hasSummary
-          ? {
-              d50: x.d50 ?? null,
-              falsePassRate: x.falsePassRate ?? null,
-              medianDelay: x.medianDelay ?? null,
-              longestDuration: x.longestDuration ?? null,
-              passAtLongest: x.passAtLongest ?? null,
-            }
-          : null,
-      }));
-    },
+  const names = userNames(
+    ctx,
+    rows.map((x) => x.createdBy),
   );
+  const programs = programNames(
+    ctx,
+    rows.map((x) => x.programId),
+  );
+  return rows.map((x) => ({
+    id: x.id,
+    rank: x.rank,
+    createdAt: x.createdAt,
+    item: {
+      id: x.id,
+      labId: x.labId,
+      name: x.name,
+      status: x.status,
+      statusReason: x.statusReason,
+      replicates: x.replicates,
+      seed: x.seed,
+      circuitName: x.circuitName,
+      programName:
+        (x.programId && programs.get(x.programId)) ||
+        (x.programKind ? `inline ${PROGRAM_KIND_LABEL[x.programKind] ?? x.programKind}` : "no input pulses"),
+      sweepId: x.sweepId,
+      controlOf: x.controlOf,
+      progress: progressView(ctx, x as unknown as RunRow),
+      createdAt: x.createdAt.toISOString(),
+      finishedAt: iso(x.finishedAt),
+      archived: !!x.archivedAt,
+      createdBy: x.createdBy ? (names.get(x.createdBy) ?? null) : null,
+      headline: x.hasSummary
+        ? {
+            d50: x.d50 ?? null,
+            falsePassRate: x.falsePassRate ?? null,
+            medianDelay: x.medianDelay ?? null,
+            longestDuration: x.longestDuration ?? null,
+            passAtLongest: x.passAtLongest ?? null,
+          }
+        : null,
+    } satisfies RunListItem,
+  }));
 }
 
 function historyWords(action: string, by: string | null, detail: Record<string, unknown>): string {

@@ -12,6 +12,8 @@ import { inTransaction, schema } from "@/db/client";
 import { newId } from "@/server/ids";
 import { HttpError, badRequest, conflict, notFound, parseOr400 } from "@/server/http-error";
 import { recordAudit } from "./audit.service";
+import { keyset, pageLimit } from "./pagination";
+import type { Page, PageQuery } from "@/shared/schemas/pagination";
 import { traceMetricsCsv } from "@/sim/analysis/trace-export";
 import { compileProgram } from "@/sim/inputs/compile-program";
 import { InputProgramSchema } from "@/shared/schemas/input-program";
@@ -345,18 +347,31 @@ function listItem(row: TraceSetRow, name: string | null): TraceSetListItem {
   };
 }
 
-export function listTraceSets(ctx: AppContext, labId: string): TraceSetListItem[] {
+const traceSetOrder = keyset([
+  { col: schema.traceSets.createdAt, dir: "desc", type: "number" },
+  { col: schema.traceSets.id, dir: "asc", type: "string" },
+]);
+
+/** One page of the lab's trace sets, newest first (ties by id); keyset on (created time, id). */
+export function listTraceSets(ctx: AppContext, labId: string, q: PageQuery = {}): Page<TraceSetListItem> {
   const rows = ctx.db
     .select()
     .from(schema.traceSets)
-    .where(and(eq(schema.traceSets.labId, labId), isNull(schema.traceSets.deletedAt)))
-    .orderBy(desc(schema.traceSets.createdAt))
+    .where(and(eq(schema.traceSets.labId, labId), isNull(schema.traceSets.deletedAt), traceSetOrder.after(q.cursor)))
+    .orderBy(...traceSetOrder.orderBy)
+    .limit(pageLimit(q) + 1)
     .all();
   const names = new Map<string, string | null>();
-  return rows.map((r) => {
-    if (r.uploadedBy && !names.has(r.uploadedBy)) names.set(r.uploadedBy, userName(ctx, r.uploadedBy));
-    return listItem(r, r.uploadedBy ? (names.get(r.uploadedBy) ?? null) : null);
-  });
+  return traceSetOrder.page(
+    rows,
+    q,
+    (r) => [r.createdAt.getTime(), r.id],
+    (page) =>
+      page.map((r) => {
+        if (r.uploadedBy && !names.has(r.uploadedBy)) names.set(r.uploadedBy, userName(ctx, r.uploadedBy));
+        return listItem(r, r.uploadedBy ? (names.get(r.uploadedBy) ?? null) : null);
+      }),
+  );
 }
 
 export function readCells(ctx: AppContext, id: string): RawCell[] {

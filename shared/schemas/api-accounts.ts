@@ -8,6 +8,7 @@
  */
 import { z } from "zod";
 import { PASSWORD_MAX_LENGTH, PASSWORD_MIN_LENGTH } from "./auth";
+import { PageQuerySchema, pageSchema } from "./pagination";
 
 // ---------------------------------------------------------------- shared parts
 
@@ -77,13 +78,10 @@ export type InviteBody = z.input<typeof InviteBodySchema>;
 export const RoleBodySchema = z.object({ role: LabRoleSchema });
 export type RoleBody = z.input<typeof RoleBodySchema>;
 /** `?limit` (1-500, default 100) and `?before=<event id>` to page back. */
-export const AuditQuerySchema = z.object({
-  limit: z.coerce.number().int().min(1).max(500).optional(),
-  before: z.coerce.number().int().min(1).optional(),
-});
-/** `?limit` (1-500, default 100) and `?to=<address>`. */
-export const OutboxQuerySchema = z.object({
-  limit: z.coerce.number().int().min(1).max(500).default(100),
+/** The audit trail is paged like every list: `?cursor=`, `?limit=` (shared/schemas/pagination.ts). */
+export const AuditQuerySchema = PageQuerySchema;
+/** A page of the outbox (`?cursor=`, `?limit=`) and `?to=<address>`. */
+export const OutboxQuerySchema = PageQuerySchema.extend({
   to: z.string().max(254).optional(),
 });
 
@@ -127,7 +125,8 @@ export const LabSummarySchema = z.object({
   memberCount: z.number().int(),
 });
 export type LabSummary = z.infer<typeof LabSummarySchema>;
-export const LabListSchema = z.object({ labs: z.array(LabSummarySchema) });
+/** GET /api/labs: one page of the caller's labs by name (ties by id). */
+export const LabListSchema = pageSchema(LabSummarySchema);
 export type LabList = z.infer<typeof LabListSchema>;
 export const LabCreatedSchema = z.object({ lab: LabSummarySchema });
 export type LabCreated = z.infer<typeof LabCreatedSchema>;
@@ -173,7 +172,8 @@ export const PendingInvitationSchema = z.object({
   invitedBy: z.string().nullable(),
 });
 export type PendingInvitation = z.infer<typeof PendingInvitationSchema>;
-export const InvitationListSchema = z.object({ invitations: z.array(PendingInvitationSchema) });
+/** One page of pending invitations, oldest first. */
+export const InvitationListSchema = pageSchema(PendingInvitationSchema);
 export type InvitationList = z.infer<typeof InvitationListSchema>;
 
 /** What a public invitation link offers (GET /api/invitations/:token). */
@@ -211,7 +211,8 @@ export const AuditEventSchema = z.object({
 });
 export type AuditEvent = z.infer<typeof AuditEventSchema>;
 /** GET /api/labs/:labId/audit: newest first. */
-export const AuditPageSchema = z.object({ events: z.array(AuditEventSchema) });
+/** One page of the audit trail, newest first. */
+export const AuditPageSchema = pageSchema(AuditEventSchema);
 export type AuditPage = z.infer<typeof AuditPageSchema>;
 
 // ---------------------------------------------------------------- site admin
@@ -226,7 +227,7 @@ export const OutboxMessageSchema = z.object({
 });
 export type OutboxMessage = z.infer<typeof OutboxMessageSchema>;
 /** GET /api/admin/outbox: newest first; `mailer` is "fake" for the local outbox. */
-export const OutboxSchema = z.object({ mailer: z.string(), messages: z.array(OutboxMessageSchema) });
+export const OutboxSchema = pageSchema(OutboxMessageSchema).extend({ mailer: z.string() });
 export type Outbox = z.infer<typeof OutboxSchema>;
 
 export const AdminUserSchema = z.object({
@@ -238,7 +239,8 @@ export const AdminUserSchema = z.object({
   labCount: z.number().int(),
 });
 export type AdminUser = z.infer<typeof AdminUserSchema>;
-export const AdminUsersSchema = z.object({ users: z.array(AdminUserSchema) });
+/** GET /api/admin/users: one page of accounts, oldest first (ties by id). */
+export const AdminUsersSchema = pageSchema(AdminUserSchema);
 export type AdminUsers = z.infer<typeof AdminUsersSchema>;
 
 /** POST /api/admin/backup: the file written in data/backups. */

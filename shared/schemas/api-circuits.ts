@@ -18,6 +18,7 @@
 import { z } from "zod";
 import { CircuitSchema } from "./circuit";
 import { RunRegimeSchema } from "./regime";
+import { PageQuerySchema, pageSchema } from "./pagination";
 
 /** Feed-forward templates, then the feedback ones (negative autoregulation, latch, timer ring, cross-linked ring). */
 export const TEMPLATE_KEYS = [
@@ -124,11 +125,13 @@ export const CircuitSummarySchema = z.object({
 });
 export type CircuitSummary = z.infer<typeof CircuitSummarySchema>;
 
-export const CircuitListQuerySchema = z.object({
+/** A page of the list (`?cursor=`, `?limit=`, shared/schemas/pagination.ts). */
+export const CircuitListQuerySchema = PageQuerySchema.extend({
   /** "1" or "true": list archived circuits instead of active ones. */
   archived: z.enum(["0", "1", "true", "false"]).optional(),
 });
-export const CircuitListResponseSchema = z.object({ circuits: z.array(CircuitSummarySchema) });
+/** One page of circuits, most recently changed first (ties by id). */
+export const CircuitListResponseSchema = pageSchema(CircuitSummarySchema);
 export type CircuitListResponse = z.infer<typeof CircuitListResponseSchema>;
 
 export const CircuitVersionInfoSchema = z.object({

@@ -19,6 +19,7 @@ import { z } from "zod";
 import { InputProgramSchema } from "./input-program";
 import { RUN_LIMITS } from "./run-spec";
 import { ItemNameSchema } from "./api-circuits";
+import { PageQuerySchema, pageSchema } from "./pagination";
 
 export const ProgramKindSchema = z.enum(["pulses", "periodic", "ladder", "random"]);
 export type ProgramKind = z.infer<typeof ProgramKindSchema>;
@@ -38,11 +39,13 @@ export const ProgramSummarySchema = z.object({
 });
 export type ProgramSummary = z.infer<typeof ProgramSummarySchema>;
 
-export const ProgramListQuerySchema = z.object({
+/** A page of the list (`?cursor=`, `?limit=`, shared/schemas/pagination.ts). */
+export const ProgramListQuerySchema = PageQuerySchema.extend({
   /** "1" or "true": list archived programs instead of active ones. */
   archived: z.enum(["0", "1", "true", "false"]).optional(),
 });
-export const ProgramListResponseSchema = z.object({ programs: z.array(ProgramSummarySchema) });
+/** One page of programs, most recently changed first (ties by id). */
+export const ProgramListResponseSchema = pageSchema(ProgramSummarySchema);
 export type ProgramListResponse = z.infer<typeof ProgramListResponseSchema>;
 
 export const ProgramDetailResponseSchema = z.object({

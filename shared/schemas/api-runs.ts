@@ -1,7 +1,7 @@
 /** Request and response shapes of the runs, sweeps and comparison API. */
 import { RegimeLabelsSchema, RunRegimeSchema } from "./regime";
 import { z } from "zod";
-import { pageSchema } from "./pagination";
+import { PageQuerySchema, pageSchema } from "./pagination";
 import { CircuitSchema, NameSchema, ParameterRefSchema } from "./circuit";
 import { InputProgramSchema } from "./input-program";
 import { RunSpecSchema, SeedSchema } from "./run-spec";
@@ -31,6 +31,8 @@ export const API_LIMITS = {
   undoDays: 7,
   /** Largest JSON request body (a run bundle travels inside one). */
   maxJsonBodyBytes: 2 * 1024 * 1024,
+  /** Run ids in one `GET /api/labs/:labId/runs?ids=` look-up. */
+  maxRunIdsPerLookup: 100,
 } as const;
 
 /** Settings of a run: the RunSpec without circuit, program and input signal; the seed is optional (random when absent). */
@@ -108,6 +110,35 @@ export const RunListItemSchema = z.object({
     .nullable(),
 });
 export type RunListItem = z.infer<typeof RunListItemSchema>;
+/**
+ * GET /api/labs/:labId/runs: a page (`?cursor=`, `?limit=`) of current or archived runs, optionally only one
+ * status or the matched controls of one run; or, with `?ids=a,b,c` (at most API_LIMITS.maxRunIdsPerLookup),
+ * exactly those runs of the lab in that order, archived or sweep points included (ids of no run of the
+ * lab are left out), in one page.
+ */
+export const RunListQuerySchema = PageQuerySchema.extend({
+  archived: z.enum(["0", "1"]).optional(),
+  status: z.string().optional(),
+  sweepPoints: z.enum(["0", "1"]).optional(),
+  controlOf: z.string().min(1).max(100).optional(),
+  ids: z
+    .string()
+    .max(API_LIMITS.maxRunIdsPerLookup * 101)
+    .transform((s) => [
+      ...new Set(
+        s
+          .split(",")
+          .map((x) => x.trim())
+          .filter(Boolean),
+      ),
+    ])
+    .refine((ids) => ids.length >= 1 && ids.length <= API_LIMITS.maxRunIdsPerLookup, {
+      message: `give 1 to ${API_LIMITS.maxRunIdsPerLookup} run ids, separated by commas`,
+    })
+    .optional(),
+});
+export type RunListQuery = z.infer<typeof RunListQuerySchema>;
+
 /** GET /api/labs/:labId/runs: one page (shared/schemas/pagination.ts). */
 export const RunListPageSchema = pageSchema(RunListItemSchema);
 export type RunListPage = z.infer<typeof RunListPageSchema>;

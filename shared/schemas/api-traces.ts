@@ -8,6 +8,7 @@
 import { z } from "zod";
 import { PulseStatSchema } from "./run-spec";
 import { RunSummarySchema } from "./analysis";
+import { pageSchema } from "./pagination";
 
 export const TRACE_LIMITS = {
   /** Upload size in bytes. */
@@ -212,6 +213,9 @@ export const TraceSetListItemSchema = z.object({
   createdAt: z.number(),
 });
 export type TraceSetListItem = z.infer<typeof TraceSetListItemSchema>;
+/** GET /api/labs/:labId/traces: one page of trace sets, newest first (ties by id). */
+export const TraceSetListPageSchema = pageSchema(TraceSetListItemSchema);
+export type TraceSetListPage = z.infer<typeof TraceSetListPageSchema>;
 
 export const TraceSetDetailSchema = TraceSetListItemSchema.extend({
   schedule: z.array(TracePulseSchema),

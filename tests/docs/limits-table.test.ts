@@ -38,6 +38,8 @@ test("every README limit row that names a value states the enforced one", () => 
     "species / reactions / signals per circuit": `${LIMITS.circuit.maxSpecies} / ${LIMITS.circuit.maxReactions} / ${LIMITS.circuit.maxSignals}`,
     "JSON request body (a run bundle travels in one)": `${megabytes(LIMITS.api.maxJsonBodyBytes)} (413)`,
     "SBML document for import (its own limit, also when the JSON around it is larger than the one above)": `${megabytes(LIMITS.sbml.maxSbmlBytes)} (413)`,
+    "items per list page (`?limit=`): default; most": `${LIMITS.page.pageSize}; ${LIMITS.page.maxPageSize}`,
+    "runs looked up by id in one request (`?ids=`)": n(LIMITS.api.maxRunIdsPerLookup),
   };
   for (const [what, value] of Object.entries(expected)) assert.equal(rows.get(what), value, `README row "${what}"`);
   const grid = [...rows.entries()].find(([k]) => k.startsWith("grid points per run"));

@@ -143,11 +143,11 @@ describe("accounts, labs, admin and reproduction at phone size (390x844)", { tim
 
     // ---- a site admin reads the invitation link from the outbox (API)
     const adminCookie = await createSiteAdmin();
-    const outbox = await apiGet<{ messages: { to: string; subject: string; text: string }[] }>(
+    const outbox = await apiGet<{ items: { to: string; subject: string; text: string }[] }>(
       `/api/admin/outbox?to=${encodeURIComponent(INVITED)}`,
       adminCookie,
     );
-    const mail = outbox.messages.find((m) => m.subject.includes(LAB));
+    const mail = outbox.items.find((m) => m.subject.includes(LAB));
     assert.ok(mail, "the invitation mail is in the outbox");
     const link = /https?:\/\/\S+\/invite\?token=\S+/.exec(mail.text)?.[0];
     assert.ok(link, `the mail holds an /invite?token= link:\n${mail.text}`);

@@ -206,7 +206,7 @@ describe("create", () => {
     assert.equal(d.versions[0].note, "first draft");
     assert.equal(d.feedForward, null);
     const list = CircuitListResponseSchema.parse((await viewer.get(`/api/labs/${lab}/circuits`).expect(200)).body);
-    assert.ok(list.circuits.some((x) => x.id === d.circuit.id));
+    assert.ok(list.items.some((x) => x.id === d.circuit.id));
   });
 
   test("named parameters and expression rates are accepted; a bad formula is a 400 naming the field and position", async () => {
@@ -412,9 +412,9 @@ describe("duplicate and archive", () => {
     const a = CircuitSummarySchema.parse((await editor.post(`/api/circuits/${d.circuit.id}/archive`).expect(200)).body);
     assert.ok(a.archivedAt);
     let list = CircuitListResponseSchema.parse((await viewer.get(`/api/labs/${lab}/circuits`).expect(200)).body);
-    assert.ok(!list.circuits.some((x) => x.id === d.circuit.id));
+    assert.ok(!list.items.some((x) => x.id === d.circuit.id));
     list = CircuitListResponseSchema.parse((await viewer.get(`/api/labs/${lab}/circuits?archived=1`).expect(200)).body);
-    assert.ok(list.circuits.some((x) => x.id === d.circuit.id));
+    assert.ok(list.items.some((x) => x.id === d.circuit.id));
     // archived: still readable, not editable
     await viewer.get(`/api/circuits/${d.circuit.id}`).expect(200);
     const r = await editor.put(`/api/circuits/${d.circuit.id}`).send({ body: d.body }).expect(409);
@@ -490,7 +490,7 @@ describe("demo seeding", () => {
 
       const o = await signIn(ctx.app, "owner@example.org");
       const byName = new Map(
-        CircuitListResponseSchema.parse((await o.get(`/api/labs/${labRow.id}/circuits`).expect(200)).body).circuits.map(
+        CircuitListResponseSchema.parse((await o.get(`/api/labs/${labRow.id}/circuits`).expect(200)).body).items.map(
           (c) => [c.name, c],
         ),
       );

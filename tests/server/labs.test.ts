@@ -54,7 +54,7 @@ describe("labs", () => {
     assert.equal(r.body.lab.role, "owner");
     const list = await editor.get("/api/labs").expect(200);
     assertContract(LabListSchema, list.body, "GET /api/labs");
-    assert.deepEqual(list.body.labs.map((l: any) => [l.name, l.role]).sort(), [
+    assert.deepEqual(list.body.items.map((l: any) => [l.name, l.role]).sort(), [
       ["Batch reactor", "owner"],
       ["Tank Sensor Group", "editor"],
     ]);
@@ -135,18 +135,21 @@ describe("members and roles", () => {
     const newOwner = await signIn(t.app, VIEWER);
     const r = await newOwner.get(`/api/labs/${lab}/audit`).expect(200);
     assertContract(AuditPageSchema, r.body, "GET /api/labs/:labId/audit");
-    const actions = r.body.events.map((e: any) => e.action);
+    const actions = r.body.items.map((e: any) => e.action);
     assert.deepEqual(actions, ["member.left", "member.role_changed", "member.role_changed", "member.role_changed"]);
-    const change = r.body.events.find(
+    const change = r.body.items.find(
       (e: any) => e.action === "member.role_changed" && e.detail.to === "editor" && e.targetId === userId(t, OWNER),
     );
     assert.equal(change.userName, "Demo owner");
     assert.deepEqual(change.detail, { from: "owner", to: "editor" });
     const formerOwner = await signIn(t.app, OWNER); // now an editor
     await formerOwner.get(`/api/labs/${lab}/audit`).expect(403);
-    const page = await newOwner.get(`/api/labs/${lab}/audit?limit=1&before=${r.body.events[0].id}`).expect(200);
-    assert.equal(page.body.events.length, 1);
-    assert.equal(page.body.events[0].id, r.body.events[1].id);
+    const first = await newOwner.get(`/api/labs/${lab}/audit?limit=1`).expect(200);
+    assert.equal(first.body.items[0].id, r.body.items[0].id);
+    const cursor = encodeURIComponent(first.body.nextCursor);
+    const page = await newOwner.get(`/api/labs/${lab}/audit?limit=1&cursor=${cursor}`).expect(200);
+    assert.equal(page.body.items.length, 1);
+    assert.equal(page.body.items[0].id, r.body.items[1].id);
   });
 
   test("recordAudit (used by the run queue) writes an event the lab's owners see", async () => {
@@ -191,10 +194,10 @@ describe("invitations", () => {
     const pending = await owner.get(`/api/labs/${t.demoLab!.id}/invitations`).expect(200);
     assertContract(InvitationListSchema, pending.body, "GET /api/labs/:labId/invitations");
     assert.deepEqual(
-      pending.body.invitations.map((i: any) => [i.email, i.role, i.invitedBy]),
+      pending.body.items.map((i: any) => [i.email, i.role, i.invitedBy]),
       [["newcomer@example.org", "editor", "Demo owner"]],
     );
-    assert.equal(pending.body.invitations[0].tokenHash, undefined);
+    assert.equal(pending.body.items[0].tokenHash, undefined);
 
     const info = await request(t.app).get(`/api/invitations/${token}`).expect(200);
     assertContract(InvitationOfferResponseSchema, info.body, "GET /api/invitations/:token");
@@ -233,11 +236,11 @@ describe("invitations", () => {
       .send({ token, password: "other-password", displayName: "Other" })
       .expect(404);
     const after = await owner.get(`/api/labs/${t.demoLab!.id}/invitations`).expect(200);
-    assert.equal(after.body.invitations.length, 0);
+    assert.equal(after.body.items.length, 0);
 
     const audit = await owner.get(`/api/labs/${t.demoLab!.id}/audit`).expect(200);
     assert.deepEqual(
-      audit.body.events.slice(0, 2).map((e: any) => e.action),
+      audit.body.items.slice(0, 2).map((e: any) => e.action),
       ["member.joined", "member.invited"],
     );
   });
@@ -314,7 +317,7 @@ describe("invitations", () => {
   test("the owner withdraws a pending invitation; its link stops working", async () => {
     const { owner, token } = await invite("withdrawn@example.org", "editor");
     const list = await owner.get(`/api/labs/${t.demoLab!.id}/invitations`).expect(200);
-    const inv = list.body.invitations.find((i: any) => i.email === "withdrawn@example.org");
+    const inv = list.body.items.find((i: any) => i.email === "withdrawn@example.org");
     assert.match(inv.id, /^[0-9a-f]{20}$/);
     const editor = await signIn(t.app, EDITOR);
     await editor.delete(`/api/labs/${t.demoLab!.id}/invitations/${inv.id}`).expect(403);
@@ -322,7 +325,7 @@ describe("invitations", () => {
     await owner.delete(`/api/labs/${t.demoLab!.id}/invitations/${inv.id}`).expect(404);
     await request(t.app).get(`/api/invitations/${token}`).expect(404);
     const audit = await owner.get(`/api/labs/${t.demoLab!.id}/audit?limit=1`).expect(200);
-    assert.equal(audit.body.events[0].action, "member.invitation_revoked");
+    assert.equal(audit.body.items[0].action, "member.invitation_revoked");
   });
 
   test("only owners invite; inviting a member again is a 409", async () => {
@@ -363,7 +366,7 @@ describe("site admin routes", () => {
     const users = await admin.get("/api/admin/users").expect(200);
     assertContract(AdminUsersSchema, users.body, "GET /api/admin/users");
     assert.deepEqual(
-      users.body.users.map((u: any) => [u.email, u.labCount]),
+      users.body.items.map((u: any) => [u.email, u.labCount]),
       [
         [EDITOR, 1],
         [OWNER, 1],
@@ -373,8 +376,8 @@ describe("site admin routes", () => {
     const box = await admin.get(`/api/admin/outbox?to=${EDITOR}`).expect(200);
     assertContract(OutboxSchema, box.body, "GET /api/admin/outbox");
     assert.equal(box.body.mailer, "fake");
-    assert.equal(box.body.messages.length, 1);
-    assert.equal(box.body.messages[0].subject, "Reset your Linger password");
+    assert.equal(box.body.items.length, 1);
+    assert.equal(box.body.items[0].subject, "Reset your Linger password");
   });
 
   test("backup writes a consistent copy of the database (SQLite online backup) that opens with the same data", async () => {

@@ -10,7 +10,7 @@ import { makeTestContext, signIn, type TestApp } from "@/tests/helpers/test-app"
 import { launchBody } from "@/tests/helpers/run-helpers";
 import { schema } from "@/db/client";
 import { eq } from "drizzle-orm";
-import { RunListPageSchema, SweepListPageSchema } from "@/shared/schemas/api-runs";
+import { API_LIMITS, RunListPageSchema, SweepListPageSchema } from "@/shared/schemas/api-runs";
 import { PAGE_SIZE } from "@/shared/schemas/pagination";
 import { assertContract } from "@/tests/helpers/contract";
 import { getRunRow, toListItem } from "@/server/services/runs.service";
@@ -196,6 +196,64 @@ describe("sweep list pages", () => {
       assert.equal(pages, 3);
       assert.deepEqual(seen, ["swp_page3", "swp_page4", "swp_page2", "swp_page1", "swp_page0"]);
       await editor.get(`/api/labs/${labId}/sweeps?cursor=bad`).expect(400);
+    } finally {
+      await t.close();
+    }
+  });
+});
+
+describe("runs by id and matched controls", () => {
+  test("?ids= finds runs beyond the first page (archived too), in the order asked, only the lab's own", async () => {
+    const t = await makeTestContext();
+    try {
+      const editor = await signIn(t.app, "editor@example.org");
+      const labId = t.demoLab!.id;
+      const ids: string[] = [];
+      for (let i = 0; i < 4; i++) {
+        const r = await editor.post(`/api/labs/${labId}/runs`).send(launchBody({ replicates: 100, seed: `ids${i}` }));
+        assert.equal(r.status, 201, JSON.stringify(r.body));
+        ids.push(r.body.id);
+      }
+      // The oldest is archived and is a matched control of the newest.
+      t.ctx.db
+        .update(schema.runs)
+        .set({ archivedAt: new Date(), controlOf: ids[3] })
+        .where(eq(schema.runs.id, ids[0]))
+        .run();
+      const first = await editor.get(`/api/labs/${labId}/runs?limit=1`).expect(200);
+      assert.equal(first.body.items.length, 1);
+      const wanted = [ids[1], ids[0], "run_nope"];
+      const r = await editor.get(`/api/labs/${labId}/runs?ids=${wanted.join(",")}`).expect(200);
+      assertContract(RunListPageSchema, r.body, "GET /api/labs/:labId/runs?ids=");
+      assert.deepEqual(
+        r.body.items.map((i: { id: string }) => i.id),
+        [ids[1], ids[0]],
+      );
+      assert.equal(r.body.nextCursor, null);
+
+      // Another lab's owner asking its own lab for these ids gets none of them.
+      const other = await signIn(t.app, "viewer@example.org");
+      const otherLab = (await other.post("/api/labs").send({ name: "Elsewhere" }).expect(201)).body.lab.id;
+      const none = await other.get(`/api/labs/${otherLab}/runs?ids=${ids.join(",")}`).expect(200);
+      assert.deepEqual(none.body.items, []);
+
+      // The cap is documented (API_LIMITS.maxRunIdsPerLookup) and a 400 names `ids`.
+      const many = Array.from({ length: API_LIMITS.maxRunIdsPerLookup + 1 }, (_, i) => `run_${i}`).join(",");
+      const tooMany = await editor.get(`/api/labs/${labId}/runs?ids=${many}`);
+      assert.equal(tooMany.status, 400);
+      assert.ok(
+        tooMany.body.error.fields.some((f: { path: string }) => f.path === "ids"),
+        JSON.stringify(tooMany.body),
+      );
+
+      // ?controlOf= finds the control wherever it sits in the list (archived ones with ?archived=1).
+      const controls = await editor.get(`/api/labs/${labId}/runs?controlOf=${ids[3]}&archived=1`).expect(200);
+      assert.deepEqual(
+        controls.body.items.map((i: { id: string }) => i.id),
+        [ids[0]],
+      );
+      const noControl = await editor.get(`/api/labs/${labId}/runs?controlOf=${ids[2]}`).expect(200);
+      assert.deepEqual(noControl.body.items, []);
     } finally {
       await t.close();
     }

@@ -70,7 +70,7 @@ describe("create and edit", () => {
     assert.equal(d.program.createdByName, "Demo editor");
     assert.deepEqual(d.body, { ...LADDER, repeats: 1 });
     const list = ProgramListResponseSchema.parse((await viewer.get(`/api/labs/${lab}/programs`).expect(200)).body);
-    assert.ok(list.programs.some((p) => p.id === d.program.id));
+    assert.ok(list.items.some((p) => p.id === d.program.id));
     const again = ProgramDetailResponseSchema.parse(
       (await viewer.get(`/api/programs/${d.program.id}`).expect(200)).body,
     );
@@ -137,9 +137,9 @@ describe("create and edit", () => {
     const a = ProgramSummarySchema.parse((await editor.post(`/api/programs/${d.program.id}/archive`).expect(200)).body);
     assert.ok(a.archivedAt);
     let list = ProgramListResponseSchema.parse((await viewer.get(`/api/labs/${lab}/programs`).expect(200)).body);
-    assert.ok(!list.programs.some((p) => p.id === d.program.id));
+    assert.ok(!list.items.some((p) => p.id === d.program.id));
     list = ProgramListResponseSchema.parse((await viewer.get(`/api/labs/${lab}/programs?archived=1`).expect(200)).body);
-    assert.ok(list.programs.some((p) => p.id === d.program.id));
+    assert.ok(list.items.some((p) => p.id === d.program.id));
     assert.equal(
       (await editor.put(`/api/programs/${d.program.id}`).send({ name: "Nope" }).expect(409)).body.error.code,
       "archived",

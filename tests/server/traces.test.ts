@@ -356,7 +356,7 @@ describe("stored trace sets", () => {
       2,
     );
     const list = await viewer.get(`/api/labs/${lab}/traces`).expect(200);
-    const item = list.body.traceSets.find((x: { id: string }) => x.id === id);
+    const item = list.body.items.find((x: { id: string }) => x.id === id);
     assert.equal(item.uploadedByName, "Demo editor");
     assert.equal(item.fileName, "cells.csv");
   });
@@ -470,7 +470,7 @@ describe("stored trace sets", () => {
       "a second delete (already deleted, as for runs and sweeps)",
     );
     const list = await viewer.get(`/api/labs/${lab}/traces`).expect(200);
-    assert.ok(!list.body.traceSets.some((x: { id: string }) => x.id === delId), "not listed");
+    assert.ok(!list.body.items.some((x: { id: string }) => x.id === delId), "not listed");
     // Restore is for editors of the set's lab only.
     assert.equal((await outsider.post(`/api/traces/${delId}/restore`)).status, 404);
     assert.equal((await viewer.post(`/api/traces/${delId}/restore`)).status, 403);
@@ -482,9 +482,7 @@ describe("stored trace sets", () => {
     const back = TraceSetDetailSchema.parse((await viewer.get(`/api/traces/${delId}`).expect(200)).body);
     assert.equal(back.cells.length, 2);
     assert.ok(
-      (await viewer.get(`/api/labs/${lab}/traces`).expect(200)).body.traceSets.some(
-        (x: { id: string }) => x.id === delId,
-      ),
+      (await viewer.get(`/api/labs/${lab}/traces`).expect(200)).body.items.some((x: { id: string }) => x.id === delId),
       "listed again",
     );
     assert.equal((await editor.post(`/api/traces/${delId}/restore`)).status, 409, "restoring twice");

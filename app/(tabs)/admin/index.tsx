@@ -6,6 +6,7 @@ import { Button } from "@/components/ui/button";
 import { EmptyState, ErrorState, LoadingState } from "@/components/ui/states";
 import { OutboxList } from "@/components/admin/outbox-list";
 import { UserList } from "@/components/admin/user-list";
+import { LoadMore } from "@/components/ui/load-more";
 import { BackupCard } from "@/components/admin/backup-card";
 import { ComputeCard } from "@/components/admin/compute-card";
 import { useMe } from "@/components/data/use-me";
@@ -46,18 +47,17 @@ export default function AdminScreen() {
           <LoadingState label="Loading the outbox" />
         ) : outbox.error ? (
           <ErrorState title="The outbox could not be loaded" error={outbox.error} onRetry={() => outbox.refetch()} />
-        ) : outbox.data.messages.length === 0 ? (
+        ) : outbox.data.length === 0 ? (
           <Text tone="muted">
-            {outbox.data.mailer === "smtp"
-              ? "Mail goes to a real mail server, so nothing is kept here."
-              : "No mail yet."}
+            {outbox.mailer === "smtp" ? "Mail goes to a real mail server, so nothing is kept here." : "No mail yet."}
           </Text>
         ) : (
           <>
             <Text variant="caption" tone="muted">
               Mail caught by the local mail catcher (nothing leaves this machine), newest first.
             </Text>
-            <OutboxList messages={outbox.data.messages} />
+            <OutboxList messages={outbox.data} />
+            <LoadMore list={outbox} noun="mail" testID="outbox-load-more" />
           </>
         )}
         <Button
@@ -77,7 +77,10 @@ export default function AdminScreen() {
         ) : users.error ? (
           <ErrorState title="Accounts could not be loaded" error={users.error} onRetry={() => users.refetch()} />
         ) : (
-          <UserList users={users.data} />
+          <>
+            <UserList users={users.data} />
+            <LoadMore list={users} noun="accounts" testID="users-load-more" />
+          </>
         )}
       </Card>
     </Screen>

@@ -6,6 +6,7 @@ import { Card } from "@/components/ui/card";
 import { Text } from "@/components/ui/text";
 import { Button } from "@/components/ui/button";
 import { Choice } from "@/components/ui/choice";
+import { LoadMore } from "@/components/ui/load-more";
 import { EmptyState, ErrorState, LoadingState } from "@/components/ui/states";
 import { useCircuits } from "@/components/data/circuits";
 import { useCurrentLab } from "@/components/data/current-lab";
@@ -76,6 +77,7 @@ export default function CircuitsScreen() {
               </Card>
             </View>
           ))}
+          <LoadMore list={circuits} noun="circuits" testID="circuits-load-more" />
         </View>
       )}
     </Screen>

@@ -7,7 +7,7 @@ import { EmptyState, ErrorState, LoadingState } from "@/components/ui/states";
 import { AuditList } from "@/components/lab/audit-list";
 import { useCurrentLab } from "@/components/data/current-lab";
 import { useAudit, useLab } from "@/components/data/labs";
-import { useRuns } from "@/components/data/runs";
+import { runIdsOf, useRunsByIds } from "@/components/data/runs";
 
 /** The lab's audit trail (owners), newest first, paged back. */
 export default function AuditScreen() {
@@ -16,7 +16,7 @@ export default function AuditScreen() {
   const isOwner = lab?.role === "owner";
   const audit = useAudit(labId, isOwner);
   const detail = useLab(labId);
-  const runs = useRuns();
+  const runs = useRunsByIds(runIdsOf(audit.data));
   const title = "Lab history";
   if (!lab || !isOwner) {
     return (
@@ -41,10 +41,10 @@ export default function AuditScreen() {
         <ErrorState title="The history could not be loaded" error={audit.error} onRetry={() => audit.refetch()} />
       </Screen>
     );
-  const events = audit.data.pages.flat();
+  const events = audit.data;
   const names = {
     user: (id: string) => detail.data?.lab.members.find((m) => m.userId === id)?.displayName,
-    run: (id: string) => runs.data?.find((r) => r.id === id)?.name,
+    run: (id: string) => runs.byId.get(id)?.name,
   };
   return (
     <Screen back={{ href: "/lab", label: "Lab" }} title={title} subtitle={lab.name} testID="audit-screen">
@@ -53,13 +53,13 @@ export default function AuditScreen() {
       ) : (
         <Card>
           <AuditList events={events} names={names} />
-          {audit.hasNextPage ? (
+          {audit.hasMore ? (
             <View style={{ flexDirection: "row" }}>
               <Button
                 label="Show older events"
                 variant="secondary"
-                busy={audit.isFetchingNextPage}
-                onPress={() => audit.fetchNextPage()}
+                busy={audit.loadingMore}
+                onPress={audit.loadMore}
                 testID="audit-older"
               />
             </View>

@@ -3,6 +3,7 @@ import { View } from "react-native";
 import { useRouter } from "expo-router";
 import { Screen } from "@/components/ui/screen";
 import { Card } from "@/components/ui/card";
+import { LoadMore } from "@/components/ui/load-more";
 import { Text } from "@/components/ui/text";
 import { Button } from "@/components/ui/button";
 import { LabSwitcher } from "@/components/ui/lab-switcher";
@@ -16,7 +17,7 @@ import { AuditList } from "@/components/lab/audit-list";
 import { ROLE_WORDS, withArticle } from "@/components/lab/roles";
 import { useCurrentLab } from "@/components/data/current-lab";
 import { useMe } from "@/components/data/use-me";
-import { useRuns } from "@/components/data/runs";
+import { runIdsOf, useRunsByIds } from "@/components/data/runs";
 import {
   useAudit,
   useChangeRole,
@@ -56,7 +57,7 @@ export default function LabScreen() {
   const lab = useLab(labId);
   const invitations = useInvitations(labId, isOwner);
   const audit = useAudit(labId, isOwner, 5);
-  const runs = useRuns();
+  const runs = useRunsByIds(runIdsOf(audit.data));
   const invite = useInvite(labId);
   const withdraw = useWithdrawInvitation(labId);
   const changeRole = useChangeRole(labId);
@@ -79,7 +80,7 @@ export default function LabScreen() {
   }
   const members = lab.data?.lab.members ?? [];
   const memberName = (id: string) => members.find((m) => m.userId === id)?.displayName;
-  const runName = (id: string) => runs.data?.find((r) => r.id === id)?.name;
+  const runName = (id: string) => runs.byId.get(id)?.name;
   const roleError =
     changeRole.error && changeRole.variables ? { userId: changeRole.variables.userId, error: changeRole.error } : null;
   const removeError = remove.error && remove.variables ? { userId: remove.variables, error: remove.error } : null;
@@ -146,6 +147,7 @@ export default function LabScreen() {
               onWithdraw={(id) => withdraw.mutate(id)}
             />
           )}
+          <LoadMore list={invitations} noun="invitations" testID="invitations-load-more" />
         </Card>
       ) : null}
       {isOwner ? (
@@ -155,10 +157,10 @@ export default function LabScreen() {
             <LoadingState label="Loading the history" />
           ) : audit.error ? (
             <ErrorState title="The history could not be loaded" error={audit.error} onRetry={() => audit.refetch()} />
-          ) : (audit.data.pages[0] ?? []).length === 0 ? (
+          ) : audit.data.length === 0 ? (
             <Text tone="muted">Nothing has happened in this lab yet.</Text>
           ) : (
-            <AuditList events={audit.data.pages[0] ?? []} names={{ user: memberName, run: runName }} />
+            <AuditList events={audit.data} names={{ user: memberName, run: runName }} />
           )}
           <View style={{ flexDirection: "row" }}>
             <Button

@@ -5,6 +5,7 @@ import { Screen } from "@/components/ui/screen";
 import { Card } from "@/components/ui/card";
 import { Text } from "@/components/ui/text";
 import { Button } from "@/components/ui/button";
+import { LoadMore } from "@/components/ui/load-more";
 import { EmptyState, ErrorState, LoadingState } from "@/components/ui/states";
 import { usePrograms } from "@/components/data/programs";
 import { useCurrentLab } from "@/components/data/current-lab";
@@ -56,6 +57,7 @@ export default function ProgramsScreen() {
               </Card>
             </View>
           ))}
+          <LoadMore list={programs} noun="programs" testID="programs-load-more" />
         </View>
       )}
     </Screen>

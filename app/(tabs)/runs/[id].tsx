@@ -33,7 +33,7 @@ import {
   useRestoreRun,
   useRun,
   useRunSeries,
-  useRuns,
+  useControlRun,
 } from "@/components/data/runs";
 import { useCurrentLab } from "@/components/data/current-lab";
 import { useTheme } from "@/components/theme/use-theme";
@@ -98,7 +98,7 @@ export default function RunDetailScreen() {
   const del = useDeleteRun();
   const restore = useRestoreRun();
   const control = useLaunchControl();
-  const labRuns = useRuns();
+  const controlRun = useControlRun(id).data;
   if (q.isPending)
     return (
       <Screen back={{ href: "/runs", label: "Runs" }} title="Run">
@@ -115,7 +115,6 @@ export default function RunDetailScreen() {
   const summary = runSummary(run);
   const active = ACTIVE_STATUSES.has(run.status);
   const hasResults = run.status === "finished" || run.status === "capped";
-  const controlRun = labRuns.data?.find((r) => r.controlOf === run.id);
   const p = run.progress;
   return (
     <Screen

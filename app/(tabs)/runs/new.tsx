@@ -9,6 +9,8 @@ import { Button } from "@/components/ui/button";
 import { Choice } from "@/components/ui/choice";
 import { Banner, EmptyState, ErrorState, LoadingState } from "@/components/ui/states";
 import { useCircuit, useCircuits } from "@/components/data/circuits";
+import { pickerOptions } from "@/components/data/paged";
+import { LoadMore } from "@/components/ui/load-more";
 import { useProgram, usePrograms } from "@/components/data/programs";
 import { useLaunchRun, useRunEstimate } from "@/components/data/runs";
 import { ApiError } from "@/components/data/api";
@@ -138,9 +140,10 @@ export default function NewRun() {
           label="Circuit"
           testID="run-circuit"
           value={v.circuitId}
-          options={circuits.data.map((c) => ({ value: c.id, label: c.name }))}
+          options={pickerOptions(circuits.data, circuit.data?.circuit)}
           onChange={(id) => set("circuitId", id)}
         />
+        <LoadMore list={circuits} noun="circuits" testID="run-circuits-more" />
         {err("circuitId", "circuitId") ? (
           <Text variant="caption" tone="danger" role="alert">
             {err("circuitId", "circuitId")}
@@ -150,9 +153,10 @@ export default function NewRun() {
           label="Input program"
           testID="run-program"
           value={v.programId}
-          options={programs.data.map((p) => ({ value: p.id, label: p.name }))}
+          options={pickerOptions(programs.data, program.data?.program)}
           onChange={(id) => set("programId", id)}
         />
+        <LoadMore list={programs} noun="programs" testID="run-programs-more" />
         {err("programId", "programId") ? (
           <Text variant="caption" tone="danger" role="alert">
             {err("programId", "programId")}

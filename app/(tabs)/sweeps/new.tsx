@@ -10,6 +10,8 @@ import { Button } from "@/components/ui/button";
 import { Choice } from "@/components/ui/choice";
 import { Banner, LoadingState } from "@/components/ui/states";
 import { useCircuit, useCircuits } from "@/components/data/circuits";
+import { pickerOptions } from "@/components/data/paged";
+import { LoadMore } from "@/components/ui/load-more";
 import { usePrograms, useProgram } from "@/components/data/programs";
 import { useLaunchSweep } from "@/components/data/sweeps";
 import { useLaunchRegimeMap } from "@/components/data/regime-maps";
@@ -115,12 +117,13 @@ export default function NewSweep() {
         <Choice
           label="Circuit"
           value={circuitId}
-          options={(circuits.data ?? []).map((c) => ({ value: c.id, label: c.name }))}
+          options={pickerOptions(circuits.data, circuit.data?.circuit)}
           onChange={(id) => {
             setCircuitId(id);
             setParameter("");
           }}
         />
+        <LoadMore list={circuits} noun="circuits" testID="sweep-circuits-more" />
         {errors.circuit ? (
           <Text variant="caption" tone="danger" role="alert">
             {errors.circuit}
@@ -129,9 +132,10 @@ export default function NewSweep() {
         <Choice
           label="Input program"
           value={programId}
-          options={(programs.data ?? []).map((p) => ({ value: p.id, label: p.name }))}
+          options={pickerOptions(programs.data, program.data?.program)}
           onChange={setProgramId}
         />
+        <LoadMore list={programs} noun="programs" testID="sweep-programs-more" />
         {errors.program ? (
           <Text variant="caption" tone="danger" role="alert">
             {errors.program}

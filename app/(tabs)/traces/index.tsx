@@ -5,6 +5,7 @@ import { Screen } from "@/components/ui/screen";
 import { Card } from "@/components/ui/card";
 import { Text } from "@/components/ui/text";
 import { Button } from "@/components/ui/button";
+import { LoadMore } from "@/components/ui/load-more";
 import { EmptyState, ErrorState, LoadingState } from "@/components/ui/states";
 import { SyntheticBadge } from "@/components/traces/synthetic-badge";
 import { useTraceSets } from "@/components/data/traces";
@@ -69,6 +70,7 @@ export default function TracesScreen() {
               ) : null}
             </Card>
           ))}
+          <LoadMore list={sets} noun="trace sets" testID="traces-load-more" />
         </View>
       )}
     </Screen>

@@ -6,6 +6,7 @@ import { TraceUploadForm } from "@/components/traces/upload-form";
 import { PreviewSummary } from "@/components/traces/preview-summary";
 import { pickTraceFile, usePreviewTraces, useUploadTraces } from "@/components/data/traces";
 import { usePrograms } from "@/components/data/programs";
+import { LoadMore } from "@/components/ui/load-more";
 import { useCurrentLab } from "@/components/data/current-lab";
 
 export default function UploadTracesScreen() {
@@ -45,6 +46,7 @@ export default function UploadTracesScreen() {
     <Screen back={{ href: "/traces", label: "Traces" }} title={title} subtitle={subtitle} testID="trace-upload-screen">
       <TraceUploadForm
         programs={programs.data.map((p) => ({ id: p.id, name: p.name }))}
+        programsMore={<LoadMore list={programs} noun="programs" testID="upload-programs-more" />}
         pickFile={pickTraceFile}
         onPreview={(req) => {
           save.reset();
