@@ -74,7 +74,8 @@ export function parseEnv(source: NodeJS.ProcessEnv = process.env): Env {
     throw new Error(`Invalid configuration:\n${lines.join("\n")}`);
   }
   const env = parsed.data;
-  const poolSize = env.LINGER_POOL_SIZE ?? Math.max(1, availableParallelism() - 1);
+  // Every core simulates: the event loop only receives typed arrays and writes them (docs/benchmarks.md).
+  const poolSize = env.LINGER_POOL_SIZE ?? Math.max(1, availableParallelism());
   const baseUrl = (env.LINGER_BASE_URL ?? `http://localhost:${env.PORT}`).replace(/\/$/, "");
   const loopback = isLoopbackHost(env.HOST);
   const seed = env.LINGER_SEED_DEMO ?? loopback;
