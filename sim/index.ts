@@ -22,7 +22,14 @@ export { compileModel, reactionRate, type CompiledModel } from "@/sim/circuit/co
 export { compileProgram, type CompiledProgram, type CompiledPulse } from "@/sim/inputs/compile-program";
 export { resolveThreshold, outputRemovalRate, type ResolvedThreshold } from "@/sim/engine/resolve-threshold";
 export { gridTimes, runSpecErrors, runSetup } from "@/sim/engine/run-setup";
-export { chunkLayout, reduceChunks, CHUNK_SIZE, type ChunkLayout, type GridPartial } from "@/sim/engine/chunks";
+export {
+  chunkLayout,
+  reduceChunks,
+  createGridReducer,
+  CHUNK_SIZE,
+  type ChunkLayout,
+  type GridPartial,
+} from "@/sim/engine/chunks";
 export {
   simulateChunk,
   prepareRun,

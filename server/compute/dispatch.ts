@@ -29,7 +29,10 @@ export interface ChunkDispatcher {
   readonly mode: DispatchStats["mode"];
   /** How many chunks may be out at once; the run queue never exceeds it. */
   capacity(): number;
-  /** Computes one chunk; rejects when the chunk cannot be computed (the run fails with the message). */
+  /**
+   * Computes one chunk; rejects when the chunk cannot be computed (the run fails with the message). The pulse
+   * records come as `pulses` or, when they crossed a thread as columns, as `packedPulses` (`pulses` then empty).
+   */
   run(job: ChunkJob): Promise<WorkerChunkResult>;
   /** Registers a callback for when capacity grows or lost work was found (the run queue pumps again). */
   onWake(fn: () => void): void;
@@ -65,7 +68,7 @@ export function createInProcessDispatcher(pool: SimPool): ChunkDispatcher {
     async run(job) {
       inFlight++;
       try {
-        return await pool.runChunk(job.task);
+        return await pool.runChunk(job.task, { keepPacked: true });
       } finally {
         inFlight--;
         rate.tick();

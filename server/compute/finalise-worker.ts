@@ -1,35 +1,73 @@
 /**
- * Finalising a run off the HTTP event loop: reads the run's stored chunks and
- * rows from SQLite (a read-only connection; WAL lets the server keep writing),
- * reduces the grid sums in chunk order, solves the ODE overlay, summarises the
- * pulse statistics, labels the circuit's behaviour (deterministic and
- * stochastic, docs/regimes.md) and hashes everything. The server writes the
- * result in one transaction.
+ * Finalising a run off the HTTP event loop. Two kinds of task, in one thread:
+ *
+ * - "ingest" (sent by the run queue after each chunk is stored): the chunk's
+ *   replicate totals, pulse columns and grid sums, reduced as they arrive, in
+ *   chunk order (chunks that come early wait for the ones before them): grid
+ *   sums added, replicate lines hashed, pulse lines rendered for the hash, the
+ *   records kept in the form SQLite gives them back. So finalisation does not
+ *   read back and hash every row at the end.
+ * - "finalise": when every chunk of the run was ingested, from that state;
+ *   otherwise (a run resumed after a restart, or a thread that started afresh)
+ *   from the run's stored chunks and rows in SQLite (a read-only connection;
+ *   WAL lets the server keep writing), the same reduction in the same order.
+ *   Then the ODE overlay, the summary of the pulse statistics, the behaviour
+ *   labels (deterministic and stochastic, docs/regimes.md) and the hash. Either
+ *   way the result is byte for byte the same (tests/server/compute/finalise-ingest.test.ts);
+ *   the server writes it in one transaction.
+ * - "drop": forget a run's ingested state (cancelled or failed).
  */
 import Database from "better-sqlite3";
 import { drizzle } from "drizzle-orm/better-sqlite3";
 import { eq } from "drizzle-orm";
 import * as schema from "@/db/schema";
 import type { Db } from "@/db/client";
-import type { RunSpec } from "@/shared/schemas/run-spec";
+import type { PulseStat, RunSpec } from "@/shared/schemas/run-spec";
 import type { RunSummary } from "@/shared/schemas/analysis";
-import { OdeBudget, reduceChunks, withOdeBudget } from "@/sim";
+import { OdeBudget, createGridReducer, withOdeBudget, type GridPartial } from "@/sim";
 import type { ReplicateFigures } from "@/sim/regimes/replicate-figures";
 import type { RunRegime } from "@/sim/regimes";
 import { finaliseRun } from "@/sim/analysis";
+import { unpackPulseStats, type PackedPulseStats } from "@/sim/engine/pulse-columns";
 import {
-  computeStatsHash,
+  createStatsHasher,
   fromBlob,
   gridSeries,
+  pulseAsStored,
   readChunks,
   readPulseStats,
   readReplicateRows,
+  replicateAsStored,
 } from "@/server/compute/run-store";
 
 export interface FinaliseTask {
+  kind?: "finalise";
   dbPath: string;
   runId: string;
+  /** Tests: ignore any ingested state and read everything from SQLite. */
+  fromDatabase?: boolean;
 }
+
+export interface IngestTask {
+  kind: "ingest";
+  runId: string;
+  chunkIndex: number;
+  /** Chunks in the run's layout. */
+  chunks: number;
+  spec: Pick<RunSpec, "replicates" | "endTimeMinutes" | "gridStepMinutes">;
+  replicates: { replicate: number; events: number; capped: boolean; outputMean: number; outputVar: number }[];
+  pulses: PackedPulseStats;
+  gridSum: Float64Array;
+  gridSumSq: Float64Array;
+  gridCount: Float64Array;
+}
+
+export interface DropTask {
+  kind: "drop";
+  runId: string;
+}
+
+export type FinaliserTask = FinaliseTask | IngestTask | DropTask;
 
 export interface FinaliseResult {
   series: { species: string; kind: "mean" | "sd" | "ode"; values: Uint8Array }[];
@@ -39,13 +77,84 @@ export interface FinaliseResult {
   odeNote: string | null;
   regime: RunRegime;
   replicateFigures: ReplicateFigures;
+  /** Where the rows came from: the chunks ingested as they were stored, or SQLite. */
+  source: "ingested" | "database";
 }
 
 /** Computing time and ODE steps the ODE work of one finalisation (overlay, threshold, regime) may take. */
 const FINALISE_ODE_WALL_MS = 120_000;
 const FINALISE_ODE_STEPS = 20_000_000;
 
-export default function finalise(task: FinaliseTask): FinaliseResult {
+type StoredReplicate = ReturnType<typeof replicateAsStored>;
+
+/** A run's rows reduced so far, in chunk order. */
+interface Reduction {
+  chunks: number;
+  /** The next chunk index to reduce; earlier ones are in. */
+  next: number;
+  waiting: Map<number, IngestTask>;
+  grid: ReturnType<typeof createGridReducer>;
+  hasher: ReturnType<typeof createStatsHasher>;
+  replicates: StoredReplicate[];
+  pulses: PulseStat[];
+}
+
+const reductions = new Map<string, Reduction>();
+
+function newReduction(spec: IngestTask["spec"], chunks: number): Reduction {
+  return {
+    chunks,
+    next: 0,
+    waiting: new Map(),
+    grid: createGridReducer(spec),
+    hasher: createStatsHasher(),
+    replicates: [],
+    pulses: [],
+  };
+}
+
+function reduceOne(r: Reduction, replicates: StoredReplicate[], pulses: PulseStat[], grid: GridPartial) {
+  replicates.sort((a, b) => a.replicate - b.replicate);
+  pulses.sort((a, b) => a.replicate - b.replicate || a.pulseIndex - b.pulseIndex);
+  r.grid.add(grid);
+  r.hasher.addReplicates(replicates);
+  r.hasher.addPulses(pulses);
+  for (const x of replicates) r.replicates.push(x);
+  for (const p of pulses) r.pulses.push(p);
+}
+
+function ingest(task: IngestTask): void {
+  let r = reductions.get(task.runId);
+  if (!r) reductions.set(task.runId, (r = newReduction(task.spec, task.chunks)));
+  if (task.chunkIndex < r.next || r.waiting.has(task.chunkIndex)) return; // delivered twice: counted once
+  r.waiting.set(task.chunkIndex, task);
+  for (let t = r.waiting.get(r.next); t; t = r.waiting.get(r.next)) {
+    r.waiting.delete(r.next);
+    reduceOne(r, t.replicates.map(replicateAsStored), unpackPulseStats(t.pulses).map(pulseAsStored), t);
+    r.next++;
+  }
+}
+
+/** The whole reduction from SQLite: the stored chunks in chunk order, then every row in index order. */
+function reduceFromDatabase(db: Db, spec: RunSpec, runId: string, chunks: number): Reduction {
+  const r = newReduction(spec, chunks);
+  for (const c of readChunks(db, runId))
+    r.grid.add({
+      gridSum: fromBlob(c.gridSum as Buffer),
+      gridSumSq: fromBlob(c.gridSumSq as Buffer),
+      gridCount: fromBlob(c.gridCount as Buffer),
+    });
+  r.replicates = readReplicateRows(db, runId).map(replicateAsStored);
+  r.pulses = readPulseStats(db, runId);
+  r.hasher.addReplicates(r.replicates);
+  r.hasher.addPulses(r.pulses);
+  r.next = chunks;
+  return r;
+}
+
+function finalise(task: FinaliseTask): FinaliseResult {
+  const ingested = reductions.get(task.runId);
+  reductions.delete(task.runId);
   const sqlite = new Database(task.dbPath, { readonly: true, fileMustExist: true });
   try {
     sqlite.pragma("busy_timeout = 5000");
@@ -53,17 +162,13 @@ export default function finalise(task: FinaliseTask): FinaliseResult {
     const run = db.select().from(schema.runs).where(eq(schema.runs.id, task.runId)).get();
     if (!run) throw new Error(`run ${task.runId} not found`);
     const spec = run.spec as RunSpec;
-    const chunks = readChunks(db, task.runId);
-    const { mean, sd } = reduceChunks(
-      spec,
-      chunks.map((c) => ({
-        gridSum: fromBlob(c.gridSum as Buffer),
-        gridSumSq: fromBlob(c.gridSumSq as Buffer),
-        gridCount: fromBlob(c.gridCount as Buffer),
-      })),
-    );
-    const replicates = readReplicateRows(db, task.runId);
-    const pulses = readPulseStats(db, task.runId);
+    const stored = (
+      sqlite.prepare("SELECT count(*) AS n FROM run_chunks WHERE run_id = ?").get(task.runId) as { n: number }
+    ).n;
+    const complete =
+      !task.fromDatabase && ingested !== undefined && ingested.next === ingested.chunks && stored === ingested.chunks;
+    const r = complete ? ingested : reduceFromDatabase(db, spec, task.runId, stored);
+    const { mean, sd } = r.grid.result();
     const deadline = Date.now() + FINALISE_ODE_WALL_MS;
     const budget = new OdeBudget({
       maxSteps: FINALISE_ODE_STEPS,
@@ -73,13 +178,13 @@ export default function finalise(task: FinaliseTask): FinaliseResult {
     const { ode, odeNote, summary, regime, replicateFigures } = withOdeBudget(budget, () =>
       finaliseRun({
         spec,
-        pulses,
-        replicates: replicates.map((r) => ({
-          replicate: r.replicate,
-          events: r.events,
-          capped: r.capped,
-          outputMean: r.outputMean ?? NaN,
-          outputVar: r.outputVar ?? NaN,
+        pulses: r.pulses,
+        replicates: r.replicates.map((x) => ({
+          replicate: x.replicate,
+          events: x.events,
+          capped: x.capped,
+          outputMean: x.outputMean ?? NaN,
+          outputVar: x.outputVar ?? NaN,
         })),
       }),
     );
@@ -89,11 +194,24 @@ export default function finalise(task: FinaliseTask): FinaliseResult {
       summary,
       regime,
       replicateFigures,
-      statsHash: computeStatsHash(replicates, pulses, series),
-      capped: replicates.some((r) => r.capped),
+      statsHash: r.hasher.digest(series),
+      capped: r.replicates.some((x) => x.capped),
       odeNote,
+      source: complete ? "ingested" : "database",
     };
   } finally {
     sqlite.close();
   }
+}
+
+export default function finaliser(task: FinaliserTask): FinaliseResult | null {
+  if (task.kind === "ingest") {
+    ingest(task);
+    return null;
+  }
+  if (task.kind === "drop") {
+    reductions.delete(task.runId);
+    return null;
+  }
+  return finalise(task);
 }

@@ -13,7 +13,11 @@ import { unpackPulseStats } from "@/sim/engine/pulse-columns";
 export type { SimTask } from "./sim-task";
 
 export interface SimPool {
-  runChunk(task: SimTask): Promise<WorkerChunkResult>;
+  /**
+   * Computes one chunk. The pulse records arrive as columns; they are unpacked into `pulses` here unless
+   * `keepPacked` (the run queue stores and reduces the columns as they are, off the records' cost).
+   */
+  runChunk(task: SimTask, opts?: { keepPacked?: boolean }): Promise<WorkerChunkResult>;
   /** Compiles the spec in every thread and runs a few throwaway replicates (so timing starts with warm caches and JIT). */
   warmUp(spec: RunSpec, opts?: { replicates?: number }): Promise<void>;
   threads: number;
@@ -31,9 +35,9 @@ export function createSimPool(opts: { threads: number; idleTimeoutMs?: number })
   });
   return {
     threads,
-    async runChunk(task) {
+    async runChunk(task, runOpts = {}) {
       const result: WorkerChunkResult = await piscina.run(task);
-      if (result.packedPulses) {
+      if (result.packedPulses && !runOpts.keepPacked) {
         result.pulses = unpackPulseStats(result.packedPulses);
         delete result.packedPulses;
       }

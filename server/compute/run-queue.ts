@@ -22,7 +22,8 @@ import { chunkLayout, gridTimes } from "@/sim";
 import type { SimPool } from "@/server/compute/pool";
 import { createInProcessDispatcher, type ChunkDispatcher, type DispatchStats } from "@/server/compute/dispatch";
 import { newFeedState, pickNextChunk } from "@/server/compute/feed-window";
-import type { FinaliseResult, FinaliseTask } from "@/server/compute/finalise-worker";
+import type { DropTask, FinaliseResult, FinaliseTask, IngestTask } from "@/server/compute/finalise-worker";
+import { packPulseStats } from "@/sim/engine/pulse-columns";
 import { createChunkWriter, readChunks, speciesNames } from "./run-store";
 import { recordAudit } from "@/server/services/audit.service";
 import { createFairQueue } from "./fair-queue";
@@ -75,6 +76,8 @@ interface ActiveRun {
   sessionEvents: number;
   sessionStart: number;
   stopped: boolean;
+  /** Chunks are reduced ahead in the finalising thread (not for a resumed run: it reads its rows back). */
+  ingesting: boolean;
 }
 
 export interface RunQueueOptions {
@@ -137,7 +140,8 @@ export function createRunQueue(opts: RunQueueOptions): RunQueue {
     maxThreads: 1,
   });
   const finaliseQueue = createFairQueue(
-    (run: ActiveRun) => finaliser.run({ dbPath, runId: run.id } satisfies FinaliseTask) as Promise<FinaliseResult>,
+    (run: ActiveRun) =>
+      finaliser.run({ kind: "finalise", dbPath, runId: run.id } satisfies FinaliseTask) as Promise<FinaliseResult>,
     { concurrency: 1, onStart: (labId, run) => opts.onFinaliseStart?.(run.id, labId) },
   );
   const events = new EventEmitter();
@@ -208,6 +212,7 @@ export function createRunQueue(opts: RunQueueOptions): RunQueue {
       sessionEvents: 0,
       sessionStart: Date.now(),
       stopped: false,
+      ingesting: stored.size === 0,
     };
     active.set(row.id, run);
     // Found "running" but not active here: the server stopped during the run. Keep that in the run's history,
@@ -305,7 +310,7 @@ export function createRunQueue(opts: RunQueueOptions): RunQueue {
               gridSumSq: result.gridSumSq,
               gridCount: result.gridCount,
               replicates: result.replicates,
-              pulses: result.pulses,
+              pulses: result.packedPulses ?? result.pulses,
               trajectories: result.trajectories ?? [],
             });
           } catch (e) {
@@ -314,6 +319,7 @@ export function createRunQueue(opts: RunQueueOptions): RunQueue {
           }
           // Keyed by (run, chunk index): a chunk that came back twice (a retried worker) is stored and counted once.
           if (!written) log(`run ${run.id}: chunk ${chunkIndex} was already stored; not counted again`);
+          else if (run.ingesting) ingest(run, chunkIndex, result);
           run.done++;
           run.replicatesDone += chunk.count;
           run.sessionReplicates += chunk.count;
@@ -331,6 +337,51 @@ export function createRunQueue(opts: RunQueueOptions): RunQueue {
       );
   }
 
+  /**
+   * Hands a stored chunk to the finalising thread, which reduces it now (./finalise-worker.ts), so the run's
+   * finalisation does not read back every row. Its buffers move there (the rows are already in SQLite). Should
+   * this fail, finalisation reads the chunk from SQLite instead: nothing depends on it but speed.
+   */
+  function ingest(run: ActiveRun, chunkIndex: number, result: any) {
+    const pulses = result.packedPulses ?? packPulseStats(result.pulses);
+    const task: IngestTask = {
+      kind: "ingest",
+      runId: run.id,
+      chunkIndex,
+      chunks: run.chunks.length,
+      spec: {
+        replicates: run.spec.replicates,
+        endTimeMinutes: run.spec.endTimeMinutes,
+        gridStepMinutes: run.spec.gridStepMinutes,
+      },
+      replicates: result.replicates.map((r: IngestTask["replicates"][number]) => ({
+        replicate: r.replicate,
+        events: r.events,
+        capped: r.capped,
+        outputMean: r.outputMean,
+        outputVar: r.outputVar,
+      })),
+      pulses,
+      gridSum: result.gridSum,
+      gridSumSq: result.gridSumSq,
+      gridCount: result.gridCount,
+    };
+    const buffers = new Set<ArrayBuffer>(
+      [pulses.numbers, pulses.widths, task.gridSum, task.gridSumSq, task.gridCount].map((a) => a.buffer as ArrayBuffer),
+    );
+    finaliser
+      .run(task, { transferList: [...buffers] })
+      .catch((e: Error) =>
+        log(`run ${run.id}: chunk ${chunkIndex} not reduced ahead (${e.message}); finalisation reads it back`),
+      );
+  }
+
+  /** Frees what the finalising thread holds for a run that will not finalise. */
+  function dropReduction(runId: string) {
+    if (closed) return;
+    finaliser.run({ kind: "drop", runId } satisfies DropTask).catch(() => {});
+  }
+
   function markFailed(runId: string, reason: string) {
     db.update(schema.runs)
       .set({ status: "failed", statusReason: reason, finishedAt: new Date() })
@@ -344,6 +395,7 @@ export function createRunQueue(opts: RunQueueOptions): RunQueue {
     run.stopped = true;
     active.delete(run.id);
     log(`run ${run.id} failed: ${reason}`);
+    dropReduction(run.id);
     markFailed(run.id, reason);
     checkIdle();
   }
@@ -443,6 +495,7 @@ export function createRunQueue(opts: RunQueueOptions): RunQueue {
       if (run) {
         run.stopped = true;
         active.delete(runId);
+        dropReduction(runId);
       }
       const res = db
         .update(schema.runs)

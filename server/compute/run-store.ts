@@ -10,6 +10,7 @@ import type Database from "better-sqlite3";
 import type { Db } from "@/db/client";
 import { schema } from "@/db/client";
 import type { PulseStat, RunSpec } from "@/shared/schemas/run-spec";
+import { PULSE_FIELDS, type PackedPulseStats } from "@/sim/engine/pulse-columns";
 
 export const toBlob = (a: Float64Array) => Buffer.from(a.buffer, a.byteOffset, a.byteLength);
 export const fromBlob = (b: Buffer | Uint8Array | null | undefined): Float64Array => {
@@ -36,7 +37,8 @@ export interface StoredChunk {
     outputVar: number | null;
     factors: Record<string, number>;
   }[];
-  pulses: PulseStat[];
+  /** As records, or as the columns a worker thread sends (sim/engine/pulse-columns.ts), stored without unpacking. */
+  pulses: PulseStat[] | PackedPulseStats;
   trajectories: { replicate: number; values: Float64Array }[];
 }
 
@@ -62,6 +64,43 @@ export function createChunkWriter(sqlite: Database.Database) {
   const updRun = sqlite.prepare(
     `UPDATE runs SET replicates_done = replicates_done + ?, events_total = events_total + ?, capped_replicates = capped_replicates + ?, compute_seconds = compute_seconds + ? WHERE id = ?`,
   );
+  /** The pulse rows of one chunk straight from its columns (the same values insPulse gets from records). */
+  const writePacked = (runId: string, packed: PackedPulseStats) => {
+    const a = packed.numbers;
+    const n = a.length / PULSE_FIELDS;
+    let w = 0;
+    for (let i = 0; i < n; i++) {
+      const o = i * PULSE_FIELDS;
+      const nw = a[o + 12];
+      let widths: string | null = null;
+      let first: number | null = null;
+      if (nw > 0) {
+        const ws: number[] = new Array(nw);
+        for (let j = 0; j < nw; j++) ws[j] = packed.widths[w + j];
+        widths = JSON.stringify(ws);
+        first = ws[0];
+      }
+      w += nw;
+      insPulse.run(
+        runId,
+        a[o],
+        a[o + 1],
+        a[o + 2],
+        a[o + 3],
+        a[o + 4],
+        a[o + 5],
+        a[o + 6],
+        nanNull(a[o + 7]),
+        nanNull(a[o + 8]),
+        first,
+        widths,
+        a[o + 9],
+        a[o + 10],
+        nanNull(a[o + 11]),
+        a[o + 13],
+      );
+    }
+  };
   /** Stores one chunk in one transaction; false (nothing written) when the chunk was already stored. */
   const write = sqlite.transaction((runId: string, species: string[], gridLength: number, c: StoredChunk): boolean => {
     const inserted = insChunk.run(
@@ -89,26 +128,28 @@ export function createChunkWriter(sqlite: Database.Database) {
         JSON.stringify(r.factors ?? {}),
       );
     }
-    for (const p of c.pulses) {
-      insPulse.run(
-        runId,
-        p.replicate,
-        p.pulseIndex,
-        p.on,
-        p.off,
-        p.durationBin,
-        p.excluded ? 1 : 0,
-        p.passed ? 1 : 0,
-        p.delay,
-        p.offDelay,
-        p.widths.length ? p.widths[0] : null,
-        p.widths.length ? JSON.stringify(p.widths) : null,
-        p.peak,
-        p.timeToPeak,
-        p.fwhm,
-        p.baseline,
-      );
-    }
+    if (!Array.isArray(c.pulses)) writePacked(runId, c.pulses);
+    else
+      for (const p of c.pulses) {
+        insPulse.run(
+          runId,
+          p.replicate,
+          p.pulseIndex,
+          p.on,
+          p.off,
+          p.durationBin,
+          p.excluded ? 1 : 0,
+          p.passed ? 1 : 0,
+          p.delay,
+          p.offDelay,
+          p.widths.length ? p.widths[0] : null,
+          p.widths.length ? JSON.stringify(p.widths) : null,
+          p.peak,
+          p.timeToPeak,
+          p.fwhm,
+          p.baseline,
+        );
+      }
     for (const t of c.trajectories) {
       species.forEach((name, s) =>
         insTraj.run(runId, t.replicate, name, toBlob(t.values.slice(s * gridLength, (s + 1) * gridLength))),
@@ -120,6 +161,7 @@ export function createChunkWriter(sqlite: Database.Database) {
   return { write };
 }
 
+const nanNull = (x: number) => (Number.isNaN(x) ? null : x);
 const finiteOrNull = (x: number | null | undefined) =>
   x === null || x === undefined || !Number.isFinite(x) ? null : x;
 
@@ -207,16 +249,44 @@ export function computeStatsHash(
   pulses: PulseStat[],
   series: { species: string; kind: string; values: Uint8Array }[],
 ): string {
+  const h = createStatsHasher();
+  h.addReplicates(replicates);
+  h.addPulses(pulses);
+  return h.digest(series);
+}
+
+/**
+ * computeStatsHash fed a chunk at a time (the finalising thread, as chunks are
+ * stored): replicate lines go into the hash at once; pulse lines, which the
+ * definition puts after every replicate line, are rendered at once and hashed at
+ * digest. Fed in (replicate, pulse) order, the digest equals computeStatsHash's.
+ */
+export function createStatsHasher() {
   const h = createHash("sha256");
-  for (const r of replicates) h.update(canonicalReplicate(r) + "\n");
-  for (const p of pulses) h.update(canonicalPulse(p) + "\n");
-  const sorted = series
-    .filter((s) => s.kind !== "ode")
-    .sort((a, b) =>
-      a.species < b.species ? -1 : a.species > b.species ? 1 : a.kind < b.kind ? -1 : a.kind > b.kind ? 1 : 0,
-    );
-  for (const s of sorted) h.update(`${s.species}/${s.kind}:`).update(s.values);
-  return h.digest("hex");
+  const pulseText: string[] = [];
+  return {
+    addReplicates(rows: readonly Parameters<typeof canonicalReplicate>[0][]) {
+      let text = "";
+      for (const r of rows) text += canonicalReplicate(r) + "\n";
+      h.update(text);
+    },
+    addPulses(pulses: readonly PulseStat[]) {
+      let text = "";
+      for (const p of pulses) text += canonicalPulse(p) + "\n";
+      pulseText.push(text);
+    },
+    digest(series: { species: string; kind: string; values: Uint8Array }[]): string {
+      for (const t of pulseText) h.update(t);
+      pulseText.length = 0;
+      const sorted = series
+        .filter((s) => s.kind !== "ode")
+        .sort((a, b) =>
+          a.species < b.species ? -1 : a.species > b.species ? 1 : a.kind < b.kind ? -1 : a.kind > b.kind ? 1 : 0,
+        );
+      for (const s of sorted) h.update(`${s.species}/${s.kind}:`).update(s.values);
+      return h.digest("hex");
+    },
+  };
 }
 
 /**
@@ -243,6 +313,37 @@ export function gridSeries(
 
 const nanToNull = (x: number | null | undefined) => (x === null || x === undefined || Number.isNaN(x) ? null : x);
 
+/** A replicate's totals as SQLite gives them back (non-finite output moments become null). */
+export function replicateAsStored(r: {
+  replicate: number;
+  events: number;
+  capped: boolean;
+  outputMean: number | null;
+  outputVar: number | null;
+}) {
+  return {
+    replicate: r.replicate,
+    events: r.events,
+    capped: r.capped,
+    outputMean: finiteOrNull(r.outputMean),
+    outputVar: finiteOrNull(r.outputVar),
+  };
+}
+
+/** A pulse record as readPulseStats gives it back: NaN figures become null, widths go through JSON. */
+export function pulseAsStored(p: PulseStat): PulseStat {
+  return {
+    ...p,
+    delay: nanToNull(p.delay),
+    offDelay: nanToNull(p.offDelay),
+    widths: p.widths.length ? (JSON.parse(JSON.stringify(p.widths)) as number[]) : [],
+    peak: nanToNull(p.peak) as number,
+    timeToPeak: nanToNull(p.timeToPeak) as number,
+    fwhm: nanToNull(p.fwhm),
+    baseline: nanToNull(p.baseline) as number,
+  };
+}
+
 /**
  * The statistics hash of results still in memory (the CLI), equal to the hash
  * the server stores for the same spec and seed: values are normalised the way
@@ -260,27 +361,8 @@ export function statsHashInMemory(
   pulses: PulseStat[],
   series: { species: string; kind: string; values: Uint8Array }[],
 ): string {
-  const reps = replicates
-    .map((r) => ({
-      replicate: r.replicate,
-      events: r.events,
-      capped: r.capped,
-      outputMean: finiteOrNull(r.outputMean),
-      outputVar: finiteOrNull(r.outputVar),
-    }))
-    .sort((a, b) => a.replicate - b.replicate);
-  const ps = pulses
-    .map((p): PulseStat => ({
-      ...p,
-      delay: nanToNull(p.delay),
-      offDelay: nanToNull(p.offDelay),
-      widths: p.widths.length ? (JSON.parse(JSON.stringify(p.widths)) as number[]) : [],
-      peak: nanToNull(p.peak) as number,
-      timeToPeak: nanToNull(p.timeToPeak) as number,
-      fwhm: nanToNull(p.fwhm),
-      baseline: nanToNull(p.baseline) as number,
-    }))
-    .sort((a, b) => a.replicate - b.replicate || a.pulseIndex - b.pulseIndex);
+  const reps = replicates.map(replicateAsStored).sort((a, b) => a.replicate - b.replicate);
+  const ps = pulses.map(pulseAsStored).sort((a, b) => a.replicate - b.replicate || a.pulseIndex - b.pulseIndex);
   return computeStatsHash(reps, ps, series);
 }
 

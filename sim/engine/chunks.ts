@@ -37,31 +37,57 @@ export function reduceChunks(
   spec: Pick<RunSpec, "replicates" | "endTimeMinutes" | "gridStepMinutes">,
   chunks: readonly GridPartial[],
 ): { mean: Float64Array; sd: Float64Array; count: Float64Array } {
+  const reducer = createGridReducer(spec);
+  for (const c of chunks) reducer.add(c);
+  return reducer.result();
+}
+
+/**
+ * reduceChunks one chunk at a time, for a caller that receives chunks as they
+ * finish: add them in chunk order and the result is bit-identical to
+ * reduceChunks over the same chunks (the same additions in the same order).
+ */
+export function createGridReducer(spec: Pick<RunSpec, "replicates" | "endTimeMinutes" | "gridStepMinutes">) {
   const ng = gridTimes(spec).length;
-  const len = chunks.length > 0 ? chunks[0].gridSum.length : 0;
-  const sum = new Float64Array(len);
-  const sumSq = new Float64Array(len);
+  let sum: Float64Array | null = null;
+  let sumSq: Float64Array | null = null;
   const count = new Float64Array(ng);
-  for (const c of chunks) {
-    for (let i = 0; i < len; i++) {
-      sum[i] += c.gridSum[i];
-      sumSq[i] += c.gridSumSq[i];
-    }
-    if (c.gridCount) for (let g = 0; g < ng; g++) count[g] += c.gridCount[g];
-  }
-  if (chunks.length > 0 && !chunks[0].gridCount) count.fill(spec.replicates);
-  const mean = new Float64Array(len);
-  const sd = new Float64Array(len);
-  for (let i = 0; i < len; i++) {
-    const n = count[i % ng];
-    if (n === 0) {
-      mean[i] = NaN;
-      sd[i] = NaN;
-      continue;
-    }
-    const m = sum[i] / n;
-    mean[i] = m;
-    sd[i] = n > 1 ? Math.sqrt(Math.max(0, (sumSq[i] - n * m * m) / (n - 1))) : 0;
-  }
-  return { mean, sd, count };
+  let chunks = 0;
+  let firstHasCount = false;
+  return {
+    add(c: GridPartial) {
+      if (sum === null || sumSq === null) {
+        sum = new Float64Array(c.gridSum.length);
+        sumSq = new Float64Array(c.gridSum.length);
+        firstHasCount = !!c.gridCount;
+      }
+      const len = sum.length;
+      for (let i = 0; i < len; i++) {
+        sum[i] += c.gridSum[i];
+        sumSq[i] += c.gridSumSq[i];
+      }
+      if (c.gridCount) for (let g = 0; g < ng; g++) count[g] += c.gridCount[g];
+      chunks++;
+    },
+    result(): { mean: Float64Array; sd: Float64Array; count: Float64Array } {
+      const s = sum ?? new Float64Array(0);
+      const sq = sumSq ?? new Float64Array(0);
+      if (chunks > 0 && !firstHasCount) count.fill(spec.replicates);
+      const len = s.length;
+      const mean = new Float64Array(len);
+      const sd = new Float64Array(len);
+      for (let i = 0; i < len; i++) {
+        const n = count[i % ng];
+        if (n === 0) {
+          mean[i] = NaN;
+          sd[i] = NaN;
+          continue;
+        }
+        const m = s[i] / n;
+        mean[i] = m;
+        sd[i] = n > 1 ? Math.sqrt(Math.max(0, (sq[i] - n * m * m) / (n - 1))) : 0;
+      }
+      return { mean, sd, count };
+    },
+  };
 }
