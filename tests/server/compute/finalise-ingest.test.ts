@@ -71,6 +71,7 @@ function assertSame(a: FinaliseResult, b: FinaliseResult) {
   assert.equal(a.statsHash, b.statsHash);
   assert.deepEqual(a.summary, b.summary);
   assert.deepEqual(a.regime, b.regime);
+  assert.deepEqual(a.replicateFigures, b.replicateFigures);
   assert.equal(a.capped, b.capped);
   assert.equal(a.series.length, b.series.length);
   a.series.forEach((s, i) => {
