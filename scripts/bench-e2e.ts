@@ -14,6 +14,7 @@
  * Default pool: every core, the server's default.
  */
 import os from "node:os";
+import { existsSync, readFileSync, statSync } from "node:fs";
 import { loadSpecFile } from "@/server/cli/load-spec";
 import { DEFAULT_BENCH_SPEC, runEngineBench } from "./bench-engine";
 import { startServerProcess } from "@/scripts/lib/spawn-server";
@@ -21,13 +22,31 @@ import { startServerProcess } from "@/scripts/lib/spawn-server";
 export interface EndToEndResult {
   replicates: number;
   threads: number;
+  /** Reaction firings of the run (the server's count). */
+  events: number;
   seconds: number;
   engineSeconds: number;
   overheadRatio: number;
   healthP95Ms: number;
   listP95Ms: number;
   requests: number;
+  /** The server process's peak resident memory (VmHWM: event loop, pool threads, finalising thread), MB. */
+  peakRssMb: number | null;
+  /** The database file and its WAL after the run finished, MB (one run, nothing else stored but one account). */
+  databaseMb: number;
 }
+
+/** Peak resident set of a process from /proc (Linux), MB; null elsewhere. */
+export function peakRssMb(pid: number | undefined): number | null {
+  try {
+    const m = /VmHWM:\s+(\d+) kB/.exec(readFileSync(`/proc/${pid}/status`, "utf8"));
+    return m ? Number(m[1]) / 1024 : null;
+  } catch {
+    return null;
+  }
+}
+
+const fileMb = (f: string) => (existsSync(f) ? statSync(f).size / 1e6 : 0);
 
 const p95 = (xs: number[]) => {
   if (!xs.length) return NaN;
@@ -40,7 +59,7 @@ export async function runEndToEndBench(opts: { replicates?: number; threads?: nu
   const threads = opts.threads ?? Math.max(1, os.availableParallelism());
   const spec = loadSpecFile(DEFAULT_BENCH_SPEC, { replicates });
 
-  let measured: { seconds: number; healthP95Ms: number; listP95Ms: number; requests: number };
+  let measured: Omit<EndToEndResult, "replicates" | "threads" | "engineSeconds" | "overheadRatio">;
   const server = await startServerProcess({
     env: { LINGER_SEED_DEMO: "0", LINGER_POOL_SIZE: String(threads), LINGER_TEST: "1" },
   });
@@ -111,6 +130,9 @@ export async function runEndToEndBench(opts: { replicates?: number; threads?: nu
       healthP95Ms: p95(health),
       listP95Ms: p95(list),
       requests: health.length + list.length,
+      events: run.eventsTotal,
+      peakRssMb: peakRssMb(server.child.pid),
+      databaseMb: fileMb(server.dbPath) + fileMb(`${server.dbPath}-wal`),
     };
   } finally {
     await server.stop();

@@ -2,7 +2,11 @@
  * npm run bench [-- --json] [--threads N] [--replicates N] [--no-e2e] [--e2e-replicates N]
  *                 [--no-compare] [--repetitions N] [--js-reference] [--with-100k]
  *                 [--no-redis] [--redis-replicates N] [--no-regime-map] [--no-load] [--load-clients N]
- *                 [--load-seconds N] [--no-stall] [--stall-seconds N]
+ *                 [--load-seconds N] [--no-stall] [--stall-seconds N] [--no-pipeline] [--full]
+ * Unless --no-pipeline (scripts/bench-pipeline.ts): `pipeline`, the speed figures as ratios against references
+ * measured in the same run (1 thread vs C, 1 -> N threads vs N C processes, 10,000 replicates end to end vs the
+ * engine alone; with --full also 100,000 end to end with the server's peak RSS and database size), repeated
+ * (--repetitions), median and spread, with the load average. --full also adds 100,000 to `replicateScaling`.
  * Without --threads: measures 1 thread and the pool (all cores). With --json the
  * last line is one JSON object: the last measurement's
  * {model, replicates, events, seconds, eventsPerSecond, threads}, plus, when
@@ -35,7 +39,7 @@
  */
 import os from "node:os";
 import { runEngineBench, type EngineBenchResult } from "./bench-engine";
-import { runEndToEndBench } from "./bench-e2e";
+import { runEndToEndBench, type EndToEndResult } from "./bench-e2e";
 import { runStallBench } from "./bench-stall";
 import { compareWithReference, replicateScaling, sizeScaling } from "./bench-compare";
 import { formatRedisBench, runRedisBench } from "./bench-redis";
@@ -43,6 +47,7 @@ import { formatLoadBench, runLoadBench } from "./bench-load";
 import { loadSpecFile } from "@/server/cli/load-spec";
 import { DEFAULT_BENCH_SPEC } from "./bench-engine";
 import { runRegimeMapBench } from "./bench-regimes";
+import { formatPipelineBench, runPipelineBench } from "./bench-pipeline";
 
 async function main() {
   const argv = process.argv.slice(2);
@@ -88,6 +93,20 @@ async function main() {
           `= ${e2e.overheadRatio.toFixed(3)}x; p95 latency /api/health ${e2e.healthP95Ms.toFixed(1)} ms, run list ${e2e.listP95Ms.toFixed(1)} ms (${e2e.requests} requests)`,
       );
   }
+  if (!argv.includes("--no-pipeline")) {
+    const pipeline = await runPipelineBench({
+      full: argv.includes("--full"),
+      repetitions: num("--repetitions"),
+      forceJs: argv.includes("--js-reference"),
+      endToEnd:
+        (out.endToEnd as EndToEndResult | undefined)?.replicates === 10_000
+          ? (out.endToEnd as EndToEndResult)
+          : undefined,
+      log: json ? undefined : (l) => console.log(l),
+    });
+    out.pipeline = pipeline;
+    if (!json) console.log("\n" + formatPipelineBench(pipeline));
+  }
   if (!argv.includes("--no-stall")) {
     const st = await runStallBench({ seconds: num("--stall-seconds") ?? 20 });
     out.stall = st;
@@ -103,7 +122,10 @@ async function main() {
       repetitions: num("--repetitions"),
       forceJs: argv.includes("--js-reference"),
     });
-    const reps = await replicateScaling(spec, argv.includes("--with-100k") ? [1000, 10_000, 100_000] : [1000, 10_000]);
+    const reps = await replicateScaling(
+      spec,
+      argv.includes("--with-100k") || argv.includes("--full") ? [1000, 10_000, 100_000] : [1000, 10_000],
+    );
     const sizes = await sizeScaling(spec, [5, 20, 50], 200);
     out.reference = cmp;
     out.replicateScaling = reps;

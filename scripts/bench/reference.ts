@@ -5,7 +5,7 @@
  * per-replicate generator states Linger's engine starts from, so their event
  * counts should match Linger's (printed as a check).
  */
-import { execFileSync, spawnSync } from "node:child_process";
+import { execFileSync, spawn, spawnSync } from "node:child_process";
 import { mkdtempSync, rmSync } from "node:fs";
 import os from "node:os";
 import path from "node:path";
@@ -23,6 +23,11 @@ export interface ReferenceResult {
 export interface Reference {
   kind: ReferenceResult["kind"];
   run(): ReferenceResult;
+  /**
+   * `copies` C processes at once, each the whole benchmark: events summed over the slowest one's seconds
+   * (what two cores give with no shared state at all). Null for the JS twin (one thread only).
+   */
+  runConcurrent(copies: number): Promise<ReferenceResult | null>;
   dispose(): void;
 }
 
@@ -67,6 +72,26 @@ export function createReference(spec: RunSpec, opts: { forceJs?: boolean } = {})
       const { events } = directBenchmarkJs(states, sw, tEnd, step);
       const seconds = (performance.now() - t0) / 1000;
       return { kind: "JS reference kernel", events, seconds, eventsPerSecond: events / seconds };
+    },
+    async runConcurrent(copies) {
+      if (!haveC) return null;
+      const one = () =>
+        new Promise<{ events: number; seconds: number }>((resolve, reject) => {
+          const child = spawn(exe, [], { stdio: ["pipe", "pipe", "pipe"] });
+          let out = "";
+          child.stdout.on("data", (d) => (out += d));
+          child.on("error", reject);
+          child.on("exit", (code) => {
+            if (code !== 0) return reject(new Error(`reference kernel exited ${code}`));
+            const [events, seconds] = out.trim().split(/\s+/).map(Number);
+            resolve({ events, seconds });
+          });
+          child.stdin.end(stdin);
+        });
+      const all = await Promise.all(Array.from({ length: copies }, one));
+      const events = all.reduce((s, r) => s + r.events, 0);
+      const seconds = Math.max(...all.map((r) => r.seconds));
+      return { kind: "C (cc -O2)", events, seconds, eventsPerSecond: events / seconds };
     },
     dispose() {
       rmSync(dir, { recursive: true, force: true });
