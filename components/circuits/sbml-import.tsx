@@ -12,6 +12,7 @@ import { Text } from "@/components/ui/text";
 import { Field } from "@/components/ui/field";
 import { Button } from "@/components/ui/button";
 import { Banner, ErrorState } from "@/components/ui/states";
+import { Choice } from "@/components/ui/choice";
 import { SBML_LIMITS, megabytes } from "@/shared/limits";
 import { formatCount } from "@/shared/number-format";
 import type { SbmlPreview, SbmlProblemWire } from "@/shared/schemas/api-sbml";
@@ -20,7 +21,10 @@ import type { SbmlFile, SbmlReading } from "@/components/data/sbml";
 export type SbmlImportProps = {
   pickFile: () => Promise<SbmlFile | null>;
   onRead: (sbml: string) => void;
-  onSave: (req: { sbml: string; name: string }) => void;
+  /** A new circuit (name), or a new version of one of the lab's circuits (circuitId). */
+  onSave: (req: { sbml: string; name?: string; circuitId?: string }) => void;
+  /** The lab's circuits, for saving as a new version of one of them. */
+  circuits?: { id: string; name: string }[];
   reading?: SbmlReading;
   readBusy?: boolean;
   saveBusy?: boolean;
@@ -30,7 +34,16 @@ export type SbmlImportProps = {
 
 const byteLength = (s: string) => new TextEncoder().encode(s).length;
 
-export function SbmlImport({ pickFile, onRead, onSave, reading, readBusy, saveBusy, error }: SbmlImportProps) {
+export function SbmlImport({
+  pickFile,
+  onRead,
+  onSave,
+  reading,
+  readBusy,
+  saveBusy,
+  error,
+  circuits = [],
+}: SbmlImportProps) {
   const t = useTheme();
   const [file, setFile] = useState<SbmlFile | null>(null);
   const [pasted, setPasted] = useState("");
@@ -61,8 +74,9 @@ export function SbmlImport({ pickFile, onRead, onSave, reading, readBusy, saveBu
       <Card>
         <Text variant="heading">The model</Text>
         <Text tone="muted">
-          An SBML Level 3 document (Version 1 or 2), at most {megabytes(SBML_LIMITS.maxSbmlBytes)}. Linger reads it
-          first and shows what it understood; nothing is kept until you save.
+          An SBML Level 3 document (Version 1 or 2; Level 2 Version 4 also works), at most{" "}
+          {megabytes(SBML_LIMITS.maxSbmlBytes)}. Linger reads it first and shows what it understood; nothing is kept
+          until you save.
         </Text>
         <View style={{ flexDirection: "row", flexWrap: "wrap", gap: t.spacing.sm, alignItems: "center" }}>
           <Button
@@ -118,7 +132,14 @@ export function SbmlImport({ pickFile, onRead, onSave, reading, readBusy, saveBu
           name={name ?? preview.circuit.name}
           onName={setName}
           saveBusy={saveBusy}
-          onSave={() => onSave({ sbml: readText!, name: (name ?? preview.circuit.name).trim() })}
+          circuits={circuits}
+          onSave={(target) =>
+            onSave(
+              target
+                ? { sbml: readText!, circuitId: target }
+                : { sbml: readText!, name: (name ?? preview.circuit.name).trim() },
+            )
+          }
         />
       ) : null}
       {error ? <ErrorState title="That did not work" error={error} /> : null}
@@ -171,14 +192,19 @@ function PreviewCard({
   onName,
   onSave,
   saveBusy,
+  circuits,
 }: {
   preview: SbmlPreview;
   name: string;
   onName: (s: string) => void;
-  onSave: () => void;
+  /** undefined: a new circuit; an id: a new version of that circuit. */
+  onSave: (circuitId?: string) => void;
   saveBusy?: boolean;
+  circuits: { id: string; name: string }[];
 }) {
   const c = preview.circuit;
+  const [as, setAs] = useState<"new" | "version">("new");
+  const [target, setTarget] = useState<string | null>(null);
   return (
     <Card testID="sbml-preview">
       <Text variant="heading">What Linger read</Text>
@@ -243,16 +269,54 @@ function PreviewCard({
         The reporter (output) is {c.outputSpecies}; you can change it after saving. Results of an imported model are
         only as good as the model: they do not replace measurements.
       </Text>
-      <Field label="Circuit name" value={name} onChangeText={onName} testID="sbml-name" />
-      <Button
-        label="Save as new circuit"
-        icon="save"
-        busy={saveBusy}
-        disabled={!name.trim()}
-        onPress={onSave}
-        testID="sbml-save"
-        style={{ alignSelf: "flex-start" }}
-      />
+      {circuits.length > 0 ? (
+        <Choice
+          label="Keep it as"
+          value={as}
+          options={[
+            { value: "new", label: "A new circuit" },
+            { value: "version", label: "A new version of a circuit" },
+          ]}
+          onChange={setAs}
+          testID="sbml-save-as"
+        />
+      ) : null}
+      {as === "new" || circuits.length === 0 ? (
+        <>
+          <Field label="Circuit name" value={name} onChangeText={onName} testID="sbml-name" />
+          <Button
+            label="Save as new circuit"
+            icon="save"
+            busy={saveBusy}
+            disabled={!name.trim()}
+            onPress={() => onSave()}
+            testID="sbml-save"
+            style={{ alignSelf: "flex-start" }}
+          />
+        </>
+      ) : (
+        <>
+          <Choice
+            label="Circuit that gets the new version"
+            value={target ?? ""}
+            options={circuits.map((x) => ({ value: x.id, label: x.name }))}
+            onChange={setTarget}
+            testID="sbml-target"
+          />
+          <Text variant="caption" tone="muted">
+            Its earlier versions stay as they are; runs keep the version they used.
+          </Text>
+          <Button
+            label="Save as new version"
+            icon="save"
+            busy={saveBusy}
+            disabled={!target}
+            onPress={() => onSave(target!)}
+            testID="sbml-save-version"
+            style={{ alignSelf: "flex-start" }}
+          />
+        </>
+      )}
     </Card>
   );
 }

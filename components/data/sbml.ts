@@ -42,7 +42,7 @@ export function useSaveSbml() {
   const labId = useLabId();
   const qc = useQueryClient();
   return useMutation({
-    mutationFn: (req: { sbml: string; name?: string }): Promise<CircuitDetailResponse> =>
+    mutationFn: (req: { sbml: string; name?: string; circuitId?: string }): Promise<CircuitDetailResponse> =>
       api(`/api/labs/${labId}/circuits/import-sbml`, { method: "POST", body: { ...req, save: true }, schema: CircuitDetailResponseSchema }),
     onSuccess: (d) => {
       qc.setQueryData(circuitKeys.detail(d.circuit.id), d);

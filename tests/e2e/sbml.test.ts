@@ -4,7 +4,8 @@
  * open "Import SBML", read a model with parts Linger refuses (the report names
  * each by line, element and id), then pick tests/fixtures/sbml/tank-sensor.xml,
  * see the species, reactions and parameters it gives, save it under a name and
- * land on the new circuit, whose page offers the SBML download. axe-core runs
+ * land on the new circuit, whose page offers the SBML download; then read the
+ * file again and keep it as version 2 of that circuit. axe-core runs
  * on each step (no serious or critical violation), as do the 44 px touch-target
  * and label checks. Screenshots go to test-results/screenshots/.
  */
@@ -88,6 +89,23 @@ for (const vp of [PHONE, WIDE] as Viewport[]) {
         await page.getByTestId("sbml-export").waitFor();
         await assertAccessible(page, "imported circuit");
         await screenshot(page, `sbml-${tag}-03-saved`);
+
+        // The same file again, kept as a new version of the circuit just made.
+        const id = new URL(page.url()).pathname.split("/").pop()!;
+        await page.goto(server.url + "/circuits/import");
+        const [again] = await Promise.all([
+          page.waitForEvent("filechooser"),
+          page.getByTestId("sbml-pick-file").click(),
+        ]);
+        await again.setFiles(GOOD);
+        await page.getByTestId("sbml-read").click();
+        await page.getByTestId("sbml-preview").waitFor();
+        await page.getByTestId("sbml-save-as-version").click();
+        await page.getByTestId(`sbml-target-${id}`).click();
+        await assertAccessible(page, "SBML import, as a new version");
+        await page.getByTestId("sbml-save-version").click();
+        await page.waitForURL(new RegExp(`/circuits/${id}$`));
+        await page.getByText("Version 2 (current)").waitFor();
         assert.deepEqual(errors, []);
       } finally {
         await b.close();

@@ -5,12 +5,14 @@ import { EmptyState } from "@/components/ui/states";
 import { SbmlImport } from "@/components/circuits/sbml-import";
 import { pickSbmlFile, useReadSbml, useSaveSbml } from "@/components/data/sbml";
 import { useCurrentLab } from "@/components/data/current-lab";
+import { useCircuits } from "@/components/data/circuits";
 
 export default function ImportSbmlScreen() {
   const router = useRouter();
   const { canEdit } = useCurrentLab();
   const read = useReadSbml();
   const save = useSaveSbml();
+  const circuits = useCircuits();
   const back = { href: "/circuits" as const, label: "Circuits" };
   const title = "Import SBML";
   if (!canEdit)
@@ -37,6 +39,7 @@ export default function ImportSbmlScreen() {
           read.mutate(sbml);
         }}
         onSave={(req) => save.mutate(req, { onSuccess: (d) => router.replace(`/circuits/${d.circuit.id}`) })}
+        circuits={(circuits.data ?? []).map((c) => ({ id: c.id, name: c.name }))}
         reading={read.data}
         readBusy={read.isPending}
         saveBusy={save.isPending}
