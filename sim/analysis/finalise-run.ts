@@ -14,6 +14,7 @@ import type { PulseStat, RunSpec } from "@/shared/schemas/run-spec";
 import { resolveThreshold, type ResolvedThreshold } from "@/sim/engine/resolve-threshold";
 import { runSetup } from "@/sim/engine/run-setup";
 import { solveOde } from "@/sim/ode/solve-ode";
+import { odeBudget, withOdeBudget } from "@/sim/ode/ode-budget";
 import { runRegime, type RunRegime } from "@/sim/regimes";
 import { replicateFigures, type ReplicateFigures } from "@/sim/regimes/replicate-figures";
 import { runSettingsBlock } from "./run-settings";
@@ -38,7 +39,16 @@ export interface FinalisedRun {
   replicateFigures: ReplicateFigures;
 }
 
+/**
+ * Every ODE solve of the finalisation (the threshold, the overlay, the behaviour labels' steady states,
+ * step response and cycle check) counts against one budget for the whole call: the caller's ambient
+ * one (the server's finalisation worker sets steps and wall time) or one default budget.
+ */
 export function finaliseRun(input: FinaliseRunInput): FinalisedRun {
+  return withOdeBudget(odeBudget(), () => finaliseUnderBudget(input));
+}
+
+function finaliseUnderBudget(input: FinaliseRunInput): FinalisedRun {
   const { spec } = input;
   const threshold = input.threshold ?? resolveThreshold(spec);
   let ode: Float64Array | null = null;

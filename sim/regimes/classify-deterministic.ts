@@ -16,6 +16,7 @@
 import type { CompiledModel } from "@/sim/circuit/compile-model";
 import { deriveParams } from "@/sim/circuit/compile-model";
 import type { RegimeVerdict } from "./labels";
+import { OdeBudgetError } from "@/sim/ode/ode-budget";
 import { findSteadyStates, turnoverMinutes, type SteadyStateSearch } from "./steady-states";
 import { measureCycle, type CycleMeasure } from "./sustained-cycle";
 import { stepResponse } from "./step-response";
@@ -78,6 +79,8 @@ export function classifyDeterministic(input: DeterministicInput): RegimeVerdict 
       return { name, search, cycle, sustained };
     });
   } catch (e) {
+    // a spent budget is the caller's to report (the run's labels say unclear, a map answers 422)
+    if (e instanceof OdeBudgetError) throw e;
     return {
       label: "unclear",
       evidence: { turnoverMinutes: tau },
@@ -138,9 +141,17 @@ export function classifyDeterministic(input: DeterministicInput): RegimeVerdict 
   }
   const offC = conditions[0];
   const onC = conditions[1];
-  const step = onC
-    ? stepResponse(meanFieldRhs(model, p, on, false), offC.search.fromInitial, out, settle, sample)
-    : null;
+  let step: ReturnType<typeof stepResponse> | null = null;
+  try {
+    step = onC ? stepResponse(meanFieldRhs(model, p, on, false), offC.search.fromInitial, out, settle, sample) : null;
+  } catch (e) {
+    if (e instanceof OdeBudgetError) throw e;
+    return {
+      label: "unclear",
+      evidence: { turnoverMinutes: tau },
+      reason: `the response to the input could not be solved: ${(e as Error).message}`,
+    };
+  }
   const allEvidence = { ...base, ...stateEvidence(offC), ...(onC ? stateEvidence(onC) : {}) };
   const stepEvidence: Record<string, number> = step
     ? {

@@ -41,8 +41,16 @@ export function runRegime(
       reason: `the ensemble could not be simulated: ${(e as Error).message}`,
     };
   }
-  return {
-    deterministic: classifyDeterministic({ model, thresholdMolecules: thr, passCurve }),
-    stochastic,
-  };
+  let deterministic: RegimeVerdict;
+  try {
+    deterministic = classifyDeterministic({ model, thresholdMolecules: thr, passCurve });
+  } catch (e) {
+    // e.g. the call's ODE budget is spent (sim/ode/ode-budget.ts): the message names the cause
+    deterministic = {
+      label: "unclear",
+      evidence: {},
+      reason: `the mean-field model could not be solved within the computing budget: ${(e as Error).message}`,
+    };
+  }
+  return { deterministic, stochastic };
 }

@@ -8,10 +8,17 @@
  * 1e-5) are kept with their Jacobian eigenvalues. A start whose trajectory has
  * not reached a root (its end point is more than 1% of the scale away) is
  * reported as unsettled, for the limit-cycle check.
+ *
+ * Every integration here (and in the step response and cycle check, which use
+ * `integrator`) counts against the ambient ODE budget (sim/ode/ode-budget.ts),
+ * so the behaviour labels share the whole-call budget of the run's
+ * finalisation; exceeding it throws OdeBudgetError, which the classifiers turn
+ * into "unclear" with the budget's reason.
  */
 import type { CompiledModel } from "@/sim/circuit/compile-model";
 import { DopriIntegrator, type OdeRhs } from "@/sim/ode/dormand-prince";
 import { meanFieldRhs } from "@/sim/ode/mean-field";
+import { odeBudget, type OdeBudget } from "@/sim/ode/ode-budget";
 import { jacobian } from "./jacobian";
 import { eigenvalues, type Eigenvalue } from "./eigenvalues";
 import { newtonPolish } from "./newton-polish";
@@ -50,8 +57,9 @@ export function turnoverMinutes(model: CompiledModel, p: Float64Array, sig: Floa
   return Number.isFinite(slowest) ? 1 / slowest : 1;
 }
 
-export function integrator(n: number, rhs: OdeRhs): DopriIntegrator {
-  return new DopriIntegrator(n, rhs, { relTol: 1e-8, absTol: 1e-8, maxSteps: 2_000_000 });
+/** The classifiers' integrator, counting its steps against `budget` (default: the ambient one). */
+export function integrator(n: number, rhs: OdeRhs, budget: OdeBudget = odeBudget()): DopriIntegrator {
+  return new DopriIntegrator(n, rhs, { relTol: 1e-8, absTol: 1e-8, maxSteps: 2_000_000, budget });
 }
 
 function maxAbs(v: ArrayLike<number>): number {
@@ -71,7 +79,17 @@ export function findSteadyStates(
   const rhs = meanFieldRhs(model, p, sig, false);
   const rate = 1 / Math.max(settleMinutes / 100, 1e-9);
   const fromInit = Float64Array.from(model.init);
-  integrator(n, rhs).integrate(fromInit, 0, settleMinutes);
+  const budget = odeBudget();
+  // for the budget's message: each start integrates over [0, settleMinutes]
+  budget.problem = {
+    model,
+    p,
+    sig,
+    from: 0,
+    to: settleMinutes,
+    hint: "the steady-state search of the behaviour labels",
+  };
+  integrator(n, rhs, budget).integrate(fromInit, 0, settleMinutes);
   const scale = Math.max(2 * maxAbs(fromInit), model.systemSize, 1);
   const starts: Float64Array[] = [Float64Array.from(model.init), new Float64Array(n)];
   for (let i = 0; i < n; i++) {
@@ -101,7 +119,7 @@ export function findSteadyStates(
   };
   for (let s = 0; s < starts.length; s++) {
     const y = Float64Array.from(s === 0 ? fromInit : starts[s]);
-    if (s !== 0) integrator(n, rhs).integrate(y, 0, settleMinutes);
+    if (s !== 0) integrator(n, rhs, budget).integrate(y, 0, settleMinutes);
     const root = newtonPolish(rhs, y, scale, rate);
     if (root) addRoot(root.y);
     let dist = Infinity;
