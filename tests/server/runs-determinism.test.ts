@@ -4,8 +4,9 @@ import { makeTestContext, signIn } from "@/tests/helpers/test-app";
 import { launchBody, realQueue, waitForRun } from "@/tests/helpers/run-helpers";
 import { firstDifference } from "@/server/compute/run-store";
 
-test("pool sizes 1 and 2 store identical statistics for the same spec and seed", async () => {
+test("pool sizes 1 and 2 store identical statistics, summary and labels for the same spec and seed", async () => {
   const hashes: string[] = [];
+  const finished: any[] = [];
   for (const threads of [1, 2]) {
     const t = await makeTestContext({ queue: realQueue(threads) });
     try {
@@ -16,11 +17,16 @@ test("pool sizes 1 and 2 store identical statistics for the same spec and seed",
       const done = await waitForRun(editor, r.body.id);
       assert.equal(done.status, "finished");
       hashes.push(done.statsHash);
+      finished.push(done);
     } finally {
       await t.close();
     }
   }
   assert.equal(hashes[0], hashes[1]);
+  // Finalised from the chunks reduced as they landed, in whatever order two threads returned them.
+  assert.deepEqual(finished[0].summary, finished[1].summary);
+  assert.deepEqual(finished[0].regime, finished[1].regime);
+  assert.equal(finished[0].summary.counts.replicates, 450);
 });
 
 test("a different seed changes the statistics, and firstDifference names where", async () => {
