@@ -22,6 +22,11 @@ import { checkCredentials } from "@/server/services/auth.service";
 export const SESSION_COOKIE = "linger.sid";
 const SESSION_MAX_AGE_MS = 14 * 24 * 3600 * 1000;
 const PRUNE_EVERY_MS = 10 * 60 * 1000;
+/**
+ * express-session touches the store on every request that does not change the session; the expiry
+ * is written again only when it moves by more than this, so a read is not a database write.
+ */
+export const TOUCH_EVERY_MS = 5 * 60 * 1000;
 
 /**
  * express-session store over the `sessions` table. Expired rows are pruned
@@ -30,6 +35,8 @@ const PRUNE_EVERY_MS = 10 * 60 * 1000;
  */
 export class SqliteSessionStore extends session.Store {
   private lastPrune = 0;
+  /** The expiry last written per session id (touches within TOUCH_EVERY_MS of it are skipped). */
+  private readonly written = new Map<string, number>();
   private readonly stmts;
 
   constructor(
@@ -81,7 +88,9 @@ export class SqliteSessionStore extends session.Store {
 
   override set(sid: string, sess: SessionData, cb?: (err?: any) => void): void {
     try {
-      this.stmts.set.run(sid, JSON.stringify(sess), this.expiry(sess));
+      const expires = this.expiry(sess);
+      this.stmts.set.run(sid, JSON.stringify(sess), expires);
+      this.written.set(sid, expires);
       this.maybePrune();
       cb?.();
     } catch (e) {
@@ -92,6 +101,7 @@ export class SqliteSessionStore extends session.Store {
   override destroy(sid: string, cb?: (err?: any) => void): void {
     try {
       this.stmts.destroy.run(sid);
+      this.written.delete(sid);
       cb?.();
     } catch (e) {
       cb?.(e);
@@ -100,7 +110,12 @@ export class SqliteSessionStore extends session.Store {
 
   override touch(sid: string, sess: SessionData, cb?: (err?: any) => void): void {
     try {
-      this.stmts.touch.run(this.expiry(sess), sid);
+      const expires = this.expiry(sess);
+      const last = this.written.get(sid);
+      if (last !== undefined && Math.abs(expires - last) < TOUCH_EVERY_MS) return cb?.();
+      this.stmts.touch.run(expires, sid);
+      if (this.written.size > 100_000) this.written.clear();
+      this.written.set(sid, expires);
       cb?.();
     } catch (e) {
       cb?.(e);
