@@ -263,7 +263,8 @@ export function computeStatsHash(
  */
 export function createStatsHasher() {
   const h = createHash("sha256");
-  const pulseText: string[] = [];
+  /** Flat bytes (the lines are ASCII), not the string ropes `+=` builds: a large run holds millions of lines. */
+  const pulseText: Buffer[] = [];
   return {
     addReplicates(rows: readonly Parameters<typeof canonicalReplicate>[0][]) {
       let text = "";
@@ -273,7 +274,7 @@ export function createStatsHasher() {
     addPulses(pulses: readonly PulseStat[]) {
       let text = "";
       for (const p of pulses) text += canonicalPulse(p) + "\n";
-      pulseText.push(text);
+      pulseText.push(Buffer.from(text, "utf8"));
     },
     digest(series: { species: string; kind: string; values: Uint8Array }[]): string {
       for (const t of pulseText) h.update(t);
