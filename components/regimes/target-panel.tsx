@@ -251,12 +251,7 @@ function TargetResults({ answer }: { answer: TargetAnswer }) {
           </View>
         );
         return p.runId ? (
-          <PressableLink
-            key={p.index}
-            href={`/runs/${p.runId}`}
-            accessibilityLabel={`${head}; open its run`}
-            testID={`target-point-${p.index}`}
-          >
+          <PressableLink key={p.index} href={`/runs/${p.runId}`} testID={`target-point-${p.index}`}>
             {content}
           </PressableLink>
         ) : (
