@@ -7,6 +7,7 @@ import { Banner } from "@/components/ui/states";
 import { PressableLink } from "@/components/ui/pressable-link";
 import { DefinitionLink } from "@/components/definitions/definition-link";
 import { useTheme } from "@/components/theme/use-theme";
+import { MIN_TOUCH } from "@/components/theme/tokens";
 import { parseNumber } from "@/components/forms/zod-errors";
 import { ApiError } from "@/components/data/api";
 import { useDesignTarget } from "@/components/data/regime-maps";
@@ -241,7 +242,7 @@ function TargetResults({ answer }: { answer: TargetAnswer }) {
               : null,
         ].filter((x): x is string => !!x);
         const content = (
-          <View style={{ gap: 2 }}>
+          <View style={{ gap: 2, minHeight: MIN_TOUCH, justifyContent: "center" }}>
             <Text variant="bodyStrong">{head}</Text>
             {lines.map((l, i) => (
               <Text key={i} variant="caption" tone="muted">

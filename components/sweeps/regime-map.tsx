@@ -161,7 +161,7 @@ export function RegimeMap({
         {layout.boundaries > 0 ? ` · ${layout.boundaries} boundary edges drawn thick` : ""}
         {layout.refined.length > 0 ? ` · ${layout.refined.length} refined points as small squares on the edges` : ""}
       </Text>
-      <ScrollView horizontal accessibilityLabel={`${title ?? TITLES[model]} map`}>
+      <ScrollView horizontal focusable accessibilityLabel={`${title ?? TITLES[model]} map`}>
         <View style={{ paddingRight: MARKER / 2, paddingBottom: MARKER / 2 }}>
           <View style={{ flexDirection: "row", marginLeft: 72 }}>
             {colAxis.values.map((v, j) => (
