@@ -6,7 +6,12 @@
  * stochastic) with their legend, checks that each computed cell is a real link
  * to its point's run, taps one and lands on that run with its behaviour card.
  * axe-core runs on the sweep screen (no serious or critical violation), with
- * the 44 px touch-target and label checks. Screenshots: test-results/screenshots/regime-map-*.
+ * the 44 px touch-target and label checks. Then it states a design target
+ * (pass probability at least 50% at 60 min) and sees the region that meets it
+ * ringed on the map, as many points as the target API counts, and opens a
+ * mean-field-only map of the same grid, refines its boundaries and sees the
+ * refined points drawn on the edges (axe-core on both).
+ * Screenshots: test-results/screenshots/regime-map-*.
  */
 import { after, before, describe, test } from "node:test";
 import assert from "node:assert/strict";
@@ -38,12 +43,12 @@ for (const vp of [PHONE, WIDE] as Viewport[]) {
         await signIn(page, server.url, DEMO_EDITOR, DEMO_PASSWORD);
         const api = (p: string) => `${server.url}/api${p}`;
         if (!sharedSweepId) {
-          const labs = (await (await page.request.get(api("/labs"))).json()) as { labs: { id: string }[] };
+          const labs = (await (await page.request.get(api("/labs"))).json()) as { items: { id: string }[] };
           const templates = (await (await page.request.get(api("/templates"))).json()) as {
             templates: { key: string; circuit: unknown; inputSignal: string }[];
           };
           const ring = templates.templates.find((x) => x.key === "ring")!;
-          const launched = await page.request.post(api(`/labs/${labs.labs[0].id}/sweeps`), {
+          const launched = await page.request.post(api(`/labs/${labs.items[0].id}/sweeps`), {
             timeout: 120_000,
             data: {
               name: "Timer ring map",
@@ -107,7 +112,28 @@ for (const vp of [PHONE, WIDE] as Viewport[]) {
         await assertAccessible(page, "sweep with behaviour maps");
         await screenshot(page, `regime-map-${vp.name}-01-maps`);
 
-        await cell.click();
+        // design to a target: the region that meets it is ringed, as many points as the API counts
+        const target = { pass: { minProbability: 0.5, atMinutes: 60 } };
+        const expected = (await (
+          await page.request.post(api(`/sweeps/${sweepId}/target`), { data: target })
+        ).json()) as { meeting: number; points: { index: number; meets: boolean | null }[] };
+        await page.getByTestId("target-pass-p").fill("50");
+        await page.getByTestId("target-pass-at").fill("60");
+        await page.getByTestId("target-submit").click();
+        await page.getByTestId("target-results").waitFor({ timeout: 30_000 });
+        assert.equal(
+          await page.getByTestId("target-summary").innerText(),
+          `${expected.meeting} of 9 points meet the target`,
+        );
+        for (const p of expected.points) {
+          const ring = page.getByTestId(`meets-stochastic-${Math.floor(p.index / 3)}-${p.index % 3}`);
+          assert.equal(await ring.count(), p.meets ? 1 : 0, `point ${p.index} ringed iff it meets the target`);
+        }
+        assert.match(await page.getByTestId("target-point-0").innerText(), /pass probability: (inside|outside) by/);
+        await assertAccessible(page, "sweep with a design target");
+        await screenshot(page, `regime-map-${vp.name}-01b-target`);
+
+        await page.getByTestId("map-stochastic-cell-1-2").click();
         await page.waitForURL(new RegExp(`/runs/${point.runId}$`));
         const card = page.getByTestId("regime-card");
         await card.waitFor({ timeout: 30_000 });
@@ -116,6 +142,54 @@ for (const vp of [PHONE, WIDE] as Viewport[]) {
           new RegExp(point.regime.stochastic),
         );
         await screenshot(page, `regime-map-${vp.name}-02-point-run`);
+
+        // a mean-field map of the same grid: computed at once, then its boundaries refined
+        const labs = (await (await page.request.get(api("/labs"))).json()) as { items: { id: string }[] };
+        const sweepBody = (await (await page.request.get(api(`/sweeps/${sweepId}`))).json()) as {
+          baseSpec: { circuit: unknown; program: unknown; inputSignal: string };
+          axes: { parameter: string; values: number[] }[];
+        };
+        const made = await page.request.post(api(`/labs/${labs.items[0].id}/regime-maps`), {
+          timeout: 120_000,
+          data: {
+            name: `Timer ring mean-field ${vp.name}`,
+            base: {
+              circuit: sweepBody.baseSpec.circuit,
+              program: sweepBody.baseSpec.program,
+              inputSignal: sweepBody.baseSpec.inputSignal,
+              settings: { endTimeMinutes: 200, gridStepMinutes: 1, replicates: 8, seed: "ring-map" },
+            },
+            axes: sweepBody.axes.map((a) => ({
+              parameter: a.parameter,
+              grid: { from: 20, to: 200, count: 6, scale: "log" },
+            })),
+          },
+        });
+        assert.equal(made.status(), 201, await made.text());
+        const mapId = ((await made.json()) as { id: string }).id;
+        await page.goto(`${server.url}/sweeps/maps/${mapId}`);
+        await page.getByTestId("regime-map-deterministic").waitFor({ timeout: 30_000 });
+        await page.getByTestId("map-deterministic-cell-5-5").waitFor();
+        const refining = page.waitForResponse((r) => r.url().endsWith(`/regime-maps/${mapId}/refine`), {
+          timeout: 120_000,
+        });
+        await page.getByTestId("refine-map").click();
+        await refining;
+        const refined = await page.request.get(api(`/regime-maps/${mapId}`));
+        const after = (await refined.json()) as {
+          refinedPoints: number;
+          points: { index: number; refined: boolean }[];
+        };
+        if (after.refinedPoints > 0) {
+          const first = after.points.find((p) => p.refined)!;
+          await page.getByTestId(`refined-marker-${first.index}`).waitFor({ timeout: 60_000 });
+          assert.match(
+            (await page.getByTestId(`refined-marker-${first.index}`).getAttribute("aria-label")) ?? "",
+            /^refined point /,
+          );
+        }
+        await assertAccessible(page, "mean-field map, refined");
+        await screenshot(page, `regime-map-${vp.name}-03-mean-field-map`);
         assert.deepEqual(errors, []);
       } finally {
         await b.close();
