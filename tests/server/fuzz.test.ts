@@ -136,7 +136,34 @@ function insertFixture(t: TestApp, owner: string): Fixture {
       createdAt: now,
     })
     .run();
-  return { labId, lab: labId, circuit: cir, program: prg, run, sweep: swp, traceSet: trs, match: mat };
+  const rmp = newId("rmp_");
+  const verdict = { label: "steady", evidence: {} };
+  db.insert(schema.regimeMaps)
+    .values({
+      id: rmp,
+      labId,
+      name: "Fuzz map",
+      baseSpec: spec,
+      axes: [{ parameter: "rate(make)", values: [1, 2] }],
+      points: [
+        { index: 0, values: { "rate(make)": 1 }, refined: false, verdict },
+        { index: 1, values: { "rate(make)": 2 }, refined: false, verdict },
+      ],
+      createdBy: owner,
+      createdAt: now,
+    })
+    .run();
+  return {
+    labId,
+    lab: labId,
+    circuit: cir,
+    program: prg,
+    run,
+    sweep: swp,
+    traceSet: trs,
+    match: mat,
+    regimeMap: rmp,
+  };
 }
 
 /** True while the fixture's lab, the owner's membership and every object are there and not deleted. */
@@ -150,7 +177,8 @@ function fixtureIntact(t: TestApp, f: Fixture, owner: string): boolean {
     one("SELECT 1 FROM trace_sets WHERE id = ? AND deleted_at IS NULL", f.traceSet!) &&
     one("SELECT 1 FROM circuits WHERE id = ?", f.circuit!) &&
     one("SELECT 1 FROM input_programs WHERE id = ?", f.program!) &&
-    one("SELECT 1 FROM matches WHERE id = ?", f.match!)
+    one("SELECT 1 FROM matches WHERE id = ?", f.match!) &&
+    one("SELECT 1 FROM regime_maps WHERE id = ?", f.regimeMap!)
   );
 }
 
