@@ -77,9 +77,7 @@ describe("compute card", () => {
       />,
     );
     expect(
-      screen.getByText(
-        /^Chunks run on this server's own threads \(no Redis configured\)\. 5 running · 3\.5 chunks\/s/,
-      ),
+      screen.getByText(/^Chunks run on this server's own threads \(no Redis configured\)\. 5 running · 3\.5 chunks\/s/),
     ).toBeTruthy();
   });
 
