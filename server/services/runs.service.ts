@@ -464,7 +464,23 @@ function listRunRows(ctx: AppContext, conds: SQL[], limit?: number, ordered = fa
   const r = schema.runs;
   // Only what a list item shows: the spec and summary JSON stay in SQLite (json_extract), not parsed per row.
   const num = (path: string) => sql<number | null>`json_extract(${r.summary}, ${path})`;
-  const rows = ctx.db
+  // A page is found first from the index (no JSON read), then only its rows' JSON is read: sorting with the
+  // json_extract columns in the select would parse every matching run's summary before LIMIT applies.
+  let where = and(...conds);
+  let pageOrder: string[] | null = null;
+  if (limit !== undefined) {
+    pageOrder = ctx.db
+      .select({ id: r.id })
+      .from(r)
+      .where(where)
+      .orderBy(...(ordered ? [statusRank, desc(r.createdAt), asc(r.id)] : []))
+      .limit(limit)
+      .all()
+      .map((x) => x.id);
+    if (pageOrder.length === 0) return [];
+    where = inArray(r.id, pageOrder);
+  }
+  const found = ctx.db
     .select({
       rank: statusRank,
       id: r.id,
@@ -494,10 +510,11 @@ function listRunRows(ctx: AppContext, conds: SQL[], limit?: number, ordered = fa
       passAtLongest: num("$.byDuration[#-1].passProbability"),
     })
     .from(r)
-    .where(and(...conds))
-    .orderBy(...(ordered ? [statusRank, desc(r.createdAt), asc(r.id)] : []))
-    .limit(limit ?? -1)
+    .where(where)
+    .orderBy(...(ordered && !pageOrder ? [statusRank, desc(r.createdAt), asc(r.id)] : []))
     .all();
+  const byId = new Map(found.map((x) => [x.id, x]));
+  const rows = pageOrder ? pageOrder.flatMap((id) => byId.get(id) ?? []) : found;
   const names = userNames(
     ctx,
     rows.map((x) => x.createdBy),
