@@ -50,7 +50,7 @@ import {
 } from "./mathml";
 import { child, parseXml, XmlSyntaxError, type XmlElement } from "./xml";
 import { mathmlToTree } from "./mathml-tree";
-import { parseExpression, treeToText, type ExprNode } from "@/sim/circuit/expression";
+import { evaluateTree, parseExpression, treeToText, type ExprNode } from "@/sim/circuit/expression";
 
 export interface SbmlProblem {
   /** The SBML element name (species, reaction, kineticLaw, ...). */
@@ -478,6 +478,21 @@ export function importSbml(source: string): SbmlImport {
       const when = treeToText(cond);
       const check = parseExpression(when, exprScope(), "bool");
       if (!check.ok) throw new MathRefusal(`trigger: ${check.error.message}`, trig.line);
+      // initialValue="false" with a trigger already true at t = 0 fires at t = 0 in SBML; Linger fires only
+      // on a rise after t = 0 (initialValue="true"), so such a model is refused rather than run differently.
+      // (persistent matters only with a delay, and delays are refused.)
+      if (trig.attrs.initialValue === "false") {
+        const startValue = (kind: "species" | "signal" | "param", name: string): number => {
+          const sp = kind === "species" ? species.get(name) : undefined;
+          if (sp) return speciesAmount(sp) ?? NaN;
+          return kind === "param" ? (constants.get(name) ?? NaN) : NaN;
+        };
+        if (evaluateTree(check.tree, startValue, 0) === true)
+          throw new MathRefusal(
+            'trigger is already true at t = 0 and initialValue="false": SBML fires the event at t = 0, Linger fires an event only when its trigger turns true after t = 0',
+            trig.line,
+          );
+      }
       const assign: CircuitEvent["assign"] = [];
       for (const a of child(el, "listOfEventAssignments")?.children ?? []) {
         if (a.name !== "eventAssignment") continue;

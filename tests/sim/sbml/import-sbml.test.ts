@@ -177,3 +177,19 @@ test("Level 2 Version 4 reads like Level 3 where they agree: the same circuit as
   );
   assert.match(refused(importSbml(typed))[0].reason, /species types \(Level 2\) are not supported/);
 });
+
+test('initialValue="false" with a trigger already true at t = 0 is refused (SBML Level 3 Version 2 Core, Hucka et al. 2019, J Integr Bioinform 16:20190021: such a trigger fires at t = 0; from memory); false at t = 0 imports', () => {
+  const model = (initialValue: string, level: number) =>
+    doc(`${compartments}
+    ${speciesX()}
+    <listOfReactions>${reaction("decay", ref("X"), "", ma("0.1", "X"))}</listOfReactions>
+    <listOfEvents><event id="refill" useValuesFromTriggerTime="true"><trigger initialValue="${initialValue}" persistent="true"><math xmlns="http://www.w3.org/1998/Math/MathML"><apply><lt/><ci>X</ci><cn>${level}</cn></apply></math></trigger>
+      <listOfEventAssignments><eventAssignment variable="X"><math xmlns="http://www.w3.org/1998/Math/MathML"><cn>10</cn></math></eventAssignment></listOfEventAssignments></event></listOfEvents>`);
+  // X starts at 10: "X < 20" is true at t = 0, "X < 5" is not
+  const problems = refused(importSbml(model("false", 20)));
+  assert.equal(problems.length, 1);
+  assert.equal(problems[0].id, "refill");
+  assert.match(problems[0].reason, /already true at t = 0 and initialValue="false"/);
+  ok(importSbml(model("false", 5)));
+  ok(importSbml(model("true", 20)));
+});
