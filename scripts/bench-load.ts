@@ -57,6 +57,8 @@ export async function runLoadBench(
     only?: "health";
     /** Target p95 in ms for every endpoint measured (default 200). */
     targetMs?: number;
+    /** Simulation threads (default: the server's own default, every core). */
+    poolSize?: number;
   } = {},
 ): Promise<LoadResult> {
   const clients = opts.clients ?? 50;
@@ -65,7 +67,7 @@ export async function runLoadBench(
   const seconds = opts.seconds ?? 20;
   const pauseMs = opts.pauseMs ?? 250;
   const spec = loadSpecFile(DEFAULT_BENCH_SPEC, { replicates: opts.replicates ?? 50_000 });
-  const poolSize = 1;
+  const poolSize = opts.poolSize ?? Math.max(1, os.availableParallelism());
   const target = opts.targetMs ?? 200;
   const server = await startServerProcess({
     env: { LINGER_SEED_DEMO: "0", LINGER_POOL_SIZE: String(poolSize), LINGER_TEST: "1" },

@@ -38,6 +38,8 @@ export const EnvSchema = z.object({
   LINGER_SEED_DEMO: optionalBool,
   LINGER_SECURE_COOKIES: bool(false),
   LINGER_POOL_SIZE: z.coerce.number().int().min(1).max(64).optional(),
+  /** Nice value of simulation threads (Linux; 0 leaves their priority alone): see server/compute/thread-priority.ts. */
+  LINGER_WORKER_NICE: z.coerce.number().int().min(0).max(19).optional(),
   /** SMTP URL of a real mail server; without it a local fake SMTP server keeps mail in the outbox. */
   LINGER_SMTP_URL: z.string().optional(),
   LINGER_MAIL_FROM: z.string().default("Linger <linger@example.org>"),

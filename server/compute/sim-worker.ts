@@ -8,6 +8,10 @@ import { Piscina } from "piscina";
 import { simulateChunk, prepareRun, type ChunkResult } from "@/sim";
 import { packPulseStats, type PackedPulseStats } from "@/sim/engine/pulse-columns";
 import type { SimTask } from "./sim-task";
+import { lowerThreadPriority } from "./thread-priority";
+
+// Simulation yields the CPU to the HTTP thread (docs/runs.md).
+lowerThreadPriority();
 
 export type WorkerChunkResult = ChunkResult & {
   /** Set in the worker thread: the pulses as columns (pool.ts unpacks them into `pulses` on arrival). */
