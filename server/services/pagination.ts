@@ -35,36 +35,8 @@ export function decodeCursor(cursor: string, length?: number): SortKey {
   return key as SortKey;
 }
 
-/** Lexicographic comparison of two sort keys (numbers before strings never mix: keys have fixed types). */
-export function compareKeys(a: SortKey, b: SortKey): number {
-  for (let i = 0; i < a.length; i++) {
-    const x = a[i];
-    const y = b[i];
-    if (x === y) continue;
-    return x < y ? -1 : 1;
-  }
-  return 0;
-}
-
 export function pageLimit(q: PageQuery): number {
   return q.limit ?? PAGE_SIZE;
-}
-
-/**
- * One page of a list already in memory (small per-lab lists): sorted by `keyOf`
- * ascending (make a field descending by negating a number), the items after
- * the cursor, at most the limit.
- */
-export function pageInMemory<T>(all: T[], keyOf: (t: T) => SortKey, q: PageQuery): Page<T> {
-  const limit = pageLimit(q);
-  const keyed = all.map((item) => ({ item, key: keyOf(item) })).sort((a, b) => compareKeys(a.key, b.key));
-  const after = q.cursor ? decodeCursor(q.cursor, keyed[0]?.key.length) : null;
-  const rest = after ? keyed.filter((k) => compareKeys(k.key, after) > 0) : keyed;
-  const page = rest.slice(0, limit);
-  return {
-    items: page.map((k) => k.item),
-    nextCursor: rest.length > limit ? encodeCursor(page[page.length - 1].key) : null,
-  };
 }
 
 /** From `limit + 1` rows fetched after the cursor: the page and the next cursor. */

@@ -6,7 +6,7 @@
  * past it), stored in `regime_maps`; boundary refinement of maps; design
  * targets evaluated on sweeps and maps.
  */
-import { and, asc, desc, eq, sql } from "drizzle-orm";
+import { and, eq } from "drizzle-orm";
 import type { AppContext } from "@/server/context";
 import { schema } from "@/db/client";
 import { API_LIMITS, type LaunchSweep } from "@/shared/schemas/api-runs";
@@ -21,7 +21,7 @@ import type { RunSpec } from "@/shared/schemas/run-spec";
 import type { RunSummary } from "@/shared/schemas/analysis";
 import type { RegimeVerdictView } from "@/shared/schemas/regime";
 import { REGIME_MAP_POINTS_PER_TASK } from "@/server/compute/compute-service";
-import { badRequest, conflict, notFound } from "@/server/http-error";
+import { conflict, notFound } from "@/server/http-error";
 import { newId } from "@/server/ids";
 import { refinementPoints, refinementSeed } from "@/sim/regimes/refine-map";
 import {
@@ -32,7 +32,7 @@ import {
 } from "@/sim/regimes/design-target";
 import { replicateVerdicts, type ReplicateFigures } from "@/sim/regimes/replicate-figures";
 import { gridCount, planPoints, pointSpec, sweepDetail } from "./sweeps.service";
-import { decodeCursor, pageFromRows, pageLimit } from "./pagination";
+import { keyset, pageLimit } from "./pagination";
 import type { Page, PageQuery } from "@/shared/schemas/pagination";
 
 type Axes = { parameter: string; values: number[] }[];
@@ -91,30 +91,25 @@ export function regimeMapDetail(ctx: AppContext, id: string): RegimeMapDetail {
   };
 }
 
+const mapOrder = keyset([
+  { col: schema.regimeMaps.createdAt, dir: "desc", type: "number" },
+  { col: schema.regimeMaps.id, dir: "asc", type: "string" },
+]);
+
 /** One page of the lab's regime maps, newest first (keyset on created time descending, id). */
 export function listRegimeMaps(ctx: AppContext, labId: string, q: PageQuery = {}): Page<RegimeMapListItem> {
   const t = schema.regimeMaps;
-  const conds = [eq(t.labId, labId)];
-  if (q.cursor) {
-    const [negCreated, id] = decodeCursor(q.cursor, 2);
-    if (typeof negCreated !== "number" || typeof id !== "string")
-      throw badRequest("Invalid query: cursor: not a cursor from this list; start again without it.", [
-        { path: "cursor", message: "not a cursor from this list" },
-      ]);
-    conds.push(sql`(${t.createdAt} < ${-negCreated} OR (${t.createdAt} = ${-negCreated} AND ${t.id} > ${id}))`);
-  }
-  const limit = pageLimit(q);
   const rows = ctx.db
     .select()
     .from(t)
-    .where(and(...conds))
-    .orderBy(desc(t.createdAt), asc(t.id))
-    .limit(limit + 1)
+    .where(and(eq(t.labId, labId), mapOrder.after(q.cursor)))
+    .orderBy(...mapOrder.orderBy)
+    .limit(pageLimit(q) + 1)
     .all();
-  return pageFromRows(
+  return mapOrder.page(
     rows,
-    limit,
-    (r) => [-r.createdAt.getTime(), r.id],
+    q,
+    (r) => [r.createdAt.getTime(), r.id],
     (page) =>
       page.map((r) => {
         const axes = r.axes as Axes;

@@ -5,7 +5,7 @@
  * A cancelled or interrupted sweep resumes from the points (and chunks) it has.
  */
 import type { RegimeLabelValue } from "@/shared/schemas/regime";
-import { and, asc, count, desc, eq, inArray, isNull, sql } from "drizzle-orm";
+import { and, asc, count, eq, inArray, isNull } from "drizzle-orm";
 import type { AppContext } from "@/server/context";
 import { inTransaction, schema } from "@/db/client";
 import { API_LIMITS, type LaunchSweep, type SweepDetail, type SweepListItem } from "@/shared/schemas/api-runs";
@@ -16,7 +16,7 @@ import { newId } from "@/server/ids";
 import { buildSpec, checkThresholds, insertRun, resolveInputs } from "./runs.service";
 import { assertRestorable } from "./undo";
 import { refinementPoints, refinementSeed } from "@/sim/regimes/refine-map";
-import { decodeCursor, pageFromRows, pageLimit } from "./pagination";
+import { keyset, pageLimit } from "./pagination";
 import type { Page, PageQuery } from "@/shared/schemas/pagination";
 
 export function axisValues(axis: LaunchSweep["axes"][number]): number[] {
@@ -322,30 +322,25 @@ export function sweepDetail(ctx: AppContext, sweepId: string): SweepDetail {
   };
 }
 
+const sweepOrder = keyset([
+  { col: schema.sweeps.createdAt, dir: "desc", type: "number" },
+  { col: schema.sweeps.id, dir: "asc", type: "string" },
+]);
+
 /** One page of the lab's sweeps, newest first (ties by id); keyset on (created time descending, id). */
 export function listSweeps(ctx: AppContext, labId: string, q: PageQuery = {}): Page<SweepListItem> {
   const sw = schema.sweeps;
-  const conds = [eq(sw.labId, labId), isNull(sw.deletedAt)];
-  if (q.cursor) {
-    const [negCreated, id] = decodeCursor(q.cursor, 2);
-    if (typeof negCreated !== "number" || typeof id !== "string")
-      throw badRequest("Invalid query: cursor: not a cursor from this list; start again without it.", [
-        { path: "cursor", message: "not a cursor from this list" },
-      ]);
-    conds.push(sql`(${sw.createdAt} < ${-negCreated} OR (${sw.createdAt} = ${-negCreated} AND ${sw.id} > ${id}))`);
-  }
-  const limit = pageLimit(q);
   const rows = ctx.db
     .select()
     .from(sw)
-    .where(and(...conds))
-    .orderBy(desc(sw.createdAt), asc(sw.id))
-    .limit(limit + 1)
+    .where(and(eq(sw.labId, labId), isNull(sw.deletedAt), sweepOrder.after(q.cursor)))
+    .orderBy(...sweepOrder.orderBy)
+    .limit(pageLimit(q) + 1)
     .all();
-  return pageFromRows(
+  return sweepOrder.page(
     rows,
-    limit,
-    (s) => [-s.createdAt.getTime(), s.id],
+    q,
+    (s) => [s.createdAt.getTime(), s.id],
     (page) =>
       page.map((s) => {
         const done = ctx.db
