@@ -9,7 +9,8 @@
  * seconds: the server's own startedAt -> finishedAt of the run (queue, pool,
  *   storage and finalisation).
  * engineSeconds: the same replicates through the same engine call on a pool of
- *   the same size, without queue, database or HTTP (runEngineBench).
+ *   the same size, without queue, database or HTTP (runEngineBench), measured
+ *   after the server run or, with engineFirst, before it.
  * overheadRatio: seconds / engineSeconds (target: at most 1.10).
  * Default pool: every core, the server's default.
  */
@@ -54,11 +55,36 @@ const p95 = (xs: number[]) => {
   return s[Math.min(s.length - 1, Math.ceil(0.95 * s.length) - 1)];
 };
 
-export async function runEndToEndBench(opts: { replicates?: number; threads?: number } = {}): Promise<EndToEndResult> {
+export async function runEndToEndBench(
+  opts: {
+    replicates?: number;
+    threads?: number;
+    /** Measure the engine alone before the server, not after (alternate it across repetitions: neither goes always second). */
+    engineFirst?: boolean;
+  } = {},
+): Promise<EndToEndResult> {
   const replicates = opts.replicates ?? 10_000;
   const threads = opts.threads ?? Math.max(1, os.availableParallelism());
-  const spec = loadSpecFile(DEFAULT_BENCH_SPEC, { replicates });
+  // The engine alone on a pool of the same size, warmed as little as the server's (spec compiled, no throwaway
+  // replicates), so the ratio compares like with like; never while the server runs.
+  const engineAlone = async () => (await runEngineBench({ threads: [threads], replicates, warmUpReplicates: 0 }))[0];
+  const first = opts.engineFirst ? await engineAlone() : null;
+  const measured = await throughServer(replicates, threads);
+  const engine = first ?? (await engineAlone());
+  return {
+    replicates,
+    threads,
+    ...measured,
+    engineSeconds: engine.seconds,
+    overheadRatio: measured.seconds / engine.seconds,
+  };
+}
 
+async function throughServer(
+  replicates: number,
+  threads: number,
+): Promise<Omit<EndToEndResult, "replicates" | "threads" | "engineSeconds" | "overheadRatio">> {
+  const spec = loadSpecFile(DEFAULT_BENCH_SPEC, { replicates });
   let measured: Omit<EndToEndResult, "replicates" | "threads" | "engineSeconds" | "overheadRatio">;
   const server = await startServerProcess({
     env: { LINGER_SEED_DEMO: "0", LINGER_POOL_SIZE: String(threads), LINGER_TEST: "1" },
@@ -137,14 +163,5 @@ export async function runEndToEndBench(opts: { replicates?: number; threads?: nu
   } finally {
     await server.stop();
   }
-  // The engine alone, after the server has stopped, on a pool of the same size, warmed as little as the server's
-  // (spec compiled, no throwaway replicates), so the ratio compares like with like.
-  const [engine] = await runEngineBench({ threads: [threads], replicates, warmUpReplicates: 0 });
-  return {
-    replicates,
-    threads,
-    ...measured,
-    engineSeconds: engine.seconds,
-    overheadRatio: measured.seconds / engine.seconds,
-  };
+  return measured;
 }

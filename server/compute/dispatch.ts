@@ -64,7 +64,7 @@ export function createInProcessDispatcher(pool: SimPool): ChunkDispatcher {
   const rate = createRateMeter();
   return {
     mode: "embedded",
-    capacity: () => Math.max(1, pool.threads),
+    capacity: () => Math.max(1, pool.capacity),
     async run(job) {
       inFlight++;
       try {
@@ -78,7 +78,7 @@ export function createInProcessDispatcher(pool: SimPool): ChunkDispatcher {
     stats: () => ({
       mode: "embedded",
       redis: null,
-      window: Math.max(1, pool.threads),
+      window: Math.max(1, pool.capacity),
       inFlight,
       queueDepth: 0,
       chunksPerSecond: rate.perSecond(),

@@ -21,8 +21,17 @@ export interface SimPool {
   /** Compiles the spec in every thread and runs a few throwaway replicates (so timing starts with warm caches and JIT). */
   warmUp(spec: RunSpec, opts?: { replicates?: number }): Promise<void>;
   threads: number;
+  /**
+   * Chunks that may be out at once: two per thread, so each thread has its next chunk queued at its own port
+   * and starts it the moment it finishes one, not when the main thread (writing a chunk to SQLite, answering
+   * HTTP) gets round to handing it one.
+   */
+  capacity: number;
   destroy(): Promise<void>;
 }
+
+/** Tasks handed to a thread at once (it runs them one after another). */
+const TASKS_PER_THREAD = 2;
 
 export function createSimPool(opts: { threads: number; idleTimeoutMs?: number }): SimPool {
   const threads = Math.max(1, Math.floor(opts.threads));
@@ -31,10 +40,12 @@ export function createSimPool(opts: { threads: number; idleTimeoutMs?: number })
     execArgv: ["--import", "tsx"],
     minThreads: threads,
     maxThreads: threads,
+    concurrentTasksPerWorker: TASKS_PER_THREAD,
     idleTimeout: opts.idleTimeoutMs ?? 60_000,
   });
   return {
     threads,
+    capacity: threads * TASKS_PER_THREAD,
     async runChunk(task, runOpts = {}) {
       const result: WorkerChunkResult = await piscina.run(task);
       if (result.packedPulses && !runOpts.keepPacked) {
@@ -44,17 +55,22 @@ export function createSimPool(opts: { threads: number; idleTimeoutMs?: number })
       return result;
     },
     async warmUp(spec, warmOpts = {}) {
-      const tasks: Promise<unknown>[] = [];
-      for (let i = 0; i < threads; i++)
-        tasks.push(
-          piscina.run({
-            spec,
-            replicateStart: 0,
-            count: 0,
-            warmUp: { holdMs: threads > 1 ? 100 : 0, replicates: warmOpts.replicates ?? 3 },
-          } satisfies SimTask),
-        );
-      await Promise.all(tasks);
+      // A thread not started yet when the tasks go out leaves its share to a started one (two tasks per
+      // thread): rounds go on until every thread has compiled the spec and run its throwaway replicates.
+      const warm = new Set<number>();
+      for (let round = 0; round < 20 && warm.size < threads; round++) {
+        const tasks: Promise<{ threadId?: number }>[] = [];
+        for (let i = warm.size; i < threads; i++)
+          tasks.push(
+            piscina.run({
+              spec,
+              replicateStart: 0,
+              count: 0,
+              warmUp: { holdMs: threads > 1 ? 100 : 0, replicates: warmOpts.replicates ?? 3 },
+            } satisfies SimTask),
+          );
+        for (const r of await Promise.all(tasks)) if (r.threadId !== undefined) warm.add(r.threadId);
+      }
     },
     destroy: () => piscina.destroy(),
   };

@@ -51,13 +51,16 @@ export async function runAllChunks(
   let chain = Promise.resolve();
   await Promise.all(
     layout.chunks.map((c) =>
-      pool.runChunk({ spec, replicateStart: c.replicateStart, count: c.count, options }).then((r) => {
-        done += c.count;
-        opts.onProgress?.(done, spec.replicates);
-        pending.set(c.index, r);
-        chain = chain.then(flush);
-        return chain;
-      }),
+      // Without onChunk nobody reads the records: the pulse columns stay packed (no unpacking on this thread).
+      pool
+        .runChunk({ spec, replicateStart: c.replicateStart, count: c.count, options }, { keepPacked: !opts.onChunk })
+        .then((r) => {
+          done += c.count;
+          opts.onProgress?.(done, spec.replicates);
+          pending.set(c.index, r);
+          chain = chain.then(flush);
+          return chain;
+        }),
     ),
   );
   await chain;

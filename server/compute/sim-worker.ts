@@ -4,6 +4,7 @@
  * checkpoint (sim/ has no clock) and returns the result with its typed arrays
  * (the pulse records packed as columns among them) transferred rather than copied.
  */
+import { threadId } from "node:worker_threads";
 import { Piscina } from "piscina";
 import { simulateChunk, prepareRun, type ChunkResult } from "@/sim";
 import { packPulseStats, type PackedPulseStats } from "@/sim/engine/pulse-columns";
@@ -46,7 +47,7 @@ export default function simWorker(task: SimTask): unknown {
     const hold = task.warmUp.holdMs ?? 0;
     if (hold > 0) Atomics.wait(new Int32Array(new SharedArrayBuffer(4)), 0, 0, hold);
     // A few throwaway replicates let the JIT optimise this thread's generated kernel before timing starts.
-    return simulateChunk(task.spec, 0, task.warmUp.replicates ?? 0);
+    return { ...simulateChunk(task.spec, 0, task.warmUp.replicates ?? 0), threadId };
   }
   const limit = task.wallTimeLimitMs;
   const deadline = limit !== undefined && limit > 0 ? Date.now() + limit : Infinity;
