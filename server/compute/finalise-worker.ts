@@ -15,6 +15,11 @@
  *   labels (deterministic and stochastic, docs/regimes.md) and the hash. Either
  *   way the result is byte for byte the same (tests/server/compute/finalise-ingest.test.ts);
  *   the server writes it in one transaction.
+ * - "prepare" (sent when a run's first chunk goes out): the part of the
+ *   finalisation that needs only the spec (threshold, ODE overlay, the
+ *   behaviour labels' ensembles and mean-field work: sim/analysis/finalise-run.ts
+ *   prepareFinalise), done while the replicates compute; "finalise" from
+ *   ingested chunks then only summarises. Same bytes as without it.
  * - "drop": forget a run's ingested state (cancelled or failed).
  */
 import Database from "better-sqlite3";
@@ -27,7 +32,7 @@ import type { RunSummary } from "@/shared/schemas/analysis";
 import { OdeBudget, createGridReducer, withOdeBudget, type GridPartial } from "@/sim";
 import type { ReplicateFigures } from "@/sim/regimes/replicate-figures";
 import type { RunRegime } from "@/sim/regimes";
-import { finaliseRun } from "@/sim/analysis";
+import { completeFinalise, finaliseRun, prepareFinalise, type PreparedFinalise } from "@/sim/analysis";
 import { unpackPulseStats, type PackedPulseStats } from "@/sim/engine/pulse-columns";
 import {
   createStatsHasher,
@@ -62,12 +67,20 @@ export interface IngestTask {
   gridCount: Float64Array;
 }
 
+export interface PrepareTask {
+  kind: "prepare";
+  runId: string;
+  /** Chunks in the run's layout. */
+  chunks: number;
+  spec: RunSpec;
+}
+
 export interface DropTask {
   kind: "drop";
   runId: string;
 }
 
-export type FinaliserTask = FinaliseTask | IngestTask | DropTask;
+export type FinaliserTask = FinaliseTask | IngestTask | PrepareTask | DropTask;
 
 export interface FinaliseResult {
   series: { species: string; kind: "mean" | "sd" | "ode"; values: Uint8Array }[];
@@ -79,6 +92,8 @@ export interface FinaliseResult {
   replicateFigures: ReplicateFigures;
   /** Where the rows came from: the chunks ingested as they were stored, or SQLite. */
   source: "ingested" | "database";
+  /** The spec's part (threshold, ODE overlay, behaviour ensembles) was computed ahead by a "prepare" task. */
+  preparedAhead: boolean;
 }
 
 /** Computing time and ODE steps the ODE work of one finalisation (overlay, threshold, regime) may take. */
@@ -97,6 +112,8 @@ interface Reduction {
   hasher: ReturnType<typeof createStatsHasher>;
   replicates: StoredReplicate[];
   pulses: PulseStat[];
+  /** prepareFinalise's result for the run's spec (or what it threw), when a "prepare" task came. */
+  prepared?: { spec: RunSpec; value: PreparedFinalise } | { spec: RunSpec; error: Error };
 }
 
 const reductions = new Map<string, Reduction>();
@@ -135,6 +152,28 @@ function ingest(task: IngestTask): void {
   }
 }
 
+function prepare(task: PrepareTask): void {
+  let r = reductions.get(task.runId);
+  if (!r) reductions.set(task.runId, (r = newReduction(task.spec, task.chunks)));
+  if (r.prepared) return;
+  const budget = finaliseBudget();
+  try {
+    r.prepared = { spec: task.spec, value: withOdeBudget(budget, () => prepareFinalise(task.spec)) };
+  } catch (e) {
+    r.prepared = { spec: task.spec, error: e as Error };
+  }
+}
+
+/** The ODE budget of one finalisation (prepared ahead or not). */
+function finaliseBudget(): OdeBudget {
+  const deadline = Date.now() + FINALISE_ODE_WALL_MS;
+  return new OdeBudget({
+    maxSteps: FINALISE_ODE_STEPS,
+    checkpoint: () => Date.now() < deadline,
+    wallSeconds: FINALISE_ODE_WALL_MS / 1000,
+  });
+}
+
 /** The whole reduction from SQLite: the stored chunks in chunk order, then every row in index order. */
 function reduceFromDatabase(db: Db, spec: RunSpec, runId: string, chunks: number): Reduction {
   const r = newReduction(spec, chunks);
@@ -169,25 +208,23 @@ function finalise(task: FinaliseTask): FinaliseResult {
       !task.fromDatabase && ingested !== undefined && ingested.next === ingested.chunks && stored === ingested.chunks;
     const r = complete ? ingested : reduceFromDatabase(db, spec, task.runId, stored);
     const { mean, sd } = r.grid.result();
-    const deadline = Date.now() + FINALISE_ODE_WALL_MS;
-    const budget = new OdeBudget({
-      maxSteps: FINALISE_ODE_STEPS,
-      checkpoint: () => Date.now() < deadline,
-      wallSeconds: FINALISE_ODE_WALL_MS / 1000,
-    });
-    const { ode, odeNote, summary, regime, replicateFigures } = withOdeBudget(budget, () =>
-      finaliseRun({
-        spec,
-        pulses: r.pulses,
-        replicates: r.replicates.map((x) => ({
-          replicate: x.replicate,
-          events: x.events,
-          capped: x.capped,
-          outputMean: x.outputMean ?? NaN,
-          outputVar: x.outputVar ?? NaN,
-        })),
-      }),
-    );
+    const input = {
+      spec,
+      pulses: r.pulses,
+      replicates: r.replicates.map((x) => ({
+        replicate: x.replicate,
+        events: x.events,
+        capped: x.capped,
+        outputMean: x.outputMean ?? NaN,
+        outputVar: x.outputVar ?? NaN,
+      })),
+    };
+    // Prepared ahead for this very spec (the stored one), or everything now.
+    const prepared = complete && r.prepared && sameSpec(r.prepared.spec, spec) ? r.prepared : undefined;
+    if (prepared && "error" in prepared) throw prepared.error;
+    const { ode, odeNote, summary, regime, replicateFigures } = prepared
+      ? completeFinalise(prepared.value, input)
+      : withOdeBudget(finaliseBudget(), () => finaliseRun(input));
     const series = gridSeries(spec, mean, sd, ode);
     return {
       series,
@@ -198,13 +235,20 @@ function finalise(task: FinaliseTask): FinaliseResult {
       capped: r.replicates.some((x) => x.capped),
       odeNote,
       source: complete ? "ingested" : "database",
+      preparedAhead: prepared !== undefined,
     };
   } finally {
     sqlite.close();
   }
 }
 
+const sameSpec = (a: RunSpec, b: RunSpec) => JSON.stringify(a) === JSON.stringify(b);
+
 export default function finaliser(task: FinaliserTask): FinaliseResult | null {
+  if (task.kind === "prepare") {
+    prepare(task);
+    return null;
+  }
   if (task.kind === "ingest") {
     ingest(task);
     return null;

@@ -22,7 +22,7 @@ import { chunkLayout, gridTimes } from "@/sim";
 import type { SimPool } from "@/server/compute/pool";
 import { createInProcessDispatcher, type ChunkDispatcher, type DispatchStats } from "@/server/compute/dispatch";
 import { newFeedState, pickNextChunk } from "@/server/compute/feed-window";
-import type { DropTask, FinaliseResult, FinaliseTask, IngestTask } from "@/server/compute/finalise-worker";
+import type { DropTask, FinaliseResult, FinaliseTask, IngestTask, PrepareTask } from "@/server/compute/finalise-worker";
 import { packPulseStats } from "@/sim/engine/pulse-columns";
 import { createChunkWriter, readChunks, speciesNames } from "./run-store";
 import { recordAudit } from "@/server/services/audit.service";
@@ -78,6 +78,8 @@ interface ActiveRun {
   stopped: boolean;
   /** Chunks are reduced ahead in the finalising thread (not for a resumed run: it reads its rows back). */
   ingesting: boolean;
+  /** The finalising thread was asked to prepare the run's finalisation (with its first chunk). */
+  prepareSent: boolean;
 }
 
 export interface RunQueueOptions {
@@ -213,6 +215,7 @@ export function createRunQueue(opts: RunQueueOptions): RunQueue {
       sessionStart: Date.now(),
       stopped: false,
       ingesting: stored.size === 0,
+      prepareSent: false,
     };
     active.set(row.id, run);
     // Found "running" but not active here: the server stopped during the run. Keep that in the run's history,
@@ -270,6 +273,7 @@ export function createRunQueue(opts: RunQueueOptions): RunQueue {
     const chunk = run.chunks[chunkIndex];
     inFlight++;
     run.inFlight++;
+    if (run.ingesting && !run.prepareSent) prepareAhead(run);
     const t0 = performance.now();
     dispatcher
       .run({
@@ -374,6 +378,18 @@ export function createRunQueue(opts: RunQueueOptions): RunQueue {
       .catch((e: Error) =>
         log(`run ${run.id}: chunk ${chunkIndex} not reduced ahead (${e.message}); finalisation reads it back`),
       );
+  }
+
+  /**
+   * With the run's first chunk: the finalising thread computes the spec's part of the finalisation (threshold,
+   * ODE overlay, the behaviour labels' ensembles) while the replicates compute. Speed only: the finalisation
+   * does it all itself when this did not happen.
+   */
+  function prepareAhead(run: ActiveRun) {
+    run.prepareSent = true;
+    finaliser
+      .run({ kind: "prepare", runId: run.id, chunks: run.chunks.length, spec: run.spec } satisfies PrepareTask)
+      .catch((e: Error) => log(`run ${run.id}: finalisation not prepared ahead (${e.message})`));
   }
 
   /** Frees what the finalising thread holds for a run that will not finalise. */

@@ -15,7 +15,7 @@ import { resolveThreshold, type ResolvedThreshold } from "@/sim/engine/resolve-t
 import { runSetup } from "@/sim/engine/run-setup";
 import { solveOde } from "@/sim/ode/solve-ode";
 import { odeBudget, withOdeBudget } from "@/sim/ode/ode-budget";
-import { runRegime, type RunRegime } from "@/sim/regimes";
+import { prepareRunRegime, settleRunRegime, type PreparedRunRegime, type RunRegime } from "@/sim/regimes";
 import { replicateFigures, type ReplicateFigures } from "@/sim/regimes/replicate-figures";
 import { runSettingsBlock } from "./run-settings";
 import { summarizeRun, type ReplicateTotals } from "./summarize-run";
@@ -45,12 +45,35 @@ export interface FinalisedRun {
  * one (the server's finalisation worker sets steps and wall time) or one default budget.
  */
 export function finaliseRun(input: FinaliseRunInput): FinalisedRun {
-  return withOdeBudget(odeBudget(), () => finaliseUnderBudget(input));
+  return withOdeBudget(odeBudget(), () =>
+    completeFinaliseUnderBudget(prepareFinaliseUnderBudget(input.spec, input.threshold), input),
+  );
 }
 
-function finaliseUnderBudget(input: FinaliseRunInput): FinalisedRun {
-  const { spec } = input;
-  const threshold = input.threshold ?? resolveThreshold(spec);
+/**
+ * The part of finaliseRun that needs only the spec: the threshold, the ODE overlay and the behaviour labels
+ * but for their pass-curve rule (the ensembles: most of the cost), in finaliseRun's order and under one budget
+ * (the ambient one or a default), so the server can compute it while the run's replicates are still computing.
+ * completeFinalise then gives exactly finaliseRun's result.
+ */
+export interface PreparedFinalise {
+  threshold: ResolvedThreshold;
+  ode: Float64Array | null;
+  odeNote: string | null;
+  regime: PreparedRunRegime | { failed: string };
+}
+
+export function prepareFinalise(spec: RunSpec, threshold?: ResolvedThreshold): PreparedFinalise {
+  return withOdeBudget(odeBudget(), () => prepareFinaliseUnderBudget(spec, threshold));
+}
+
+/** finaliseRun's result from prepareFinalise's (same spec) and the run's records; solves no ODE. */
+export function completeFinalise(prepared: PreparedFinalise, input: Omit<FinaliseRunInput, "threshold">): FinalisedRun {
+  return completeFinaliseUnderBudget(prepared, input);
+}
+
+function prepareFinaliseUnderBudget(spec: RunSpec, given: ResolvedThreshold | undefined): PreparedFinalise {
+  const threshold = given ?? resolveThreshold(spec);
   let ode: Float64Array | null = null;
   let odeNote: string | null = null;
   try {
@@ -58,6 +81,25 @@ function finaliseUnderBudget(input: FinaliseRunInput): FinalisedRun {
   } catch (e) {
     odeNote = (e as Error).message;
   }
+  let regime: PreparedFinalise["regime"];
+  try {
+    regime = prepareRunRegime(runSetup(spec).model, threshold.theta, {
+      seed: spec.seed,
+      hysteresis: threshold.hysteresis,
+      outputLifetimeMinutes: threshold.outputLifetimeMinutes,
+    });
+  } catch (e) {
+    regime = { failed: `not classified: ${(e as Error).message}` };
+  }
+  return { threshold, ode, odeNote, regime };
+}
+
+function completeFinaliseUnderBudget(
+  prepared: PreparedFinalise,
+  input: Omit<FinaliseRunInput, "threshold">,
+): FinalisedRun {
+  const { spec } = input;
+  const { threshold, ode, odeNote } = prepared;
   const summary = summarizeRun({
     pulses: input.pulses,
     replicates: input.replicates,
@@ -68,16 +110,14 @@ function finaliseUnderBudget(input: FinaliseRunInput): FinalisedRun {
   });
   let regime: RunRegime;
   try {
+    if ("failed" in prepared.regime) throw new Error(prepared.regime.failed);
     const passCurve = spec.program
       ? summary.byDuration.map((b) => ({ durationMinutes: b.duration, passed: b.passed, counted: b.pulses }))
       : undefined;
-    regime = runRegime(runSetup(spec).model, threshold.theta, passCurve, {
-      seed: spec.seed,
-      hysteresis: threshold.hysteresis,
-      outputLifetimeMinutes: threshold.outputLifetimeMinutes,
-    });
+    regime = settleRunRegime(prepared.regime, passCurve);
   } catch (e) {
-    const unclear = { label: "unclear" as const, evidence: {}, reason: `not classified: ${(e as Error).message}` };
+    const reason = "failed" in prepared.regime ? prepared.regime.failed : `not classified: ${(e as Error).message}`;
+    const unclear = { label: "unclear" as const, evidence: {}, reason };
     regime = { deterministic: unclear, stochastic: unclear };
   }
   const perReplicate = replicateFigures(input.pulses, { longMinutes: summary.delayCost?.minDurationMinutes ?? null });

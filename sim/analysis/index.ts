@@ -3,7 +3,14 @@ export { summarizeRun, MOST_REPLICATES, type SummarizeRunInput, type ReplicateTo
 export { summarizeDelays, medianStatus } from "./delay-summary";
 export { methodLabel } from "./method-label";
 export { runSettingsBlock } from "./run-settings";
-export { finaliseRun, type FinaliseRunInput, type FinalisedRun } from "./finalise-run";
+export {
+  completeFinalise,
+  finaliseRun,
+  prepareFinalise,
+  type FinaliseRunInput,
+  type FinalisedRun,
+  type PreparedFinalise,
+} from "./finalise-run";
 export { evaluablePulses, delaysOf, widthsOf, windowEnds } from "./pulse-selection";
 export { ks2, wasserstein1, wilson } from "@/sim/stats";
 export { compareRuns, type RunToCompare } from "./compare-runs";

@@ -15,12 +15,12 @@
  */
 import type { CompiledModel } from "@/sim/circuit/compile-model";
 import { deriveParams } from "@/sim/circuit/compile-model";
-import type { RegimeVerdict } from "./labels";
+import type { PassCurvePending, RegimeVerdict } from "./labels";
 import { OdeBudgetError } from "@/sim/ode/ode-budget";
 import { findSteadyStates, turnoverMinutes, type SteadyStateSearch } from "./steady-states";
 import { measureCycle, type CycleMeasure } from "./sustained-cycle";
 import { stepResponse } from "./step-response";
-import { passCurveVerdict, type PassCurvePoint } from "./pass-curve-rule";
+import { settlePassCurve, type PassCurvePoint } from "./pass-curve-rule";
 import { meanFieldRhs } from "@/sim/ode/mean-field";
 
 export interface DeterministicInput {
@@ -54,6 +54,13 @@ interface Condition {
 }
 
 export function classifyDeterministic(input: DeterministicInput): RegimeVerdict {
+  return settlePassCurve(classifyDeterministicBeforePassCurve(input), input.passCurve);
+}
+
+/** Every rule but the pass curve's and steady's (settlePassCurve adds those): the mean-field work needs no replicates. */
+export function classifyDeterministicBeforePassCurve(
+  input: Omit<DeterministicInput, "passCurve">,
+): RegimeVerdict | PassCurvePending {
   const { model } = input;
   const p = Float64Array.from(input.params ?? model.baseParams);
   deriveParams(model, p);
@@ -196,11 +203,12 @@ export function classifyDeterministic(input: DeterministicInput): RegimeVerdict 
         },
       };
   }
-  if (input.passCurve) {
-    const v = passCurveVerdict(input.passCurve);
-    if (v) return { label: v.label, evidence: { ...allEvidence, ...stepEvidence, ...v.evidence } };
-  }
-  return { label: "steady", evidence: { ...allEvidence, ...stepEvidence } };
+  // the pass curve (settlePassCurve), else steady
+  return {
+    pendingPassCurve: true,
+    passCurveBase: { ...allEvidence, ...stepEvidence },
+    steady: { label: "steady", evidence: { ...allEvidence, ...stepEvidence } },
+  };
 }
 
 /** A point just off the first unstable steady state (for the cycle check when every start settled on roots). */

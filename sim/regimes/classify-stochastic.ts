@@ -34,12 +34,12 @@
 import type { CompiledModel } from "@/sim/circuit/compile-model";
 import { deriveParams } from "@/sim/circuit/compile-model";
 import { outputRemovalRate } from "@/sim/engine/resolve-threshold";
-import type { RegimeVerdict } from "./labels";
+import type { PassCurvePending, RegimeVerdict } from "./labels";
 import { findSteadyStates, turnoverMinutes } from "./steady-states";
 import { simulateEnsemble, type Ensemble } from "./ensemble";
 import { acfRinging, amplitudeSpread, pooledAutocorrelation } from "./autocorrelation";
 import { dwellTimes } from "./dwell-times";
-import { passCurveVerdict, type PassCurvePoint } from "./pass-curve-rule";
+import { settlePassCurve, type PassCurvePoint } from "./pass-curve-rule";
 
 export interface StochasticInput {
   model: CompiledModel;
@@ -87,6 +87,13 @@ interface Window {
 }
 
 export function classifyStochastic(input: StochasticInput): RegimeVerdict {
+  return settlePassCurve(classifyStochasticBeforePassCurve(input), input.passCurve);
+}
+
+/** Every rule but the pass curve's and steady's (settlePassCurve adds those): the ensembles need no replicates. */
+export function classifyStochasticBeforePassCurve(
+  input: Omit<StochasticInput, "passCurve">,
+): RegimeVerdict | PassCurvePending {
   const { model } = input;
   const p = Float64Array.from(input.params ?? model.baseParams);
   deriveParams(model, p);
@@ -279,19 +286,19 @@ export function classifyStochastic(input: StochasticInput): RegimeVerdict {
   const quasi = cycles.find((c) => c?.ringing);
   if (quasi) return { label: "damped oscillation", evidence: { ...base, ...quasi.evidence, quasiCycles: 1 } };
 
-  // 6. the pass curve
-  if (input.passCurve) {
-    const v = passCurveVerdict(input.passCurve);
-    if (v) return { label: v.label, evidence: { ...base, ...v.evidence } };
-  }
+  // 6. the pass curve (settlePassCurve), else steady
   const c0 = cycles[0];
   return {
-    label: "steady",
-    evidence: {
-      ...base,
-      highestOutput: highest,
-      acfTrough: c0?.evidence.acfTrough ?? null,
-      acfFirstPeak: c0?.evidence.acfFirstPeak ?? null,
+    pendingPassCurve: true,
+    passCurveBase: base,
+    steady: {
+      label: "steady",
+      evidence: {
+        ...base,
+        highestOutput: highest,
+        acfTrough: c0?.evidence.acfTrough ?? null,
+        acfFirstPeak: c0?.evidence.acfFirstPeak ?? null,
+      },
     },
   };
 }

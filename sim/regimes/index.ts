@@ -5,4 +5,11 @@ export { classifyStochastic, type StochasticInput } from "./classify-stochastic"
 export { passCurveVerdict, type PassCurvePoint } from "./pass-curve-rule";
 export { eigenvalues, type Eigenvalue } from "./eigenvalues";
 export { findSteadyStates, type SteadyState } from "./steady-states";
-export { runRegime, type RunRegime, type RunRegimeOptions } from "./run-regime";
+export {
+  prepareRunRegime,
+  runRegime,
+  settleRunRegime,
+  type PreparedRunRegime,
+  type RunRegime,
+  type RunRegimeOptions,
+} from "./run-regime";

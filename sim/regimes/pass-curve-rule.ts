@@ -10,7 +10,7 @@
  * Otherwise null (the curve says neither).
  */
 import { wilson } from "@/sim/stats/wilson-interval";
-import type { RegimeVerdict } from "./labels";
+import { isPassCurvePending, type PassCurvePending, type RegimeVerdict } from "./labels";
 
 export interface PassCurvePoint {
   durationMinutes: number;
@@ -50,4 +50,17 @@ export function passCurveVerdict(points: PassCurvePoint[]): RegimeVerdict | null
   }
   if (pts.every((p) => p.lo >= ALMOST_ALWAYS_LOWER)) return { label: "follower", evidence };
   return null;
+}
+
+/** The last two rules of a classification (pass curve, then steady) on a verdict left pending for them. */
+export function settlePassCurve(
+  v: RegimeVerdict | PassCurvePending,
+  passCurve: PassCurvePoint[] | undefined,
+): RegimeVerdict {
+  if (!isPassCurvePending(v)) return v;
+  if (passCurve) {
+    const pc = passCurveVerdict(passCurve);
+    if (pc) return { label: pc.label, evidence: { ...v.passCurveBase, ...pc.evidence } };
+  }
+  return v.steady;
 }

@@ -15,7 +15,7 @@
  * Example: replicateFigures(pulses, { longMinutes: 30 }).passed[0] // passes of replicate 0 per duration
  */
 import type { PulseStat } from "@/shared/schemas/run-spec";
-import { normalizeDuration } from "@/sim/analysis/normalize-duration";
+import { durationNormalizer } from "@/sim/analysis/normalize-duration";
 import { API_LIMITS } from "@/shared/schemas/api-runs";
 import { meetsTarget, type DesignTarget, type TargetResult } from "./design-target";
 
@@ -40,6 +40,8 @@ export function replicateFigures(
   opts: { longMinutes: number | null; maxReplicates?: number },
 ): ReplicateFigures {
   const cap = opts.maxReplicates ?? MAX_REPLICATE_FIGURES;
+  // a run has few distinct durations and many pulses: each duration is normalised once
+  const normalizeDuration = durationNormalizer();
   const durations = [...new Set(pulses.map((p) => normalizeDuration(p.durationBin)))].sort((a, b) => a - b);
   const col = new Map(durations.map((d, i) => [d, i]));
   const reps = [...new Set(pulses.map((p) => p.replicate))].sort((a, b) => a - b).slice(0, cap);

@@ -116,19 +116,31 @@ test("finalising from chunks reduced as they arrive equals finalising from SQLit
     // The two storage paths stored the same rows.
     assert.deepEqual(readPulseStats(t.ctx.db, "run_ingest_a"), readPulseStats(t.ctx.db, "run_ingest_b"));
 
-    // Run a: every chunk ingested, out of order, chunk 0 twice.
+    // Run a: every chunk ingested, out of order, chunk 0 twice; the spec's part of the finalisation prepared
+    // ahead (as the run queue asks with the first chunk).
+    finaliser({ kind: "prepare", runId: "run_ingest_a", chunks: layout.chunks.length, spec });
     for (const i of [2, 0, 3, 0, 1]) finaliser(ingestTask("run_ingest_a", spec, i, results[i]));
     const ingested = finaliser({ kind: "finalise", dbPath: t.dbPath, runId: "run_ingest_a" })!;
     const fromDb = finaliser({ kind: "finalise", dbPath: t.dbPath, runId: "run_ingest_a", fromDatabase: true })!;
     assert.equal(ingested.source, "ingested");
+    assert.equal(ingested.preparedAhead, true);
     assert.equal(fromDb.source, "database");
+    assert.equal(fromDb.preparedAhead, false);
     assertSame(ingested, fromDb);
+    // The labels went through the pass-curve rule settled after the ensembles (a filter circuit with pulses).
+    assert.ok(ingested.summary.byDuration.length >= 2);
 
     // Run b: chunk 1 never ingested (say the thread restarted), so finalisation reads everything back.
     for (const i of [0, 2, 3]) finaliser(ingestTask("run_ingest_b", spec, i, results[i]));
     const partial = finaliser({ kind: "finalise", dbPath: t.dbPath, runId: "run_ingest_b" })!;
     assert.equal(partial.source, "database");
     assertSame(ingested, partial);
+    // Ingested in full but not prepared ahead: the finalisation does the spec's part itself.
+    for (const i of [0, 1, 2, 3]) finaliser(ingestTask("run_ingest_b", spec, i, results[i]));
+    const unprepared = finaliser({ kind: "finalise", dbPath: t.dbPath, runId: "run_ingest_b" })!;
+    assert.equal(unprepared.source, "ingested");
+    assert.equal(unprepared.preparedAhead, false);
+    assertSame(ingested, unprepared);
 
     // The CLI's hash of the same results in memory, and the hash of the stored rows once the series are stored.
     const { mean, sd } = reduceChunks(spec, results);
