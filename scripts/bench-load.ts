@@ -12,6 +12,7 @@
  * run is the second figure of docs/benchmarks.md (health p95 under 100 ms).
  */
 import os from "node:os";
+import { readFileSync } from "node:fs";
 import Database from "better-sqlite3";
 import { loadSpecFile } from "@/server/cli/load-spec";
 import { DEFAULT_BENCH_SPEC } from "./bench-engine";
@@ -24,6 +25,14 @@ export interface LoadEndpoint {
   p95Ms: number;
   requests: number;
   errors: number;
+  /**
+   * The server's HTTP thread CPU time per request of this endpoint alone, in ms: measured before the
+   * runs start, with no other client, over `costRequests` requests (4 at a time) after a warm-up.
+   * Load-independent to within the 10 ms tick of /proc over the whole batch. NaN without /proc.
+   */
+  cpuMsPerRequest: number;
+  /** The answer's size (JSON, before compression) in bytes. */
+  bytes: number;
 }
 export interface LoadResult {
   clients: number;
@@ -37,7 +46,32 @@ export interface LoadResult {
   loadAverageAfter: number[];
   cores: number;
   poolSize: number;
+  /**
+   * The server's HTTP thread (its main thread) CPU time per request, in ms: its CPU time over the
+   * measurement minus what it spent in a quiet window of the same runs computing just before (queue
+   * work), divided by the requests answered. Far less sensitive to machine load than latency. NaN
+   * where /proc is missing.
+   */
+  serverCpuMsPerRequest: number;
+  /** The same thread's CPU share (ms per s) in the quiet window (no clients, runs computing). */
+  serverBackgroundCpuMsPerS: number;
+  /** The load generator's own CPU time (this process, every thread) per request, in ms. */
+  clientCpuMsPerRequest: number;
 }
+
+/** CPU time (user + system) of one thread of a process, in ms, from /proc; NaN without /proc. */
+export function threadCpuMs(pid: number, tid = pid): number {
+  try {
+    const stat = readFileSync(`/proc/${pid}/task/${tid}/stat`, "utf8");
+    // Fields after the command name (which may hold spaces): state is field 3, utime 14, stime 15.
+    const f = stat.slice(stat.lastIndexOf(")") + 2).split(" ");
+    return ((Number(f[11]) + Number(f[12])) * 1000) / CLOCK_TICKS_PER_S;
+  } catch {
+    return NaN;
+  }
+}
+/** USER_HZ: 100 on every Linux build this runs on (`getconf CLK_TCK`). */
+const CLOCK_TICKS_PER_S = 100;
 
 const quantile = (xs: number[], q: number) => {
   if (!xs.length) return NaN;
@@ -59,6 +93,8 @@ export async function runLoadBench(
     targetMs?: number;
     /** Simulation threads (default: the server's own default, every core). */
     poolSize?: number;
+    /** Requests per endpoint for the CPU cost per request (default 400). */
+    costRequests?: number;
   } = {},
 ): Promise<LoadResult> {
   const clients = opts.clients ?? 50;
@@ -140,16 +176,49 @@ export async function runLoadBench(
     } finally {
       db.close();
     }
-    const running: string[] = [];
-    for (let i = 0; i < computing; i++) running.push(await launch(`computing ${i + 1}`, spec.replicates));
-    const cookies = await Promise.all(Array.from({ length: clients }, () => session()));
-
     const urls = [
       { endpoint: "GET /api/labs/:labId/runs (first page)", url: `${base}/api/labs/${labId}/runs`, target },
       { endpoint: "GET /api/runs/:id", url: `${base}/api/runs/${model}`, target },
       { endpoint: "GET /api/health", url: `${base}/api/health`, target },
     ].filter((u) => !opts.only || u.endpoint === "GET /api/health");
+    // CPU cost per request of each endpoint, alone, before anything computes.
+    const costRequests = opts.costRequests ?? 400;
+    const cpuMs: number[] = [];
+    const bytes: number[] = [];
+    for (const u of urls) {
+      bytes.push((await (await fetch(u.url, { headers: { cookie } })).arrayBuffer()).byteLength);
+      const batch = async (n: number) => {
+        let left = n;
+        await Promise.all(
+          Array.from({ length: 4 }, async () => {
+            while (left-- > 0) {
+              const r = await fetch(u.url, { headers: { cookie } });
+              await r.arrayBuffer();
+              if (!r.ok) throw new Error(`${u.endpoint}: ${r.status}`);
+            }
+          }),
+        );
+      };
+      await batch(40);
+      const c0 = threadCpuMs(server.child.pid!);
+      await batch(costRequests);
+      cpuMs.push((threadCpuMs(server.child.pid!) - c0) / costRequests);
+    }
+    const running: string[] = [];
+    for (let i = 0; i < computing; i++) running.push(await launch(`computing ${i + 1}`, spec.replicates));
+    const cookies = await Promise.all(Array.from({ length: clients }, () => session()));
+
+    const pid = server.child.pid!;
+    // Quiet window: the runs compute, no client asks anything; the HTTP thread's CPU rate here is the queue's.
+    const quietMs = 3000;
+    const quietCpu0 = threadCpuMs(pid);
+    const quiet0 = performance.now();
+    await new Promise((r) => setTimeout(r, quietMs));
+    const backgroundPerMs = (threadCpuMs(pid) - quietCpu0) / (performance.now() - quiet0);
     const loadAverageBefore = os.loadavg();
+    const serverCpu0 = threadCpuMs(pid);
+    const clientCpu0 = process.cpuUsage();
+    const window0 = performance.now();
     const times = urls.map(() => [] as number[]);
     const errors = urls.map(() => 0);
     const stopAt = performance.now() + seconds * 1000;
@@ -170,7 +239,11 @@ export async function runLoadBench(
         }
       }),
     );
-    if (!(await stillComputing()))
+    const windowMs = performance.now() - window0;
+    const serverCpu = threadCpuMs(pid) - serverCpu0 - backgroundPerMs * windowMs;
+    const clientCpu = process.cpuUsage(clientCpu0);
+    const requests = times.reduce((n, t) => n + t.length, 0);
+    if (computing > 0 && !(await stillComputing()))
       console.warn("warning: the computing runs ended before the measurement did; raise --load-replicates");
     return {
       clients,
@@ -182,6 +255,9 @@ export async function runLoadBench(
       loadAverageAfter: os.loadavg(),
       cores: os.cpus().length,
       poolSize,
+      serverCpuMsPerRequest: serverCpu / requests,
+      serverBackgroundCpuMsPerS: backgroundPerMs * 1000,
+      clientCpuMsPerRequest: (clientCpu.user + clientCpu.system) / 1000 / requests,
       endpoints: urls.map((u, j) => ({
         endpoint: u.endpoint,
         targetP95Ms: u.target,
@@ -189,6 +265,8 @@ export async function runLoadBench(
         p95Ms: quantile(times[j], 0.95),
         requests: times[j].length,
         errors: errors[j],
+        cpuMsPerRequest: cpuMs[j],
+        bytes: bytes[j],
       })),
     };
   } finally {
@@ -201,17 +279,21 @@ export function formatLoadBench(r: LoadResult): string {
   return [
     `Load: ${r.clients} signed-in client(s) for ${r.seconds} s, ${r.computing} run(s) of ${r.replicates.toLocaleString("en-US")} replicates computing, ${r.pastRuns} past runs in the lab; ` +
       `load average ${r.loadAverageBefore.map((x) => x.toFixed(2)).join(" ")} before, ${r.loadAverageAfter.map((x) => x.toFixed(2)).join(" ")} after; ${r.cores} cores, pool of ${r.poolSize}:`,
-    "| endpoint | target p95 | p50 | p95 | requests | errors |",
-    "| --- | --- | --- | --- | --- | --- |",
+    "| endpoint | target p95 | p50 | p95 | requests | errors | server CPU per request (alone) | bytes |",
+    "| --- | --- | --- | --- | --- | --- | --- | --- |",
     ...r.endpoints.map(
       (e) =>
-        `| ${e.endpoint} | < ${e.targetP95Ms} ms | ${f(e.p50Ms)} ms | ${f(e.p95Ms)} ms | ${e.requests} | ${e.errors} |`,
+        `| ${e.endpoint} | < ${e.targetP95Ms} ms | ${f(e.p50Ms)} ms | ${f(e.p95Ms)} ms | ${e.requests} | ${e.errors} | ${e.cpuMsPerRequest.toFixed(2)} ms | ${e.bytes} |`,
     ),
+    `Server HTTP thread under load: ${r.serverCpuMsPerRequest.toFixed(2)} ms CPU per request, all endpoints (after ${r.serverBackgroundCpuMsPerS.toFixed(0)} ms/s of queue work measured with no clients); ` +
+      `load generator: ${r.clientCpuMsPerRequest.toFixed(2)} ms CPU per request.`,
   ].join("\n");
 }
 
 if (import.meta.url === `file://${process.argv[1]}`) {
-  runLoadBench()
+  // --cost-only: only the CPU cost per request of each endpoint (no runs computing, no load phase).
+  const costOnly = process.argv.includes("--cost-only");
+  runLoadBench(costOnly ? { computing: 0, seconds: 0 } : {})
     .then((r) => console.log(formatLoadBench(r)))
     .catch((e: Error) => {
       console.error(`error: ${e.message}`);

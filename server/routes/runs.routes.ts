@@ -144,11 +144,15 @@ export const runRoutes = defineRoutes([
     path: "/runs/:id",
     access: { kind: "object", resource: "run", role: "viewer" },
     summary: "Run detail: status, progress, settings, summary figures, reproduction check.",
-    handler: async ({ ctx, params }) => ({
-      ...runs.runDetail(ctx, params.id),
-      reproduction: bundles.reproductionStatus(ctx, params.id),
-      acceleration: await accelerationFor(ctx, params.id),
-    }),
+    handler: async ({ ctx, params }) => {
+      // One read of the run's row (its JSON columns parsed once) for the detail, the reproduction check and the acceleration.
+      const row = runs.getRunRow(ctx, params.id);
+      return {
+        ...runs.runDetail(ctx, row),
+        reproduction: bundles.reproductionStatus(ctx, row),
+        acceleration: await accelerationFor(ctx, row),
+      };
+    },
   },
   {
     method: "get",
@@ -306,7 +310,7 @@ export const runRoutes = defineRoutes([
     "datapackage.json",
     "The data dictionary of the CSV exports (Frictionless Data Package, Table Schema): every column with its unit, the settings block and method label.",
     (ctx, row) => {
-      const d = runs.runDetail(ctx, row.id);
+      const d = runs.runDetail(ctx, row);
       return {
         suffix: "datapackage.json",
         text: JSON.stringify(
@@ -323,7 +327,7 @@ export const runRoutes = defineRoutes([
     },
   ),
   exportRoute("summary.json", "The JSON summary of the run, with its settings block and method label.", (ctx, row) => {
-    const d = runs.runDetail(ctx, row.id);
+    const d = runs.runDetail(ctx, row);
     return {
       suffix: "summary.json",
       text: JSON.stringify(

@@ -2,14 +2,14 @@
  * Analysis actions over stored runs: comparisons of two to four runs, the
  * matched simple-regulation control.
  */
-import { and, desc, eq, inArray, isNull } from "drizzle-orm";
+import { and, desc, eq, inArray, isNull, sql } from "drizzle-orm";
 import type { AppContext } from "@/server/context";
 import { schema } from "@/db/client";
 import type { RunSpec } from "@/shared/schemas/run-spec";
 import type { RunSummary } from "@/shared/schemas/analysis";
 import { accelerationFigures, compareRuns, delaysOf, widthsOf, runSettingsBlock } from "@/sim/analysis";
 import { badRequest, conflict, notFound } from "@/server/http-error";
-import { checkLimits, getRunRow, insertRun, thresholdOnLoop } from "./runs.service";
+import { checkLimits, getRunRow, insertRun, thresholdOnLoop, type RunRow } from "./runs.service";
 import { readPulseStats } from "@/server/compute/run-store";
 
 export function compareLabRuns(ctx: AppContext, labId: string, runIds: string[]) {
@@ -73,22 +73,28 @@ export async function createMatchedControl(ctx: AppContext, runId: string, userI
 
 /**
  * Acceleration and delay against the matched control, when the run has a
- * finished control (or is one): T1/2 ratio and median delays, circuit minus control.
+ * finished control (or is one): T1/2 ratio and median delays, circuit minus control. `row` is the
+ * run's row as the caller read it (the run detail reads it once for everything it shows).
  */
-export async function accelerationFor(ctx: AppContext, runId: string) {
-  const row = getRunRow(ctx, runId);
-  const pair = row.controlOf
-    ? { circuit: ctx.db.select().from(schema.runs).where(eq(schema.runs.id, row.controlOf)).get(), control: row }
-    : {
-        circuit: row,
-        control: ctx.db
-          .select()
-          .from(schema.runs)
-          .where(and(eq(schema.runs.controlOf, row.id), isNull(schema.runs.deletedAt)))
-          .orderBy(desc(schema.runs.createdAt))
-          .get(),
-      };
-  if (!pair.circuit?.summary || !pair.control?.summary) return null;
+export async function accelerationFor(ctx: AppContext, row: RunRow) {
+  if (!row.summary) return null;
+  // The other run of the pair: its id and whether it has results first, its full row (large JSON) only then.
+  const other = row.controlOf
+    ? ctx.db
+        .select({ id: schema.runs.id, finished: sql<number>`${schema.runs.summary} IS NOT NULL` })
+        .from(schema.runs)
+        .where(eq(schema.runs.id, row.controlOf))
+        .get()
+    : ctx.db
+        .select({ id: schema.runs.id, finished: sql<number>`${schema.runs.summary} IS NOT NULL` })
+        .from(schema.runs)
+        .where(and(eq(schema.runs.controlOf, row.id), isNull(schema.runs.deletedAt)))
+        .orderBy(desc(schema.runs.createdAt))
+        .get();
+  if (!other?.finished) return null;
+  const otherRow = ctx.db.select().from(schema.runs).where(eq(schema.runs.id, other.id)).get();
+  if (!otherRow?.summary) return null;
+  const pair = row.controlOf ? { circuit: otherRow, control: row } : { circuit: row, control: otherRow };
   return {
     circuitRunId: pair.circuit.id,
     controlRunId: pair.control.id,

@@ -10,7 +10,15 @@ import { BUNDLE_FORMAT, RunBundleSchema, type RunBundle } from "@/shared/schemas
 import type { RunSpec } from "@/shared/schemas/run-spec";
 import { validateCircuit } from "@/sim";
 import { badRequest, parseOr400 } from "@/server/http-error";
-import { checkLimits, checkThresholds, distinctRunName, getRunRow, insertRun, runDetail } from "./runs.service";
+import {
+  checkLimits,
+  checkThresholds,
+  distinctRunName,
+  getRunRow,
+  insertRun,
+  runDetail,
+  type RunRow,
+} from "./runs.service";
 import { methodLabel } from "@/sim/analysis/method-label";
 import { firstDifference } from "@/server/compute/run-store";
 
@@ -94,8 +102,8 @@ export interface ReproductionStatus {
   message: string;
 }
 
-export function reproductionStatus(ctx: AppContext, runId: string): ReproductionStatus | null {
-  const row = getRunRow(ctx, runId);
+/** The reproduction check of a run (its row, as read once by the caller, e.g. the run detail route). */
+export function reproductionStatus(ctx: AppContext, row: RunRow): ReproductionStatus | null {
   if (!row.reproduceOf) return null;
   // The engine that computed this run against the one that computed the original.
   const engineMatches = row.engineVersion === (row.expectedEngineVersion ?? row.engineVersion);

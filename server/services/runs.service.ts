@@ -41,7 +41,7 @@ import type { Page, PageQuery } from "@/shared/schemas/pagination";
 
 export const randomSeed = () => randomBytes(6).toString("hex");
 
-type RunRow = typeof schema.runs.$inferSelect;
+export type RunRow = typeof schema.runs.$inferSelect;
 
 export interface ResolvedInputs {
   circuit: Circuit;
@@ -456,16 +456,88 @@ export function listRuns(
   );
 }
 
+/** What a list item shows from a run's spec and summary JSON: read by json_extract once, then cached by its stamp. */
+interface ListJson {
+  /** finished time, stats hash and the summary's byte length: a new summary (a re-run sweep point) changes it. */
+  stamp: string;
+  circuitName: string;
+  programKind: string | null;
+  headline: RunListItem["headline"];
+}
+
+/**
+ * Per database: run id -> the figures a list item takes from its JSON columns. A run's spec never changes and
+ * its summary is written when it finishes (again only if it is re-run), so an entry is used only while the
+ * run's stamp (finished time, stats hash, summary length: all read without parsing the JSON) is the same.
+ */
+const listJsonCache = new WeakMap<object, Map<string, ListJson>>();
+const LIST_JSON_CACHE_MAX = 20_000;
+
+const stampOf = (x: { finishedAt: Date | null; statsHash: string | null; summaryBytes: number | null }) =>
+  `${x.finishedAt?.getTime() ?? ""}|${x.statsHash ?? ""}|${x.summaryBytes ?? ""}`;
+
+/** The list JSON of these runs (ids with their current stamps): from the cache, the rest by one json_extract query. */
+function listJsonOf(ctx: AppContext, rows: { id: string; stamp: string }[]): Map<string, ListJson> {
+  let cache = listJsonCache.get(ctx.sqlite);
+  if (!cache) listJsonCache.set(ctx.sqlite, (cache = new Map()));
+  const out = new Map<string, ListJson>();
+  const missing: string[] = [];
+  for (const x of rows) {
+    const hit = cache.get(x.id);
+    if (hit && hit.stamp === x.stamp) out.set(x.id, hit);
+    else missing.push(x.id);
+  }
+  if (!missing.length) return out;
+  const r = schema.runs;
+  const num = (path: string) => sql<number | null>`json_extract(${r.summary}, ${path})`;
+  const found = ctx.db
+    .select({
+      id: r.id,
+      finishedAt: r.finishedAt,
+      statsHash: r.statsHash,
+      summaryBytes: sql<number | null>`octet_length(${r.summary})`,
+      circuitName: sql<string>`json_extract(${r.spec}, '$.circuit.name')`,
+      programKind: sql<string | null>`json_extract(${r.spec}, '$.program.kind')`,
+      d50: num("$.d50"),
+      falsePassRate: num("$.falsePassRate"),
+      medianDelay: num("$.delay.median"),
+      longestDuration: num("$.byDuration[#-1].duration"),
+      passAtLongest: num("$.byDuration[#-1].passProbability"),
+    })
+    .from(r)
+    .where(inArray(r.id, missing))
+    .all();
+  if (cache.size + found.length > LIST_JSON_CACHE_MAX) cache.clear();
+  for (const x of found) {
+    const entry: ListJson = {
+      stamp: stampOf(x),
+      circuitName: x.circuitName,
+      programKind: x.programKind,
+      headline:
+        x.summaryBytes !== null
+          ? {
+              d50: x.d50 ?? null,
+              falsePassRate: x.falsePassRate ?? null,
+              medianDelay: x.medianDelay ?? null,
+              longestDuration: x.longestDuration ?? null,
+              passAtLongest: x.passAtLongest ?? null,
+            }
+          : null,
+    };
+    cache.set(x.id, entry);
+    out.set(x.id, entry);
+  }
+  return out;
+}
+
 /**
  * The rows matching `conds` as list items (with their sort rank and created time), at most `limit`, in
- * list order when `ordered`. Lean: only the columns a list item shows.
+ * list order when `ordered`. Lean: only the columns a list item shows; the spec and summary JSON are read
+ * (json_extract) only for runs not seen since they last changed (listJsonOf).
  */
 function listRunRows(ctx: AppContext, conds: SQL[], limit?: number, ordered = false) {
   const r = schema.runs;
-  // Only what a list item shows: the spec and summary JSON stay in SQLite (json_extract), not parsed per row.
-  const num = (path: string) => sql<number | null>`json_extract(${r.summary}, ${path})`;
-  // A page is found first from the index (no JSON read), then only its rows' JSON is read: sorting with the
-  // json_extract columns in the select would parse every matching run's summary before LIMIT applies.
+  // A page is found first from the index (no JSON read), then only its rows are read.
   let where = and(...conds);
   let pageOrder: string[] | null = null;
   if (limit !== undefined) {
@@ -500,14 +572,9 @@ function listRunRows(ctx: AppContext, conds: SQL[], limit?: number, ordered = fa
       finishedAt: r.finishedAt,
       archivedAt: r.archivedAt,
       createdBy: r.createdBy,
-      circuitName: sql<string>`json_extract(${r.spec}, '$.circuit.name')`,
-      programKind: sql<string | null>`json_extract(${r.spec}, '$.program.kind')`,
-      hasSummary: sql<number>`${r.summary} IS NOT NULL`,
-      d50: num("$.d50"),
-      falsePassRate: num("$.falsePassRate"),
-      medianDelay: num("$.delay.median"),
-      longestDuration: num("$.byDuration[#-1].duration"),
-      passAtLongest: num("$.byDuration[#-1].passProbability"),
+      statsHash: r.statsHash,
+      // The length from the record header: the summary itself is not read (IS NOT NULL would read it).
+      summaryBytes: sql<number | null>`octet_length(${r.summary})`,
     })
     .from(r)
     .where(where)
@@ -515,6 +582,10 @@ function listRunRows(ctx: AppContext, conds: SQL[], limit?: number, ordered = fa
     .all();
   const byId = new Map(found.map((x) => [x.id, x]));
   const rows = pageOrder ? pageOrder.flatMap((id) => byId.get(id) ?? []) : found;
+  const json = listJsonOf(
+    ctx,
+    rows.map((x) => ({ id: x.id, stamp: stampOf(x) })),
+  );
   const names = userNames(
     ctx,
     rows.map((x) => x.createdBy),
@@ -523,40 +594,39 @@ function listRunRows(ctx: AppContext, conds: SQL[], limit?: number, ordered = fa
     ctx,
     rows.map((x) => x.programId),
   );
-  return rows.map((x) => ({
-    id: x.id,
-    rank: x.rank,
-    createdAt: x.createdAt,
-    item: {
-      id: x.id,
-      labId: x.labId,
-      name: x.name,
-      status: x.status,
-      statusReason: x.statusReason,
-      replicates: x.replicates,
-      seed: x.seed,
-      circuitName: x.circuitName,
-      programName:
-        (x.programId && programs.get(x.programId)) ||
-        (x.programKind ? `inline ${PROGRAM_KIND_LABEL[x.programKind] ?? x.programKind}` : "no input pulses"),
-      sweepId: x.sweepId,
-      controlOf: x.controlOf,
-      progress: progressView(ctx, x as unknown as RunRow),
-      createdAt: x.createdAt.toISOString(),
-      finishedAt: iso(x.finishedAt),
-      archived: !!x.archivedAt,
-      createdBy: x.createdBy ? (names.get(x.createdBy) ?? null) : null,
-      headline: x.hasSummary
-        ? {
-            d50: x.d50 ?? null,
-            falsePassRate: x.falsePassRate ?? null,
-            medianDelay: x.medianDelay ?? null,
-            longestDuration: x.longestDuration ?? null,
-            passAtLongest: x.passAtLongest ?? null,
-          }
-        : null,
-    } satisfies RunListItem,
-  }));
+  return rows.flatMap((x) => {
+    const j = json.get(x.id);
+    // Deleted between the two reads: left out, as if read a moment later.
+    if (!j) return [];
+    return [
+      {
+        id: x.id,
+        rank: x.rank,
+        createdAt: x.createdAt,
+        item: {
+          id: x.id,
+          labId: x.labId,
+          name: x.name,
+          status: x.status,
+          statusReason: x.statusReason,
+          replicates: x.replicates,
+          seed: x.seed,
+          circuitName: j.circuitName,
+          programName:
+            (x.programId && programs.get(x.programId)) ||
+            (j.programKind ? `inline ${PROGRAM_KIND_LABEL[j.programKind] ?? j.programKind}` : "no input pulses"),
+          sweepId: x.sweepId,
+          controlOf: x.controlOf,
+          progress: progressView(ctx, x as unknown as RunRow),
+          createdAt: x.createdAt.toISOString(),
+          finishedAt: iso(x.finishedAt),
+          archived: !!x.archivedAt,
+          createdBy: x.createdBy ? (names.get(x.createdBy) ?? null) : null,
+          headline: j.headline,
+        } satisfies RunListItem,
+      },
+    ];
+  });
 }
 
 function historyWords(action: string, by: string | null, detail: Record<string, unknown>): string {
@@ -594,8 +664,10 @@ export function runHistory(ctx: AppContext, id: string): RunDetail["history"] {
   });
 }
 
-export function runDetail(ctx: AppContext, id: string): RunDetail {
-  const row = getRunRow(ctx, id);
+/** A run's detail from its id, or from its row when the caller has read it already (read once, parsed once). */
+export function runDetail(ctx: AppContext, idOrRow: string | RunRow): RunDetail {
+  const row = typeof idOrRow === "string" ? getRunRow(ctx, idOrRow) : idOrRow;
+  const id = row.id;
   const names = userNames(ctx, [row.createdBy]);
   const spec = row.spec as RunSpec;
   let threshold: RunDetail["threshold"] = null;
