@@ -40,6 +40,7 @@ import { simulateEnsemble, type Ensemble } from "./ensemble";
 import { acfRinging, amplitudeSpread, pooledAutocorrelation } from "./autocorrelation";
 import { dwellTimes } from "./dwell-times";
 import { settlePassCurve, type PassCurvePoint } from "./pass-curve-rule";
+import { OdeBudgetError } from "@/sim/ode/ode-budget";
 
 export interface StochasticInput {
   model: CompiledModel;
@@ -143,8 +144,10 @@ export function classifyStochasticBeforePassCurve(
     if (stable.length >= 2)
       for (let r = Math.ceil(R / 2), k = 0; r < R; r++, k++)
         offStarts[r] = Float64Array.from(stable[k % stable.length].state);
-  } catch {
-    // no mean-field states to start from: every replicate starts from the initial state
+  } catch (e) {
+    // Out of computing budget is not "no states": it goes to the caller (runRegime labels it unclear with
+    // the budget's reason; a regime map refuses). Any other failure: every replicate starts from the initial state.
+    if (e instanceof OdeBudgetError) throw e;
   }
   base.meanFieldStableStates = meanFieldStates;
   const skip = Math.round(burn / sample);

@@ -9,6 +9,7 @@ import { classifyDeterministicBeforePassCurve } from "./classify-deterministic";
 import { classifyStochasticBeforePassCurve } from "./classify-stochastic";
 import type { PassCurvePending, RegimeVerdict } from "./labels";
 import { settlePassCurve, type PassCurvePoint } from "./pass-curve-rule";
+import { OdeBudgetError } from "@/sim/ode/ode-budget";
 
 export interface RunRegime {
   deterministic: RegimeVerdict;
@@ -79,6 +80,9 @@ export function settleRunRegime(prepared: PreparedRunRegime, passCurve: PassCurv
   return { deterministic, stochastic };
 }
 
-const ensembleFailed = (e: unknown) => `the ensemble could not be simulated: ${(e as Error).message}`;
+const ensembleFailed = (e: unknown) =>
+  e instanceof OdeBudgetError
+    ? `the mean-field steady states the ensemble starts from could not be found within the computing budget: ${e.message}`
+    : `the ensemble could not be simulated: ${(e as Error).message}`;
 const meanFieldFailed = (e: unknown) =>
   `the mean-field model could not be solved within the computing budget: ${(e as Error).message}`;

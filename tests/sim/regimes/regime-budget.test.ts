@@ -9,7 +9,7 @@
 import { describe, test } from "node:test";
 import assert from "node:assert/strict";
 import { compileModel } from "@/sim/circuit/compile-model";
-import { classifyDeterministic, runRegime } from "@/sim/regimes";
+import { classifyDeterministic, classifyStochastic, runRegime } from "@/sim/regimes";
 import { OdeBudget, OdeBudgetError, withOdeBudget } from "@/sim/ode/ode-budget";
 import { CircuitSchema, type Circuit } from "@/shared/schemas/circuit";
 
@@ -70,6 +70,20 @@ describe("behaviour labels under the ODE budget", () => {
     );
     assert.equal(r.deterministic.label, "unclear");
     assert.match(r.deterministic.reason ?? "", /more than 100 steps/);
+    // nor for the stochastic label's starting points (its mean-field steady states): unclear with the budget's
+    // reason, not a label from an ensemble that quietly started from the initial state instead
+    assert.equal(r.stochastic.label, "unclear");
+    assert.match(r.stochastic.reason ?? "", /steady states the ensemble starts from could not be found/);
+    assert.match(r.stochastic.reason ?? "", /more than 100 steps/);
+    const spentAgain = new OdeBudget({ maxSteps: 100 });
+    spentAgain.steps = 100;
+    assert.throws(
+      () =>
+        withOdeBudget(spentAgain, () =>
+          classifyStochastic({ model: compileModel(cascade(1, 0.1, 10)), seed: "budget", replicates: 4 }),
+        ),
+      (e: unknown) => e instanceof OdeBudgetError && e.reason === "steps",
+    );
 
     let calls = 0;
     const timed = new OdeBudget({ maxSteps: 1e9, checkpoint: () => ++calls < 2, wallSeconds: 3 });
