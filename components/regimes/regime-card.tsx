@@ -8,11 +8,22 @@ import type { RegimeVerdictView, RunRegimeView } from "@/shared/schemas/regime";
 import { differenceSentence, evidenceRows, verdictMeaning } from "./regime-words";
 import { RegimeBadge } from "./regime-badge";
 
-function VerdictPanel({ title, verdict, testID }: { title: string; verdict: RegimeVerdictView; testID: string }) {
+function VerdictPanel({
+  title,
+  verdict,
+  testID,
+  side,
+}: {
+  title: string;
+  verdict: RegimeVerdictView;
+  testID: string;
+  /** Side by side (wide screens): each panel starts at 280 px wide. Stacked, a basis would fix its height instead. */
+  side: boolean;
+}) {
   const t = useTheme();
   const rows = evidenceRows(verdict);
   return (
-    <View testID={testID} style={{ flexGrow: 1, flexBasis: 280, gap: t.spacing.sm }}>
+    <View testID={testID} style={side ? { flexGrow: 1, flexBasis: 280, gap: t.spacing.sm } : { gap: t.spacing.sm }}>
       <Text variant="label" tone="muted">
         {title}
       </Text>
@@ -52,8 +63,18 @@ export function RegimeCard({ regime }: { regime: RunRegimeView }) {
         </Text>
       )}
       <View style={{ flexDirection: bp.isWide ? "row" : "column", gap: t.spacing.lg }}>
-        <VerdictPanel title="Mean-field model (ODE)" verdict={regime.deterministic} testID="regime-deterministic" />
-        <VerdictPanel title="Stochastic ensemble (SSA)" verdict={regime.stochastic} testID="regime-stochastic" />
+        <VerdictPanel
+          title="Mean-field model (ODE)"
+          verdict={regime.deterministic}
+          testID="regime-deterministic"
+          side={bp.isWide}
+        />
+        <VerdictPanel
+          title="Stochastic ensemble (SSA)"
+          verdict={regime.stochastic}
+          testID="regime-stochastic"
+          side={bp.isWide}
+        />
       </View>
     </Card>
   );

@@ -26,7 +26,9 @@ let sharedSweepId: string | null = null;
 
 before(async () => {
   await ensureWebBuild({ quiet: true });
-  server = await startTestServer();
+  // The mean-field map below is checked for its labels, not its budget (tests/server/regime-maps.test.ts and
+  // tests/sim/regimes/regime-budget.test.ts check that): a wall-time budget of 10 s can run out on a loaded machine.
+  server = await startTestServer({ env: { LINGER_COMPUTE_WALL_SECONDS: "120" } });
 });
 after(async () => {
   await server?.stop();
@@ -141,6 +143,20 @@ for (const vp of [PHONE, WIDE] as Viewport[]) {
           await page.getByTestId("regime-stochastic-label").innerText(),
           new RegExp(point.regime.stochastic),
         );
+        // the two verdict panels never overlap: side by side when wide, stacked (each as tall as its content) on a phone
+        const panels = await Promise.all(
+          ["regime-deterministic", "regime-stochastic"].map((id) =>
+            page.getByTestId(id).evaluate((el) => {
+              const r = el.getBoundingClientRect();
+              return { x: r.x, y: r.y, w: r.width, h: r.height, overflow: el.scrollHeight - el.clientHeight };
+            }),
+          ),
+        );
+        const [pd, ps] = panels;
+        for (const p of panels)
+          assert.ok(p.overflow <= 1, `a verdict panel's content fits inside it (${p.overflow} px over)`);
+        if (vp.width >= 768) assert.ok(ps.x >= pd.x + pd.w - 1, "verdict panels side by side");
+        else assert.ok(ps.y >= pd.y + pd.h - 1, "verdict panels stacked without overlap");
         await screenshot(page, `regime-map-${vp.name}-02-point-run`);
 
         // a mean-field map of the same grid: computed at once, then its boundaries refined
