@@ -1,5 +1,5 @@
 /** Sweeps: list, detail with per-point figures, launch, cancel, resume. Shapes from shared/schemas/api-runs.ts. */
-import { useInfiniteQuery, useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
+import { useInfiniteQuery, useMutation, useQueries, useQuery, useQueryClient } from "@tanstack/react-query";
 import { api } from "./api";
 import { useLabId } from "./current-lab";
 import { usePagedList, type PagedList } from "./runs";
@@ -39,6 +39,25 @@ export function useSweeps(): PagedList<SweepListItem> {
     refetchInterval: (q) => (q.state.data?.pages.some((p) => p.items.some((s) => active(s.status))) ? 4000 : false),
   });
   return usePagedList(q);
+}
+
+/**
+ * Names of sweeps by id, wherever they are in the paged list (each read through its detail query, shared with
+ * useSweep's cache): for naming what a few stored items (such as a trace set's matches) point at.
+ */
+export function useSweepNames(ids: readonly string[]): Map<string, string> {
+  const wanted = [...new Set(ids)].sort();
+  const qs = useQueries({
+    queries: wanted.map((id) => ({
+      queryKey: sweepKeys.detail(id),
+      queryFn: ({ signal }: { signal: AbortSignal }) => api(`/api/sweeps/${id}`, { schema: SweepDetailSchema, signal }),
+    })),
+  });
+  const names = new Map<string, string>();
+  qs.forEach((q, i) => {
+    if (q.data) names.set(wanted[i], q.data.name);
+  });
+  return names;
 }
 
 export function useSweep(id: string | undefined) {

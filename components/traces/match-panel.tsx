@@ -16,7 +16,7 @@ import { ErrorState, LoadingState } from "@/components/ui/states";
 import { parseNumber } from "@/components/forms/zod-errors";
 import { useRuns, useRunsByIds } from "@/components/data/runs";
 import { LoadMore } from "@/components/ui/load-more";
-import { useSweeps } from "@/components/data/sweeps";
+import { useSweepNames, useSweeps } from "@/components/data/sweeps";
 import { useMatch, useRunMatch, type TraceSetDetail } from "@/components/data/traces";
 import { MatchResultView } from "./match-result";
 import type { MatchRequest } from "@/shared/schemas/api-traces";
@@ -85,10 +85,17 @@ export function MatchPanel({ traceSet, canEdit }: { traceSet: TraceSetDetail; ca
   const sweepList = sweeps.data ?? [];
   // Names of the runs shown matches were against, wherever they are in the paged list.
   const matchedRuns = useRunsByIds(traceSet.matches.flatMap((m) => (m.runId ? [m.runId] : [])));
+  // ...and of the sweeps they were against (the earlier matches shown and the one open), loaded or not.
+  const matchedSweeps = useSweepNames(
+    traceSet.matches
+      .filter((m, i) => i < 8 || m.id === shownId)
+      .flatMap((m) => (m.sweepId && !sweepList.some((s) => s.id === m.sweepId) ? [m.sweepId] : [])),
+  );
   const names = new Map<string, string>([
     ...[...matchedRuns.byId.values()].map((r) => [r.id, r.name] as const),
     ...(runs.data ?? []).map((r) => [r.id, r.name] as const),
     ...sweepList.map((s) => [s.id, s.name] as const),
+    ...matchedSweeps,
   ]);
   const { request, errors } = matchRequestOf(v);
   const err = (k: keyof MatchFormValues) => (showErrors ? errors[k] : undefined);
