@@ -35,14 +35,19 @@
  *
  * Two variants: "fast" (the default) and "reference", the kernel exactly as it
  * stood before issue 16's speed work (its source is frozen by digest in
- * tests/sim/engine/fast-kernel.test.ts). The fast kernel does the same
- * floating-point operations in the same order and differs only in how the
- * output's path reaches the tracker: each change is appended to a block
- * (ctx.pathBuf) handed over with PulseTracker.pushPath when full and before the
- * kernel returns, instead of a method call per change (the tracker's state is
- * read by nobody while the kernel runs, so the records are the same). Both
- * give bit-identical results for the same seeds (tested over every rate kind,
- * events, rules, extrinsic variation and many seeds).
+ * tests/sim/engine/fast-kernel.test.ts). The fast kernel gives the same
+ * doubles for the same seeds and differs in three ways:
+ * - the output's path reaches the tracker in blocks: each change is appended
+ *   to ctx.pathBuf, handed over with PulseTracker.pushPath when full and before
+ *   the kernel returns, instead of a method call per change (the tracker's
+ *   state is read by nobody while the kernel runs, so the records are the same);
+ * - ln(1 - u) of the waiting time is computed inline (./kernel-log.ts: V8's
+ *   Math.log algorithm, proven bit-identical on every value u can take);
+ * - each Hill factor q/(K+q) of a regulated rate is kept in a local and
+ *   recomputed only when its source changed (the same operations on the same
+ *   values give the same double).
+ * Both variants give bit-identical results for the same seeds (tested over
+ * every rate kind, events, rules, extrinsic variation and many seeds).
  *
  * The source is built only from the compiled model's indices, numbers from
  * checked trees and the numeric flags below (integer Hill exponents, zero
@@ -54,6 +59,7 @@ import type { PulseTracker } from "@/sim/metrics/pulse-tracker";
 import { badRateMessage, type CompiledModel } from "@/sim/circuit/compile-model";
 import { treeToJs } from "@/sim/circuit/expression";
 import type { EventRecorder } from "./event-recorder";
+import { KERNEL_LOG_LOCALS, kernelLogCode } from "./kernel-log";
 
 /** In/out state of one kernel call. */
 export class KernelContext {
@@ -125,9 +131,7 @@ export interface KernelOptions {
   /**
    * "fast" (the default) or "reference": the kernel as it stood before the
    * speed work of issue 16, kept to check the fast one against (same results,
-   * bit for bit, for the same seeds). The fast kernel does the same
-   * floating-point operations in the same order; it differs only in how the
-   * output path reaches the tracker (buffered in blocks, PulseTracker.pushPath).
+   * bit for bit, for the same seeds); the differences are listed at the top of this file.
    */
   variant?: "fast" | "reference";
 }
@@ -137,8 +141,21 @@ function powExpr(v: string, n: number, nSlot: number, varied: boolean): string {
   return `Math.pow(${v},P${nSlot})`;
 }
 
-/** Statements assigning propensity j to local a<j>. */
-function propensityCode(model: CompiledModel, j: number, opts: KernelOptions, usedParams: Set<number>): string {
+type Regulator = CompiledModel["reactions"][number]["regulators"][number];
+
+/**
+ * Statements assigning propensity j to local a<j>. With `fresh` (the fast
+ * kernel), each Hill factor lives in its own local h<j>_<k> and is recomputed
+ * only where fresh(regulator) holds (its source changed): the same operations
+ * on the same values as recomputing it, so the same double.
+ */
+function propensityCode(
+  model: CompiledModel,
+  j: number,
+  opts: KernelOptions,
+  usedParams: Set<number>,
+  fresh?: (g: Regulator) => boolean,
+): string {
   const r = model.reactions[j];
   const P = (slot: number) => {
     usedParams.add(slot);
@@ -171,9 +188,15 @@ function propensityCode(model: CompiledModel, j: number, opts: KernelOptions, us
       const varied = opts.variedSlots.has(g.nSlot);
       if (!(!varied && Number.isInteger(n) && n >= 1 && n <= 10)) usedParams.add(g.nSlot);
       const q = `q${j}_${k}`;
-      pre += `${q} = ${powExpr(v, n, g.nSlot, varied)}; `;
       const kn = P(g.knSlot);
-      hs.push(g.activates ? `(${q}/(${kn}+${q}))` : `(${kn}/(${kn}+${q}))`);
+      const h = g.activates ? `(${q}/(${kn}+${q}))` : `(${kn}/(${kn}+${q}))`;
+      if (fresh === undefined) {
+        pre += `${q} = ${powExpr(v, n, g.nSlot, varied)}; `;
+        hs.push(h);
+      } else {
+        if (fresh(g)) pre += `${q} = ${powExpr(v, n, g.nSlot, varied)}; h${j}_${k} = ${h}; `;
+        hs.push(`h${j}_${k}`);
+      }
     });
     const f = r.logic === "and" ? hs.join("*") : `(1-${hs.map((h) => `(1-${h})`).join("*")})`;
     const leakFixedZero = !opts.variedSlots.has(r.leakSlot) && model.baseParams[r.leakSlot] === 0;
@@ -203,9 +226,17 @@ export function kernelSource(model: CompiledModel, optsIn: KernelOptions): strin
   const nG = model.nSignals;
   const nR = model.nReactions;
   const used = new Set<number>();
-  const props = Array.from({ length: nR }, (_, j) => propensityCode(model, j, opts, used));
+  const all = fast ? () => true : undefined;
+  const props = Array.from({ length: nR }, (_, j) => propensityCode(model, j, opts, used, all));
+  /** Propensity k after a change of the given species (fast: only the Hill factors reading them are recomputed). */
+  const propsAfterSpecies = (k: number, changed: ReadonlySet<number>) =>
+    fast ? propensityCode(model, k, opts, used, (g) => !g.isSignal && changed.has(g.source)) : props[k];
+  const propsAfterSignal = (k: number, sig: number) =>
+    fast ? propensityCode(model, k, opts, used, (g) => g.isSignal && g.source === sig) : props[k];
   const qVars: string[] = [];
-  model.reactions.forEach((r, j) => r.regulators.forEach((_, k) => qVars.push(`q${j}_${k} = 0.0`)));
+  model.reactions.forEach((r, j) =>
+    r.regulators.forEach((_, k) => qVars.push(fast ? `q${j}_${k} = 0.0, h${j}_${k} = 0.0` : `q${j}_${k} = 0.0`)),
+  );
   // species conditions of events, on the kernel's locals
   const sp = new Map(model.speciesNames.map((n, i) => [n, i]));
   const sg = new Map(model.signalNames.map((n, i) => [n, i]));
@@ -262,6 +293,7 @@ export function kernelSource(model: CompiledModel, optsIn: KernelOptions): strin
   if (fast) {
     L.push(`if (ctx.pathBuf.length < 2) ctx.pathBuf = new Float64Array(8192);`);
     L.push(`var ob = ctx.pathBuf, on = 0, obn = ob.length - (ob.length & 1);`);
+    L.push(`var lq = 0.0, ${KERNEL_LOG_LOCALS};`);
   }
   L.push(`var ev = ctx.events, cap = ctx.eventCap${ext ? "" : ", status = 0"};`);
   L.push(`var atot = 0.0, tNext = 0.0, r = 0.0, cum = 0.0, j = 0;`);
@@ -271,7 +303,8 @@ export function kernelSource(model: CompiledModel, optsIn: KernelOptions): strin
   L.push(`for (;;) {`);
   L.push(`  atot = ${Array.from({ length: nR }, (_, j) => `a${j}`).join(" + ")};`);
   L.push(`  ${rand}`);
-  L.push(`  tNext = atot > 0 ? t - Math.log(1 - s2) / atot : Infinity;`);
+  if (fast) L.push(`  if (atot > 0) { ${kernelLogCode("s2", "lq")} tNext = t - lq / atot; } else tNext = Infinity;`);
+  else L.push(`  tNext = atot > 0 ? t - Math.log(1 - s2) / atot : Infinity;`);
   const out = model.outputIndex;
   const fireEvents = (stop: string) =>
     [
@@ -300,7 +333,7 @@ export function kernelSource(model: CompiledModel, optsIn: KernelOptions): strin
   L.push(`    t = tSw;`);
   if (opts.inputSignal >= 0) {
     L.push(`    g${opts.inputSignal} = swl[si];`);
-    for (const k of model.signalDependents[opts.inputSignal]) L.push(`    ${props[k]}`);
+    for (const k of model.signalDependents[opts.inputSignal]) L.push(`    ${propsAfterSignal(k, opts.inputSignal)}`);
   }
   L.push(`    si++; tSw = si < nsw ? sw[si] : Infinity;`);
   L.push(`    continue;`);
@@ -312,8 +345,8 @@ export function kernelSource(model: CompiledModel, optsIn: KernelOptions): strin
   L.push(`  r = s2 * atot;`);
   const fire = model.reactions.map((rx, j) => {
     const upd = rx.delta.map((d) => `x${d.species} += ${d.change};`).join(" ");
-    const deps = model.dependents[j].map((k) => props[k]).join(" ");
     const changedAll = new Set(model.changedBy[j]);
+    const deps = model.dependents[j].map((k) => propsAfterSpecies(k, changedAll)).join(" ");
     const trk = changedAll.has(out) ? ` ${track(`x${out}`)}` : "";
     const ruleCode = model.rulesAfter[j]
       .map((k) => {
