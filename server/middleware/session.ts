@@ -12,12 +12,13 @@ import session, { type SessionData } from "express-session";
 import passport from "passport";
 import { Strategy as LocalStrategy } from "passport-local";
 import { randomBytes } from "node:crypto";
-import { eq } from "drizzle-orm";
+import { eq, sql } from "drizzle-orm";
 import type Database from "better-sqlite3";
 import type { AppContext } from "@/server/context";
 import { schema } from "@/db/client";
 import type { SessionUser } from "@/server/routes/route-table";
 import { checkCredentials } from "@/server/services/auth.service";
+import { preparedOnce } from "@/server/services/prepared";
 
 export const SESSION_COOKIE = "linger.sid";
 const SESSION_MAX_AGE_MS = 14 * 24 * 3600 * 1000;
@@ -161,16 +162,20 @@ export function sessionSecret(ctx: AppContext): string {
 }
 
 export function loadSessionUser(ctx: AppContext, id: string): SessionUser | null {
-  const u = ctx.db
-    .select({
-      id: schema.users.id,
-      email: schema.users.email,
-      displayName: schema.users.displayName,
-      isSiteAdmin: schema.users.isSiteAdmin,
-    })
-    .from(schema.users)
-    .where(eq(schema.users.id, id))
-    .get();
+  // Read on every signed-in request: prepared once per database, and read afresh each time (no cache), so
+  // a deleted account, a renamed user or a changed site-admin flag takes effect on the next request.
+  const u = preparedOnce(ctx, "loadSessionUser", () =>
+    ctx.db
+      .select({
+        id: schema.users.id,
+        email: schema.users.email,
+        displayName: schema.users.displayName,
+        isSiteAdmin: schema.users.isSiteAdmin,
+      })
+      .from(schema.users)
+      .where(eq(schema.users.id, sql.placeholder("id")))
+      .prepare(),
+  ).get({ id });
   return u ?? null;
 }
 

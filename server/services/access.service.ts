@@ -1,18 +1,26 @@
 /** Who may see what: lab membership and the lab that owns an object. */
-import { and, eq, isNull } from "drizzle-orm";
+import { and, eq, isNull, sql } from "drizzle-orm";
 import type { AppContext } from "@/server/context";
 import { schema } from "@/db/client";
 import type { LabRole } from "@/shared/schemas/api-accounts";
+import { preparedOnce } from "./prepared";
 
 export type ResourceKind = "run" | "circuit" | "program" | "sweep" | "traceSet" | "match" | "lab" | "regimeMap";
 
 export function labRoleOf(ctx: AppContext, userId: string, labId: string): LabRole | null {
   if (!labId) return null;
-  const row = ctx.db
-    .select({ role: schema.memberships.role })
-    .from(schema.memberships)
-    .where(and(eq(schema.memberships.userId, userId), eq(schema.memberships.labId, labId)))
-    .get();
+  const row = preparedOnce(ctx, "labRoleOf", () =>
+    ctx.db
+      .select({ role: schema.memberships.role })
+      .from(schema.memberships)
+      .where(
+        and(
+          eq(schema.memberships.userId, sql.placeholder("userId")),
+          eq(schema.memberships.labId, sql.placeholder("labId")),
+        ),
+      )
+      .prepare(),
+  ).get({ userId, labId });
   return (row?.role as LabRole | undefined) ?? null;
 }
 
@@ -33,11 +41,14 @@ export function resourceLab(
   let row: { labId: string } | undefined;
   switch (kind) {
     case "run":
-      row = ctx.db
-        .select({ labId: s.runs.labId })
-        .from(s.runs)
-        .where(and(eq(s.runs.id, id), live ? isNull(s.runs.deletedAt) : undefined))
-        .get();
+      // Every run route asks this: prepared once (live and with-deleted variants).
+      row = preparedOnce(ctx, live ? "resourceLab.run" : "resourceLab.run+deleted", () =>
+        ctx.db
+          .select({ labId: s.runs.labId })
+          .from(s.runs)
+          .where(and(eq(s.runs.id, sql.placeholder("id")), live ? isNull(s.runs.deletedAt) : undefined))
+          .prepare(),
+      ).get({ id });
       break;
     case "circuit":
       row = ctx.db.select({ labId: s.circuits.labId }).from(s.circuits).where(eq(s.circuits.id, id)).get();
