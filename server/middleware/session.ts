@@ -206,25 +206,30 @@ export function installAuth(api: Router, ctx: AppContext): void {
     }
   });
 
-  api.use(
-    session({
-      name: SESSION_COOKIE,
-      secret: sessionSecret(ctx),
-      store: new SqliteSessionStore(ctx.sqlite),
-      resave: false,
-      saveUninitialized: false,
-      rolling: false,
-      cookie: {
-        httpOnly: true,
-        sameSite: "lax",
-        secure: ctx.env.LINGER_SECURE_COOKIES,
-        maxAge: SESSION_MAX_AGE_MS,
-        path: "/",
-      },
-    }),
-  );
+  // GET /api/health is public and reads no user: it skips the session read and the user load (about a
+  // third of its CPU time per request, docs/benchmarks.md).
+  const noSession = (req: Request) => req.method === "GET" && req.path === "/health";
+  const skipFor =
+    (mw: (req: Request, res: any, next: (e?: unknown) => void) => void) =>
+    (req: Request, res: any, next: (e?: unknown) => void) => (noSession(req) ? next() : mw(req, res, next));
+  const sessionMw = session({
+    name: SESSION_COOKIE,
+    secret: sessionSecret(ctx),
+    store: new SqliteSessionStore(ctx.sqlite),
+    resave: false,
+    saveUninitialized: false,
+    rolling: false,
+    cookie: {
+      httpOnly: true,
+      sameSite: "lax",
+      secure: ctx.env.LINGER_SECURE_COOKIES,
+      maxAge: SESSION_MAX_AGE_MS,
+      path: "/",
+    },
+  });
+  api.use(skipFor(sessionMw as any));
   api.use(auth.initialize());
-  api.use(auth.session());
+  api.use(skipFor(auth.session() as any));
   api.use((req, _res, next) => {
     (req as any).lingerAuthenticator = auth;
     next();
