@@ -7,7 +7,9 @@
  * latencies recorded.
  *
  * seconds: the server's own startedAt -> finishedAt of the run (queue, pool,
- *   storage and finalisation).
+ *   storage and finalisation), after a warm-up run of 100 replicates per thread
+ *   through the same server (its threads loaded and warm, as the engine-alone
+ *   pool is; databaseMb includes that run's rows).
  * engineSeconds: the same replicates through the same engine call on a pool of
  *   the same size, without queue, database or HTTP (runEngineBench), measured
  *   after the server run or, with engineFirst, before it.
@@ -15,6 +17,7 @@
  * Default pool: every core, the server's default.
  */
 import os from "node:os";
+import { execFileSync } from "node:child_process";
 import { existsSync, readFileSync, statSync } from "node:fs";
 import { loadSpecFile } from "@/server/cli/load-spec";
 import { DEFAULT_BENCH_SPEC, runEngineBench } from "./bench-engine";
@@ -35,6 +38,38 @@ export interface EndToEndResult {
   peakRssMb: number | null;
   /** The database file and its WAL after the run finished, MB (one run, nothing else stored but one account). */
   databaseMb: number;
+  /**
+   * CPU seconds of the whole server process (every thread) from launch to finish, and of the engine-alone
+   * process for its run, and their ratio: less moved by other jobs on a shared machine than the wall-clock
+   * ratio (null where /proc is missing).
+   */
+  serverCpuSeconds: number | null;
+  engineCpuSeconds: number;
+  cpuRatio: number | null;
+}
+
+/** User + system CPU of a process, every thread, from /proc (Linux), seconds; null elsewhere. */
+export function processCpuSeconds(pid: number | undefined): number | null {
+  try {
+    const stat = readFileSync(`/proc/${pid}/stat`, "utf8");
+    const fields = stat.slice(stat.lastIndexOf(")") + 2).split(" ");
+    // utime and stime are fields 14 and 15 of stat(5), counted after the command name from field 3
+    return (Number(fields[11]) + Number(fields[12])) / clockTicks();
+  } catch {
+    return null;
+  }
+}
+
+let ticks: number | undefined;
+function clockTicks(): number {
+  if (ticks === undefined) {
+    try {
+      ticks = Number(execFileSync("getconf", ["CLK_TCK"], { encoding: "utf8" }).trim()) || 100;
+    } catch {
+      ticks = 100;
+    }
+  }
+  return ticks;
 }
 
 /** Peak resident set of a process from /proc (Linux), MB; null elsewhere. */
@@ -61,6 +96,11 @@ export async function runEndToEndBench(
     threads?: number;
     /** Measure the engine alone before the server, not after (alternate it across repetitions: neither goes always second). */
     engineFirst?: boolean;
+    /**
+     * Before the measured run, one of 100 replicates per thread through the same server (default true): the
+     * measured run then starts on loaded, warm threads, as the engine-alone pool does after its warm-up.
+     */
+    warmUpRun?: boolean;
   } = {},
 ): Promise<EndToEndResult> {
   const replicates = opts.replicates ?? 10_000;
@@ -69,7 +109,7 @@ export async function runEndToEndBench(
   // replicates), so the ratio compares like with like; never while the server runs.
   const engineAlone = async () => (await runEngineBench({ threads: [threads], replicates, warmUpReplicates: 0 }))[0];
   const first = opts.engineFirst ? await engineAlone() : null;
-  const measured = await throughServer(replicates, threads);
+  const measured = await throughServer(replicates, threads, opts.warmUpRun ?? true);
   const engine = first ?? (await engineAlone());
   return {
     replicates,
@@ -77,15 +117,19 @@ export async function runEndToEndBench(
     ...measured,
     engineSeconds: engine.seconds,
     overheadRatio: measured.seconds / engine.seconds,
+    engineCpuSeconds: engine.cpuSeconds,
+    cpuRatio: measured.serverCpuSeconds === null ? null : measured.serverCpuSeconds / engine.cpuSeconds,
   };
 }
 
-async function throughServer(
-  replicates: number,
-  threads: number,
-): Promise<Omit<EndToEndResult, "replicates" | "threads" | "engineSeconds" | "overheadRatio">> {
+type Measured = Omit<
+  EndToEndResult,
+  "replicates" | "threads" | "engineSeconds" | "overheadRatio" | "engineCpuSeconds" | "cpuRatio"
+>;
+
+async function throughServer(replicates: number, threads: number, warmUpRun: boolean): Promise<Measured> {
   const spec = loadSpecFile(DEFAULT_BENCH_SPEC, { replicates });
-  let measured: Omit<EndToEndResult, "replicates" | "threads" | "engineSeconds" | "overheadRatio">;
+  let measured: Measured;
   const server = await startServerProcess({
     env: { LINGER_SEED_DEMO: "0", LINGER_POOL_SIZE: String(threads), LINGER_TEST: "1" },
   });
@@ -110,19 +154,36 @@ async function throughServer(
     const me = await (await fetch(`${base}/api/me`, { headers: { cookie } })).json();
     const labId = me.labs[0].id;
 
-    const launch = await fetch(`${base}/api/labs/${labId}/runs`, {
-      method: "POST",
-      headers: { ...json, cookie },
-      body: JSON.stringify({
-        name: "benchmark",
-        circuit: spec.circuit,
-        program: spec.program,
-        inputSignal: spec.inputSignal,
-        settings: { ...spec, circuit: undefined, program: undefined, inputSignal: undefined },
-      }),
-    });
-    if (launch.status !== 201) throw new Error(`launch failed: ${launch.status} ${await launch.text()}`);
-    const runId = (await launch.json()).id;
+    const launchRun = async (name: string, s: typeof spec): Promise<string> => {
+      const launch = await fetch(`${base}/api/labs/${labId}/runs`, {
+        method: "POST",
+        headers: { ...json, cookie },
+        body: JSON.stringify({
+          name,
+          circuit: s.circuit,
+          program: s.program,
+          inputSignal: s.inputSignal,
+          settings: { ...s, circuit: undefined, program: undefined, inputSignal: undefined },
+        }),
+      });
+      if (launch.status !== 201) throw new Error(`launch failed: ${launch.status} ${await launch.text()}`);
+      return (await launch.json()).id;
+    };
+    const waitForEnd = async (id: string) => {
+      for (;;) {
+        const r = await (await fetch(`${base}/api/runs/${id}`, { headers: { cookie } })).json();
+        if (!["queued", "running"].includes(r.status)) return r;
+        await new Promise((res) => setTimeout(res, 200));
+      }
+    };
+    if (warmUpRun) {
+      // A server that has been up a while: its threads have loaded their code (tsx compiles it in each thread,
+      // seconds of CPU after the server listens) and run a chunk, as the engine-alone pool has before timing.
+      const warm = await waitForEnd(await launchRun("warm-up", { ...spec, replicates: 100 * threads }));
+      if (warm.status !== "finished") throw new Error(`warm-up run ended ${warm.status}: ${warm.statusReason}`);
+    }
+    const cpu0 = processCpuSeconds(server.child.pid);
+    const runId = await launchRun("benchmark", spec);
 
     const health: number[] = [];
     const list: number[] = [];
@@ -142,16 +203,13 @@ async function throughServer(
         if (wait > 0) await new Promise((r) => setTimeout(r, wait));
       }
     })();
-    let run: any;
-    for (;;) {
-      run = await (await fetch(`${base}/api/runs/${runId}`, { headers: { cookie } })).json();
-      if (!["queued", "running"].includes(run.status)) break;
-      await new Promise((r) => setTimeout(r, 200));
-    }
+    const run = await waitForEnd(runId);
     done = true;
     await load;
     if (run.status !== "finished") throw new Error(`run ended ${run.status}: ${run.statusReason}`);
+    const cpu1 = processCpuSeconds(server.child.pid);
     measured = {
+      serverCpuSeconds: cpu0 === null || cpu1 === null ? null : cpu1 - cpu0,
       seconds: (Date.parse(run.finishedAt) - Date.parse(run.startedAt)) / 1000,
       healthP95Ms: p95(health),
       listP95Ms: p95(list),

@@ -123,7 +123,10 @@ export async function runPipelineBench(
     // The engine-alone half goes first in every other repetition, so neither half always runs on a warmer machine.
     const r = await runEndToEndBench({ replicates: 10_000, threads, engineFirst: e2eRuns.length % 2 === 1 });
     log(
-      `  10,000 end to end: ${r.seconds.toFixed(2)} s vs engine alone ${r.engineSeconds.toFixed(2)} s = ${r.overheadRatio.toFixed(3)}x`,
+      `  10,000 end to end: ${r.seconds.toFixed(2)} s vs engine alone ${r.engineSeconds.toFixed(2)} s = ${r.overheadRatio.toFixed(3)}x` +
+        (r.cpuRatio === null
+          ? ""
+          : `; CPU ${r.serverCpuSeconds!.toFixed(2)} s vs ${r.engineCpuSeconds.toFixed(2)} s = ${r.cpuRatio.toFixed(3)}x`),
     );
     e2eRuns.push(r);
   }
