@@ -41,12 +41,12 @@ export function compareLabRuns(ctx: AppContext, labId: string, runIds: string[])
 }
 
 /** The stored summary's settings block, else one resolved from the spec; null when the threshold cannot be resolved. */
-function settingsOf(row: { spec: unknown; summary: unknown }) {
+function settingsOf(row: { id: string; spec: unknown; summary: unknown }) {
   const stored = (row.summary as RunSummary | null)?.settings;
   if (stored) return stored;
   try {
     const spec = row.spec as RunSpec;
-    return runSettingsBlock(spec, thresholdOnLoop(spec));
+    return runSettingsBlock(spec, thresholdOnLoop(spec, row.id));
   } catch {
     return null;
   }

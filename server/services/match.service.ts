@@ -73,7 +73,7 @@ function cautions(
   const windows = new Set<string>();
   for (const r of runs) {
     try {
-      const th = thresholdOnLoop(r.spec);
+      const th = thresholdOnLoop(r.spec, r.id);
       thetas.add(th.theta.toPrecision(4));
       windows.add(th.windowMinutes.toPrecision(4));
     } catch {

@@ -186,7 +186,34 @@ const ON_LOOP_THRESHOLD_STEPS = 50_000;
  * event loop, under a small ODE budget: past it the default threshold throws
  * (the caller shows none) and a given one comes without its mean-field warnings.
  */
-export function thresholdOnLoop(spec: RunSpec) {
+export function thresholdOnLoop(spec: RunSpec, runId?: string) {
+  if (runId === undefined) return solveThresholdOnLoop(spec);
+  // A stored run's spec never changes, so its threshold (or the reason it has none) is solved once per process
+  // and kept for the most recently read runs: a run's detail, series and comparisons don't repeat the ODE work.
+  let kept = keptThresholds.get(runId);
+  if (kept === undefined) {
+    try {
+      kept = { ok: true, value: solveThresholdOnLoop(spec) };
+    } catch (e) {
+      kept = { ok: false, error: e };
+    }
+    if (keptThresholds.size >= KEPT_THRESHOLDS) keptThresholds.delete(keptThresholds.keys().next().value!);
+  } else keptThresholds.delete(runId);
+  keptThresholds.set(runId, kept); // most recent last
+  if (!kept.ok) throw kept.error;
+  return kept.value;
+}
+
+type Resolved = ReturnType<typeof resolveThreshold>;
+/** How many stored runs' thresholds are kept (least recently read dropped first). */
+const KEPT_THRESHOLDS = 500;
+const keptThresholds = new Map<string, { ok: true; value: Resolved } | { ok: false; error: unknown }>();
+let thresholdSolvesOnLoop = 0;
+/** Threshold solves done on the event loop so far (for tests: a second read of a run must not add one). */
+export const thresholdSolveCount = () => thresholdSolvesOnLoop;
+
+function solveThresholdOnLoop(spec: RunSpec): Resolved {
+  thresholdSolvesOnLoop++;
   return withOdeBudget(new OdeBudget({ maxSteps: ON_LOOP_THRESHOLD_STEPS }), () => resolveThreshold(spec));
 }
 
@@ -674,7 +701,7 @@ export function runDetail(ctx: AppContext, idOrRow: string | RunRow): RunDetail 
   const stored = (row.summary as RunSummary | null)?.settings ?? null;
   let settings: RunDetail["settings"] = stored;
   try {
-    const t = thresholdOnLoop(spec);
+    const t = thresholdOnLoop(spec, id);
     settings ??= runSettingsBlock(spec, t);
     threshold = {
       theta: t.theta,
@@ -734,7 +761,7 @@ export function runSeries(ctx: AppContext, id: string, opts: { maxTrajectories?:
   }
   let threshold: RunSeries["threshold"] = null;
   try {
-    const t = thresholdOnLoop(spec);
+    const t = thresholdOnLoop(spec, id);
     threshold = { theta: t.theta, downTheta: t.downTheta };
   } catch {
     threshold = null;
