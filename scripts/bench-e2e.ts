@@ -127,7 +127,7 @@ type Measured = Omit<
   "replicates" | "threads" | "engineSeconds" | "overheadRatio" | "engineCpuSeconds" | "cpuRatio"
 >;
 
-async function throughServer(replicates: number, threads: number, warmUpRun: boolean): Promise<Measured> {
+export async function throughServer(replicates: number, threads: number, warmUpRun: boolean): Promise<Measured> {
   const spec = loadSpecFile(DEFAULT_BENCH_SPEC, { replicates });
   let measured: Measured;
   const server = await startServerProcess({

@@ -5,7 +5,9 @@
  *   replicate totals, pulse columns and grid sums, reduced as they arrive, in
  *   chunk order (chunks that come early wait for the ones before them): grid
  *   sums added, replicate lines hashed, pulse lines rendered for the hash, the
- *   records kept in the form SQLite gives them back. So finalisation does not
+ *   records kept in the form SQLite gives them back, as columns of numbers
+ *   (sim/analysis/pulse-table.ts; an object per record was most of the memory
+ *   of a 100,000-replicate run). So finalisation does not
  *   read back and hash every row at the end.
  * - "finalise": when every chunk of the run was ingested, from that state;
  *   otherwise (a run resumed after a restart, or a thread that started afresh)
@@ -33,7 +35,8 @@ import { OdeBudget, createGridReducer, withOdeBudget, type GridPartial } from "@
 import type { ReplicateFigures } from "@/sim/regimes/replicate-figures";
 import type { RunRegime } from "@/sim/regimes";
 import { completeFinalise, finaliseRun, prepareFinalise, type PreparedFinalise } from "@/sim/analysis";
-import { unpackPulseStats, type PackedPulseStats } from "@/sim/engine/pulse-columns";
+import { packPulseStats, unpackPulseStats, type PackedPulseStats } from "@/sim/engine/pulse-columns";
+import { createPulseTableBuilder } from "@/sim/analysis/pulse-table";
 import {
   createStatsHasher,
   fromBlob,
@@ -111,7 +114,8 @@ interface Reduction {
   grid: ReturnType<typeof createGridReducer>;
   hasher: ReturnType<typeof createStatsHasher>;
   replicates: StoredReplicate[];
-  pulses: PulseStat[];
+  /** The pulse records as columns (sim/analysis/pulse-table.ts), not an object each: most of a large run's memory. */
+  pulses: ReturnType<typeof createPulseTableBuilder>;
   /** prepareFinalise's result for the run's spec (or what it threw), when a "prepare" task came. */
   prepared?: { spec: RunSpec; value: PreparedFinalise } | { spec: RunSpec; error: Error };
 }
@@ -126,7 +130,7 @@ function newReduction(spec: IngestTask["spec"], chunks: number): Reduction {
     grid: createGridReducer(spec),
     hasher: createStatsHasher(),
     replicates: [],
-    pulses: [],
+    pulses: createPulseTableBuilder(),
   };
 }
 
@@ -137,7 +141,7 @@ function reduceOne(r: Reduction, replicates: StoredReplicate[], pulses: PulseSta
   r.hasher.addReplicates(replicates);
   r.hasher.addPulses(pulses);
   for (const x of replicates) r.replicates.push(x);
-  for (const p of pulses) r.pulses.push(p);
+  r.pulses.append(packPulseStats(pulses));
 }
 
 function ingest(task: IngestTask): void {
@@ -184,9 +188,10 @@ function reduceFromDatabase(db: Db, spec: RunSpec, runId: string, chunks: number
       gridCount: fromBlob(c.gridCount as Buffer),
     });
   r.replicates = readReplicateRows(db, runId).map(replicateAsStored);
-  r.pulses = readPulseStats(db, runId);
+  const pulses = readPulseStats(db, runId);
   r.hasher.addReplicates(r.replicates);
-  r.hasher.addPulses(r.pulses);
+  r.hasher.addPulses(pulses);
+  r.pulses.append(packPulseStats(pulses));
   r.next = chunks;
   return r;
 }
@@ -210,7 +215,7 @@ function finalise(task: FinaliseTask): FinaliseResult {
     const { mean, sd } = r.grid.result();
     const input = {
       spec,
-      pulses: r.pulses,
+      pulses: r.pulses.table(),
       replicates: r.replicates.map((x) => ({
         replicate: x.replicate,
         events: x.events,

@@ -8,7 +8,7 @@ import type { DelaySummary } from "@/shared/schemas/analysis";
 import { describe } from "@/sim/stats/describe";
 import { histogram } from "@/sim/stats/histogram";
 import {
-  kaplanMeier,
+  kaplanMeierOfTimes,
   kmQuantile,
   kmQuantileInterval,
   type KaplanMeierResult,
@@ -19,8 +19,17 @@ import {
 const CURVE_STEP = 0.005;
 
 export function summarizeDelays(observations: readonly SurvivalObservation[]): DelaySummary {
-  const km = kaplanMeier(observations);
   const observed = observations.filter((o) => o.event).map((o) => o.time);
+  const censored = observations.filter((o) => !o.event).map((o) => o.time);
+  return summarizeDelayTimes(observed, censored);
+}
+
+/**
+ * summarizeDelays from the observed (event) times, in observation order, and the censoring times apart:
+ * the same summary without an object per observation.
+ */
+export function summarizeDelayTimes(observed: readonly number[], censored: readonly number[]): DelaySummary {
+  const km = kaplanMeierOfTimes(Float64Array.from(observed), Float64Array.from(censored));
   const survival: DelaySummary["survival"] = [];
   const eventSteps = km.steps.filter((s) => s.events > 0);
   let lastKept = 1;

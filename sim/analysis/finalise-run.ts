@@ -18,11 +18,13 @@ import { odeBudget, withOdeBudget } from "@/sim/ode/ode-budget";
 import { prepareRunRegime, settleRunRegime, type PreparedRunRegime, type RunRegime } from "@/sim/regimes";
 import { replicateFigures, type ReplicateFigures } from "@/sim/regimes/replicate-figures";
 import { runSettingsBlock } from "./run-settings";
+import type { PulseTable } from "./pulse-table";
 import { summarizeRun, type ReplicateTotals } from "./summarize-run";
 
 export interface FinaliseRunInput {
   spec: RunSpec;
-  pulses: readonly PulseStat[];
+  /** As objects or as columns (./pulse-table.ts): the same result either way. */
+  pulses: readonly PulseStat[] | PulseTable;
   replicates: readonly ReplicateTotals[];
   /** The threshold the run was tracked with, when the caller already resolved it. */
   threshold?: ResolvedThreshold;

@@ -8,6 +8,7 @@
  * with no response is right-censored at that time minus on.
  */
 import type { PulseStat } from "@/shared/schemas/run-spec";
+import { F, PULSE_FIELDS, type PulseTable } from "./pulse-table";
 
 export function evaluablePulses(pulses: readonly PulseStat[]): PulseStat[] {
   return pulses.filter((p) => !p.excluded);
@@ -46,4 +47,45 @@ export function windowEnds(
     const next = byReplicate.get(p.replicate)!.get(p.pulseIndex + 1);
     return Math.min(p.off + windowMinutes, next ?? Infinity, endTimeMinutes);
   });
+}
+
+/**
+ * windowEnds of records held as columns (./pulse-table.ts), the same numbers. Records in (replicate,
+ * pulseIndex) order, as runs keep them, find their next pulse as the record after them (no map per
+ * replicate); any other order is looked up as windowEnds does.
+ */
+export function windowEndsOfTable(
+  t: PulseTable,
+  windowMinutes: number,
+  endTimeMinutes: number = Infinity,
+): Float64Array {
+  const a = t.numbers;
+  const n = t.length;
+  const rep = (i: number) => a[i * PULSE_FIELDS + F.replicate];
+  const idx = (i: number) => a[i * PULSE_FIELDS + F.pulseIndex];
+  const on = (i: number) => a[i * PULSE_FIELDS + F.on];
+  let ordered = true;
+  for (let i = 0; i < n && ordered; i++) {
+    if (!Number.isInteger(idx(i))) ordered = false;
+    else if (i > 0 && !(rep(i - 1) < rep(i) || (rep(i - 1) === rep(i) && idx(i - 1) < idx(i)))) ordered = false;
+  }
+  const out = new Float64Array(n);
+  if (ordered) {
+    for (let i = 0; i < n; i++) {
+      const next = i + 1 < n && rep(i + 1) === rep(i) && idx(i + 1) === idx(i) + 1 ? on(i + 1) : Infinity;
+      out[i] = Math.min(a[i * PULSE_FIELDS + F.off] + windowMinutes, next, endTimeMinutes);
+    }
+    return out;
+  }
+  const byReplicate = new Map<number, Map<number, number>>();
+  for (let i = 0; i < n; i++) {
+    let m = byReplicate.get(rep(i));
+    if (!m) byReplicate.set(rep(i), (m = new Map()));
+    m.set(idx(i), on(i));
+  }
+  for (let i = 0; i < n; i++) {
+    const next = byReplicate.get(rep(i))!.get(idx(i) + 1);
+    out[i] = Math.min(a[i * PULSE_FIELDS + F.off] + windowMinutes, next ?? Infinity, endTimeMinutes);
+  }
+  return out;
 }

@@ -7,7 +7,8 @@
  *
  * Input: the per-pulse records of docs/metrics.md (for simulations detected
  * online on the exact event path by sim/metrics/pulse-tracker.ts; for uploaded
- * traces from the same tracker on the sampled trace) and per-replicate totals.
+ * traces from the same tracker on the sampled trace), as objects or as columns
+ * (./pulse-table.ts), and per-replicate totals.
  * Deterministic: the same input in the same order gives the same output.
  *
  * @example summarizeRun({ pulses, replicates, threshold, noiseDurationMinutes: 10 }).byDuration
@@ -22,13 +23,14 @@ import type {
 } from "@/shared/schemas/analysis";
 import { describe, mean } from "@/sim/stats/describe";
 import { histogram } from "@/sim/stats/histogram";
-import { kaplanMeier, kmQuantile, kmQuantileInterval, type SurvivalObservation } from "@/sim/stats/kaplan-meier";
+import { kaplanMeierOfTimes, kmQuantile, kmQuantileInterval } from "@/sim/stats/kaplan-meier";
 import { fitLogisticPass } from "@/sim/stats/logistic-fit";
 import { logisticGoodnessOfFit } from "@/sim/stats/logistic-goodness-of-fit";
 import { wilson } from "@/sim/stats/wilson-interval";
-import { medianStatus, summarizeDelays } from "./delay-summary";
+import { medianStatus, summarizeDelayTimes } from "./delay-summary";
 import { passCurveD50 } from "./pass-curve-d50";
-import { windowEnds } from "./pulse-selection";
+import { windowEndsOfTable } from "./pulse-selection";
+import { F, PULSE_FIELDS, pulseTable, type PulseTable } from "./pulse-table";
 import { durationNormalizer } from "./normalize-duration";
 
 export interface ReplicateTotals {
@@ -44,7 +46,8 @@ export interface ReplicateTotals {
 }
 
 export interface SummarizeRunInput {
-  pulses: readonly PulseStat[];
+  /** The per-pulse records, as objects or as columns (./pulse-table.ts): the same summary either way. */
+  pulses: readonly PulseStat[] | PulseTable;
   replicates: readonly ReplicateTotals[];
   threshold: {
     theta: number;
@@ -73,7 +76,14 @@ const finite = (x: number | null | undefined): number | null =>
 const medianOf = (xs: number[]): number | null => describe(xs).median;
 
 export function summarizeRun(input: SummarizeRunInput): RunSummary {
-  const { pulses, replicates, noiseDurationMinutes } = input;
+  const { replicates, noiseDurationMinutes } = input;
+  // Records as columns (a table is read as it is): no object per record below, so a run of a million
+  // pulses needs a few arrays of numbers. Every figure takes its values in record order, as from objects.
+  const t = pulseTable(input.pulses);
+  const a = t.numbers;
+  const nPulses = t.length;
+  const at = (i: number, field: number) => a[i * PULSE_FIELDS + field];
+  const nullable = (x: number): number | null => (Number.isNaN(x) ? null : x);
   const th = input.threshold;
   const threshold: ThresholdUsed = {
     theta: th.theta,
@@ -83,45 +93,95 @@ export function summarizeRun(input: SummarizeRunInput): RunSummary {
     outputLifetimeMinutes: finite(th.outputLifetimeMinutes),
   };
   const normalizeDuration = durationNormalizer();
-  const ends = windowEnds(pulses, th.windowMinutes, input.endTimeMinutes ?? Infinity);
+  const ends = windowEndsOfTable(t, th.windowMinutes, input.endTimeMinutes ?? Infinity);
   const notes: string[] = [];
 
   // ---- per pulse: survival observations for the response delay and the OFF delay
-  type Row = { p: PulseStat; delayObs: SurvivalObservation; offObs: SurvivalObservation | null };
-  const rows: Row[] = [];
+  // rows: the evaluable records' indices; delayTime/delayEvent and offTime/offKind (0 none, 1 event, 2 censored)
+  const delayTime = new Float64Array(nPulses);
+  const delayEvent = new Uint8Array(nPulses);
+  const offTime = new Float64Array(nPulses);
+  const offKind = new Uint8Array(nPulses);
+  const duration = new Float64Array(nPulses);
+  const rowList: number[] = [];
   let excludedTotal = 0;
-  pulses.forEach((p, i) => {
-    if (p.excluded) {
+  for (let i = 0; i < nPulses; i++) {
+    duration[i] = normalizeDuration(at(i, F.durationBin));
+    if (at(i, F.excluded) === 1) {
       excludedTotal++;
-      return;
+      continue;
     }
-    const delayObs: SurvivalObservation =
-      p.delay !== null ? { time: p.delay, event: true } : { time: Math.max(0, ends[i] - p.on), event: false };
-    const offObs: SurvivalObservation | null = !p.passed
-      ? null
-      : p.offDelay !== null
-        ? { time: p.offDelay, event: true }
-        : { time: Math.max(0, ends[i] - p.off), event: false };
-    rows.push({ p, delayObs, offObs });
-  });
+    const delay = nullable(at(i, F.delay));
+    if (delay !== null) {
+      delayTime[i] = delay;
+      delayEvent[i] = 1;
+    } else delayTime[i] = Math.max(0, ends[i] - at(i, F.on));
+    if (at(i, F.passed) === 1) {
+      const offDelay = nullable(at(i, F.offDelay));
+      if (offDelay !== null) {
+        offTime[i] = offDelay;
+        offKind[i] = 1;
+      } else {
+        offTime[i] = Math.max(0, ends[i] - at(i, F.off));
+        offKind[i] = 2;
+      }
+    }
+    rowList.push(i);
+  }
+  const rows = Int32Array.from(rowList);
+  rowList.length = 0;
+  const passedAt = (i: number) => at(i, F.passed) === 1;
+  const widthsOf = (idx: ArrayLike<number>): number[] => {
+    const out: number[] = [];
+    for (let k = 0; k < idx.length; k++) {
+      const i = idx[k];
+      for (let j = t.widthStart[i]; j < t.widthStart[i + 1]; j++) out.push(t.widths[j]);
+    }
+    return out;
+  };
+  const column = (idx: ArrayLike<number>, field: number): number[] => {
+    const out = new Array<number>(idx.length);
+    for (let k = 0; k < idx.length; k++) out[k] = at(idx[k], field);
+    return out;
+  };
+  const delayKm = (idx: ArrayLike<number>) => {
+    const [observed, censored] = delayTimes(idx);
+    return kaplanMeierOfTimes(Float64Array.from(observed), Float64Array.from(censored));
+  };
+  const delayTimes = (idx: ArrayLike<number>): [number[], number[]] => {
+    const observed: number[] = [];
+    const censored: number[] = [];
+    for (let k = 0; k < idx.length; k++) {
+      const i = idx[k];
+      if (delayEvent[i] === 1) observed.push(delayTime[i]);
+      else censored.push(delayTime[i]);
+    }
+    return [observed, censored];
+  };
 
   // ---- by duration
-  const groups = new Map<number, { rows: Row[]; excluded: number }>();
-  for (const p of pulses) {
-    const d = normalizeDuration(p.durationBin);
+  const groups = new Map<number, { rows: number[]; excluded: number }>();
+  for (let i = 0; i < nPulses; i++) {
+    const d = duration[i];
     if (!groups.has(d)) groups.set(d, { rows: [], excluded: 0 });
-    if (p.excluded) groups.get(d)!.excluded++;
+    if (at(i, F.excluded) === 1) groups.get(d)!.excluded++;
   }
-  for (const r of rows) groups.get(normalizeDuration(r.p.durationBin))!.rows.push(r);
-  const durations = [...groups.keys()].sort((a, b) => a - b);
-  const byDuration: ByDurationEntry[] = durations.map((duration) => {
-    const g = groups.get(duration)!;
+  for (const i of rows) groups.get(duration[i])!.rows.push(i);
+  const durations = [...groups.keys()].sort((x, y) => x - y);
+  const byDuration: ByDurationEntry[] = durations.map((d) => {
+    const g = groups.get(d)!;
     const n = g.rows.length;
-    const passed = g.rows.filter((r) => r.p.passed).length;
-    const km = kaplanMeier(g.rows.map((r) => r.delayObs));
-    const offDelays = g.rows.filter((r) => r.p.passed && r.p.offDelay !== null).map((r) => r.p.offDelay as number);
+    let passed = 0;
+    const offDelays: number[] = [];
+    for (const i of g.rows) {
+      if (!passedAt(i)) continue;
+      passed++;
+      const offDelay = nullable(at(i, F.offDelay));
+      if (offDelay !== null) offDelays.push(offDelay);
+    }
+    const km = delayKm(g.rows);
     return {
-      duration,
+      duration: d,
       pulses: n,
       passed,
       passProbability: n > 0 ? passed / n : null,
@@ -131,11 +191,12 @@ export function summarizeRun(input: SummarizeRunInput): RunSummary {
       medianDelayStatus: medianStatus(km),
       censored: km.censored,
       excluded: g.excluded,
-      medianWidth: medianOf(g.rows.flatMap((r) => r.p.widths)),
-      medianPeak: medianOf(g.rows.map((r) => r.p.peak)),
+      medianWidth: medianOf(widthsOf(g.rows)),
+      medianPeak: medianOf(column(g.rows, F.peak)),
       medianOffDelay: medianOf(offDelays),
     };
   });
+  groups.clear();
 
   // ---- d50 from the monotone pass curve; the logistic fit is an optional smooth with its goodness of fit
   const passCounts = byDuration
@@ -175,11 +236,11 @@ export function summarizeRun(input: SummarizeRunInput): RunSummary {
       `No pulse was at least ${fmt(input.longPulseMinutes ?? 3 * noiseDurationMinutes)} min long; the delay cost uses the longest duration, ${fmt(longMin)} min.`,
     );
   }
-  const longRows = rows.filter((r) => normalizeDuration(r.p.durationBin) >= longMin);
+  const longRows = rows.filter((i) => duration[i] >= longMin);
   let delayCost: RunSummary["delayCost"] = null;
   if (longRows.length > 0) {
-    const km = kaplanMeier(longRows.map((r) => r.delayObs));
-    const observed = longRows.filter((r) => r.p.delay !== null).map((r) => r.p.delay as number);
+    const [observed, censored] = delayTimes(longRows);
+    const km = kaplanMeierOfTimes(Float64Array.from(observed), Float64Array.from(censored));
     delayCost = {
       minDurationMinutes: longMin,
       durations: withPulses.filter((e) => e.duration >= longMin).map((e) => e.duration),
@@ -195,17 +256,34 @@ export function summarizeRun(input: SummarizeRunInput): RunSummary {
   // ---- pooled response delay: only the durations that respond in most replicates
   const responsive = byDuration.filter((e) => e.passProbability !== null && e.passProbability > MOST_REPLICATES);
   const responsiveSet = new Set(responsive.map((e) => e.duration));
-  const pooledRows = rows.filter((r) => responsiveSet.has(normalizeDuration(r.p.durationBin)));
+  const pooledRows = rows.filter((i) => responsiveSet.has(duration[i]));
   const delayCoverage = coverage(byDuration, responsive, pooledRows.length);
+  const pooledDelay = summarizeDelayTimes(...delayTimes(pooledRows));
+  const offObserved: number[] = [];
+  const offCensored: number[] = [];
+  let passedTotal = 0;
+  for (const i of rows) {
+    if (passedAt(i)) passedTotal++;
+    if (offKind[i] === 1) offObserved.push(offTime[i]);
+    else if (offKind[i] === 2) offCensored.push(offTime[i]);
+  }
+  const offDelaySummary = summarizeDelayTimes(offObserved, offCensored);
 
   // ---- widths and pulse generation (evaluable pulses)
-  const widths = rows.flatMap((r) => r.p.widths);
-  const fwhms = rows.map((r) => r.p.fwhm).filter((x): x is number => x !== null);
+  const widths = widthsOf(rows);
+  const fwhms: number[] = [];
+  const peakAboveBaseline = new Array<number>(rows.length);
+  for (let k = 0; k < rows.length; k++) {
+    const i = rows[k];
+    const fwhm = nullable(at(i, F.fwhm));
+    if (fwhm !== null) fwhms.push(fwhm);
+    peakAboveBaseline[k] = at(i, F.peak) - at(i, F.baseline);
+  }
   const pulseGeneration = {
     pulses: rows.length,
-    peak: describe(rows.map((r) => r.p.peak)),
-    peakAboveBaseline: describe(rows.map((r) => r.p.peak - r.p.baseline)),
-    timeToPeak: describe(rows.map((r) => r.p.timeToPeak)),
+    peak: describe(column(rows, F.peak)),
+    peakAboveBaseline: describe(peakAboveBaseline),
+    timeToPeak: describe(column(rows, F.timeToPeak)),
     fwhm: describe(fwhms),
     fwhmNotMeasurable: rows.length - fwhms.length,
   };
@@ -238,7 +316,7 @@ export function summarizeRun(input: SummarizeRunInput): RunSummary {
     notes.push(`${capped} of ${replicates.length} replicates stopped at the event cap; their figures end at the cap.`);
   if (excludedTotal > 0) {
     notes.push(
-      `${excludedTotal} of ${pulses.length} pulses started with the output already above threshold and are left out of pass and delay figures.`,
+      `${excludedTotal} of ${nPulses} pulses started with the output already above threshold and are left out of pass and delay figures.`,
     );
   }
   if (replicates.length > moments.length && !input.measuredTraces) {
@@ -256,10 +334,10 @@ export function summarizeRun(input: SummarizeRunInput): RunSummary {
       replicates: replicates.length,
       cappedReplicates: capped,
       events: { total: events, meanPerReplicate: replicates.length ? events / replicates.length : null },
-      pulses: pulses.length,
+      pulses: nPulses,
       evaluable: rows.length,
       excluded: excludedTotal,
-      passed: rows.filter((r) => r.p.passed).length,
+      passed: passedTotal,
     },
     byDuration,
     d50: d50Verdict.kind === "estimate" ? d50Verdict.d50 : null,
@@ -278,9 +356,9 @@ export function summarizeRun(input: SummarizeRunInput): RunSummary {
     },
     falsePassRate: falsePass ? falsePass.rate : null,
     falsePass,
-    delay: summarizeDelays(pooledRows.map((r) => r.delayObs)),
+    delay: pooledDelay,
     delayCoverage,
-    offDelay: summarizeDelays(rows.filter((r) => r.offObs !== null).map((r) => r.offObs as SurvivalObservation)),
+    offDelay: offDelaySummary,
     delayCost,
     widths: { summary: describe(widths), histogram: histogram(widths) },
     pulseGeneration,

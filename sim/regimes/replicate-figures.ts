@@ -16,6 +16,7 @@
  */
 import type { PulseStat } from "@/shared/schemas/run-spec";
 import { durationNormalizer } from "@/sim/analysis/normalize-duration";
+import { F, PULSE_FIELDS, pulseTable, type PulseTable } from "@/sim/analysis/pulse-table";
 import { API_LIMITS } from "@/shared/schemas/api-runs";
 import { meetsTarget, type DesignTarget, type TargetResult } from "./design-target";
 
@@ -36,27 +37,37 @@ export interface ReplicateFigures {
 }
 
 export function replicateFigures(
-  pulses: readonly PulseStat[],
+  records: readonly PulseStat[] | PulseTable,
   opts: { longMinutes: number | null; maxReplicates?: number },
 ): ReplicateFigures {
   const cap = opts.maxReplicates ?? MAX_REPLICATE_FIGURES;
+  // records as columns (a table as it is), read in record order
+  const t = pulseTable(records);
+  const at = (i: number, field: number) => t.numbers[i * PULSE_FIELDS + field];
   // a run has few distinct durations and many pulses: each duration is normalised once
   const normalizeDuration = durationNormalizer();
-  const durations = [...new Set(pulses.map((p) => normalizeDuration(p.durationBin)))].sort((a, b) => a - b);
+  const durationSet = new Set<number>();
+  const repSet = new Set<number>();
+  for (let i = 0; i < t.length; i++) {
+    durationSet.add(normalizeDuration(at(i, F.durationBin)));
+    repSet.add(at(i, F.replicate));
+  }
+  const durations = [...durationSet].sort((a, b) => a - b);
   const col = new Map(durations.map((d, i) => [d, i]));
-  const reps = [...new Set(pulses.map((p) => p.replicate))].sort((a, b) => a - b).slice(0, cap);
+  const reps = [...repSet].sort((a, b) => a - b).slice(0, cap);
   const row = new Map(reps.map((r, i) => [r, i]));
   const counted = reps.map(() => durations.map(() => 0));
   const passed = reps.map(() => durations.map(() => 0));
   const delays: number[][] = reps.map(() => []);
-  for (const p of pulses) {
-    const i = row.get(p.replicate);
-    if (i === undefined || p.excluded) continue;
-    const d = normalizeDuration(p.durationBin);
+  for (let k = 0; k < t.length; k++) {
+    const i = row.get(at(k, F.replicate));
+    if (i === undefined || at(k, F.excluded) === 1) continue;
+    const d = normalizeDuration(at(k, F.durationBin));
     const j = col.get(d)!;
     counted[i][j]++;
-    if (p.passed) passed[i][j]++;
-    if (opts.longMinutes !== null && d >= opts.longMinutes) delays[i].push(p.delay ?? Infinity);
+    if (at(k, F.passed) === 1) passed[i][j]++;
+    const delay = at(k, F.delay);
+    if (opts.longMinutes !== null && d >= opts.longMinutes) delays[i].push(Number.isNaN(delay) ? Infinity : delay);
   }
   const longDelay = delays.map((ds) => {
     if (!ds.length) return null;
