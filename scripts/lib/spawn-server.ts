@@ -75,7 +75,9 @@ export async function startServerProcess(
     async stop(o = {}) {
       if (child.exitCode === null && child.signalCode === null) {
         child.kill("SIGTERM");
-        await Promise.race([exited, new Promise((r) => setTimeout(r, 10_000))]);
+        let grace: NodeJS.Timeout | undefined;
+        await Promise.race([exited, new Promise((r) => (grace = setTimeout(r, 10_000)))]);
+        clearTimeout(grace); // a pending 10 s timer would hold the caller's process (jest warns it did not exit)
         if (child.exitCode === null && child.signalCode === null) child.kill("SIGKILL");
       }
       if (!o.keepFiles && !opts.dir) rmSync(dir, { recursive: true, force: true });
