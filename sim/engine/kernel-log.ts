@@ -49,7 +49,6 @@ export function kernelLogCode(u: string, out: string): string {
     `if (lgU !== lgM || lgU === 0) { ${out} = Math.log(1 - ${u}); } else {`,
     // 1 - u = 2^(31 - z - 32) * (w / 2^31) with w = m shifted up to bit 31; the fraction's top 20 bits: h
     `lgZ = Math.clz32(lgU); lgW = (lgU << lgZ) >>> 0; lgH = (lgW >>> 11) & 0xfffff;`,
-    // fdlibm: normalise into [sqrt(2)/2, sqrt(2)): x or x/2; f = x - 1 (exact)
     // fdlibm: normalise into [sqrt(2)/2, sqrt(2)): x (i = 0) or x/2 (i = 1); f = x - 1 (exact either way)
     `lgI = ((lgH + 0x95f64) >>> 20) & 1; lgK = lgI - 1 - lgZ;`,
     `lgF = lgW * (4.656612873077393e-10 - lgI * 2.3283064365386963e-10) - 1.0;`,
