@@ -27,6 +27,7 @@ import { packPulseStats } from "@/sim/engine/pulse-columns";
 import { createChunkWriter, readChunks, speciesNames } from "./run-store";
 import { recordAudit } from "@/server/services/audit.service";
 import { createFairQueue } from "./fair-queue";
+import { storeFinalised } from "./store-finalised";
 
 export interface RunQueueStats {
   queuedRuns: number;
@@ -425,42 +426,7 @@ export function createRunQueue(opts: RunQueueOptions): RunQueue {
       if (r.odeNote) log(`run ${run.id}: no ODE overlay (${r.odeNote})`);
       const spec = run.spec;
       const status = r.capped ? "capped" : "finished";
-      const stored = sqlite.transaction(() => {
-        // Still ours? (cancelled or deleted while finalising)
-        const cur = db.select({ status: schema.runs.status }).from(schema.runs).where(eq(schema.runs.id, run.id)).get();
-        if (!cur || cur.status !== "running") return false;
-        db.delete(schema.runSeries).where(eq(schema.runSeries.runId, run.id)).run();
-        for (const s of r.series)
-          db.insert(schema.runSeries)
-            .values({
-              runId: run.id,
-              species: s.species,
-              kind: s.kind,
-              values: Buffer.from(s.values.buffer, s.values.byteOffset, s.values.byteLength),
-            })
-            .run();
-        db.update(schema.runs)
-          .set({
-            status,
-            statusReason: r.capped
-              ? `Some replicates stopped at the event cap of ${spec.eventCapPerReplicate}; their figures end at the cap.`
-              : null,
-            summary: r.summary,
-            statsHash: r.statsHash,
-            regime: r.regime,
-            regimeDeterministic: r.regime.deterministic.label,
-            regimeStochastic: r.regime.stochastic.label,
-            replicateFigures: r.replicateFigures,
-            finishedAt: new Date(),
-          })
-          .where(eq(schema.runs.id, run.id))
-          .run();
-        db.update(schema.runChunks)
-          .set({ gridSum: null, gridSumSq: null, gridCount: null })
-          .where(eq(schema.runChunks.runId, run.id))
-          .run();
-        return true;
-      })();
+      const stored = storeFinalised(db, sqlite, run.id, r, spec);
       active.delete(run.id);
       if (!stored) return;
       events.emit("progress", { ...progressOf(run), status });
