@@ -300,6 +300,27 @@ export const pulseStats = sqliteTable(
   ],
 );
 
+/**
+ * A stored chunk's pulse statistics as one BLOB of typed-array columns
+ * (encoding in server/compute/pulse-store.ts, the only code that reads or
+ * writes it), written in the chunk's transaction. Runs stored before this table
+ * keep their pulse_stats rows; a run has its pulses in one of the two, never both.
+ */
+export const pulseChunks = sqliteTable(
+  "pulse_chunks",
+  {
+    runId: text("run_id")
+      .notNull()
+      .references(() => runs.id, { onDelete: "cascade" }),
+    chunkIndex: integer("chunk_index").notNull(),
+    /** First replicate of the chunk: chunks read in this order give (replicate, pulse) order. */
+    replicateStart: integer("replicate_start").notNull(),
+    pulseCount: integer("pulse_count").notNull(),
+    data: blob("data", { mode: "buffer" }).notNull(),
+  },
+  (t) => [primaryKey({ columns: [t.runId, t.chunkIndex] })],
+);
+
 /** Grid series per species: mean, sd, ode (mean-field overlay), and the input signal. Float64 BLOB. */
 export const runSeries = sqliteTable(
   "run_series",

@@ -1,6 +1,6 @@
 /**
  * Writing and reading a run's stored statistics. Chunk rows, replicate rows,
- * pulse rows and trajectories of one chunk are written in one transaction, so
+ * pulses (pulse-store.ts) and trajectories of one chunk are written in one transaction, so
  * a crash never leaves half a chunk; finalisation writes the series, summary
  * and hash in one more.
  */
@@ -10,7 +10,8 @@ import type Database from "better-sqlite3";
 import type { Db } from "@/db/client";
 import { schema } from "@/db/client";
 import type { PulseStat, RunSpec } from "@/shared/schemas/run-spec";
-import { PULSE_FIELDS, type PackedPulseStats } from "@/sim/engine/pulse-columns";
+import type { PackedPulseStats } from "@/sim/engine/pulse-columns";
+import { createPulseWriter, readPulseStats } from "./pulse-store";
 
 export const toBlob = (a: Float64Array) => Buffer.from(a.buffer, a.byteOffset, a.byteLength);
 export const fromBlob = (b: Buffer | Uint8Array | null | undefined): Float64Array => {
@@ -47,7 +48,8 @@ export function speciesNames(spec: RunSpec): string[] {
 }
 
 /** Prepared statements for the hot write path (one chunk at a time). */
-export function createChunkWriter(sqlite: Database.Database) {
+export function createChunkWriter(sqlite: Database.Database, opts: { pulseFormat?: "blobs" | "rows" } = {}) {
+  const writePulses = createPulseWriter(sqlite, { format: opts.pulseFormat });
   const insChunk = sqlite.prepare(
     // Idempotent, keyed by (run, chunk index): a chunk delivered twice (a worker retried after a stall) is stored once.
     `INSERT INTO run_chunks (run_id, chunk_index, replicate_start, count, events, grid_sum, grid_sum_sq, grid_count, seconds) VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?) ON CONFLICT (run_id, chunk_index) DO NOTHING`,
@@ -55,52 +57,12 @@ export function createChunkWriter(sqlite: Database.Database) {
   const insRep = sqlite.prepare(
     `INSERT INTO replicate_stats (run_id, replicate, events, capped, output_mean, output_var, factors) VALUES (?, ?, ?, ?, ?, ?, ?)`,
   );
-  const insPulse = sqlite.prepare(
-    `INSERT INTO pulse_stats (run_id, replicate, pulse_index, "on", off, duration_bin, excluded, passed, delay, off_delay, width, widths, peak, time_to_peak, fwhm, baseline) VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)`,
-  );
   const insTraj = sqlite.prepare(
     `INSERT INTO run_trajectories (run_id, replicate, species, "values") VALUES (?, ?, ?, ?)`,
   );
   const updRun = sqlite.prepare(
     `UPDATE runs SET replicates_done = replicates_done + ?, events_total = events_total + ?, capped_replicates = capped_replicates + ?, compute_seconds = compute_seconds + ? WHERE id = ?`,
   );
-  /** The pulse rows of one chunk straight from its columns (the same values insPulse gets from records). */
-  const writePacked = (runId: string, packed: PackedPulseStats) => {
-    const a = packed.numbers;
-    const n = a.length / PULSE_FIELDS;
-    let w = 0;
-    for (let i = 0; i < n; i++) {
-      const o = i * PULSE_FIELDS;
-      const nw = a[o + 12];
-      let widths: string | null = null;
-      let first: number | null = null;
-      if (nw > 0) {
-        const ws: number[] = new Array(nw);
-        for (let j = 0; j < nw; j++) ws[j] = packed.widths[w + j];
-        widths = JSON.stringify(ws);
-        first = ws[0];
-      }
-      w += nw;
-      insPulse.run(
-        runId,
-        a[o],
-        a[o + 1],
-        a[o + 2],
-        a[o + 3],
-        a[o + 4],
-        a[o + 5],
-        a[o + 6],
-        nanNull(a[o + 7]),
-        nanNull(a[o + 8]),
-        first,
-        widths,
-        a[o + 9],
-        a[o + 10],
-        nanNull(a[o + 11]),
-        a[o + 13],
-      );
-    }
-  };
   /** Stores one chunk in one transaction; false (nothing written) when the chunk was already stored. */
   const write = sqlite.transaction((runId: string, species: string[], gridLength: number, c: StoredChunk): boolean => {
     const inserted = insChunk.run(
@@ -128,28 +90,7 @@ export function createChunkWriter(sqlite: Database.Database) {
         JSON.stringify(r.factors ?? {}),
       );
     }
-    if (!Array.isArray(c.pulses)) writePacked(runId, c.pulses);
-    else
-      for (const p of c.pulses) {
-        insPulse.run(
-          runId,
-          p.replicate,
-          p.pulseIndex,
-          p.on,
-          p.off,
-          p.durationBin,
-          p.excluded ? 1 : 0,
-          p.passed ? 1 : 0,
-          p.delay,
-          p.offDelay,
-          p.widths.length ? p.widths[0] : null,
-          p.widths.length ? JSON.stringify(p.widths) : null,
-          p.peak,
-          p.timeToPeak,
-          p.fwhm,
-          p.baseline,
-        );
-      }
+    writePulses(runId, c.chunkIndex, c.replicateStart, c.pulses);
     for (const t of c.trajectories) {
       species.forEach((name, s) =>
         insTraj.run(runId, t.replicate, name, toBlob(t.values.slice(s * gridLength, (s + 1) * gridLength))),
@@ -161,59 +102,11 @@ export function createChunkWriter(sqlite: Database.Database) {
   return { write };
 }
 
-const nanNull = (x: number) => (Number.isNaN(x) ? null : x);
 const finiteOrNull = (x: number | null | undefined) =>
   x === null || x === undefined || !Number.isFinite(x) ? null : x;
 
-/**
- * Pulse statistics in (replicate, pulse) order. A raw prepared statement
- * returning arrays: runs can hold millions of rows.
- */
-export function readPulseStats(db: Db, runId: string): PulseStat[] {
-  const rows = db.$client
-    .prepare(
-      `SELECT replicate, pulse_index, "on", off, duration_bin, excluded, passed, delay, off_delay, widths, peak, time_to_peak, fwhm, baseline
-         FROM pulse_stats WHERE run_id = ? ORDER BY replicate, pulse_index`,
-    )
-    .raw()
-    .all(runId) as [
-    number,
-    number,
-    number,
-    number,
-    number,
-    number,
-    number,
-    number | null,
-    number | null,
-    string | null,
-    number,
-    number,
-    number | null,
-    number,
-  ][];
-  const out: PulseStat[] = new Array(rows.length);
-  for (let i = 0; i < rows.length; i++) {
-    const r = rows[i];
-    out[i] = {
-      replicate: r[0],
-      pulseIndex: r[1],
-      on: r[2],
-      off: r[3],
-      durationBin: r[4],
-      excluded: r[5] === 1,
-      passed: r[6] === 1,
-      delay: r[7],
-      offDelay: r[8],
-      widths: r[9] === null ? [] : (JSON.parse(r[9]) as number[]),
-      peak: r[10],
-      timeToPeak: r[11],
-      fwhm: r[12],
-      baseline: r[13],
-    };
-  }
-  return out;
-}
+/** Pulse statistics in (replicate, pulse) order, from wherever the run keeps them (pulse-store.ts). */
+export { readPulseStats };
 
 export function readReplicateRows(db: Db, runId: string) {
   return db

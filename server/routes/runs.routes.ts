@@ -27,7 +27,8 @@ import {
   RUN_EXPORT_FILES,
   summaryCsv,
 } from "@/sim/analysis";
-import { readPulseStats, readReplicateRows } from "@/server/compute/run-store";
+import { readReplicateRows } from "@/server/compute/run-store";
+import { readPulseStats } from "@/server/compute/pulse-store";
 import { conflict } from "@/server/http-error";
 import { recordAudit } from "@/server/services/audit.service";
 import { PAGE_SIZE, PAGE_SIZE_MAX } from "@/shared/schemas/pagination";

@@ -10,7 +10,7 @@ import type { RunSummary } from "@/shared/schemas/analysis";
 import { accelerationFigures, compareRuns, delaysOf, widthsOf, runSettingsBlock } from "@/sim/analysis";
 import { badRequest, conflict, notFound } from "@/server/http-error";
 import { checkLimits, getRunRow, insertRun, thresholdOnLoop, type RunRow } from "./runs.service";
-import { readPulseStats } from "@/server/compute/run-store";
+import { readPulseStats } from "@/server/compute/pulse-store";
 
 export function compareLabRuns(ctx: AppContext, labId: string, runIds: string[]) {
   if (new Set(runIds).size !== runIds.length)

@@ -1,7 +1,7 @@
 /**
  * Matching a trace set against a finished run or every finished point of a
  * sweep (method in sim/traces/match.ts and docs/traces.md). Simulated figures
- * are read from the runs' pulse_stats rows; the observed ones are recomputed
+ * are read from the runs' stored pulses (server/compute/pulse-store.ts); the observed ones are recomputed
  * from the trace set with its current settings. The result is stored in
  * `matches` so it can be reopened; the tolerance is fixed by the request,
  * before any distance is computed.
@@ -12,6 +12,7 @@ import { inTransaction, schema } from "@/db/client";
 import { newId } from "@/server/ids";
 import { HttpError, conflict, notFound } from "@/server/http-error";
 import { recordAudit } from "./audit.service";
+import { firstReplicateSchedule, forEachPulseFigure } from "@/server/compute/pulse-store";
 import { analyseStored } from "./traces.service";
 import { getParameter } from "@/sim/circuit/parameters";
 import { thresholdOnLoop } from "./runs.service";
@@ -29,37 +30,18 @@ import { pooledPulses } from "@/sim/traces/trace-metrics";
 
 const DONE = new Set(["finished", "capped"]);
 
-/** Figures of a run from its pulse_stats rows (streamed; excluded pulses left out). */
+/** Figures of a run from its stored pulses (streamed chunk by chunk; excluded pulses left out). */
 export function runFigures(ctx: AppContext, runId: string): FigureSummary {
   const s = summarizeFigures([]);
-  const stmt = ctx.sqlite.prepare(
-    "select duration_bin as durationBin, excluded, passed, delay, widths from pulse_stats where run_id = ?",
-  );
-  for (const r of stmt.iterate(runId) as Iterable<{
-    durationBin: number;
-    excluded: number;
-    passed: number;
-    delay: number | null;
-    widths: string | null;
-  }>) {
-    addRecord(s, {
-      durationBin: r.durationBin,
-      excluded: !!r.excluded,
-      passed: !!r.passed,
-      delay: r.delay,
-      widths: r.widths ? (JSON.parse(r.widths) as number[]) : [],
-    });
-  }
+  forEachPulseFigure(ctx.db, runId, (p) => addRecord(s, p));
+  // Bins in ascending order whatever order the pulses came in (the order pulse_stats rows always gave them).
+  s.bins = new Map([...s.bins.entries()].sort((a, b) => a[0] - b[0]));
   return s;
 }
 
-/** The input pulses of a run (from its first replicate's rows). */
+/** The input pulses of a run (from its first replicate's pulses). */
 function runPulses(ctx: AppContext, runId: string): { on: number; off: number }[] {
-  return ctx.sqlite
-    .prepare(
-      'select "on", "off" from pulse_stats where run_id = ? and replicate = (select min(replicate) from pulse_stats where run_id = ?) order by pulse_index',
-    )
-    .all(runId, runId) as { on: number; off: number }[];
+  return firstReplicateSchedule(ctx.db, runId);
 }
 
 function cautions(

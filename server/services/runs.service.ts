@@ -32,6 +32,7 @@ import {
 import { badRequest, conflict, notFound, tooMany, parseOr400 } from "@/server/http-error";
 import { newId } from "@/server/ids";
 import { fromBlob } from "@/server/compute/run-store";
+import { readPulsePage, type PulsePageQuery } from "@/server/compute/pulse-store";
 import { runSettingsBlock } from "@/sim/analysis/run-settings";
 import { purgeDeletedTraceSets } from "./traces.service";
 import { assertRestorable } from "./undo";
@@ -785,71 +786,10 @@ export function runSeries(ctx: AppContext, id: string, opts: { maxTrajectories?:
   };
 }
 
-const SORT_COLUMNS = {
-  replicate: schema.pulseStats.replicate,
-  pulseIndex: schema.pulseStats.pulseIndex,
-  durationBin: schema.pulseStats.durationBin,
-  delay: schema.pulseStats.delay,
-  offDelay: schema.pulseStats.offDelay,
-  width: schema.pulseStats.width,
-  peak: schema.pulseStats.peak,
-  timeToPeak: schema.pulseStats.timeToPeak,
-  fwhm: schema.pulseStats.fwhm,
-} as const;
-
-export function replicatePage(
-  ctx: AppContext,
-  id: string,
-  q: {
-    sort: keyof typeof SORT_COLUMNS;
-    dir: "asc" | "desc";
-    page: number;
-    pageSize: number;
-    durationBin?: number;
-    passed?: "yes" | "no";
-  },
-) {
-  const conds = [eq(schema.pulseStats.runId, id)];
-  if (q.durationBin !== undefined) conds.push(eq(schema.pulseStats.durationBin, q.durationBin));
-  if (q.passed === "yes") conds.push(eq(schema.pulseStats.passed, true));
-  if (q.passed === "no") conds.push(eq(schema.pulseStats.passed, false), eq(schema.pulseStats.excluded, false));
-  const where = and(...conds);
-  const total = ctx.db.select({ n: count() }).from(schema.pulseStats).where(where).get()!.n;
-  const col = SORT_COLUMNS[q.sort];
-  const rows = ctx.db
-    .select()
-    .from(schema.pulseStats)
-    .where(where)
-    // nulls (censored) last either way, then a stable tie-break
-    .orderBy(
-      sql`${col} IS NULL`,
-      q.dir === "asc" ? asc(col) : desc(col),
-      asc(schema.pulseStats.replicate),
-      asc(schema.pulseStats.pulseIndex),
-    )
-    .limit(q.pageSize)
-    .offset((q.page - 1) * q.pageSize)
-    .all();
-  return {
-    total,
-    page: q.page,
-    pageSize: q.pageSize,
-    rows: rows.map((r) => ({
-      replicate: r.replicate,
-      pulseIndex: r.pulseIndex,
-      on: r.on,
-      off: r.off,
-      durationBin: r.durationBin,
-      excluded: r.excluded,
-      passed: r.passed,
-      delay: r.delay,
-      offDelay: r.offDelay,
-      width: r.width,
-      peak: r.peak,
-      timeToPeak: r.timeToPeak,
-      fwhm: r.fwhm,
-    })),
-  };
+/** A page of a run's pulses (server/compute/pulse-store.ts reads them from chunk BLOBs or old rows). */
+export function replicatePage(ctx: AppContext, id: string, q: PulsePageQuery) {
+  const { total, rows } = readPulsePage(ctx.db, id, q);
+  return { total, page: q.page, pageSize: q.pageSize, rows };
 }
 
 export function softDelete(ctx: AppContext, id: string) {

@@ -4,6 +4,7 @@ import { eq } from "drizzle-orm";
 import { makeTestContext, signIn } from "@/tests/helpers/test-app";
 import { launchBody, realQueue, waitForRun } from "@/tests/helpers/run-helpers";
 import { schema } from "@/db/client";
+import { hasPulseChunks, readPulseStats } from "@/server/compute/pulse-store";
 import { checkCsvAgainstResource } from "@/tests/helpers/check-export";
 import { ReplicatePageSchema, RunDetailSchema, RunListPageSchema, RunSeriesSchema } from "@/shared/schemas/api-runs";
 
@@ -28,8 +29,10 @@ describe("runs through the real queue and pool", () => {
         done.summary.byDuration.map((b: any) => b.duration),
         [5, 60],
       );
-      const rows = t.ctx.db.select().from(schema.pulseStats).where(eq(schema.pulseStats.runId, r.body.id)).all();
+      const rows = readPulseStats(t.ctx.db, r.body.id);
       assert.equal(rows.length, 150 * 2);
+      // new runs keep their pulses as one BLOB per chunk, not as rows
+      assert.ok(hasPulseChunks(t.ctx.db, r.body.id));
       const series = await editor.get(`/api/runs/${r.body.id}/series`);
       assert.equal(series.status, 200);
       RunSeriesSchema.parse(series.body);
