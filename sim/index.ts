@@ -30,6 +30,7 @@ export {
   type ChunkLayout,
   type GridPartial,
 } from "@/sim/engine/chunks";
+export { chunkParts, mergeChunkParts, partsPerChunk, concatPackedPulses } from "@/sim/engine/chunk-parts";
 export {
   simulateChunk,
   prepareRun,

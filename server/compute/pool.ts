@@ -9,6 +9,7 @@ import type { RunSpec } from "@/shared/schemas/run-spec";
 import type { SimTask } from "./sim-task";
 import type { WorkerChunkResult } from "./sim-worker";
 import { unpackPulseStats } from "@/sim/engine/pulse-columns";
+import { chunkParts, concatPackedPulses, mergeChunkParts, partsPerChunk } from "@/sim/engine/chunk-parts";
 
 export type { SimTask } from "./sim-task";
 
@@ -33,7 +34,13 @@ export interface SimPool {
 /** Tasks handed to a thread at once (it runs them one after another). */
 const TASKS_PER_THREAD = 2;
 
-export function createSimPool(opts: { threads: number; idleTimeoutMs?: number }): SimPool {
+export function createSimPool(opts: {
+  threads: number;
+  idleTimeoutMs?: number;
+  /** Small runs' chunks go out in parts (default true; false for the bench's comparison). */
+  chunkParts?: boolean;
+}): SimPool {
+  const splitting = opts.chunkParts ?? true;
   const threads = Math.max(1, Math.floor(opts.threads));
   const piscina = new Piscina({
     filename: path.resolve(__dirname, "sim-worker.ts"),
@@ -47,7 +54,28 @@ export function createSimPool(opts: { threads: number; idleTimeoutMs?: number })
     threads,
     capacity: threads * TASKS_PER_THREAD,
     async runChunk(task, runOpts = {}) {
-      const result: WorkerChunkResult = await piscina.run(task);
+      // A small run's chunks go out in parts, so each thread gets several tasks and the last one's tail is
+      // short; the parts merge into exactly the chunk's result (sim/engine/chunk-parts.ts).
+      const parts = task.warmUp || !splitting ? 1 : partsPerChunk(task.spec.replicates, task.count, threads);
+      let result: WorkerChunkResult;
+      if (parts <= 1) result = await piscina.run(task);
+      else {
+        const results: WorkerChunkResult[] = await Promise.all(
+          chunkParts(task.replicateStart, task.count, parts).map((p) =>
+            piscina.run({
+              ...task,
+              replicateStart: p.replicateStart,
+              count: p.count,
+              options: { ...task.options, replicateGrids: true },
+            } satisfies SimTask),
+          ),
+        );
+        result = mergeChunkParts(results);
+        if (results.some((r) => r.packedPulses))
+          result.packedPulses = concatPackedPulses(results.map((r) => r.packedPulses!));
+        if (results.some((r) => r.wallTimeExceeded)) result.wallTimeExceeded = true;
+        if (results.some((r) => r.trace)) result.trace = results.flatMap((r) => r.trace ?? []);
+      }
       if (result.packedPulses && !runOpts.keepPacked) {
         result.pulses = unpackPulseStats(result.packedPulses);
         delete result.packedPulses;

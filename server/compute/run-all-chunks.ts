@@ -7,6 +7,7 @@
 import { chunkLayout, simulateChunk, type ChunkResult } from "@/sim";
 import type { RunSpec } from "@/shared/schemas/run-spec";
 import type { SimPool } from "./pool";
+import type { ChunkTrace } from "./sim-worker";
 
 export interface RunAllOptions {
   pool?: SimPool | null;
@@ -16,13 +17,17 @@ export interface RunAllOptions {
   onChunk?: (result: ChunkResult, index: number) => void | Promise<void>;
   /** Called as chunks complete (any order): replicates done so far. */
   onProgress?: (replicatesDone: number, total: number) => void;
+  /** Bench only: each chunk's thread and times, in chunk order (`traces` in the result; pool runs only). */
+  trace?: boolean;
+  /** Replicates per chunk (default: chunkLayout's); a run resumed from SQLite uses its stored one. */
+  chunkSize?: number;
 }
 
 export async function runAllChunks(
   spec: RunSpec,
   opts: RunAllOptions = {},
-): Promise<{ events: number; chunks: number }> {
-  const layout = chunkLayout(spec);
+): Promise<{ events: number; chunks: number; traces?: (ChunkTrace & { index: number; receivedMs: number })[] }> {
+  const layout = chunkLayout(spec, opts.chunkSize);
   const options = { keepAllGrid: opts.keepAllGrid, trajectoryReplicates: opts.trajectoryReplicates };
   let done = 0;
   let events = 0;
@@ -48,13 +53,19 @@ export async function runAllChunks(
     return { events, chunks: layout.chunks.length };
   }
   const pool = opts.pool;
+  const traces: (ChunkTrace & { index: number; receivedMs: number })[] = [];
   let chain = Promise.resolve();
   await Promise.all(
     layout.chunks.map((c) =>
       // Without onChunk nobody reads the records: the pulse columns stay packed (no unpacking on this thread).
       pool
-        .runChunk({ spec, replicateStart: c.replicateStart, count: c.count, options }, { keepPacked: !opts.onChunk })
+        .runChunk(
+          { spec, replicateStart: c.replicateStart, count: c.count, options, ...(opts.trace ? { trace: true } : {}) },
+          { keepPacked: !opts.onChunk },
+        )
         .then((r) => {
+          const receivedMs = performance.timeOrigin + performance.now();
+          for (const t of r.trace ?? []) traces.push({ ...t, index: c.index, receivedMs });
           done += c.count;
           opts.onProgress?.(done, spec.replicates);
           pending.set(c.index, r);
@@ -64,5 +75,6 @@ export async function runAllChunks(
     ),
   );
   await chain;
-  return { events, chunks: layout.chunks.length };
+  traces.sort((a, b) => a.index - b.index || a.startMs - b.startMs);
+  return { events, chunks: layout.chunks.length, ...(opts.trace ? { traces } : {}) };
 }

@@ -15,11 +15,12 @@ export interface ChunkLayout {
   chunks: { index: number; replicateStart: number; count: number }[];
 }
 
-export function chunkLayout(spec: Pick<RunSpec, "replicates">): ChunkLayout {
+export function chunkLayout(spec: Pick<RunSpec, "replicates">, chunkSize: number = CHUNK_SIZE): ChunkLayout {
+  if (!Number.isInteger(chunkSize) || chunkSize < 1) throw new Error(`invalid chunk size ${chunkSize}`);
   const chunks: ChunkLayout["chunks"] = [];
-  for (let start = 0, index = 0; start < spec.replicates; start += CHUNK_SIZE, index++)
-    chunks.push({ index, replicateStart: start, count: Math.min(CHUNK_SIZE, spec.replicates - start) });
-  return { chunkSize: CHUNK_SIZE, chunks };
+  for (let start = 0, index = 0; start < spec.replicates; start += chunkSize, index++)
+    chunks.push({ index, replicateStart: start, count: Math.min(chunkSize, spec.replicates - start) });
+  return { chunkSize, chunks };
 }
 
 export interface GridPartial {

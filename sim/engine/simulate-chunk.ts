@@ -65,6 +65,11 @@ export interface SimulateChunkOptions {
    * (identical results for the same seeds; generate-kernel.ts).
    */
   kernel?: "fast" | "reference";
+  /**
+   * Also return every replicate's grid values and valid length (`replicateGrids`), so that chunks simulated
+   * in parts can be merged into exactly the chunk's grid sums (sim/engine/chunk-parts.ts).
+   */
+  replicateGrids?: boolean;
 }
 
 export interface ReplicateSummary {
@@ -106,6 +111,8 @@ export interface ChunkResult {
   trajectories: { replicate: number; values: Float64Array }[];
   recordedEvents?: RecordedEvents[];
   aborted?: boolean;
+  /** With options.replicateGrids: replicate k's [species][grid] values at k * nS * ng, valid below ends[k]. */
+  replicateGrids?: { values: Float64Array; ends: Int32Array };
 }
 
 const kernels = { fast: new WeakMap<RunSetup, Kernel>(), reference: new WeakMap<RunSetup, Kernel>() };
@@ -149,6 +156,9 @@ export function simulateChunk(
   const gridSumSq = new Float64Array(nS * ng);
   const gridCount = new Float64Array(ng);
   const gridBuf = new Float64Array(nS * ng);
+  const repGrids = options.replicateGrids
+    ? { values: new Float64Array(count * nS * ng), ends: new Int32Array(count) }
+    : null;
   const x = new Float64Array(nS);
   const p = new Float64Array(model.nParams);
   const sig = new Float64Array(model.nSignals);
@@ -277,6 +287,10 @@ export function simulateChunk(
       }
     }
     for (let g = 0; g < gEnd; g++) gridCount[g] += 1;
+    if (repGrids) {
+      repGrids.values.set(gridBuf, replicates.length * nS * ng);
+      repGrids.ends[replicates.length] = gEnd;
+    }
     const statsFrom = program.pulses.length > 0 ? program.pulses[0].on : 0;
     let n = 0;
     let sum = 0;
@@ -322,5 +336,6 @@ export function simulateChunk(
   };
   if (recorded.length > 0) result.recordedEvents = recorded;
   if (aborted) result.aborted = true;
+  if (repGrids) result.replicateGrids = repGrids;
   return result;
 }

@@ -41,11 +41,26 @@ describe("sim pool", () => {
         got.map((c) => c.pulses),
         inProcess.map((c) => c.pulses),
       );
+      // on 2 threads this small run's chunks go out in parts (pool.ts), merged exactly
+      assert.deepEqual(
+        got.map((c) => [c.gridSum, c.gridSumSq, c.gridCount, c.trajectories, c.events]),
+        inProcess.map((c) => [c.gridSum, c.gridSumSq, c.gridCount, c.trajectories, c.events]),
+      );
       const a = reduceChunks(spec, got);
       const b = reduceChunks(spec, inProcess);
       assert.deepEqual(a.mean, b.mean);
       assert.deepEqual(a.sd, b.sd);
     }
+  });
+
+  test("on 2 threads a small run's chunk runs in parts on both threads and merges into the whole chunk", async () => {
+    const r = await pools[1].runChunk({ spec, replicateStart: 0, count: 100, trace: true });
+    assert.ok((r.trace ?? []).length > 1, "the chunk went out in parts");
+    const { trace, ...rest } = r;
+    void trace;
+    assert.deepEqual(rest, simulateChunk(spec, 0, 100));
+    const one = await pools[0].runChunk({ spec, replicateStart: 0, count: 100, trace: true });
+    assert.equal(one.trace?.length, 1, "one thread: no parts");
   });
 
   test("a chunk returns typed arrays intact and matches simulateChunk", async () => {
