@@ -29,19 +29,18 @@ import { drizzle } from "drizzle-orm/better-sqlite3";
 import { eq } from "drizzle-orm";
 import * as schema from "@/db/schema";
 import type { Db } from "@/db/client";
-import type { PulseStat, RunSpec } from "@/shared/schemas/run-spec";
+import type { RunSpec } from "@/shared/schemas/run-spec";
 import type { RunSummary } from "@/shared/schemas/analysis";
 import { OdeBudget, createGridReducer, withOdeBudget, type GridPartial } from "@/sim";
 import type { ReplicateFigures } from "@/sim/regimes/replicate-figures";
 import type { RunRegime } from "@/sim/regimes";
 import { completeFinalise, finaliseRun, prepareFinalise, type PreparedFinalise } from "@/sim/analysis";
-import { packPulseStats, unpackPulseStats, type PackedPulseStats } from "@/sim/engine/pulse-columns";
+import { PULSE_FIELDS, packPulseStats, type PackedPulseStats } from "@/sim/engine/pulse-columns";
 import { createPulseTableBuilder } from "@/sim/analysis/pulse-table";
 import {
   createStatsHasher,
   fromBlob,
   gridSeries,
-  pulseAsStored,
   readChunks,
   readPulseStats,
   readReplicateRows,
@@ -134,14 +133,74 @@ function newReduction(spec: IngestTask["spec"], chunks: number): Reduction {
   };
 }
 
-function reduceOne(r: Reduction, replicates: StoredReplicate[], pulses: PulseStat[], grid: GridPartial) {
+/**
+ * One chunk into the reduction: its pulse columns put in (replicate, pulse) order, their hash lines
+ * rendered from the columns and the columns kept as SQLite gives the records back, without an object
+ * per record (the same lines and numbers as sorting unpackPulseStats(pulses).map(pulseAsStored) and
+ * packing them: tests/server/compute/pulse-lines.test.ts).
+ */
+function reduceOne(r: Reduction, replicates: StoredReplicate[], pulses: PackedPulseStats, grid: GridPartial) {
   replicates.sort((a, b) => a.replicate - b.replicate);
-  pulses.sort((a, b) => a.replicate - b.replicate || a.pulseIndex - b.pulseIndex);
+  const ordered = inRecordOrder(pulses);
   r.grid.add(grid);
   r.hasher.addReplicates(replicates);
-  r.hasher.addPulses(pulses);
+  r.hasher.addPackedPulses(ordered);
   for (const x of replicates) r.replicates.push(x);
-  r.pulses.append(packPulseStats(pulses));
+  r.pulses.append(packedAsStored(ordered));
+}
+
+/** Local copies: under tsx an imported binding is read through a getter at every use. */
+const FIELDS = PULSE_FIELDS;
+
+/**
+ * The records of packed columns in the order reduceOne's sort of their objects gives (by replicate, then
+ * pulse index; a stable sort, so ties keep their order): as they are when already in it (a chunk from a
+ * worker is), otherwise the same comparator sorts their indices, which Array.prototype.sort permutes as
+ * it would the objects.
+ */
+export function inRecordOrder(p: PackedPulseStats): PackedPulseStats {
+  const a = p.numbers;
+  const n = a.length / FIELDS;
+  const cmp = (i: number, j: number) => a[i * FIELDS] - a[j * FIELDS] || a[i * FIELDS + 1] - a[j * FIELDS + 1];
+  let sorted = true;
+  for (let k = 1; k < n && sorted; k++) if (!(cmp(k - 1, k) <= 0)) sorted = false;
+  if (sorted) return p;
+  const order = Array.from({ length: n }, (_, i) => i).sort(cmp);
+  const start = new Int32Array(n + 1);
+  for (let i = 0; i < n; i++) start[i + 1] = start[i] + a[i * FIELDS + 12];
+  const numbers = new Float64Array(a.length);
+  const widths = new Float64Array(p.widths.length);
+  let w = 0;
+  order.forEach((i, k) => {
+    numbers.set(a.subarray(i * FIELDS, (i + 1) * FIELDS), k * FIELDS);
+    widths.set(p.widths.subarray(start[i], start[i + 1]), w);
+    w += start[i + 1] - start[i];
+  });
+  return { numbers, widths };
+}
+
+/**
+ * packPulseStats(unpackPulseStats(p).map(pulseAsStored)) without the objects: flags as 0/1 (1 only for 1),
+ * peak, time to peak and baseline NaN as 0 (pulseAsStored makes them null, which a Float64Array holds as
+ * 0), widths after their JSON round trip (-0 as 0, a non-finite one as 0); the other figures as they are.
+ */
+export function packedAsStored(p: PackedPulseStats): PackedPulseStats {
+  const numbers = p.numbers.slice();
+  const n = numbers.length / FIELDS;
+  for (let i = 0; i < n; i++) {
+    const o = i * FIELDS;
+    numbers[o + 5] = numbers[o + 5] === 1 ? 1 : 0;
+    numbers[o + 6] = numbers[o + 6] === 1 ? 1 : 0;
+    if (numbers[o + 9] !== numbers[o + 9]) numbers[o + 9] = 0;
+    if (numbers[o + 10] !== numbers[o + 10]) numbers[o + 10] = 0;
+    if (numbers[o + 13] !== numbers[o + 13]) numbers[o + 13] = 0;
+  }
+  const widths = p.widths.slice();
+  for (let j = 0; j < widths.length; j++) {
+    const x = widths[j];
+    widths[j] = Number.isFinite(x) ? x + 0 : 0;
+  }
+  return { numbers, widths };
 }
 
 function ingest(task: IngestTask): void {
@@ -151,7 +210,7 @@ function ingest(task: IngestTask): void {
   r.waiting.set(task.chunkIndex, task);
   for (let t = r.waiting.get(r.next); t; t = r.waiting.get(r.next)) {
     r.waiting.delete(r.next);
-    reduceOne(r, t.replicates.map(replicateAsStored), unpackPulseStats(t.pulses).map(pulseAsStored), t);
+    reduceOne(r, t.replicates.map(replicateAsStored), t.pulses, t);
     r.next++;
   }
 }

@@ -13,6 +13,9 @@ import type { PulseStat, RunSpec } from "@/shared/schemas/run-spec";
 import type { PackedPulseStats } from "@/sim/engine/pulse-columns";
 import { createPulseWriter, readPulseStats } from "./pulse-store";
 
+/** A local copy: under tsx an imported binding is read through a getter at every use. */
+const FIELD_COUNT = PULSE_FIELDS;
+
 export const toBlob = (a: Float64Array) => Buffer.from(a.buffer, a.byteOffset, a.byteLength);
 export const fromBlob = (b: Buffer | Uint8Array | null | undefined): Float64Array => {
   if (!b) return new Float64Array(0);
@@ -169,6 +172,10 @@ export function createStatsHasher() {
       for (const p of pulses) text += canonicalPulse(p) + "\n";
       pulseText.push(Buffer.from(text, "utf8"));
     },
+    /** addPulses of records as columns (the same lines as their pulseAsStored records give), no object each. */
+    addPackedPulses(packed: PackedPulseStats) {
+      pulseText.push(Buffer.from(canonicalPulseLines(packed), "latin1"));
+    },
     digest(series: { species: string; kind: string; values: Uint8Array }[]): string {
       for (const t of pulseText) h.update(t);
       pulseText.length = 0;
@@ -279,6 +286,61 @@ export const canonicalReplicate = (r: {
 }) => `r ${r.replicate} ${r.events} ${r.capped ? 1 : 0} ${r.outputMean} ${r.outputVar}`;
 export const canonicalPulse = (p: PulseStat) =>
   `p ${p.replicate} ${p.pulseIndex} ${p.on} ${p.off} ${p.durationBin} ${p.excluded ? 1 : 0} ${p.passed ? 1 : 0} ${p.delay} ${p.offDelay} ${JSON.stringify(p.widths)} ${p.peak} ${p.timeToPeak} ${p.fwhm} ${p.baseline}`;
+
+/**
+ * canonicalPulse(pulseAsStored(p)) + "\n" for every record of packed columns, in their order
+ * (unpackPulseStats(packed) records), without making the records: the per-chunk reduction renders
+ * about 1,300 of these per 100 replicates of the benchmark circuit. Numbers are written as a template
+ * string writes them (String(x)); the figures pulseAsStored turns from NaN to null as "null"; widths as
+ * JSON.stringify writes them after their JSON round trip (a non-finite width as null). Held equal to
+ * canonicalPulse on generated edge values (tests/server/compute/pulse-lines.test.ts).
+ */
+export function canonicalPulseLines(packed: PackedPulseStats): string {
+  const a = packed.numbers;
+  const ws = packed.widths;
+  const n = a.length / FIELD_COUNT;
+  let text = "";
+  let w = 0;
+  for (let i = 0; i < n; i++) {
+    const o = i * FIELD_COUNT;
+    const nw = a[o + 12];
+    let widths = "[";
+    for (let j = 0; j < nw; j++) {
+      const x = ws[w++];
+      widths += (j > 0 ? "," : "") + (Number.isFinite(x) ? String(x) : "null");
+    }
+    text +=
+      "p " +
+      String(a[o]) +
+      " " +
+      String(a[o + 1]) +
+      " " +
+      String(a[o + 2]) +
+      " " +
+      String(a[o + 3]) +
+      " " +
+      String(a[o + 4]) +
+      (a[o + 5] === 1 ? " 1" : " 0") +
+      (a[o + 6] === 1 ? " 1 " : " 0 ") +
+      orNullText(a[o + 7]) +
+      " " +
+      orNullText(a[o + 8]) +
+      " " +
+      widths +
+      "] " +
+      orNullText(a[o + 9]) +
+      " " +
+      orNullText(a[o + 10]) +
+      " " +
+      orNullText(a[o + 11]) +
+      " " +
+      orNullText(a[o + 13]) +
+      "\n";
+  }
+  return text;
+}
+
+const orNullText = (x: number) => (x !== x ? "null" : String(x));
 
 /** The first difference between two runs' stored statistics, or null when identical. */
 export function firstDifference(db: Db, a: string, b: string): string | null {
