@@ -10,7 +10,7 @@ import type Database from "better-sqlite3";
 import type { Db } from "@/db/client";
 import { schema } from "@/db/client";
 import type { PulseStat, RunSpec } from "@/shared/schemas/run-spec";
-import type { PackedPulseStats } from "@/sim/engine/pulse-columns";
+import { PULSE_FIELDS, type PackedPulseStats } from "@/sim/engine/pulse-columns";
 import { createPulseWriter, readPulseStats } from "./pulse-store";
 
 /** A local copy: under tsx an imported binding is read through a getter at every use. */
