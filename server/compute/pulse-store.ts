@@ -91,14 +91,18 @@ export function encodePulseChunk(pulses: readonly PulseStat[] | PackedPulseStats
   const buf = Buffer.alloc(blobBytes(n, w));
   const cols = viewColumns(buf, n, w);
   new Uint32Array(buf.buffer, buf.byteOffset, 2).set([n, w]);
+  for (const c of F64_COLUMNS) {
+    const col = cols.f64[c];
+    const at = PACKED_AT[c];
+    for (let k = 0; k < n; k++) {
+      const x = a[(order ? order[k] : k) * PULSE_FIELDS + at];
+      col[k] = x === 0 ? 0 : x;
+    }
+  }
   let wo = 0;
   for (let k = 0; k < n; k++) {
     const i = order ? order[k] : k;
     const o = i * PULSE_FIELDS;
-    for (const c of F64_COLUMNS) {
-      const x = a[o + PACKED_AT[c]];
-      cols.f64[c][k] = x === 0 ? 0 : x;
-    }
     cols.replicate[k] = int32(a[o]);
     cols.pulseIndex[k] = int32(a[o + 1]);
     const nw = int32(a[o + 12]);
