@@ -502,18 +502,56 @@ export function readPulsePage(db: Db, runId: string, q: PulsePageQuery): { total
               : c.f64[q.sort][i];
     }
     const sign = q.dir === "asc" ? 1 : -1;
-    // Hits are in (replicate, pulse) order and Array#sort is stable: that is the tie-break. Nulls last either way.
-    order = order.sort((x, y) => {
+    // Nulls last either way, then the hits' own (replicate, pulse) order: a total order, so the page is the
+    // one SQLite's ORDER BY gave.
+    const cmp = (x: number, y: number) => {
       const a = keys[x],
         b = keys[y];
-      if (Number.isNaN(a) || Number.isNaN(b)) return Number.isNaN(a) ? (Number.isNaN(b) ? 0 : 1) : -1;
-      return a === b ? 0 : a < b ? -sign : sign;
-    });
+      if (Number.isNaN(a) || Number.isNaN(b)) return Number.isNaN(a) ? (Number.isNaN(b) ? x - y : 1) : -1;
+      return a === b ? x - y : a < b ? -sign : sign;
+    };
+    order = firstInOrder(order, offset + q.pageSize, cmp);
   }
   const rows = order
     .slice(offset, offset + q.pageSize)
     .map((k) => pageRow(chunks[hitChunk[k]], hitIndex[k], starts[hitChunk[k]]));
-  return { total: order.length, rows };
+  return { total: hitChunk.length, rows };
+}
+
+/**
+ * The first k of xs in cmp's order (a total order), sorted: a bounded max-heap when
+ * k is small against xs (the first pages of a sorted browse), else a full sort.
+ */
+export function firstInOrder(xs: number[], k: number, cmp: (a: number, b: number) => number): number[] {
+  if (k * 8 >= xs.length) return xs.sort(cmp).slice(0, k);
+  const heap: number[] = [];
+  const down = (i: number) => {
+    for (;;) {
+      const l = 2 * i + 1,
+        r = l + 1;
+      let m = i;
+      if (l < heap.length && cmp(heap[l], heap[m]) > 0) m = l;
+      if (r < heap.length && cmp(heap[r], heap[m]) > 0) m = r;
+      if (m === i) return;
+      [heap[i], heap[m]] = [heap[m], heap[i]];
+      i = m;
+    }
+  };
+  for (const x of xs) {
+    if (heap.length < k) {
+      heap.push(x);
+      for (let i = heap.length - 1; i > 0;) {
+        const p = (i - 1) >> 1;
+        if (cmp(heap[i], heap[p]) <= 0) break;
+        [heap[i], heap[p]] = [heap[p], heap[i]];
+        i = p;
+      }
+    } else if (k > 0 && cmp(x, heap[0]) < 0) {
+      heap[0] = x;
+      down(0);
+    }
+  }
+  return heap.sort(cmp);
 }
 
 function pageRow(c: PulseChunkColumns, i: number, ws: Int32Array): PulsePageRow {

@@ -25,6 +25,7 @@ import {
   PULSE_SORT_KEYS,
   decodePulseChunk,
   encodePulseChunk,
+  firstInOrder,
   firstReplicateSchedule,
   forEachPulseFigure,
   hasPulseChunks,
@@ -229,6 +230,28 @@ test("a run stored as rows keeps rows when it resumes, and reads as before", asy
   } finally {
     await t.close();
   }
+});
+
+test("firstInOrder gives the first k of a full sort, for every k", () => {
+  // many ties and nulls (NaN), as the figures have: the tie-break by position makes the order total
+  const keys = Array.from({ length: 300 }, (_, i) => (i % 7 === 0 ? NaN : (i * 37) % 11));
+  const cmp = (x: number, y: number) => {
+    const a = keys[x],
+      b = keys[y];
+    if (Number.isNaN(a) || Number.isNaN(b)) return Number.isNaN(a) ? (Number.isNaN(b) ? x - y : 1) : -1;
+    return a === b ? x - y : a < b ? 1 : -1;
+  };
+  const full = keys.map((_, i) => i).sort(cmp);
+  for (const k of [0, 1, 2, 5, 36, 37, 38, 150, 299, 300, 400])
+    assert.deepEqual(
+      firstInOrder(
+        keys.map((_, i) => i),
+        k,
+        cmp,
+      ),
+      full.slice(0, k),
+      `k = ${k}`,
+    );
 });
 
 test("the chunk encoding round-trips exactly, sorts a chunk into (replicate, pulse) order and reads unaligned BLOBs", () => {
