@@ -97,7 +97,7 @@ export function formatTrace(s: TraceSummary & { events: number }): string {
     s.perThread
       .map(
         (p) =>
-          `t${p.threadId}: ${p.chunks} ch busy ${f(p.busyMs, 0)} first ${f(p.firstWaitMs, 1)} gaps ${f(p.gapMs, 1)} tail ${f(p.tailMs, 1)}`,
+          `t${p.threadId}: ${p.chunks} tasks busy ${f(p.busyMs, 0)} first ${f(p.firstWaitMs, 1)} gaps ${f(p.gapMs, 1)} tail ${f(p.tailMs, 1)}`,
       )
       .join("; ")
   );

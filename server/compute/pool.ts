@@ -9,7 +9,13 @@ import type { RunSpec } from "@/shared/schemas/run-spec";
 import type { SimTask } from "./sim-task";
 import type { WorkerChunkResult } from "./sim-worker";
 import { unpackPulseStats } from "@/sim/engine/pulse-columns";
-import { chunkParts, concatPackedPulses, mergeChunkParts, partsPerChunk } from "@/sim/engine/chunk-parts";
+import {
+  chunkParts,
+  concatPackedPulses,
+  gridExactBound,
+  mergeChunkParts,
+  partsPerChunk,
+} from "@/sim/engine/chunk-parts";
 
 export type { SimTask } from "./sim-task";
 
@@ -66,15 +72,26 @@ export function createSimPool(opts: {
               ...task,
               replicateStart: p.replicateStart,
               count: p.count,
-              options: { ...task.options, replicateGrids: true },
+              options: { ...task.options, gridExactBound: gridExactBound(parts) },
             } satisfies SimTask),
           ),
         );
-        result = mergeChunkParts(results);
-        if (results.some((r) => r.packedPulses))
-          result.packedPulses = concatPackedPulses(results.map((r) => r.packedPulses!));
-        if (results.some((r) => r.wallTimeExceeded)) result.wallTimeExceeded = true;
-        if (results.some((r) => r.trace)) result.trace = results.flatMap((r) => r.trace ?? []);
+        const merged = mergeChunkParts(results);
+        const traces = results.flatMap((r) => r.trace ?? []);
+        if (merged) {
+          // parts after an aborted one are dropped, as in the merge
+          const aborted = results.findIndex((r) => r.aborted);
+          const used = aborted < 0 ? results : results.slice(0, aborted + 1);
+          if (used.some((r) => r.packedPulses))
+            merged.packedPulses = concatPackedPulses(used.map((r) => r.packedPulses!));
+          if (used.some((r) => r.wallTimeExceeded)) merged.wallTimeExceeded = true;
+          result = merged;
+        } else {
+          // grid sums that would round (very large counts): only the whole chunk gives its sums
+          result = await piscina.run(task);
+          traces.push(...(result.trace ?? []));
+        }
+        if (task.trace) result.trace = traces;
       }
       if (result.packedPulses && !runOpts.keepPacked) {
         result.pulses = unpackPulseStats(result.packedPulses);

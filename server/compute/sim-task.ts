@@ -5,7 +5,7 @@ export interface SimTask {
   spec: RunSpec;
   replicateStart: number;
   count: number;
-  options?: { trajectoryReplicates?: number; keepAllGrid?: boolean; replicateGrids?: boolean };
+  options?: { trajectoryReplicates?: number; keepAllGrid?: boolean; gridExactBound?: number };
   /** Wall-time cap for this chunk, milliseconds; the chunk comes back with aborted = true past it. */
   wallTimeLimitMs?: number;
   /** Only compile and cache the spec (and hold the thread for holdMs), returning an empty result. */

@@ -54,10 +54,6 @@ function transferables(r: WorkerChunkResult): ArrayBuffer[] {
     add(r.packedPulses.widths);
   }
   for (const t of r.trajectories) add(t.values);
-  if (r.replicateGrids) {
-    add(r.replicateGrids.values);
-    add(r.replicateGrids.ends);
-  }
   for (const e of r.recordedEvents ?? []) {
     add(e.initial);
     add(e.times);

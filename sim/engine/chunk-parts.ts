@@ -5,11 +5,12 @@
  * server's per-chunk work (one transaction, one message to the finalising
  * thread) stay those of the whole chunk.
  *
- * Exact: each part is simulated with `replicateGrids`, and mergeChunkParts
- * adds every replicate's grid values into the chunk's sums in replicate order,
- * the same additions simulateChunk makes, so the merged result equals
- * simulateChunk over the whole chunk bit for bit (tests/sim/engine/chunk-parts.test.ts).
- * Replicates are seeded by their index, so a part's replicates are the chunk's.
+ * Exact: replicates are seeded by their index, so a part's replicates are the
+ * chunk's; species counts are whole numbers, so while the grid sums stay within
+ * 2^53 no addition rounds and the parts' sums add up to the chunk's bit for bit
+ * (each part checks this, `gridExact`; when a part cannot say so, e.g. counts
+ * so large that the sums of squares round, the chunk runs whole instead).
+ * tests/sim/engine/chunk-parts.test.ts holds merged parts equal to the whole chunk.
  */
 import { CHUNK_SIZE } from "./chunks";
 import type { ChunkResult } from "./simulate-chunk";
@@ -64,47 +65,42 @@ export function concatPackedPulses(parts: readonly PackedPulseStats[]): PackedPu
   return { numbers: cat(parts.map((p) => p.numbers)), widths: cat(parts.map((p) => p.widths)) };
 }
 
+/** The bound each of `parts` parts checks its grid sums against, so that the chunk's sums stay within 2^53. */
+export const gridExactBound = (parts: number) => 2 ** 53 / Math.max(1, parts);
+
 /**
- * The chunk's result from its parts (in replicate order, each simulated with `replicateGrids`): equal to
- * simulateChunk over the whole range. A part that aborted ends the chunk there (later parts are dropped, as
- * simulateChunk stops at the aborted replicate). `replicateGrids` is not carried over.
+ * The chunk's result from its parts (in replicate order, each simulated with gridExactBound(parts)), or null
+ * when a part's grid sums were not exact: then only the whole chunk in one piece gives its sums (the caller
+ * runs it so). Equal to simulateChunk over the whole range. A part that aborted ends the chunk there (later
+ * parts are dropped, as simulateChunk stops at the aborted replicate).
+ *
+ * Why adding the parts' sums is exact: every value was a whole number >= 0 and each part's sums are at most
+ * 2^53 / parts, so every partial sum, in the chunk's order or the parts', is a whole number at most 2^53,
+ * which a double holds exactly: no addition rounds, and both orders give the true sum.
  */
-export function mergeChunkParts<R extends ChunkResult>(parts: readonly R[]): R {
+export function mergeChunkParts<R extends ChunkResult>(parts: readonly R[]): R | null {
   if (parts.length === 0) throw new Error("mergeChunkParts: no parts");
   const used: R[] = [];
   for (const p of parts) {
     used.push(p);
     if (p.aborted) break;
   }
+  if (!used.every((p) => p.gridExact === true)) return null;
   const first = parts[0];
-  const ng = first.gridCount.length;
   const len = first.gridSum.length;
   const gridSum = new Float64Array(len);
   const gridSumSq = new Float64Array(len);
-  const gridCount = new Float64Array(ng);
-  const nS = ng > 0 ? len / ng : 0;
+  const gridCount = new Float64Array(first.gridCount.length);
   for (const p of used) {
-    const rg = p.replicateGrids;
-    if (!rg) throw new Error("mergeChunkParts: a part was simulated without replicateGrids");
-    const { values, ends } = rg;
-    for (let k = 0; k < p.replicates.length; k++) {
-      const base = k * len;
-      const gEnd = ends[k];
-      for (let i = 0; i < nS; i++) {
-        const o = i * ng;
-        for (let g = 0; g < gEnd; g++) {
-          const v = values[base + o + g];
-          gridSum[o + g] += v;
-          gridSumSq[o + g] += v * v;
-        }
-      }
-      for (let g = 0; g < gEnd; g++) gridCount[g] += 1;
+    for (let i = 0; i < len; i++) {
+      gridSum[i] += p.gridSum[i];
+      gridSumSq[i] += p.gridSumSq[i];
     }
+    for (let g = 0; g < gridCount.length; g++) gridCount[g] += p.gridCount[g];
   }
   const last = parts[parts.length - 1];
   const merged: R = {
     ...first,
-    replicateStart: first.replicateStart,
     count: last.replicateStart + last.count - first.replicateStart,
     events: used.reduce((s, p) => s + p.events, 0),
     replicates: used.flatMap((p) => p.replicates),
@@ -114,7 +110,7 @@ export function mergeChunkParts<R extends ChunkResult>(parts: readonly R[]): R {
     gridCount,
     trajectories: used.flatMap((p) => p.trajectories),
   };
-  delete merged.replicateGrids;
+  delete merged.gridExact;
   delete merged.recordedEvents;
   delete merged.aborted;
   const recorded = used.flatMap((p) => p.recordedEvents ?? []);

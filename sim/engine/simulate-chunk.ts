@@ -66,10 +66,11 @@ export interface SimulateChunkOptions {
    */
   kernel?: "fast" | "reference";
   /**
-   * Also return every replicate's grid values and valid length (`replicateGrids`), so that chunks simulated
-   * in parts can be merged into exactly the chunk's grid sums (sim/engine/chunk-parts.ts).
+   * Report `gridExact`: whether every grid value summed was a non-negative whole number and every grid sum
+   * and sum of squares is at most this bound, so every addition was exact and the sums are the same in any
+   * grouping (how a chunk run in parts merges exactly: sim/engine/chunk-parts.ts).
    */
-  replicateGrids?: boolean;
+  gridExactBound?: number;
 }
 
 export interface ReplicateSummary {
@@ -111,8 +112,8 @@ export interface ChunkResult {
   trajectories: { replicate: number; values: Float64Array }[];
   recordedEvents?: RecordedEvents[];
   aborted?: boolean;
-  /** With options.replicateGrids: replicate k's [species][grid] values at k * nS * ng, valid below ends[k]. */
-  replicateGrids?: { values: Float64Array; ends: Int32Array };
+  /** With options.gridExactBound: the grid sums are exact (see there). */
+  gridExact?: boolean;
 }
 
 const kernels = { fast: new WeakMap<RunSetup, Kernel>(), reference: new WeakMap<RunSetup, Kernel>() };
@@ -156,9 +157,9 @@ export function simulateChunk(
   const gridSumSq = new Float64Array(nS * ng);
   const gridCount = new Float64Array(ng);
   const gridBuf = new Float64Array(nS * ng);
-  const repGrids = options.replicateGrids
-    ? { values: new Float64Array(count * nS * ng), ends: new Int32Array(count) }
-    : null;
+  const exactBound = options.gridExactBound;
+  const checkExact = exactBound !== undefined;
+  let gridWhole = true;
   const x = new Float64Array(nS);
   const p = new Float64Array(model.nParams);
   const sig = new Float64Array(model.nSignals);
@@ -286,11 +287,18 @@ export function simulateChunk(
         gridSumSq[o + g] += v * v;
       }
     }
+    if (checkExact && gridWhole)
+      for (let i = 0; i < nS && gridWhole; i++) {
+        const o = i * ng;
+        for (let g = 0; g < gEnd; g++) {
+          const v = gridBuf[o + g];
+          if (!(v >= 0 && Math.floor(v) === v)) {
+            gridWhole = false;
+            break;
+          }
+        }
+      }
     for (let g = 0; g < gEnd; g++) gridCount[g] += 1;
-    if (repGrids) {
-      repGrids.values.set(gridBuf, replicates.length * nS * ng);
-      repGrids.ends[replicates.length] = gEnd;
-    }
     const statsFrom = program.pulses.length > 0 ? program.pulses[0].on : 0;
     let n = 0;
     let sum = 0;
@@ -336,6 +344,11 @@ export function simulateChunk(
   };
   if (recorded.length > 0) result.recordedEvents = recorded;
   if (aborted) result.aborted = true;
-  if (repGrids) result.replicateGrids = repGrids;
+  if (checkExact) {
+    let exact = gridWhole;
+    for (let i = 0; exact && i < gridSumSq.length; i++)
+      if (!(gridSum[i] <= exactBound && gridSumSq[i] <= exactBound)) exact = false;
+    result.gridExact = exact;
+  }
   return result;
 }

@@ -63,6 +63,26 @@ describe("sim pool", () => {
     assert.equal(one.trace?.length, 1, "one thread: no parts");
   });
 
+  test("a chunk whose grid sums would round in parts runs whole, with the whole chunk's result", async () => {
+    // about 2^25 molecules: sums of squares pass 2^53, so the parts cannot be merged exactly (chunk-parts.ts)
+    const big = RunSpecSchema.parse({
+      ...spec,
+      circuit: {
+        ...tpl.circuit,
+        species: [...tpl.circuit.species, { name: "big", initialCount: 33_554_431 }],
+        reactions: [
+          ...tpl.circuit.reactions,
+          { name: "loseBig", reactants: [{ species: "big" }], rate: { kind: "massAction", ratePerMinute: 1e-9 } },
+        ],
+      },
+    });
+    const r = await pools[1].runChunk({ spec: big, replicateStart: 0, count: 100, trace: true });
+    assert.ok((r.trace ?? []).length > 2, "parts first, then the whole chunk");
+    const { trace, ...rest } = r;
+    void trace;
+    assert.deepEqual(rest, simulateChunk(big, 0, 100));
+  });
+
   test("a chunk returns typed arrays intact and matches simulateChunk", async () => {
     const r = await pools[1].runChunk({ spec, replicateStart: 100, count: 5 });
     const local = simulateChunk(spec, 100, 5);

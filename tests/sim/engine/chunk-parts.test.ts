@@ -1,14 +1,20 @@
 /**
  * A chunk simulated in parts and merged (sim/engine/chunk-parts.ts) equals the chunk simulated whole, bit for
  * bit: replicate summaries, pulse records, grid sums, squares and counts, trajectories, recorded events, the
- * event cap and an abort. Checked on the benchmark circuit, a circuit whose grid sums round (so their order
- * matters), a rule, an event, extrinsic variation and every split of a chunk the dispatch can choose, plus
- * uneven ones.
+ * event cap and an abort. Checked on the benchmark circuit, a circuit with a rule, an event and extrinsic
+ * variation, and every split of a chunk the dispatch can choose, plus uneven ones; and a circuit whose sums
+ * of squares round (so their grouping matters) is refused by the merge, never merged wrongly.
  */
 import { describe, test } from "node:test";
 import assert from "node:assert/strict";
 import { simulateChunk, templates, type ChunkResult } from "@/sim";
-import { chunkParts, concatPackedPulses, mergeChunkParts, partsPerChunk } from "@/sim/engine/chunk-parts";
+import {
+  chunkParts,
+  concatPackedPulses,
+  gridExactBound,
+  mergeChunkParts,
+  partsPerChunk,
+} from "@/sim/engine/chunk-parts";
 import { packPulseStats } from "@/sim/engine/pulse-columns";
 import { RunSpecSchema, type RunSpec, type RunSpecInput } from "@/shared/schemas/run-spec";
 import type { CircuitInput } from "@/shared/schemas/circuit";
@@ -21,14 +27,14 @@ const spec = (over: Partial<RunSpecInput>): RunSpec => RunSpecSchema.parse({ ...
  * replicates pass 2^53 and the additions round, making the sums depend on their order (species counts are
  * whole numbers, so smaller sums are exact in any order). Also a rule and an event with a rounded amount.
  */
-const largeCounts: CircuitInput = {
+const circuitWith = (big: boolean): CircuitInput => ({
   name: "large-counts",
   outputSpecies: "R",
   species: [
     { name: "X", initialCount: 0 },
     { name: "R", initialCount: 0 },
     { name: "half", initialCount: 0 },
-    { name: "big", initialCount: 33_554_431 },
+    ...(big ? [{ name: "big", initialCount: 33_554_431 }] : []),
   ],
   signals: [{ name: "S", offLevel: 0, onLevel: 1 }],
   parameters: [{ name: "k", value: 10 }],
@@ -37,23 +43,40 @@ const largeCounts: CircuitInput = {
     { name: "deg", reactants: [{ species: "X" }], rate: { kind: "massAction", ratePerMinute: 0.1 } },
     { name: "report", products: [{ species: "R" }], rate: { kind: "expression", formula: "0.3 * X" } },
     { name: "degR", reactants: [{ species: "R" }], rate: { kind: "massAction", ratePerMinute: 0.07 } },
-    { name: "loseBig", reactants: [{ species: "big" }], rate: { kind: "massAction", ratePerMinute: 1e-9 } },
+    ...(big
+      ? [
+          {
+            name: "loseBig",
+            reactants: [{ species: "big" }],
+            rate: { kind: "massAction" as const, ratePerMinute: 1e-9 },
+          },
+        ]
+      : []),
   ],
   rules: [{ target: "half", value: "R / 2 + 1 / 3" }],
   events: [{ name: "dilute", at: [90], assign: [{ target: "X", value: "X * 0.37" }] }],
-};
+});
 
-const withoutGrids = (r: ChunkResult) => {
-  const { replicateGrids, ...rest } = r;
-  void replicateGrids;
-  return rest;
-};
+const vatSpec = (big: boolean, over: Partial<RunSpecInput> = {}) =>
+  spec({
+    circuit: circuitWith(big),
+    inputSignal: "S",
+    program: { kind: "periodic", start: 20, onDuration: 30, offDuration: 40 },
+    endTimeMinutes: 200,
+    gridStepMinutes: 1,
+    threshold: { value: 20, windowMinutes: 20 },
+    replicates: 1000,
+    seed: "parts-2",
+    extrinsic: [{ parameter: "param(k)", cv: 0.3 }],
+    recordEventsFor: 3,
+    ...over,
+  });
 
 function inParts(s: RunSpec, start: number, counts: number[], opts: Parameters<typeof simulateChunk>[3] = {}) {
   const parts: ChunkResult[] = [];
   let at = start;
   for (const c of counts) {
-    parts.push(simulateChunk(s, at, c, { ...opts, replicateGrids: true }));
+    parts.push(simulateChunk(s, at, c, { ...opts, gridExactBound: gridExactBound(counts.length) }));
     at += c;
   }
   return parts;
@@ -62,38 +85,23 @@ function inParts(s: RunSpec, start: number, counts: number[], opts: Parameters<t
 describe("chunk parts", () => {
   const cases: [string, RunSpec, Parameters<typeof simulateChunk>[3]][] = [
     ["benchmark circuit", spec({ replicates: 1000, seed: "parts-1" }), {}],
-    [
-      "grid sums that round (large counts), a rule, an event, extrinsic variation, recorded events",
-      spec({
-        circuit: largeCounts,
-        inputSignal: "S",
-        program: { kind: "periodic", start: 20, onDuration: 30, offDuration: 40 },
-        endTimeMinutes: 200,
-        gridStepMinutes: 1,
-        threshold: { value: 20, windowMinutes: 20 },
-        replicates: 1000,
-        seed: "parts-2",
-        extrinsic: [{ parameter: "param(k)", cv: 0.3 }],
-        recordEventsFor: 3,
-      }),
-      { trajectoryReplicates: 14 },
-    ],
+    ["a rule, an event, extrinsic variation, recorded events", vatSpec(false), { trajectoryReplicates: 14 }],
     ["event cap", spec({ replicates: 1000, seed: "parts-3", eventCapPerReplicate: 20_000 }), { keepAllGrid: true }],
   ];
   for (const [name, s, opts] of cases)
     test(`${name}: merged parts equal the whole chunk`, () => {
       const whole = simulateChunk(s, 0, 40, opts);
-      assert.equal(whole.replicateGrids, undefined);
+      assert.equal(whole.gridExact, undefined);
       for (const counts of [[40], [20, 20], [14, 13, 13], [10, 10, 10, 10], [1, 38, 1], [39, 1]]) {
         const merged = mergeChunkParts(inParts(s, 0, counts, opts));
-        assert.deepEqual(withoutGrids(merged), whole, `split ${counts.join("+")}`);
+        assert.ok(merged, `split ${counts.join("+")}: exact`);
+        assert.deepEqual(merged, whole, `split ${counts.join("+")}`);
         assert.equal(digest(merged), digest(whole));
-        assert.equal(merged.replicateGrids, undefined);
       }
     });
 
-  test("summing the parts' own grid sums would not be identical when the sums round (why parts carry their grids)", () => {
-    const s = cases[1][1];
+  test("sums that round are refused, never merged: adding the parts' sums would differ from the whole chunk", () => {
+    const s = vatSpec(true);
     const whole = simulateChunk(s, 0, 40);
     let differs = false;
     for (const counts of [
@@ -102,12 +110,15 @@ describe("chunk parts", () => {
       [10, 10, 10, 10],
     ]) {
       const parts = inParts(s, 0, counts);
+      assert.ok(parts.some((p) => p.gridExact === false));
+      assert.equal(mergeChunkParts(parts), null);
       const naive = new Float64Array(whole.gridSumSq.length);
       for (const p of parts) for (let i = 0; i < naive.length; i++) naive[i] += p.gridSumSq[i];
       for (let i = 0; i < naive.length; i++) if (!Object.is(naive[i], whole.gridSumSq[i])) differs = true;
-      assert.deepEqual(mergeChunkParts(parts).gridSumSq, whole.gridSumSq);
     }
-    assert.ok(differs, "this case must exercise order-dependent rounding, or it proves nothing");
+    assert.ok(differs, "this case must exercise grouping-dependent rounding, or it proves nothing");
+    // the refusal comes from the bound: the same whole numbers under a bound above their sums are exact
+    assert.equal(simulateChunk(s, 0, 2, { gridExactBound: 2 ** 60 }).gridExact, true);
   });
 
   test("an aborted part ends the merged chunk there, as simulateChunk stops at the aborted replicate", () => {
@@ -124,9 +135,9 @@ describe("chunk parts", () => {
     });
     const parts = inParts(s, 0, [2, 2, 2]);
     let calls = 0;
-    const aborted = simulateChunk(s, 2, 2, { replicateGrids: true, checkpoint: () => ++calls < 3 });
+    const aborted = simulateChunk(s, 2, 2, { gridExactBound: gridExactBound(3), checkpoint: () => ++calls < 3 });
     assert.equal(aborted.aborted, true);
-    const merged = mergeChunkParts([parts[0], aborted, parts[2]]);
+    const merged = mergeChunkParts([parts[0], aborted, parts[2]])!;
     assert.equal(merged.aborted, true);
     assert.deepEqual(
       merged.replicates.map((r) => r.replicate),
