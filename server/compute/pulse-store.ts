@@ -278,6 +278,48 @@ export function readPulseStats(db: Db, runId: string): PulseStat[] {
   return out;
 }
 
+/**
+ * Every pulse of a run as packed columns (sim/engine/pulse-columns.ts), equal to
+ * packPulseStats(readPulseStats(db, runId)) but built from the chunk BLOBs without
+ * a record object per pulse (a null figure as NaN, a null width as 0, as packing gives them).
+ */
+export function readPulseColumns(db: Db, runId: string): PackedPulseStats {
+  const blobs = chunkBlobs(db, runId);
+  if (blobs.length === 0) return packPulseStats(readPulseRows(db, runId));
+  const chunks = blobs.map(decodePulseChunk);
+  let n = 0,
+    w = 0;
+  for (const c of chunks) {
+    n += c.n;
+    w += c.widths.length;
+  }
+  const numbers = new Float64Array(n * PULSE_FIELDS);
+  const widths = new Float64Array(w);
+  let k = 0,
+    wo = 0;
+  for (const c of chunks) {
+    for (const col of F64_COLUMNS) {
+      const src = c.f64[col];
+      const at = PACKED_AT[col];
+      for (let i = 0; i < c.n; i++) numbers[(k + i) * PULSE_FIELDS + at] = src[i];
+    }
+    for (let i = 0; i < c.n; i++) {
+      const o = (k + i) * PULSE_FIELDS;
+      numbers[o] = c.replicate[i];
+      numbers[o + 1] = c.pulseIndex[i];
+      numbers[o + 5] = (c.flags[i] & EXCLUDED) !== 0 ? 1 : 0;
+      numbers[o + 6] = (c.flags[i] & PASSED) !== 0 ? 1 : 0;
+      numbers[o + 12] = c.widthCount[i];
+    }
+    for (let j = 0; j < c.widths.length; j++) {
+      const x = c.widths[j];
+      widths[wo++] = Number.isNaN(x) ? 0 : x;
+    }
+    k += c.n;
+  }
+  return { numbers, widths };
+}
+
 function readPulseRows(db: Db, runId: string): PulseStat[] {
   const rows = db.$client
     .prepare(

@@ -29,6 +29,7 @@ import {
   firstReplicateSchedule,
   forEachPulseFigure,
   hasPulseChunks,
+  readPulseColumns,
   readPulsePage,
   readPulseStats,
   type PulsePageQuery,
@@ -143,6 +144,12 @@ test("a run's pulses stored as chunk BLOBs read exactly as the same pulses store
     assert.ok(rows.length > 300, `the run has pulses (${rows.length})`);
     assert.ok(rows.some((p) => p.delay === null) && rows.some((p) => p.widths.length > 0), "null figures and widths");
     assert.deepEqual(blobs, rows);
+    for (const runId of ["run_rows", "run_blobs"]) {
+      const cols = readPulseColumns(t.ctx.db, runId);
+      const packed = packPulseStats(rows);
+      assert.ok(Buffer.from(cols.numbers.buffer).equals(Buffer.from(packed.numbers.buffer)), `${runId}: numbers`);
+      assert.ok(Buffer.from(cols.widths.buffer).equals(Buffer.from(packed.widths.buffer)), `${runId}: widths`);
+    }
     assert.equal(pulseStatsCsv(blobs), pulseStatsCsv(rows));
     assert.equal(outputPulsesCsv(blobs), outputPulsesCsv(rows));
     assert.equal(
@@ -227,6 +234,48 @@ test("a run stored as rows keeps rows when it resumes, and reads as before", asy
         .map((p) => ({ ...p, widths: JSON.parse(JSON.stringify(p.widths)) as number[] }))
         .sort((a, b) => a.replicate - b.replicate || a.pulseIndex - b.pulseIndex),
     );
+  } finally {
+    await t.close();
+  }
+});
+
+test("edge values (null figures, several widths, -0, excluded pulses) read the same from rows and BLOBs", async () => {
+  const t = await makeTestContext();
+  try {
+    const s = spec(100, "pulse-store-edges");
+    const r = simulateChunk(s, 0, 100, { trajectoryReplicates: 0 });
+    // the simulated records with figures changed to what this circuit does not produce
+    const pulses = r.pulses.map((p, i) => ({
+      ...p,
+      excluded: i % 5 === 0,
+      passed: i % 5 !== 0 && p.passed,
+      widths: i % 3 === 0 ? [1 / 3, -0, 2 ** -1074, 1e308].slice(0, 1 + (i % 4)) : p.widths,
+      peak: i % 7 === 0 ? -0 : p.peak,
+      fwhm: i % 4 === 0 ? null : p.fwhm,
+      delay: i % 6 === 0 ? null : (p.delay ?? 0.1 + 0.2),
+    }));
+    for (const [runId, format] of [
+      ["run_edge_rows", "rows"],
+      ["run_edge_blobs", "blobs"],
+    ] as const) {
+      insertRun(t, runId, s);
+      store(t, runId, s, [{ ...r, pulses }], [0], format);
+    }
+    const rows = readPulseStats(t.ctx.db, "run_edge_rows");
+    assert.deepEqual(readPulseStats(t.ctx.db, "run_edge_blobs"), rows);
+    assert.ok(rows.some((p) => p.widths.length === 4));
+    const a = readPulseColumns(t.ctx.db, "run_edge_rows"),
+      b = readPulseColumns(t.ctx.db, "run_edge_blobs");
+    assert.ok(Buffer.from(a.numbers.buffer).equals(Buffer.from(b.numbers.buffer)));
+    assert.ok(Buffer.from(a.widths.buffer).equals(Buffer.from(b.widths.buffer)));
+    for (const q of pageQueries(rows))
+      assert.equal(
+        JSON.stringify(readPulsePage(t.ctx.db, "run_edge_blobs", q)),
+        JSON.stringify(readPulsePage(t.ctx.db, "run_edge_rows", q)),
+        JSON.stringify(q),
+      );
+    assert.equal(firstDifference(t.ctx.db, "run_edge_rows", "run_edge_blobs"), null);
+    assert.deepEqual(figures(t, "run_edge_blobs"), figures(t, "run_edge_rows"));
   } finally {
     await t.close();
   }
