@@ -5,9 +5,10 @@
  * survival curve.
  */
 import type { DelaySummary } from "@/shared/schemas/analysis";
-import { describe } from "@/sim/stats/describe";
+import { describeInPlace } from "@/sim/stats/describe";
 import { histogram } from "@/sim/stats/histogram";
 import {
+  eventStepsOf,
   kaplanMeierOfTimes,
   kmQuantile,
   kmQuantileInterval,
@@ -29,9 +30,14 @@ export function summarizeDelays(observations: readonly SurvivalObservation[]): D
  * the same summary without an object per observation.
  */
 export function summarizeDelayTimes(observed: readonly number[], censored: readonly number[]): DelaySummary {
-  const km = kaplanMeierOfTimes(Float64Array.from(observed), Float64Array.from(censored));
+  return summarizeDelayTimesInPlace(Float64Array.from(observed), Float64Array.from(censored));
+}
+
+/** summarizeDelayTimes of times in Float64Arrays that may be reordered (both are sorted in place, not copied). */
+export function summarizeDelayTimesInPlace(observed: Float64Array, censored: Float64Array): DelaySummary {
+  const km = kaplanMeierOfTimes(observed, censored);
   const survival: DelaySummary["survival"] = [];
-  const eventSteps = km.steps.filter((s) => s.events > 0);
+  const eventSteps = eventStepsOf(km);
   let lastKept = 1;
   eventSteps.forEach((s, i) => {
     if (lastKept - s.survival >= CURVE_STEP || i === eventSteps.length - 1 || i === 0) {
@@ -53,7 +59,7 @@ export function summarizeDelayTimes(observed: readonly number[], censored: reado
       q75: kmQuantile(km, 0.75),
       q90: kmQuantile(km, 0.9),
     },
-    observed: describe(observed),
+    observed: describeInPlace(observed),
     histogram: histogram(observed),
     survival,
   };

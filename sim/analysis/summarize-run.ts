@@ -21,13 +21,13 @@ import type {
   RunSummary,
   ThresholdUsed,
 } from "@/shared/schemas/analysis";
-import { describe, mean } from "@/sim/stats/describe";
+import { describe, describeInPlace, mean, medianInPlace } from "@/sim/stats/describe";
 import { histogram } from "@/sim/stats/histogram";
 import { kaplanMeierOfTimes, kmQuantile, kmQuantileInterval } from "@/sim/stats/kaplan-meier";
 import { fitLogisticPass } from "@/sim/stats/logistic-fit";
 import { logisticGoodnessOfFit } from "@/sim/stats/logistic-goodness-of-fit";
 import { wilson } from "@/sim/stats/wilson-interval";
-import { medianStatus, summarizeDelayTimes } from "./delay-summary";
+import { medianStatus, summarizeDelayTimesInPlace } from "./delay-summary";
 import { passCurveD50 } from "./pass-curve-d50";
 import { windowEndsOfTable } from "./pulse-selection";
 import { F as FIELDS, PULSE_FIELDS as FIELD_COUNT, pulseTable, type PulseTable } from "./pulse-table";
@@ -78,7 +78,6 @@ export const MOST_REPLICATES = 0.5;
 
 const finite = (x: number | null | undefined): number | null =>
   x !== null && x !== undefined && Number.isFinite(x) ? x : null;
-const medianOf = (xs: number[]): number | null => describe(xs).median;
 
 export function summarizeRun(input: SummarizeRunInput): RunSummary {
   const { replicates, noiseDurationMinutes } = input;
@@ -136,30 +135,37 @@ export function summarizeRun(input: SummarizeRunInput): RunSummary {
   const rows = Int32Array.from(rowList);
   rowList.length = 0;
   const passedAt = (i: number) => at(i, F.passed) === 1;
-  const widthsOf = (idx: ArrayLike<number>): number[] => {
-    const out: number[] = [];
+  // Samples are gathered into Float64Arrays in record order and sorted in place by the figure that needs
+  // them sorted (describeInPlace, medianInPlace, Kaplan-Meier): one sort per sample, no copies.
+  const ws = t.widths;
+  const wStart = t.widthStart;
+  const widthsOf = (idx: ArrayLike<number>): Float64Array => {
+    let n = 0;
+    for (let k = 0; k < idx.length; k++) n += wStart[idx[k] + 1] - wStart[idx[k]];
+    const out = new Float64Array(n);
+    let w = 0;
     for (let k = 0; k < idx.length; k++) {
       const i = idx[k];
-      for (let j = t.widthStart[i]; j < t.widthStart[i + 1]; j++) out.push(t.widths[j]);
+      for (let j = wStart[i]; j < wStart[i + 1]; j++) out[w++] = ws[j];
     }
     return out;
   };
-  const column = (idx: ArrayLike<number>, field: number): number[] => {
-    const out = new Array<number>(idx.length);
-    for (let k = 0; k < idx.length; k++) out[k] = at(idx[k], field);
+  const column = (idx: ArrayLike<number>, field: number): Float64Array => {
+    const out = new Float64Array(idx.length);
+    for (let k = 0; k < idx.length; k++) out[k] = a[idx[k] * PULSE_FIELDS + field];
     return out;
   };
-  const delayKm = (idx: ArrayLike<number>) => {
-    const [observed, censored] = delayTimes(idx);
-    return kaplanMeierOfTimes(Float64Array.from(observed), Float64Array.from(censored));
-  };
-  const delayTimes = (idx: ArrayLike<number>): [number[], number[]] => {
-    const observed: number[] = [];
-    const censored: number[] = [];
-    for (let k = 0; k < idx.length; k++) {
+  const delayKm = (idx: ArrayLike<number>) => kaplanMeierOfTimes(...delayTimes(idx));
+  /** The delays of the records idx, observed and censored apart, each in record order. */
+  const delayTimes = (idx: ArrayLike<number>): [Float64Array, Float64Array] => {
+    let nObserved = 0;
+    for (let k = 0; k < idx.length; k++) nObserved += delayEvent[idx[k]];
+    const observed = new Float64Array(nObserved);
+    const censored = new Float64Array(idx.length - nObserved);
+    for (let k = 0, o = 0, c = 0; k < idx.length; k++) {
       const i = idx[k];
-      if (delayEvent[i] === 1) observed.push(delayTime[i]);
-      else censored.push(delayTime[i]);
+      if (delayEvent[i] === 1) observed[o++] = delayTime[i];
+      else censored[c++] = delayTime[i];
     }
     return [observed, censored];
   };
@@ -177,12 +183,13 @@ export function summarizeRun(input: SummarizeRunInput): RunSummary {
     const g = groups.get(d)!;
     const n = g.rows.length;
     let passed = 0;
-    const offDelays: number[] = [];
+    const offDelayBuf = new Float64Array(n);
+    let nOff = 0;
     for (const i of g.rows) {
       if (!passedAt(i)) continue;
       passed++;
       const offDelay = nullable(at(i, F.offDelay));
-      if (offDelay !== null) offDelays.push(offDelay);
+      if (offDelay !== null) offDelayBuf[nOff++] = offDelay;
     }
     const km = delayKm(g.rows);
     return {
@@ -196,9 +203,9 @@ export function summarizeRun(input: SummarizeRunInput): RunSummary {
       medianDelayStatus: medianStatus(km),
       censored: km.censored,
       excluded: g.excluded,
-      medianWidth: medianOf(widthsOf(g.rows)),
-      medianPeak: medianOf(column(g.rows, F.peak)),
-      medianOffDelay: medianOf(offDelays),
+      medianWidth: medianInPlace(widthsOf(g.rows)),
+      medianPeak: medianInPlace(column(g.rows, F.peak)),
+      medianOffDelay: medianInPlace(offDelayBuf.subarray(0, nOff)),
     };
   });
   groups.clear();
@@ -245,7 +252,9 @@ export function summarizeRun(input: SummarizeRunInput): RunSummary {
   let delayCost: RunSummary["delayCost"] = null;
   if (longRows.length > 0) {
     const [observed, censored] = delayTimes(longRows);
-    const km = kaplanMeierOfTimes(Float64Array.from(observed), Float64Array.from(censored));
+    // the mean in record order, before Kaplan-Meier sorts the times in place
+    const meanObservedDelay = observed.length ? mean(observed) : null;
+    const km = kaplanMeierOfTimes(observed, censored);
     delayCost = {
       minDurationMinutes: longMin,
       durations: withPulses.filter((e) => e.duration >= longMin).map((e) => e.duration),
@@ -254,7 +263,7 @@ export function summarizeRun(input: SummarizeRunInput): RunSummary {
       medianDelay: kmQuantile(km, 0.5),
       medianDelayCi: kmQuantileInterval(km, 0.5),
       medianDelayStatus: medianStatus(km),
-      meanObservedDelay: observed.length ? mean(observed) : null,
+      meanObservedDelay,
     };
   }
 
@@ -263,34 +272,42 @@ export function summarizeRun(input: SummarizeRunInput): RunSummary {
   const responsiveSet = new Set(responsive.map((e) => e.duration));
   const pooledRows = rows.filter((i) => responsiveSet.has(duration[i]));
   const delayCoverage = coverage(byDuration, responsive, pooledRows.length);
-  const pooledDelay = summarizeDelayTimes(...delayTimes(pooledRows));
-  const offObserved: number[] = [];
-  const offCensored: number[] = [];
+  const pooledDelay = summarizeDelayTimesInPlace(...delayTimes(pooledRows));
   let passedTotal = 0;
+  let nOffObserved = 0;
+  let nOffCensored = 0;
   for (const i of rows) {
     if (passedAt(i)) passedTotal++;
-    if (offKind[i] === 1) offObserved.push(offTime[i]);
-    else if (offKind[i] === 2) offCensored.push(offTime[i]);
+    if (offKind[i] === 1) nOffObserved++;
+    else if (offKind[i] === 2) nOffCensored++;
   }
-  const offDelaySummary = summarizeDelayTimes(offObserved, offCensored);
+  const offObserved = new Float64Array(nOffObserved);
+  const offCensored = new Float64Array(nOffCensored);
+  for (let k = 0, o = 0, c = 0; k < rows.length; k++) {
+    const i = rows[k];
+    if (offKind[i] === 1) offObserved[o++] = offTime[i];
+    else if (offKind[i] === 2) offCensored[c++] = offTime[i];
+  }
+  const offDelaySummary = summarizeDelayTimesInPlace(offObserved, offCensored);
 
   // ---- widths and pulse generation (evaluable pulses)
   const widths = widthsOf(rows);
-  const fwhms: number[] = [];
-  const peakAboveBaseline = new Array<number>(rows.length);
+  const fwhmBuf = new Float64Array(rows.length);
+  let nFwhm = 0;
+  const peakAboveBaseline = new Float64Array(rows.length);
   for (let k = 0; k < rows.length; k++) {
     const i = rows[k];
     const fwhm = nullable(at(i, F.fwhm));
-    if (fwhm !== null) fwhms.push(fwhm);
+    if (fwhm !== null) fwhmBuf[nFwhm++] = fwhm;
     peakAboveBaseline[k] = at(i, F.peak) - at(i, F.baseline);
   }
   const pulseGeneration = {
     pulses: rows.length,
-    peak: describe(column(rows, F.peak)),
-    peakAboveBaseline: describe(peakAboveBaseline),
-    timeToPeak: describe(column(rows, F.timeToPeak)),
-    fwhm: describe(fwhms),
-    fwhmNotMeasurable: rows.length - fwhms.length,
+    peak: describeInPlace(column(rows, F.peak)),
+    peakAboveBaseline: describeInPlace(peakAboveBaseline),
+    timeToPeak: describeInPlace(column(rows, F.timeToPeak)),
+    fwhm: describeInPlace(fwhmBuf.subarray(0, nFwhm)),
+    fwhmNotMeasurable: rows.length - nFwhm,
   };
 
   // ---- output noise from per-replicate moments (law of total variance)
@@ -365,7 +382,7 @@ export function summarizeRun(input: SummarizeRunInput): RunSummary {
     delayCoverage,
     offDelay: offDelaySummary,
     delayCost,
-    widths: { summary: describe(widths), histogram: histogram(widths) },
+    widths: { summary: describeInPlace(widths), histogram: histogram(widths) },
     pulseGeneration,
     noise: noiseSummary,
     notes,

@@ -24,21 +24,22 @@ export interface Description {
   max: number | null;
 }
 
-export function mean(values: readonly number[]): number {
+export function mean(values: ArrayLike<number>): number {
   if (values.length === 0) return NaN;
   let s = 0;
-  for (const v of values) s += v;
+  for (let i = 0; i < values.length; i++) s += values[i];
   return s / values.length;
 }
 
 /** Sample variance with the n - 1 denominator (two-pass). NaN when n < 2. */
-export function sampleVariance(values: readonly number[]): number {
+export function sampleVariance(values: ArrayLike<number>): number {
   const n = values.length;
   if (n < 2) return NaN;
   const m = mean(values);
   let ss = 0;
   let comp = 0;
-  for (const v of values) {
+  for (let i = 0; i < n; i++) {
+    const v = values[i];
     ss += (v - m) * (v - m);
     comp += v - m;
   }
@@ -48,7 +49,28 @@ export function sampleVariance(values: readonly number[]): number {
 const orNull = (x: number): number | null => (Number.isFinite(x) ? x : null);
 
 export function describe(values: readonly number[]): Description {
-  const sorted = sortedCopy(values);
+  return describeSorted(sortedCopy(values));
+}
+
+/**
+ * describe of numbers in a Float64Array that may be reordered: sorted in place (no copy), the same result as
+ * describe of them (which sorts a Float64Array copy the same way). Throws on NaN as describe does.
+ */
+export function describeInPlace(values: Float64Array): Description {
+  return describeSorted(sortInPlace(values));
+}
+
+/** The median of numbers in a Float64Array that may be reordered (sorted in place): describe(values).median. */
+export function medianInPlace(values: Float64Array): number | null {
+  return values.length === 0 ? null : quantileSorted(sortInPlace(values), 0.5);
+}
+
+function sortInPlace(values: Float64Array): Float64Array {
+  for (let i = 0; i < values.length; i++) if (values[i] !== values[i]) throw new RangeError("sample contains NaN");
+  return values.sort();
+}
+
+function describeSorted(sorted: ArrayLike<number>): Description {
   const n = sorted.length;
   if (n === 0) {
     return {

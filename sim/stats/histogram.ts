@@ -19,10 +19,10 @@ export function sturgesBinCount(n: number): number {
 }
 
 export function histogram(
-  values: readonly number[],
+  values: readonly number[] | Float64Array,
   options: { binCount?: number; min?: number; max?: number } = {},
 ): Histogram {
-  const finite = values.filter((v) => Number.isFinite(v));
+  const finite = (values as readonly number[]).filter((v) => Number.isFinite(v));
   let lo = Infinity;
   let hi = -Infinity;
   for (const v of finite) {

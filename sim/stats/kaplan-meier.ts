@@ -119,6 +119,14 @@ export function kaplanMeierOfTimes(
   return { n: total, events: totalEvents, censored: total - totalEvents, steps };
 }
 
+/** The steps with events, found once per curve (a summary asks several quantiles of a curve of 10^5 steps). */
+const eventStepCache = new WeakMap<KaplanMeierResult, SurvivalStep[]>();
+export function eventStepsOf(km: KaplanMeierResult): SurvivalStep[] {
+  let steps = eventStepCache.get(km);
+  if (!steps) eventStepCache.set(km, (steps = km.steps.filter((st) => st.events > 0)));
+  return steps;
+}
+
 /** First event time at which `curve` (S, lower or upper) is <= level (midpoint rule on exact ties); null if never. */
 function firstTimeAtOrBelow(
   km: KaplanMeierResult,
@@ -126,7 +134,7 @@ function firstTimeAtOrBelow(
   level: number,
   strict: boolean,
 ): number | null {
-  const eventSteps = km.steps.filter((st) => st.events > 0);
+  const eventSteps = eventStepsOf(km);
   for (let k = 0; k < eventSteps.length; k++) {
     const v = pick(eventSteps[k]);
     if (Math.abs(v - level) <= EXACT) {

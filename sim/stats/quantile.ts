@@ -6,7 +6,7 @@
  *
  * @example quantileSorted([1, 2, 3, 4, 5, 6, 7, 8, 9, 10], 0.25) // 3.25
  */
-export function quantileSorted(sorted: readonly number[], p: number): number {
+export function quantileSorted(sorted: ArrayLike<number>, p: number): number {
   if (!(p >= 0 && p <= 1)) throw new RangeError("quantile p must be in [0, 1]");
   const n = sorted.length;
   if (n === 0) return NaN;

@@ -3,7 +3,8 @@ import assert from "node:assert/strict";
 import * as ss from "simple-statistics";
 import seedrandom from "seedrandom";
 import { quantileSorted } from "@/sim/stats/quantile";
-import { describe, mean, sampleVariance } from "@/sim/stats/describe";
+import { describe, describeInPlace, mean, medianInPlace, sampleVariance } from "@/sim/stats/describe";
+import { summarizeDelayTimes, summarizeDelayTimesInPlace } from "@/sim/analysis/delay-summary";
 import { histogram, sturgesBinCount } from "@/sim/stats/histogram";
 import { assertCloseTo } from "@/tests/helpers/close-to";
 
@@ -61,5 +62,27 @@ suite("histogram", () => {
       histogram([5, 5, 5]).counts.reduce((s, c) => s + c, 0),
       3,
     );
+  });
+});
+
+suite("summaries of samples sorted in place (the run summary's Float64Arrays)", () => {
+  test("describeInPlace, medianInPlace and summarizeDelayTimesInPlace equal the copying versions", () => {
+    const rng = seedrandom("in-place");
+    for (let rep = 0; rep < 30; rep++) {
+      const n = Math.floor(rng() * 60);
+      // ties, -0 beside 0, and wide magnitudes
+      const xs = Array.from({ length: n }, () =>
+        rng() < 0.2 ? [0, -0, 1, 2.5][Math.floor(rng() * 4)] : (rng() - 0.4) * 10 ** (rng() * 6 - 2),
+      );
+      assert.deepStrictEqual(describeInPlace(Float64Array.from(xs)), describe(xs));
+      assert.ok(Object.is(medianInPlace(Float64Array.from(xs)), describe(xs).median));
+      const censored = xs.filter((_, i) => i % 3 === 0).map(Math.abs);
+      const observed = xs.filter((_, i) => i % 3 !== 0).map(Math.abs);
+      assert.deepStrictEqual(
+        summarizeDelayTimesInPlace(Float64Array.from(observed), Float64Array.from(censored)),
+        summarizeDelayTimes(observed, censored),
+      );
+    }
+    assert.throws(() => describeInPlace(Float64Array.from([1, NaN])), RangeError);
   });
 });
