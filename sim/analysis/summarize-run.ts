@@ -97,6 +97,8 @@ export function summarizeRun(input: SummarizeRunInput): RunSummary {
     outputLifetimeMinutes: finite(th.outputLifetimeMinutes),
   };
   const normalizeDuration = durationNormalizer();
+  let lastBin = NaN;
+  let lastDuration = NaN;
   const ends = windowEndsOfTable(t, th.windowMinutes, input.endTimeMinutes ?? Infinity);
   const notes: string[] = [];
 
@@ -110,7 +112,13 @@ export function summarizeRun(input: SummarizeRunInput): RunSummary {
   const rowList: number[] = [];
   let excludedTotal = 0;
   for (let i = 0; i < nPulses; i++) {
-    duration[i] = normalizeDuration(at(i, F.durationBin));
+    // records come in runs of one duration: the last one's normalised value is reused (=== as the cache's key)
+    const bin = at(i, F.durationBin);
+    if (bin !== lastBin) {
+      lastBin = bin;
+      lastDuration = normalizeDuration(bin);
+    }
+    duration[i] = lastDuration;
     if (at(i, F.excluded) === 1) {
       excludedTotal++;
       continue;
@@ -172,12 +180,24 @@ export function summarizeRun(input: SummarizeRunInput): RunSummary {
 
   // ---- by duration
   const groups = new Map<number, { rows: number[]; excluded: number }>();
+  // the last duration's group reused (a Map lookup per record was a measurable part of a large run's summary)
+  let lastKey = NaN;
+  let lastGroup: { rows: number[]; excluded: number } | undefined;
+  const groupOf = (d: number) => {
+    if (d !== lastKey || lastGroup === undefined) {
+      lastGroup = groups.get(d);
+      if (lastGroup === undefined) return undefined;
+      lastKey = d;
+    }
+    return lastGroup;
+  };
   for (let i = 0; i < nPulses; i++) {
     const d = duration[i];
-    if (!groups.has(d)) groups.set(d, { rows: [], excluded: 0 });
-    if (at(i, F.excluded) === 1) groups.get(d)!.excluded++;
+    let g = groupOf(d);
+    if (!g) groups.set(d, (g = { rows: [], excluded: 0 }));
+    if (at(i, F.excluded) === 1) g.excluded++;
   }
-  for (const i of rows) groups.get(duration[i])!.rows.push(i);
+  for (const i of rows) groupOf(duration[i])!.rows.push(i);
   const durations = [...groups.keys()].sort((x, y) => x - y);
   const byDuration: ByDurationEntry[] = durations.map((d) => {
     const g = groups.get(d)!;
