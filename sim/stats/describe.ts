@@ -70,7 +70,8 @@ function sortInPlace(values: Float64Array): Float64Array {
   return values.sort();
 }
 
-function describeSorted(sorted: ArrayLike<number>): Description {
+/** describe of numbers already ascending (as describe sorts them: -0 before +0, no NaN), without sorting. */
+export function describeSorted(sorted: ArrayLike<number>): Description {
   const n = sorted.length;
   if (n === 0) {
     return {

@@ -3,7 +3,8 @@ import assert from "node:assert/strict";
 import * as ss from "simple-statistics";
 import seedrandom from "seedrandom";
 import { quantileSorted } from "@/sim/stats/quantile";
-import { describe, describeInPlace, mean, medianInPlace, sampleVariance } from "@/sim/stats/describe";
+import { describe, describeInPlace, describeSorted, mean, medianInPlace, sampleVariance } from "@/sim/stats/describe";
+import { mergeSorted } from "@/sim/stats/merge-sorted";
 import { summarizeDelayTimes, summarizeDelayTimesInPlace } from "@/sim/analysis/delay-summary";
 import { histogram, sturgesBinCount } from "@/sim/stats/histogram";
 import { assertCloseTo } from "@/tests/helpers/close-to";
@@ -84,5 +85,26 @@ suite("summaries of samples sorted in place (the run summary's Float64Arrays)", 
       );
     }
     assert.throws(() => describeInPlace(Float64Array.from([1, NaN])), RangeError);
+  });
+});
+
+suite("merging sorted samples", () => {
+  test("mergeSorted equals sorting every value together, -0 before 0 included", () => {
+    const rng = seedrandom("merge-sorted");
+    for (let rep = 0; rep < 40; rep++) {
+      const parts = Array.from({ length: Math.floor(rng() * 7) }, () =>
+        Float64Array.from({ length: Math.floor(rng() * 30) }, () =>
+          rng() < 0.3 ? [0, -0, 1, -2][Math.floor(rng() * 4)] : (rng() - 0.5) * 100,
+        ).sort(),
+      );
+      const all = new Float64Array(parts.reduce((n, p) => n + p.length, 0));
+      let o = 0;
+      for (const p of parts) all.set(p, (o += p.length) - p.length);
+      all.sort();
+      const merged = mergeSorted(parts);
+      assert.equal(merged.length, all.length);
+      for (let i = 0; i < all.length; i++) assert.ok(Object.is(merged[i], all[i]), `${rep}[${i}]`);
+      assert.deepStrictEqual(describeSorted(merged), describe([...all]));
+    }
   });
 });
