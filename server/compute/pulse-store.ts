@@ -26,6 +26,9 @@ import { schema } from "@/db/client";
 import type { PulseStat } from "@/shared/schemas/run-spec";
 import { PULSE_FIELDS, packPulseStats, type PackedPulseStats } from "@/sim/engine/pulse-columns";
 
+/** A local copy: an imported constant is read through a getter at every use under tsx (DEVELOPERS.md). */
+const FIELDS = PULSE_FIELDS;
+
 const F64_COLUMNS = [
   "on",
   "off",
@@ -70,22 +73,22 @@ const blobBytes = (n: number, w: number) => 8 + 8 * (F64_COLUMNS.length * n + w)
 export function encodePulseChunk(pulses: readonly PulseStat[] | PackedPulseStats): Buffer {
   const packed = isPacked(pulses) ? pulses : packPulseStats(pulses);
   const a = packed.numbers;
-  const n = a.length / PULSE_FIELDS;
+  const n = a.length / FIELDS;
   const w = packed.widths.length;
   // Where each record's widths start, and the (replicate, pulse) order (the pool sends chunks in it already).
   const wStart = new Int32Array(n + 1);
   let sorted = true;
   for (let i = 0; i < n; i++) {
-    wStart[i + 1] = wStart[i] + a[i * PULSE_FIELDS + 12];
+    wStart[i + 1] = wStart[i] + a[i * FIELDS + 12];
     if (i > 0) {
-      const dr = a[i * PULSE_FIELDS] - a[(i - 1) * PULSE_FIELDS];
-      if (dr < 0 || (dr === 0 && a[i * PULSE_FIELDS + 1] < a[(i - 1) * PULSE_FIELDS + 1])) sorted = false;
+      const dr = a[i * FIELDS] - a[(i - 1) * FIELDS];
+      if (dr < 0 || (dr === 0 && a[i * FIELDS + 1] < a[(i - 1) * FIELDS + 1])) sorted = false;
     }
   }
   let order: Int32Array | null = null;
   if (!sorted) {
     const idx = Array.from({ length: n }, (_, i) => i);
-    idx.sort((x, y) => a[x * PULSE_FIELDS] - a[y * PULSE_FIELDS] || a[x * PULSE_FIELDS + 1] - a[y * PULSE_FIELDS + 1]);
+    idx.sort((x, y) => a[x * FIELDS] - a[y * FIELDS] || a[x * FIELDS + 1] - a[y * FIELDS + 1]);
     order = Int32Array.from(idx);
   }
   const buf = Buffer.alloc(blobBytes(n, w));
@@ -95,14 +98,14 @@ export function encodePulseChunk(pulses: readonly PulseStat[] | PackedPulseStats
     const col = cols.f64[c];
     const at = PACKED_AT[c];
     for (let k = 0; k < n; k++) {
-      const x = a[(order ? order[k] : k) * PULSE_FIELDS + at];
+      const x = a[(order ? order[k] : k) * FIELDS + at];
       col[k] = x === 0 ? 0 : x;
     }
   }
   let wo = 0;
   for (let k = 0; k < n; k++) {
     const i = order ? order[k] : k;
-    const o = i * PULSE_FIELDS;
+    const o = i * FIELDS;
     cols.replicate[k] = int32(a[o]);
     cols.pulseIndex[k] = int32(a[o + 1]);
     const nw = int32(a[o + 12]);
@@ -200,10 +203,10 @@ export function createPulseWriter(sqlite: Database.Database, opts: { format?: "b
   const writeRows = (runId: string, pulses: readonly PulseStat[] | PackedPulseStats) => {
     const a = isPacked(pulses) ? pulses.numbers : packPulseStats(pulses).numbers;
     const allWidths = isPacked(pulses) ? pulses.widths : packPulseStats(pulses).widths;
-    const n = a.length / PULSE_FIELDS;
+    const n = a.length / FIELDS;
     let w = 0;
     for (let i = 0; i < n; i++) {
-      const o = i * PULSE_FIELDS;
+      const o = i * FIELDS;
       const nw = a[o + 12];
       let widths: string | null = null;
       let first: number | null = null;
@@ -293,7 +296,7 @@ export function readPulseColumns(db: Db, runId: string): PackedPulseStats {
     n += c.n;
     w += c.widths.length;
   }
-  const numbers = new Float64Array(n * PULSE_FIELDS);
+  const numbers = new Float64Array(n * FIELDS);
   const widths = new Float64Array(w);
   let k = 0,
     wo = 0;
@@ -301,10 +304,10 @@ export function readPulseColumns(db: Db, runId: string): PackedPulseStats {
     for (const col of F64_COLUMNS) {
       const src = c.f64[col];
       const at = PACKED_AT[col];
-      for (let i = 0; i < c.n; i++) numbers[(k + i) * PULSE_FIELDS + at] = src[i];
+      for (let i = 0; i < c.n; i++) numbers[(k + i) * FIELDS + at] = src[i];
     }
     for (let i = 0; i < c.n; i++) {
-      const o = (k + i) * PULSE_FIELDS;
+      const o = (k + i) * FIELDS;
       numbers[o] = c.replicate[i];
       numbers[o + 1] = c.pulseIndex[i];
       numbers[o + 5] = (c.flags[i] & EXCLUDED) !== 0 ? 1 : 0;
