@@ -11,6 +11,7 @@ import { createRedisDispatcher } from "@/server/compute/redis-dispatch";
 import { onRunEnded } from "@/server/compute/run-events";
 import { templates } from "@/sim";
 import type { InputProgramInput } from "@/shared/schemas/input-program";
+import { RunSpecSchema, type RunSpec } from "@/shared/schemas/run-spec";
 
 /** A queue factory for makeTestContext({ queue }) with a real worker pool. */
 export function realQueue(threads = 1, opts: { chunkWallMs?: number } = {}) {
@@ -46,6 +47,20 @@ export function redisQueue(url: string, opts: { window?: number; log?: (m: strin
 
 /** A short duration ladder: 5 and 60 min pulses, recovery gaps of 150 min. */
 export const shortLadder: InputProgramInput = { kind: "ladder", start: 20, durations: [5, 60], repeats: 1, gap: 150 };
+
+/** A stored-run spec for chunk tests: the coherent AND template on the short ladder, 450 min, 1 min grid. */
+export function shortLadderSpec(replicates: number, seed: string): RunSpec {
+  const t = templates["c1ffl-and"];
+  return RunSpecSchema.parse({
+    circuit: t.circuit,
+    program: shortLadder,
+    inputSignal: t.inputSignal,
+    endTimeMinutes: 450,
+    gridStepMinutes: 1,
+    replicates,
+    seed,
+  });
+}
 
 export function launchBody(
   opts: {

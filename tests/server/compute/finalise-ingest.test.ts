@@ -8,9 +8,9 @@
 import { test } from "node:test";
 import assert from "node:assert/strict";
 import { schema } from "@/db/client";
-import { chunkLayout, gridTimes, reduceChunks, simulateChunk, templates, type ChunkResult } from "@/sim";
+import { chunkLayout, gridTimes, reduceChunks, simulateChunk, type ChunkResult } from "@/sim";
 import { packPulseStats } from "@/sim/engine/pulse-columns";
-import { RunSpecSchema, type RunSpec } from "@/shared/schemas/run-spec";
+import type { RunSpec } from "@/shared/schemas/run-spec";
 import finaliser, { type FinaliseResult, type IngestTask } from "@/server/compute/finalise-worker";
 import {
   createChunkWriter,
@@ -21,20 +21,7 @@ import {
   statsHashInMemory,
 } from "@/server/compute/run-store";
 import { makeTestContext, type TestApp } from "@/tests/helpers/test-app";
-import { shortLadder } from "@/tests/helpers/run-helpers";
-
-function benchSpec(replicates: number, seed: string): RunSpec {
-  const t = templates["c1ffl-and"];
-  return RunSpecSchema.parse({
-    circuit: t.circuit,
-    program: shortLadder,
-    inputSignal: t.inputSignal,
-    endTimeMinutes: 450,
-    gridStepMinutes: 1,
-    replicates,
-    seed,
-  });
-}
+import { shortLadderSpec } from "@/tests/helpers/run-helpers";
 
 function insertRun(t: TestApp, id: string, spec: RunSpec) {
   t.ctx.db
@@ -84,7 +71,7 @@ function assertSame(a: FinaliseResult, b: FinaliseResult) {
 test("finalising from chunks reduced as they arrive equals finalising from SQLite, and the CLI's hash", async () => {
   const t = await makeTestContext();
   try {
-    const spec = benchSpec(350, "ingest-seed");
+    const spec = shortLadderSpec(350, "ingest-seed");
     const layout = chunkLayout(spec);
     assert.equal(layout.chunks.length, 4); // 100, 100, 100, 50
     const results = layout.chunks.map((c) =>
@@ -167,7 +154,7 @@ test("finalising from chunks reduced as they arrive equals finalising from SQLit
 test("a dropped run's ingested chunks are forgotten: its finalisation reads SQLite", async () => {
   const t = await makeTestContext();
   try {
-    const spec = benchSpec(100, "drop-seed");
+    const spec = shortLadderSpec(100, "drop-seed");
     insertRun(t, "run_drop", spec);
     const r = simulateChunk(spec, 0, 100, { trajectoryReplicates: 0 });
     createChunkWriter(t.ctx.sqlite).write("run_drop", speciesNames(spec), gridTimes(spec).length, {

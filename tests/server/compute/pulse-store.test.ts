@@ -9,10 +9,10 @@ import { test } from "node:test";
 import assert from "node:assert/strict";
 import { eq } from "drizzle-orm";
 import { schema } from "@/db/client";
-import { chunkLayout, gridTimes, simulateChunk, templates, type ChunkResult } from "@/sim";
+import { chunkLayout, gridTimes, simulateChunk, type ChunkResult } from "@/sim";
 import { outputPulsesCsv, pulseStatsCsv, replicateStatsCsv } from "@/sim/analysis";
 import { packPulseStats } from "@/sim/engine/pulse-columns";
-import { RunSpecSchema, type PulseStat, type RunSpec } from "@/shared/schemas/run-spec";
+import type { PulseStat, RunSpec } from "@/shared/schemas/run-spec";
 import finaliser from "@/server/compute/finalise-worker";
 import {
   createChunkWriter,
@@ -36,20 +36,7 @@ import {
 } from "@/server/compute/pulse-store";
 import { runFigures } from "@/server/services/match.service";
 import { makeTestContext, type TestApp } from "@/tests/helpers/test-app";
-import { shortLadder } from "@/tests/helpers/run-helpers";
-
-function spec(replicates: number, seed: string): RunSpec {
-  const t = templates["c1ffl-and"];
-  return RunSpecSchema.parse({
-    circuit: t.circuit,
-    program: shortLadder,
-    inputSignal: t.inputSignal,
-    endTimeMinutes: 450,
-    gridStepMinutes: 1,
-    replicates,
-    seed,
-  });
-}
+import { shortLadderSpec } from "@/tests/helpers/run-helpers";
 
 function insertRun(t: TestApp, id: string, s: RunSpec) {
   t.ctx.db
@@ -125,7 +112,7 @@ function pageQueries(pulses: PulseStat[]): PulsePageQuery[] {
 test("a run's pulses stored as chunk BLOBs read exactly as the same pulses stored as rows", async () => {
   const t = await makeTestContext();
   try {
-    const s = spec(350, "pulse-store-seed");
+    const s = shortLadderSpec(350, "pulse-store-seed");
     const layout = chunkLayout(s);
     assert.equal(layout.chunks.length, 4);
     const results = layout.chunks.map((c) => simulateChunk(s, c.replicateStart, c.count, { trajectoryReplicates: 5 }));
@@ -217,7 +204,7 @@ test("a run's pulses stored as chunk BLOBs read exactly as the same pulses store
 test("a run stored as rows keeps rows when it resumes, and reads as before", async () => {
   const t = await makeTestContext();
   try {
-    const s = spec(200, "pulse-store-resume");
+    const s = shortLadderSpec(200, "pulse-store-resume");
     const layout = chunkLayout(s);
     const results = layout.chunks.map((c) => simulateChunk(s, c.replicateStart, c.count, { trajectoryReplicates: 0 }));
     insertRun(t, "run_old", s);
@@ -242,7 +229,7 @@ test("a run stored as rows keeps rows when it resumes, and reads as before", asy
 test("edge values (null figures, several widths, -0, excluded pulses) read the same from rows and BLOBs", async () => {
   const t = await makeTestContext();
   try {
-    const s = spec(100, "pulse-store-edges");
+    const s = shortLadderSpec(100, "pulse-store-edges");
     const r = simulateChunk(s, 0, 100, { trajectoryReplicates: 0 });
     // the simulated records with figures changed to what this circuit does not produce
     const pulses = r.pulses.map((p, i) => ({
