@@ -32,7 +32,11 @@ import { readPulseStats } from "@/server/compute/pulse-store";
 import { conflict } from "@/server/http-error";
 import { recordAudit } from "@/server/services/audit.service";
 import { PAGE_SIZE, PAGE_SIZE_MAX } from "@/shared/schemas/pagination";
+import { answerCache } from "@/server/services/answer-cache";
+import { sendCachedAnswer } from "./cached-answer";
 import type { RunListPage } from "@/shared/schemas/api-runs";
+
+const ACTIVE_RUN_STATUS: readonly string[] = ["queued", "running"];
 
 const csvName = (name: string) =>
   name
@@ -144,15 +148,25 @@ export const runRoutes = defineRoutes([
     method: "get",
     path: "/runs/:id",
     access: { kind: "object", resource: "run", role: "viewer" },
-    summary: "Run detail: status, progress, settings, summary figures, reproduction check.",
-    handler: async ({ ctx, params }) => {
+    summary:
+      "Run detail: status, progress, settings, summary figures, reproduction check (an ETag once the run has ended).",
+    handler: async ({ ctx, params, req, res }) => {
+      // An ended run's detail changes only with a database write: served from the answer cache, with an ETag.
+      const cache = answerCache(ctx);
+      const key = `run-detail:${params.id}`;
+      const hit = cache.get(key);
+      if (hit) return sendCachedAnswer(req, res, cache, hit);
+      const stamp = cache.stamp();
       // One read of the run's row (its JSON columns parsed once) for the detail, the reproduction check and the acceleration.
       const row = runs.getRunRow(ctx, params.id);
-      return {
+      const detail = {
         ...runs.runDetail(ctx, row),
         reproduction: bundles.reproductionStatus(ctx, row),
         acceleration: await accelerationFor(ctx, row),
       };
+      // A queued or running run's progress lives in the queue's memory, not in the database: never cached.
+      if (ACTIVE_RUN_STATUS.includes(row.status) || ctx.queue.progress(row.id)) return detail;
+      return sendCachedAnswer(req, res, cache, cache.put(key, stamp, detail));
     },
   },
   {
