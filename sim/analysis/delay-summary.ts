@@ -5,10 +5,10 @@
  * survival curve.
  */
 import type { DelaySummary } from "@/shared/schemas/analysis";
-import { describeInPlace } from "@/sim/stats/describe";
+import { describeSorted } from "@/sim/stats/describe";
 import { histogram } from "@/sim/stats/histogram";
 import {
-  eventStepsOf,
+  kaplanMeierOfSortedTimes,
   kaplanMeierOfTimes,
   kmQuantile,
   kmQuantileInterval,
@@ -35,16 +35,33 @@ export function summarizeDelayTimes(observed: readonly number[], censored: reado
 
 /** summarizeDelayTimes of times in Float64Arrays that may be reordered (both are sorted in place, not copied). */
 export function summarizeDelayTimesInPlace(observed: Float64Array, censored: Float64Array): DelaySummary {
-  const km = kaplanMeierOfTimes(observed, censored);
+  return summarizeCurve(kaplanMeierOfTimes(observed, censored), observed);
+}
+
+/** summarizeDelayTimes of times already ascending (Float64Array sort order), without sorting them again. */
+export function summarizeSortedDelayTimes(observed: Float64Array, censored: Float64Array): DelaySummary {
+  return summarizeCurve(kaplanMeierOfSortedTimes(observed, censored), observed);
+}
+
+/** The summary of a curve and its observed times (ascending: Kaplan-Meier sorted them, and checked them finite). */
+function summarizeCurve(km: KaplanMeierResult, observed: Float64Array): DelaySummary {
   const survival: DelaySummary["survival"] = [];
-  const eventSteps = eventStepsOf(km);
+  const c = km.columns;
+  const eventSteps = c.eventSteps;
   let lastKept = 1;
-  eventSteps.forEach((s, i) => {
-    if (lastKept - s.survival >= CURVE_STEP || i === eventSteps.length - 1 || i === 0) {
-      survival.push({ time: s.time, survival: s.survival, lower: s.lower, upper: s.upper, atRisk: s.atRisk });
-      lastKept = s.survival;
+  for (let i = 0; i < eventSteps.length; i++) {
+    const k = eventSteps[i];
+    if (lastKept - c.survival[k] >= CURVE_STEP || i === eventSteps.length - 1 || i === 0) {
+      survival.push({
+        time: c.time[k],
+        survival: c.survival[k],
+        lower: c.lower[k],
+        upper: c.upper[k],
+        atRisk: c.atRisk[k],
+      });
+      lastKept = c.survival[k];
     }
-  });
+  }
   return {
     evaluable: km.n,
     responded: km.events,
@@ -59,7 +76,7 @@ export function summarizeDelayTimesInPlace(observed: Float64Array, censored: Flo
       q75: kmQuantile(km, 0.75),
       q90: kmQuantile(km, 0.9),
     },
-    observed: describeInPlace(observed),
+    observed: describeSorted(observed),
     histogram: histogram(observed),
     survival,
   };

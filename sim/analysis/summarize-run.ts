@@ -24,11 +24,11 @@ import type {
 import { describe, describeInPlace, describeSorted, mean, medianInPlace } from "@/sim/stats/describe";
 import { mergeSorted } from "@/sim/stats/merge-sorted";
 import { histogram } from "@/sim/stats/histogram";
-import { kaplanMeierOfTimes, kmQuantile, kmQuantileInterval } from "@/sim/stats/kaplan-meier";
+import { kaplanMeierOfSortedTimes, kaplanMeierOfTimes, kmQuantile, kmQuantileInterval } from "@/sim/stats/kaplan-meier";
 import { fitLogisticPass } from "@/sim/stats/logistic-fit";
 import { logisticGoodnessOfFit } from "@/sim/stats/logistic-goodness-of-fit";
 import { wilson } from "@/sim/stats/wilson-interval";
-import { medianStatus, summarizeDelayTimesInPlace } from "./delay-summary";
+import { medianStatus, summarizeSortedDelayTimes } from "./delay-summary";
 import { passCurveD50 } from "./pass-curve-d50";
 import { windowEndsOfTable } from "./pulse-selection";
 import { F as FIELDS, PULSE_FIELDS as FIELD_COUNT, pulseTable, type PulseTable } from "./pulse-table";
@@ -164,7 +164,6 @@ export function summarizeRun(input: SummarizeRunInput): RunSummary {
     for (let k = 0; k < idx.length; k++) out[k] = a[idx[k] * PULSE_FIELDS + field];
     return out;
   };
-  const delayKm = (idx: ArrayLike<number>) => kaplanMeierOfTimes(...delayTimes(idx));
   /** The delays of the records idx, observed and censored apart, each in record order. */
   const delayTimes = (idx: ArrayLike<number>): [Float64Array, Float64Array] => {
     let nObserved = 0;
@@ -200,10 +199,13 @@ export function summarizeRun(input: SummarizeRunInput): RunSummary {
   }
   for (const i of rows) groupOf(duration[i])!.rows.push(i);
   const durations = [...groups.keys()].sort((x, y) => x - y);
-  // each duration's widths and peaks, sorted for its medians, merged below into the whole run's (every
-  // evaluable record is in one duration), instead of sorting every value again
+  // each duration's samples, sorted for its medians and its Kaplan-Meier curve, merged below into the whole
+  // run's and the pooled ones (every evaluable record is in one duration), instead of sorting every value again
   const groupWidths: Float64Array[] = [];
   const groupPeaks: Float64Array[] = [];
+  const groupObserved: Float64Array[] = [];
+  const groupCensored: Float64Array[] = [];
+  const groupOffObserved: Float64Array[] = [];
   const byDuration: ByDurationEntry[] = durations.map((d) => {
     const g = groups.get(d)!;
     const n = g.rows.length;
@@ -216,11 +218,16 @@ export function summarizeRun(input: SummarizeRunInput): RunSummary {
       const offDelay = nullable(at(i, F.offDelay));
       if (offDelay !== null) offDelayBuf[nOff++] = offDelay;
     }
-    const km = delayKm(g.rows);
+    const [observed, censored] = delayTimes(g.rows);
+    const km = kaplanMeierOfTimes(observed, censored);
     const widthSample = widthsOf(g.rows);
     const peakSample = column(g.rows, F.peak);
+    const offSample = offDelayBuf.subarray(0, nOff);
     groupWidths.push(widthSample);
     groupPeaks.push(peakSample);
+    groupObserved.push(observed);
+    groupCensored.push(censored);
+    groupOffObserved.push(offSample);
     return {
       duration: d,
       pulses: n,
@@ -234,7 +241,7 @@ export function summarizeRun(input: SummarizeRunInput): RunSummary {
       excluded: g.excluded,
       medianWidth: medianInPlace(widthSample),
       medianPeak: medianInPlace(peakSample),
-      medianOffDelay: medianInPlace(offDelayBuf.subarray(0, nOff)),
+      medianOffDelay: medianInPlace(offSample),
     };
   });
   groups.clear();
@@ -277,18 +284,29 @@ export function summarizeRun(input: SummarizeRunInput): RunSummary {
       `No pulse was at least ${fmt(input.longPulseMinutes ?? 3 * noiseDurationMinutes)} min long; the delay cost uses the longest duration, ${fmt(longMin)} min.`,
     );
   }
-  const longRows = rows.filter((i) => duration[i] >= longMin);
+  // the long durations' sorted delays merged; their mean summed in record order as mean() sums
+  let longPulses = 0;
+  let longResponded = 0;
+  let longDelaySum = 0;
+  for (let k = 0; k < rows.length; k++) {
+    const i = rows[k];
+    if (!(duration[i] >= longMin)) continue;
+    longPulses++;
+    if (delayEvent[i] === 1) {
+      longResponded++;
+      longDelaySum += delayTime[i];
+    }
+  }
   let delayCost: RunSummary["delayCost"] = null;
-  if (longRows.length > 0) {
-    const [observed, censored] = delayTimes(longRows);
-    // the mean in record order, before Kaplan-Meier sorts the times in place
-    const meanObservedDelay = observed.length ? mean(observed) : null;
-    const km = kaplanMeierOfTimes(observed, censored);
+  if (longPulses > 0) {
+    const long = (parts: Float64Array[]) => mergeSorted(parts.filter((_, g) => durations[g] >= longMin));
+    const meanObservedDelay = longResponded ? longDelaySum / longResponded : null;
+    const km = kaplanMeierOfSortedTimes(long(groupObserved), long(groupCensored));
     delayCost = {
       minDurationMinutes: longMin,
       durations: withPulses.filter((e) => e.duration >= longMin).map((e) => e.duration),
-      pulses: longRows.length,
-      responded: observed.length,
+      pulses: longPulses,
+      responded: longResponded,
       medianDelay: kmQuantile(km, 0.5),
       medianDelayCi: kmQuantileInterval(km, 0.5),
       medianDelayStatus: medianStatus(km),
@@ -299,25 +317,24 @@ export function summarizeRun(input: SummarizeRunInput): RunSummary {
   // ---- pooled response delay: only the durations that respond in most replicates
   const responsive = byDuration.filter((e) => e.passProbability !== null && e.passProbability > MOST_REPLICATES);
   const responsiveSet = new Set(responsive.map((e) => e.duration));
-  const pooledRows = rows.filter((i) => responsiveSet.has(duration[i]));
-  const delayCoverage = coverage(byDuration, responsive, pooledRows.length);
-  const pooledDelay = summarizeDelayTimesInPlace(...delayTimes(pooledRows));
+  const pooled = (parts: Float64Array[]) => mergeSorted(parts.filter((_, g) => responsiveSet.has(durations[g])));
+  const pooledObserved = pooled(groupObserved);
+  const pooledCensored = pooled(groupCensored);
+  const delayCoverage = coverage(byDuration, responsive, pooledObserved.length + pooledCensored.length);
+  const pooledDelay = summarizeSortedDelayTimes(pooledObserved, pooledCensored);
   let passedTotal = 0;
-  let nOffObserved = 0;
   let nOffCensored = 0;
   for (const i of rows) {
     if (passedAt(i)) passedTotal++;
-    if (offKind[i] === 1) nOffObserved++;
-    else if (offKind[i] === 2) nOffCensored++;
+    if (offKind[i] === 2) nOffCensored++;
   }
-  const offObserved = new Float64Array(nOffObserved);
+  // the observed OFF delays are each duration's, sorted for its median (offKind 1: passed with an OFF delay)
   const offCensored = new Float64Array(nOffCensored);
-  for (let k = 0, o = 0, c = 0; k < rows.length; k++) {
+  for (let k = 0, c = 0; k < rows.length; k++) {
     const i = rows[k];
-    if (offKind[i] === 1) offObserved[o++] = offTime[i];
-    else if (offKind[i] === 2) offCensored[c++] = offTime[i];
+    if (offKind[i] === 2) offCensored[c++] = offTime[i];
   }
-  const offDelaySummary = summarizeDelayTimesInPlace(offObserved, offCensored);
+  const offDelaySummary = summarizeSortedDelayTimes(mergeSorted(groupOffObserved), offCensored.sort());
 
   // ---- widths and pulse generation (evaluable pulses)
   const widths = mergeSorted(groupWidths);

@@ -47,8 +47,51 @@ export interface KaplanMeierResult {
   n: number;
   events: number;
   censored: number;
-  /** One step per distinct time with an event or a censoring, ascending. */
-  steps: SurvivalStep[];
+  /** One step per distinct time with an event or a censoring, ascending (objects made when first read). */
+  readonly steps: SurvivalStep[];
+  /** The same steps as columns, without an object per distinct time (a run of a million pulses has ~10^6). */
+  readonly columns: SurvivalColumns;
+}
+
+/** The steps of a curve as columns: step k is time[k], atRisk[k], ... (length: the number of steps). */
+export interface SurvivalColumns {
+  length: number;
+  time: Float64Array;
+  atRisk: Int32Array;
+  events: Int32Array;
+  censored: Int32Array;
+  survival: Float64Array;
+  standardError: Float64Array;
+  lower: Float64Array;
+  upper: Float64Array;
+  /** The indices of the steps with events, ascending. */
+  eventSteps: Int32Array;
+}
+
+class Curve implements KaplanMeierResult {
+  private stepObjects: SurvivalStep[] | undefined;
+  constructor(
+    readonly n: number,
+    readonly events: number,
+    readonly censored: number,
+    readonly columns: SurvivalColumns,
+  ) {}
+  get steps(): SurvivalStep[] {
+    if (!this.stepObjects) {
+      const c = this.columns;
+      this.stepObjects = Array.from({ length: c.length }, (_, k) => ({
+        time: c.time[k],
+        atRisk: c.atRisk[k],
+        events: c.events[k],
+        censored: c.censored[k],
+        survival: c.survival[k],
+        standardError: c.standardError[k],
+        lower: c.lower[k],
+        upper: c.upper[k],
+      }));
+    }
+    return this.stepObjects;
+  }
 }
 
 const EXACT = 1e-12;
@@ -77,12 +120,51 @@ export function kaplanMeierOfTimes(
   censorTimes: Float64Array,
   z: number = Z_95,
 ): KaplanMeierResult {
-  for (const t of eventTimes) if (!Number.isFinite(t)) throw new RangeError("kaplanMeier: times must be finite");
-  for (const t of censorTimes) if (!Number.isFinite(t)) throw new RangeError("kaplanMeier: times must be finite");
+  finiteTimes(eventTimes);
+  finiteTimes(censorTimes);
+  return walk(eventTimes.sort(), censorTimes.sort(), z);
+}
+
+function finiteTimes(times: Float64Array): Float64Array {
+  for (let i = 0; i < times.length; i++)
+    if (!Number.isFinite(times[i])) throw new RangeError("kaplanMeier: times must be finite");
+  return times;
+}
+
+/**
+ * kaplanMeierOfTimes of times already ascending in Float64Array sort order (-0 before +0; sim/stats/merge-sorted.ts
+ * keeps it), without sorting them again: a run's summary merges the per-duration samples Kaplan-Meier sorted.
+ */
+export function kaplanMeierOfSortedTimes(
+  eventTimes: Float64Array,
+  censorTimes: Float64Array,
+  z: number = Z_95,
+): KaplanMeierResult {
+  ascendingTimes(finiteTimes(eventTimes));
+  ascendingTimes(finiteTimes(censorTimes));
+  return walk(eventTimes, censorTimes, z);
+}
+
+function ascendingTimes(times: Float64Array): void {
+  for (let i = 1; i < times.length; i++)
+    if (!(times[i - 1] <= times[i])) throw new RangeError("kaplanMeierOfSortedTimes: times must be ascending");
+}
+
+/** The product-limit walk over event and censoring times, each ascending. */
+function walk(eventTimes: Float64Array, censorTimes: Float64Array, z: number): KaplanMeierResult {
   const total = eventTimes.length + censorTimes.length;
-  eventTimes.sort();
-  censorTimes.sort();
-  const steps: SurvivalStep[] = [];
+  // at most one step per observation; the columns are cut to the steps there are
+  const time = new Float64Array(total);
+  const atRiskAt = new Int32Array(total);
+  const eventsAt = new Int32Array(total);
+  const censoredAt = new Int32Array(total);
+  const survival = new Float64Array(total);
+  const standardErrorAt = new Float64Array(total);
+  const lowerAt = new Float64Array(total);
+  const upperAt = new Float64Array(total);
+  const eventSteps = new Int32Array(total);
+  let nSteps = 0;
+  let nEventSteps = 0;
   let atRisk = total;
   let s = 1;
   let greenwoodSum = 0;
@@ -107,55 +189,59 @@ export function kaplanMeierOfTimes(
     if (events > 0) {
       s *= (atRisk - events) / atRisk;
       greenwoodSum += atRisk === events ? Infinity : events / (atRisk * (atRisk - events));
+      eventSteps[nEventSteps++] = nSteps;
     }
     totalEvents += events;
     const seLog = Math.sqrt(greenwoodSum);
-    const standardError = s === 0 ? 0 : s * seLog;
-    const lower = s === 0 ? 0 : s * Math.exp(-z * seLog);
-    const upper = s === 0 ? 0 : Math.min(1, s * Math.exp(z * seLog));
-    steps.push({ time: t, atRisk, events, censored, survival: s, standardError, lower, upper });
+    time[nSteps] = t;
+    atRiskAt[nSteps] = atRisk;
+    eventsAt[nSteps] = events;
+    censoredAt[nSteps] = censored;
+    survival[nSteps] = s;
+    standardErrorAt[nSteps] = s === 0 ? 0 : s * seLog;
+    lowerAt[nSteps] = s === 0 ? 0 : s * Math.exp(-z * seLog);
+    upperAt[nSteps] = s === 0 ? 0 : Math.min(1, s * Math.exp(z * seLog));
+    nSteps++;
     atRisk -= events + censored;
   }
-  return { n: total, events: totalEvents, censored: total - totalEvents, steps };
-}
-
-/** The steps with events, found once per curve (a summary asks several quantiles of a curve of 10^5 steps). */
-const eventStepCache = new WeakMap<KaplanMeierResult, SurvivalStep[]>();
-export function eventStepsOf(km: KaplanMeierResult): SurvivalStep[] {
-  let steps = eventStepCache.get(km);
-  if (!steps) eventStepCache.set(km, (steps = km.steps.filter((st) => st.events > 0)));
-  return steps;
+  const columns: SurvivalColumns = {
+    length: nSteps,
+    time: time.subarray(0, nSteps),
+    atRisk: atRiskAt.subarray(0, nSteps),
+    events: eventsAt.subarray(0, nSteps),
+    censored: censoredAt.subarray(0, nSteps),
+    survival: survival.subarray(0, nSteps),
+    standardError: standardErrorAt.subarray(0, nSteps),
+    lower: lowerAt.subarray(0, nSteps),
+    upper: upperAt.subarray(0, nSteps),
+    eventSteps: eventSteps.subarray(0, nEventSteps),
+  };
+  return new Curve(total, totalEvents, total - totalEvents, columns);
 }
 
 /** First event time at which `curve` (S, lower or upper) is <= level (midpoint rule on exact ties); null if never. */
-function firstTimeAtOrBelow(
-  km: KaplanMeierResult,
-  pick: (s: SurvivalStep) => number,
-  level: number,
-  strict: boolean,
-): number | null {
-  const eventSteps = eventStepsOf(km);
+function firstTimeAtOrBelow(km: KaplanMeierResult, curve: Float64Array, level: number, strict: boolean): number | null {
+  const { eventSteps, time } = km.columns;
   for (let k = 0; k < eventSteps.length; k++) {
-    const v = pick(eventSteps[k]);
+    const v = curve[eventSteps[k]];
     if (Math.abs(v - level) <= EXACT) {
       if (strict) continue;
-      const next = eventSteps[k + 1];
-      return next ? (eventSteps[k].time + next.time) / 2 : eventSteps[k].time;
+      return k + 1 < eventSteps.length ? (time[eventSteps[k]] + time[eventSteps[k + 1]]) / 2 : time[eventSteps[k]];
     }
-    if (v < level) return eventSteps[k].time;
+    if (v < level) return time[eventSteps[k]];
   }
   return null;
 }
 
 /** The p-quantile of the time to event (p = 0.5: median); null when S never reaches 1 - p. */
 export function kmQuantile(km: KaplanMeierResult, p: number): number | null {
-  return firstTimeAtOrBelow(km, (st) => st.survival, 1 - p, false);
+  return firstTimeAtOrBelow(km, km.columns.survival, 1 - p, false);
 }
 
 /** Brookmeyer-Crowley style 95% interval of the p-quantile; either end null when not reached. */
 export function kmQuantileInterval(km: KaplanMeierResult, p: number): [number | null, number | null] {
   const level = 1 - p;
-  const lo = firstTimeAtOrBelow(km, (st) => st.lower, level, false);
-  const hi = firstTimeAtOrBelow(km, (st) => st.upper, level, true);
+  const lo = firstTimeAtOrBelow(km, km.columns.lower, level, false);
+  const hi = firstTimeAtOrBelow(km, km.columns.upper, level, true);
   return [lo, hi];
 }

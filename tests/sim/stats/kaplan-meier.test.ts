@@ -1,7 +1,13 @@
 import { test, describe } from "node:test";
 import assert from "node:assert/strict";
 import * as ss from "simple-statistics";
-import { kaplanMeier, kmQuantile, kmQuantileInterval } from "@/sim/stats/kaplan-meier";
+import {
+  kaplanMeier,
+  kaplanMeierOfSortedTimes,
+  kaplanMeierOfTimes,
+  kmQuantile,
+  kmQuantileInterval,
+} from "@/sim/stats/kaplan-meier";
 import { assertCloseTo } from "@/tests/helpers/close-to";
 
 /**
@@ -65,5 +71,21 @@ describe("Kaplan-Meier", () => {
     ]);
     assert.equal(kmQuantile(none, 0.5), null);
     assert.deepEqual(kmQuantileInterval(none, 0.5), [null, null]);
+  });
+
+  test("times already sorted (merged per-duration samples): the same curve as sorting them, and unsorted input refused", () => {
+    const events = Float64Array.from(SIX_MP.filter((o) => o.event).map((o) => o.time));
+    const censored = Float64Array.from(SIX_MP.filter((o) => !o.event).map((o) => o.time));
+    const sorted = kaplanMeierOfSortedTimes(events.slice().sort(), censored.slice().sort());
+    const byObjects = kaplanMeier(SIX_MP);
+    assert.deepEqual(sorted.steps, byObjects.steps);
+    assert.deepEqual(sorted.steps, kaplanMeierOfTimes(events, censored).steps);
+    // the columns hold the steps the objects show, the event steps apart
+    assert.deepEqual(
+      Array.from(sorted.columns.eventSteps, (k) => sorted.columns.time[k]),
+      byObjects.steps.filter((st) => st.events > 0).map((st) => st.time),
+    );
+    assert.throws(() => kaplanMeierOfSortedTimes(Float64Array.of(2, 1), new Float64Array(0)), /ascending/);
+    assert.throws(() => kaplanMeierOfSortedTimes(Float64Array.of(1, Infinity), new Float64Array(0)), /finite/);
   });
 });
