@@ -388,6 +388,8 @@ export const regimeMaps = sqliteTable("regime_maps", {
   computeSeconds: real("compute_seconds").notNull().default(0),
   createdBy: text("created_by"),
   createdAt: createdAt(),
+  /** Soft delete: hidden from every route but restore for the undo period, then purged. */
+  deletedAt: integer("deleted_at", { mode: "timestamp_ms" }),
 });
 
 // ---------------------------------------------------------------- traces

@@ -37,11 +37,40 @@ export function useRegimeMaps(): PagedList<RegimeMapListItem> {
   return usePagedList(q);
 }
 
-export function useRegimeMap(id: string | undefined) {
+/**
+ * One map's detail. `paused` stops fetching and keeps the data shown: after a delete the server answers 404
+ * until the map is restored, and the screen still shows the deleted map with its Undo.
+ */
+export function useRegimeMap(id: string | undefined, opts: { paused?: boolean } = {}) {
   return useQuery({
     queryKey: regimeMapKeys.detail(id ?? ""),
     queryFn: ({ signal }) => api(`/api/regime-maps/${id}`, { schema: RegimeMapDetailSchema, signal }),
-    enabled: !!id,
+    enabled: !!id && !opts.paused,
+  });
+}
+
+/** Soft delete (DELETE /api/regime-maps/:id): restorable for the undo period. The cached detail is kept for Undo. */
+export function useDeleteRegimeMap() {
+  const qc = useQueryClient();
+  return useMutation({
+    mutationFn: (id: string) => api(`/api/regime-maps/${id}`, { method: "DELETE" }),
+    onSuccess: (_d, id) => {
+      void qc.cancelQueries({ queryKey: regimeMapKeys.detail(id) });
+      qc.invalidateQueries({ queryKey: regimeMapKeys.lists() });
+    },
+  });
+}
+
+/** Undoes a delete (POST /api/regime-maps/:id/restore), answering the map's detail. */
+export function useRestoreRegimeMap() {
+  const qc = useQueryClient();
+  return useMutation({
+    mutationFn: (id: string) =>
+      api(`/api/regime-maps/${id}/restore`, { method: "POST", schema: RegimeMapDetailSchema }),
+    onSuccess: (d) => {
+      qc.setQueryData(regimeMapKeys.detail(d.id), d);
+      qc.invalidateQueries({ queryKey: regimeMapKeys.lists() });
+    },
   });
 }
 

@@ -2,7 +2,7 @@
 import { useInfiniteQuery, useMutation, useQueries, useQuery, useQueryClient } from "@tanstack/react-query";
 import { api } from "./api";
 import { useLabId } from "./current-lab";
-import { usePagedList, type PagedList } from "./runs";
+import { runKeys, usePagedList, type PagedList } from "./runs";
 import {
   SweepDetailSchema,
   SweepListItemSchema,
@@ -60,11 +60,15 @@ export function useSweepNames(ids: readonly string[]): Map<string, string> {
   return names;
 }
 
-export function useSweep(id: string | undefined) {
+/**
+ * One sweep's detail, polled while it computes. `paused` stops fetching and keeps the data shown: after a
+ * delete the server answers 404 until the sweep is restored, and the screen still shows it with its Undo.
+ */
+export function useSweep(id: string | undefined, opts: { paused?: boolean } = {}) {
   return useQuery({
     queryKey: sweepKeys.detail(id ?? ""),
     queryFn: ({ signal }) => api(`/api/sweeps/${id}`, { schema: SweepDetailSchema, signal }),
-    enabled: !!id,
+    enabled: !!id && !opts.paused,
     refetchInterval: (q) => (q.state.data && active(q.state.data.status) ? 3000 : false),
   });
 }
@@ -86,5 +90,31 @@ export function useCancelSweep() {
   return useMutation({
     mutationFn: (id: string) => api(`/api/sweeps/${id}/cancel`, { method: "POST" }),
     onSuccess: (_d, id) => qc.invalidateQueries({ queryKey: sweepKeys.detail(id) }),
+  });
+}
+
+/** Soft delete (DELETE /api/sweeps/:id, its point runs with it): restorable for the undo period. */
+export function useDeleteSweep() {
+  const qc = useQueryClient();
+  return useMutation({
+    mutationFn: (id: string) => api(`/api/sweeps/${id}`, { method: "DELETE" }),
+    onSuccess: (_d, id) => {
+      void qc.cancelQueries({ queryKey: sweepKeys.detail(id) });
+      qc.invalidateQueries({ queryKey: sweepKeys.lists() });
+      qc.invalidateQueries({ queryKey: runKeys.lists() });
+    },
+  });
+}
+
+/** Undoes a delete (POST /api/sweeps/:id/restore), answering the sweep's detail. */
+export function useRestoreSweep() {
+  const qc = useQueryClient();
+  return useMutation({
+    mutationFn: (id: string) => api(`/api/sweeps/${id}/restore`, { method: "POST", schema: SweepDetailSchema }),
+    onSuccess: (d) => {
+      qc.setQueryData(sweepKeys.detail(d.id), d);
+      qc.invalidateQueries({ queryKey: sweepKeys.lists() });
+      qc.invalidateQueries({ queryKey: runKeys.lists() });
+    },
   });
 }

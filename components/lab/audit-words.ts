@@ -51,6 +51,12 @@ export function describeAuditEvent(e: AuditEvent, names: AuditNames = {}): strin
       return `${who} deleted a sweep`;
     case "sweep.restored":
       return `${who} restored a sweep`;
+    case "regime-map.computed":
+      return `${who} computed ${named("regime map")}`;
+    case "regime-map.deleted":
+      return `${who} deleted a regime map`;
+    case "regime-map.restored":
+      return `${who} restored a regime map`;
     case "lab.created":
       return `${who} created the lab${str(d.name) ? ` ${q(str(d.name)!)}` : ""}`;
     case "lab.renamed":

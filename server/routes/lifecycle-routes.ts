@@ -13,18 +13,18 @@ import { API_LIMITS } from "@/shared/limits";
 import { recordAudit } from "@/server/services/audit.service";
 import type { RouteDef } from "./route-table";
 
-type Resource = "run" | "sweep" | "traceSet";
+type Resource = "run" | "sweep" | "traceSet" | "regimeMap";
 
 export interface DeleteRestoreSpec {
   resource: Resource;
   /** The object's path under /api, e.g. "/runs/:id". */
   path: `/${string}/:id`;
-  /** How the docs name it: "run", "sweep", "trace set". */
+  /** How the docs name it: "run", "sweep", "trace set", "regime map". */
   noun: string;
   /** What is hidden with it, for the docs (e.g. "and hide its points"). */
   alsoHides?: string;
   /** The audit trail's prefix ("run" records run.deleted and run.restored); leave out when the service audits. */
-  audit?: "run" | "sweep";
+  audit?: "run" | "sweep" | "regime-map";
   remove: (ctx: AppContext, id: string, userId: string) => void;
   restore: (ctx: AppContext, id: string, userId: string) => unknown;
 }

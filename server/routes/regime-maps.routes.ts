@@ -6,6 +6,7 @@ import { API_LIMITS } from "@/shared/schemas/api-runs";
 import * as maps from "@/server/services/regime-maps.service";
 import * as sweeps from "@/server/services/sweeps.service";
 import { recordAudit } from "@/server/services/audit.service";
+import { deleteRestoreRoutes } from "./lifecycle-routes";
 
 export const regimeMapRoutes = defineRoutes([
   {
@@ -43,6 +44,17 @@ export const regimeMapRoutes = defineRoutes([
     summary: "Regime map detail: axes, grid and refined points with their mean-field labels and evidence.",
     handler: ({ ctx, params }) => maps.regimeMapDetail(ctx, params.id),
   },
+  ...deleteRestoreRoutes({
+    resource: "regimeMap",
+    path: "/regime-maps/:id",
+    noun: "regime map",
+    audit: "regime-map",
+    remove: (ctx, id) => maps.deleteRegimeMap(ctx, id),
+    restore: (ctx, id) => {
+      maps.restoreRegimeMap(ctx, id);
+      return maps.regimeMapDetail(ctx, id);
+    },
+  }),
   {
     method: "post",
     path: "/regime-maps/:id/refine",

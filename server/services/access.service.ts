@@ -26,7 +26,7 @@ export function labRoleOf(ctx: AppContext, userId: string, labId: string): LabRo
 
 /**
  * The lab that owns an object, or null when there is no such object. A soft-deleted object (run, sweep,
- * trace set) counts as absent, so every route answers 404 for it, unless `includeDeleted` is set: only
+ * trace set, regime map) counts as absent, so every route answers 404 for it, unless `includeDeleted` is set: only
  * the delete and restore routes set it (undo until purged; a second delete answers 409).
  */
 export function resourceLab(
@@ -78,7 +78,11 @@ export function resourceLab(
       row = ctx.db.select({ labId: s.matches.labId }).from(s.matches).where(eq(s.matches.id, id)).get();
       break;
     case "regimeMap":
-      row = ctx.db.select({ labId: s.regimeMaps.labId }).from(s.regimeMaps).where(eq(s.regimeMaps.id, id)).get();
+      row = ctx.db
+        .select({ labId: s.regimeMaps.labId })
+        .from(s.regimeMaps)
+        .where(and(eq(s.regimeMaps.id, id), live ? isNull(s.regimeMaps.deletedAt) : undefined))
+        .get();
       break;
     case "lab":
       row = ctx.db.select({ labId: s.labs.id }).from(s.labs).where(eq(s.labs.id, id)).get();

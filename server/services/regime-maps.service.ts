@@ -6,7 +6,7 @@
  * past it), stored in `regime_maps`; boundary refinement of maps; design
  * targets evaluated on sweeps and maps.
  */
-import { and, eq } from "drizzle-orm";
+import { and, eq, isNull } from "drizzle-orm";
 import type { AppContext } from "@/server/context";
 import { schema } from "@/db/client";
 import { API_LIMITS, type LaunchSweep } from "@/shared/schemas/api-runs";
@@ -23,6 +23,7 @@ import type { RegimeVerdictView } from "@/shared/schemas/regime";
 import { REGIME_MAP_POINTS_PER_TASK } from "@/server/compute/compute-service";
 import { conflict, notFound } from "@/server/http-error";
 import { newId } from "@/server/ids";
+import { assertRestorable } from "./undo";
 import { refinementPoints, refinementSeed } from "@/sim/regimes/refine-map";
 import {
   fractionMeeting,
@@ -102,7 +103,7 @@ export function listRegimeMaps(ctx: AppContext, labId: string, q: PageQuery = {}
   const rows = ctx.db
     .select()
     .from(t)
-    .where(and(eq(t.labId, labId), mapOrder.after(q.cursor)))
+    .where(and(eq(t.labId, labId), isNull(t.deletedAt), mapOrder.after(q.cursor)))
     .orderBy(...mapOrder.orderBy)
     .limit(pageLimit(q) + 1)
     .all();
@@ -124,6 +125,20 @@ export function listRegimeMaps(ctx: AppContext, labId: string, q: PageQuery = {}
         };
       }),
   );
+}
+
+/** Soft delete: the map disappears from its lab's list and every route but restore, and is purged after the undo period. */
+export function deleteRegimeMap(ctx: AppContext, id: string): void {
+  const row = mapRow(ctx, id);
+  if (row.deletedAt) throw conflict("That regime map is already deleted.", "already_deleted");
+  ctx.db.update(schema.regimeMaps).set({ deletedAt: new Date() }).where(eq(schema.regimeMaps.id, id)).run();
+}
+
+/** Undoes a delete (until the purge); 409 when the map is not deleted or the undo period has passed. */
+export function restoreRegimeMap(ctx: AppContext, id: string): void {
+  const row = mapRow(ctx, id);
+  assertRestorable("regime map", row.deletedAt);
+  ctx.db.update(schema.regimeMaps).set({ deletedAt: null }).where(eq(schema.regimeMaps.id, id)).run();
 }
 
 /**

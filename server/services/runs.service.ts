@@ -805,7 +805,7 @@ export function restore(ctx: AppContext, id: string) {
   ctx.db.update(schema.runs).set({ deletedAt: null }).where(eq(schema.runs.id, id)).run();
 }
 
-/** Remove runs, sweeps and trace sets deleted longer ago than the undo period. */
+/** Remove runs, sweeps, regime maps and trace sets deleted longer ago than the undo period. */
 export function purgeDeleted(ctx: AppContext, now = Date.now()) {
   const cutoff = new Date(now - API_LIMITS.undoDays * 86400_000);
   ctx.db
@@ -815,6 +815,10 @@ export function purgeDeleted(ctx: AppContext, now = Date.now()) {
   ctx.db
     .delete(schema.sweeps)
     .where(and(isNotNull(schema.sweeps.deletedAt), lt(schema.sweeps.deletedAt, cutoff)))
+    .run();
+  ctx.db
+    .delete(schema.regimeMaps)
+    .where(and(isNotNull(schema.regimeMaps.deletedAt), lt(schema.regimeMaps.deletedAt, cutoff)))
     .run();
   purgeDeletedTraceSets(ctx, now);
 }

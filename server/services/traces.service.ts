@@ -320,7 +320,7 @@ function getRow(ctx: AppContext, id: string): TraceSetRow {
     .from(schema.traceSets)
     .where(and(eq(schema.traceSets.id, id), isNull(schema.traceSets.deletedAt)))
     .get();
-  if (!row) throw notFound("That traceSet");
+  if (!row) throw notFound("That trace set");
   return row;
 }
 

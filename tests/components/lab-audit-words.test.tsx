@@ -35,6 +35,19 @@ describe("audit trail in plain words", () => {
     );
   });
 
+  test("regime maps: computed (name from the event), deleted and restored", () => {
+    const map = { targetType: "regime-map", targetId: "rmp_1" };
+    expect(
+      describeAuditEvent(event({ ...map, action: "regime-map.computed", detail: { name: "Feed rate x hold" } }), names),
+    ).toBe("Demo editor computed regime map “Feed rate x hold”");
+    expect(describeAuditEvent(event({ ...map, action: "regime-map.deleted" }), names)).toBe(
+      "Demo editor deleted a regime map",
+    );
+    expect(describeAuditEvent(event({ ...map, action: "regime-map.restored" }), names)).toBe(
+      "Demo editor restored a regime map",
+    );
+  });
+
   test("members: invited, role changed, removed, left; a deleted account reads as a former member", () => {
     const owner = { userId: "u-owner", userName: "Demo owner" };
     expect(

@@ -10,7 +10,7 @@
  * (pass probability at least 50% at 60 min) and sees the region that meets it
  * ringed on the map, as many points as the target API counts, and opens a
  * mean-field-only map of the same grid, refines its boundaries and sees the
- * refined points drawn on the edges (axe-core on both).
+ * refined points drawn on the edges (axe-core on both), deletes it and undoes the delete.
  * Screenshots: test-results/screenshots/regime-map-*.
  */
 import { after, before, describe, test } from "node:test";
@@ -206,6 +206,13 @@ for (const vp of [PHONE, WIDE] as Viewport[]) {
         }
         await assertAccessible(page, "mean-field map, refined");
         await screenshot(page, `regime-map-${vp.name}-03-mean-field-map`);
+        // delete with undo: the map stays on screen with its Undo while the server answers 404, then comes back
+        await page.getByTestId("delete-map").click();
+        await page.getByTestId("map-deleted").waitFor();
+        assert.equal((await page.request.get(api(`/regime-maps/${mapId}`))).status(), 404);
+        await page.getByTestId("undo-delete").click();
+        await page.getByTestId("delete-map").waitFor();
+        assert.equal((await page.request.get(api(`/regime-maps/${mapId}`))).status(), 200);
         assert.deepEqual(errors, []);
       } finally {
         await b.close();

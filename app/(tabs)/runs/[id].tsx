@@ -8,7 +8,8 @@ import { Button } from "@/components/ui/button";
 import { ProgressBar } from "@/components/ui/progress-bar";
 import { StatusBadge } from "@/components/ui/status-badge";
 import { SafetyNote } from "@/components/ui/safety-note";
-import { Banner, ErrorState, LoadingState } from "@/components/ui/states";
+import { DeletedBanner } from "@/components/ui/deleted-banner";
+import { ErrorState, LoadingState } from "@/components/ui/states";
 import { HeadlineCards } from "@/components/runs/headline-cards";
 import { ReproductionCard } from "@/components/runs/reproduction-card";
 import { AccelerationCard } from "@/components/runs/acceleration-card";
@@ -157,18 +158,7 @@ export default function RunDetailScreen() {
       }
     >
       {run.deletedAt ? (
-        <Banner tone="notice">
-          <View style={{ gap: t.spacing.sm }}>
-            <Text style={{ color: t.colors.onNoticeSoft }}>This run is deleted and will be purged after 7 days.</Text>
-            <Button
-              label="Undo delete"
-              variant="secondary"
-              onPress={() => restore.mutate(run.id)}
-              busy={restore.isPending}
-              style={{ alignSelf: "flex-start" }}
-            />
-          </View>
-        </Banner>
+        <DeletedBanner what="run" busy={restore.isPending} onUndo={() => restore.mutate(run.id)} />
       ) : null}
       <Card testID="run-status">
         <View

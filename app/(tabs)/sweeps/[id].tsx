@@ -15,7 +15,9 @@ import { LazyChart } from "@/components/charts/lazy-chart";
 import type { ChartSpec } from "@/components/charts/chart-spec";
 import { formatSweepFigure, sweepLineSpec } from "@/components/charts/specs";
 import { formatNumber } from "@/shared/number-format";
-import { useCancelSweep, useSweep, type SweepDetail } from "@/components/data/sweeps";
+import { useCancelSweep, useDeleteSweep, useRestoreSweep, useSweep, type SweepDetail } from "@/components/data/sweeps";
+import { useCurrentLab } from "@/components/data/current-lab";
+import { DeletedBanner } from "@/components/ui/deleted-banner";
 import { useTheme } from "@/components/theme/use-theme";
 import { DefinitionLink } from "@/components/definitions/definition-link";
 import { MIN_TOUCH } from "@/components/theme/tokens";
@@ -52,8 +54,13 @@ function figureOf(p: SweepDetail["points"][number], f: Figure): number | null {
 export default function SweepDetailScreen() {
   const t = useTheme();
   const { id } = useLocalSearchParams<{ id: string }>();
-  const q = useSweep(id);
+  // Deleted on the server (restorable for the undo period): the sweep stays on screen with Undo; it answers 404 meanwhile.
+  const [deleted, setDeleted] = useState(false);
+  const q = useSweep(id, { paused: deleted });
   const cancel = useCancelSweep();
+  const del = useDeleteSweep();
+  const restore = useRestoreSweep();
+  const { canEdit } = useCurrentLab();
   const [figure, setFigure] = useState<Figure>("d50");
   const [target, setTarget] = useState<TargetAnswer | null>(null);
   const refine = useRefineSweep();
@@ -93,7 +100,7 @@ export default function SweepDetailScreen() {
       back={{ href: "/sweeps", label: "Sweeps" }}
       title={s.name}
       actions={
-        active ? (
+        active && canEdit && !deleted ? (
           <Button label="Cancel sweep" variant="danger" onPress={() => cancel.mutate(s.id)} busy={cancel.isPending} />
         ) : null
       }
@@ -106,28 +113,41 @@ export default function SweepDetailScreen() {
         </Text>
       </Card>
       <SafetyNote />
+      {deleted ? (
+        <DeletedBanner
+          what="sweep"
+          busy={restore.isPending}
+          onUndo={() => restore.mutate(s.id, { onSuccess: () => setDeleted(false) })}
+          back={{ label: "Back to sweeps", href: "/sweeps" }}
+          testID="sweep-deleted"
+        />
+      ) : null}
+      {del.error ? <ErrorState title="The sweep could not be deleted" error={del.error} /> : null}
+      {restore.error ? <ErrorState title="The sweep could not be restored" error={restore.error} /> : null}
       <Card>
         <RegimeMaps
           sweep={s}
           wide={bp.isWide}
           meets={target ? new Map(target.points.map((p) => [p.index, p.meets])) : undefined}
         />
-        <View style={{ gap: t.spacing.xs }}>
-          <Button
-            label="Refine boundaries"
-            variant="secondary"
-            icon="grid"
-            onPress={() => refine.mutate(s.id)}
-            busy={refine.isPending}
-            testID="refine-sweep"
-          />
-          <Text variant="caption" tone="muted">
-            Adds a point half-way between neighbours whose labels differ, each seeded by its own coordinates (at most{" "}
-            {API_LIMITS.maxRefinementPoints} in all; {s.points.filter((p) => p.refined).length} so far).
-          </Text>
-          <DefinitionLink term="boundary-refinement" label="Boundary refinement" />
-          {refine.error instanceof ApiError ? <Banner tone="notice">{refine.error.message}</Banner> : null}
-        </View>
+        {canEdit && !deleted ? (
+          <View style={{ gap: t.spacing.xs }}>
+            <Button
+              label="Refine boundaries"
+              variant="secondary"
+              icon="grid"
+              onPress={() => refine.mutate(s.id)}
+              busy={refine.isPending}
+              testID="refine-sweep"
+            />
+            <Text variant="caption" tone="muted">
+              Adds a point half-way between neighbours whose labels differ, each seeded by its own coordinates (at most{" "}
+              {API_LIMITS.maxRefinementPoints} in all; {s.points.filter((p) => p.refined).length} so far).
+            </Text>
+            <DefinitionLink term="boundary-refinement" label="Boundary refinement" />
+            {refine.error instanceof ApiError ? <Banner tone="notice">{refine.error.message}</Banner> : null}
+          </View>
+        ) : null}
       </Card>
       <Card>
         <TargetPanel kind="sweeps" id={s.id} pulses onAnswer={setTarget} />
@@ -224,6 +244,23 @@ export default function SweepDetailScreen() {
           </Card>
         ))}
       </Card>
+      {canEdit && !deleted ? (
+        <Card>
+          <Button
+            label="Delete sweep"
+            variant="secondary"
+            icon="trash-2"
+            busy={del.isPending}
+            onPress={() => del.mutate(s.id, { onSuccess: () => setDeleted(true) })}
+            style={{ alignSelf: "flex-start" }}
+            testID="delete-sweep"
+          />
+          <Text variant="caption" tone="muted">
+            Its {s.pointCount} point runs go with it{active ? " (the ones computing are cancelled)" : ""}. It can be
+            restored for {API_LIMITS.undoDays} days, then it is purged.
+          </Text>
+        </Card>
+      ) : null}
     </Screen>
   );
 }

@@ -1,11 +1,12 @@
 import React, { useState } from "react";
 import { Linking, View } from "react-native";
-import { useLocalSearchParams, useRouter } from "expo-router";
+import { useLocalSearchParams } from "expo-router";
 import { Screen } from "@/components/ui/screen";
 import { Card } from "@/components/ui/card";
 import { Text } from "@/components/ui/text";
 import { Button } from "@/components/ui/button";
 import { SafetyNote } from "@/components/ui/safety-note";
+import { DeletedBanner } from "@/components/ui/deleted-banner";
 import { Banner, ErrorState, LoadingState } from "@/components/ui/states";
 import { HeadlineCards } from "@/components/runs/headline-cards";
 import { LazyChart } from "@/components/charts/lazy-chart";
@@ -26,11 +27,9 @@ import {
 import { useCurrentLab } from "@/components/data/current-lab";
 import { useTheme } from "@/components/theme/use-theme";
 import { DefinitionLink } from "@/components/definitions/definition-link";
-import { API_LIMITS } from "@/shared/schemas/api-runs";
 
 export default function TraceSetScreen() {
   const t = useTheme();
-  const router = useRouter();
   const { id } = useLocalSearchParams<{ id: string }>();
   const { canEdit } = useCurrentLab();
   // Deleted on the server (restorable for the undo period): the set stays on screen with Undo; it answers 404 meanwhile.
@@ -130,29 +129,13 @@ export default function TraceSetScreen() {
 
       {/* In place of the settings card, where the Delete button was: in view after the press. */}
       {deleted ? (
-        <Banner tone="notice" testID="trace-deleted">
-          <View style={{ gap: t.spacing.sm }}>
-            <Text style={{ color: t.colors.onNoticeSoft }}>
-              This trace set is deleted and will be purged after {API_LIMITS.undoDays} days.
-            </Text>
-            <View style={{ flexDirection: "row", flexWrap: "wrap", gap: t.spacing.sm }}>
-              <Button
-                label="Undo delete"
-                variant="secondary"
-                busy={restore.isPending}
-                onPress={() => restore.mutate(s.id, { onSuccess: () => setDeleted(false) })}
-                testID="undo-delete"
-              />
-              <Button
-                label="Back to trace sets"
-                variant="secondary"
-                icon="arrow-left"
-                onPress={() => router.replace("/traces")}
-                testID="deleted-back"
-              />
-            </View>
-          </View>
-        </Banner>
+        <DeletedBanner
+          what="trace set"
+          busy={restore.isPending}
+          onUndo={() => restore.mutate(s.id, { onSuccess: () => setDeleted(false) })}
+          back={{ label: "Back to trace sets", href: "/traces" }}
+          testID="trace-deleted"
+        />
       ) : null}
       {del.error ? <ErrorState title="The trace set could not be deleted" error={del.error} /> : null}
       {restore.error ? <ErrorState title="The trace set could not be restored" error={restore.error} /> : null}

@@ -11,12 +11,19 @@ import { DefinitionLink } from "@/components/definitions/definition-link";
 import { RegimeLegend, RegimeMap } from "@/components/sweeps/regime-map";
 import { regimeMapLayout, type MapSource } from "@/components/sweeps/regime-map-layout";
 import { TargetPanel } from "@/components/regimes/target-panel";
-import { useRefineRegimeMap, useRegimeMap } from "@/components/data/regime-maps";
+import {
+  useDeleteRegimeMap,
+  useRefineRegimeMap,
+  useRegimeMap,
+  useRestoreRegimeMap,
+} from "@/components/data/regime-maps";
+import { DeletedBanner } from "@/components/ui/deleted-banner";
 import { ApiError } from "@/components/data/api";
 import { useCurrentLab } from "@/components/data/current-lab";
 import { useTheme } from "@/components/theme/use-theme";
 import { formatNumber, formatQuantity } from "@/shared/number-format";
 import type { RegimeMapDetail, TargetAnswer } from "@/shared/schemas/api-regime-maps";
+import { API_LIMITS } from "@/shared/schemas/api-runs";
 
 const toSource = (m: RegimeMapDetail): MapSource => ({
   axes: m.axes,
@@ -32,8 +39,12 @@ const toSource = (m: RegimeMapDetail): MapSource => ({
 export default function RegimeMapScreen() {
   const t = useTheme();
   const { id } = useLocalSearchParams<{ id: string }>();
-  const q = useRegimeMap(id);
+  // Deleted on the server (restorable for the undo period): the map stays on screen with Undo; it answers 404 meanwhile.
+  const [deleted, setDeleted] = useState(false);
+  const q = useRegimeMap(id, { paused: deleted });
   const refine = useRefineRegimeMap();
+  const del = useDeleteRegimeMap();
+  const restore = useRestoreRegimeMap();
   const { canEdit } = useCurrentLab();
   const [target, setTarget] = useState<TargetAnswer | null>(null);
   if (q.isPending)
@@ -66,6 +77,17 @@ export default function RegimeMapScreen() {
         <DefinitionLink term="regime-map" label="Regime map" />
       </Card>
       <SafetyNote />
+      {deleted ? (
+        <DeletedBanner
+          what="regime map"
+          busy={restore.isPending}
+          onUndo={() => restore.mutate(m.id, { onSuccess: () => setDeleted(false) })}
+          back={{ label: "Back to sweeps", href: "/sweeps" }}
+          testID="map-deleted"
+        />
+      ) : null}
+      {del.error ? <ErrorState title="The regime map could not be deleted" error={del.error} /> : null}
+      {restore.error ? <ErrorState title="The regime map could not be restored" error={restore.error} /> : null}
       <Card>
         <View testID="regime-maps" style={{ gap: t.spacing.md }}>
           <RegimeLegend labels={layout.labels} />
@@ -75,7 +97,7 @@ export default function RegimeMapScreen() {
             meets={target ? new Map(target.points.map((p) => [p.index, p.meets])) : undefined}
           />
         </View>
-        {canEdit ? (
+        {canEdit && !deleted ? (
           <View style={{ gap: t.spacing.xs }}>
             <Button
               label="Refine boundaries"
@@ -94,9 +116,11 @@ export default function RegimeMapScreen() {
           </View>
         ) : null}
       </Card>
-      <Card>
-        <TargetPanel kind="regime-maps" id={m.id} pulses={false} onAnswer={setTarget} />
-      </Card>
+      {!deleted ? (
+        <Card>
+          <TargetPanel kind="regime-maps" id={m.id} pulses={false} onAnswer={setTarget} />
+        </Card>
+      ) : null}
       <Card>
         <Text variant="heading">Points</Text>
         {m.points.map((p) => (
@@ -119,6 +143,22 @@ export default function RegimeMapScreen() {
           </View>
         ))}
       </Card>
+      {canEdit && !deleted ? (
+        <Card>
+          <Button
+            label="Delete map"
+            variant="secondary"
+            icon="trash-2"
+            busy={del.isPending}
+            onPress={() => del.mutate(m.id, { onSuccess: () => setDeleted(true) })}
+            style={{ alignSelf: "flex-start" }}
+            testID="delete-map"
+          />
+          <Text variant="caption" tone="muted">
+            It can be restored for {API_LIMITS.undoDays} days, then it is purged.
+          </Text>
+        </Card>
+      ) : null}
     </Screen>
   );
 }

@@ -1,0 +1,1 @@
+ALTER TABLE `regime_maps` ADD `deleted_at` integer;
