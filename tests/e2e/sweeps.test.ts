@@ -6,8 +6,8 @@
  * it, see the chart of a figure over the swept parameter (drawn by the lazy
  * chart engine), switch the figure, open one point's run (its title names the
  * point and its headline cards show), then launch a small sweep (one
- * parameter, 3 values, 40 replicates) from the launch screen and see it reach
- * "Finished". axe-core runs on each sweep screen (no serious or critical
+ * parameter, 3 values, 40 replicates) from the launch screen, see it reach
+ * "Finished", delete it and undo the delete. axe-core runs on each sweep screen (no serious or critical
  * violation), as do the 44 px touch-target and label checks. Screenshots go to
  * test-results/screenshots/ (sweeps-*).
  */
@@ -210,7 +210,7 @@ for (const vp of [PHONE, WIDE] as Viewport[]) {
         // With the default threshold a figure may be missing at every point: the screen then says so instead of a blank.
         const sweepId = new URL(page.url()).pathname.split("/").pop()!;
         const detail = (await (await page.request.get(`${server.url}/api/sweeps/${sweepId}`)).json()) as {
-          points: { figures: { d50: number | null } | null }[];
+          points: { runId: string; figures: { d50: number | null } | null }[];
         };
         assert.equal(detail.points.length, 3);
         if (detail.points.every((p) => p.figures?.d50 === null)) {
@@ -243,6 +243,15 @@ for (const vp of [PHONE, WIDE] as Viewport[]) {
         await page.waitForTimeout(500);
         await assertAccessible(page, "new sweep detail");
         await screenshot(page, `sweeps-${tag}-07-new-finished`);
+        // delete with undo: the sweep and its point runs answer 404 until Undo brings them back
+        const pointRun = detail.points[0].runId;
+        await page.getByTestId("delete-sweep").click();
+        await page.getByTestId("sweep-deleted").waitFor();
+        assert.equal((await page.request.get(`${server.url}/api/sweeps/${sweepId}`)).status(), 404);
+        assert.equal((await page.request.get(`${server.url}/api/runs/${pointRun}`)).status(), 404);
+        await page.getByTestId("undo-delete").click();
+        await page.getByTestId("delete-sweep").waitFor();
+        assert.equal((await page.request.get(`${server.url}/api/runs/${pointRun}`)).status(), 200);
         assert.deepEqual(errors, [], "no uncaught page errors");
       } catch (e) {
         await screenshot(page, `sweeps-${tag}-failure`).catch(() => {});
