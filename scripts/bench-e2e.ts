@@ -8,11 +8,15 @@
  *
  * seconds: the server's own startedAt -> finishedAt of the run (queue, pool,
  *   storage and finalisation), after a warm-up run of 100 replicates per thread
- *   through the same server (its threads loaded and warm, as the engine-alone
- *   pool is; databaseMb includes that run's rows).
+ *   of the same circuit with another seed through the same server (its threads
+ *   loaded and their kernel for the circuit optimised, as the engine-alone
+ *   pool's are; the run itself starts from nothing it could reuse: its own
+ *   threshold, ODE overlay and behaviour labels are computed afresh;
+ *   databaseMb includes the warm-up run's rows).
  * engineSeconds: the same replicates through the same engine call on a pool of
- *   the same size, without queue, database or HTTP (runEngineBench), measured
- *   after the server run or, with engineFirst, before it.
+ *   the same size, warmed with the same 100 replicates per thread, without
+ *   queue, database or HTTP (runEngineBench), measured after the server run
+ *   or, with engineFirst, before it.
  * overheadRatio: seconds / engineSeconds (target: at most 1.10).
  * Default pool: every core, the server's default.
  */
@@ -105,9 +109,9 @@ export async function runEndToEndBench(
 ): Promise<EndToEndResult> {
   const replicates = opts.replicates ?? 10_000;
   const threads = opts.threads ?? Math.max(1, os.availableParallelism());
-  // The engine alone on a pool of the same size, warmed as little as the server's (spec compiled, no throwaway
-  // replicates), so the ratio compares like with like; never while the server runs.
-  const engineAlone = async () => (await runEngineBench({ threads: [threads], replicates, warmUpReplicates: 0 }))[0];
+  // The engine alone on a pool of the same size, warmed as the server's threads are by its warm-up run (100
+  // replicates per thread of the same circuit), so the ratio compares like with like; never while the server runs.
+  const engineAlone = async () => (await runEngineBench({ threads: [threads], replicates, warmUpReplicates: 100 }))[0];
   const first = opts.engineFirst ? await engineAlone() : null;
   const measured = await throughServer(replicates, threads, opts.warmUpRun ?? true);
   const engine = first ?? (await engineAlone());
@@ -179,7 +183,9 @@ export async function throughServer(replicates: number, threads: number, warmUpR
     if (warmUpRun) {
       // A server that has been up a while: its threads have loaded their code (tsx compiles it in each thread,
       // seconds of CPU after the server listens) and run a chunk, as the engine-alone pool has before timing.
-      const warm = await waitForEnd(await launchRun("warm-up", { ...spec, replicates: 100 * threads }));
+      const warm = await waitForEnd(
+        await launchRun("warm-up", { ...spec, seed: `${spec.seed}.warm-up`, replicates: 100 * threads }),
+      );
       if (warm.status !== "finished") throw new Error(`warm-up run ended ${warm.status}: ${warm.statusReason}`);
     }
     const cpu0 = processCpuSeconds(server.child.pid);

@@ -338,3 +338,35 @@ describe("PulseTracker.pushPath", () => {
         assert.deepEqual(b.finish(path[path.length - 2] + 1), want);
       });
 });
+
+describe("one compiled kernel per source (generate-kernel.ts)", () => {
+  const withRates = (makeX: number, hill: number, over: Partial<RunSpecInput> = {}): RunSpec => {
+    const circuit = structuredClone(benchmark.circuit) as any;
+    circuit.reactions[0].rate.ratePerMinute = makeX;
+    circuit.reactions[2].rate.regulators[0].hill = hill;
+    return spec({ circuit, replicates: 40, ...over });
+  };
+  const kernelOf = (s: RunSpec) => {
+    const setup = runSetup(s);
+    return generateKernel(setup.model, { inputSignal: setup.inputSignal, variedSlots: new Set() });
+  };
+
+  test("the same circuit with other rates, seed or replicates shares one function; another Hill exponent does not", () => {
+    const a = withRates(10, 2);
+    const b = withRates(7, 2, { seed: "other-seed", replicates: 25 });
+    const c = withRates(10, 3);
+    assert.equal(kernelOf(a), kernelOf(b));
+    assert.notEqual(kernelOf(a), kernelOf(c), "an integer Hill exponent is written into the source");
+  });
+
+  test("a shared kernel gives each run its own results (against the reference kernel, compiled apart)", () => {
+    const a = withRates(10, 2);
+    const b = withRates(7, 2, { seed: "other-seed" });
+    simulateChunk(a, 0, 20); // runs (and lets V8 optimise) the shared kernel with a's parameters first
+    const fast = simulateChunk(b, 0, 20);
+    const reference = simulateChunk(b, 0, 20, { kernel: "reference" });
+    assert.ok(fast.events > 0 && fast.pulses.length > 0);
+    assert.deepEqual(fast, reference);
+    assert.notDeepEqual(fast.gridSum, simulateChunk(a, 0, 20).gridSum, "the two rate sets give different runs");
+  });
+});
