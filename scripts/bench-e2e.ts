@@ -24,7 +24,7 @@ import os from "node:os";
 import { execFileSync } from "node:child_process";
 import { existsSync, readFileSync, statSync } from "node:fs";
 import { loadSpecFile } from "@/server/cli/load-spec";
-import { DEFAULT_BENCH_SPEC, runEngineBench } from "./bench-engine";
+import { DEFAULT_BENCH_SPEC, runEngineBench, WARM_UP_REPLICATES_PER_THREAD } from "./bench-engine";
 import { startServerProcess } from "@/scripts/lib/spawn-server";
 
 export interface EndToEndResult {
@@ -111,7 +111,8 @@ export async function runEndToEndBench(
   const threads = opts.threads ?? Math.max(1, os.availableParallelism());
   // The engine alone on a pool of the same size, warmed as the server's threads are by its warm-up run (100
   // replicates per thread of the same circuit), so the ratio compares like with like; never while the server runs.
-  const engineAlone = async () => (await runEngineBench({ threads: [threads], replicates, warmUpReplicates: 100 }))[0];
+  const engineAlone = async () =>
+    (await runEngineBench({ threads: [threads], replicates, warmUpReplicates: WARM_UP_REPLICATES_PER_THREAD }))[0];
   const first = opts.engineFirst ? await engineAlone() : null;
   const measured = await throughServer(replicates, threads, opts.warmUpRun ?? true);
   const engine = first ?? (await engineAlone());
@@ -184,7 +185,11 @@ export async function throughServer(replicates: number, threads: number, warmUpR
       // A server that has been up a while: its threads have loaded their code (tsx compiles it in each thread,
       // seconds of CPU after the server listens) and run a chunk, as the engine-alone pool has before timing.
       const warm = await waitForEnd(
-        await launchRun("warm-up", { ...spec, seed: `${spec.seed}.warm-up`, replicates: 100 * threads }),
+        await launchRun("warm-up", {
+          ...spec,
+          seed: `${spec.seed}.warm-up`,
+          replicates: WARM_UP_REPLICATES_PER_THREAD * threads,
+        }),
       );
       if (warm.status !== "finished") throw new Error(`warm-up run ended ${warm.status}: ${warm.statusReason}`);
     }

@@ -36,6 +36,12 @@ export interface EngineBenchOptions {
   onResult?: (r: EngineBenchResult) => void;
 }
 
+/**
+ * Throwaway replicates per thread before a measured speed figure: enough for V8 to have optimised the
+ * circuit's kernel and the per-replicate code around it (3 leave the first measured repetition visibly slower).
+ */
+export const WARM_UP_REPLICATES_PER_THREAD = 100;
+
 export const DEFAULT_BENCH_SPEC = path.resolve(__dirname, "../docs/examples/benchmark.json");
 
 export async function runEngineBench(opts: EngineBenchOptions = {}): Promise<EngineBenchResult[]> {
