@@ -22,7 +22,9 @@
  */
 import os from "node:os";
 import { execFileSync } from "node:child_process";
-import { existsSync, readFileSync, statSync } from "node:fs";
+import { existsSync, readFileSync, rmSync, statSync } from "node:fs";
+import path from "node:path";
+import Database from "better-sqlite3";
 import { loadSpecFile } from "@/server/cli/load-spec";
 import { DEFAULT_BENCH_SPEC, runEngineBench, WARM_UP_REPLICATES_PER_THREAD } from "./bench-engine";
 import { startServerProcess } from "@/scripts/lib/spawn-server";
@@ -42,6 +44,11 @@ export interface EndToEndResult {
   peakRssMb: number | null;
   /** The database file and its WAL after the run finished, MB (one run, nothing else stored but one account). */
   databaseMb: number;
+  /**
+   * Of that, the pages holding data (page_count - freelist_count after a checkpoint), MB: finalisation frees the
+   * chunks' grid sums, whose pages the file keeps and the next run reuses.
+   */
+  databaseInUseMb: number | null;
   /**
    * CPU seconds of the whole server process (every thread) from launch to finish, and of the engine-alone
    * process for its run, and their ratio: less moved by other jobs on a shared machine than the wall-clock
@@ -81,6 +88,23 @@ export function peakRssMb(pid: number | undefined): number | null {
   try {
     const m = /VmHWM:\s+(\d+) kB/.exec(readFileSync(`/proc/${pid}/status`, "utf8"));
     return m ? Number(m[1]) / 1024 : null;
+  } catch {
+    return null;
+  }
+}
+
+/** Bytes of a stopped server's database in pages that hold data, MB (null when it cannot be opened). */
+function inUseMb(dbPath: string): number | null {
+  try {
+    const db = new Database(dbPath);
+    try {
+      db.pragma("wal_checkpoint(TRUNCATE)");
+      const pages =
+        Number(db.pragma("page_count", { simple: true })) - Number(db.pragma("freelist_count", { simple: true }));
+      return (pages * Number(db.pragma("page_size", { simple: true }))) / 1e6;
+    } finally {
+      db.close();
+    }
   } catch {
     return null;
   }
@@ -134,7 +158,7 @@ type Measured = Omit<
 
 export async function throughServer(replicates: number, threads: number, warmUpRun: boolean): Promise<Measured> {
   const spec = loadSpecFile(DEFAULT_BENCH_SPEC, { replicates });
-  let measured: Measured;
+  let measured: Measured | undefined;
   const server = await startServerProcess({
     env: { LINGER_SEED_DEMO: "0", LINGER_POOL_SIZE: String(threads), LINGER_TEST: "1" },
   });
@@ -228,9 +252,12 @@ export async function throughServer(replicates: number, threads: number, warmUpR
       events: run.eventsTotal,
       peakRssMb: peakRssMb(server.child.pid),
       databaseMb: fileMb(server.dbPath) + fileMb(`${server.dbPath}-wal`),
+      databaseInUseMb: null,
     };
   } finally {
-    await server.stop();
+    await server.stop({ keepFiles: true });
+    if (measured !== undefined) measured.databaseInUseMb = inUseMb(server.dbPath);
+    rmSync(path.dirname(server.dbPath), { recursive: true, force: true });
   }
   return measured;
 }
