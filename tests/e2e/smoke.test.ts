@@ -1,7 +1,9 @@
 /**
  * Smoke test of the served web app at phone (390x844) and wide (1280x800)
  * sizes: fonts load, the product name shows, a signed-out visitor is sent to
- * sign-in, the demo editor signs in and sees the demo lab.
+ * sign-in, the demo editor signs in and sees the demo lab. The server starts on
+ * an empty database and seeds the demo lab itself, as a new install does (the other
+ * browser tests start on a copy of a seeded one: tests/helpers/test-server.ts).
  */
 import { after, before, describe, test } from "node:test";
 import assert from "node:assert/strict";
@@ -14,7 +16,7 @@ let server: TestServer;
 
 before(async () => {
   await ensureWebBuild({ quiet: true });
-  server = await startTestServer();
+  server = await startTestServer({ database: "fresh" });
 });
 after(async () => {
   await server?.stop();

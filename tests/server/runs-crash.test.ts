@@ -40,7 +40,7 @@ async function until<T>(f: () => Promise<T>, ok: (v: T) => boolean, timeoutMs: n
 }
 
 test("a run interrupted by SIGKILL resumes after restart and equals an uninterrupted run", async () => {
-  let server = await startTestServer({ env: { LINGER_SEED_DEMO: "1" } });
+  let server = await startTestServer({ database: "fresh", env: { LINGER_SEED_DEMO: "1" } });
   const { dir, dbPath } = server;
   try {
     let call = await session(server.url, "editor@example.org");

@@ -4,7 +4,7 @@ import { startTestServer, type TestServer } from "@/tests/helpers/test-server";
 
 let server: TestServer;
 before(async () => {
-  server = await startTestServer();
+  server = await startTestServer({ database: "fresh" });
 });
 after(async () => {
   await server?.stop();
