@@ -95,8 +95,10 @@ function tryLock(lockPath: string): boolean {
   } catch {
     return false; // released between the two calls: try again on the next poll
   }
+  const mtimeMs = statSync(lockPath, { throwIfNoEntry: false })?.mtimeMs;
+  if (mtimeMs === undefined) return false; // released meanwhile
   // An empty file is a holder between creating and writing it; give it a moment before calling it dead.
-  const young = Date.now() - statSync(lockPath, { throwIfNoEntry: false })!.mtimeMs < 5_000;
+  const young = Date.now() - mtimeMs < 5_000;
   if (Number.isInteger(holder) && holder > 0 ? !processAlive(holder) : !young) rmSync(lockPath, { force: true });
   return false;
 }
@@ -135,7 +137,7 @@ export async function ensureDemoDatabase(opts: { log?: (line: string) => void } 
   }
 }
 
-/** Counts of the demo content still being computed, and of runs that ended otherwise than finished. */
+/** Counts of the demo content still being computed, and the runs that ended without results (failed, cancelled). */
 function progress(sqlite: Database.Database): { active: number; runs: number; notFinished: string[] } {
   const active = sqlite
     .prepare(
@@ -147,7 +149,7 @@ function progress(sqlite: Database.Database): { active: number; runs: number; no
   const notFinished = (
     sqlite
       .prepare(
-        "SELECT name, status, status_reason AS reason FROM runs WHERE status NOT IN ('queued', 'running', 'finished')",
+        "SELECT name, status, status_reason AS reason FROM runs WHERE status NOT IN ('queued', 'running', 'finished', 'capped')",
       )
       .all() as { name: string; status: string; reason: string | null }[]
   ).map((r) => `${r.name}: ${r.status}${r.reason ? ` (${r.reason})` : ""}`);
