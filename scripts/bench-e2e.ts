@@ -7,27 +7,27 @@
  * latencies recorded.
  *
  * seconds: the server's own startedAt -> finishedAt of the run (queue, pool,
- *   storage and finalisation), after a warm-up run of 100 replicates per thread
+ *   storage and finalisation), after a warm-up run of WARM_UP_REPLICATES_PER_THREAD (500) per thread
  *   of the same circuit with another seed through the same server (its threads
  *   loaded and their kernel for the circuit optimised, as the engine-alone
  *   pool's are; the run itself starts from nothing it could reuse: its own
  *   threshold, ODE overlay and behaviour labels are computed afresh;
  *   databaseMb includes the warm-up run's rows).
  * engineSeconds: the same replicates through the same engine call on a pool of
- *   the same size, warmed with the same 100 replicates per thread, without
+ *   the same size, warmed with the same replicates per thread (as chunks), without
  *   queue, database or HTTP (runEngineBench), measured after the server run
  *   or, with engineFirst, before it.
  * overheadRatio: seconds / engineSeconds (target: at most 1.10).
  * Default pool: every core, the server's default.
  */
 import os from "node:os";
-import { execFileSync } from "node:child_process";
-import { existsSync, readFileSync, rmSync, statSync } from "node:fs";
+import { existsSync, rmSync, statSync } from "node:fs";
 import path from "node:path";
 import Database from "better-sqlite3";
 import { loadSpecFile } from "@/server/cli/load-spec";
 import { DEFAULT_BENCH_SPEC, runEngineBench, WARM_UP_REPLICATES_PER_THREAD } from "./bench-engine";
 import { startServerProcess } from "@/scripts/lib/spawn-server";
+import { cpuByThread, peakRssMb, processCpuSeconds, threadTimes, type CpuByThread } from "@/scripts/lib/proc-stat";
 
 export interface EndToEndResult {
   replicates: number;
@@ -57,40 +57,10 @@ export interface EndToEndResult {
   serverCpuSeconds: number | null;
   engineCpuSeconds: number;
   cpuRatio: number | null;
-}
-
-/** User + system CPU of a process, every thread, from /proc (Linux), seconds; null elsewhere. */
-export function processCpuSeconds(pid: number | undefined): number | null {
-  try {
-    const stat = readFileSync(`/proc/${pid}/stat`, "utf8");
-    const fields = stat.slice(stat.lastIndexOf(")") + 2).split(" ");
-    // utime and stime are fields 14 and 15 of stat(5), counted after the command name from field 3
-    return (Number(fields[11]) + Number(fields[12])) / clockTicks();
-  } catch {
-    return null;
-  }
-}
-
-let ticks: number | undefined;
-function clockTicks(): number {
-  if (ticks === undefined) {
-    try {
-      ticks = Number(execFileSync("getconf", ["CLK_TCK"], { encoding: "utf8" }).trim()) || 100;
-    } catch {
-      ticks = 100;
-    }
-  }
-  return ticks;
-}
-
-/** Peak resident set of a process from /proc (Linux), MB; null elsewhere. */
-export function peakRssMb(pid: number | undefined): number | null {
-  try {
-    const m = /VmHWM:\s+(\d+) kB/.exec(readFileSync(`/proc/${pid}/status`, "utf8"));
-    return m ? Number(m[1]) / 1024 : null;
-  } catch {
-    return null;
-  }
+  /** The server's CPU seconds over the same span by thread (event loop, simulation, finalising, helpers). */
+  serverCpuByThread: CpuByThread | null;
+  /** The engine-alone process's, for its run. */
+  engineCpuByThread: CpuByThread | null;
 }
 
 /** Bytes of a stopped server's database in pages that hold data, MB (null when it cannot be opened). */
@@ -125,7 +95,7 @@ export async function runEndToEndBench(
     /** Measure the engine alone before the server, not after (alternate it across repetitions: neither goes always second). */
     engineFirst?: boolean;
     /**
-     * Before the measured run, one of 100 replicates per thread through the same server (default true): the
+     * Before the measured run, one of WARM_UP_REPLICATES_PER_THREAD per thread through the same server (default true): the
      * measured run then starts on loaded, warm threads, as the engine-alone pool does after its warm-up.
      */
     warmUpRun?: boolean;
@@ -147,13 +117,14 @@ export async function runEndToEndBench(
     engineSeconds: engine.seconds,
     overheadRatio: measured.seconds / engine.seconds,
     engineCpuSeconds: engine.cpuSeconds,
+    engineCpuByThread: engine.cpuByThread,
     cpuRatio: measured.serverCpuSeconds === null ? null : measured.serverCpuSeconds / engine.cpuSeconds,
   };
 }
 
 type Measured = Omit<
   EndToEndResult,
-  "replicates" | "threads" | "engineSeconds" | "overheadRatio" | "engineCpuSeconds" | "cpuRatio"
+  "replicates" | "threads" | "engineSeconds" | "overheadRatio" | "engineCpuSeconds" | "cpuRatio" | "engineCpuByThread"
 >;
 
 export async function throughServer(replicates: number, threads: number, warmUpRun: boolean): Promise<Measured> {
@@ -218,6 +189,7 @@ export async function throughServer(replicates: number, threads: number, warmUpR
       if (warm.status !== "finished") throw new Error(`warm-up run ended ${warm.status}: ${warm.statusReason}`);
     }
     const cpu0 = processCpuSeconds(server.child.pid);
+    const threads0 = threadTimes(server.child.pid!);
     const runId = await launchRun("benchmark", spec);
 
     const health: number[] = [];
@@ -243,8 +215,10 @@ export async function throughServer(replicates: number, threads: number, warmUpR
     await load;
     if (run.status !== "finished") throw new Error(`run ended ${run.status}: ${run.statusReason}`);
     const cpu1 = processCpuSeconds(server.child.pid);
+    const threads1 = threadTimes(server.child.pid!);
     measured = {
       serverCpuSeconds: cpu0 === null || cpu1 === null ? null : cpu1 - cpu0,
+      serverCpuByThread: cpuByThread(server.child.pid!, threads0, threads1),
       seconds: (Date.parse(run.finishedAt) - Date.parse(run.startedAt)) / 1000,
       healthP95Ms: p95(health),
       listP95Ms: p95(list),

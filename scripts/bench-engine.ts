@@ -12,6 +12,7 @@ import { loadSpecFile } from "@/server/cli/load-spec";
 import { ENGINE_VERSION } from "@/sim";
 import { createSimPool } from "@/server/compute/pool";
 import { runAllChunks } from "@/server/compute/run-all-chunks";
+import { cpuByThread, threadTimes, type CpuByThread } from "@/scripts/lib/proc-stat";
 
 export interface EngineBenchResult {
   model: string;
@@ -23,6 +24,8 @@ export interface EngineBenchResult {
   threads: number;
   /** CPU time of the whole process (all threads) over the same span: shows contention from other processes. */
   cpuSeconds: number;
+  /** The same by thread (main, simulation threads, V8/libuv helpers); null where /proc is missing. */
+  cpuByThread: CpuByThread | null;
 }
 
 export interface EngineBenchOptions {
@@ -37,10 +40,13 @@ export interface EngineBenchOptions {
 }
 
 /**
- * Throwaway replicates per thread before a measured speed figure: enough for V8 to have optimised the
- * circuit's kernel and the per-replicate code around it (3 leave the first measured repetition visibly slower).
+ * Throwaway replicates per thread before a measured speed figure, run as chunks (five calls of 100): enough
+ * for V8 to have optimised the circuit's kernel, simulateChunk and the per-chunk code around it. With 100 in
+ * one call, simulateChunk was still compiled during the first measured chunks: a 2-thread pool's first 1,000
+ * replicates took 1.14 s of simulation CPU and 0.21 s on V8's compiler threads, against 0.91 s and 0.02 s
+ * once settled (4 Dec 2026); three calls were enough there.
  */
-export const WARM_UP_REPLICATES_PER_THREAD = 100;
+export const WARM_UP_REPLICATES_PER_THREAD = 500;
 
 export const DEFAULT_BENCH_SPEC = path.resolve(__dirname, "../docs/examples/benchmark.json");
 
@@ -53,10 +59,12 @@ export async function runEngineBench(opts: EngineBenchOptions = {}): Promise<Eng
     try {
       await pool.warmUp(spec, { replicates: opts.warmUpReplicates });
       const c0 = process.cpuUsage();
+      const threads0 = threadTimes(process.pid);
       const t0 = performance.now();
       const { events } = await runAllChunks(spec, { pool });
       const seconds = (performance.now() - t0) / 1000;
       const cpu = process.cpuUsage(c0);
+      const threads1 = threadTimes(process.pid);
       const r: EngineBenchResult = {
         model: spec.circuit.name,
         engineVersion: ENGINE_VERSION,
@@ -66,6 +74,7 @@ export async function runEngineBench(opts: EngineBenchOptions = {}): Promise<Eng
         eventsPerSecond: events / seconds,
         threads,
         cpuSeconds: (cpu.user + cpu.system) / 1e6,
+        cpuByThread: cpuByThread(process.pid, threads0, threads1),
       };
       results.push(r);
       opts.onResult?.(r);

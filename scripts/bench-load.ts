@@ -12,12 +12,12 @@
  * run is the second figure of docs/benchmarks.md (health p95 under 100 ms).
  */
 import os from "node:os";
-import { readFileSync } from "node:fs";
 import http from "node:http";
 import Database from "better-sqlite3";
 import { loadSpecFile } from "@/server/cli/load-spec";
 import { DEFAULT_BENCH_SPEC } from "./bench-engine";
 import { startServerProcess } from "@/scripts/lib/spawn-server";
+import { threadCpuMs } from "@/scripts/lib/proc-stat";
 
 export interface LoadEndpoint {
   endpoint: string;
@@ -66,16 +66,6 @@ export interface LoadResult {
 }
 
 /** CPU time (user + system) of one thread of a process, in ms, from /proc; NaN without /proc. */
-export function threadCpuMs(pid: number, tid: number | "process" = pid): number {
-  try {
-    const stat = readFileSync(tid === "process" ? `/proc/${pid}/stat` : `/proc/${pid}/task/${tid}/stat`, "utf8");
-    // Fields after the command name (which may hold spaces): state is field 3, utime 14, stime 15.
-    const f = stat.slice(stat.lastIndexOf(")") + 2).split(" ");
-    return ((Number(f[11]) + Number(f[12])) * 1000) / CLOCK_TICKS_PER_S;
-  } catch {
-    return NaN;
-  }
-}
 /**
  * The measured requests: node:http with a keep-alive agent (one connection per client, as a browser
  * keeps one), asking for gzip like a browser does; the body is read to its end, not decompressed (the
@@ -92,9 +82,6 @@ function timedGet(agent: http.Agent, url: string, cookie: string): Promise<numbe
     req.on("error", reject);
   });
 }
-
-/** USER_HZ: 100 on every Linux build this runs on (`getconf CLK_TCK`). */
-const CLOCK_TICKS_PER_S = 100;
 
 const quantile = (xs: number[], q: number) => {
   if (!xs.length) return NaN;

@@ -24,6 +24,7 @@ import { runAllChunks } from "@/server/compute/run-all-chunks";
 import { DEFAULT_BENCH_SPEC, WARM_UP_REPLICATES_PER_THREAD } from "./bench-engine";
 import { runEndToEndBench, type EndToEndResult } from "./bench-e2e";
 import { createReference } from "./bench/reference";
+import { formatCpuByThread } from "@/scripts/lib/proc-stat";
 
 export interface Spread {
   median: number;
@@ -129,6 +130,10 @@ export async function runPipelineBench(
           ? ""
           : `; CPU ${r.serverCpuSeconds!.toFixed(2)} s vs ${r.engineCpuSeconds.toFixed(2)} s = ${r.cpuRatio.toFixed(3)}x`),
     );
+    if (r.serverCpuByThread && r.engineCpuByThread)
+      log(
+        `    CPU by thread: server ${formatCpuByThread(r.serverCpuByThread)}; engine alone ${formatCpuByThread(r.engineCpuByThread)}`,
+      );
     e2eRuns.push(r);
   }
 
@@ -216,6 +221,10 @@ export function formatPipelineBench(b: PipelineBench): string {
         ? ")"
         : `; in use after finalisation ${f(last.databaseInUseMb, 1)} MB, ${f((last.databaseInUseMb * 100_000) / last.replicates, 0)} MB per 100,000: the rest is the chunks' grid sums, freed and reused by the next run)`),
   );
+  if (last.serverCpuByThread && last.engineCpuByThread)
+    lines.push(
+      `CPU by thread (${last.replicates} replicates): server ${formatCpuByThread(last.serverCpuByThread)}; engine alone ${formatCpuByThread(last.engineCpuByThread)}`,
+    );
   return lines.join("\n");
 }
 

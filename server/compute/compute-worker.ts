@@ -14,6 +14,9 @@ import { accelerationFigures, makeMatchedControl } from "@/sim/analysis";
 import { runSetup } from "@/sim/engine/run-setup";
 import { odeBudget } from "@/sim/ode/ode-budget";
 import { classifyDeterministic, type RegimeVerdict } from "@/sim/regimes";
+import { THREAD_NAMES, nameThisThread } from "./thread-priority";
+
+nameThisThread(THREAD_NAMES.compute);
 
 export type ComputeJob =
   /** Resolve each spec's threshold (launch checks; a sweep sends all its points). */

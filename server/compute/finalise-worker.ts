@@ -46,6 +46,9 @@ import {
   readReplicateRows,
   replicateAsStored,
 } from "@/server/compute/run-store";
+import { THREAD_NAMES, nameThisThread } from "./thread-priority";
+
+nameThisThread(THREAD_NAMES.finalise);
 
 export interface FinaliseTask {
   kind?: "finalise";

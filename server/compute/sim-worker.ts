@@ -7,13 +7,14 @@
 import { readFileSync } from "node:fs";
 import { threadId } from "node:worker_threads";
 import { Piscina } from "piscina";
-import { simulateChunk, prepareRun, type ChunkResult } from "@/sim";
+import { CHUNK_SIZE, simulateChunk, prepareRun, type ChunkResult } from "@/sim";
 import { packPulseStats, type PackedPulseStats } from "@/sim/engine/pulse-columns";
 import type { SimTask } from "./sim-task";
-import { lowerThreadPriority } from "./thread-priority";
+import { THREAD_NAMES, lowerThreadPriority, nameThisThread } from "./thread-priority";
 
 // Simulation yields the CPU to the HTTP thread (docs/runs.md).
 lowerThreadPriority();
+nameThisThread(THREAD_NAMES.sim);
 
 export type WorkerChunkResult = ChunkResult & {
   /** Set in the worker thread: the pulses as columns (pool.ts unpacks them into `pulses` on arrival). */
@@ -67,8 +68,17 @@ export default function simWorker(task: SimTask): unknown {
     prepareRun(task.spec);
     const hold = task.warmUp.holdMs ?? 0;
     if (hold > 0) Atomics.wait(new Int32Array(new SharedArrayBuffer(4)), 0, 0, hold);
-    // A few throwaway replicates let the JIT optimise this thread's generated kernel before timing starts.
-    return { ...simulateChunk(task.spec, 0, task.warmUp.replicates ?? 0), threadId };
+    // Throwaway replicates let the JIT optimise this thread's code before timing starts: the generated kernel
+    // (called per replicate) and, run as chunks are, in calls of at most a chunk with their pulses packed,
+    // simulateChunk and the per-chunk code around it (called once per chunk, so one long call leaves them
+    // unoptimised and V8 compiles them during the first measured chunks).
+    const replicates = task.warmUp.replicates ?? 0;
+    let last = simulateChunk(task.spec, 0, Math.min(replicates, CHUNK_SIZE));
+    for (let start = CHUNK_SIZE; start < replicates; start += CHUNK_SIZE) {
+      packPulseStats(last.pulses);
+      last = simulateChunk(task.spec, start, Math.min(CHUNK_SIZE, replicates - start));
+    }
+    return { ...last, threadId };
   }
   const cpu0 = task.trace ? threadCpuMs() : null;
   const startMs = performance.timeOrigin + performance.now();

@@ -5,7 +5,7 @@
  * to that thread only. On other systems, on the main thread, or when the system refuses, nothing changes.
  * LINGER_WORKER_NICE (1-19, default 10; 0 leaves the priority alone) sets the value.
  */
-import { readlinkSync } from "node:fs";
+import { readlinkSync, writeFileSync } from "node:fs";
 import { setPriority } from "node:os";
 import { isMainThread } from "node:worker_threads";
 
@@ -24,3 +24,22 @@ export function lowerThreadPriority(env: Record<string, string | undefined> = pr
     return null;
   }
 }
+
+/**
+ * Names the calling worker thread (Linux: /proc/thread-self/comm, at most 15 bytes), so `top -H`, `ps -L` and the
+ * benchmark's CPU breakdown (scripts/bench-e2e.ts) tell the simulation, finalising and compute threads apart from
+ * V8's and libuv's helpers (every Node thread is otherwise "node"). The main thread keeps the process's name.
+ * Elsewhere, or when refused, nothing changes.
+ */
+export function nameThisThread(name: string): boolean {
+  if (isMainThread) return false;
+  try {
+    writeFileSync("/proc/thread-self/comm", name.slice(0, 15));
+    return true;
+  } catch {
+    return false;
+  }
+}
+
+/** Thread names set by nameThisThread (scripts/bench-e2e.ts groups CPU time by them). */
+export const THREAD_NAMES = { sim: "linger-sim", finalise: "linger-finalise", compute: "linger-compute" } as const;

@@ -1,10 +1,13 @@
 import { test } from "node:test";
 import assert from "node:assert/strict";
-import { existsSync } from "node:fs";
+import { existsSync, readFileSync, readdirSync } from "node:fs";
 import { getPriority } from "node:os";
 import path from "node:path";
 import { Piscina } from "piscina";
-import { lowerThreadPriority } from "@/server/compute/thread-priority";
+import { THREAD_NAMES, lowerThreadPriority, nameThisThread } from "@/server/compute/thread-priority";
+import { createSimPool } from "@/server/compute/pool";
+import { loadSpecFile } from "@/server/cli/load-spec";
+import { DEFAULT_BENCH_SPEC } from "@/scripts/bench-engine";
 
 const linux = existsSync("/proc/thread-self");
 
@@ -47,5 +50,25 @@ test(
     assert.equal((await inWorker({ LINGER_WORKER_NICE: "0" })).tid, null);
     assert.equal((await inWorker({ LINGER_WORKER_NICE: "25" })).tid, null);
     assert.equal(lowerThreadPriority({}), null);
+  },
+);
+
+test(
+  "the simulation pool's threads are named linger-sim (for top -H and the benchmark's CPU by thread); the main thread keeps its name",
+  { skip: !linux && "needs Linux /proc/thread-self" },
+  async () => {
+    const names = () =>
+      readdirSync("/proc/self/task").map((tid) => readFileSync(`/proc/self/task/${tid}/comm`, "utf8").trim());
+    const mainName = readFileSync(`/proc/self/task/${process.pid}/comm`, "utf8").trim();
+    assert.equal(nameThisThread("not-main"), false);
+    const before = names().filter((n) => n === THREAD_NAMES.sim).length;
+    const pool = createSimPool({ threads: 2 });
+    try {
+      await pool.warmUp(loadSpecFile(DEFAULT_BENCH_SPEC, { replicates: 10 }), { replicates: 0 });
+      assert.equal(names().filter((n) => n === THREAD_NAMES.sim).length - before, 2);
+    } finally {
+      await pool.destroy();
+    }
+    assert.equal(readFileSync(`/proc/self/task/${process.pid}/comm`, "utf8").trim(), mainName);
   },
 );
