@@ -7,12 +7,12 @@
  * latencies recorded.
  *
  * seconds: the server's own startedAt -> finishedAt of the run (queue, pool,
- *   storage and finalisation), after a warm-up run of WARM_UP_REPLICATES_PER_THREAD (500) per thread
+ *   storage and finalisation), after WARM_UP_RUNS (3) warm-up runs of WARM_UP_REPLICATES_PER_THREAD (500) per thread
  *   of the same circuit with another seed through the same server (its threads
  *   loaded and their kernel for the circuit optimised, as the engine-alone
  *   pool's are; the run itself starts from nothing it could reuse: its own
  *   threshold, ODE overlay and behaviour labels are computed afresh;
- *   databaseMb includes the warm-up run's rows).
+ *   databaseMb includes the warm-up runs' rows).
  * engineSeconds: the same replicates through the same engine call on a pool of
  *   the same size, warmed with the same replicates per thread (as chunks), without
  *   queue, database or HTTP (runEngineBench), measured after the server run
@@ -42,11 +42,14 @@ export interface EndToEndResult {
   requests: number;
   /** The server process's peak resident memory (VmHWM: event loop, pool threads, finalising thread), MB. */
   peakRssMb: number | null;
-  /** The database file and its WAL after the run finished, MB (one run, nothing else stored but one account). */
+  /**
+   * What the measured run added to the database file and its WAL, MB (size after it finished minus size before
+   * it started; the warm-up runs' share excluded).
+   */
   databaseMb: number;
   /**
-   * Of that, the pages holding data (page_count - freelist_count after a checkpoint), MB: finalisation frees the
-   * chunks' grid sums, whose pages the file keeps and the next run reuses.
+   * What it added to the pages holding data (page_count - freelist_count), MB: finalisation frees the chunks'
+   * grid sums, whose pages the file keeps and the next run reuses.
    */
   databaseInUseMb: number | null;
   /**
@@ -63,12 +66,15 @@ export interface EndToEndResult {
   engineCpuByThread: CpuByThread | null;
 }
 
-/** Bytes of a stopped server's database in pages that hold data, MB (null when it cannot be opened). */
-function inUseMb(dbPath: string): number | null {
+/**
+ * Bytes of a database in pages that hold data, MB (null when it cannot be opened). Read-only beside a running
+ * server (a reader sees every committed page, WAL included); after the server stopped, checkpointed first.
+ */
+function inUseMb(dbPath: string, opts: { checkpoint: boolean }): number | null {
   try {
-    const db = new Database(dbPath);
+    const db = new Database(dbPath, { readonly: !opts.checkpoint });
     try {
-      db.pragma("wal_checkpoint(TRUNCATE)");
+      if (opts.checkpoint) db.pragma("wal_checkpoint(TRUNCATE)");
       const pages =
         Number(db.pragma("page_count", { simple: true })) - Number(db.pragma("freelist_count", { simple: true }));
       return (pages * Number(db.pragma("page_size", { simple: true }))) / 1e6;
@@ -88,6 +94,9 @@ const p95 = (xs: number[]) => {
   return s[Math.min(s.length - 1, Math.ceil(0.95 * s.length) - 1)];
 };
 
+/** Runs through the server before the measured one (see throughServer). */
+export const WARM_UP_RUNS = 3;
+
 export async function runEndToEndBench(
   opts: {
     replicates?: number;
@@ -95,7 +104,7 @@ export async function runEndToEndBench(
     /** Measure the engine alone before the server, not after (alternate it across repetitions: neither goes always second). */
     engineFirst?: boolean;
     /**
-     * Before the measured run, one of WARM_UP_REPLICATES_PER_THREAD per thread through the same server (default true): the
+     * Before the measured run, WARM_UP_RUNS of WARM_UP_REPLICATES_PER_THREAD per thread through the same server (default true): the
      * measured run then starts on loaded, warm threads, as the engine-alone pool does after its warm-up.
      */
     warmUpRun?: boolean;
@@ -130,6 +139,7 @@ type Measured = Omit<
 export async function throughServer(replicates: number, threads: number, warmUpRun: boolean): Promise<Measured> {
   const spec = loadSpecFile(DEFAULT_BENCH_SPEC, { replicates });
   let measured: Measured | undefined;
+  let inUse0: number | null = null;
   const server = await startServerProcess({
     env: { LINGER_SEED_DEMO: "0", LINGER_POOL_SIZE: String(threads), LINGER_TEST: "1" },
   });
@@ -178,16 +188,23 @@ export async function throughServer(replicates: number, threads: number, warmUpR
     };
     if (warmUpRun) {
       // A server that has been up a while: its threads have loaded their code (tsx compiles it in each thread,
-      // seconds of CPU after the server listens) and run a chunk, as the engine-alone pool has before timing.
-      const warm = await waitForEnd(
-        await launchRun("warm-up", {
-          ...spec,
-          seed: `${spec.seed}.warm-up`,
-          replicates: WARM_UP_REPLICATES_PER_THREAD * threads,
-        }),
-      );
-      if (warm.status !== "finished") throw new Error(`warm-up run ended ${warm.status}: ${warm.statusReason}`);
+      // seconds of CPU after the server listens) and V8 has optimised what every run goes through, as the
+      // engine-alone pool's threads are before timing. One run is not enough for the finalising and main
+      // threads: with --trace-opt, 1,000-replicate runs on a fresh server compiled 435, 67, 29, 33, 18 and 17
+      // functions (4 Dec 2026); so three runs, each of WARM_UP_REPLICATES_PER_THREAD per thread.
+      for (let i = 0; i < WARM_UP_RUNS; i++) {
+        const warm = await waitForEnd(
+          await launchRun(`warm-up ${i + 1}`, {
+            ...spec,
+            seed: `${spec.seed}.warm-up-${i + 1}`,
+            replicates: WARM_UP_REPLICATES_PER_THREAD * threads,
+          }),
+        );
+        if (warm.status !== "finished") throw new Error(`warm-up run ended ${warm.status}: ${warm.statusReason}`);
+      }
     }
+    const fileMb0 = fileMb(server.dbPath) + fileMb(`${server.dbPath}-wal`);
+    inUse0 = inUseMb(server.dbPath, { checkpoint: false });
     const cpu0 = processCpuSeconds(server.child.pid);
     const threads0 = threadTimes(server.child.pid!);
     const runId = await launchRun("benchmark", spec);
@@ -225,12 +242,13 @@ export async function throughServer(replicates: number, threads: number, warmUpR
       requests: health.length + list.length,
       events: run.eventsTotal,
       peakRssMb: peakRssMb(server.child.pid),
-      databaseMb: fileMb(server.dbPath) + fileMb(`${server.dbPath}-wal`),
+      databaseMb: fileMb(server.dbPath) + fileMb(`${server.dbPath}-wal`) - fileMb0,
       databaseInUseMb: null,
     };
   } finally {
     await server.stop({ keepFiles: true });
-    if (measured !== undefined) measured.databaseInUseMb = inUseMb(server.dbPath);
+    const inUse1 = measured === undefined ? null : inUseMb(server.dbPath, { checkpoint: true });
+    if (measured !== undefined && inUse0 !== null && inUse1 !== null) measured.databaseInUseMb = inUse1 - inUse0;
     rmSync(path.dirname(server.dbPath), { recursive: true, force: true });
   }
   return measured;

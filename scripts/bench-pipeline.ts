@@ -215,11 +215,11 @@ export function formatPipelineBench(b: PipelineBench): string {
   const last = e?.run ?? b.endToEnd10k.runs[b.endToEnd10k.runs.length - 1];
   lines.push(
     `API while computing (${last.replicates} replicates): p95 /api/health ${f(last.healthP95Ms, 1)} ms, run list ${f(last.listP95Ms, 1)} ms (target < 100 ms); ` +
-      `server peak RSS ${last.peakRssMb === null ? "n/a" : `${f(last.peakRssMb, 0)} MB`}; database ${f(last.databaseMb, 1)} MB for ${last.replicates} replicates` +
+      `server peak RSS ${last.peakRssMb === null ? "n/a" : `${f(last.peakRssMb, 0)} MB`}; the run added ${f(last.databaseMb, 1)} MB to the database file for ${last.replicates} replicates` +
       ` (${f((last.databaseMb * 100_000) / last.replicates, 0)} MB per 100,000` +
       (last.databaseInUseMb === null
         ? ")"
-        : `; in use after finalisation ${f(last.databaseInUseMb, 1)} MB, ${f((last.databaseInUseMb * 100_000) / last.replicates, 0)} MB per 100,000: the rest is the chunks' grid sums, freed and reused by the next run)`),
+        : `; ${f(last.databaseInUseMb, 1)} MB of data after finalisation, ${f((last.databaseInUseMb * 100_000) / last.replicates, 0)} MB per 100,000: the rest is the chunks' grid sums, freed and reused by the next run)`),
   );
   if (last.serverCpuByThread && last.engineCpuByThread)
     lines.push(
