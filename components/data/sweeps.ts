@@ -93,6 +93,18 @@ export function useCancelSweep() {
   });
 }
 
+/** Re-queues a cancelled or failed sweep's unfinished points (POST /api/sweeps/:id/resume): they go on from their stored chunks. */
+export function useResumeSweep() {
+  const qc = useQueryClient();
+  return useMutation({
+    mutationFn: (id: string) => api(`/api/sweeps/${id}/resume`, { method: "POST", schema: SweepDetailSchema }),
+    onSuccess: (d) => {
+      qc.setQueryData(sweepKeys.detail(d.id), d);
+      qc.invalidateQueries({ queryKey: sweepKeys.lists() });
+    },
+  });
+}
+
 /** Soft delete (DELETE /api/sweeps/:id, its point runs with it): restorable for the undo period. */
 export function useDeleteSweep() {
   const qc = useQueryClient();

@@ -262,3 +262,71 @@ for (const vp of [PHONE, WIDE] as Viewport[]) {
     });
   });
 }
+
+describe(`cancel and resume a sweep at ${PHONE.name} size`, { timeout: 300_000 }, () => {
+  test("Cancel asks first and says what is kept; a cancelled sweep offers Resume, which queues its points again", async () => {
+    const b = await launchBrowser(PHONE);
+    const page = b.page;
+    const errors: string[] = [];
+    page.on("pageerror", (e) => errors.push(e.message));
+    const api = (p: string) => `${server.url}/api${p}`;
+    let sweepId: string | null = null;
+    try {
+      await signIn(page, server.url, DEMO_EDITOR, DEMO_PASSWORD);
+      const labs = (await (await page.request.get(api("/labs"))).json()) as { items: { id: string }[] };
+      const templates = (await (await page.request.get(api("/templates"))).json()) as {
+        templates: { key: string; circuit: unknown; inputSignal: string }[];
+      };
+      const ring = templates.templates.find((x) => x.key === "ring")!;
+      // Large enough to be still computing when the page asks to cancel it (the test cancels it at the end).
+      const launched = await page.request.post(api(`/labs/${labs.items[0].id}/sweeps`), {
+        timeout: 120_000,
+        data: {
+          name: "Ring scan to cancel",
+          base: {
+            circuit: ring.circuit,
+            program: { kind: "ladder", start: 10, durations: [5, 60], repeats: 1, gap: 60 },
+            inputSignal: ring.inputSignal,
+            settings: { endTimeMinutes: 2000, replicates: 50_000, seed: "cancel-me", threshold: { value: 100 } },
+          },
+          axes: [{ parameter: "rate(makeA)", grid: { from: 20, to: 200, count: 3, scale: "log" } }],
+        },
+      });
+      assert.equal(launched.status(), 201, await launched.text());
+      sweepId = ((await launched.json()) as { id: string }).id;
+      const status = async () =>
+        ((await (await page.request.get(api(`/sweeps/${sweepId}`))).json()) as { status: string }).status;
+
+      await page.goto(`${server.url}/sweeps/${sweepId}`);
+      await page.getByText("Ring scan to cancel", { exact: true }).first().waitFor();
+      // one tap does not cancel: the question says what is kept and what Resume does
+      await page.getByTestId("cancel-sweep").click();
+      const question = page.getByRole("group", { name: /^Cancel Ring scan to cancel\?/ });
+      await question.waitFor();
+      assert.match(
+        (await question.getAttribute("aria-label")) ?? "",
+        /finished points and the replicates stored so far are kept; Resume sweep goes on with the other \d+ later\./,
+      );
+      assert.ok(["queued", "running"].includes(await status()), "still computing while the question is asked");
+      await assertAccessible(page, "sweep cancel question");
+      await screenshot(page, "sweeps-phone-08-cancel-question");
+      await page.getByTestId("cancel-sweep-confirm").click();
+      await page.getByTestId("resume-sweep").waitFor({ timeout: 60_000 });
+      assert.equal(await status(), "cancelled");
+      await page.getByText("Cancelled", { exact: true }).first().waitFor();
+      await assertAccessible(page, "cancelled sweep");
+      await screenshot(page, "sweeps-phone-09-cancelled");
+      // Resume queues the unfinished points again and the screen offers Cancel once more
+      await page.getByTestId("resume-sweep").click();
+      await page.getByTestId("cancel-sweep").waitFor({ timeout: 60_000 });
+      assert.ok(["queued", "running"].includes(await status()), "resumed");
+      assert.deepEqual(errors, [], "no uncaught page errors");
+    } catch (e) {
+      await screenshot(page, "sweeps-phone-cancel-failure").catch(() => {});
+      throw e;
+    } finally {
+      if (sweepId) await page.request.post(api(`/sweeps/${sweepId}/cancel`)).catch(() => {});
+      await b.close();
+    }
+  });
+});

@@ -14,8 +14,16 @@ import { Banner, ErrorState, LoadingState } from "@/components/ui/states";
 import { LazyChart } from "@/components/charts/lazy-chart";
 import type { ChartSpec } from "@/components/charts/chart-spec";
 import { formatSweepFigure, sweepLineSpec } from "@/components/charts/specs";
-import { formatNumber } from "@/shared/number-format";
-import { useCancelSweep, useDeleteSweep, useRestoreSweep, useSweep, type SweepDetail } from "@/components/data/sweeps";
+import { formatCount, formatNumber } from "@/shared/number-format";
+import { ConfirmAction } from "@/components/lab/confirm-action";
+import {
+  useCancelSweep,
+  useDeleteSweep,
+  useRestoreSweep,
+  useResumeSweep,
+  useSweep,
+  type SweepDetail,
+} from "@/components/data/sweeps";
 import { useCurrentLab } from "@/components/data/current-lab";
 import { DeletedBanner } from "@/components/ui/deleted-banner";
 import { useTheme } from "@/components/theme/use-theme";
@@ -58,6 +66,7 @@ export default function SweepDetailScreen() {
   const [deleted, setDeleted] = useState(false);
   const q = useSweep(id, { paused: deleted });
   const cancel = useCancelSweep();
+  const resume = useResumeSweep();
   const del = useDeleteSweep();
   const restore = useRestoreSweep();
   const { canEdit } = useCurrentLab();
@@ -100,8 +109,28 @@ export default function SweepDetailScreen() {
       back={{ href: "/sweeps", label: "Sweeps" }}
       title={s.name}
       actions={
-        active && canEdit && !deleted ? (
-          <Button label="Cancel sweep" variant="danger" onPress={() => cancel.mutate(s.id)} busy={cancel.isPending} />
+        canEdit && !deleted ? (
+          active ? (
+            <ConfirmAction
+              label="Cancel sweep"
+              icon="x-circle"
+              question={`Cancel ${s.name}? The ${formatCount(s.pointsDone)} finished points and the replicates stored so far are kept; Resume sweep goes on with the other ${formatCount(s.pointCount - s.pointsDone)} later.`}
+              confirmLabel="Cancel the sweep"
+              busy={cancel.isPending}
+              onConfirm={() => cancel.mutate(s.id)}
+              testID="cancel-sweep"
+            />
+          ) : s.status === "cancelled" || s.status === "failed" ? (
+            <Button
+              label="Resume sweep"
+              variant="secondary"
+              compact
+              icon="play"
+              onPress={() => resume.mutate(s.id)}
+              busy={resume.isPending}
+              testID="resume-sweep"
+            />
+          ) : null
         ) : null
       }
     >
