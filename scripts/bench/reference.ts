@@ -81,7 +81,8 @@ export function createReference(spec: RunSpec, opts: { forceJs?: boolean } = {})
           let out = "";
           child.stdout.on("data", (d) => (out += d));
           child.on("error", reject);
-          child.on("exit", (code) => {
+          // "close", not "exit": exit can come before stdout has been read to its end (a repetition read NaN)
+          child.on("close", (code) => {
             if (code !== 0) return reject(new Error(`reference kernel exited ${code}`));
             const [events, seconds] = out.trim().split(/\s+/).map(Number);
             resolve({ events, seconds });
