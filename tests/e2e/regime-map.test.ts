@@ -17,7 +17,7 @@ import { after, before, describe, test } from "node:test";
 import assert from "node:assert/strict";
 import { startTestServer, DEMO_PASSWORD, type TestServer } from "@/tests/helpers/test-server";
 import { launchBrowser, screenshot, PHONE, WIDE, type Viewport, assertAccessible } from "./browser";
-import { signIn, DEMO_EDITOR } from "./flows";
+import { firstLabAndTemplate, signIn, DEMO_EDITOR } from "./flows";
 import { ensureWebBuild } from "@/scripts/build-web";
 
 let server: TestServer;
@@ -45,12 +45,8 @@ for (const vp of [PHONE, WIDE] as Viewport[]) {
         await signIn(page, server.url, DEMO_EDITOR, DEMO_PASSWORD);
         const api = (p: string) => `${server.url}/api${p}`;
         if (!sharedSweepId) {
-          const labs = (await (await page.request.get(api("/labs"))).json()) as { items: { id: string }[] };
-          const templates = (await (await page.request.get(api("/templates"))).json()) as {
-            templates: { key: string; circuit: unknown; inputSignal: string }[];
-          };
-          const ring = templates.templates.find((x) => x.key === "ring")!;
-          const launched = await page.request.post(api(`/labs/${labs.items[0].id}/sweeps`), {
+          const { labId, template: ring } = await firstLabAndTemplate(page, server.url, "ring");
+          const launched = await page.request.post(api(`/labs/${labId}/sweeps`), {
             timeout: 120_000,
             data: {
               name: "Timer ring map",

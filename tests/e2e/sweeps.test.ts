@@ -16,7 +16,7 @@ import assert from "node:assert/strict";
 import type { Page } from "playwright-core";
 import { startTestServer, DEMO_PASSWORD, type TestServer } from "@/tests/helpers/test-server";
 import { launchBrowser, screenshot, PHONE, WIDE, type Viewport, assertAccessible } from "./browser";
-import { signIn, DEMO_EDITOR } from "./flows";
+import { firstLabAndTemplate, signIn, DEMO_EDITOR } from "./flows";
 import { ensureWebBuild } from "@/scripts/build-web";
 import { DEMO_SWEEP_NAME } from "@/server/demo/runs";
 
@@ -273,13 +273,9 @@ describe(`cancel and resume a sweep at ${PHONE.name} size`, { timeout: 300_000 }
     let sweepId: string | null = null;
     try {
       await signIn(page, server.url, DEMO_EDITOR, DEMO_PASSWORD);
-      const labs = (await (await page.request.get(api("/labs"))).json()) as { items: { id: string }[] };
-      const templates = (await (await page.request.get(api("/templates"))).json()) as {
-        templates: { key: string; circuit: unknown; inputSignal: string }[];
-      };
-      const ring = templates.templates.find((x) => x.key === "ring")!;
+      const { labId, template: ring } = await firstLabAndTemplate(page, server.url, "ring");
       // Large enough to be still computing when the page asks to cancel it (the test cancels it at the end).
-      const launched = await page.request.post(api(`/labs/${labs.items[0].id}/sweeps`), {
+      const launched = await page.request.post(api(`/labs/${labId}/sweeps`), {
         timeout: 120_000,
         data: {
           name: "Ring scan to cancel",
