@@ -46,7 +46,7 @@ export function ConfirmAction({
     );
   }
   return (
-    <View role="group" aria-label={question} style={{ gap: t.spacing.sm, flexShrink: 1 }}>
+    <View role="group" aria-label={question} style={{ gap: t.spacing.sm, flexShrink: 1, maxWidth: "100%" }}>
       <Text variant="label">{question}</Text>
       <View style={{ flexDirection: "row", flexWrap: "wrap", gap: t.spacing.sm }}>
         <Button

@@ -92,7 +92,12 @@ export function Screen({
             {subtitle ? <Text tone="muted">{subtitle}</Text> : null}
           </View>
           {actions ? (
-            <View style={{ flexDirection: "row", flexWrap: "wrap", gap: t.spacing.sm }}>{actions}</View>
+            // maxWidth: a confirmation question in the actions wraps within the screen instead of running past it
+            <View
+              style={{ flexDirection: "row", flexWrap: "wrap", gap: t.spacing.sm, flexShrink: 1, maxWidth: "100%" }}
+            >
+              {actions}
+            </View>
           ) : null}
         </View>
       ) : null}

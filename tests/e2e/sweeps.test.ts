@@ -283,7 +283,13 @@ describe(`cancel and resume a sweep at ${PHONE.name} size`, { timeout: 300_000 }
             circuit: ring.circuit,
             program: { kind: "ladder", start: 10, durations: [5, 60], repeats: 1, gap: 60 },
             inputSignal: ring.inputSignal,
-            settings: { endTimeMinutes: 2000, replicates: 50_000, seed: "cancel-me", threshold: { value: 100 } },
+            settings: {
+              endTimeMinutes: 2000,
+              gridStepMinutes: 1,
+              replicates: 50_000,
+              seed: "cancel-me",
+              threshold: { value: 100 },
+            },
           },
           axes: [{ parameter: "rate(makeA)", grid: { from: 20, to: 200, count: 3, scale: "log" } }],
         },
@@ -304,12 +310,17 @@ describe(`cancel and resume a sweep at ${PHONE.name} size`, { timeout: 300_000 }
         /finished points and the replicates stored so far are kept; Resume sweep goes on with the other \d+ later\./,
       );
       assert.ok(["queued", "running"].includes(await status()), "still computing while the question is asked");
+      // the question wraps within the phone's width instead of running past it
+      const box = (await question.getByText(/^Cancel Ring scan to cancel\?/).boundingBox())!;
+      assert.ok(box.x + box.width <= PHONE.width, `question ends at ${box.x + box.width} px of ${PHONE.width}`);
       await assertAccessible(page, "sweep cancel question");
       await screenshot(page, "sweeps-phone-08-cancel-question");
       await page.getByTestId("cancel-sweep-confirm").click();
       await page.getByTestId("resume-sweep").waitFor({ timeout: 60_000 });
       assert.equal(await status(), "cancelled");
       await page.getByText("Cancelled", { exact: true }).first().waitFor();
+      // cancelled points are not counted as done
+      await page.getByText(/^0 of 3 points finished, 3 cancelled or failed · 50,000 replicates each$/).waitFor();
       await assertAccessible(page, "cancelled sweep");
       await screenshot(page, "sweeps-phone-09-cancelled");
       // Resume queues the unfinished points again and the screen offers Cancel once more

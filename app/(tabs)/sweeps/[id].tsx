@@ -88,6 +88,9 @@ export default function SweepDetailScreen() {
     );
   const s = q.data;
   const active = s.status === "queued" || s.status === "running";
+  // pointsDone counts every point that ended (cancelled and failed ones too)
+  const finishedPoints = s.points.filter((p) => p.status === "finished" || p.status === "capped").length;
+  const stoppedPoints = s.pointsDone - finishedPoints;
   const figLabel = FIGURES.find((f) => f.value === figure)!.label;
   const [ax, ay] = s.axes;
   const chart: ChartSpec | null =
@@ -114,7 +117,7 @@ export default function SweepDetailScreen() {
             <ConfirmAction
               label="Cancel sweep"
               icon="x-circle"
-              question={`Cancel ${s.name}? The ${formatCount(s.pointsDone)} finished points and the replicates stored so far are kept; Resume sweep goes on with the other ${formatCount(s.pointCount - s.pointsDone)} later.`}
+              question={`Cancel ${s.name}? The ${formatCount(finishedPoints)} finished points and the replicates stored so far are kept; Resume sweep goes on with the other ${formatCount(s.pointCount - finishedPoints)} later.`}
               confirmLabel="Cancel the sweep"
               busy={cancel.isPending}
               onConfirm={() => cancel.mutate(s.id)}
@@ -138,7 +141,10 @@ export default function SweepDetailScreen() {
         <StatusBadge status={s.status} />
         <ProgressBar value={s.pointCount ? s.pointsDone / s.pointCount : 0} label={`Progress of ${s.name}`} />
         <Text variant="caption" tone="muted">
-          {s.pointsDone} of {s.pointCount} points · {s.replicatesPerPoint} replicates each
+          {stoppedPoints > 0
+            ? `${formatCount(finishedPoints)} of ${formatCount(s.pointCount)} points finished, ${formatCount(stoppedPoints)} cancelled or failed`
+            : `${formatCount(s.pointsDone)} of ${formatCount(s.pointCount)} points`}{" "}
+          · {formatCount(s.replicatesPerPoint)} replicates each
         </Text>
       </Card>
       <SafetyNote />
