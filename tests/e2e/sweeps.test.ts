@@ -321,6 +321,11 @@ describe(`cancel and resume a sweep at ${PHONE.name} size`, { timeout: 300_000 }
       await page.getByText("Cancelled", { exact: true }).first().waitFor();
       // cancelled points are not counted as done
       await page.getByText(/^0 of 3 points finished, 3 cancelled or failed · 50,000 replicates each$/).waitFor();
+      assert.equal(
+        await page.getByRole("progressbar", { name: "Progress of Ring scan to cancel" }).getAttribute("aria-valuenow"),
+        "0",
+        "no point finished: the bar is empty, not full",
+      );
       await assertAccessible(page, "cancelled sweep");
       await screenshot(page, "sweeps-phone-09-cancelled");
       // Resume queues the unfinished points again and the screen offers Cancel once more

@@ -139,7 +139,11 @@ export default function SweepDetailScreen() {
     >
       <Card>
         <StatusBadge status={s.status} />
-        <ProgressBar value={s.pointCount ? s.pointsDone / s.pointCount : 0} label={`Progress of ${s.name}`} />
+        <ProgressBar
+          // while it computes, every ended point counts; once stopped, only the finished ones (a cancelled sweep is not full)
+          value={s.pointCount ? (active ? s.pointsDone : finishedPoints) / s.pointCount : 0}
+          label={`Progress of ${s.name}`}
+        />
         <Text variant="caption" tone="muted">
           {stoppedPoints > 0
             ? `${formatCount(finishedPoints)} of ${formatCount(s.pointCount)} points finished, ${formatCount(stoppedPoints)} cancelled or failed`
