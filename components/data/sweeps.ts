@@ -89,7 +89,10 @@ export function useCancelSweep() {
   const qc = useQueryClient();
   return useMutation({
     mutationFn: (id: string) => api(`/api/sweeps/${id}/cancel`, { method: "POST" }),
-    onSuccess: (_d, id) => qc.invalidateQueries({ queryKey: sweepKeys.detail(id) }),
+    onSuccess: (_d, id) => {
+      qc.invalidateQueries({ queryKey: sweepKeys.detail(id) });
+      qc.invalidateQueries({ queryKey: sweepKeys.lists() });
+    },
   });
 }
 

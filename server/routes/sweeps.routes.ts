@@ -13,7 +13,7 @@ export const sweepRoutes = defineRoutes([
     path: "/labs/:labId/sweeps",
     access: { kind: "lab", role: "viewer" },
     query: PageQuerySchema,
-    summary: `One page of the lab's sweeps with progress, newest first: {items, nextCursor} (?cursor=, ?limit= up to ${PAGE_SIZE_MAX}, default ${PAGE_SIZE}).`,
+    summary: `One page of the lab's sweeps with progress (pointsDone: points that ended; pointsFinished: those that finished, not cancelled or failed), newest first: {items, nextCursor} (?cursor=, ?limit= up to ${PAGE_SIZE_MAX}, default ${PAGE_SIZE}).`,
     handler: ({ ctx, labId, query }) => sweeps.listSweeps(ctx, labId, query),
   },
   {

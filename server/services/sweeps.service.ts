@@ -5,10 +5,17 @@
  * A cancelled or interrupted sweep resumes from the points (and chunks) it has.
  */
 import type { RegimeLabelValue } from "@/shared/schemas/regime";
-import { and, asc, count, eq, inArray, isNull } from "drizzle-orm";
+import { and, asc, count, eq, inArray, isNull, sql } from "drizzle-orm";
 import type { AppContext } from "@/server/context";
 import { inTransaction, schema } from "@/db/client";
-import { API_LIMITS, type LaunchSweep, type SweepDetail, type SweepListItem } from "@/shared/schemas/api-runs";
+import {
+  API_LIMITS,
+  ENDED_RUN_STATUSES,
+  FINISHED_RUN_STATUSES,
+  type LaunchSweep,
+  type SweepDetail,
+  type SweepListItem,
+} from "@/shared/schemas/api-runs";
 import type { RunSpec } from "@/shared/schemas/run-spec";
 import { listParameters, setParameter } from "@/sim";
 import { badRequest, conflict, notFound, tooMany } from "@/server/http-error";
@@ -327,6 +334,27 @@ const sweepOrder = keyset([
   { col: schema.sweeps.id, dir: "asc", type: "string" },
 ]);
 
+/**
+ * How many points of each sweep ended (`done`: finished, capped, failed or cancelled) and how many finished
+ * (`finished`: finished or capped), for a page of sweeps in one grouped query. A sweep with no ended point has
+ * no entry.
+ */
+function pointCounts(ctx: AppContext, sweepIds: string[]): Map<string, { done: number; finished: number }> {
+  if (sweepIds.length === 0) return new Map();
+  const r = schema.runs;
+  const rows = ctx.db
+    .select({
+      sweepId: r.sweepId,
+      done: count(),
+      finished: sql<number>`sum(${inArray(r.status, [...FINISHED_RUN_STATUSES])})`.mapWith(Number),
+    })
+    .from(r)
+    .where(and(inArray(r.sweepId, sweepIds), inArray(r.status, [...ENDED_RUN_STATUSES])))
+    .groupBy(r.sweepId)
+    .all();
+  return new Map(rows.map((x) => [x.sweepId!, { done: x.done, finished: x.finished }]));
+}
+
 /** One page of the lab's sweeps, newest first (ties by id); keyset on (created time descending, id). */
 export function listSweeps(ctx: AppContext, labId: string, q: PageQuery = {}): Page<SweepListItem> {
   const sw = schema.sweeps;
@@ -341,28 +369,20 @@ export function listSweeps(ctx: AppContext, labId: string, q: PageQuery = {}): P
     rows,
     q,
     (s) => [s.createdAt.getTime(), s.id],
-    (page) =>
-      page.map((s) => {
-        const done = ctx.db
-          .select({ n: count() })
-          .from(schema.runs)
-          .where(
-            and(
-              eq(schema.runs.sweepId, s.id),
-              inArray(schema.runs.status, ["finished", "capped", "failed", "cancelled"]),
-            ),
-          )
-          .get()!.n;
-        return {
-          id: s.id,
-          name: s.name,
-          status: s.status,
-          pointCount: s.pointCount,
-          pointsDone: done,
-          axes: (s.axes as any[]).map((a) => a.parameter),
-          createdAt: s.createdAt.toISOString(),
-        };
-      }),
+    (page) => {
+      const ids = page.map((s) => s.id);
+      const counts = pointCounts(ctx, ids);
+      return page.map((s) => ({
+        id: s.id,
+        name: s.name,
+        status: s.status,
+        pointCount: s.pointCount,
+        pointsDone: counts.get(s.id)?.done ?? 0,
+        pointsFinished: counts.get(s.id)?.finished ?? 0,
+        axes: (s.axes as any[]).map((a) => a.parameter),
+        createdAt: s.createdAt.toISOString(),
+      }));
+    },
   );
 }
 

@@ -9,6 +9,10 @@ import { AccelerationSchema, RunSettingsBlockSchema } from "./analysis";
 
 export const RUN_STATUS = ["queued", "running", "finished", "failed", "capped", "cancelled"] as const;
 export type RunStatus = (typeof RUN_STATUS)[number];
+/** The statuses of a run that finished with its figures (capped: some replicates stopped at the event cap). */
+export const FINISHED_RUN_STATUSES = ["finished", "capped"] as const satisfies readonly RunStatus[];
+/** The statuses of a run that ended, finished or not. */
+export const ENDED_RUN_STATUSES = ["finished", "capped", "failed", "cancelled"] as const satisfies readonly RunStatus[];
 
 /** Limits enforced by the API with 4xx answers (documented in the README). */
 export const API_LIMITS = {
@@ -365,7 +369,10 @@ export const SweepListItemSchema = z.object({
   name: z.string(),
   status: z.enum(RUN_STATUS),
   pointCount: z.number(),
+  /** Points that ended: finished, capped, failed or cancelled. */
   pointsDone: z.number(),
+  /** Points that finished (finished or capped): a cancelled or failed point is done but not finished. */
+  pointsFinished: z.number(),
   /** The swept parameter references. */
   axes: z.array(z.string()),
   createdAt: z.string(),

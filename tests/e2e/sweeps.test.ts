@@ -328,6 +328,18 @@ describe(`cancel and resume a sweep at ${PHONE.name} size`, { timeout: 300_000 }
       );
       await assertAccessible(page, "cancelled sweep");
       await screenshot(page, "sweeps-phone-09-cancelled");
+      // the sweep list counts the same way, and its bar is not full either
+      await page.goto(`${server.url}/sweeps`);
+      const card = page.locator(`a[href="/sweeps/${sweepId}"]`);
+      await card.getByText(/^0 of 3 points finished, 3 cancelled or failed$/).waitFor();
+      assert.equal(
+        await card.getByRole("progressbar", { name: "Progress of Ring scan to cancel" }).getAttribute("aria-valuenow"),
+        "0",
+        "no point finished: the list's bar is empty, not full",
+      );
+      await assertAccessible(page, "sweep list with a cancelled sweep");
+      await screenshot(page, "sweeps-phone-10-cancelled-list");
+      await card.click();
       // Resume queues the unfinished points again and the screen offers Cancel once more
       await page.getByTestId("resume-sweep").click();
       await page.getByTestId("cancel-sweep").waitFor({ timeout: 60_000 });

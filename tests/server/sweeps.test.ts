@@ -4,6 +4,8 @@ import { makeTestContext, signIn } from "@/tests/helpers/test-app";
 import { launchBody, realQueue } from "@/tests/helpers/run-helpers";
 import { SweepDetailSchema, SweepListPageSchema } from "@/shared/schemas/api-runs";
 import { REGIME_LABEL_VALUES } from "@/shared/schemas/regime";
+import { schema } from "@/db/client";
+import { eq } from "drizzle-orm";
 
 async function waitSweep(agent: any, id: string, timeoutMs = 180_000) {
   const t0 = Date.now();
@@ -105,6 +107,55 @@ test("a cancelled sweep resumes and finishes; bad axes get a 400 naming the fiel
     await editor.post(`/api/sweeps/${r.body.id}/restore`).expect(200);
     assert.equal((await editor.get(`/api/labs/${labId}/sweeps`)).body.items.length, 1);
     assert.equal((await editor.get(`/api/labs/${labId}/runs?sweepPoints=1`)).body.items.length, 4);
+  } finally {
+    await t.close();
+  }
+});
+
+test("the sweep list counts finished points apart from every ended one (pointsFinished, pointsDone)", async () => {
+  // the idle queue computes nothing: the points' statuses are set by hand
+  const t = await makeTestContext();
+  try {
+    const editor = await signIn(t.app, "editor@example.org");
+    const labId = t.demoLab!.id;
+    const base = launchBody({ replicates: 100 });
+    const baseBody = {
+      circuit: base.circuit,
+      program: base.program,
+      inputSignal: base.inputSignal,
+      settings: base.settings,
+    };
+    const launch = async (name: string, values: number[]) => {
+      const r = await editor
+        .post(`/api/labs/${labId}/sweeps`)
+        .send({ name, base: baseBody, axes: [{ parameter: "rate(makeZ)", values }] });
+      assert.equal(r.status, 201, JSON.stringify(r.body));
+      return r.body as { id: string; points: { index: number; runId: string }[] };
+    };
+    const mixed = await launch("mixed points", [10, 20, 30, 40, 50]);
+    const untouched = await launch("untouched", [10, 20]);
+    const statuses = ["finished", "capped", "cancelled", "failed", "queued"] as const;
+    for (const p of mixed.points)
+      t.ctx.db.update(schema.runs).set({ status: statuses[p.index] }).where(eq(schema.runs.id, p.runId)).run();
+    t.ctx.db.update(schema.sweeps).set({ status: "cancelled" }).where(eq(schema.sweeps.id, mixed.id)).run();
+
+    const r = await editor.get(`/api/labs/${labId}/sweeps`).expect(200);
+    const page = SweepListPageSchema.parse(r.body);
+    const byId = new Map(page.items.map((s) => [s.id, s]));
+    // finished and capped points finished; cancelled and failed ones ended without finishing; the queued one did not end
+    assert.deepEqual(
+      (({ pointCount, pointsDone, pointsFinished }) => ({ pointCount, pointsDone, pointsFinished }))(
+        byId.get(mixed.id)!,
+      ),
+      { pointCount: 5, pointsDone: 4, pointsFinished: 2 },
+    );
+    // a sweep none of whose points ended has zeros, not the other sweep's counts
+    assert.equal(byId.get(untouched.id)!.pointsDone, 0);
+    assert.equal(byId.get(untouched.id)!.pointsFinished, 0);
+    // the detail agrees: its finished points are the list's pointsFinished
+    const detail = SweepDetailSchema.parse((await editor.get(`/api/sweeps/${mixed.id}`)).body);
+    assert.equal(detail.pointsDone, 4);
+    assert.equal(detail.points.filter((p) => p.status === "finished" || p.status === "capped").length, 2);
   } finally {
     await t.close();
   }

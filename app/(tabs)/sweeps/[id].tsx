@@ -31,6 +31,7 @@ import { DefinitionLink } from "@/components/definitions/definition-link";
 import { MIN_TOUCH } from "@/components/theme/tokens";
 import { useBreakpoints } from "@/components/theme/use-breakpoints";
 import { RegimeMaps } from "@/components/sweeps/regime-map";
+import { isFinishedPoint, sweepProgress } from "@/components/sweeps/sweep-progress";
 import { TargetPanel } from "@/components/regimes/target-panel";
 import { useRefineSweep } from "@/components/data/regime-maps";
 import { ApiError } from "@/components/data/api";
@@ -88,9 +89,9 @@ export default function SweepDetailScreen() {
     );
   const s = q.data;
   const active = s.status === "queued" || s.status === "running";
-  // pointsDone counts every point that ended (cancelled and failed ones too)
-  const finishedPoints = s.points.filter((p) => p.status === "finished" || p.status === "capped").length;
-  const stoppedPoints = s.pointsDone - finishedPoints;
+  // pointsDone counts every point that ended (cancelled and failed ones too); finished ones from the points' statuses
+  const finishedPoints = s.points.filter((p) => isFinishedPoint(p.status)).length;
+  const progress = sweepProgress({ ...s, pointsFinished: finishedPoints });
   const figLabel = FIGURES.find((f) => f.value === figure)!.label;
   const [ax, ay] = s.axes;
   const chart: ChartSpec | null =
@@ -139,16 +140,9 @@ export default function SweepDetailScreen() {
     >
       <Card>
         <StatusBadge status={s.status} />
-        <ProgressBar
-          // while it computes, every ended point counts; once stopped, only the finished ones (a cancelled sweep is not full)
-          value={s.pointCount ? (active ? s.pointsDone : finishedPoints) / s.pointCount : 0}
-          label={`Progress of ${s.name}`}
-        />
+        <ProgressBar value={progress.fraction} label={`Progress of ${s.name}`} />
         <Text variant="caption" tone="muted">
-          {stoppedPoints > 0
-            ? `${formatCount(finishedPoints)} of ${formatCount(s.pointCount)} points finished, ${formatCount(stoppedPoints)} cancelled or failed`
-            : `${formatCount(s.pointsDone)} of ${formatCount(s.pointCount)} points`}{" "}
-          · {formatCount(s.replicatesPerPoint)} replicates each
+          {progress.caption} · {formatCount(s.replicatesPerPoint)} replicates each
         </Text>
       </Card>
       <SafetyNote />

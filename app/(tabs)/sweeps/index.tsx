@@ -13,6 +13,7 @@ import { useSweeps } from "@/components/data/sweeps";
 import { useRegimeMaps } from "@/components/data/regime-maps";
 import { useCurrentLab } from "@/components/data/current-lab";
 import { useTheme } from "@/components/theme/use-theme";
+import { sweepProgress } from "@/components/sweeps/sweep-progress";
 
 export default function SweepsScreen() {
   const t = useTheme();
@@ -39,23 +40,26 @@ export default function SweepsScreen() {
         />
       ) : (
         <View style={{ gap: t.spacing.sm }}>
-          {sweeps.data.map((s) => (
-            <Card key={s.id} href={`/sweeps/${s.id}`}>
-              <View style={{ flexDirection: "row", justifyContent: "space-between", gap: t.spacing.sm }}>
-                <Text variant="bodyStrong" style={{ flex: 1 }}>
-                  {s.name}
+          {sweeps.data.map((s) => {
+            const progress = sweepProgress(s);
+            return (
+              <Card key={s.id} href={`/sweeps/${s.id}`}>
+                <View style={{ flexDirection: "row", justifyContent: "space-between", gap: t.spacing.sm }}>
+                  <Text variant="bodyStrong" style={{ flex: 1 }}>
+                    {s.name}
+                  </Text>
+                  <StatusBadge status={s.status} />
+                </View>
+                <Text variant="caption" tone="muted">
+                  {s.axes.join(" × ")}
                 </Text>
-                <StatusBadge status={s.status} />
-              </View>
-              <Text variant="caption" tone="muted">
-                {s.axes.join(" × ")}
-              </Text>
-              <ProgressBar value={s.pointCount ? s.pointsDone / s.pointCount : 0} label={`Progress of ${s.name}`} />
-              <Text variant="caption" tone="muted">
-                {s.pointsDone} of {s.pointCount} points
-              </Text>
-            </Card>
-          ))}
+                <ProgressBar value={progress.fraction} label={`Progress of ${s.name}`} />
+                <Text variant="caption" tone="muted">
+                  {progress.caption}
+                </Text>
+              </Card>
+            );
+          })}
           <LoadMore list={sweeps} noun="sweeps" testID="sweeps-load-more" />
         </View>
       )}
