@@ -26,6 +26,7 @@ import { useTheme } from "@/components/theme/use-theme";
 import { DefinitionLink } from "@/components/definitions/definition-link";
 import { useBreakpoints } from "@/components/theme/use-breakpoints";
 import type { Comparison, ComparisonPair } from "@/shared/schemas/analysis";
+import { isFinishedRunStatus } from "@/shared/schemas/api-runs";
 
 const pct = (p: number | null) => formatProbability(p);
 const pval = (p: number) => formatPValue(p);
@@ -207,7 +208,7 @@ export default function Compare() {
       const r = chosen.byId.get(id);
       return r && !loaded.some((x) => x.id === id) ? [r] : [];
     }),
-    ...loaded.filter((r) => r.status === "finished" || r.status === "capped" || ids.includes(r.id)),
+    ...loaded.filter((r) => isFinishedRunStatus(r.status) || ids.includes(r.id)),
   ];
   const toggle = (id: string, on: boolean) => {
     const next = on ? [...ids, id].slice(0, 4) : ids.filter((x) => x !== id);

@@ -6,7 +6,7 @@
  * counts them apart: "0 of 3 points finished, 3 cancelled or failed"; otherwise "2 of 3 points".
  */
 import { formatCount } from "@/shared/number-format";
-import { FINISHED_RUN_STATUSES, type RunStatus } from "@/shared/schemas/api-runs";
+import type { RunStatus } from "@/shared/schemas/api-runs";
 
 export interface SweepProgressCounts {
   status: RunStatus;
@@ -26,7 +26,3 @@ export function sweepProgress(s: SweepProgressCounts): { fraction: number; capti
         : `${formatCount(s.pointsDone)} of ${formatCount(s.pointCount)} points`,
   };
 }
-
-/** Whether a sweep point (its run's status) counts as finished. */
-export const isFinishedPoint = (status: RunStatus): boolean =>
-  (FINISHED_RUN_STATUSES as readonly RunStatus[]).includes(status);

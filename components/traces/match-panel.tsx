@@ -20,9 +20,9 @@ import { useSweepNames, useSweeps } from "@/components/data/sweeps";
 import { useMatch, useRunMatch, type TraceSetDetail } from "@/components/data/traces";
 import { MatchResultView } from "./match-result";
 import type { MatchRequest } from "@/shared/schemas/api-traces";
+import { isFinishedRunStatus } from "@/shared/schemas/api-runs";
 import { formatNumber } from "@/shared/number-format";
-
-const DONE = new Set(["finished", "capped"]);
+import { sweepProgress } from "@/components/sweeps/sweep-progress";
 
 export type MatchFormValues = {
   target: "run" | "sweep";
@@ -80,7 +80,7 @@ export function MatchPanel({ traceSet, canEdit }: { traceSet: TraceSetDetail; ca
   const [shownId, setShownId] = useState<string | null>(traceSet.matches[0]?.id ?? null);
   const set = <K extends keyof MatchFormValues>(k: K, value: MatchFormValues[K]) => setV((s) => ({ ...s, [k]: value }));
 
-  const finishedRuns = (runs.data ?? []).filter((r) => DONE.has(r.status) && !r.sweepId);
+  const finishedRuns = (runs.data ?? []).filter((r) => isFinishedRunStatus(r.status) && !r.sweepId);
   const pendingRuns = (runs.data ?? []).filter((r) => (r.status === "running" || r.status === "queued") && !r.sweepId);
   const sweepList = sweeps.data ?? [];
   // Names of the runs shown matches were against, wherever they are in the paged list.
@@ -155,7 +155,7 @@ export function MatchPanel({ traceSet, canEdit }: { traceSet: TraceSetDetail; ca
               value={v.sweepId}
               options={sweepList.map((s) => ({
                 value: s.id,
-                label: `${s.name} (${s.pointsDone} of ${s.pointCount} points done)`,
+                label: `${s.name} (${sweepProgress(s).caption})`,
               }))}
               onChange={(x) => set("sweepId", x)}
             />

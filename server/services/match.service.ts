@@ -17,6 +17,7 @@ import { analyseStored } from "./traces.service";
 import { getParameter } from "@/sim/circuit/parameters";
 import { thresholdOnLoop } from "./runs.service";
 import { RunSpecSchema, type RunSpec } from "@/shared/schemas/run-spec";
+import { isFinishedRunStatus } from "@/shared/schemas/api-runs";
 import {
   MatchResultSchema,
   type MatchDetail,
@@ -27,8 +28,6 @@ import {
 } from "@/shared/schemas/api-traces";
 import { addRecord, matchPoints, summarizeFigures, type CandidatePoint, type FigureSummary } from "@/sim/traces/match";
 import { pooledPulses } from "@/sim/traces/trace-metrics";
-
-const DONE = new Set(["finished", "capped"]);
 
 /** Figures of a run from its stored pulses (streamed chunk by chunk; excluded pulses left out). */
 export function runFigures(ctx: AppContext, runId: string): FigureSummary {
@@ -107,7 +106,7 @@ export function runMatch(ctx: AppContext, userId: string, traceSetId: string, re
       .where(and(eq(r.id, req.runId), isNull(r.deletedAt)))
       .get();
     if (!run || run.labId !== row.labId) throw notFound("That run");
-    if (!DONE.has(run.status))
+    if (!isFinishedRunStatus(run.status))
       throw conflict(`That run is ${run.status}; match against a finished run.`, "run_not_finished");
     const spec = RunSpecSchema.parse(run.spec);
     used.push({ id: run.id, spec });
@@ -127,7 +126,7 @@ export function runMatch(ctx: AppContext, userId: string, traceSetId: string, re
       .orderBy(asc(r.sweepPoint))
       .all();
     for (const p of points) {
-      if (!DONE.has(p.status)) {
+      if (!isFinishedRunStatus(p.status)) {
         skipped.push({ runId: p.id, reason: `point ${p.sweepPoint} is ${p.status}` });
         continue;
       }

@@ -11,6 +11,9 @@ export const RUN_STATUS = ["queued", "running", "finished", "failed", "capped", 
 export type RunStatus = (typeof RUN_STATUS)[number];
 /** The statuses of a run that finished with its figures (capped: some replicates stopped at the event cap). */
 export const FINISHED_RUN_STATUSES = ["finished", "capped"] as const satisfies readonly RunStatus[];
+/** Whether a run (or a sweep point) with this status finished with its figures: one of FINISHED_RUN_STATUSES. */
+export const isFinishedRunStatus = (status: string): boolean =>
+  (FINISHED_RUN_STATUSES as readonly string[]).includes(status);
 /** The statuses of a run that ended, finished or not. */
 export const ENDED_RUN_STATUSES = ["finished", "capped", "failed", "cancelled"] as const satisfies readonly RunStatus[];
 

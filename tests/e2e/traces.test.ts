@@ -6,7 +6,9 @@
  * docs/examples/demo-traces.csv with the options that fit it
  * (DEMO_UPLOAD_OPTIONS), preview, save, see the headline cards and the chart,
  * match against the finished demo run "Tank sensor, hold on Duration ladder"
- * and see the distances and the overlay chart; delete (at once: the API
+ * and see the distances and the overlay chart (the panel's sweep choices count
+ * points as the sweep screens do: a sweep cancelled at the start reads "0 of 3
+ * points finished, 3 cancelled or failed"); delete (at once: the API
  * answers 404 for the set) and undo (the server restores it). axe-core runs
  * on each screen (no serious or critical violation), as do the 44 px
  * touch-target and label checks. Screenshots go to test-results/screenshots/.
@@ -19,9 +21,10 @@ import { join, resolve } from "node:path";
 import type { Page } from "playwright-core";
 import { startTestServer, DEMO_PASSWORD, type TestServer } from "@/tests/helpers/test-server";
 import { launchBrowser, screenshot, PHONE, WIDE, type Viewport, assertAccessible } from "./browser";
-import { signIn, DEMO_EDITOR } from "./flows";
+import { signIn, firstLabAndTemplate, DEMO_EDITOR } from "./flows";
 import { ensureWebBuild } from "@/scripts/build-web";
 import { DEMO_TRACES_NAME, DEMO_UPLOAD_OPTIONS } from "@/server/demo/traces";
+import { DEMO_SWEEP_NAME } from "@/server/demo/runs";
 
 const ROOT = resolve(__dirname, "..", "..");
 const DEMO_FILE = join(ROOT, "docs", "examples", "demo-traces.csv");
@@ -65,6 +68,34 @@ for (const vp of [PHONE, WIDE] as Viewport[]) {
       assert.equal(s.scale?.mode, "entered");
       try {
         await signIn(page, server.url, DEMO_EDITOR, DEMO_PASSWORD);
+
+        // A sweep cancelled at once (large enough that no point finishes first), for the match panel's counts.
+        const cancelledSweep = `Scan cancelled ${tag}`;
+        const { labId, template: ring } = await firstLabAndTemplate(page, server.url, "ring");
+        const launched = await page.request.post(`${server.url}/api/labs/${labId}/sweeps`, {
+          timeout: 120_000,
+          data: {
+            name: cancelledSweep,
+            base: {
+              circuit: ring.circuit,
+              program: { kind: "ladder", start: 10, durations: [5, 60], repeats: 1, gap: 60 },
+              inputSignal: ring.inputSignal,
+              settings: {
+                endTimeMinutes: 2000,
+                gridStepMinutes: 1,
+                replicates: 50_000,
+                seed: `cancel-${tag}`,
+                threshold: { value: 100 },
+              },
+            },
+            axes: [{ parameter: "rate(makeA)", grid: { from: 20, to: 200, count: 3, scale: "log" } }],
+          },
+        });
+        assert.equal(launched.status(), 201, await launched.text());
+        const sweepId = ((await launched.json()) as { id: string }).id;
+        const cancelled = await page.request.post(`${server.url}/api/sweeps/${sweepId}/cancel`, { timeout: 60_000 });
+        assert.equal(cancelled.status(), 200, await cancelled.text());
+        assert.equal(((await cancelled.json()) as { status: string }).status, "cancelled");
 
         // The navigation leads to the list; the seeded set is marked synthetic.
         if (vp.width < 768) {
@@ -165,6 +196,22 @@ for (const vp of [PHONE, WIDE] as Viewport[]) {
         await page.waitForTimeout(300);
         await assertAccessible(page, "uploaded set detail");
         await screenshot(page, `traces-${tag}-05-detail`);
+
+        // The sweep choices count points as the sweep screens do: a cancelled sweep's points are not finished.
+        const panel = page.getByTestId("match-panel");
+        await panel.getByRole("radio", { name: "A sweep", exact: true }).click();
+        await panel
+          .getByRole("radio", { name: `${DEMO_SWEEP_NAME} (9 of 9 points)`, exact: true })
+          .waitFor({ timeout: 360_000 });
+        await panel
+          .getByRole("radio", {
+            name: `${cancelledSweep} (0 of 3 points finished, 3 cancelled or failed)`,
+            exact: true,
+          })
+          .waitFor();
+        assert.doesNotMatch(await panel.getByTestId("match-sweep").innerText(), /points done/);
+        await assertAccessible(page, "match panel sweep choices");
+        await panel.getByRole("radio", { name: "A finished run", exact: true }).click();
 
         // Match against the finished demo run (the run list refreshes while runs are active).
         const runChoice = page.getByTestId("match-panel").getByRole("radio", { name: DEMO_RUN, exact: true });

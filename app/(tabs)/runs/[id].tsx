@@ -40,6 +40,7 @@ import { useCurrentLab } from "@/components/data/current-lab";
 import { useTheme } from "@/components/theme/use-theme";
 import { useBreakpoints } from "@/components/theme/use-breakpoints";
 import { formatCount, formatSeconds } from "@/shared/number-format";
+import { isFinishedRunStatus } from "@/shared/schemas/api-runs";
 
 function RunCharts({ runId, finished }: { runId: string; finished: boolean }) {
   const t = useTheme();
@@ -115,7 +116,7 @@ export default function RunDetailScreen() {
   const run = q.data;
   const summary = runSummary(run);
   const active = ACTIVE_STATUSES.has(run.status);
-  const hasResults = run.status === "finished" || run.status === "capped";
+  const hasResults = isFinishedRunStatus(run.status);
   const p = run.progress;
   return (
     <Screen

@@ -31,12 +31,13 @@ import { DefinitionLink } from "@/components/definitions/definition-link";
 import { MIN_TOUCH } from "@/components/theme/tokens";
 import { useBreakpoints } from "@/components/theme/use-breakpoints";
 import { RegimeMaps } from "@/components/sweeps/regime-map";
-import { isFinishedPoint, sweepProgress } from "@/components/sweeps/sweep-progress";
+import { sweepProgress } from "@/components/sweeps/sweep-progress";
 import { TargetPanel } from "@/components/regimes/target-panel";
 import { useRefineSweep } from "@/components/data/regime-maps";
 import { ApiError } from "@/components/data/api";
 import { API_LIMITS } from "@/shared/limits";
 import type { TargetAnswer } from "@/shared/schemas/api-regime-maps";
+import { isFinishedRunStatus } from "@/shared/schemas/api-runs";
 
 type Figure = "d50" | "falsePassRate" | "medianDelay" | "peak" | "fano";
 const FIGURES: { value: Figure; label: string }[] = [
@@ -90,7 +91,7 @@ export default function SweepDetailScreen() {
   const s = q.data;
   const active = s.status === "queued" || s.status === "running";
   // pointsDone counts every point that ended (cancelled and failed ones too); finished ones from the points' statuses
-  const finishedPoints = s.points.filter((p) => isFinishedPoint(p.status)).length;
+  const finishedPoints = s.points.filter((p) => isFinishedRunStatus(p.status)).length;
   const progress = sweepProgress({ ...s, pointsFinished: finishedPoints });
   const figLabel = FIGURES.find((f) => f.value === figure)!.label;
   const [ax, ay] = s.axes;
