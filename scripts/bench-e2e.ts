@@ -2,9 +2,13 @@
  * End-to-end benchmark: replicates of the benchmark circuit (docs/examples/
  * benchmark.json, through the CLI's loader) launched through the API of a real
  * server process (own free port, temporary database, no demo data), computed by
- * the run queue with everything stored. While it computes, signed-in requests
- * to /api/health and to the run list are sent at 10 per second each, and their
- * latencies recorded.
+ * the run queue with everything stored. While it computes, one signed-in client
+ * sends requests, in one of two ways (`client`):
+ *   "watching" (the default): as the app's run screen does while a run computes,
+ *     the run's detail every 2 s and the run list every 3 s (components/data/runs.ts);
+ *   "load": /api/health and the run list at 10 per second each, and the run's
+ *     detail every 200 ms (for the latency figures: p95 of each).
+ * Latencies are recorded either way.
  *
  * seconds: the server's own startedAt -> finishedAt of the run (queue, pool,
  *   storage and finalisation), after WARM_UP_RUNS (3) warm-up runs of WARM_UP_REPLICATES_PER_THREAD (500) per thread
@@ -29,9 +33,13 @@ import { DEFAULT_BENCH_SPEC, runEngineBench, WARM_UP_REPLICATES_PER_THREAD } fro
 import { startServerProcess } from "@/scripts/lib/spawn-server";
 import { cpuByThread, peakRssMb, processCpuSeconds, threadTimes, type CpuByThread } from "@/scripts/lib/proc-stat";
 
+/** How the bench's client behaves while the measured run computes (see the top of this file). */
+export type EndToEndClient = "watching" | "load";
+
 export interface EndToEndResult {
   replicates: number;
   threads: number;
+  client: EndToEndClient;
   /** Reaction firings of the run (the server's count). */
   events: number;
   seconds: number;
@@ -108,6 +116,8 @@ export async function runEndToEndBench(
      * measured run then starts on loaded, warm threads, as the engine-alone pool does after its warm-up.
      */
     warmUpRun?: boolean;
+    /** How the client behaves while the measured run computes (see the top of this file); default "watching". */
+    client?: EndToEndClient;
   } = {},
 ): Promise<EndToEndResult> {
   const replicates = opts.replicates ?? 10_000;
@@ -117,11 +127,13 @@ export async function runEndToEndBench(
   const engineAlone = async () =>
     (await runEngineBench({ threads: [threads], replicates, warmUpReplicates: WARM_UP_REPLICATES_PER_THREAD }))[0];
   const first = opts.engineFirst ? await engineAlone() : null;
-  const measured = await throughServer(replicates, threads, opts.warmUpRun ?? true);
+  const client = opts.client ?? "watching";
+  const measured = await throughServer(replicates, threads, opts.warmUpRun ?? true, client);
   const engine = first ?? (await engineAlone());
   return {
     replicates,
     threads,
+    client,
     ...measured,
     engineSeconds: engine.seconds,
     overheadRatio: measured.seconds / engine.seconds,
@@ -133,10 +145,15 @@ export async function runEndToEndBench(
 
 type Measured = Omit<
   EndToEndResult,
-  "replicates" | "threads" | "engineSeconds" | "overheadRatio" | "engineCpuSeconds" | "cpuRatio" | "engineCpuByThread"
+  "replicates" | "threads" | "client" | "engineSeconds" | "overheadRatio" | "engineCpuSeconds" | "cpuRatio" | "engineCpuByThread"
 >;
 
-export async function throughServer(replicates: number, threads: number, warmUpRun: boolean): Promise<Measured> {
+export async function throughServer(
+  replicates: number,
+  threads: number,
+  warmUpRun: boolean,
+  client: EndToEndClient = "watching",
+): Promise<Measured> {
   const spec = loadSpecFile(DEFAULT_BENCH_SPEC, { replicates });
   let measured: Measured | undefined;
   let inUse0: number | null = null;
@@ -179,11 +196,11 @@ export async function throughServer(replicates: number, threads: number, warmUpR
       if (launch.status !== 201) throw new Error(`launch failed: ${launch.status} ${await launch.text()}`);
       return (await launch.json()).id;
     };
-    const waitForEnd = async (id: string) => {
+    const waitForEnd = async (id: string, everyMs = 200) => {
       for (;;) {
         const r = await (await fetch(`${base}/api/runs/${id}`, { headers: { cookie } })).json();
         if (!["queued", "running"].includes(r.status)) return r;
-        await new Promise((res) => setTimeout(res, 200));
+        await new Promise((res) => setTimeout(res, everyMs));
       }
     };
     if (warmUpRun) {
@@ -218,16 +235,25 @@ export async function throughServer(replicates: number, threads: number, warmUpR
       into.push(performance.now() - t0);
     };
     let done = false;
-    const load = (async () => {
-      // 10 requests per second to each endpoint, bounded by the run's end (and by a hard count).
+    // Requests at a fixed period (bounded by the run's end and by a hard count): under "load" health and the run
+    // list each 10 per second; "watching" the run list every 3 s (the run's detail is waitForEnd's poll).
+    const every = async (periodMs: number, urls: [string, number[]][]) => {
       for (let i = 0; !done && i < 100_000; i++) {
         const tick = performance.now();
-        await Promise.all([timed(`${base}/api/health`, health), timed(`${base}/api/labs/${labId}/runs`, list)]);
-        const wait = 100 - (performance.now() - tick);
+        await Promise.all(urls.map(([url, into]) => timed(url, into)));
+        const wait = periodMs - (performance.now() - tick);
         if (wait > 0) await new Promise((r) => setTimeout(r, wait));
       }
-    })();
-    const run = await waitForEnd(runId);
+    };
+    const runList = `${base}/api/labs/${labId}/runs`;
+    const load =
+      client === "load"
+        ? every(100, [
+            [`${base}/api/health`, health],
+            [runList, list],
+          ])
+        : every(3000, [[runList, list]]);
+    const run = await waitForEnd(runId, client === "load" ? 200 : 2000);
     done = true;
     await load;
     if (run.status !== "finished") throw new Error(`run ended ${run.status}: ${run.statusReason}`);

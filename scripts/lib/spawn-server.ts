@@ -26,14 +26,21 @@ export interface ServerProcess {
 }
 
 export async function startServerProcess(
-  opts: { env?: Record<string, string>; dbPath?: string; dir?: string; timeoutMs?: number } = {},
+  opts: {
+    env?: Record<string, string>;
+    dbPath?: string;
+    dir?: string;
+    timeoutMs?: number;
+    /** Extra Node flags for the server (profiling: --cpu-prof, --trace-opt). */
+    nodeArgs?: string[];
+  } = {},
 ): Promise<ServerProcess> {
   const dir = opts.dir ?? mkdtempSync(join(tmpdir(), "linger-server-"));
   const dbPath = opts.dbPath ?? join(dir, "linger.db");
   let out = "";
   const child = fork(join(ROOT, "server", "index.ts"), [], {
     cwd: ROOT,
-    execArgv: ["--import", "tsx"],
+    execArgv: ["--import", "tsx", ...(opts.nodeArgs ?? [])],
     env: {
       ...process.env,
       PORT: "0",
