@@ -21,7 +21,10 @@
  *   finalisation that needs only the spec (threshold, ODE overlay, the
  *   behaviour labels' ensembles and mean-field work: sim/analysis/finalise-run.ts
  *   prepareFinalise), done while the replicates compute; "finalise" from
- *   ingested chunks then only summarises. Same bytes as without it.
+ *   ingested chunks then only summarises. With the threshold known, each
+ *   ingested chunk's summary samples are also sorted as it comes
+ *   (createRunSummaryBuilder), so the summary at the end only merges them.
+ *   Same bytes as without either.
  * - "drop": forget a run's ingested state (cancelled or failed).
  */
 import Database from "better-sqlite3";
@@ -37,6 +40,7 @@ import type { RunRegime } from "@/sim/regimes";
 import { completeFinalise, finaliseRun, prepareFinalise, type PreparedFinalise } from "@/sim/analysis";
 import { PULSE_FIELDS, packPulseStats, type PackedPulseStats } from "@/sim/engine/pulse-columns";
 import { createPulseTableBuilder } from "@/sim/analysis/pulse-table";
+import { createRunSummaryBuilder, type RunSummaryBuilder } from "@/sim/analysis/summarize-run";
 import {
   createStatsHasher,
   fromBlob,
@@ -99,6 +103,8 @@ export interface FinaliseResult {
   source: "ingested" | "database";
   /** The spec's part (threshold, ODE overlay, behaviour ensembles) was computed ahead by a "prepare" task. */
   preparedAhead: boolean;
+  /** The summary's samples were sorted as the chunks were ingested (the finalisation only merged them). */
+  summarisedAhead: boolean;
 }
 
 /** Computing time and ODE steps the ODE work of one finalisation (overlay, threshold, regime) may take. */
@@ -118,6 +124,11 @@ interface Reduction {
   replicates: StoredReplicate[];
   /** The pulse records as columns (sim/analysis/pulse-table.ts), not an object each: most of a large run's memory. */
   pulses: ReturnType<typeof createPulseTableBuilder>;
+  /**
+   * The summary's samples sorted as chunks come (sim/analysis/summarize-run.ts createRunSummaryBuilder), when
+   * the run's threshold was prepared before its first chunk; null when not (the summary is made at the end).
+   */
+  summary?: RunSummaryBuilder | null;
   /** prepareFinalise's result for the run's spec (or what it threw), when a "prepare" task came. */
   prepared?: { spec: RunSpec; value: PreparedFinalise } | { spec: RunSpec; error: Error };
 }
@@ -149,7 +160,19 @@ function reduceOne(r: Reduction, replicates: StoredReplicate[], pulses: PackedPu
   r.hasher.addReplicates(replicates);
   r.hasher.addPackedPulses(ordered);
   for (const x of replicates) r.replicates.push(x);
+  const from = r.pulses.length;
   r.pulses.append(packedAsStored(ordered));
+  if (r.summary === undefined) {
+    // from the first chunk on, or never: the builder must see every record
+    const prepared = r.prepared && "value" in r.prepared ? r.prepared : undefined;
+    r.summary = prepared
+      ? createRunSummaryBuilder({
+          windowMinutes: prepared.value.threshold.windowMinutes,
+          endTimeMinutes: prepared.spec.endTimeMinutes,
+        })
+      : null;
+  }
+  r.summary?.add(r.pulses.table(), from, r.pulses.length);
 }
 
 /** Local copies: under tsx an imported binding is read through a getter at every use. */
@@ -275,9 +298,12 @@ function finalise(task: FinaliseTask): FinaliseResult {
       !task.fromDatabase && ingested !== undefined && ingested.next === ingested.chunks && stored === ingested.chunks;
     const r = complete ? ingested : reduceFromDatabase(db, spec, task.runId, stored);
     const { mean, sd } = r.grid.result();
+    // Prepared ahead for this very spec (the stored one), or everything now.
+    const prepared = complete && r.prepared && sameSpec(r.prepared.spec, spec) ? r.prepared : undefined;
     const input = {
       spec,
       pulses: r.pulses.table(),
+      summaryParts: prepared && r.summary ? r.summary : undefined,
       replicates: r.replicates.map((x) => ({
         replicate: x.replicate,
         events: x.events,
@@ -286,8 +312,6 @@ function finalise(task: FinaliseTask): FinaliseResult {
         outputVar: x.outputVar ?? NaN,
       })),
     };
-    // Prepared ahead for this very spec (the stored one), or everything now.
-    const prepared = complete && r.prepared && sameSpec(r.prepared.spec, spec) ? r.prepared : undefined;
     if (prepared && "error" in prepared) throw prepared.error;
     const { ode, odeNote, summary, regime, replicateFigures } = prepared
       ? completeFinalise(prepared.value, input)
@@ -303,6 +327,7 @@ function finalise(task: FinaliseTask): FinaliseResult {
       odeNote,
       source: complete ? "ingested" : "database",
       preparedAhead: prepared !== undefined,
+      summarisedAhead: input.summaryParts !== undefined,
     };
   } finally {
     sqlite.close();

@@ -19,7 +19,7 @@ import { prepareRunRegime, settleRunRegime, type PreparedRunRegime, type RunRegi
 import { replicateFigures, type ReplicateFigures } from "@/sim/regimes/replicate-figures";
 import { runSettingsBlock } from "./run-settings";
 import type { PulseTable } from "./pulse-table";
-import { summarizeRun, type ReplicateTotals } from "./summarize-run";
+import { summarizeRun, type ReplicateTotals, type RunSummaryBuilder } from "./summarize-run";
 
 export interface FinaliseRunInput {
   spec: RunSpec;
@@ -28,6 +28,12 @@ export interface FinaliseRunInput {
   replicates: readonly ReplicateTotals[];
   /** The threshold the run was tracked with, when the caller already resolved it. */
   threshold?: ResolvedThreshold;
+  /**
+   * Every record of `pulses`, in order, already added to a summary builder (the server's finalising thread
+   * adds each chunk as it is stored): the summary is finished from it, the same bytes as from the records.
+   * Used only when it was made for the run's window and end time.
+   */
+  summaryParts?: RunSummaryBuilder;
 }
 
 export interface FinalisedRun {
@@ -102,14 +108,18 @@ function completeFinaliseUnderBudget(
 ): FinalisedRun {
   const { spec } = input;
   const { threshold, ode, odeNote } = prepared;
-  const summary = summarizeRun({
-    pulses: input.pulses,
+  const summaryInput = {
     replicates: input.replicates,
     threshold,
     noiseDurationMinutes: spec.threshold?.noiseDurationMinutes ?? 10,
     endTimeMinutes: spec.endTimeMinutes,
     settings: runSettingsBlock(spec, threshold),
-  });
+  };
+  const parts = input.summaryParts;
+  const summary =
+    parts && parts.windowMinutes === threshold.windowMinutes && parts.endTimeMinutes === spec.endTimeMinutes
+      ? parts.finish(summaryInput)
+      : summarizeRun({ pulses: input.pulses, ...summaryInput });
   let regime: RunRegime;
   try {
     if ("failed" in prepared.regime) throw new Error(prepared.regime.failed);

@@ -63,34 +63,36 @@ export function windowEndsOfTable(
   t: PulseTable,
   windowMinutes: number,
   endTimeMinutes: number = Infinity,
+  /** Records [from, to) only, whole replicates (a run's summary fed a chunk at a time); out[k] is record from + k's. */
+  from = 0,
+  to: number = t.length,
 ): Float64Array {
   const a = t.numbers;
-  const n = t.length;
   const rep = (i: number) => a[i * PULSE_FIELDS + F.replicate];
   const idx = (i: number) => a[i * PULSE_FIELDS + F.pulseIndex];
   const on = (i: number) => a[i * PULSE_FIELDS + F.on];
   let ordered = true;
-  for (let i = 0; i < n && ordered; i++) {
+  for (let i = from; i < to && ordered; i++) {
     if (!Number.isInteger(idx(i))) ordered = false;
-    else if (i > 0 && !(rep(i - 1) < rep(i) || (rep(i - 1) === rep(i) && idx(i - 1) < idx(i)))) ordered = false;
+    else if (i > from && !(rep(i - 1) < rep(i) || (rep(i - 1) === rep(i) && idx(i - 1) < idx(i)))) ordered = false;
   }
-  const out = new Float64Array(n);
+  const out = new Float64Array(to - from);
   if (ordered) {
-    for (let i = 0; i < n; i++) {
-      const next = i + 1 < n && rep(i + 1) === rep(i) && idx(i + 1) === idx(i) + 1 ? on(i + 1) : Infinity;
-      out[i] = Math.min(a[i * PULSE_FIELDS + F.off] + windowMinutes, next, endTimeMinutes);
+    for (let i = from; i < to; i++) {
+      const next = i + 1 < to && rep(i + 1) === rep(i) && idx(i + 1) === idx(i) + 1 ? on(i + 1) : Infinity;
+      out[i - from] = Math.min(a[i * PULSE_FIELDS + F.off] + windowMinutes, next, endTimeMinutes);
     }
     return out;
   }
   const byReplicate = new Map<number, Map<number, number>>();
-  for (let i = 0; i < n; i++) {
+  for (let i = from; i < to; i++) {
     let m = byReplicate.get(rep(i));
     if (!m) byReplicate.set(rep(i), (m = new Map()));
     m.set(idx(i), on(i));
   }
-  for (let i = 0; i < n; i++) {
+  for (let i = from; i < to; i++) {
     const next = byReplicate.get(rep(i))!.get(idx(i) + 1);
-    out[i] = Math.min(a[i * PULSE_FIELDS + F.off] + windowMinutes, next ?? Infinity, endTimeMinutes);
+    out[i - from] = Math.min(a[i * PULSE_FIELDS + F.off] + windowMinutes, next ?? Infinity, endTimeMinutes);
   }
   return out;
 }

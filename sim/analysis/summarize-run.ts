@@ -21,10 +21,10 @@ import type {
   RunSummary,
   ThresholdUsed,
 } from "@/shared/schemas/analysis";
-import { describe, describeInPlace, describeSorted, mean, medianInPlace } from "@/sim/stats/describe";
+import { describe, describeSorted, mean, medianSorted, noNaN } from "@/sim/stats/describe";
 import { mergeSorted } from "@/sim/stats/merge-sorted";
 import { histogram } from "@/sim/stats/histogram";
-import { kaplanMeierOfSortedTimes, kaplanMeierOfTimes, kmQuantile, kmQuantileInterval } from "@/sim/stats/kaplan-meier";
+import { kaplanMeierOfSortedTimes, kmQuantile, kmQuantileInterval } from "@/sim/stats/kaplan-meier";
 import { fitLogisticPass } from "@/sim/stats/logistic-fit";
 import { logisticGoodnessOfFit } from "@/sim/stats/logistic-goodness-of-fit";
 import { wilson } from "@/sim/stats/wilson-interval";
@@ -81,14 +81,280 @@ const finite = (x: number | null | undefined): number | null =>
   x !== null && x !== undefined && Number.isFinite(x) ? x : null;
 
 export function summarizeRun(input: SummarizeRunInput): RunSummary {
+  const summary = createRunSummaryBuilder({
+    windowMinutes: input.threshold.windowMinutes,
+    endTimeMinutes: input.endTimeMinutes ?? Infinity,
+  });
+  summary.add(pulseTable(input.pulses));
+  return summary.finish(input);
+}
+
+/** Samples sorted a chunk at a time, merged as they come (two runs when the older is no longer than the newer). */
+class SortedRuns {
+  private runs: Float64Array[] = [];
+  /** A chunk's values, sorted here (in place). */
+  push(values: Float64Array): void {
+    if (values.length === 0) return;
+    const runs = this.runs;
+    runs.push(values.sort());
+    while (runs.length >= 2 && runs[runs.length - 2].length <= runs[runs.length - 1].length) {
+      const b = runs.pop()!;
+      runs.push(mergeSorted([runs.pop()!, b]));
+    }
+  }
+  /** Every value pushed, in Float64Array sort order (the order sorting them all at once gives). */
+  merged(): Float64Array {
+    return mergeSorted(this.runs);
+  }
+}
+
+/** One pulse duration's records so far. */
+interface DurationGroup {
+  pulses: number;
+  passed: number;
+  excluded: number;
+  observed: SortedRuns;
+  censored: SortedRuns;
+  widths: SortedRuns;
+  peaks: SortedRuns;
+  offObserved: SortedRuns;
+}
+
+export type RunSummaryBuilder = ReturnType<typeof createRunSummaryBuilder>;
+
+/**
+ * summarizeRun fed the records a chunk at a time (whole replicates each, in record order), as the server's
+ * finalising thread receives them, so that the sorting (most of a summary's cost) happens while the run still
+ * computes: each chunk's samples are sorted as they come and merged with the earlier ones, and finish only
+ * merges what is left. Every figure of docs/metrics.md takes sorted samples (their order of summation is the
+ * sorted one) or sums in record order, so the summary is byte for byte summarizeRun's for any split into
+ * chunks (tests/sim/analysis/summary-builder.test.ts); the checks summarizeRun makes (NaN samples,
+ * non-finite delays) are made at finish, in its order, with its messages.
+ */
+export function createRunSummaryBuilder(opts: { windowMinutes: number; endTimeMinutes: number }) {
+  const { windowMinutes, endTimeMinutes } = opts;
+  const normalizeDuration = durationNormalizer();
+  let lastBin = NaN;
+  let lastDuration = NaN;
+  const groups = new Map<number, DurationGroup>();
+  let lastKey = NaN;
+  let lastGroup: DurationGroup | undefined;
+  const groupOf = (d: number): DurationGroup => {
+    if (d === lastKey && lastGroup !== undefined) return lastGroup;
+    let g = groups.get(d);
+    if (g === undefined)
+      groups.set(
+        d,
+        (g = {
+          pulses: 0,
+          passed: 0,
+          excluded: 0,
+          observed: new SortedRuns(),
+          censored: new SortedRuns(),
+          widths: new SortedRuns(),
+          peaks: new SortedRuns(),
+          offObserved: new SortedRuns(),
+        }),
+      );
+    lastKey = d;
+    lastGroup = g;
+    return g;
+  };
+  let nPulses = 0;
+  let excludedTotal = 0;
+  let evaluable = 0;
+  let passedTotal = 0;
+  let nFwhm = 0;
+  // the evaluable records' duration and delay, in record order, a chunk each (the delay cost sums in that order)
+  const rowDurations: Float64Array[] = [];
+  const rowDelays: Float64Array[] = [];
+  const rowObserved: Uint8Array[] = [];
+  const offCensored = new SortedRuns();
+  const fwhm = new SortedRuns();
+  const peakAboveBaseline = new SortedRuns();
+  const timeToPeak = new SortedRuns();
+  let finished = false;
+
+  return {
+    windowMinutes,
+    endTimeMinutes,
+    /** Records [from, to) of t (default all), whole replicates, after every record added before. */
+    add(t: PulseTable, from = 0, to: number = t.length): void {
+      if (finished) throw new Error("summary already finished");
+      const a = t.numbers;
+      const ws = t.widths;
+      const wStart = t.widthStart;
+      const at = (i: number, field: number) => a[i * PULSE_FIELDS + field];
+      const nullable = (x: number): number | null => (Number.isNaN(x) ? null : x);
+      const ends = windowEndsOfTable(t, windowMinutes, endTimeMinutes, from, to);
+      const n = to - from;
+      nPulses += n;
+      // ---- per record: survival observations for the response delay and the OFF delay; the chunk's
+      // evaluable records by duration (record order)
+      const duration = new Float64Array(n);
+      const delayTime = new Float64Array(n);
+      const delayEvent = new Uint8Array(n);
+      const offTime = new Float64Array(n);
+      const offKind = new Uint8Array(n);
+      const rowList: number[] = [];
+      const chunkGroups = new Map<DurationGroup, number[]>();
+      for (let k = 0; k < n; k++) {
+        const i = from + k;
+        // records come in runs of one duration: the last one's normalised value is reused (=== as the cache's key)
+        const bin = at(i, F.durationBin);
+        if (bin !== lastBin) {
+          lastBin = bin;
+          lastDuration = normalizeDuration(bin);
+        }
+        duration[k] = lastDuration;
+        const g = groupOf(lastDuration);
+        if (at(i, F.excluded) === 1) {
+          excludedTotal++;
+          g.excluded++;
+          continue;
+        }
+        const delay = nullable(at(i, F.delay));
+        if (delay !== null) {
+          delayTime[k] = delay;
+          delayEvent[k] = 1;
+        } else delayTime[k] = Math.max(0, ends[k] - at(i, F.on));
+        if (at(i, F.passed) === 1) {
+          const offDelay = nullable(at(i, F.offDelay));
+          if (offDelay !== null) {
+            offTime[k] = offDelay;
+            offKind[k] = 1;
+          } else {
+            offTime[k] = Math.max(0, ends[k] - at(i, F.off));
+            offKind[k] = 2;
+          }
+        }
+        rowList.push(k);
+        let list = chunkGroups.get(g);
+        if (list === undefined) chunkGroups.set(g, (list = []));
+        list.push(k);
+      }
+      const rows = Int32Array.from(rowList);
+      evaluable += rows.length;
+      const rowDuration = new Float64Array(rows.length);
+      const rowDelay = new Float64Array(rows.length);
+      const rowEvent = new Uint8Array(rows.length);
+      let nOffCensored = 0;
+      let chunkFwhm = 0;
+      for (let r = 0; r < rows.length; r++) {
+        const k = rows[r];
+        rowDuration[r] = duration[k];
+        rowDelay[r] = delayTime[k];
+        rowEvent[r] = delayEvent[k];
+        if (at(from + k, F.passed) === 1) passedTotal++;
+        if (offKind[k] === 2) nOffCensored++;
+        if (!Number.isNaN(at(from + k, F.fwhm))) chunkFwhm++;
+      }
+      rowDurations.push(rowDuration);
+      rowDelays.push(rowDelay);
+      rowObserved.push(rowEvent);
+      // ---- each duration's samples of this chunk, sorted into the group's
+      for (const [g, list] of chunkGroups) {
+        g.pulses += list.length;
+        let nObserved = 0;
+        let nOff = 0;
+        let nWidths = 0;
+        for (const k of list) {
+          nObserved += delayEvent[k];
+          if (offKind[k] === 1) nOff++;
+          nWidths += wStart[from + k + 1] - wStart[from + k];
+        }
+        const observed = new Float64Array(nObserved);
+        const censored = new Float64Array(list.length - nObserved);
+        const off = new Float64Array(nOff);
+        const widths = new Float64Array(nWidths);
+        const peaks = new Float64Array(list.length);
+        let o = 0;
+        let c = 0;
+        let f = 0;
+        let w = 0;
+        for (let q = 0; q < list.length; q++) {
+          const k = list[q];
+          const i = from + k;
+          if (delayEvent[k] === 1) observed[o++] = delayTime[k];
+          else censored[c++] = delayTime[k];
+          if (at(i, F.passed) === 1) {
+            g.passed++;
+            if (offKind[k] === 1) off[f++] = offTime[k];
+          }
+          for (let j = wStart[i]; j < wStart[i + 1]; j++) widths[w++] = ws[j];
+          peaks[q] = at(i, F.peak);
+        }
+        g.observed.push(observed);
+        g.censored.push(censored);
+        g.offObserved.push(off);
+        g.widths.push(widths);
+        g.peaks.push(peaks);
+      }
+      // ---- the run's samples over every evaluable record
+      const offC = new Float64Array(nOffCensored);
+      const fw = new Float64Array(chunkFwhm);
+      const above = new Float64Array(rows.length);
+      const toPeak = new Float64Array(rows.length);
+      for (let r = 0, c = 0, f = 0; r < rows.length; r++) {
+        const k = rows[r];
+        const i = from + k;
+        if (offKind[k] === 2) offC[c++] = offTime[k];
+        const x = nullable(at(i, F.fwhm));
+        if (x !== null) fw[f++] = x;
+        above[r] = at(i, F.peak) - at(i, F.baseline);
+        toPeak[r] = at(i, F.timeToPeak);
+      }
+      nFwhm += chunkFwhm;
+      offCensored.push(offC);
+      fwhm.push(fw);
+      peakAboveBaseline.push(above);
+      timeToPeak.push(toPeak);
+    },
+
+    /** The summary of every record added (the input's pulses are not read: they were added). */
+    finish(input: Omit<SummarizeRunInput, "pulses">): RunSummary {
+      if (finished) throw new Error("summary already finished");
+      finished = true;
+      if (input.threshold.windowMinutes !== windowMinutes || (input.endTimeMinutes ?? Infinity) !== endTimeMinutes)
+        throw new Error("summary builder made for another window or end time");
+      return finishSummary(input, {
+        groups,
+        nPulses,
+        excludedTotal,
+        evaluable,
+        passedTotal,
+        nFwhm,
+        rowDurations,
+        rowDelays,
+        rowObserved,
+        offCensored,
+        fwhm,
+        peakAboveBaseline,
+        timeToPeak,
+      });
+    },
+  };
+}
+
+interface Gathered {
+  groups: Map<number, DurationGroup>;
+  nPulses: number;
+  excludedTotal: number;
+  evaluable: number;
+  passedTotal: number;
+  nFwhm: number;
+  rowDurations: Float64Array[];
+  rowDelays: Float64Array[];
+  rowObserved: Uint8Array[];
+  offCensored: SortedRuns;
+  fwhm: SortedRuns;
+  peakAboveBaseline: SortedRuns;
+  timeToPeak: SortedRuns;
+}
+
+function finishSummary(input: Omit<SummarizeRunInput, "pulses">, s: Gathered): RunSummary {
   const { replicates, noiseDurationMinutes } = input;
-  // Records as columns (a table is read as it is): no object per record below, so a run of a million
-  // pulses needs a few arrays of numbers. Every figure takes its values in record order, as from objects.
-  const t = pulseTable(input.pulses);
-  const a = t.numbers;
-  const nPulses = t.length;
-  const at = (i: number, field: number) => a[i * PULSE_FIELDS + field];
-  const nullable = (x: number): number | null => (Number.isNaN(x) ? null : x);
+  const { nPulses, excludedTotal, passedTotal } = s;
   const th = input.threshold;
   const threshold: ThresholdUsed = {
     theta: th.theta,
@@ -97,132 +363,25 @@ export function summarizeRun(input: SummarizeRunInput): RunSummary {
     windowMinutes: th.windowMinutes,
     outputLifetimeMinutes: finite(th.outputLifetimeMinutes),
   };
-  const normalizeDuration = durationNormalizer();
-  let lastBin = NaN;
-  let lastDuration = NaN;
-  const ends = windowEndsOfTable(t, th.windowMinutes, input.endTimeMinutes ?? Infinity);
   const notes: string[] = [];
 
-  // ---- per pulse: survival observations for the response delay and the OFF delay
-  // rows: the evaluable records' indices; delayTime/delayEvent and offTime/offKind (0 none, 1 event, 2 censored)
-  const delayTime = new Float64Array(nPulses);
-  const delayEvent = new Uint8Array(nPulses);
-  const offTime = new Float64Array(nPulses);
-  const offKind = new Uint8Array(nPulses);
-  const duration = new Float64Array(nPulses);
-  const rowList: number[] = [];
-  let excludedTotal = 0;
-  for (let i = 0; i < nPulses; i++) {
-    // records come in runs of one duration: the last one's normalised value is reused (=== as the cache's key)
-    const bin = at(i, F.durationBin);
-    if (bin !== lastBin) {
-      lastBin = bin;
-      lastDuration = normalizeDuration(bin);
-    }
-    duration[i] = lastDuration;
-    if (at(i, F.excluded) === 1) {
-      excludedTotal++;
-      continue;
-    }
-    const delay = nullable(at(i, F.delay));
-    if (delay !== null) {
-      delayTime[i] = delay;
-      delayEvent[i] = 1;
-    } else delayTime[i] = Math.max(0, ends[i] - at(i, F.on));
-    if (at(i, F.passed) === 1) {
-      const offDelay = nullable(at(i, F.offDelay));
-      if (offDelay !== null) {
-        offTime[i] = offDelay;
-        offKind[i] = 1;
-      } else {
-        offTime[i] = Math.max(0, ends[i] - at(i, F.off));
-        offKind[i] = 2;
-      }
-    }
-    rowList.push(i);
-  }
-  const rows = Int32Array.from(rowList);
-  rowList.length = 0;
-  const passedAt = (i: number) => at(i, F.passed) === 1;
-  // Samples are gathered into Float64Arrays in record order and sorted in place by the figure that needs
-  // them sorted (describeInPlace, medianInPlace, Kaplan-Meier): one sort per sample, no copies.
-  const ws = t.widths;
-  const wStart = t.widthStart;
-  const widthsOf = (idx: ArrayLike<number>): Float64Array => {
-    let n = 0;
-    for (let k = 0; k < idx.length; k++) n += wStart[idx[k] + 1] - wStart[idx[k]];
-    const out = new Float64Array(n);
-    let w = 0;
-    for (let k = 0; k < idx.length; k++) {
-      const i = idx[k];
-      for (let j = wStart[i]; j < wStart[i + 1]; j++) out[w++] = ws[j];
-    }
-    return out;
-  };
-  const column = (idx: ArrayLike<number>, field: number): Float64Array => {
-    const out = new Float64Array(idx.length);
-    for (let k = 0; k < idx.length; k++) out[k] = a[idx[k] * PULSE_FIELDS + field];
-    return out;
-  };
-  /** The delays of the records idx, observed and censored apart, each in record order. */
-  const delayTimes = (idx: ArrayLike<number>): [Float64Array, Float64Array] => {
-    let nObserved = 0;
-    for (let k = 0; k < idx.length; k++) nObserved += delayEvent[idx[k]];
-    const observed = new Float64Array(nObserved);
-    const censored = new Float64Array(idx.length - nObserved);
-    for (let k = 0, o = 0, c = 0; k < idx.length; k++) {
-      const i = idx[k];
-      if (delayEvent[i] === 1) observed[o++] = delayTime[i];
-      else censored[c++] = delayTime[i];
-    }
-    return [observed, censored];
-  };
-
-  // ---- by duration
-  const groups = new Map<number, { rows: number[]; excluded: number }>();
-  // the last duration's group reused (a Map lookup per record was a measurable part of a large run's summary)
-  let lastKey = NaN;
-  let lastGroup: { rows: number[]; excluded: number } | undefined;
-  const groupOf = (d: number) => {
-    if (d !== lastKey || lastGroup === undefined) {
-      lastGroup = groups.get(d);
-      if (lastGroup === undefined) return undefined;
-      lastKey = d;
-    }
-    return lastGroup;
-  };
-  for (let i = 0; i < nPulses; i++) {
-    const d = duration[i];
-    let g = groupOf(d);
-    if (!g) groups.set(d, (g = { rows: [], excluded: 0 }));
-    if (at(i, F.excluded) === 1) g.excluded++;
-  }
-  for (const i of rows) groupOf(duration[i])!.rows.push(i);
-  const durations = [...groups.keys()].sort((x, y) => x - y);
-  // each duration's samples, sorted for its medians and its Kaplan-Meier curve, merged below into the whole
-  // run's and the pooled ones (every evaluable record is in one duration), instead of sorting every value again
+  // ---- by duration: each duration's samples, sorted for its medians and its Kaplan-Meier curve, merged below
+  // into the whole run's and the pooled ones (every evaluable record is in one duration)
+  const durations = [...s.groups.keys()].sort((x, y) => x - y);
   const groupWidths: Float64Array[] = [];
   const groupPeaks: Float64Array[] = [];
   const groupObserved: Float64Array[] = [];
   const groupCensored: Float64Array[] = [];
   const groupOffObserved: Float64Array[] = [];
   const byDuration: ByDurationEntry[] = durations.map((d) => {
-    const g = groups.get(d)!;
-    const n = g.rows.length;
-    let passed = 0;
-    const offDelayBuf = new Float64Array(n);
-    let nOff = 0;
-    for (const i of g.rows) {
-      if (!passedAt(i)) continue;
-      passed++;
-      const offDelay = nullable(at(i, F.offDelay));
-      if (offDelay !== null) offDelayBuf[nOff++] = offDelay;
-    }
-    const [observed, censored] = delayTimes(g.rows);
-    const km = kaplanMeierOfTimes(observed, censored);
-    const widthSample = widthsOf(g.rows);
-    const peakSample = column(g.rows, F.peak);
-    const offSample = offDelayBuf.subarray(0, nOff);
+    const g = s.groups.get(d)!;
+    const n = g.pulses;
+    const observed = g.observed.merged();
+    const censored = g.censored.merged();
+    const km = kaplanMeierOfSortedTimes(observed, censored);
+    const widthSample = g.widths.merged();
+    const peakSample = g.peaks.merged();
+    const offSample = g.offObserved.merged();
     groupWidths.push(widthSample);
     groupPeaks.push(peakSample);
     groupObserved.push(observed);
@@ -231,20 +390,19 @@ export function summarizeRun(input: SummarizeRunInput): RunSummary {
     return {
       duration: d,
       pulses: n,
-      passed,
-      passProbability: n > 0 ? passed / n : null,
-      ci: n > 0 ? wilson(passed, n) : null,
+      passed: g.passed,
+      passProbability: n > 0 ? g.passed / n : null,
+      ci: n > 0 ? wilson(g.passed, n) : null,
       medianDelay: n > 0 ? kmQuantile(km, 0.5) : null,
       medianDelayCi: n > 0 ? kmQuantileInterval(km, 0.5) : [null, null],
       medianDelayStatus: medianStatus(km),
       censored: km.censored,
       excluded: g.excluded,
-      medianWidth: medianInPlace(widthSample),
-      medianPeak: medianInPlace(peakSample),
-      medianOffDelay: medianInPlace(offSample),
+      medianWidth: medianSorted(widthSample),
+      medianPeak: medianSorted(peakSample),
+      medianOffDelay: medianSorted(offSample),
     };
   });
-  groups.clear();
 
   // ---- d50 from the monotone pass curve; the logistic fit is an optional smooth with its goodness of fit
   const passCounts = byDuration
@@ -288,13 +446,17 @@ export function summarizeRun(input: SummarizeRunInput): RunSummary {
   let longPulses = 0;
   let longResponded = 0;
   let longDelaySum = 0;
-  for (let k = 0; k < rows.length; k++) {
-    const i = rows[k];
-    if (!(duration[i] >= longMin)) continue;
-    longPulses++;
-    if (delayEvent[i] === 1) {
-      longResponded++;
-      longDelaySum += delayTime[i];
+  for (let c = 0; c < s.rowDurations.length; c++) {
+    const duration = s.rowDurations[c];
+    const delay = s.rowDelays[c];
+    const observed = s.rowObserved[c];
+    for (let r = 0; r < duration.length; r++) {
+      if (!(duration[r] >= longMin)) continue;
+      longPulses++;
+      if (observed[r] === 1) {
+        longResponded++;
+        longDelaySum += delay[r];
+      }
     }
   }
   let delayCost: RunSummary["delayCost"] = null;
@@ -322,38 +484,18 @@ export function summarizeRun(input: SummarizeRunInput): RunSummary {
   const pooledCensored = pooled(groupCensored);
   const delayCoverage = coverage(byDuration, responsive, pooledObserved.length + pooledCensored.length);
   const pooledDelay = summarizeSortedDelayTimes(pooledObserved, pooledCensored);
-  let passedTotal = 0;
-  let nOffCensored = 0;
-  for (const i of rows) {
-    if (passedAt(i)) passedTotal++;
-    if (offKind[i] === 2) nOffCensored++;
-  }
-  // the observed OFF delays are each duration's, sorted for its median (offKind 1: passed with an OFF delay)
-  const offCensored = new Float64Array(nOffCensored);
-  for (let k = 0, c = 0; k < rows.length; k++) {
-    const i = rows[k];
-    if (offKind[i] === 2) offCensored[c++] = offTime[i];
-  }
-  const offDelaySummary = summarizeSortedDelayTimes(mergeSorted(groupOffObserved), offCensored.sort());
+  // the observed OFF delays are each duration's, sorted for its median
+  const offDelaySummary = summarizeSortedDelayTimes(mergeSorted(groupOffObserved), s.offCensored.merged());
 
   // ---- widths and pulse generation (evaluable pulses)
   const widths = mergeSorted(groupWidths);
-  const fwhmBuf = new Float64Array(rows.length);
-  let nFwhm = 0;
-  const peakAboveBaseline = new Float64Array(rows.length);
-  for (let k = 0; k < rows.length; k++) {
-    const i = rows[k];
-    const fwhm = nullable(at(i, F.fwhm));
-    if (fwhm !== null) fwhmBuf[nFwhm++] = fwhm;
-    peakAboveBaseline[k] = at(i, F.peak) - at(i, F.baseline);
-  }
   const pulseGeneration = {
-    pulses: rows.length,
+    pulses: s.evaluable,
     peak: describeSorted(mergeSorted(groupPeaks)),
-    peakAboveBaseline: describeInPlace(peakAboveBaseline),
-    timeToPeak: describeInPlace(column(rows, F.timeToPeak)),
-    fwhm: describeInPlace(fwhmBuf.subarray(0, nFwhm)),
-    fwhmNotMeasurable: rows.length - nFwhm,
+    peakAboveBaseline: describeSorted(noNaN(s.peakAboveBaseline.merged())),
+    timeToPeak: describeSorted(noNaN(s.timeToPeak.merged())),
+    fwhm: describeSorted(noNaN(s.fwhm.merged())),
+    fwhmNotMeasurable: s.evaluable - s.nFwhm,
   };
 
   // ---- output noise from per-replicate moments (law of total variance)
@@ -403,7 +545,7 @@ export function summarizeRun(input: SummarizeRunInput): RunSummary {
       cappedReplicates: capped,
       events: { total: events, meanPerReplicate: replicates.length ? events / replicates.length : null },
       pulses: nPulses,
-      evaluable: rows.length,
+      evaluable: s.evaluable,
       excluded: excludedTotal,
       passed: passedTotal,
     },

@@ -66,8 +66,18 @@ export function medianInPlace(values: Float64Array): number | null {
 }
 
 function sortInPlace(values: Float64Array): Float64Array {
+  return noNaN(values).sort();
+}
+
+/** The values, after checking that none is NaN (the check sortInPlace makes). */
+export function noNaN<T extends ArrayLike<number>>(values: T): T {
   for (let i = 0; i < values.length; i++) if (values[i] !== values[i]) throw new RangeError("sample contains NaN");
-  return values.sort();
+  return values;
+}
+
+/** medianInPlace of values already in Float64Array sort order (merged sorted runs): the same checks and result. */
+export function medianSorted(sorted: Float64Array): number | null {
+  return sorted.length === 0 ? null : quantileSorted(noNaN(sorted), 0.5);
 }
 
 /** describe of numbers already ascending (as describe sorts them: -0 before +0, no NaN), without sorting. */

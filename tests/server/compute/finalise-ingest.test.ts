@@ -57,6 +57,7 @@ const ingestTask = (runId: string, spec: RunSpec, chunkIndex: number, r: ChunkRe
 function assertSame(a: FinaliseResult, b: FinaliseResult) {
   assert.equal(a.statsHash, b.statsHash);
   assert.deepEqual(a.summary, b.summary);
+  assert.equal(JSON.stringify(a.summary), JSON.stringify(b.summary), "the stored summary bytes");
   assert.deepEqual(a.regime, b.regime);
   assert.deepEqual(a.replicateFigures, b.replicateFigures);
   assert.equal(a.capped, b.capped);
@@ -111,8 +112,10 @@ test("finalising from chunks reduced as they arrive equals finalising from SQLit
     const fromDb = finaliser({ kind: "finalise", dbPath: t.dbPath, runId: "run_ingest_a", fromDatabase: true })!;
     assert.equal(ingested.source, "ingested");
     assert.equal(ingested.preparedAhead, true);
+    assert.equal(ingested.summarisedAhead, true, "the summary's samples were sorted as the chunks came");
     assert.equal(fromDb.source, "database");
     assert.equal(fromDb.preparedAhead, false);
+    assert.equal(fromDb.summarisedAhead, false);
     assertSame(ingested, fromDb);
     // The labels went through the pass-curve rule settled after the ensembles (a filter circuit with pulses).
     assert.ok(ingested.summary.byDuration.length >= 2);
@@ -127,6 +130,7 @@ test("finalising from chunks reduced as they arrive equals finalising from SQLit
     const unprepared = finaliser({ kind: "finalise", dbPath: t.dbPath, runId: "run_ingest_b" })!;
     assert.equal(unprepared.source, "ingested");
     assert.equal(unprepared.preparedAhead, false);
+    assert.equal(unprepared.summarisedAhead, false);
     assertSame(ingested, unprepared);
 
     // The CLI's hash of the same results in memory, and the hash of the stored rows once the series are stored.

@@ -6,12 +6,13 @@
  * responded and censored, no response, passed with the OFF delay censored,
  * several pulses per replicate, replicates with no pulse at all, excluded pulses,
  * widths from none to several, durations differing by round-off only, and
- * records in any order.
+ * records in any order; and so does the summary fed a few replicates at a time
+ * (createRunSummaryBuilder, what the finalising thread does with each chunk).
  */
 import { test } from "node:test";
 import assert from "node:assert/strict";
 import { simulateChunk, templates } from "@/sim";
-import { summarizeRun, type SummarizeRunInput } from "@/sim/analysis/summarize-run";
+import { createRunSummaryBuilder, summarizeRun, type SummarizeRunInput } from "@/sim/analysis/summarize-run";
 import { createPulseTableBuilder, pulseTable } from "@/sim/analysis/pulse-table";
 import { replicateFigures } from "@/sim/regimes/replicate-figures";
 import { resolveThreshold } from "@/sim/engine/resolve-threshold";
@@ -52,7 +53,22 @@ function assertSameEverywhere(input: SummarizeRunInput & { pulses: PulseStat[] }
   const b = createPulseTableBuilder();
   for (let i = 0; i < input.pulses.length; i += 7) b.append(packPulseStats(input.pulses.slice(i, i + 7)));
   const fromChunks = summarizeRun({ ...input, pulses: b.table() });
-  for (const s of [fromRecords, fromTable, fromChunks]) {
+  // the builder fed whole replicates at a time: one, seven and a varying number of replicates per chunk
+  const cuts = [0];
+  for (let i = 1; i < table.length; i++) if (input.pulses[i].replicate !== input.pulses[i - 1].replicate) cuts.push(i);
+  cuts.push(table.length);
+  const built = [1, 7, 0].map((every) => {
+    const summary = createRunSummaryBuilder({
+      windowMinutes: input.threshold.windowMinutes,
+      endTimeMinutes: input.endTimeMinutes ?? Infinity,
+    });
+    for (let k = 0, step = 1; k < cuts.length - 1; k += step) {
+      step = every || 1 + (k % 5);
+      summary.add(table, cuts[k], cuts[Math.min(k + step, cuts.length - 1)]);
+    }
+    return summary.finish(input);
+  });
+  for (const s of [fromRecords, fromTable, fromChunks, ...built]) {
     assert.deepStrictEqual(s, reference); // Object.is on numbers: -0 and 0 differ
     assert.equal(JSON.stringify(s), JSON.stringify(reference));
   }
@@ -134,7 +150,7 @@ test("column-based summary equals the record-based one", async (t) => {
           // a duration differing from another by round-off only
           return { ...p, durationBin: p.durationBin === 5 ? 4.999999999999998 : p.durationBin };
         case 2:
-          return { ...p, fwhm: null, widths: [1.5, 0.25, 3] };
+          return { ...p, fwhm: null, widths: i % 12 === 2 ? [0, -0, 1.5] : [1.5, 0.25, 3] };
         case 3:
           return { ...p, delay: null, passed: false, offDelay: null, widths: [] };
         case 4:
@@ -147,4 +163,34 @@ test("column-based summary equals the record-based one", async (t) => {
     // and with no pulse at all
     assertSameEverywhere({ pulses: [], replicates, threshold, noiseDurationMinutes: 10 }, null);
   });
+});
+
+test("the summary fed a chunk at a time fails as summarizeRun does, and only once", () => {
+  const s = spec({ kind: "ladder", start: 20, durations: [5, 60], repeats: 2, gap: 80 });
+  const { pulses, replicates, threshold } = simulated(s);
+  const input = { replicates, threshold, noiseDurationMinutes: 10, endTimeMinutes: s.endTimeMinutes };
+  const built = (records: PulseStat[]) => {
+    const b = createRunSummaryBuilder({ windowMinutes: threshold.windowMinutes, endTimeMinutes: s.endTimeMinutes });
+    const t = pulseTable(records);
+    const half = records.findIndex((p) => p.replicate >= replicates.length / 2);
+    b.add(t, 0, half);
+    b.add(t, half, t.length);
+    return b.finish(input);
+  };
+  // a peak that is not a number (only an engine bug would make one) and a delay that is not finite
+  const badPeak = pulses.map((p, i) => (i === 3 ? { ...p, excluded: false, peak: NaN } : p));
+  assert.throws(() => summarizeRun({ ...input, pulses: badPeak }), /sample contains NaN/);
+  assert.throws(() => built(badPeak), /sample contains NaN/);
+  const badDelay = pulses.map((p, i) => (i === 3 ? { ...p, excluded: false, delay: Infinity } : p));
+  assert.throws(() => summarizeRun({ ...input, pulses: badDelay }), /times must be finite/);
+  assert.throws(() => built(badDelay), /times must be finite/);
+  // finished once, for the window and end time it was made for
+  const b = createRunSummaryBuilder({ windowMinutes: threshold.windowMinutes, endTimeMinutes: s.endTimeMinutes });
+  b.add(pulseTable(pulses));
+  assert.throws(() => b.finish({ ...input, endTimeMinutes: s.endTimeMinutes + 1 }), /another window or end time/);
+  const b2 = createRunSummaryBuilder({ windowMinutes: threshold.windowMinutes, endTimeMinutes: s.endTimeMinutes });
+  b2.add(pulseTable(pulses));
+  assert.deepStrictEqual(b2.finish(input), summarizeRun({ ...input, pulses }));
+  assert.throws(() => b2.finish(input), /already finished/);
+  assert.throws(() => b2.add(pulseTable(pulses)), /already finished/);
 });
