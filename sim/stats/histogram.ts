@@ -22,28 +22,34 @@ export function histogram(
   values: readonly number[] | Float64Array,
   options: { binCount?: number; min?: number; max?: number } = {},
 ): Histogram {
-  const finite = (values as readonly number[]).filter((v) => Number.isFinite(v));
+  // index loops over the values as they are (no filtered copy: a run's widths are a Float64Array of a million)
+  let nFinite = 0;
   let lo = Infinity;
   let hi = -Infinity;
-  for (const v of finite) {
+  for (let i = 0; i < values.length; i++) {
+    const v = values[i];
+    if (!Number.isFinite(v)) continue;
+    nFinite++;
     if (v < lo) lo = v;
     if (v > hi) hi = v;
   }
-  let min = options.min ?? (finite.length ? lo : 0);
-  let max = options.max ?? (finite.length ? hi : 1);
+  let min = options.min ?? (nFinite ? lo : 0);
+  let max = options.max ?? (nFinite ? hi : 1);
   if (!(max > min)) {
     // a single value (or none): one unit-wide bin centred on it
     min = min - 0.5;
     max = min + 1;
   }
-  const bins = Math.max(1, Math.floor(options.binCount ?? sturgesBinCount(finite.length)));
+  const bins = Math.max(1, Math.floor(options.binCount ?? sturgesBinCount(nFinite)));
   const width = (max - min) / bins;
   const edges: number[] = [];
   for (let k = 0; k <= bins; k++) edges.push(k === bins ? max : min + k * width);
   const counts = new Array<number>(bins).fill(0);
   let below = 0;
   let above = 0;
-  for (const v of finite) {
+  for (let i = 0; i < values.length; i++) {
+    const v = values[i];
+    if (!Number.isFinite(v)) continue;
     if (v < min) below++;
     else if (v > max) above++;
     else counts[Math.min(bins - 1, Math.floor((v - min) / width))]++;
