@@ -4,7 +4,8 @@
  * - "ingest" (sent by the run queue after each chunk is stored): the chunk's
  *   replicate totals, pulse columns and grid sums, reduced as they arrive, in
  *   chunk order (chunks that come early wait for the ones before them): grid
- *   sums added, replicate lines hashed, pulse lines rendered for the hash, the
+ *   sums added, replicate rows and pulse columns hashed (statistics hash
+ *   version 2: run-store.ts computeStatsHash), the
  *   records kept in the form SQLite gives them back, as columns of numbers
  *   (sim/analysis/pulse-table.ts; an object per record was most of the memory
  *   of a 100,000-replicate run). So finalisation does not
@@ -42,6 +43,7 @@ import { PULSE_FIELDS, packPulseStats, type PackedPulseStats } from "@/sim/engin
 import { createPulseTableBuilder } from "@/sim/analysis/pulse-table";
 import { createRunSummaryBuilder, type RunSummaryBuilder } from "@/sim/analysis/summarize-run";
 import {
+  computeStatsHash,
   createStatsHasher,
   fromBlob,
   gridSeries,
@@ -49,6 +51,7 @@ import {
   readPulseStats,
   readReplicateRows,
   replicateAsStored,
+  statsHashVersion,
 } from "@/server/compute/run-store";
 import { THREAD_NAMES, nameThisThread } from "./thread-priority";
 
@@ -322,7 +325,11 @@ function finalise(task: FinaliseTask): FinaliseResult {
       summary,
       regime,
       replicateFigures,
-      statsHash: r.hasher.digest(series),
+      statsHash:
+        run.expectedStatsHash && statsHashVersion(run.expectedStatsHash) === 1
+          ? // a reproduction of a run hashed by version 1: the same version, from the rows as stored
+            computeStatsHash(readReplicateRows(db, task.runId), readPulseStats(db, task.runId), series, 1)
+          : r.hasher.digest(series),
       capped: r.replicates.some((x) => x.capped),
       odeNote,
       source: complete ? "ingested" : "database",

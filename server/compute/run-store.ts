@@ -4,7 +4,7 @@
  * a crash never leaves half a chunk; finalisation writes the series, summary
  * and hash in one more.
  */
-import { createHash } from "node:crypto";
+import { createHash, type Hash } from "node:crypto";
 import { asc, eq } from "drizzle-orm";
 import type Database from "better-sqlite3";
 import type { Db } from "@/db/client";
@@ -129,40 +129,63 @@ export function readChunks(db: Db, runId: string) {
     .all();
 }
 
+type ReplicateRow = {
+  replicate: number;
+  events: number;
+  capped: boolean;
+  outputMean: number | null;
+  outputVar: number | null;
+};
+
+/** The prefix of a version 2 statistics hash; a version 1 hash is 64 hex digits alone. */
+export const STATS_HASH_V2 = "v2:";
+export const statsHashVersion = (hash: string): 1 | 2 => (hash.startsWith(STATS_HASH_V2) ? 2 : 1);
+
 /**
- * Content hash of the stored statistics: every replicate row and pulse row in
- * index order, and the grid mean/SD series (species order, mean then sd), as
- * canonical text. Two runs with the same hash stored the same numbers.
+ * Content hash of the stored statistics: every replicate row and pulse row in index order, and the grid
+ * mean/SD series (species order, mean then sd). Two runs with the same hash stored the same numbers.
+ *
+ * Version 2 (what runs get now, "v2:" and 64 hex digits): the numbers as doubles, so that the finalising
+ * thread hashes each chunk's columns as they are instead of rendering a line of text per record (most of
+ * its per-chunk work): sha256 over "linger statistics v2\n", then the sha256 of the replicate rows
+ * (replicate, events, capped as 0/1, output mean, output variance per row), of the pulse rows (replicate,
+ * pulse index, on, off, duration, excluded and passed as 0/1, delay, OFF delay, peak, time to peak, FWHM,
+ * width count, baseline per row) and of every row's widths in row order, then each series'
+ * "species/kind:" and its bytes. Doubles are little-endian, -0 is written as 0 and every null or NaN as
+ * one NaN (0x7ff8000000000000): the numbers a version 1 line tells apart, this tells apart.
+ * Version 1 (runs finalised before; "r ..." and "p ..." lines of text per row, canonicalReplicate and
+ * canonicalPulse): still computed for a reproduction of a run whose hash is version 1, so it can be
+ * compared (the finalising thread reads the rows back for it).
  */
 export function computeStatsHash(
-  replicates: {
-    replicate: number;
-    events: number;
-    capped: boolean;
-    outputMean: number | null;
-    outputVar: number | null;
-  }[],
+  replicates: ReplicateRow[],
   pulses: PulseStat[],
   series: { species: string; kind: string; values: Uint8Array }[],
+  version: 1 | 2 = 2,
 ): string {
-  const h = createStatsHasher();
+  const h = createStatsHasher(version);
   h.addReplicates(replicates);
   h.addPulses(pulses);
   return h.digest(series);
 }
 
+export type StatsHasher = ReturnType<typeof createStatsHasher>;
+
 /**
- * computeStatsHash fed a chunk at a time (the finalising thread, as chunks are
- * stored): replicate lines go into the hash at once; pulse lines, which the
- * definition puts after every replicate line, are rendered at once and hashed at
- * digest. Fed in (replicate, pulse) order, the digest equals computeStatsHash's.
+ * computeStatsHash fed a chunk at a time (the finalising thread, as chunks are stored), in (replicate, pulse)
+ * order: the digest equals computeStatsHash's. Version 2 streams each part into its own sha256 (nothing is
+ * held); version 1 holds the pulse lines until the digest (they come after every replicate line).
  */
-export function createStatsHasher() {
+export function createStatsHasher(version: 1 | 2 = 2) {
+  return version === 2 ? statsHasherV2() : statsHasherV1();
+}
+
+function statsHasherV1() {
   const h = createHash("sha256");
   /** Flat bytes (the lines are ASCII), not the string ropes `+=` builds: a large run holds millions of lines. */
   const pulseText: Buffer[] = [];
   return {
-    addReplicates(rows: readonly Parameters<typeof canonicalReplicate>[0][]) {
+    addReplicates(rows: readonly ReplicateRow[]) {
       let text = "";
       for (const r of rows) text += canonicalReplicate(r) + "\n";
       h.update(text);
@@ -172,22 +195,114 @@ export function createStatsHasher() {
       for (const p of pulses) text += canonicalPulse(p) + "\n";
       pulseText.push(Buffer.from(text, "utf8"));
     },
-    /** addPulses of records as columns (the same lines as their pulseAsStored records give), no object each. */
-    addPackedPulses(packed: PackedPulseStats) {
-      pulseText.push(Buffer.from(canonicalPulseLines(packed), "latin1"));
+    /** Version 1 is only computed from records (a reproduction of a version 1 run reads them back). */
+    addPackedPulses(): never {
+      throw new Error("a version 1 statistics hash is computed from the stored rows");
     },
     digest(series: { species: string; kind: string; values: Uint8Array }[]): string {
       for (const t of pulseText) h.update(t);
       pulseText.length = 0;
-      const sorted = series
-        .filter((s) => s.kind !== "ode")
-        .sort((a, b) =>
-          a.species < b.species ? -1 : a.species > b.species ? 1 : a.kind < b.kind ? -1 : a.kind > b.kind ? 1 : 0,
-        );
-      for (const s of sorted) h.update(`${s.species}/${s.kind}:`).update(s.values);
-      return h.digest("hex");
+      return digestSeries(h, series).digest("hex");
     },
   };
+}
+
+function statsHasherV2() {
+  const replicates = createHash("sha256");
+  const pulses = createHash("sha256");
+  const widths = createHash("sha256");
+  return {
+    addReplicates(rows: readonly ReplicateRow[]) {
+      const a = new Float64Array(rows.length * 5);
+      rows.forEach((r, i) => {
+        a[i * 5] = r.replicate;
+        a[i * 5 + 1] = r.events;
+        a[i * 5 + 2] = r.capped ? 1 : 0;
+        a[i * 5 + 3] = r.outputMean ?? NaN;
+        a[i * 5 + 4] = r.outputVar ?? NaN;
+      });
+      replicates.update(canonicalBytes(a));
+    },
+    /** Records as readPulseStats gives them (null as NaN). */
+    addPulses(records: readonly PulseStat[]) {
+      const a = new Float64Array(records.length * FIELD_COUNT);
+      let nw = 0;
+      for (const p of records) nw += p.widths.length;
+      const w = new Float64Array(nw);
+      let k = 0;
+      records.forEach((p, i) => {
+        const o = i * FIELD_COUNT;
+        a[o] = p.replicate;
+        a[o + 1] = p.pulseIndex;
+        a[o + 2] = p.on;
+        a[o + 3] = p.off;
+        a[o + 4] = p.durationBin;
+        a[o + 5] = p.excluded ? 1 : 0;
+        a[o + 6] = p.passed ? 1 : 0;
+        a[o + 7] = p.delay ?? NaN;
+        a[o + 8] = p.offDelay ?? NaN;
+        a[o + 9] = p.peak ?? NaN;
+        a[o + 10] = p.timeToPeak ?? NaN;
+        a[o + 11] = p.fwhm ?? NaN;
+        a[o + 12] = p.widths.length;
+        a[o + 13] = p.baseline ?? NaN;
+        for (const x of p.widths) w[k++] = x ?? NaN;
+      });
+      pulses.update(canonicalBytes(a));
+      widths.update(canonicalBytes(w));
+    },
+    /**
+     * addPulses of the records of packed columns (unpackPulseStats(packed).map(pulseAsStored)), without the
+     * records: flags as 0/1 (1 only for 1), non-finite widths as NaN (their JSON round trip makes them null).
+     */
+    addPackedPulses(packed: PackedPulseStats) {
+      const a = packed.numbers.slice();
+      for (let o = 0; o < a.length; o += FIELD_COUNT) {
+        a[o + 5] = a[o + 5] === 1 ? 1 : 0;
+        a[o + 6] = a[o + 6] === 1 ? 1 : 0;
+      }
+      const w = packed.widths.slice();
+      for (let j = 0; j < w.length; j++) if (!Number.isFinite(w[j])) w[j] = NaN;
+      pulses.update(canonicalBytes(a));
+      widths.update(canonicalBytes(w));
+    },
+    digest(series: { species: string; kind: string; values: Uint8Array }[]): string {
+      const h = createHash("sha256").update("linger statistics v2\n");
+      h.update(replicates.digest()).update(pulses.digest()).update(widths.digest());
+      return STATS_HASH_V2 + digestSeries(h, series).digest("hex");
+    },
+  };
+}
+
+/** The grid series into a hash: mean and SD of each species (the ODE overlay is not a statistic), sorted. */
+function digestSeries(h: Hash, series: { species: string; kind: string; values: Uint8Array }[]): Hash {
+  const sorted = series
+    .filter((s) => s.kind !== "ode")
+    .sort((a, b) =>
+      a.species < b.species ? -1 : a.species > b.species ? 1 : a.kind < b.kind ? -1 : a.kind > b.kind ? 1 : 0,
+    );
+  for (const s of sorted) h.update(`${s.species}/${s.kind}:`).update(s.values);
+  return h;
+}
+
+const LITTLE_ENDIAN = new Uint8Array(new Float64Array([1]).buffer)[7] === 0x3f;
+
+/** Doubles as little-endian bytes, -0 as 0 and every NaN as 0x7ff8000000000000 (in place: a's own copy). */
+function canonicalBytes(a: Float64Array): Uint8Array {
+  const bits = new Uint32Array(a.buffer, a.byteOffset, a.length * 2);
+  const hi = LITTLE_ENDIAN ? 1 : 0;
+  for (let i = 0; i < a.length; i++) {
+    const x = a[i];
+    if (x !== x) {
+      bits[2 * i + hi] = 0x7ff80000;
+      bits[2 * i + 1 - hi] = 0;
+    } else if (x === 0) a[i] = 0;
+  }
+  if (LITTLE_ENDIAN) return new Uint8Array(a.buffer, a.byteOffset, a.byteLength);
+  const out = new Uint8Array(a.byteLength);
+  const view = new DataView(out.buffer);
+  for (let i = 0; i < a.length; i++) view.setFloat64(i * 8, a[i], true);
+  return out;
 }
 
 /**
@@ -267,13 +382,14 @@ export function statsHashInMemory(
   return computeStatsHash(reps, ps, series);
 }
 
-/** The hash of a run's stored statistics as they are in the database. */
-export function statsHash(db: Db, runId: string): string {
+/** The hash of a run's stored statistics as they are in the database (version 2 unless asked; computeStatsHash). */
+export function statsHash(db: Db, runId: string, version: 1 | 2 = 2): string {
   const series = db.select().from(schema.runSeries).where(eq(schema.runSeries.runId, runId)).all();
   return computeStatsHash(
     readReplicateRows(db, runId),
     readPulseStats(db, runId),
     series.map((s) => ({ species: s.species, kind: s.kind, values: s.values as Buffer })),
+    version,
   );
 }
 
@@ -286,61 +402,6 @@ export const canonicalReplicate = (r: {
 }) => `r ${r.replicate} ${r.events} ${r.capped ? 1 : 0} ${r.outputMean} ${r.outputVar}`;
 export const canonicalPulse = (p: PulseStat) =>
   `p ${p.replicate} ${p.pulseIndex} ${p.on} ${p.off} ${p.durationBin} ${p.excluded ? 1 : 0} ${p.passed ? 1 : 0} ${p.delay} ${p.offDelay} ${JSON.stringify(p.widths)} ${p.peak} ${p.timeToPeak} ${p.fwhm} ${p.baseline}`;
-
-/**
- * canonicalPulse(pulseAsStored(p)) + "\n" for every record of packed columns, in their order
- * (unpackPulseStats(packed) records), without making the records: the per-chunk reduction renders
- * about 1,300 of these per 100 replicates of the benchmark circuit. Numbers are written as a template
- * string writes them (String(x)); the figures pulseAsStored turns from NaN to null as "null"; widths as
- * JSON.stringify writes them after their JSON round trip (a non-finite width as null). Held equal to
- * canonicalPulse on generated edge values (tests/server/compute/pulse-lines.test.ts).
- */
-export function canonicalPulseLines(packed: PackedPulseStats): string {
-  const a = packed.numbers;
-  const ws = packed.widths;
-  const n = a.length / FIELD_COUNT;
-  let text = "";
-  let w = 0;
-  for (let i = 0; i < n; i++) {
-    const o = i * FIELD_COUNT;
-    const nw = a[o + 12];
-    let widths = "[";
-    for (let j = 0; j < nw; j++) {
-      const x = ws[w++];
-      widths += (j > 0 ? "," : "") + (Number.isFinite(x) ? String(x) : "null");
-    }
-    text +=
-      "p " +
-      String(a[o]) +
-      " " +
-      String(a[o + 1]) +
-      " " +
-      String(a[o + 2]) +
-      " " +
-      String(a[o + 3]) +
-      " " +
-      String(a[o + 4]) +
-      (a[o + 5] === 1 ? " 1" : " 0") +
-      (a[o + 6] === 1 ? " 1 " : " 0 ") +
-      orNullText(a[o + 7]) +
-      " " +
-      orNullText(a[o + 8]) +
-      " " +
-      widths +
-      "] " +
-      orNullText(a[o + 9]) +
-      " " +
-      orNullText(a[o + 10]) +
-      " " +
-      orNullText(a[o + 11]) +
-      " " +
-      orNullText(a[o + 13]) +
-      "\n";
-  }
-  return text;
-}
-
-const orNullText = (x: number) => (x !== x ? "null" : String(x));
 
 /** The first difference between two runs' stored statistics, or null when identical. */
 export function firstDifference(db: Db, a: string, b: string): string | null {

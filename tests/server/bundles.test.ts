@@ -4,6 +4,7 @@ import { makeTestContext, signIn } from "@/tests/helpers/test-app";
 import { launchBody, realQueue, waitForRun } from "@/tests/helpers/run-helpers";
 import { schema } from "@/db/client";
 import { eq } from "drizzle-orm";
+import { statsHash } from "@/server/compute/run-store";
 import { RunDetailSchema } from "@/shared/schemas/api-runs";
 import { RunSettingsBlockSchema, type RunSettingsBlock } from "@/shared/schemas/analysis";
 
@@ -20,7 +21,7 @@ test("bundle export, import into another lab and verified reproduction", async (
     const bundle = JSON.parse(b.text);
     assert.equal(bundle.format, "linger-run-bundle");
     assert.equal(bundle.spec.seed, "bundle-seed");
-    assert.match(original.statsHash, /^[0-9a-f]{64}$/);
+    assert.match(original.statsHash, /^v2:[0-9a-f]{64}$/);
     assert.equal(bundle.statsHash, original.statsHash);
     assert.equal(bundle.runtime.node, process.versions.node);
     assert.ok(bundle.runtime.v8);
@@ -40,6 +41,24 @@ test("bundle export, import into another lab and verified reproduction", async (
     assert.equal(RunDetailSchema.parse(reproduced).reproduction?.identical, true);
     assert.equal(reproduced.reproduction.engineMatches, true);
     assert.equal(reproduced.statsHash, original.statsHash);
+
+    // A bundle from before version 2 of the statistics hash (64 hex digits, the rows as text): the
+    // reproduction is hashed the same way, from its rows as stored, so the two compare.
+    const v1 = statsHash(t.ctx.db, r.body.id, 1);
+    assert.match(v1, /^[0-9a-f]{64}$/);
+    const imp1 = await other
+      .post(`/api/labs/${lab2.body.lab.id}/bundles/import`)
+      .send({ bundle: { ...bundle, statsHash: v1 } });
+    assert.equal(imp1.status, 201, JSON.stringify(imp1.body));
+    const reproducedV1 = await waitForRun(other, imp1.body.id);
+    assert.equal(reproducedV1.statsHash, v1);
+    assert.equal(reproducedV1.reproduction.identical, true, reproducedV1.reproduction.message);
+    const wrongV1 = await other
+      .post(`/api/labs/${lab2.body.lab.id}/bundles/import`)
+      .send({ bundle: { ...bundle, statsHash: "f".repeat(64) } });
+    const differsV1 = await waitForRun(other, wrongV1.body.id);
+    assert.equal(differsV1.statsHash, v1, "a version 1 hash of the same rows");
+    assert.equal(differsV1.reproduction.identical, false);
 
     // A tampered bundle (different seed, same expected hash) is reported as different.
     const tampered = { ...bundle, engineVersion: "linger-engine 0.9.0", spec: { ...bundle.spec, seed: "other-seed" } };

@@ -91,7 +91,7 @@ test("a run interrupted by SIGKILL resumes after restart and equals an uninterru
       "reproduction",
     );
     assert.equal(repro.body.reproduction.identical, true, repro.body.reproduction.message);
-    assert.match(resumed.body.statsHash, /^[0-9a-f]{64}$/);
+    assert.match(resumed.body.statsHash, /^v2:[0-9a-f]{64}$/);
     assert.equal(repro.body.statsHash, resumed.body.statsHash);
   } finally {
     await server.stop();

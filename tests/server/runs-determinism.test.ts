@@ -41,8 +41,8 @@ test("a different seed changes the statistics, and firstDifference names where",
       .send(launchBody({ replicates: 100, seed: "seed-b" }));
     const da = await waitForRun(editor, a.body.id);
     const db = await waitForRun(editor, b.body.id);
-    assert.match(da.statsHash, /^[0-9a-f]{64}$/);
-    assert.match(db.statsHash, /^[0-9a-f]{64}$/);
+    assert.match(da.statsHash, /^v2:[0-9a-f]{64}$/);
+    assert.match(db.statsHash, /^v2:[0-9a-f]{64}$/);
     assert.notEqual(da.statsHash, db.statsHash);
     assert.match(firstDifference(t.ctx.db, a.body.id, b.body.id) ?? "", /^replicate 0/);
     assert.equal(firstDifference(t.ctx.db, a.body.id, a.body.id), null);

@@ -21,7 +21,7 @@ describe("runs through the real queue and pool", () => {
       assert.equal(done.status, "finished", done.statusReason);
       assert.equal(done.progress.replicatesDone, 150);
       assert.ok(done.eventsTotal > 0);
-      assert.match(done.statsHash, /^[0-9a-f]{64}$/);
+      assert.match(done.statsHash, /^v2:[0-9a-f]{64}$/);
       // responses keep the shared contract the web app parses them with
       RunDetailSchema.parse(done);
       // the 5 and 60 min pulses appear in the per-duration figures

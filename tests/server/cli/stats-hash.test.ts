@@ -27,7 +27,7 @@ test("the CLI and the server give the same statistics hash for the same spec and
     const done = await waitForRun(editor, r.body.id);
     assert.equal(done.status, "finished");
     const serverHash: string = done.statsHash;
-    assert.match(serverHash, /^[0-9a-f]{64}$/);
+    assert.match(serverHash, /^v2:[0-9a-f]{64}$/);
 
     // The spec exactly as the server stored and ran it.
     const row = t.ctx.db.select().from(schema.runs).where(eq(schema.runs.id, r.body.id)).get()!;
@@ -43,7 +43,7 @@ test("the CLI and the server give the same statistics hash for the same spec and
     runCli(path.join(dir, "two"), ["--threads", "2"]);
     const cliHash = JSON.parse(readFileSync(path.join(dir, "one", "summary.json"), "utf8")).statsHash;
     const cliHash2 = JSON.parse(readFileSync(path.join(dir, "two", "summary.json"), "utf8")).statsHash;
-    assert.match(cliHash, /^[0-9a-f]{64}$/);
+    assert.match(cliHash, /^v2:[0-9a-f]{64}$/);
     assert.equal(cliHash, serverHash);
     assert.equal(cliHash2, serverHash);
 
@@ -58,7 +58,7 @@ test("the CLI and the server give the same statistics hash for the same spec and
     // And the hash does depend on the seed: another seed through the CLI gives another hash.
     runCli(path.join(dir, "other"), ["--seed", "another-seed"]);
     const other = JSON.parse(readFileSync(path.join(dir, "other", "summary.json"), "utf8")).statsHash;
-    assert.match(other, /^[0-9a-f]{64}$/);
+    assert.match(other, /^v2:[0-9a-f]{64}$/);
     assert.notEqual(other, serverHash);
   } finally {
     await t.close();
