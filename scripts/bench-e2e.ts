@@ -145,7 +145,14 @@ export async function runEndToEndBench(
 
 type Measured = Omit<
   EndToEndResult,
-  "replicates" | "threads" | "client" | "engineSeconds" | "overheadRatio" | "engineCpuSeconds" | "cpuRatio" | "engineCpuByThread"
+  | "replicates"
+  | "threads"
+  | "client"
+  | "engineSeconds"
+  | "overheadRatio"
+  | "engineCpuSeconds"
+  | "cpuRatio"
+  | "engineCpuByThread"
 >;
 
 export async function throughServer(
