@@ -53,9 +53,14 @@ export function replicateFigures(
   const normalizeDuration = durationNormalizer();
   const durationSet = new Set<number>();
   const repSet = new Set<number>();
+  // records come in runs of one replicate and one duration: a value like the record before's is in already
+  let lastBin = NaN;
+  let lastRep = NaN;
   for (let i = 0; i < t.length; i++) {
-    durationSet.add(normalizeDuration(at(i, F.durationBin)));
-    repSet.add(at(i, F.replicate));
+    const bin = at(i, F.durationBin);
+    if (i === 0 || !Object.is(bin, lastBin)) durationSet.add(normalizeDuration((lastBin = bin)));
+    const rep = at(i, F.replicate);
+    if (i === 0 || !Object.is(rep, lastRep)) repSet.add((lastRep = rep));
   }
   const durations = [...durationSet].sort((a, b) => a - b);
   const col = new Map(durations.map((d, i) => [d, i]));
@@ -64,11 +69,22 @@ export function replicateFigures(
   const counted = reps.map(() => durations.map(() => 0));
   const passed = reps.map(() => durations.map(() => 0));
   const delays: number[][] = reps.map(() => []);
+  // the last record's replicate row and duration column reused (a Map lookup per record was most of the loop)
+  let nextRep = NaN;
+  let nextRow: number | undefined;
+  let nextBin = NaN;
+  let nextCol = -1;
+  let nextDuration = NaN;
   for (let k = 0; k < t.length; k++) {
-    const i = row.get(at(k, F.replicate));
+    const rep = at(k, F.replicate);
+    if (k === 0 || !Object.is(rep, nextRep)) nextRow = row.get((nextRep = rep));
+    const i = nextRow;
     if (i === undefined || at(k, F.excluded) === 1) continue;
-    const d = normalizeDuration(at(k, F.durationBin));
-    const j = col.get(d)!;
+    const bin = at(k, F.durationBin);
+    if (nextCol < 0 || !Object.is(bin, nextBin))
+      nextCol = col.get((nextDuration = normalizeDuration((nextBin = bin))))!;
+    const d = nextDuration;
+    const j = nextCol;
     counted[i][j]++;
     if (at(k, F.passed) === 1) passed[i][j]++;
     const delay = at(k, F.delay);
