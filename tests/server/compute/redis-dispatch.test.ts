@@ -266,7 +266,7 @@ describe("distributed mode (BullMQ on Redis)", { skip: skip ?? false, timeout: 3
       const hashes = await sweepHashes(t);
       assert.equal(hashes.length, 2);
       assert.ok(
-        hashes.every((h) => /^[0-9a-f]{16,}$/.test(h)),
+        hashes.every((h) => /^v2:[0-9a-f]{64}$/.test(h)),
         JSON.stringify(hashes),
       );
       assert.deepEqual(hashes, embeddedSweep);
