@@ -10,7 +10,7 @@ import type Database from "better-sqlite3";
 import type { Db } from "@/db/client";
 import { schema } from "@/db/client";
 import type { PulseStat, RunSpec } from "@/shared/schemas/run-spec";
-import { PULSE_FIELDS, type PackedPulseStats } from "@/sim/engine/pulse-columns";
+import { PULSE_FIELDS, packPulseStats, type PackedPulseStats } from "@/sim/engine/pulse-columns";
 import { createPulseWriter, readPulseStats } from "./pulse-store";
 
 /** A local copy: under tsx an imported binding is read through a getter at every use. */
@@ -211,6 +211,21 @@ function statsHasherV2() {
   const replicates = createHash("sha256");
   const pulses = createHash("sha256");
   const widths = createHash("sha256");
+  /**
+   * addPulses of the records of packed columns (unpackPulseStats(packed).map(pulseAsStored)), without the
+   * records: flags as 0/1 (1 only for 1), non-finite widths as NaN (their JSON round trip makes them null).
+   */
+  const addPackedPulses = (packed: PackedPulseStats) => {
+    const a = packed.numbers.slice();
+    for (let o = 0; o < a.length; o += FIELD_COUNT) {
+      a[o + 5] = a[o + 5] === 1 ? 1 : 0;
+      a[o + 6] = a[o + 6] === 1 ? 1 : 0;
+    }
+    const w = packed.widths.slice();
+    for (let j = 0; j < w.length; j++) if (!Number.isFinite(w[j])) w[j] = NaN;
+    pulses.update(canonicalBytes(a));
+    widths.update(canonicalBytes(w));
+  };
   return {
     addReplicates(rows: readonly ReplicateRow[]) {
       const a = new Float64Array(rows.length * 5);
@@ -225,47 +240,22 @@ function statsHasherV2() {
     },
     /** Records as readPulseStats gives them (null as NaN). */
     addPulses(records: readonly PulseStat[]) {
-      const a = new Float64Array(records.length * FIELD_COUNT);
-      let nw = 0;
-      for (const p of records) nw += p.widths.length;
-      const w = new Float64Array(nw);
-      let k = 0;
+      // packPulseStats writes a null peak, time to peak, baseline or width as 0; here it is NaN, as in the columns
+      const packed = packPulseStats(records);
+      const a = packed.numbers;
+      let w = 0;
       records.forEach((p, i) => {
         const o = i * FIELD_COUNT;
-        a[o] = p.replicate;
-        a[o + 1] = p.pulseIndex;
-        a[o + 2] = p.on;
-        a[o + 3] = p.off;
-        a[o + 4] = p.durationBin;
-        a[o + 5] = p.excluded ? 1 : 0;
-        a[o + 6] = p.passed ? 1 : 0;
-        a[o + 7] = p.delay ?? NaN;
-        a[o + 8] = p.offDelay ?? NaN;
-        a[o + 9] = p.peak ?? NaN;
-        a[o + 10] = p.timeToPeak ?? NaN;
-        a[o + 11] = p.fwhm ?? NaN;
-        a[o + 12] = p.widths.length;
-        a[o + 13] = p.baseline ?? NaN;
-        for (const x of p.widths) w[k++] = x ?? NaN;
+        if (isNull(p.peak)) a[o + 9] = NaN;
+        if (isNull(p.timeToPeak)) a[o + 10] = NaN;
+        if (isNull(p.baseline)) a[o + 13] = NaN;
+        for (const x of p.widths)
+          if (isNull(x)) packed.widths[w++] = NaN;
+          else w++;
       });
-      pulses.update(canonicalBytes(a));
-      widths.update(canonicalBytes(w));
+      addPackedPulses(packed);
     },
-    /**
-     * addPulses of the records of packed columns (unpackPulseStats(packed).map(pulseAsStored)), without the
-     * records: flags as 0/1 (1 only for 1), non-finite widths as NaN (their JSON round trip makes them null).
-     */
-    addPackedPulses(packed: PackedPulseStats) {
-      const a = packed.numbers.slice();
-      for (let o = 0; o < a.length; o += FIELD_COUNT) {
-        a[o + 5] = a[o + 5] === 1 ? 1 : 0;
-        a[o + 6] = a[o + 6] === 1 ? 1 : 0;
-      }
-      const w = packed.widths.slice();
-      for (let j = 0; j < w.length; j++) if (!Number.isFinite(w[j])) w[j] = NaN;
-      pulses.update(canonicalBytes(a));
-      widths.update(canonicalBytes(w));
-    },
+    addPackedPulses,
     digest(series: { species: string; kind: string; values: Uint8Array }[]): string {
       const h = createHash("sha256").update("linger statistics v2\n");
       h.update(replicates.digest()).update(pulses.digest()).update(widths.digest());
@@ -284,6 +274,9 @@ function digestSeries(h: Hash, series: { species: string; kind: string; values: 
   for (const s of sorted) h.update(`${s.species}/${s.kind}:`).update(s.values);
   return h;
 }
+
+/** A figure read back from SQLite as null (the record types say number). */
+const isNull = (x: unknown) => x === null || x === undefined;
 
 const LITTLE_ENDIAN = new Uint8Array(new Float64Array([1]).buffer)[7] === 0x3f;
 
