@@ -25,3 +25,20 @@ export async function firstLabAndTemplate(
   if (!template) throw new Error(`no template "${key}"`);
   return { labId: labs.items[0].id, template };
 }
+
+/**
+ * A sweep of the ring template too large to finish before a test cancels it (3 points of 50,000 replicates over
+ * 2,000 min): the body to POST to /api/labs/:labId/sweeps.
+ */
+export function ringSweepToCancel(ring: { circuit: unknown; inputSignal: string }, name: string, seed: string) {
+  return {
+    name,
+    base: {
+      circuit: ring.circuit,
+      program: { kind: "ladder", start: 10, durations: [5, 60], repeats: 1, gap: 60 },
+      inputSignal: ring.inputSignal,
+      settings: { endTimeMinutes: 2000, gridStepMinutes: 1, replicates: 50_000, seed, threshold: { value: 100 } },
+    },
+    axes: [{ parameter: "rate(makeA)", grid: { from: 20, to: 200, count: 3, scale: "log" } }],
+  };
+}

@@ -16,7 +16,7 @@ import assert from "node:assert/strict";
 import type { Page } from "playwright-core";
 import { startTestServer, DEMO_PASSWORD, type TestServer } from "@/tests/helpers/test-server";
 import { launchBrowser, screenshot, PHONE, WIDE, type Viewport, assertAccessible } from "./browser";
-import { firstLabAndTemplate, signIn, DEMO_EDITOR } from "./flows";
+import { firstLabAndTemplate, ringSweepToCancel, signIn, DEMO_EDITOR } from "./flows";
 import { ensureWebBuild } from "@/scripts/build-web";
 import { DEMO_SWEEP_NAME } from "@/server/demo/runs";
 
@@ -277,22 +277,7 @@ describe(`cancel and resume a sweep at ${PHONE.name} size`, { timeout: 300_000 }
       // Large enough to be still computing when the page asks to cancel it (the test cancels it at the end).
       const launched = await page.request.post(api(`/labs/${labId}/sweeps`), {
         timeout: 120_000,
-        data: {
-          name: "Ring scan to cancel",
-          base: {
-            circuit: ring.circuit,
-            program: { kind: "ladder", start: 10, durations: [5, 60], repeats: 1, gap: 60 },
-            inputSignal: ring.inputSignal,
-            settings: {
-              endTimeMinutes: 2000,
-              gridStepMinutes: 1,
-              replicates: 50_000,
-              seed: "cancel-me",
-              threshold: { value: 100 },
-            },
-          },
-          axes: [{ parameter: "rate(makeA)", grid: { from: 20, to: 200, count: 3, scale: "log" } }],
-        },
+        data: ringSweepToCancel(ring, "Ring scan to cancel", "cancel-me"),
       });
       assert.equal(launched.status(), 201, await launched.text());
       sweepId = ((await launched.json()) as { id: string }).id;

@@ -21,7 +21,7 @@ import { join, resolve } from "node:path";
 import type { Page } from "playwright-core";
 import { startTestServer, DEMO_PASSWORD, type TestServer } from "@/tests/helpers/test-server";
 import { launchBrowser, screenshot, PHONE, WIDE, type Viewport, assertAccessible } from "./browser";
-import { signIn, firstLabAndTemplate, DEMO_EDITOR } from "./flows";
+import { signIn, firstLabAndTemplate, ringSweepToCancel, DEMO_EDITOR } from "./flows";
 import { ensureWebBuild } from "@/scripts/build-web";
 import { DEMO_TRACES_NAME, DEMO_UPLOAD_OPTIONS } from "@/server/demo/traces";
 import { DEMO_SWEEP_NAME } from "@/server/demo/runs";
@@ -74,22 +74,7 @@ for (const vp of [PHONE, WIDE] as Viewport[]) {
         const { labId, template: ring } = await firstLabAndTemplate(page, server.url, "ring");
         const launched = await page.request.post(`${server.url}/api/labs/${labId}/sweeps`, {
           timeout: 120_000,
-          data: {
-            name: cancelledSweep,
-            base: {
-              circuit: ring.circuit,
-              program: { kind: "ladder", start: 10, durations: [5, 60], repeats: 1, gap: 60 },
-              inputSignal: ring.inputSignal,
-              settings: {
-                endTimeMinutes: 2000,
-                gridStepMinutes: 1,
-                replicates: 50_000,
-                seed: `cancel-${tag}`,
-                threshold: { value: 100 },
-              },
-            },
-            axes: [{ parameter: "rate(makeA)", grid: { from: 20, to: 200, count: 3, scale: "log" } }],
-          },
+          data: ringSweepToCancel(ring, cancelledSweep, `cancel-${tag}`),
         });
         assert.equal(launched.status(), 201, await launched.text());
         const sweepId = ((await launched.json()) as { id: string }).id;

@@ -86,6 +86,12 @@ export function launchBody(
   };
 }
 
+/** A sweep's base: launchBody's circuit, program, input signal and settings (no name). */
+export function sweepBase(opts: Parameters<typeof launchBody>[0] = {}) {
+  const { circuit, program, inputSignal, settings } = launchBody(opts);
+  return { circuit, program, inputSignal, settings };
+}
+
 export async function waitForRun(agent: Agent, id: string, timeoutMs = 120_000): Promise<any> {
   const t0 = Date.now();
   for (;;) {

@@ -1,7 +1,7 @@
 import { test } from "node:test";
 import assert from "node:assert/strict";
 import { makeTestContext, signIn } from "@/tests/helpers/test-app";
-import { launchBody, realQueue } from "@/tests/helpers/run-helpers";
+import { realQueue, sweepBase } from "@/tests/helpers/run-helpers";
 import { SweepDetailSchema, SweepListPageSchema } from "@/shared/schemas/api-runs";
 import { REGIME_LABEL_VALUES } from "@/shared/schemas/regime";
 import { schema } from "@/db/client";
@@ -23,10 +23,10 @@ test("a one-parameter sweep computes every point with its own seed and stores pe
   try {
     const editor = await signIn(t.app, "editor@example.org");
     const labId = t.demoLab!.id;
-    const base = launchBody({ replicates: 100, seed: "sweep-seed" });
+    const base = sweepBase({ replicates: 100, seed: "sweep-seed" });
     const r = await editor.post(`/api/labs/${labId}/sweeps`).send({
       name: "hold strength",
-      base: { circuit: base.circuit, program: base.program, inputSignal: base.inputSignal, settings: base.settings },
+      base,
       axes: [{ parameter: "K(makeZ,hldB)", grid: { from: 25, to: 400, count: 3, scale: "log" } }],
     });
     assert.equal(r.status, 201, JSON.stringify(r.body));
@@ -68,13 +68,7 @@ test("a cancelled sweep resumes and finishes; bad axes get a 400 naming the fiel
   try {
     const editor = await signIn(t.app, "editor@example.org");
     const labId = t.demoLab!.id;
-    const base = launchBody({ replicates: 100 });
-    const baseBody = {
-      circuit: base.circuit,
-      program: base.program,
-      inputSignal: base.inputSignal,
-      settings: base.settings,
-    };
+    const baseBody = sweepBase({ replicates: 100 });
     const bad = await editor
       .post(`/api/labs/${labId}/sweeps`)
       .send({ name: "x", base: baseBody, axes: [{ parameter: "K(noSuch,hldB)", values: [1, 2] }] });
@@ -118,13 +112,7 @@ test("the sweep list counts finished points apart from every ended one (pointsFi
   try {
     const editor = await signIn(t.app, "editor@example.org");
     const labId = t.demoLab!.id;
-    const base = launchBody({ replicates: 100 });
-    const baseBody = {
-      circuit: base.circuit,
-      program: base.program,
-      inputSignal: base.inputSignal,
-      settings: base.settings,
-    };
+    const baseBody = sweepBase({ replicates: 100 });
     const launch = async (name: string, values: number[]) => {
       const r = await editor
         .post(`/api/labs/${labId}/sweeps`)
