@@ -1,7 +1,7 @@
 /**
  * Peak memory of the finalising thread's work for a large run, in one process
  * (docs/benchmarks.md, "Peak memory"): ingest chunks as the finalising thread
- * does (stored form, hash lines, records kept), then the summary and the
+ * does (stored form, hash, records kept), then the summary and the
  * per-replicate figures. "records" keeps them as objects with the frozen
  * record-based code (tests/helpers/summary-by-records.ts), "table" as columns
  * (sim/analysis/pulse-table.ts); both print the same summary hash. The same

@@ -151,10 +151,10 @@ function newReduction(spec: IngestTask["spec"], chunks: number): Reduction {
 }
 
 /**
- * One chunk into the reduction: its pulse columns put in (replicate, pulse) order, their hash lines
- * rendered from the columns and the columns kept as SQLite gives the records back, without an object
- * per record (the same lines and numbers as sorting unpackPulseStats(pulses).map(pulseAsStored) and
- * packing them: tests/server/compute/pulse-lines.test.ts).
+ * One chunk into the reduction: its pulse columns put in (replicate, pulse) order, hashed as columns and
+ * kept as SQLite gives the records back, without an object per record (the same hash and numbers as
+ * sorting unpackPulseStats(pulses).map(pulseAsStored) and packing them: tests/server/compute/pulse-lines.test.ts),
+ * and the summary's samples of the chunk sorted (createRunSummaryBuilder).
  */
 function reduceOne(r: Reduction, replicates: StoredReplicate[], pulses: PackedPulseStats, grid: GridPartial) {
   replicates.sort((a, b) => a.replicate - b.replicate);
