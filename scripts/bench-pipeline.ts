@@ -6,7 +6,9 @@
  *   engine, 1 thread          Linger events/s over the C reference (scripts/bench/reference.ts;
  *                             its JS twin without `cc`), benchmark circuit, 1,000 replicates
  *   1 -> N threads            Linger on a pool of N over a pool of 1, against N C processes at once
- *                             over one (N = cores)
+ *                             over one (N = cores); and on larger runs: the engine-alone runs of the
+ *                             end-to-end figures below (10,000 and 100,000 replicates on a pool of N)
+ *                             over the 1-thread rate of the same run (its median)
  *   10,000 end to end         replicates through a real server (everything stored, run finalised)
  *                             over the engine alone on a pool of the same size (target <= 1.10),
  *                             one client watching the run as the app does (scripts/bench-e2e.ts)
@@ -46,6 +48,11 @@ export interface PipelineBench {
   referenceEventsPerSecond: Spread;
   /** Pool of N over pool of 1 (events/s). */
   lingerScaling: Spread;
+  /**
+   * The engine-alone runs of the end-to-end figures (pool of N: 10,000 replicates, and 100,000 with --full), events/s
+   * over the median 1-thread rate above: 1 -> N threads on larger runs.
+   */
+  lingerScalingLarge: { replicates: number; ratios: number[] }[];
   /** N reference processes at once over one (null without cc). */
   referenceScaling: Spread | null;
   endToEnd10k: { overheadRatio: Spread; runs: EndToEndResult[] };
@@ -161,6 +168,12 @@ export async function runPipelineBench(
       databaseMbPer100k: run.databaseMb,
     };
   }
+  const oneThread = spread(l1).median;
+  const over1 = (runs: EndToEndResult[]) => runs.map((r) => r.events / r.engineSeconds / oneThread);
+  const lingerScalingLarge = [
+    { replicates: 10_000, ratios: over1([...e2eRuns, ...(endToEnd10kUnderLoad ? [endToEnd10kUnderLoad] : [])]) },
+    ...(endToEnd100k ? [{ replicates: 100_000, ratios: over1([endToEnd100k.run]) }] : []),
+  ];
   let referenceName: string = ref.kind;
   if (ref.kind.startsWith("C")) {
     try {
@@ -177,6 +190,7 @@ export async function runPipelineBench(
     lingerEventsPerSecond1: spread(l1),
     referenceEventsPerSecond: spread(r1),
     lingerScaling: spread(lScale),
+    lingerScalingLarge,
     referenceScaling: rScale.length ? spread(rScale) : null,
     endToEnd10k: { overheadRatio: spread(e2eRuns.map((r) => r.overheadRatio)), runs: e2eRuns },
     endToEnd10kUnderLoad,
@@ -208,6 +222,10 @@ export function formatPipelineBench(b: PipelineBench): string {
     `| 1 -> ${b.threads} threads | ${range(b.lingerScaling)} | ${b.referenceScaling ? `${b.threads} C processes: ${range(b.referenceScaling)}` : "n/a (no cc)"} | ${
       b.referenceScaling ? `${f(b.lingerScaling.median / b.referenceScaling.median)} of the reference's scaling` : "-"
     } (target >= 1.7x) |`,
+    ...b.lingerScalingLarge.map(
+      (l) =>
+        `| 1 -> ${b.threads} threads, ${l.replicates.toLocaleString("en")} replicates (the engine-alone runs below over the 1-thread rate) | ${l.ratios.map((x) => `${f(x)}x`).join(", ")} | | (target >= 1.7x) |`,
+    ),
     `| 10,000 replicates through the server / engine alone (${b.threads} threads) | ${b.endToEnd10k.runs
       .map((r) => `${f(r.seconds)} s`)
       .join(", ")} | engine alone ${b.endToEnd10k.runs.map((r) => `${f(r.engineSeconds)} s`).join(", ")} | ${range(
