@@ -128,7 +128,7 @@ export type RunSummaryBuilder = ReturnType<typeof createRunSummaryBuilder>;
  * computes: each chunk's samples are sorted as they come and merged with the earlier ones, and finish only
  * merges what is left. Every figure of docs/metrics.md takes sorted samples (their order of summation is the
  * sorted one) or sums in record order, so the summary is byte for byte summarizeRun's for any split into
- * chunks (tests/sim/analysis/summary-builder.test.ts); the checks summarizeRun makes (NaN samples,
+ * chunks (tests/sim/analysis/pulse-table.test.ts); the checks summarizeRun makes (NaN samples,
  * non-finite delays) are made at finish, in its order, with its messages.
  */
 export function createRunSummaryBuilder(opts: { windowMinutes: number; endTimeMinutes: number }) {
