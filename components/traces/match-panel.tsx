@@ -2,7 +2,9 @@
  * Match a trace set against a finished run or a sweep of the lab: choose the
  * target and the tolerance (fixed before any distance is computed; default
  * the closest 5% of points), run, and read the result. Earlier matches of the
- * set can be reopened.
+ * set can be reopened. A sweep with no finished point (say, cancelled before
+ * any point finished) is not offered: there is nothing to match against, and
+ * the server would refuse it (409 sweep_not_finished); a line names it instead.
  */
 import React, { useState } from "react";
 import { View } from "react-native";
@@ -83,6 +85,8 @@ export function MatchPanel({ traceSet, canEdit }: { traceSet: TraceSetDetail; ca
   const finishedRuns = (runs.data ?? []).filter((r) => isFinishedRunStatus(r.status) && !r.sweepId);
   const pendingRuns = (runs.data ?? []).filter((r) => (r.status === "running" || r.status === "queued") && !r.sweepId);
   const sweepList = sweeps.data ?? [];
+  const matchableSweeps = sweepList.filter((s) => s.pointsFinished > 0);
+  const unmatchableSweeps = sweepList.filter((s) => s.pointsFinished === 0);
   // Names of the runs shown matches were against, wherever they are in the paged list.
   const matchedRuns = useRunsByIds(traceSet.matches.flatMap((m) => (m.runId ? [m.runId] : [])));
   // ...and of the sweeps they were against (the earlier matches shown and the one open), loaded or not.
@@ -148,20 +152,31 @@ export function MatchPanel({ traceSet, canEdit }: { traceSet: TraceSetDetail; ca
             <LoadingState label="Loading sweeps" />
           ) : sweeps.error ? (
             <ErrorState error={sweeps.error} onRetry={() => sweeps.refetch()} />
-          ) : sweepList.length ? (
+          ) : matchableSweeps.length ? (
             <Choice
               label="Sweep"
               testID="match-sweep"
               value={v.sweepId}
-              options={sweepList.map((s) => ({
+              options={matchableSweeps.map((s) => ({
                 value: s.id,
                 label: `${s.name} (${sweepProgress(s).caption})`,
               }))}
               onChange={(x) => set("sweepId", x)}
             />
           ) : (
-            <Text tone="muted">No sweep in this lab yet.</Text>
+            <Text tone="muted">
+              {!sweepList.length
+                ? "No sweep in this lab yet."
+                : sweeps.hasMore
+                  ? "No sweep with a finished point among the sweeps loaded so far."
+                  : "No sweep with a finished point in this lab yet."}
+            </Text>
           )}
+          {v.target === "sweep" && unmatchableSweeps.length ? (
+            <Text variant="caption" tone="muted" testID="match-sweeps-unmatchable">
+              {`Not listed, with no finished point to match against: ${unmatchableSweeps.map((s) => s.name).join(", ")}.`}
+            </Text>
+          ) : null}
           {v.target === "run" && runs.data ? <LoadMore list={runs} noun="runs" testID="match-runs-more" /> : null}
           {v.target === "sweep" && sweeps.data ? (
             <LoadMore list={sweeps} noun="sweeps" testID="match-sweeps-more" />

@@ -7,8 +7,9 @@
  * (DEMO_UPLOAD_OPTIONS), preview, save, see the headline cards and the chart,
  * match against the finished demo run "Tank sensor, hold on Duration ladder"
  * and see the distances and the overlay chart (the panel's sweep choices count
- * points as the sweep screens do: a sweep cancelled at the start reads "0 of 3
- * points finished, 3 cancelled or failed"); delete (at once: the API
+ * points as the sweep screens do, "9 of 9 points" for the demo sweep, and a
+ * sweep cancelled at the start, with no finished point to match against, is
+ * not offered but named as not listed); delete (at once: the API
  * answers 404 for the set) and undo (the server restores it). axe-core runs
  * on each screen (no serious or critical violation), as do the 44 px
  * touch-target and label checks. Screenshots go to test-results/screenshots/.
@@ -182,19 +183,25 @@ for (const vp of [PHONE, WIDE] as Viewport[]) {
         await assertAccessible(page, "uploaded set detail");
         await screenshot(page, `traces-${tag}-05-detail`);
 
-        // The sweep choices count points as the sweep screens do: a cancelled sweep's points are not finished.
+        // The sweep choices count points as the sweep screens do; a sweep with no finished point (the one
+        // cancelled at once) is not offered, since the server refuses it (409), but named as not listed.
         const panel = page.getByTestId("match-panel");
         await panel.getByRole("radio", { name: "A sweep", exact: true }).click();
-        await panel
-          .getByRole("radio", { name: `${DEMO_SWEEP_NAME} (9 of 9 points)`, exact: true })
-          .waitFor({ timeout: 360_000 });
-        await panel
-          .getByRole("radio", {
-            name: `${cancelledSweep} (0 of 3 points finished, 3 cancelled or failed)`,
-            exact: true,
-          })
-          .waitFor();
+        const demoSweep = panel.getByRole("radio", { name: `${DEMO_SWEEP_NAME} (9 of 9 points)`, exact: true });
+        await demoSweep.waitFor({ timeout: 360_000 });
+        const unmatchable = panel.getByTestId("match-sweeps-unmatchable");
+        await unmatchable.getByText(cancelledSweep, { exact: false }).waitFor();
+        assert.match(await unmatchable.innerText(), /no finished point to match against/);
+        assert.equal(
+          await panel.getByRole("radio", { name: new RegExp(`^${cancelledSweep} `) }).count(),
+          0,
+          "the cancelled sweep is not among the choices",
+        );
+        assert.doesNotMatch(await panel.getByTestId("match-sweep").innerText(), new RegExp(cancelledSweep));
         assert.doesNotMatch(await panel.getByTestId("match-sweep").innerText(), /points done/);
+        // The demo sweep, with finished points, can still be chosen.
+        await demoSweep.click();
+        assert.equal(await demoSweep.getAttribute("aria-checked"), "true");
         await assertAccessible(page, "match panel sweep choices");
         await panel.getByRole("radio", { name: "A finished run", exact: true }).click();
 
