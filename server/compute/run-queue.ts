@@ -16,6 +16,7 @@ import type Database from "better-sqlite3";
 import type { Db } from "@/db/client";
 import { schema } from "@/db/client";
 import type { RunSpec } from "@/shared/schemas/run-spec";
+import { ENDED_RUN_STATUSES } from "@/shared/schemas/api-runs";
 import { resolve } from "node:path";
 import { Piscina } from "piscina";
 import { chunkLayout, gridTimes } from "@/sim";
@@ -101,7 +102,7 @@ export interface RunQueueOptions {
   log?: (msg: string) => void;
 }
 
-const END_STATES = new Set(["finished", "failed", "capped", "cancelled"]);
+const END_STATES: ReadonlySet<string> = new Set(ENDED_RUN_STATUSES);
 
 export function createIdleQueue(): RunQueue {
   return {
