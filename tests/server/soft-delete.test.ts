@@ -6,12 +6,11 @@
 import { test, before, after } from "node:test";
 import assert from "node:assert/strict";
 import { makeTestContext, signIn, type TestApp } from "@/tests/helpers/test-app";
-import { launchBody } from "@/tests/helpers/run-helpers";
+import { launchBody, shortLadder } from "@/tests/helpers/run-helpers";
 import { allRoutes } from "@/server/routes";
 import { seedDemoTraces } from "@/server/demo/traces";
 import { purgeDeleted } from "@/server/services/runs.service";
 import { API_LIMITS } from "@/shared/schemas/api-runs";
-import { shortLadder } from "@/tests/helpers/run-helpers";
 import { mutualRepression } from "@/tests/sim/regimes/circuits";
 
 let t: TestApp;
